@@ -1,0 +1,117 @@
+/**
+ * Shared data shapes of the numerical core. Plain objects and typed arrays only, so every
+ * function runs unchanged in a worker thread, a test, the command line and the server.
+ */
+
+/**
+ * Respondents × items, stored column-major: the value of item `j` for respondent `i` sits at
+ * `data[j * rows + i]`. A missing answer is `NaN`. Values are already recoded (reverse-keyed
+ * items flipped, missing codes turned into `NaN`) before they reach the core.
+ */
+export interface ItemMatrix {
+  /** Number of respondents. */
+  readonly rows: number;
+  /** Number of items. */
+  readonly columns: number;
+  /** `rows * columns` values, column-major, `NaN` for missing. */
+  readonly data: Float64Array;
+}
+
+/**
+ * A square matrix of order `order`, stored row-major in full (both triangles): element
+ * (i, j) at `data[i * order + j]`. Used for correlation, covariance and count matrices.
+ */
+export interface SquareMatrix {
+  readonly order: number;
+  readonly data: Float64Array;
+}
+
+/** Missing-data policy for anything computed from pairs of items. */
+export type MissingPolicy = 'pairwise' | 'listwise';
+
+/** Correlation coefficient family. */
+export type CorrelationMethod = 'pearson' | 'spearman' | 'polychoric';
+
+/**
+ * A numerical condition worth telling the analyst about (a constant item, an exact
+ * dependency, a repaired matrix). Conditions are results, not exceptions.
+ */
+export interface NumericalNotice {
+  /** kebab-case code, e.g. `constant-item`, `exact-dependency`, `matrix-repaired`. */
+  readonly code: string;
+  /** Indices (0-based columns) of the items concerned. */
+  readonly items: readonly number[];
+  /** One plain sentence. */
+  readonly message: string;
+}
+
+/** Builds an ItemMatrix from columns of equal length (copies the values). */
+export function itemMatrixFromColumns(columns: readonly ArrayLike<number>[]): ItemMatrix {
+  if (columns.length === 0) throw new RangeError('itemMatrixFromColumns: at least one column is required');
+  const rows = columns[0].length;
+  const data = new Float64Array(rows * columns.length);
+  columns.forEach((column, j) => {
+    if (column.length !== rows) {
+      throw new RangeError(`itemMatrixFromColumns: column ${j} has ${column.length} values, expected ${rows}`);
+    }
+    for (let i = 0; i < rows; i++) data[j * rows + i] = column[i];
+  });
+  return { rows, columns: columns.length, data };
+}
+
+/** Builds an ItemMatrix from rows of equal length (respondent-major input, e.g. a parsed CSV). */
+export function itemMatrixFromRows(rowValues: readonly ArrayLike<number>[]): ItemMatrix {
+  if (rowValues.length === 0) throw new RangeError('itemMatrixFromRows: at least one row is required');
+  const rows = rowValues.length;
+  const columns = rowValues[0].length;
+  const data = new Float64Array(rows * columns);
+  rowValues.forEach((row, i) => {
+    if (row.length !== columns) {
+      throw new RangeError(`itemMatrixFromRows: row ${i} has ${row.length} values, expected ${columns}`);
+    }
+    for (let j = 0; j < columns; j++) data[j * rows + i] = row[j];
+  });
+  return { rows, columns, data };
+}
+
+/** The values of one item as a view (no copy) into the matrix. */
+export function itemColumn(matrix: ItemMatrix, j: number): Float64Array {
+  return matrix.data.subarray(j * matrix.rows, (j + 1) * matrix.rows);
+}
+
+/** Keeps only the listed items (by 0-based index), in the order given. */
+export function selectItems(matrix: ItemMatrix, indices: readonly number[]): ItemMatrix {
+  const data = new Float64Array(matrix.rows * indices.length);
+  indices.forEach((j, k) => data.set(itemColumn(matrix, j), k * matrix.rows));
+  return { rows: matrix.rows, columns: indices.length, data };
+}
+
+/** Keeps only the listed respondents (by 0-based index), in the order given. */
+export function selectRespondents(matrix: ItemMatrix, indices: readonly number[]): ItemMatrix {
+  const rows = indices.length;
+  const data = new Float64Array(rows * matrix.columns);
+  for (let j = 0; j < matrix.columns; j++) {
+    const source = j * matrix.rows;
+    const target = j * rows;
+    for (let k = 0; k < rows; k++) data[target + k] = matrix.data[source + indices[k]];
+  }
+  return { rows, columns: matrix.columns, data };
+}
+
+/** A square matrix from nested arrays (checks it is square). */
+export function squareMatrixFromRows(values: readonly (readonly number[])[]): SquareMatrix {
+  const order = values.length;
+  const data = new Float64Array(order * order);
+  values.forEach((row, i) => {
+    if (row.length !== order) throw new RangeError(`squareMatrixFromRows: row ${i} has ${row.length} values, expected ${order}`);
+    for (let j = 0; j < order; j++) data[i * order + j] = row[j];
+  });
+  return { order, data };
+}
+
+/** Nested arrays (for JSON) from a square matrix. */
+export function squareMatrixToRows(matrix: SquareMatrix): number[][] {
+  const out: number[][] = [];
+  for (let i = 0; i < matrix.order; i++) out.push(Array.from(matrix.data.subarray(i * matrix.order, (i + 1) * matrix.order)));
+  return out;
+}
