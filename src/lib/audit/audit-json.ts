@@ -1,0 +1,130 @@
+/**
+ * The audit result, version 1 (`paredown.audit/1`), as TypeScript types. One shape for every
+ * way an audit leaves the product: the command line, the API and the JSON download
+ * (../shared/docs/audit-json.md is the contract). Keys may be added; none may be renamed or
+ * dropped without a new schema version. A value that does not exist is `null` with a matching
+ * entry in `warnings`, never NaN.
+ */
+import type { CorrelationMethod, MissingPolicy } from '../stats/types';
+
+export const AUDIT_SCHEMA = 'paredown.audit/1' as const;
+
+export interface AuditSettingsJson {
+  method: CorrelationMethod;
+  missing: MissingPolicy;
+  outcome: string | null;
+  seed: number;
+  bootstrap: number;
+  /** Engine thresholds and the designer's constraints (added keys, see the engine's docs). */
+  [extra: string]: unknown;
+}
+
+export interface AuditItemJson {
+  id: string;
+  scale: string | null;
+  reverse: boolean;
+  n: number;
+  mean: number | null;
+  sd: number | null;
+  missingRate: number;
+  floor: number | null;
+  ceiling: number | null;
+  vif: number | null;
+  tolerance: number | null;
+  r2: number | null;
+  msa: number | null;
+  itemRest: number | null;
+  alphaIfDeleted: number | null;
+  topPartner: { id: string; r: number } | null;
+  [extra: string]: unknown;
+}
+
+export interface AuditWarningJson {
+  code: string;
+  items: string[];
+  message: string;
+}
+
+export interface AuditScaleJson {
+  id: string;
+  items: string[];
+  alpha: number | null;
+  alphaStd: number | null;
+  omegaTotal: number | null;
+  [extra: string]: unknown;
+}
+
+export interface AuditRecommendationJson {
+  cluster: string[];
+  keep: string;
+  actions: { item: string; action: 'drop' | 'merge' | 'reword' | 'keep'; into: string | null; [extra: string]: unknown }[];
+  evidence: { maxR: number | null; conditionIndex: number | null; vifBefore: number | null; vifAfter: number | null; [extra: string]: unknown };
+  stability: number | null;
+  reason: string;
+  [extra: string]: unknown;
+}
+
+export interface AuditAfterCutJson {
+  maxVif: number | null;
+  conditionNumber: number | null;
+  scales: { id: string; alpha: number | null; omegaTotal: number | null; items: number; [extra: string]: unknown }[];
+  itemsRemoved: number;
+  minutesSaved: number;
+  [extra: string]: unknown;
+}
+
+export interface AuditCoefficientJson {
+  term: string;
+  estimate: number;
+  se: number | null;
+  t: number | null;
+  p: number | null;
+  vif: number | null;
+  sst: number | null;
+  tolerance: number | null;
+  relativeWeight: number | null;
+  [extra: string]: unknown;
+}
+
+export interface AuditOutcomeModelJson {
+  outcome: string;
+  n: number;
+  r2: number;
+  adjR2: number | null;
+  ssr: number;
+  sigma: number | null;
+  coefficients: AuditCoefficientJson[];
+  [extra: string]: unknown;
+}
+
+export interface AuditJson {
+  schema: typeof AUDIT_SCHEMA;
+  settings: AuditSettingsJson;
+  input: { rows: number; respondentsUsed: number; respondentsExcluded: number; items: number; [extra: string]: unknown };
+  items: AuditItemJson[];
+  correlation: {
+    method: CorrelationMethod;
+    missing: MissingPolicy;
+    items: string[];
+    matrix: number[][];
+    n: number[][];
+    repaired: boolean;
+  };
+  eigenvalues: number[];
+  conditionNumber: number | null;
+  collinearity: {
+    columns: string[];
+    conditionIndices: number[];
+    varianceProportions: number[][];
+    rowsUsed: number;
+  } | null;
+  kmo: number | null;
+  bartlett: { chi2: number | null; df: number; p: number | null } | null;
+  parallelAnalysis: { observed: number[]; random95: number[]; suggested: number } | null;
+  scales: AuditScaleJson[];
+  recommendations: AuditRecommendationJson[];
+  afterCut: AuditAfterCutJson | null;
+  outcomeModel: AuditOutcomeModelJson | null;
+  warnings: AuditWarningJson[];
+  [extra: string]: unknown;
+}
