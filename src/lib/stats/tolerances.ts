@@ -5,6 +5,133 @@
 
 // ── Linear algebra, overlap and structure ──────────────────────────────────────────────
 
+/**
+ * An eigenvalue at or below this share of the largest one counts as zero: the matrix is
+ * singular, and the items loading on those eigenvectors are exactly dependent. It corresponds
+ * to a condition number of 1e6 for a correlation matrix, far beyond any meaningful VIF.
+ */
+export const EXACT_DEPENDENCY_RELATIVE_EIGENVALUE = 1e-12;
+/**
+ * An item takes part in an exact dependency when the length of its row in the null-space
+ * eigenvectors reaches this (an exact duplicate pair gives about 0.71; rounding gives ~1e-12).
+ */
+export const NULL_SPACE_MEMBERSHIP = 1e-6;
+/**
+ * An item whose standard deviation is at or below this share of its absolute mean (or exactly
+ * zero) is constant: what remains after centring is rounding, not variation.
+ */
+export const CONSTANT_ITEM_RELATIVE_SD = 1e-10;
+/** Ceiling on implicit QL iterations spent on one eigenvalue before non-convergence is declared. */
+export const EIGEN_MAX_ITERATIONS_PER_VALUE = 60;
+/**
+ * Belsley-Kuh-Welsch: the accurate path (Householder QR of the data, then the SVD of R) runs
+ * while rows × columns² stays at or below this; larger problems take the Gram-matrix path.
+ */
+export const BELSLEY_QR_WORK_LIMIT = 3e8;
+/**
+ * A singular value at or below this share of the largest counts as zero in Belsley-Kuh-Welsch
+ * (a condition index above 1e6). It is the square root of EXACT_DEPENDENCY_RELATIVE_EIGENVALUE,
+ * so both paths (the Gram path sees d², with noise near 1e-16 of the largest) agree.
+ */
+export const BELSLEY_SINGULAR_VALUE_RELATIVE = 1e-6;
+/** Condition index from which a near-dependency is strong (Belsley, Kuh & Welsch 1980). */
+export const CONDITION_INDEX_STRONG = 30;
+/** Condition index from which a near-dependency is moderate (Belsley, Kuh & Welsch 1980). */
+export const CONDITION_INDEX_MODERATE = 10;
+/** A variance-decomposition proportion at or above this puts a column in a near-dependency. */
+export const VARIANCE_PROPORTION_INVOLVED = 0.5;
+/** Lower bounds of Kaiser's (1974) KMO labels, highest first; below the last is unacceptable. */
+export const KMO_LABEL_BOUNDS = Object.freeze([
+  Object.freeze({ bound: 0.9, label: 'marvelous' }),
+  Object.freeze({ bound: 0.8, label: 'meritorious' }),
+  Object.freeze({ bound: 0.7, label: 'middling' }),
+  Object.freeze({ bound: 0.6, label: 'mediocre' }),
+  Object.freeze({ bound: 0.5, label: 'miserable' }),
+] as const);
+/** Parallel analysis: random data sets drawn by default (Horn 1965 used far fewer). */
+export const PARALLEL_ANALYSIS_DEFAULT_ITERATIONS = 100;
+/** Parallel analysis: percentile of the random eigenvalues an observed one must exceed (Glorfeld 1995). */
+export const PARALLEL_ANALYSIS_PERCENTILE = 95;
+/** A repaired correlation matrix keeps its eigenvalues at or above this (so it is invertible). */
+export const REPAIR_EIGENVALUE_FLOOR = 1e-8;
+/** Higham's alternating projections stop when the relative change in one sweep is below this. */
+export const NEAREST_CORRELATION_TOLERANCE = 1e-10;
+/** Ceiling on Higham's alternating-projection sweeps before non-convergence is reported. */
+export const NEAREST_CORRELATION_MAX_ITERATIONS = 1_000;
+
 // ── Correlation ────────────────────────────────────────────────────────────────────────
 
+/**
+ * Fewest pair-complete respondents for which a correlation is reported. With fewer, the pair
+ * is undefined: it enters the matrix as 0, is listed in `undefinedPairs` and reported.
+ */
+export const MIN_ROWS_FOR_CORRELATION = 3;
+/** Fewest pair-complete respondents for a covariance (its denominator is n − 1). */
+export const MIN_ROWS_FOR_COVARIANCE = 2;
+/** Polychoric ρ: the Newton search stops when a step is smaller than this. */
+export const POLYCHORIC_RHO_TOLERANCE = 1e-10;
+/** Ceiling on Newton / bisection steps for one polychoric ρ before non-convergence is reported. */
+export const POLYCHORIC_MAX_ITERATIONS = 200;
+/**
+ * Polychoric ρ: the likelihood is taken to peak on the boundary ±1 when it still rises at
+ * |ρ| = 1 − this (the search probes that point before declaring a boundary maximum).
+ */
+export const POLYCHORIC_BOUNDARY_GAP = 1e-9;
+/**
+ * Count added to each empty cell (inside the observed rows and columns) of a contingency table
+ * whose likelihood peaks on the boundary without a perfect association: the usual continuity
+ * correction of one half (Brown & Benedetti 1977; the default of psych::polychoric).
+ */
+export const POLYCHORIC_ZERO_CELL_CORRECTION = 0.5;
+/** Most distinct values an item may take to enter a polychoric correlation. */
+export const POLYCHORIC_MAX_CATEGORIES = 15;
+/** Share of answers at the lowest (highest) category above which a floor (ceiling) effect is flagged (Terwee et al. 2007). */
+export const FLOOR_CEILING_SHARE = 0.15;
+
 // ── Reliability, models and distributions ──────────────────────────────────────────────
+
+/** Relative size of the last term at which a power series or continued fraction is stopped. */
+export const SERIES_RELATIVE_TOLERANCE = 1e-15;
+/** Ceiling on terms of a series or continued fraction before it is declared non-convergent. */
+export const SERIES_MAX_TERMS = 100_000;
+/** Largest |x + (1 − x) − 1| accepted when a caller passes 1 − x alongside x (rounding only). */
+export const COMPLEMENT_TOLERANCE = 4 * Number.EPSILON;
+/** Stand-in for zero in the modified Lentz algorithm, so no denominator is exactly 0. */
+export const LENTZ_TINY = 1e-300;
+/** Arguments at or above this use Stirling's series (with its remainder) in log-gamma work. */
+export const STIRLING_THRESHOLD = 10;
+/** Relative step in t at which the t-quantile root search stops. */
+export const QUANTILE_RELATIVE_TOLERANCE = 1e-14;
+/** Ceiling on root-search steps for a quantile. */
+export const QUANTILE_MAX_STEPS = 500;
+/** Relative asymmetry |a_ij − a_ji| / max(|a_ij|, |a_ji|, 1) tolerated in a symmetric input. */
+export const SYMMETRY_TOLERANCE = 1e-10;
+/** Largest |r_ii − 1| tolerated on the diagonal of an input correlation matrix. */
+export const UNIT_DIAGONAL_TOLERANCE = 1e-8;
+/**
+ * A Cholesky pivot at or below this share of its diagonal element marks the matrix as
+ * singular (numerically not positive definite) for Bartlett's test.
+ */
+export const CHOLESKY_PIVOT_RELATIVE_TOLERANCE = 1e-12;
+/** A variance at or below this share of the largest variance counts as zero (a constant item). */
+export const ZERO_VARIANCE_RELATIVE_TOLERANCE = 1e-12;
+/**
+ * Householder QR: a column whose remaining norm is below this share of its own original norm
+ * is aliased (linearly dependent on earlier columns). 1e-7 is the value R's lm() uses.
+ */
+export const QR_ALIASING_RELATIVE_TOLERANCE = 1e-7;
+/**
+ * OLS: the fit is exact when the root mean squared residual is at or below this share of the
+ * root mean square of the outcome (what is left is rounding); t and p are then undefined.
+ */
+export const EXACT_FIT_RELATIVE_RESIDUAL = 1e-10;
+/** Minres factoring stops when no loading moves by more than this in one sweep. */
+export const MINRES_CONVERGENCE_TOLERANCE = 1e-10;
+/** Ceiling on minres sweeps before non-convergence is reported. */
+export const MINRES_MAX_SWEEPS = 20_000;
+/** Power-iteration steps spent on the minres starting values. */
+export const MINRES_START_POWER_STEPS = 100;
+/** A communality at or above this is a Heywood case (Heywood 1931). */
+export const HEYWOOD_COMMUNALITY = 1;
+/** Eigenvalues of R_xx at or below this share of the largest make relative weights undefined. */
+export const RELATIVE_WEIGHTS_EIGENVALUE_TOLERANCE = 1e-12;
