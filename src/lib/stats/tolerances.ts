@@ -78,6 +78,11 @@ export const POLYCHORIC_MAX_ITERATIONS = 200;
  */
 export const POLYCHORIC_BOUNDARY_GAP = 1e-9;
 /**
+ * Polychoric ρ: after convergence ℓ is evaluated at ±(1 − POLYCHORIC_BOUNDARY_GAP); if it is at
+ * least ℓ(ρ̂) less this share of |ℓ(ρ̂)| (rounding), the maximum is taken to lie on the boundary.
+ */
+export const POLYCHORIC_LIKELIHOOD_RELATIVE_SLACK = 1e-12;
+/**
  * Count added to each empty cell (inside the observed rows and columns) of a contingency table
  * whose likelihood peaks on the boundary without a perfect association: the usual continuity
  * correction of one half (Brown & Benedetti 1977; the default of psych::polychoric).

@@ -1,0 +1,157 @@
+/**
+ * Polychoric benchmark: the polychoric correlation matrix (two-step, pairwise) of seeded
+ * ordinal data of two sizes, 1,000 × 40 seven-point items and 2,000 × 100 five-point items.
+ * Targets (issue 3): <= 0.3 s and <= 1.5 s on this 2-core machine.
+ *
+ * Run: `npx tsx bench/polychoric.bench.ts [--no-r]` (or `npm run bench -- polychoric`). For each
+ * size it prints the first call (cold: the code is not yet optimised, as in a fresh CLI
+ * process), the median of three further calls on one thread, and the median with 2 worker
+ * threads; and, when Rscript is on PATH, the time of psych::polychoric on the same data (written
+ * to a temporary CSV) with the same options (global thresholds, no correction, no smoothing;
+ * psych runs its pairs on 2 cores through parallel::mcmapply), the ratio, and the largest
+ * difference between the two matrices. Last lines, machine-readable:
+ * {"bench":"polychoric-1000x40","seconds":...,"rSeconds":...}.
+ * Figures only: nothing here asserts on time.
+ */
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { availableParallelism, loadavg, tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { correlationMatrix, type CorrelationMatrixResult } from '../src/lib/stats/correlation-matrix';
+import { correlationMatrixParallel } from '../src/lib/stats/parallel/correlation-matrix-parallel';
+import { createSeededRandom } from '../src/lib/stats/seeded-random';
+import type { ItemMatrix, SquareMatrix } from '../src/lib/stats/types';
+
+interface BenchSize {
+  readonly name: string;
+  readonly rows: number;
+  readonly items: number;
+  readonly categories: number;
+  readonly targetSeconds: number;
+}
+
+const SIZES: readonly BenchSize[] = [
+  { name: 'polychoric-1000x40', rows: 1_000, items: 40, categories: 7, targetSeconds: 0.3 },
+  { name: 'polychoric-2000x100', rows: 2_000, items: 100, categories: 5, targetSeconds: 1.5 },
+];
+const SEED = 20261202;
+const WORKERS = 2;
+
+/**
+ * Ordinal answers from a two-factor model: item j loads 0.45-0.85 on factor j mod 2, and its
+ * latent score is cut at thresholds spread over ±1.8 with a seeded jitter (every category used).
+ */
+function generate(size: BenchSize, seed: number): ItemMatrix {
+  const random = createSeededRandom(seed);
+  const factors = [0, 1].map(() => Float64Array.from({ length: size.rows }, () => random.nextNormal()));
+  const data = new Float64Array(size.rows * size.items);
+  for (let j = 0; j < size.items; j++) {
+    const loading = 0.45 + 0.4 * random.next();
+    const cuts = Array.from({ length: size.categories - 1 }, (_, c) => -1.8 + (3.6 * (c + 0.5)) / (size.categories - 1) + 0.2 * (random.next() - 0.5));
+    const factor = factors[j % 2];
+    for (let i = 0; i < size.rows; i++) {
+      const latent = loading * factor[i] + Math.sqrt(1 - loading * loading) * random.nextNormal();
+      let category = 1;
+      for (const cut of cuts) if (latent > cut) category++;
+      data[j * size.rows + i] = category;
+    }
+  }
+  return { rows: size.rows, columns: size.items, data };
+}
+
+function median(values: number[]): number {
+  const sorted = [...values].sort((a, b) => a - b);
+  return sorted[Math.floor(sorted.length / 2)];
+}
+
+async function seconds(work: () => unknown): Promise<number> {
+  const start = performance.now();
+  await work();
+  return (performance.now() - start) / 1000;
+}
+
+/** psych::polychoric on the same values; null when Rscript is missing or --no-r is given. */
+function timeR(matrix: ItemMatrix, ours: SquareMatrix): { seconds: number; largestDifference: number } | null {
+  if (process.argv.includes('--no-r')) {
+    console.log('  R: skipped (--no-r)');
+    return null;
+  }
+  const probe = spawnSync('Rscript', ['--version'], { encoding: 'utf8' });
+  if (probe.error !== undefined || probe.status !== 0) {
+    console.log('  R: Rscript not on PATH, skipped');
+    return null;
+  }
+  const directory = mkdtempSync(join(tmpdir(), 'paredown-polychoric-'));
+  try {
+    const dataFile = join(directory, 'items.csv');
+    const oursFile = join(directory, 'ours.csv');
+    const lines: string[] = [];
+    for (let i = 0; i < matrix.rows; i++) {
+      const row: number[] = [];
+      for (let j = 0; j < matrix.columns; j++) row.push(matrix.data[j * matrix.rows + i]);
+      lines.push(row.join(','));
+    }
+    writeFileSync(dataFile, lines.join('\n') + '\n');
+    const oursLines: string[] = [];
+    for (let i = 0; i < ours.order; i++) oursLines.push(Array.from(ours.data.subarray(i * ours.order, (i + 1) * ours.order), (v) => v.toPrecision(17)).join(','));
+    writeFileSync(oursFile, oursLines.join('\n') + '\n');
+    const script = `
+      suppressPackageStartupMessages(library(psych))
+      x <- as.matrix(read.csv(${JSON.stringify(dataFile)}, header = FALSE))
+      ours <- as.matrix(read.csv(${JSON.stringify(oursFile)}, header = FALSE))
+      elapsed <- system.time(p <- polychoric(x, smooth = FALSE, global = TRUE, correct = 0))[["elapsed"]]
+      cat(sprintf("%.3f %.6g\\n", elapsed, max(abs(unname(p$rho) - ours))))
+    `;
+    const run = spawnSync('Rscript', ['-e', script], { encoding: 'utf8', maxBuffer: 1 << 20 });
+    if (run.status !== 0) {
+      console.log(`  R: failed (${run.stderr.trim().split('\n').at(-1)})`);
+      return null;
+    }
+    const [rSeconds, largestDifference] = run.stdout.trim().split(/\s+/).map(Number);
+    return { seconds: rSeconds, largestDifference };
+  } finally {
+    rmSync(directory, { recursive: true, force: true });
+  }
+}
+
+console.log(`polychoric: two-step, pairwise, seed ${SEED}`);
+console.log(`  load average at start: ${loadavg().map((value) => value.toFixed(2)).join(' ')} on ${availableParallelism()} cores (other work on the machine slows every figure)`);
+const summary: Record<string, unknown>[] = [];
+for (const [index, size] of SIZES.entries()) {
+  const matrix = generate(size, SEED + index);
+  const options = { method: 'polychoric', missing: 'pairwise' } as const;
+  console.log(`\n${size.name}: ${size.rows} respondents × ${size.items} ${size.categories}-point items, ${(size.items * (size.items - 1)) / 2} pairs (target <= ${size.targetSeconds} s)`);
+  const firstStart = performance.now();
+  const result: CorrelationMatrixResult = correlationMatrix(matrix, options);
+  const firstCall = (performance.now() - firstStart) / 1000;
+  const single: number[] = [];
+  for (let run = 0; run < 3; run++) single.push(await seconds(() => correlationMatrix(matrix, options)));
+  const parallel: number[] = [];
+  let parallelResult = result;
+  for (let run = 0; run < 3; run++) {
+    parallel.push(await seconds(async () => (parallelResult = await correlationMatrixParallel(matrix, { ...options, workers: WORKERS, minimumWork: 0 }))));
+  }
+  let workerDifference = 0;
+  for (let t = 0; t < result.matrix.data.length; t++) workerDifference = Math.max(workerDifference, Math.abs(result.matrix.data[t] - parallelResult.matrix.data[t]));
+  const best = Math.min(median(single), median(parallel));
+  console.log(`  first call, 1 thread                 ${firstCall.toFixed(3)} s`);
+  console.log(`  1 thread (median of 3)               ${median(single).toFixed(3)} s`);
+  console.log(`  ${WORKERS} workers (median of 3)              ${median(parallel).toFixed(3)} s   (worker start-up included; results differ from 1 thread by ${workerDifference.toExponential(1)})`);
+  console.log(`  notices: ${result.notices.map((notice) => notice.code).join(', ') || 'none'}; with workers: ${parallelResult.notices.map((notice) => notice.code).join(', ') || 'none'}; smallest eigenvalue ${result.smallestEigenvalue?.toFixed(4)}`);
+  const r = timeR(matrix, result.unrepaired ?? result.matrix);
+  if (r !== null) {
+    console.log(`  R psych::polychoric                  ${r.seconds.toFixed(3)} s   ratio R / Paredown ${(r.seconds / best).toFixed(0)}×; largest |difference| ${r.largestDifference.toExponential(2)}`);
+  }
+  summary.push({
+    bench: size.name,
+    seconds: Number(best.toFixed(3)),
+    secondsFirstCall: Number(firstCall.toFixed(3)),
+    secondsSingleThread: Number(median(single).toFixed(3)),
+    secondsWorkers: Number(median(parallel).toFixed(3)),
+    targetSeconds: size.targetSeconds,
+    rSeconds: r === null ? null : Number(r.seconds.toFixed(3)),
+    ratio: r === null ? null : Number((r.seconds / best).toFixed(1)),
+  });
+}
+console.log('');
+for (const line of summary) console.log(JSON.stringify(line));

@@ -1,0 +1,42 @@
+/**
+ * Input check shared by the functions that take an item correlation matrix (VIF, condition
+ * number, KMO, repair). Not a statistic: a precondition, kept in one place so every caller
+ * words it the same way.
+ */
+import { SYMMETRY_TOLERANCE, UNIT_DIAGONAL_TOLERANCE } from './tolerances';
+import type { SquareMatrix } from './types';
+
+/**
+ * Checks that a matrix is a correlation matrix in shape: square, finite, symmetric, with a unit
+ * diagonal and every element within [−1, 1] (up to the named tolerances). It does NOT require
+ * positive semi-definiteness: that is a numerical condition the callers report.
+ * @param matrix The matrix to check.
+ * @param caller Name of the calling function, for the error message.
+ * @throws {RangeError} when the matrix is empty or not square.
+ * @throws {RangeError} naming the first element that is not finite, breaks symmetry beyond
+ *   SYMMETRY_TOLERANCE, leaves the diagonal by more than UNIT_DIAGONAL_TOLERANCE or lies
+ *   outside [−1, 1].
+ * @returns Nothing; it returns only when every check passes.
+ * References: Pearson 1896, "Mathematical contributions to the theory of evolution. III.
+ * Regression, heredity and panmixia" (properties of the correlation coefficient).
+ */
+export function checkCorrelationMatrix(matrix: SquareMatrix, caller: string): void {
+  const { order, data } = matrix;
+  if (!Number.isInteger(order) || order < 1) throw new RangeError(`${caller}: the correlation matrix must have order >= 1, got ${order}`);
+  if (data.length !== order * order) throw new RangeError(`${caller}: expected ${order * order} values for order ${order}, got ${data.length}`);
+  for (let i = 0; i < order; i++) {
+    const diagonal = data[i * order + i];
+    if (!(Math.abs(diagonal - 1) <= UNIT_DIAGONAL_TOLERANCE)) {
+      throw new RangeError(`${caller}: diagonal element ${i} is ${diagonal}, a correlation matrix has 1 there`);
+    }
+    for (let j = i + 1; j < order; j++) {
+      const a = data[i * order + j];
+      const b = data[j * order + i];
+      if (!Number.isFinite(a) || !Number.isFinite(b)) throw new RangeError(`${caller}: element (${i}, ${j}) is not finite`);
+      if (Math.abs(a - b) > SYMMETRY_TOLERANCE * Math.max(Math.abs(a), Math.abs(b), 1)) {
+        throw new RangeError(`${caller}: the matrix is not symmetric at (${i}, ${j}): ${a} against ${b}`);
+      }
+      if (Math.abs(a) > 1 + UNIT_DIAGONAL_TOLERANCE) throw new RangeError(`${caller}: element (${i}, ${j}) is ${a}, outside [-1, 1]`);
+    }
+  }
+}

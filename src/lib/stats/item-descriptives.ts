@@ -1,0 +1,146 @@
+/**
+ * Descriptive statistics of each item: answers, missing rate, mean, standard deviation
+ * (denominator n − 1), observed range, and floor and ceiling shares: the share of the observed
+ * answers at the lowest and at the highest category, flagged above FLOOR_CEILING_SHARE (15%,
+ * Terwee et al. 2007). The categories are those of the item's stated valid range when one is
+ * given, else its observed minimum and maximum.
+ *
+ * References: Terwee et al. 2007, "Quality criteria were proposed for measurement properties of
+ * health status questionnaires" (J. Clin. Epidemiol. 60:34-42); Chan, Golub & LeVeque 1983,
+ * "Algorithms for computing the sample variance: analysis and recommendations".
+ */
+import { FLOOR_CEILING_SHARE } from './tolerances';
+import type { ItemMatrix } from './types';
+
+/** The valid range of an item's answers (the codebook's lowest and highest category). */
+export interface ItemRange {
+  readonly min: number;
+  readonly max: number;
+}
+
+/** Descriptives of one item. Fields that need answers are null when there are too few. */
+export interface ItemDescriptive {
+  /** Observed answers. */
+  readonly n: number;
+  /** Missing answers. */
+  readonly missing: number;
+  /** missing / respondents (0 when there are no respondents). */
+  readonly missingRate: number;
+  /** Mean of the answers; null when n = 0. */
+  readonly mean: number | null;
+  /** Sample standard deviation (n − 1); null when n < 2. */
+  readonly standardDeviation: number | null;
+  /** Smallest and largest answers; null when n = 0. */
+  readonly minimum: number | null;
+  readonly maximum: number | null;
+  /** The floor and ceiling categories used: the stated range, else the observed extremes. */
+  readonly floorValue: number | null;
+  readonly ceilingValue: number | null;
+  /** Share of the answers at the floor / ceiling category; null when n = 0. */
+  readonly floorShare: number | null;
+  readonly ceilingShare: number | null;
+  /** Share above FLOOR_CEILING_SHARE. */
+  readonly floorEffect: boolean;
+  readonly ceilingEffect: boolean;
+  /** Answers outside the stated range (0 when none is given). */
+  readonly outOfRange: number;
+}
+
+/** Options of `itemDescriptives`. */
+export interface ItemDescriptivesOptions {
+  /** One valid range per item (null: use the observed extremes). */
+  readonly ranges?: readonly (ItemRange | null)[];
+}
+
+/**
+ * Per-item descriptives of a response matrix.
+ * @param matrix Respondents × items, column-major, NaN for missing.
+ * @param options `ranges`: a valid range per item, or null for an item without one.
+ * @throws {RangeError} when the shape is inconsistent, a value is ±Infinity, `ranges` does not
+ *   have one entry per item, or a range is not finite with min < max.
+ * @returns One entry per item, in item order. Never NaN.
+ * References: Terwee et al. 2007, "Quality criteria were proposed for measurement properties of
+ * health status questionnaires".
+ */
+export function itemDescriptives(matrix: ItemMatrix, options: ItemDescriptivesOptions = {}): ItemDescriptive[] {
+  const caller = 'itemDescriptives';
+  const { rows, columns, data } = matrix ?? ({} as ItemMatrix);
+  if (!Number.isInteger(rows) || rows < 0) throw new RangeError(`${caller}: rows must be a non-negative integer, got ${rows}`);
+  if (!Number.isInteger(columns) || columns < 1) throw new RangeError(`${caller}: at least one item is required, got ${columns}`);
+  if (!(data instanceof Float64Array) || data.length !== rows * columns) {
+    throw new RangeError(`${caller}: data must be a Float64Array of rows × columns = ${rows * columns} values`);
+  }
+  const ranges = options.ranges;
+  if (ranges !== undefined && ranges.length !== columns) {
+    throw new RangeError(`${caller}: ranges must have one entry per item (${columns}), got ${ranges.length}`);
+  }
+  ranges?.forEach((range, j) => {
+    if (range !== null && !(Number.isFinite(range.min) && Number.isFinite(range.max) && range.min < range.max)) {
+      throw new RangeError(`${caller}: the range of item ${j} must be finite with min < max, got ${range.min} to ${range.max}`);
+    }
+  });
+  const result: ItemDescriptive[] = [];
+  for (let j = 0; j < columns; j++) {
+    const values = data.subarray(j * rows, (j + 1) * rows);
+    let n = 0;
+    let sum = 0;
+    let minimum = Infinity;
+    let maximum = -Infinity;
+    for (let i = 0; i < rows; i++) {
+      const value = values[i];
+      if (value !== value) continue;
+      if (value === Infinity || value === -Infinity) {
+        throw new RangeError(`${caller}: item ${j} has an infinite value at respondent ${i}; use NaN for a missing answer`);
+      }
+      n++;
+      sum += value;
+      if (value < minimum) minimum = value;
+      if (value > maximum) maximum = value;
+    }
+    const range = ranges?.[j] ?? null;
+    const missing = rows - n;
+    const missingRate = rows === 0 ? 0 : missing / rows;
+    if (n === 0) {
+      result.push({
+        n, missing, missingRate, mean: null, standardDeviation: null, minimum: null, maximum: null,
+        floorValue: range?.min ?? null, ceilingValue: range?.max ?? null,
+        floorShare: null, ceilingShare: null, floorEffect: false, ceilingEffect: false, outOfRange: 0,
+      });
+      continue;
+    }
+    const mean = sum / n;
+    const floorValue = range?.min ?? minimum;
+    const ceilingValue = range?.max ?? maximum;
+    let squares = 0;
+    let atFloor = 0;
+    let atCeiling = 0;
+    let outOfRange = 0;
+    for (let i = 0; i < rows; i++) {
+      const value = values[i];
+      if (value !== value) continue;
+      squares += (value - mean) * (value - mean);
+      if (value === floorValue) atFloor++;
+      if (value === ceilingValue) atCeiling++;
+      if (range !== null && (value < range.min || value > range.max)) outOfRange++;
+    }
+    const floorShare = atFloor / n;
+    const ceilingShare = atCeiling / n;
+    result.push({
+      n,
+      missing,
+      missingRate,
+      mean,
+      standardDeviation: n < 2 ? null : Math.sqrt(squares / (n - 1)),
+      minimum,
+      maximum,
+      floorValue,
+      ceilingValue,
+      floorShare,
+      ceilingShare,
+      floorEffect: floorShare > FLOOR_CEILING_SHARE,
+      ceilingEffect: ceilingShare > FLOOR_CEILING_SHARE,
+      outOfRange,
+    });
+  }
+  return result;
+}
