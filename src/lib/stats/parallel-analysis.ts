@@ -1,0 +1,118 @@
+/**
+ * Horn's parallel analysis: how many components stand out from what random data of the same
+ * size would give. Each iteration draws `rows × items` independent standard normal values from
+ * the seeded generator, correlates them (Pearson) and takes the eigenvalues; an observed
+ * eigenvalue is retained while it exceeds the 95th percentile of the random eigenvalues at the
+ * same position (Glorfeld's refinement of Horn's mean). The same seed gives the same answer.
+ *
+ * Percentiles are R's default (type 7): linear interpolation between order statistics at
+ * `(N − 1)·q`.
+ *
+ * References: Horn 1965, "A rationale and test for the number of factors in factor analysis"
+ * (Psychometrika 30:179-185); Glorfeld 1995, "An improvement on Horn's parallel analysis
+ * methodology for selecting the correct number of factors to retain" (Educational and
+ * Psychological Measurement 55:377-393); Hyndman & Fan 1996, "Sample quantiles in statistical
+ * packages" (The American Statistician 50:361-365), definition 7.
+ */
+import { centeredCrossProducts, pearsonFromCrossProducts } from './cross-products';
+import { createSeededRandom } from './seeded-random';
+import { symmetricEigenvalues } from './symmetric-eigen';
+import { PARALLEL_ANALYSIS_DEFAULT_ITERATIONS, PARALLEL_ANALYSIS_PERCENTILE } from './tolerances';
+
+/** Seed used when none is given (the audit's settings normally pass one). */
+export const PARALLEL_ANALYSIS_DEFAULT_SEED = 1;
+
+/** Options of `parallelAnalysis`. */
+export interface ParallelAnalysisOptions {
+  /** Random data sets to draw (default PARALLEL_ANALYSIS_DEFAULT_ITERATIONS = 100). */
+  readonly iterations?: number;
+  /** Seed of the generator (default PARALLEL_ANALYSIS_DEFAULT_SEED). */
+  readonly seed?: number;
+  /** Percentile of the random eigenvalues to beat, in (0, 100] (default 95). */
+  readonly percentile?: number;
+}
+
+/** The result of `parallelAnalysis`. All arrays are by position, largest eigenvalue first. */
+export interface ParallelAnalysisResult {
+  /** The observed eigenvalues, as given (descending). */
+  readonly observed: readonly number[];
+  /** The chosen percentile (95 by default) of the random eigenvalues at each position. */
+  readonly random95: readonly number[];
+  /** Mean of the random eigenvalues at each position (Horn's original criterion). */
+  readonly randomMean: readonly number[];
+  /** Number of leading observed eigenvalues above their random percentile. */
+  readonly suggested: number;
+  readonly iterations: number;
+  readonly seed: number;
+  readonly percentile: number;
+}
+
+/**
+ * Parallel analysis of observed correlation-matrix eigenvalues against random normal data of the
+ * same number of respondents and items.
+ * @param observed Eigenvalues of the observed correlation matrix in descending order (one per item).
+ * @param rows Respondents behind the observed matrix (at least 2).
+ * @param options Iterations, seed and percentile.
+ * @throws {RangeError} when `observed` is empty, holds a non-finite value or is not descending.
+ * @throws {RangeError} when `rows` is not an integer of at least 2.
+ * @throws {RangeError} when `iterations` is not a positive integer, `seed` not an integer, or
+ *   `percentile` not in (0, 100].
+ * @returns Random percentile and mean eigenvalues per position, and the suggested number of
+ *   components.
+ * References: Horn 1965, "A rationale and test for the number of factors in factor analysis";
+ * Glorfeld 1995, "An improvement on Horn's parallel analysis methodology for selecting the
+ * correct number of factors to retain".
+ */
+export function parallelAnalysis(observed: ArrayLike<number>, rows: number, options: ParallelAnalysisOptions = {}): ParallelAnalysisResult {
+  const items = observed.length;
+  if (items < 1) throw new RangeError('parallelAnalysis: at least one observed eigenvalue is required');
+  for (let k = 0; k < items; k++) {
+    if (!Number.isFinite(observed[k])) throw new RangeError(`parallelAnalysis: observed eigenvalue ${k} is not finite`);
+    if (k > 0 && observed[k] > observed[k - 1]) throw new RangeError('parallelAnalysis: observed eigenvalues must be in descending order');
+  }
+  if (!Number.isInteger(rows) || rows < 2) throw new RangeError(`parallelAnalysis: rows must be an integer of at least 2, got ${rows}`);
+  const iterations = options.iterations ?? PARALLEL_ANALYSIS_DEFAULT_ITERATIONS;
+  const seed = options.seed ?? PARALLEL_ANALYSIS_DEFAULT_SEED;
+  const percentile = options.percentile ?? PARALLEL_ANALYSIS_PERCENTILE;
+  if (!Number.isInteger(iterations) || iterations < 1) throw new RangeError(`parallelAnalysis: iterations must be a positive integer, got ${iterations}`);
+  if (!Number.isInteger(seed)) throw new RangeError(`parallelAnalysis: seed must be an integer, got ${seed}`);
+  if (!(percentile > 0 && percentile <= 100)) throw new RangeError(`parallelAnalysis: percentile must lie in (0, 100], got ${percentile}`);
+
+  const random = createSeededRandom(seed);
+  // randomValues[k * iterations + t]: eigenvalue k of random data set t.
+  const randomValues = new Float64Array(items * iterations);
+  const data = new Float64Array(rows * items);
+  for (let t = 0; t < iterations; t++) {
+    for (let index = 0; index < data.length; index++) data[index] = random.nextNormal();
+    const values = randomEigenvalues(data, rows, items);
+    for (let k = 0; k < items; k++) randomValues[k * iterations + t] = values[k];
+  }
+
+  const random95: number[] = [];
+  const randomMean: number[] = [];
+  for (let k = 0; k < items; k++) {
+    const sorted = randomValues.subarray(k * iterations, (k + 1) * iterations).sort();
+    random95.push(quantileType7(sorted, percentile / 100));
+    let sum = 0;
+    for (let t = 0; t < iterations; t++) sum += sorted[t];
+    randomMean.push(sum / iterations);
+  }
+  let suggested = 0;
+  while (suggested < items && observed[suggested] > random95[suggested]) suggested++;
+  return { observed: Array.from(observed), random95, randomMean, suggested, iterations, seed, percentile };
+}
+
+/** Eigenvalues (descending) of the Pearson matrix of one random data set. */
+function randomEigenvalues(data: Float64Array, rows: number, items: number): Float64Array {
+  if (items === 1) return Float64Array.of(1);
+  const correlation = pearsonFromCrossProducts(centeredCrossProducts({ rows, columns: items, data }));
+  return symmetricEigenvalues(correlation);
+}
+
+/** Hyndman & Fan definition 7 on sorted values: interpolate at (N − 1)·q. */
+function quantileType7(sorted: Float64Array, q: number): number {
+  const position = (sorted.length - 1) * q;
+  const below = Math.floor(position);
+  const above = Math.min(below + 1, sorted.length - 1);
+  return sorted[below] + (position - below) * (sorted[above] - sorted[below]);
+}
