@@ -13,6 +13,21 @@ export default defineConfig({
           testTimeout: 60_000,
         },
       },
+      {
+        test: {
+          name: 'app',
+          include: ['tests/api/**/*.test.ts', 'tests/browser/**/*.test.ts'],
+          environment: 'node',
+          // One built server (dist/) on a free loopback port, with its own SQLite file, migrated
+          // and seeded; the files share it one after another (one fork) so their data do not
+          // interleave.
+          globalSetup: ['tests/setup/app-server.ts'],
+          pool: 'forks',
+          poolOptions: { forks: { singleFork: true } },
+          testTimeout: 60_000,
+          hookTimeout: 120_000,
+        },
+      },
     ],
   },
 });

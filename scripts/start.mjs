@@ -1,0 +1,13 @@
+// `npm start`: install if needed, migrate, seed the demo into an empty database, build if
+// needed, then serve on HOST:PORT (127.0.0.1:4321 by default).
+import { ensureBuilt, ensureInstalled, root, runTs, step } from './lib/prepare.mjs';
+
+process.chdir(root);
+process.env.ASTRO_TELEMETRY_DISABLED = '1';
+ensureInstalled();
+step('Applying database migrations');
+runTs('src/db/migrate-cli.ts');
+step('Seeding the demo if the database is empty');
+runTs('src/db/seed-cli.ts');
+ensureBuilt();
+await import('./serve.mjs');

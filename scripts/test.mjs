@@ -1,0 +1,52 @@
+// `npm test`: everything. Install if needed; make sure Debian's Chromium is there (installing it
+// with apt-get when we are root, failing with a clear message otherwise: never skipping); build;
+// then Vitest runs the unit project and the app project (API and browser tests against the built
+// server, see tests/setup/app-server.ts). Extra arguments go to Vitest.
+import { execFileSync, spawnSync } from 'node:child_process';
+import { existsSync } from 'node:fs';
+import { join } from 'node:path';
+import { ensureBuilt, ensureInstalled, root, run, step } from './lib/prepare.mjs';
+
+process.chdir(root);
+process.env.ASTRO_TELEMETRY_DISABLED = '1';
+
+function findChromium() {
+  for (const candidate of ['/usr/bin/chromium', '/usr/bin/chromium-browser']) {
+    if (existsSync(candidate)) return candidate;
+  }
+  const found = spawnSync('sh', ['-c', 'command -v chromium || command -v chromium-browser'], { encoding: 'utf8' });
+  return found.status === 0 ? found.stdout.trim() : null;
+}
+
+function ensureChromium() {
+  if (findChromium()) return;
+  const isRoot = typeof process.getuid === 'function' && process.getuid() === 0;
+  if (!isRoot) {
+    console.error(
+      '\u2716 The browser tests need Debian\'s Chromium at /usr/bin/chromium, and it is not installed.\n' +
+        '  Install it (as root: apt-get update && apt-get install -y chromium), or set CHROMIUM_PATH, then run npm test again.',
+    );
+    process.exit(1);
+  }
+  step('Installing Chromium for the browser tests (apt-get)');
+  run('apt-get', ['update']);
+  run('apt-get', ['install', '-y', '--no-install-recommends', 'chromium'], { ...process.env, DEBIAN_FRONTEND: 'noninteractive' });
+  if (!findChromium()) {
+    console.error('\u2716 apt-get finished but no chromium binary was found on PATH.');
+    process.exit(1);
+  }
+}
+
+ensureInstalled();
+if (!process.env.CHROMIUM_PATH) ensureChromium();
+ensureBuilt();
+step('Running the tests (vitest: unit and app projects)');
+try {
+  execFileSync(process.execPath, [join(root, 'node_modules', 'vitest', 'vitest.mjs'), 'run', ...process.argv.slice(2)], {
+    cwd: root,
+    stdio: 'inherit',
+    env: process.env,
+  });
+} catch (error) {
+  process.exit(typeof error.status === 'number' ? error.status : 1);
+}

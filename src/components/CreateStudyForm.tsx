@@ -1,0 +1,52 @@
+import { useState, type FormEvent } from 'react';
+import { callApi } from './api-client';
+
+/** Creates a study in one team, then opens it. */
+export default function CreateStudyForm({ teamId }: { teamId: string }) {
+  const [open, setOpen] = useState(false);
+  const [busy, setBusy] = useState(false);
+  const [error, setError] = useState('');
+
+  async function submit(event: FormEvent<HTMLFormElement>) {
+    event.preventDefault();
+    const form = new FormData(event.currentTarget);
+    setBusy(true);
+    setError('');
+    const result = await callApi<{ study: { id: string } }>('POST', '/api/studies', {
+      teamId,
+      name: String(form.get('name') ?? ''),
+      description: String(form.get('description') ?? ''),
+    });
+    if (result.ok) {
+      location.assign(`/studies/${result.data.study.id}`);
+      return;
+    }
+    setError(result.message);
+    setBusy(false);
+  }
+
+  if (!open) {
+    return (
+      <button type="button" className="button button-quiet" onClick={() => setOpen(true)} data-testid={`new-study-${teamId}`}>
+        + New study
+      </button>
+    );
+  }
+  return (
+    <form onSubmit={submit} className="panel mt-3 grid gap-3 p-4 sm:grid-cols-[1fr_2fr_auto] sm:items-end">
+      <div>
+        <label className="label" htmlFor={`study-name-${teamId}`}>Study name</label>
+        <input className="field" id={`study-name-${teamId}`} name="name" required maxLength={200} autoFocus placeholder="e.g. Staff survey 2027" />
+      </div>
+      <div>
+        <label className="label" htmlFor={`study-description-${teamId}`}>What the questionnaire is for (optional)</label>
+        <input className="field" id={`study-description-${teamId}`} name="description" maxLength={4000} />
+      </div>
+      <div className="flex gap-2">
+        <button className="button" type="submit" disabled={busy}>{busy ? 'Creating…' : 'Create'}</button>
+        <button className="button button-quiet" type="button" onClick={() => setOpen(false)}>Cancel</button>
+      </div>
+      {error && <p className="error-text sm:col-span-3" role="alert">{error}</p>}
+    </form>
+  );
+}

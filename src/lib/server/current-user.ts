@@ -1,0 +1,100 @@
+/**
+ * Who is asking: a session cookie issued by Auth.js, or a personal API token
+ * (`Authorization: Bearer pd_...`). Memberships and roles are read from the database on every
+ * request, so a role change takes effect at once.
+ */
+import { getToken } from '@auth/core/jwt';
+import { and, eq, isNull } from 'drizzle-orm';
+import { apiTokens, memberships, teams, users } from '../../db/schema';
+import type { Role } from '../permissions';
+import { getConfig } from './config';
+import { getDb } from './db';
+import { sha256Hex } from './ids';
+
+/** One team the user belongs to, with their role there. */
+export interface Membership {
+  teamId: string;
+  teamName: string;
+  role: Role;
+}
+
+/** The signed-in user, as the middleware puts it into `locals.user`. */
+export interface CurrentUser {
+  id: string;
+  email: string;
+  name: string;
+  memberships: Membership[];
+}
+
+/** How the request was authenticated, and what went wrong when it was not. */
+export interface Resolution {
+  user: CurrentUser | null;
+  via: 'session' | 'token' | null;
+  /** Set when credentials were sent but not accepted (e.g. a revoked token). */
+  problem: 'token-not-recognised' | null;
+}
+
+/** Prefix of personal API tokens. */
+export const apiTokenPrefix = 'pd_';
+
+/**
+ * Loads a user with their memberships.
+ * @param userId the user's id.
+ * @returns the user, or null when there is no such user.
+ */
+export function loadUser(userId: string): CurrentUser | null {
+  const db = getDb();
+  const user = db.select({ id: users.id, email: users.email, name: users.name }).from(users).where(eq(users.id, userId)).get();
+  if (!user) return null;
+  const rows = db
+    .select({ teamId: memberships.teamId, teamName: teams.name, role: memberships.role })
+    .from(memberships)
+    .innerJoin(teams, eq(teams.id, memberships.teamId))
+    .where(eq(memberships.userId, userId))
+    .orderBy(teams.name)
+    .all();
+  return { ...user, memberships: rows };
+}
+
+function userFromApiToken(token: string): CurrentUser | null {
+  const db = getDb();
+  const row = db
+    .select({ id: apiTokens.id, userId: apiTokens.userId, lastUsedAt: apiTokens.lastUsedAt })
+    .from(apiTokens)
+    .where(and(eq(apiTokens.tokenHash, sha256Hex(token)), isNull(apiTokens.revokedAt)))
+    .get();
+  if (!row) return null;
+  const now = Date.now();
+  if (!row.lastUsedAt || now - row.lastUsedAt.getTime() > 60_000) {
+    db.update(apiTokens).set({ lastUsedAt: new Date(now) }).where(eq(apiTokens.id, row.id)).run();
+  }
+  return loadUser(row.userId);
+}
+
+/**
+ * Resolves the caller of a request.
+ * @param request the incoming request (its Authorization header and cookies are read).
+ * @returns the resolution; `user` is null for anonymous callers.
+ */
+export async function resolveCaller(request: Request): Promise<Resolution> {
+  const authorization = request.headers.get('authorization');
+  if (authorization) {
+    const match = /^Bearer\s+(\S+)\s*$/i.exec(authorization);
+    const token = match?.[1] ?? '';
+    if (token.startsWith(apiTokenPrefix)) {
+      const user = userFromApiToken(token);
+      return user ? { user, via: 'token', problem: null } : { user: null, via: null, problem: 'token-not-recognised' };
+    }
+    return { user: null, via: null, problem: 'token-not-recognised' };
+  }
+  if (!request.headers.get('cookie')) return { user: null, via: null, problem: null };
+  const config = getConfig();
+  const jwt = await getToken({ req: request, secret: config.authSecret, secureCookie: config.secureCookies, logger: silentLogger });
+  if (!jwt?.sub) return { user: null, via: null, problem: null };
+  const epoch = getDb().select({ sessionEpoch: users.sessionEpoch }).from(users).where(eq(users.id, jwt.sub)).get();
+  if (!epoch || epoch.sessionEpoch !== (jwt.epoch ?? 0)) return { user: null, via: null, problem: null };
+  const user = loadUser(jwt.sub);
+  return { user, via: user ? 'session' : null, problem: null };
+}
+
+const silentLogger = { error() {}, warn() {}, debug() {}, log() {}, info() {} } as unknown as Console;

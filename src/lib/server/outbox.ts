@@ -1,0 +1,42 @@
+/**
+ * The outbox page's data: with MAIL_TRANSPORT=outbox, mails are not sent but kept. A user sees the
+ * mails addressed to them and, in teams they own, every mail the team's work sent (so an owner
+ * can hand an invitation link over by hand in a demo).
+ */
+import { desc, eq, inArray, or } from 'drizzle-orm';
+import { emailOutbox } from '../../db/schema';
+import { getConfig } from './config';
+import type { CurrentUser } from './current-user';
+import { getDb } from './db';
+
+/** A kept e-mail. */
+export interface OutboxMail {
+  id: number;
+  to: string;
+  subject: string;
+  text: string;
+  createdAt: string;
+}
+
+/** Whether the outbox is in use (MAIL_TRANSPORT=outbox). */
+export function outboxEnabled(): boolean {
+  return getConfig().mailTransport === 'outbox';
+}
+
+/**
+ * The mails the user may read, newest first.
+ * @param user the signed-in user.
+ * @param limit at most this many.
+ */
+export function listOutbox(user: CurrentUser, limit = 100): OutboxMail[] {
+  const ownedTeams = user.memberships.filter((m) => m.role === 'owner').map((m) => m.teamId);
+  const visible = ownedTeams.length > 0 ? or(eq(emailOutbox.to, user.email), inArray(emailOutbox.teamId, ownedTeams)) : eq(emailOutbox.to, user.email);
+  return getDb()
+    .select({ id: emailOutbox.id, to: emailOutbox.to, subject: emailOutbox.subject, text: emailOutbox.text, createdAt: emailOutbox.createdAt })
+    .from(emailOutbox)
+    .where(visible)
+    .orderBy(desc(emailOutbox.id))
+    .limit(limit)
+    .all()
+    .map((m) => ({ ...m, createdAt: m.createdAt.toISOString() }));
+}

@@ -1,0 +1,39 @@
+import type { APIRoute } from 'astro';
+import { z } from 'zod';
+import { can } from '../../../lib/permissions';
+import { endpoint, readJson } from '../../../lib/server/endpoint';
+import { fail, json } from '../../../lib/server/errors';
+import { requireTeamAccess, requireUser } from '../../../lib/server/guard';
+import { createStudy, listStudies } from '../../../lib/server/studies';
+
+/** GET /api/studies: the studies of the caller's teams. */
+export const GET: APIRoute = endpoint(({ locals }) => {
+  const user = requireUser(locals);
+  return json({ studies: listStudies(user) });
+});
+
+const body = z.object({
+  teamId: z.string().min(1).max(64).optional(),
+  name: z.string().trim().min(1, 'A study needs a name.').max(200),
+  description: z.string().trim().max(4000).default(''),
+});
+
+/** POST /api/studies: create a study in a team (owner, designer). */
+export const POST: APIRoute = endpoint(async ({ locals, request }) => {
+  const user = requireUser(locals);
+  const input = await readJson(request, body);
+  let teamId = input.teamId;
+  if (!teamId) {
+    const creatable = user.memberships.filter((m) => can(m.role, 'create:study'));
+    if (creatable.length === 0) {
+      throw fail.forbidden('None of your roles may create studies: it needs the permission create:study, which belongs to owner or survey designer.', 'missing-permission');
+    }
+    if (creatable.length > 1) throw fail.badRequest('You may create studies in several teams: say in which one (teamId).', 'team-required');
+    teamId = creatable[0].teamId;
+  }
+  requireTeamAccess(locals, teamId, 'create:study');
+  const study = createStudy(user, teamId, input.name, input.description);
+  return json({ study: { id: study.id, name: study.name, description: study.description, teamId: study.teamId, createdAt: study.createdAt.toISOString() } }, 201, {
+    Location: `/api/studies/${study.id}`,
+  });
+});

@@ -1,0 +1,26 @@
+import type { APIRoute } from 'astro';
+import { z } from 'zod';
+import { createApiToken, listApiTokens } from '../../../lib/server/api-tokens';
+import { endpoint, readJson } from '../../../lib/server/endpoint';
+import { fail, json } from '../../../lib/server/errors';
+import { requireUser } from '../../../lib/server/guard';
+
+/** GET /api/tokens: the caller's live tokens (never their secrets). */
+export const GET: APIRoute = endpoint(({ locals }) => {
+  const user = requireUser(locals);
+  return json({ tokens: listApiTokens(user.id) });
+});
+
+const body = z.object({ name: z.string().trim().min(1, 'Name the token after what uses it.').max(100) });
+
+/**
+ * POST /api/tokens: create a token; its secret is in this answer only. Signed in with a session
+ * only: a token cannot mint further tokens that would outlive its own revocation.
+ */
+export const POST: APIRoute = endpoint(async ({ locals, request }) => {
+  const user = requireUser(locals);
+  if (locals.authVia !== 'session') throw fail.forbidden('Create tokens from the account page, signed in; an API token cannot create another.', 'session-required');
+  const input = await readJson(request, body);
+  const { token, secret } = createApiToken(user, input.name);
+  return json({ token, secret }, 201);
+});

@@ -1,0 +1,257 @@
+/**
+ * The permission table, route by route: every route that exists is called as each demo role, as
+ * the other team's owner, as the designer through a personal API token, and anonymously, and each
+ * status is checked. ADD A ROW HERE FOR EVERY NEW ROUTE (DEVELOPERS.md, "Add a route").
+ *
+ * Expected statuses follow api.md: 401 not signed in, 403 signed in but the role may not,
+ * 404 not in one of your teams, and src/lib/permissions.ts for who may do what.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { body, Client, createMember, demo, demoEmails, inviteAndReadToken, signedIn, uniqueEmail } from '../setup/http';
+
+type Caller = 'owner' | 'designer' | 'field' | 'reviewer' | 'outsider' | 'token' | 'anonymous';
+const callers: Caller[] = ['owner', 'designer', 'field', 'reviewer', 'outsider', 'token', 'anonymous'];
+
+/** Expected status per caller; `token` defaults to the designer's. */
+type Expectation = Partial<Record<Caller, number>> & Record<Exclude<Caller, 'token'>, number>;
+
+interface Row {
+  name: string;
+  method: 'GET' | 'POST' | 'PUT' | 'DELETE';
+  /** The path, given what `prepare` made for this caller. */
+  path: (target: string) => string;
+  body?: (target: string) => unknown;
+  /** Makes a fresh target (an id or token) for each caller, for routes that consume or change it. */
+  prepare?: () => Promise<string>;
+  expect: Expectation;
+}
+
+const clients = {} as Record<Caller, Client>;
+const createdStudies: string[] = [];
+const outsideStudies: string[] = [];
+
+/** Shortcuts for common shapes of expectation. */
+const anyoneSignedIn = (status: number): Expectation => ({ owner: status, designer: status, field: status, reviewer: status, outsider: status, anonymous: 401 });
+const demoTeamMembers = (status: number): Expectation => ({ owner: status, designer: status, field: status, reviewer: status, outsider: 404, anonymous: 401 });
+const onlyOwner = (status: number): Expectation => ({ owner: status, designer: 403, field: 403, reviewer: 403, outsider: 404, anonymous: 401 });
+const pageForMembers: Expectation = { owner: 200, designer: 200, field: 200, reviewer: 200, outsider: 404, anonymous: 303 };
+const pageForAnyone: Expectation = { owner: 200, designer: 200, field: 200, reviewer: 200, outsider: 200, anonymous: 303 };
+
+const freshStudy = async () => {
+  const response = await clients.owner.post('/api/studies', { teamId: demo.team, name: 'Permission test study' });
+  const { study } = await body(response);
+  createdStudies.push(study.id);
+  return study.id as string;
+};
+const freshOutsideStudy = async () => {
+  const response = await clients.outsider.post('/api/studies', { teamId: demo.outsideTeam, name: 'Permission test study' });
+  const { study } = await body(response);
+  outsideStudies.push(study.id);
+  return study.id as string;
+};
+const freshMember = async () => {
+  const member = await createMember(clients.owner, demo.team, 'client_reviewer');
+  return member.userId;
+};
+const freshInvitationId = async () => {
+  const response = await clients.owner.post(`/api/teams/${demo.team}/invitations`, { email: uniqueEmail('withdrawn'), role: 'designer' });
+  return (await body(response)).invitation.id as string;
+};
+const freshInvitationToken = () => inviteAndReadToken(clients.owner, demo.team, uniqueEmail('invitee'), 'client_reviewer');
+const freshOwnerToken = async () => {
+  const response = await clients.owner.post('/api/tokens', { name: 'permission test' });
+  return (await body(response)).token.id as string;
+};
+
+const table: Row[] = [
+  // Health and the caller
+  { name: 'health', method: 'GET', path: () => '/api/health', expect: { owner: 200, designer: 200, field: 200, reviewer: 200, outsider: 200, anonymous: 200 } },
+  { name: 'me', method: 'GET', path: () => '/api/me', expect: anyoneSignedIn(200) },
+  {
+    name: 'change password (wrong present password: nothing changes)',
+    method: 'PUT',
+    path: () => '/api/me/password',
+    body: () => ({ currentPassword: 'not-the-password', newPassword: 'another-long-password' }),
+    expect: { ...anyoneSignedIn(400), token: 403 },
+  },
+  // Studies
+  { name: 'list studies', method: 'GET', path: () => '/api/studies', expect: anyoneSignedIn(200) },
+  {
+    name: 'create study in the demo team',
+    method: 'POST',
+    path: () => '/api/studies',
+    body: () => ({ teamId: demo.team, name: 'Permission test study' }),
+    expect: { owner: 201, designer: 201, field: 403, reviewer: 403, outsider: 404, anonymous: 401 },
+  },
+  { name: 'read the demo study', method: 'GET', path: () => `/api/studies/${demo.study}`, expect: demoTeamMembers(200) },
+  {
+    name: "read the other team's study",
+    method: 'GET',
+    path: () => `/api/studies/${demo.outsideStudy}`,
+    expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 200, anonymous: 401 },
+  },
+  { name: 'read a study that does not exist', method: 'GET', path: () => '/api/studies/no-such-study', expect: anyoneSignedIn(404) },
+  { name: 'delete a study', method: 'DELETE', path: (id) => `/api/studies/${id}`, prepare: freshStudy, expect: onlyOwner(204) },
+  {
+    name: "delete a study of the other team",
+    method: 'DELETE',
+    path: (id) => `/api/studies/${id}`,
+    prepare: freshOutsideStudy,
+    expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 204, anonymous: 401 },
+  },
+  // Team members and invitations
+  { name: 'list members', method: 'GET', path: () => `/api/teams/${demo.team}/members`, expect: demoTeamMembers(200) },
+  {
+    name: 'change a member role',
+    method: 'PUT',
+    path: (userId) => `/api/teams/${demo.team}/members/${userId}`,
+    body: () => ({ role: 'field_manager' }),
+    prepare: freshMember,
+    expect: onlyOwner(200),
+  },
+  { name: 'remove a member', method: 'DELETE', path: (userId) => `/api/teams/${demo.team}/members/${userId}`, prepare: freshMember, expect: onlyOwner(204) },
+  {
+    name: 'withdraw an invitation',
+    method: 'DELETE',
+    path: (id) => `/api/teams/${demo.team}/invitations/${id}`,
+    prepare: freshInvitationId,
+    expect: onlyOwner(204),
+  },
+  { name: 'list open invitations', method: 'GET', path: () => `/api/teams/${demo.team}/invitations`, expect: onlyOwner(200) },
+  {
+    name: 'invite by e-mail',
+    method: 'POST',
+    path: () => `/api/teams/${demo.team}/invitations`,
+    body: () => ({ email: uniqueEmail('invited'), role: 'designer' }),
+    expect: onlyOwner(201),
+  },
+  {
+    name: 'accept an invitation meant for someone else',
+    method: 'POST',
+    path: (token) => `/api/invitations/${token}/accept`,
+    body: () => ({ name: 'New Person', password: 'a-long-test-password' }),
+    prepare: freshInvitationToken,
+    expect: { owner: 403, designer: 403, field: 403, reviewer: 403, outsider: 403, anonymous: 201 },
+  },
+  { name: 'accept an unknown invitation', method: 'POST', path: () => '/api/invitations/not-a-token/accept', expect: { ...anyoneSignedIn(404), anonymous: 404 } },
+  // Personal API tokens
+  { name: 'list tokens', method: 'GET', path: () => '/api/tokens', expect: anyoneSignedIn(200) },
+  { name: 'create a token', method: 'POST', path: () => '/api/tokens', body: () => ({ name: 'test' }), expect: { ...anyoneSignedIn(201), token: 403 } },
+  {
+    name: "revoke the owner's token",
+    method: 'DELETE',
+    path: (id) => `/api/tokens/${id}`,
+    prepare: freshOwnerToken,
+    expect: { owner: 204, designer: 404, field: 404, reviewer: 404, outsider: 404, anonymous: 401 },
+  },
+  // Mail kept in the outbox (MAIL_TRANSPORT=outbox in tests)
+  { name: 'outbox', method: 'GET', path: () => '/api/outbox', expect: anyoneSignedIn(200) },
+  // First run
+  {
+    name: 'setup after setup',
+    method: 'POST',
+    path: () => '/api/setup',
+    body: () => ({ teamName: 'T', name: 'N', email: 'late@example.org', password: 'a-long-test-password' }),
+    expect: { owner: 409, designer: 409, field: 409, reviewer: 409, outsider: 409, anonymous: 409 },
+  },
+  // Anything else under /api/
+  { name: 'unknown API route', method: 'GET', path: () => '/api/no-such-thing', expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 404, anonymous: 404 } },
+  // Auth.js's own routes
+  { name: 'auth csrf', method: 'GET', path: () => '/api/auth/csrf', expect: { owner: 200, designer: 200, field: 200, reviewer: 200, outsider: 200, anonymous: 200 } },
+  { name: 'auth session', method: 'GET', path: () => '/api/auth/session', expect: { owner: 200, designer: 200, field: 200, reviewer: 200, outsider: 200, anonymous: 200 } },
+  // Pages
+  { name: 'page: dashboard', method: 'GET', path: () => '/', expect: pageForAnyone },
+  { name: 'page: demo study', method: 'GET', path: () => `/studies/${demo.study}`, expect: pageForMembers },
+  { name: "page: other team's study", method: 'GET', path: () => `/studies/${demo.outsideStudy}`, expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 200, anonymous: 303 } },
+  { name: 'page: demo team members', method: 'GET', path: () => `/teams/${demo.team}/members`, expect: pageForMembers },
+  { name: 'page: account', method: 'GET', path: () => '/account', expect: pageForAnyone },
+  { name: 'page: outbox', method: 'GET', path: () => '/outbox', expect: pageForAnyone },
+  { name: 'page: sign-in', method: 'GET', path: () => '/signin', expect: { owner: 303, designer: 303, field: 303, reviewer: 303, outsider: 303, anonymous: 200 } },
+  { name: 'page: setup after setup', method: 'GET', path: () => '/setup', expect: { owner: 303, designer: 303, field: 303, reviewer: 303, outsider: 303, anonymous: 303 } },
+  { name: 'page: invitation link', method: 'GET', path: () => '/invite/not-a-token', expect: { owner: 200, designer: 200, field: 200, reviewer: 200, outsider: 200, anonymous: 200 } },
+];
+
+beforeAll(async () => {
+  for (const caller of ['owner', 'designer', 'field', 'reviewer', 'outsider'] as const) {
+    clients[caller] = await signedIn(demoEmails[caller]);
+  }
+  const created = await clients.designer.post('/api/tokens', { name: 'permission test (designer)' });
+  const token = new Client();
+  token.bearer = (await body(created)).secret;
+  clients.token = token;
+  clients.anonymous = new Client();
+});
+
+/** Leaves the demo as the seed made it, for the other test files (the browser test's screenshots). */
+afterAll(async () => {
+  for (const id of createdStudies) await clients.owner.delete(`/api/studies/${id}`);
+  for (const id of outsideStudies) await clients.outsider.delete(`/api/studies/${id}`);
+  for (const [client, teamId] of [[clients.owner, demo.team], [clients.outsider, demo.outsideTeam]] as const) {
+    const studies = await body(await client.get('/api/studies'));
+    for (const study of studies.studies) {
+      if (study.name === 'Permission test study') await client.delete(`/api/studies/${study.id}`);
+    }
+    const team = await body(await client.get(`/api/teams/${teamId}/members`));
+    for (const member of team.members) {
+      if (member.email.endsWith('@example.org')) await client.delete(`/api/teams/${teamId}/members/${member.userId}`);
+    }
+    for (const invitation of team.invitations) await client.delete(`/api/teams/${teamId}/invitations/${invitation.id}`);
+  }
+  for (const caller of ['owner', 'designer', 'field', 'reviewer', 'outsider'] as const) {
+    const mine = await body(await clients[caller].get('/api/tokens'));
+    for (const token of mine.tokens) await clients[caller].delete(`/api/tokens/${token.id}`);
+  }
+});
+
+describe('permission table', () => {
+  for (const row of table) {
+    it(`${row.method} ${row.name}`, async () => {
+      const outcomes: Record<string, number> = {};
+      const wanted: Record<string, number> = {};
+      for (const caller of callers) {
+        const target = row.prepare ? await row.prepare() : '';
+        const response = await clients[caller].call(row.method, row.path(target), { json: row.body?.(target) });
+        outcomes[caller] = response.status;
+        wanted[caller] = row.expect[caller] ?? row.expect.designer;
+        if (response.status >= 400 && response.headers.get('content-type')?.includes('application/json')) {
+          const error = (await body(response)).error;
+          expect(error, `${caller}: error shape`).toMatchObject({ code: expect.any(String), message: expect.any(String) });
+        }
+      }
+      expect(outcomes).toEqual(wanted);
+    });
+  }
+
+  it('names the missing permission in a 403', async () => {
+    const response = await clients.reviewer.delete(`/api/studies/${demo.study}`);
+    expect(response.status).toBe(403);
+    const { error } = await body(response);
+    expect(error.code).toBe('missing-permission');
+    expect(error.message).toContain('delete:study');
+  });
+
+  it('refuses a write without our Origin when it carries cookies, but not a bearer-token write', async () => {
+    const crossSite = await clients.owner.call('POST', '/api/studies', { json: { teamId: demo.team, name: 'x' }, noOrigin: true });
+    expect(crossSite.status).toBe(403);
+    expect((await body(crossSite)).error.code).toBe('cross-site-request');
+    const script = await clients.token.call('POST', '/api/studies', { json: { teamId: demo.team, name: 'Permission test study' }, noOrigin: true });
+    expect(script.status).toBe(201);
+  });
+
+  it('answers a method a route does not have, and an oversized body, without a 500', async () => {
+    const patch = await clients.owner.call('PATCH', '/api/studies', { json: {} });
+    expect(patch.status).toBeGreaterThanOrEqual(400);
+    expect(patch.status).toBeLessThan(500);
+    const huge = await clients.owner.post('/api/studies', { teamId: demo.team, name: 'x', description: 'y'.repeat(1_100_000) });
+    expect(huge.status).toBe(413);
+    expect((await body(huge)).error.code).toBe('body-too-large');
+  });
+
+  it('answers 401 for a revoked or unknown token', async () => {
+    const unknown = new Client();
+    unknown.bearer = 'pd_not-a-real-token';
+    const response = await unknown.get('/api/me');
+    expect(response.status).toBe(401);
+    expect((await body(response)).error.message).toMatch(/token/i);
+  });
+});
