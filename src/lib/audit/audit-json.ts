@@ -119,8 +119,8 @@ export interface AuditJson {
     rowsUsed: number;
   } | null;
   kmo: number | null;
-  bartlett: { chi2: number | null; df: number; p: number | null } | null;
-  parallelAnalysis: { observed: number[]; random95: number[]; suggested: number } | null;
+  bartlett: { chi2: number | null; df: number; p: number | null; [extra: string]: unknown } | null;
+  parallelAnalysis: { observed: number[]; random95: number[]; suggested: number; [extra: string]: unknown } | null;
   scales: AuditScaleJson[];
   recommendations: AuditRecommendationJson[];
   afterCut: AuditAfterCutJson | null;

@@ -1,0 +1,185 @@
+/**
+ * `npm run --silent audit -- DATA [options]`: audits a pilot wave file exactly as an upload is
+ * read (same reader, same proposed column setup, same screening, same audit code as the
+ * server) and writes the audit JSON (`paredown.audit/1`) to --out or standard output.
+ *
+ * The proposed column setup and the proposed screening exclusions are accepted as they are, as a
+ * designer who confirms the proposal would; --keep-all audits every respondent instead.
+ * Exit codes: 0 audited (warnings are in the JSON), 2 input refused (one sentence on standard
+ * error: what is wrong and how to fix it), 1 internal fault.
+ */
+import { readFile, writeFile } from 'node:fs/promises';
+import { basename } from 'node:path';
+import { parseArgs } from 'node:util';
+import { auditInputFromWave, AuditInputError } from '../lib/audit/audit-input';
+import { runAudit, type AuditSettings } from '../lib/audit/run-audit';
+import { buildWave, isWaveRefusal, proposeSetup, readCodebook, readTable, screenRespondents } from '../lib/ingest';
+import type { WaveSetup } from '../lib/ingest/types';
+
+const USAGE =
+  'usage: npm run --silent audit -- DATA [--codebook FILE] [--sheet NAME] [--method pearson|spearman|polychoric] ' +
+  '[--missing pairwise|listwise] [--outcome COLUMN] [--locked ID,ID] [--bootstrap N] [--seed N] [--settings FILE.json] [--keep-all] [--out FILE]';
+
+class Refusal extends Error {}
+
+function refuse(message: string): never {
+  throw new Refusal(message);
+}
+
+function integerOption(name: string, value: string | undefined, min: number): number | undefined {
+  if (value === undefined) return undefined;
+  const number = Number(value);
+  if (!Number.isInteger(number) || number < min) refuse(`--${name} must be a whole number of at least ${min}, got "${value}".`);
+  return number;
+}
+
+async function readSettingsFile(path: string | undefined): Promise<Record<string, unknown>> {
+  if (path === undefined) return {};
+  let text: string;
+  try {
+    text = await readFile(path, 'utf8');
+  } catch {
+    refuse(`Cannot read the settings file "${path}"; check the path.`);
+  }
+  try {
+    const parsed = JSON.parse(text) as unknown;
+    if (parsed === null || typeof parsed !== 'object' || Array.isArray(parsed)) refuse(`The settings file "${path}" must hold one JSON object.`);
+    return parsed as Record<string, unknown>;
+  } catch (error) {
+    if (error instanceof Refusal) throw error;
+    refuse(`The settings file "${path}" is not valid JSON; fix it or leave --settings out.`);
+  }
+}
+
+async function readBytes(path: string, what: string): Promise<Uint8Array> {
+  try {
+    return new Uint8Array(await readFile(path));
+  } catch {
+    refuse(`Cannot read the ${what} "${path}"; check that the file exists and is readable.`);
+  }
+}
+
+async function main(argv: string[]): Promise<number> {
+  let parsed;
+  try {
+    parsed = parseArgs({
+      args: argv,
+      allowPositionals: true,
+      options: {
+        codebook: { type: 'string' },
+        sheet: { type: 'string' },
+        method: { type: 'string' },
+        missing: { type: 'string' },
+        outcome: { type: 'string' },
+        locked: { type: 'string' },
+        bootstrap: { type: 'string' },
+        seed: { type: 'string' },
+        settings: { type: 'string' },
+        'keep-all': { type: 'boolean' },
+        out: { type: 'string' },
+        help: { type: 'boolean' },
+      },
+    });
+  } catch (error) {
+    refuse(`${(error as Error).message.replace(/\s*\n\s*/g, ' ').replace(/\.+$/, '')}. ${USAGE}`);
+  }
+  const { values, positionals } = parsed;
+  if (values.help) {
+    process.stderr.write(`${USAGE}\n`);
+    return 0;
+  }
+  if (positionals.length !== 1) refuse(`Give exactly one data file. ${USAGE}`);
+  const method = values.method ?? 'pearson';
+  if (!['pearson', 'spearman', 'polychoric'].includes(method)) refuse(`--method must be pearson, spearman or polychoric, got "${method}".`);
+  const missing = values.missing ?? 'pairwise';
+  if (!['pairwise', 'listwise'].includes(missing)) refuse(`--missing must be pairwise or listwise, got "${missing}".`);
+
+  const bootstrap = integerOption('bootstrap', values.bootstrap, 0);
+  const seed = integerOption('seed', values.seed, 0);
+  const extra = await readSettingsFile(values.settings);
+
+  const dataPath = positionals[0];
+  const table = await readTable(await readBytes(dataPath, 'data file'), basename(dataPath), {}, { sheet: values.sheet });
+  let codebook = null;
+  if (values.codebook) {
+    const codebookTable = await readTable(await readBytes(values.codebook, 'codebook'), basename(values.codebook));
+    codebook = readCodebook(codebookTable);
+  } else if (table.codebookTable) {
+    codebook = readCodebook(table.codebookTable);
+  }
+  const proposal = proposeSetup(table, codebook);
+  const outcome = values.outcome ?? null;
+  if (outcome !== null && !proposal.columns.some((column) => column.column === outcome)) {
+    refuse(`"${outcome}" is not a column of ${basename(dataPath)}; name the outcome column by its header.`);
+  }
+  const setup: WaveSetup = {
+    columns: proposal.columns.map((column) => ({
+      column: column.column,
+      role: outcome !== null && column.column === outcome ? 'outcome' : column.role,
+      item: column.item,
+      durationUnit: column.durationUnit ?? null,
+    })),
+  };
+  const everyone = buildWave(table, setup);
+  const screening = screenRespondents(everyone);
+  const exclusions = values['keep-all'] ? [] : [...screening.proposedExclusions];
+  const wave = exclusions.length > 0 ? buildWave(table, setup, exclusions) : everyone;
+  process.stderr.write(
+    `Read ${wave.respondents} respondents and ${wave.items.length} items from ${basename(dataPath)}` +
+      (exclusions.length > 0 ? `; left out ${exclusions.length} flagged by screening (--keep-all keeps them).\n` : '.\n'),
+  );
+
+  const locked = values.locked ? values.locked.split(',').map((id) => id.trim()).filter(Boolean) : [];
+  const input = auditInputFromWave(wave, { outcome, locked });
+  const settings: AuditSettings = {
+    ...extra,
+    method: method as AuditSettings['method'],
+    missing: missing as AuditSettings['missing'],
+    outcome,
+    ...(bootstrap !== undefined ? { bootstrap } : {}),
+    ...(seed !== undefined ? { seed } : {}),
+  };
+  let lastPercent = -1;
+  const audit = await runAudit(input, settings, (stage, fraction) => {
+    const percent = Math.floor(fraction * 100);
+    if (percent >= lastPercent + 10 || percent === 100) {
+      lastPercent = percent;
+      process.stderr.write(`  ${String(percent).padStart(3)}%  ${stage}\n`);
+    }
+  });
+  const json = `${JSON.stringify(audit, null, 2)}\n`;
+  if (values.out) {
+    await writeFile(values.out, json);
+    process.stderr.write(`Wrote ${values.out} (${audit.recommendations.length} recommendations, ${audit.warnings.length} warnings).\n`);
+  } else {
+    process.stdout.write(json);
+  }
+  return 0;
+}
+
+function oneLine(text: string): string {
+  return text.replace(/\s*\n\s*/g, ' ').trim();
+}
+
+main(process.argv.slice(2)).then(
+  (code) => {
+    process.exitCode = code;
+  },
+  (error: unknown) => {
+    if (error instanceof Refusal || error instanceof AuditInputError || isWaveRefusal(error)) {
+      process.stderr.write(`paredown audit: ${oneLine((error as Error).message)}\n`);
+      process.exitCode = 2;
+      return;
+    }
+    if (error instanceof RangeError) {
+      // The core and the engine check their inputs first; a RangeError here is a setting or file
+      // the user can change (e.g. a threshold out of range in --settings).
+      process.stderr.write(`paredown audit: ${oneLine(error.message)}\n`);
+      process.exitCode = 2;
+      return;
+    }
+    process.stderr.write(`paredown audit: internal fault: ${(error as Error)?.message ?? String(error)}\n`);
+    if (process.env.PAREDOWN_DEBUG) process.stderr.write(`${(error as Error)?.stack ?? ''}\n`);
+    process.exitCode = 1;
+  },
+);

@@ -1,0 +1,92 @@
+/**
+ * The audit assembly: from a wave file to the audit JSON. The statistics themselves are checked
+ * against R and NIST in their own test files; here the claims are about the composition: the
+ * JSON has the contract's shape, never a NaN, the same numbers as calling the core directly,
+ * repeats exactly for the same seed, honours locks, and finds the demo's planted overlaps
+ * (planted by our own generator: fixtures/demo/README.md).
+ */
+import { readFileSync } from 'node:fs';
+import { describe, expect, it } from 'vitest';
+import { auditInputFromWave, AuditInputError } from '../../src/lib/audit/audit-input';
+import { runAudit } from '../../src/lib/audit/run-audit';
+import { buildWave, proposeSetup, readCodebook, readTable, screenRespondents } from '../../src/lib/ingest';
+import { correlationMatrix } from '../../src/lib/stats/correlation-matrix';
+import { selectItems } from '../../src/lib/stats/types';
+import { demoWave } from '../../src/lib/synth/demo';
+
+async function demoBuiltWave() {
+  const table = await readTable(new Uint8Array(readFileSync('fixtures/demo/library-pilot-1.csv')), 'library-pilot-1.csv');
+  const codebook = readCodebook(await readTable(new Uint8Array(readFileSync('fixtures/demo/library-codebook.csv')), 'library-codebook.csv'));
+  const proposal = proposeSetup(table, codebook);
+  const setup = { columns: proposal.columns.map((c) => ({ column: c.column, role: c.role, item: c.item, durationUnit: c.durationUnit ?? null })) };
+  const screening = screenRespondents(buildWave(table, setup));
+  return buildWave(table, setup, screening.proposedExclusions);
+}
+
+/** Every number in the JSON is finite (JSON.stringify would silently turn NaN into null). */
+function nonFinitePaths(value: unknown, path = '$'): string[] {
+  if (typeof value === 'number') return Number.isFinite(value) ? [] : [path];
+  if (Array.isArray(value)) return value.flatMap((entry, k) => nonFinitePaths(entry, `${path}[${k}]`));
+  if (value !== null && typeof value === 'object') return Object.entries(value).flatMap(([key, entry]) => nonFinitePaths(entry, `${path}.${key}`));
+  return [];
+}
+
+describe('runAudit on the demo wave', async () => {
+  const wave = await demoBuiltWave();
+  const input = auditInputFromWave(wave, { outcome: 'overall_sat' });
+  const audit = await runAudit(input, { bootstrap: 20, seed: 7, outcome: 'overall_sat' });
+
+  it('has the contract shape and no non-finite number anywhere', () => {
+    expect(audit.schema).toBe('paredown.audit/1');
+    expect(audit.input).toMatchObject({ rows: 400, respondentsUsed: 400 - wave.excluded.length, respondentsExcluded: wave.excluded.length, items: wave.items.length });
+    expect(audit.items.map((item) => item.id)).toEqual(wave.items.map((item) => item.id));
+    expect(audit.eigenvalues).toHaveLength(audit.correlation.items.length);
+    expect(audit.collinearity?.columns[0]).toBe('(intercept)');
+    expect(audit.outcomeModel?.coefficients[0].term).toBe('(intercept)');
+    expect(nonFinitePaths(audit)).toEqual([]);
+  });
+
+  it('reports the same correlation matrix as the core called directly', () => {
+    const usable = audit.correlation.items.map((id) => wave.items.findIndex((item) => item.id === id));
+    const direct = correlationMatrix(selectItems(input.matrix, usable), { method: 'pearson', missing: 'pairwise' });
+    const order = direct.matrix.order;
+    for (let a = 0; a < order; a++) for (let b = 0; b < order; b++) expect(audit.correlation.matrix[a][b]).toBeCloseTo(direct.matrix.data[a * order + b], 12);
+  });
+
+  it('names the constant item and the exact duplicate instead of producing NaN', () => {
+    const codes = audit.warnings.map((w) => `${w.code}:${w.items.join(',')}`);
+    expect(codes).toContain('constant-item:hours_7');
+    expect(audit.items.find((item) => item.id === 'hours_7')?.inMatrix).toBe(false);
+    expect(audit.items.find((item) => item.id === 'events_3b')?.vif).toBeNull();
+    expect(audit.kmo).not.toBeNull(); // computed with the copy set aside
+    expect(codes).toContain('set-aside-for-structure:events_3b');
+  });
+
+  it('recommends a cut in every planted overlap of the demo', () => {
+    const truth = demoWave().truth;
+    const planted = [...truth.plantedPairs, ...truth.duplicates];
+    for (const [a, b] of planted) {
+      const found = audit.recommendations.some((r) => r.cluster.includes(a) && r.cluster.includes(b));
+      expect(found, `${a} ~ ${b}`).toBe(true);
+    }
+    for (const recommendation of audit.recommendations) expect(recommendation.reason.length).toBeGreaterThan(20);
+  });
+
+  it('repeats exactly for the same settings and seed', async () => {
+    const again = await runAudit(input, { bootstrap: 20, seed: 7, outcome: 'overall_sat' });
+    expect(JSON.stringify(again)).toBe(JSON.stringify(audit));
+  });
+
+  it('never proposes a locked item for a cut', async () => {
+    const lockedIds = audit.recommendations.flatMap((r) => r.actions.filter((a) => a.action !== 'keep').map((a) => a.item));
+    expect(lockedIds.length).toBeGreaterThan(0);
+    const locked = await runAudit(auditInputFromWave(wave, { locked: lockedIds }), { bootstrap: 0 });
+    const cut = locked.recommendations.flatMap((r) => r.actions.filter((a) => a.action !== 'keep').map((a) => a.item));
+    for (const id of lockedIds) expect(cut).not.toContain(id);
+  });
+
+  it('refuses an outcome or a locked item the wave does not have', () => {
+    expect(() => auditInputFromWave(wave, { outcome: 'nope' })).toThrow(AuditInputError);
+    expect(() => auditInputFromWave(wave, { locked: ['Q99'] })).toThrow(/not an item of this wave/);
+  });
+});
