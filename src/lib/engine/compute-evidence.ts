@@ -1,0 +1,383 @@
+/**
+ * Everything the redundancy engine reads from one wave, computed with the numerical core and
+ * returned as plain objects in the order of `items[]`: the correlation matrix with its pair n
+ * (repaired to the nearest correlation matrix when a pairwise or polychoric matrix is
+ * indefinite), the covariance matrix, VIF / tolerance / auxiliary R², eigenvalues and the
+ * condition number, Belsley-Kuh-Welsch condition indices and proportions, each scale's alpha,
+ * item-rest correlations, alpha if deleted and omega total, and each item's missing rate and
+ * floor / ceiling shares.
+ *
+ * Items that cannot enter a correlation matrix (constant, or fewer than two answers) are left out
+ * of every matrix and reported in `warnings`; their per-item statistics are null.
+ */
+import { alphaIfItemDeleted } from '../stats/alpha-if-item-deleted';
+import { belsleyCollinearity } from '../stats/belsley-collinearity';
+import { conditionNumber } from '../stats/condition-number';
+import { correlationMatrix, usableItems } from '../stats/correlation-matrix';
+import { covarianceMatrix } from '../stats/covariance-matrix';
+import { cronbachAlpha } from '../stats/cronbach-alpha';
+import { itemDescriptives } from '../stats/item-descriptives';
+import { itemRestCorrelations } from '../stats/item-rest-correlation';
+import { minresOneFactor } from '../stats/minres-factor';
+import { omegaTotal } from '../stats/omega-total';
+import { symmetricEigen } from '../stats/symmetric-eigen';
+import { selectItems, type ItemMatrix, type NumericalNotice, type SquareMatrix } from '../stats/types';
+import { varianceInflation } from '../stats/variance-inflation';
+import type { EngineSettings } from './engine-settings';
+import { principalSubmatrix } from './principal-submatrix';
+import type { ScaleAfterRemoval, ScaleAlphaOracle } from './recommend-cuts';
+import type { CollinearityEvidence, EngineEvidence, EngineItem, EngineWarning, ItemDescriptives, ScaleEvidence } from './types';
+
+/** How much `computeEvidence` computes. */
+export interface ComputeEvidenceOptions {
+  /**
+   * `full` (default): everything. `decision`: only what the recommendations depend on (skips
+   * omega and alpha if deleted, and takes the faster Gram path for the condition indices), for
+   * bootstrap resamples.
+   */
+  readonly detail?: 'full' | 'decision';
+}
+
+/**
+ * Turns notices of a core function (item indices local to the matrix it saw) into warnings with
+ * item ids. `local[k]` is the index into items[] of the matrix's k-th item. An exact-dependency
+ * notice gets a sentence naming the items by id (the core's sentence counts local columns).
+ * @param notices The core's notices.
+ * @param items All items of the audit.
+ * @param local Map from the core matrix's columns to indices into items[].
+ * @param context Prefix for the message (e.g. "Scale S1"), or empty.
+ * @returns One warning per notice.
+ * References: none (a change of vocabulary, not a method).
+ */
+export function warningsFromNotices(notices: readonly NumericalNotice[], items: readonly EngineItem[], local: readonly number[], context = ''): EngineWarning[] {
+  return notices.map((notice) => {
+    const ids = notice.items.map((k) => items[local[k]]?.id).filter((id): id is string => id !== undefined);
+    let message = notice.message;
+    if (notice.code === 'exact-dependency' && ids.length > 0 && ids.length < local.length) {
+      message = `${ids.join(', ')} are exactly linearly dependent (one is an exact linear combination of the others, e.g. a duplicated column): their VIF and condition index are infinite and reported as null.`;
+    }
+    return { code: notice.code, items: ids, message: context.length > 0 ? `${context}: ${message}` : message };
+  });
+}
+
+/**
+ * Checks the engine's item list against the matrix.
+ * @param matrix The recoded matrix.
+ * @param items One entry per column.
+ * @param caller Name of the public function, for the message.
+ * @returns Nothing; returns only when every check passes.
+ * References: none (input validation).
+ * @throws {RangeError} naming `caller` when the counts differ, an id is empty or repeated, or a
+ *   valid range is not finite with min < max.
+ */
+export function checkEngineItems(matrix: ItemMatrix, items: readonly EngineItem[], caller: string): void {
+  if (!Array.isArray(items) || items.length !== matrix.columns) {
+    throw new RangeError(`${caller}: items must list one entry per matrix column (${matrix.columns}), got ${Array.isArray(items) ? items.length : 'none'}`);
+  }
+  const seen = new Set<string>();
+  items.forEach((item, j) => {
+    if (typeof item.id !== 'string' || item.id.length === 0) throw new RangeError(`${caller}: item ${j} has no id`);
+    if (seen.has(item.id)) throw new RangeError(`${caller}: item id "${item.id}" appears twice`);
+    seen.add(item.id);
+    const { min, max } = item;
+    if ((min === null) !== (max === null)) throw new RangeError(`${caller}: item "${item.id}" must give both min and max or neither`);
+    if (min !== null && max !== null && !(Number.isFinite(min) && Number.isFinite(max) && min < max)) {
+      throw new RangeError(`${caller}: item "${item.id}" has an invalid range ${min} to ${max}`);
+    }
+  });
+}
+
+/** Reliability of each scale from covariance and correlation matrices over `usable` items. */
+export interface ScaleReliabilityInput {
+  readonly items: readonly EngineItem[];
+  /** Indices into items[] of the matrices' items, ascending. */
+  readonly usable: readonly number[];
+  readonly covariance: SquareMatrix;
+  readonly correlation: SquareMatrix;
+  readonly detail: 'full' | 'decision';
+}
+
+/** Per-scale reliability and per-item item-rest / alpha-if-deleted (items[] order). */
+export interface ScaleReliability {
+  readonly scales: ScaleEvidence[];
+  readonly itemRest: (number | null)[];
+  readonly alphaIfDeleted: (number | null)[];
+  readonly warnings: EngineWarning[];
+}
+
+/**
+ * Each scale's raw and standardized alpha (from the covariances), item-rest correlations and
+ * alpha if deleted (scales of 2+ and 3+ items), and omega total from one-factor minres loadings
+ * of the scale's correlations (scales of 3+ items). Scales are listed in order of first
+ * appearance in items[]; a scale keeps its place even when none of its items is usable.
+ * @param input Items, the usable indices and the matrices over them, and the detail level.
+ * @throws {RangeError} when the matrices do not match the usable items.
+ * @returns Scales with reliability, per-item figures and warnings for every null.
+ * References: Cronbach 1951, "Coefficient alpha and the internal structure of tests"; McDonald
+ * 1999, "Test Theory: A Unified Treatment" (omega total); Harman & Jones 1966 (minres).
+ */
+export function scaleReliability(input: ScaleReliabilityInput): ScaleReliability {
+  const { items, usable, covariance, correlation, detail } = input;
+  if (covariance.order !== usable.length || correlation.order !== usable.length) {
+    throw new RangeError(`scaleReliability: matrices of order ${covariance.order} and ${correlation.order} for ${usable.length} usable items`);
+  }
+  const position = new Map(usable.map((item, k) => [item, k]));
+  const itemRest = new Array<number | null>(items.length).fill(null);
+  const alphaIfDeleted = new Array<number | null>(items.length).fill(null);
+  const warnings: EngineWarning[] = [];
+  const scaleIds: string[] = [];
+  for (const item of items) if (item.scale !== null && !scaleIds.includes(item.scale)) scaleIds.push(item.scale);
+
+  const scales = scaleIds.map((id): ScaleEvidence => {
+    const members = usable.filter((index) => items[index].scale === id);
+    const local = members.map((index) => position.get(index) as number);
+    if (members.length < 2) {
+      warnings.push({ code: 'scale-too-small', items: members.map((index) => items[index].id), message: `Scale ${id} has fewer than two usable items, so its reliability cannot be computed.` });
+      return { id, items: members, alpha: null, alphaStd: null, omegaTotal: null };
+    }
+    const scaleCovariance = principalSubmatrix(covariance, local);
+    const alpha = cronbachAlpha(scaleCovariance);
+    warnings.push(...warningsFromNotices(alpha.notices, items, members, `Scale ${id}`));
+    const rest = itemRestCorrelations(scaleCovariance);
+    warnings.push(...warningsFromNotices(rest.notices, items, members, `Scale ${id}`));
+    members.forEach((index, k) => {
+      itemRest[index] = rest.correlations[k];
+    });
+    let omega: number | null = null;
+    if (detail === 'full') {
+      if (members.length >= 3) {
+        const deleted = alphaIfItemDeleted(scaleCovariance);
+        warnings.push(...warningsFromNotices(deleted.notices, items, members, `Scale ${id}`));
+        members.forEach((index, k) => {
+          alphaIfDeleted[index] = deleted.alpha[k];
+        });
+        const factor = minresOneFactor(principalSubmatrix(correlation, local));
+        warnings.push(...warningsFromNotices(factor.notices, items, members, `Scale ${id}`));
+        if (factor.loadings !== null) {
+          const result = omegaTotal(factor.loadings);
+          warnings.push(...warningsFromNotices(result.notices, items, members, `Scale ${id}`));
+          omega = result.omegaTotal;
+        }
+      } else {
+        warnings.push({ code: 'omega-skipped', items: members.map((index) => items[index].id), message: `Scale ${id} has two usable items: omega and alpha if deleted need at least three.` });
+      }
+    }
+    return { id, items: members, alpha: alpha.alpha, alphaStd: alpha.alphaStandardized, omegaTotal: omega };
+  });
+  return { scales, itemRest, alphaIfDeleted, warnings };
+}
+
+/**
+ * Computes the engine's evidence for one wave.
+ * @param matrix Recoded respondents × items (reverse-keyed items flipped, missing as NaN); not modified.
+ * @param items One entry per column (id, scale, wording, lock, valid range), in column order.
+ * @param settings `method` (pearson, spearman, polychoric) and `missing` (pairwise, listwise).
+ * @param options `detail`: `full` (default) or `decision` (skips omega and alpha if deleted).
+ * @throws {RangeError} when the items do not match the matrix (count, duplicate ids, ranges) or
+ *   the core refuses the data (infinite values, an unknown method or policy).
+ * @returns The evidence, per-item arrays in items[] order, with warnings for every value that is
+ *   null and every repair or exclusion.
+ * References: Marquardt 1970 (VIF); Belsley, Kuh & Welsch 1980 (condition indices); Cronbach
+ * 1951 (alpha); McDonald 1999 (omega); Higham 2002 (nearest correlation matrix); Terwee et al.
+ * 2007 (floor and ceiling).
+ */
+export function computeEvidence(
+  matrix: ItemMatrix,
+  items: readonly EngineItem[],
+  settings: Pick<EngineSettings, 'method' | 'missing'>,
+  options: ComputeEvidenceOptions = {},
+): EngineEvidence {
+  checkEngineItems(matrix, items, 'computeEvidence');
+  const detail = options.detail ?? 'full';
+  const warnings: EngineWarning[] = [];
+  const usableResult = usableItems(matrix);
+  warnings.push(...warningsFromNotices(usableResult.notices, items, items.map((_, j) => j)));
+  const usable = [...usableResult.usable];
+
+  const descriptives: ItemDescriptives[] = itemDescriptives(matrix, {
+    ranges: items.map((item) => (item.min === null || item.max === null ? null : { min: item.min, max: item.max })),
+  }).map((entry) => ({
+    n: entry.n,
+    mean: entry.mean,
+    sd: entry.standardDeviation,
+    missingRate: entry.missingRate,
+    floor: entry.floorShare,
+    ceiling: entry.ceilingShare,
+  }));
+
+  const empty: SquareMatrix = { order: 0, data: new Float64Array(0) };
+  const nothing = new Array<null>(items.length).fill(null);
+  if (usable.length === 0) {
+    warnings.push({ code: 'no-usable-items', items: [], message: 'No item varies, so no correlation, VIF or reliability can be computed.' });
+    return {
+      items, method: settings.method, missing: settings.missing, rows: matrix.rows, completeData: true, usable,
+      correlation: empty, pairN: empty, correlationRows: 0, repaired: false, covariance: empty,
+      vif: nothing, tolerance: nothing, r2: nothing, exactDependencies: [], eigenvalues: [], conditionNumber: null,
+      collinearity: null, itemRest: nothing, alphaIfDeleted: nothing, scales: [], descriptives, warnings,
+    };
+  }
+
+  const data = usable.length === items.length ? matrix : selectItems(matrix, usable);
+  let completeData = true;
+  for (let t = 0; t < data.data.length && completeData; t++) if (data.data[t] !== data.data[t]) completeData = false;
+
+  const correlation = correlationMatrix(data, { method: settings.method, missing: settings.missing });
+  warnings.push(...warningsFromNotices(correlation.notices, items, usable));
+  // The core repairs an indefinite matrix (Higham's nearest correlation matrix) and says so.
+  const matrixR = correlation.matrix;
+  const repaired = correlation.repaired;
+  const covariance = covarianceMatrix(data, { missing: settings.missing });
+  warnings.push(...warningsFromNotices(covariance.notices, items, usable));
+
+  const overlap = inflationAndSpectrum(matrixR, items, usable);
+  warnings.push(...overlap.warnings);
+
+  const collinearity = collinearityEvidence(data, items, usable, warnings, detail);
+  const reliability = scaleReliability({ items, usable, covariance: covariance.matrix, correlation: matrixR, detail });
+  warnings.push(...reliability.warnings);
+
+  return {
+    items,
+    method: settings.method,
+    missing: settings.missing,
+    rows: matrix.rows,
+    completeData,
+    usable,
+    correlation: matrixR,
+    pairN: correlation.n,
+    correlationRows: correlation.rowsUsed,
+    repaired,
+    covariance: covariance.matrix,
+    vif: overlap.vif,
+    tolerance: overlap.tolerance,
+    r2: overlap.r2,
+    exactDependencies: overlap.exactDependencies,
+    eigenvalues: overlap.eigenvalues,
+    conditionNumber: overlap.conditionNumber,
+    collinearity,
+    itemRest: reliability.itemRest,
+    alphaIfDeleted: reliability.alphaIfDeleted,
+    scales: reliability.scales,
+    descriptives,
+    warnings,
+  };
+}
+
+/** VIF, tolerance, R², exact dependencies, eigenvalues and condition number (one decomposition). */
+export interface InflationAndSpectrum {
+  readonly vif: (number | null)[];
+  readonly tolerance: (number | null)[];
+  readonly r2: (number | null)[];
+  readonly exactDependencies: number[][];
+  readonly eigenvalues: number[];
+  readonly conditionNumber: number | null;
+  readonly warnings: EngineWarning[];
+}
+
+/**
+ * VIF / tolerance / R² of every usable item and the spectrum of the correlation matrix, from one
+ * eigen-decomposition; per-item arrays in items[] order (null outside the matrix).
+ * @param correlation Correlation matrix over `usable` (positive semi-definite).
+ * @param items All items.
+ * @param usable Indices into items[] of the matrix's items.
+ * @throws {RangeError} when the matrix is not a correlation matrix of order `usable.length`.
+ * @returns The figures with warnings (exact dependencies, a singular matrix).
+ * References: Marquardt 1970, "Generalized inverses, ridge regression, biased linear estimation,
+ * and nonlinear estimation"; Belsley, Kuh & Welsch 1980, "Regression Diagnostics", ch. 3.
+ */
+export function inflationAndSpectrum(correlation: SquareMatrix, items: readonly EngineItem[], usable: readonly number[]): InflationAndSpectrum {
+  if (correlation.order !== usable.length) throw new RangeError(`inflationAndSpectrum: matrix of order ${correlation.order} for ${usable.length} usable items`);
+  const eigen = symmetricEigen(correlation);
+  const inflation = varianceInflation(correlation, { eigen });
+  const condition = conditionNumber(correlation, { eigenvalues: eigen.values });
+  const vif = new Array<number | null>(items.length).fill(null);
+  const tolerance = new Array<number | null>(items.length).fill(null);
+  const r2 = new Array<number | null>(items.length).fill(null);
+  inflation.items.forEach((entry, k) => {
+    vif[usable[k]] = entry.vif;
+    tolerance[usable[k]] = entry.tolerance;
+    r2[usable[k]] = entry.r2;
+  });
+  return {
+    vif,
+    tolerance,
+    r2,
+    exactDependencies: inflation.exactDependencies.map((group) => group.map((k) => usable[k])),
+    eigenvalues: Array.from(eigen.values),
+    conditionNumber: condition.value,
+    warnings: [...warningsFromNotices(inflation.notices, items, usable), ...warningsFromNotices(condition.notices, items, usable)],
+  };
+}
+
+/** Belsley-Kuh-Welsch diagnostics, or null (with a warning) when too few complete rows. */
+function collinearityEvidence(
+  data: ItemMatrix,
+  items: readonly EngineItem[],
+  usable: readonly number[],
+  warnings: EngineWarning[],
+  detail: 'full' | 'decision',
+): CollinearityEvidence | null {
+  // Bootstrap resamples take the Gram-matrix path (one cross-product pass and a small
+  // eigen-decomposition): its relative error, about ε·η², is harmless below η = 1e4.
+  const result = belsleyCollinearity(data, { path: detail === 'decision' ? 'gram' : 'auto' });
+  const width = usable.length + 1;
+  if (result.rowsUsed < width + 1) {
+    warnings.push({
+      code: 'collinearity-skipped',
+      items: [],
+      message: `Only ${result.rowsUsed} respondents answered every item, too few for condition indices over ${usable.length} items and an intercept; near-dependencies were not checked.`,
+    });
+    return null;
+  }
+  warnings.push(...warningsFromNotices(result.notices, items, usable));
+  const local = [-1, ...usable];
+  return {
+    columns: local,
+    conditionIndices: result.conditionIndices,
+    varianceProportions: result.varianceProportions,
+    rowsUsed: result.rowsUsed,
+  };
+}
+
+/**
+ * A reliability oracle for `recommendCuts`: each scale's raw alpha and usable item count after
+ * removing a set of items, computed exactly as a fresh `computeEvidence` of the reduced item set
+ * would compute it. Under pairwise deletion (or with no missing answer) every covariance depends
+ * on its two items only, so the evidence's covariance matrix is read; under listwise deletion
+ * with missing answers the complete rows change with the item set, so the covariances are
+ * recomputed from the data. Results are cached per removed set.
+ * @param evidence The evidence of the full item set.
+ * @param matrix The recoded matrix the evidence came from.
+ * @throws {RangeError} when the matrix does not match the evidence's items.
+ * @returns The oracle.
+ * References: Cronbach 1951, "Coefficient alpha and the internal structure of tests".
+ */
+export function scaleAlphaOracle(evidence: EngineEvidence, matrix: ItemMatrix): ScaleAlphaOracle {
+  if (matrix.columns !== evidence.items.length) throw new RangeError(`scaleAlphaOracle: the matrix has ${matrix.columns} items, the evidence ${evidence.items.length}`);
+  const cache = new Map<string, ReadonlyMap<string, ScaleAfterRemoval>>();
+  const position = new Map(evidence.usable.map((item, k) => [item, k]));
+  const fromData = evidence.missing === 'listwise' && !evidence.completeData;
+  return (removed) => {
+    const key = [...removed].sort((a, b) => a - b).join(',');
+    const cached = cache.get(key);
+    if (cached !== undefined) return cached;
+    const kept = evidence.usable.filter((index) => !removed.has(index));
+    let covariance: SquareMatrix;
+    let local: Map<number, number>;
+    if (fromData && kept.length > 0) {
+      covariance = covarianceMatrix(selectItems(matrix, kept), { missing: 'listwise' }).matrix;
+      local = new Map(kept.map((item, k) => [item, k]));
+    } else {
+      covariance = evidence.covariance;
+      local = position;
+    }
+    const result = new Map<string, ScaleAfterRemoval>();
+    for (const scale of evidence.scales) {
+      const members = scale.items.filter((index) => !removed.has(index));
+      const alpha = members.length < 2 ? null : cronbachAlpha(principalSubmatrix(covariance, members.map((index) => local.get(index) as number))).alpha;
+      result.set(scale.id, { alpha, items: members.length });
+    }
+    cache.set(key, result);
+    return result;
+  };
+}

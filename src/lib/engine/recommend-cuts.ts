@@ -1,0 +1,537 @@
+/**
+ * From overlap clusters to a constrained cut list: in each cluster one item is kept and the
+ * others are proposed for `drop`, `merge` (into the keeper) or `reword`, unless a constraint the
+ * designer set blocks it, in which case the item is `keep` with the blocking constraints named.
+ *
+ * The rules (docs/decisions/003-redundancy-engine.md):
+ * - Keeper: a locked item always wins (the best-scoring one if several are locked); otherwise the
+ *   highest keeper score
+ *   `fit − missingRate − 0.5 · extremeShare − 0.05 · ln(VIF without partners)`, where fit is the
+ *   item-rest correlation within its scale (or, when any cluster member has none, the multiple
+ *   correlation with the items outside the cluster), extremeShare the larger of its floor and
+ *   ceiling shares, and "VIF without partners" the VIF it would have once the other cluster
+ *   members are gone. Ties: fewer missing answers, then the earlier item.
+ * - The other members are taken worst score first. A member is changed only while it still
+ *   overlaps what is left of the cluster (a strong pair with a remaining member, or a
+ *   near/exact dependency whose members all remain); otherwise it stays with no change needed.
+ * - Action: `merge` when |r| with the keeper is at or above `mergeCorrelation` (0.95) or the
+ *   wording similarity at or above `mergeWordingSimilarity` (0.80); `reword` when the wording is
+ *   known and its similarity below `rewordWordingSimilarity` (0.30: the statistics say overlap,
+ *   the words do not); `drop` otherwise.
+ * - Constraints, never broken: a locked item is never changed; a drop or merge must leave its
+ *   scale at least `minItemsPerScale` usable items, every scale's raw alpha at or above
+ *   `alphaFloor` (a scale already below it is only protected from cuts of its own items) and no
+ *   more than `maxAlphaDrop` below its value before any cut, and the number of cut items within
+ *   `maxCutShare` of the usable items. A reword removes nothing, so only the lock applies to it.
+ * - Clusters are handled strongest first (largest |r|), so the cut cap spends itself on the
+ *   clearest duplicates.
+ */
+import { varianceInflation } from '../stats/variance-inflation';
+import type { EngineSettings } from './engine-settings';
+import { KEEPER_SCORE_TIE, KEEPER_SCORE_WEIGHTS } from './engine-settings';
+import { principalSubmatrix } from './principal-submatrix';
+import type { DependencyEvidence, EngineEvidence, OverlapCluster, PairEvidence } from './types';
+
+/** A change the engine can propose for an item. */
+export type ChangeAction = 'drop' | 'merge' | 'reword';
+
+/** What happens to an item of a cluster: a change, or `keep`. */
+export type CutActionKind = ChangeAction | 'keep';
+
+/** Names of the designer's constraints, as they appear in `blockedBy`. */
+export type ConstraintName = 'locked' | 'min-items' | 'alpha-floor' | 'max-alpha-drop' | 'cut-cap';
+
+/** A scale's raw alpha and usable item count after a set of items is removed. */
+export interface ScaleAfterRemoval {
+  readonly alpha: number | null;
+  readonly items: number;
+}
+
+/**
+ * Reliability of every scale after removing a set of items (indices into items[]), computed the
+ * way a fresh audit of the reduced item set computes it (see `scaleAlphaOracle` in
+ * compute-evidence.ts).
+ */
+export type ScaleAlphaOracle = (removed: ReadonlySet<number>) => ReadonlyMap<string, ScaleAfterRemoval>;
+
+/** One item's line in a recommendation (audit-json `actions[]`, with keys added). */
+export interface RecommendedAction {
+  readonly item: string;
+  readonly action: CutActionKind;
+  /** The keeper for `merge`, else null. */
+  readonly into: string | null;
+  /** What the engine would propose without constraints; null when the item needs no change. */
+  readonly proposed: ChangeAction | null;
+  /** Constraints that turned the proposal into `keep` (empty when none did). */
+  readonly blockedBy: readonly ConstraintName[];
+  /** Correlation with the keeper (recoded values). */
+  readonly rWithKeeper: number;
+  /** Wording similarity with the keeper, null when either wording is unknown. */
+  readonly wordingWithKeeper: number | null;
+}
+
+/** A pair's evidence with item ids, for the audit JSON. */
+export interface PairReport {
+  readonly items: readonly [string, string];
+  readonly r: number;
+  readonly n: number;
+  readonly lower: number | null;
+  readonly upper: number | null;
+  readonly wording: number | null;
+}
+
+/** A near-dependency with item ids, for the audit JSON. */
+export interface DependencyReport {
+  readonly dimension: number;
+  /** null for an exact dependency (zero singular value). */
+  readonly conditionIndex: number | null;
+  readonly items: readonly string[];
+  readonly proportions: readonly number[];
+  readonly interceptProportion: number;
+  /** The items the correlation matrix confirms (VIF at or above the threshold, or infinite). */
+  readonly confirmed: readonly string[];
+}
+
+/** The keeper score of one cluster member and its parts. */
+export interface KeeperScore {
+  readonly item: string;
+  readonly locked: boolean;
+  readonly score: number;
+  /** The fit term and where it came from. */
+  readonly fit: number | null;
+  readonly fitSource: 'item-rest' | 'multiple-correlation';
+  readonly missingRate: number;
+  readonly extremeShare: number;
+  /** VIF the item would have once its cluster partners are gone (null when undefined). */
+  readonly vifWithoutPartners: number | null;
+}
+
+/** The evidence behind one recommendation (audit-json `evidence`, with keys added). */
+export interface RecommendationEvidence {
+  /** Largest |r| among the cluster's pairs, signed. */
+  readonly maxR: number;
+  /** Condition index of the dimension that carries the cluster most; null without diagnostics or for an exact dependency. */
+  readonly conditionIndex: number | null;
+  /** Largest VIF among the cluster's items; null when one of them is in an exact dependency. */
+  readonly vifBefore: number | null;
+  /** Largest VIF among the cluster's items left after this recommendation's drops and merges. */
+  readonly vifAfter: number | null;
+  /** True when a near-dependency (or exact dependency) ties the cluster, not only strong pairs. */
+  readonly nearDependency: boolean;
+  readonly strongPairs: readonly PairReport[];
+  readonly pairs: readonly PairReport[];
+  readonly dependencies: readonly DependencyReport[];
+  readonly exactDependencies: readonly (readonly string[])[];
+  readonly keeperScores: readonly KeeperScore[];
+}
+
+/** One recommendation (audit-json `recommendations[]`, with keys added). */
+export interface Recommendation {
+  readonly cluster: readonly string[];
+  readonly keep: string;
+  /** One line per cluster member other than the keeper, in items[] order. */
+  readonly actions: readonly RecommendedAction[];
+  readonly evidence: RecommendationEvidence;
+  /** Share of bootstrap resamples that make the same recommendation; null until measured or when the bootstrap is off. */
+  readonly stability: number | null;
+  /** stability below the settings' threshold; null when not measured. */
+  readonly unstable: boolean | null;
+  /** Share of bootstrap resamples that find the cluster's items together again (any keeper); null when not measured. */
+  readonly overlapStability: number | null;
+  /** One sentence a client reviewer can read. */
+  readonly reason: string;
+  /** Cautions shown beside the recommendation. */
+  readonly cautions: readonly string[];
+}
+
+/** The constrained cut list. */
+export interface CutRecommendations {
+  readonly recommendations: readonly Recommendation[];
+  /** Indices into items[] of every item dropped or merged, ascending. */
+  readonly removed: readonly number[];
+  /** Largest number of items the cut cap allows. */
+  readonly cutBudget: number;
+}
+
+/** The settings `recommendCuts` reads. */
+export type RecommendSettings = Pick<
+  EngineSettings,
+  | 'strongPairThreshold'
+  | 'mergeCorrelation'
+  | 'mergeWordingSimilarity'
+  | 'rewordWordingSimilarity'
+  | 'minItemsPerScale'
+  | 'alphaFloor'
+  | 'maxAlphaDrop'
+  | 'maxCutShare'
+  | 'confidenceLevel'
+>;
+
+/** Everything about one cluster the decision needs, computed once. */
+interface ClusterContext {
+  readonly cluster: OverlapCluster;
+  readonly scores: readonly KeeperScore[];
+}
+
+/** Reads r between two items of items[] from the evidence's correlation matrix. */
+function correlationBetween(evidence: EngineEvidence, position: readonly number[], a: number, b: number): number {
+  const order = evidence.correlation.order;
+  return evidence.correlation.data[position[a] * order + position[b]];
+}
+
+/** VIF of each listed item (indices into items[]) in the correlation matrix of `kept` usable items. */
+function vifWithin(evidence: EngineEvidence, position: readonly number[], kept: readonly number[], of: readonly number[]): (number | null)[] {
+  const sub = principalSubmatrix(evidence.correlation, kept.map((item) => position[item]));
+  const result = varianceInflation(sub).items;
+  return of.map((item) => {
+    const k = kept.indexOf(item);
+    return k < 0 ? null : result[k].vif;
+  });
+}
+
+/**
+ * The keeper score of every member of a cluster (see the module comment for the formula).
+ * @param evidence The engine's evidence.
+ * @param cluster One overlap cluster.
+ * @throws {RangeError} when a cluster item is not in the correlation matrix.
+ * @returns One score per member, in the cluster's order.
+ * References: Cronbach 1951 (item-rest correlation); Marquardt 1970 (VIF); Terwee et al. 2007,
+ * "Quality criteria were proposed for measurement properties of health status questionnaires"
+ * (J. Clin. Epidemiol. 60:34-42; floor and ceiling effects).
+ */
+export function keeperScores(evidence: EngineEvidence, cluster: OverlapCluster): KeeperScore[] {
+  const position = positions(evidence);
+  for (const item of cluster.items) if (position[item] < 0) throw new RangeError(`keeperScores: item ${item} is not in the correlation matrix`);
+  const inCluster = new Set(cluster.items);
+  const useItemRest = cluster.items.every((item) => evidence.itemRest[item] !== null);
+  return cluster.items.map((item) => {
+    const kept = evidence.usable.filter((other) => other === item || !inCluster.has(other));
+    const [vif] = kept.length >= 2 ? vifWithin(evidence, position, kept, [item]) : [1];
+    const descriptives = evidence.descriptives[item];
+    const fit = useItemRest ? evidence.itemRest[item] : vif === null ? null : Math.sqrt(Math.max(0, 1 - 1 / vif));
+    const extremeShare = Math.max(descriptives.floor ?? 0, descriptives.ceiling ?? 0);
+    const weights = KEEPER_SCORE_WEIGHTS;
+    const score =
+      weights.fit * (fit ?? 0) -
+      weights.missingRate * descriptives.missingRate -
+      weights.extremeShare * extremeShare -
+      weights.logVif * (vif === null ? 0 : Math.log(vif));
+    return {
+      item: evidence.items[item].id,
+      locked: evidence.items[item].locked,
+      score,
+      fit,
+      fitSource: useItemRest ? 'item-rest' : 'multiple-correlation',
+      missingRate: descriptives.missingRate,
+      extremeShare,
+      vifWithoutPartners: vif,
+    };
+  });
+}
+
+/** Position of each item of items[] in the correlation matrix, -1 when absent. */
+function positions(evidence: EngineEvidence): number[] {
+  const position = new Array<number>(evidence.items.length).fill(-1);
+  evidence.usable.forEach((item, k) => {
+    position[item] = k;
+  });
+  return position;
+}
+
+/** Orders two members for the keeper: locked first, then higher score, fewer missing, earlier. */
+function betterKeeper(a: { index: number; score: KeeperScore }, b: { index: number; score: KeeperScore }): number {
+  if (a.score.locked !== b.score.locked) return a.score.locked ? -1 : 1;
+  if (Math.abs(a.score.score - b.score.score) > KEEPER_SCORE_TIE) return b.score.score - a.score.score;
+  if (a.score.missingRate !== b.score.missingRate) return a.score.missingRate - b.score.missingRate;
+  return a.index - b.index;
+}
+
+/**
+ * The constrained cut list for a set of overlap clusters (see the module comment for every rule).
+ * @param evidence The engine's evidence for the wave.
+ * @param clusters Overlap clusters from `findOverlapClusters`.
+ * @param settings Merge/reword thresholds and the designer's constraints.
+ * @param scaleAlpha Reliability after a removal, computed as a fresh audit would (from `scaleAlphaOracle`).
+ * @throws {RangeError} when a cluster names an item outside the correlation matrix or a setting is out of range.
+ * @returns One recommendation per cluster (strongest first), every removed item, and the cap.
+ * References: Cronbach 1951, "Coefficient alpha and the internal structure of tests"; Nunnally
+ * 1978, "Psychometric Theory" (alpha 0.70); Marquardt 1970 (VIF); Fisher 1921 (interval of r).
+ */
+export function recommendCuts(
+  evidence: EngineEvidence,
+  clusters: readonly OverlapCluster[],
+  settings: RecommendSettings,
+  scaleAlpha: ScaleAlphaOracle,
+): CutRecommendations {
+  if (!(settings.maxCutShare >= 0 && settings.maxCutShare <= 1)) throw new RangeError(`recommendCuts: maxCutShare must lie in [0, 1], got ${settings.maxCutShare}`);
+  if (!(Number.isInteger(settings.minItemsPerScale) && settings.minItemsPerScale >= 1)) {
+    throw new RangeError(`recommendCuts: minItemsPerScale must be an integer >= 1, got ${settings.minItemsPerScale}`);
+  }
+  const position = positions(evidence);
+  const cutBudget = Math.floor(settings.maxCutShare * evidence.usable.length + 1e-9);
+  const removed = new Set<number>();
+  const before = new Map(evidence.scales.map((scale) => [scale.id, scale.alpha]));
+
+  const contexts: ClusterContext[] = clusters.map((cluster) => ({ cluster, scores: keeperScores(evidence, cluster) }));
+  const ordered = [...contexts].sort(
+    (p, q) => Math.abs(q.cluster.maxR) - Math.abs(p.cluster.maxR) || p.cluster.items[0] - q.cluster.items[0],
+  );
+
+  const recommendations: Recommendation[] = [];
+  for (const context of ordered) {
+    recommendations.push(decideCluster(evidence, position, context, settings, scaleAlpha, removed, before, cutBudget));
+  }
+  return { recommendations, removed: [...removed].sort((a, b) => a - b), cutBudget };
+}
+
+/** Decides one cluster, adding its cuts to `removed`. */
+function decideCluster(
+  evidence: EngineEvidence,
+  position: readonly number[],
+  context: ClusterContext,
+  settings: RecommendSettings,
+  scaleAlpha: ScaleAlphaOracle,
+  removed: Set<number>,
+  alphaBefore: ReadonlyMap<string, number | null>,
+  cutBudget: number,
+): Recommendation {
+  const { cluster, scores } = context;
+  const members = cluster.items.map((index, k) => ({ index, score: scores[k] }));
+  const keeper = [...members].sort(betterKeeper)[0].index;
+  const candidates = members
+    .filter((member) => member.index !== keeper)
+    .sort((a, b) => a.score.score - b.score.score || b.index - a.index);
+
+  const remaining = new Set(cluster.items);
+  const inCluster = new Set(cluster.items);
+  const groups: (readonly number[])[] = [
+    ...cluster.dependencies.map((dependency) => dependency.confirmed.filter((item) => inCluster.has(item))).filter((group) => group.length >= 2),
+    ...cluster.exactDependencies,
+  ];
+  const stillOverlaps = (item: number): boolean => {
+    for (const other of remaining) {
+      if (other !== item && Math.abs(correlationBetween(evidence, position, item, other)) >= settings.strongPairThreshold) return true;
+    }
+    return groups.some((group) => group.includes(item) && group.every((member) => remaining.has(member)));
+  };
+
+  const decided = new Map<number, RecommendedAction>();
+  const ownRemoved: number[] = [];
+  const keeperId = evidence.items[keeper].id;
+  for (const { index } of candidates) {
+    const item = evidence.items[index];
+    const rWithKeeper = correlationBetween(evidence, position, index, keeper);
+    const wordingWithKeeper = cluster.pairs.find((pair) => pair.a === Math.min(index, keeper) && pair.b === Math.max(index, keeper))?.wording ?? null;
+    const base = { item: item.id, rWithKeeper, wordingWithKeeper };
+    if (!stillOverlaps(index)) {
+      decided.set(index, { ...base, action: 'keep', into: null, proposed: null, blockedBy: [] });
+      continue;
+    }
+    const proposed = proposeAction(rWithKeeper, wordingWithKeeper, settings);
+    const blockedBy: ConstraintName[] = [];
+    if (item.locked) blockedBy.push('locked');
+    else if (proposed !== 'reword') blockedBy.push(...violatedConstraints(evidence, index, settings, scaleAlpha, removed, alphaBefore, cutBudget));
+    if (blockedBy.length > 0) {
+      decided.set(index, { ...base, action: 'keep', into: null, proposed, blockedBy });
+      continue;
+    }
+    decided.set(index, { ...base, action: proposed, into: proposed === 'merge' ? keeperId : null, proposed, blockedBy: [] });
+    remaining.delete(index);
+    if (proposed !== 'reword') {
+      removed.add(index);
+      ownRemoved.push(index);
+    }
+  }
+
+  const actions = cluster.items.filter((index) => index !== keeper).map((index) => decided.get(index) as RecommendedAction);
+  const vifBefore = maxOrNull(cluster.items.map((index) => evidence.vif[index]));
+  const left = cluster.items.filter((index) => !ownRemoved.includes(index));
+  const vifAfter =
+    ownRemoved.length === 0
+      ? vifBefore
+      : maxOrNull(vifWithin(evidence, position, evidence.usable.filter((index) => !ownRemoved.includes(index)), left));
+  const ids = (list: readonly number[]): string[] => list.map((index) => evidence.items[index].id);
+  const evidenceOut: RecommendationEvidence = {
+    maxR: cluster.maxR,
+    conditionIndex: cluster.conditionIndex,
+    vifBefore,
+    vifAfter,
+    nearDependency: cluster.dependencies.length > 0 || cluster.exactDependencies.length > 0,
+    strongPairs: cluster.strongPairs.map((pair) => pairReport(evidence, pair)),
+    pairs: cluster.pairs.map((pair) => pairReport(evidence, pair)),
+    dependencies: cluster.dependencies.map((dependency) => dependencyReport(evidence, dependency)),
+    exactDependencies: cluster.exactDependencies.map(ids),
+    keeperScores: scores,
+  };
+  return {
+    cluster: ids(cluster.items),
+    keep: keeperId,
+    actions,
+    evidence: evidenceOut,
+    stability: null,
+    unstable: null,
+    overlapStability: null,
+    reason: reasonSentence(evidence, cluster, keeper, actions, evidenceOut, settings),
+    cautions: standardCautions(cluster),
+  };
+}
+
+/** merge, reword or drop from the pair's r and wording (see the module comment). */
+function proposeAction(r: number, wording: number | null, settings: RecommendSettings): ChangeAction {
+  if (Math.abs(r) >= settings.mergeCorrelation || (wording !== null && wording >= settings.mergeWordingSimilarity)) return 'merge';
+  if (wording !== null && wording < settings.rewordWordingSimilarity) return 'reword';
+  return 'drop';
+}
+
+/** Every constraint that removing `index` (on top of `removed`) would break. */
+function violatedConstraints(
+  evidence: EngineEvidence,
+  index: number,
+  settings: RecommendSettings,
+  scaleAlpha: ScaleAlphaOracle,
+  removed: ReadonlySet<number>,
+  alphaBefore: ReadonlyMap<string, number | null>,
+  cutBudget: number,
+): ConstraintName[] {
+  const violated: ConstraintName[] = [];
+  if (removed.size + 1 > cutBudget) violated.push('cut-cap');
+  const ownScale = evidence.items[index].scale;
+  const trial = new Set(removed);
+  trial.add(index);
+  const after = scaleAlpha(trial);
+  const current = scaleAlpha(removed);
+  if (ownScale !== null && (after.get(ownScale)?.items ?? 0) < settings.minItemsPerScale) violated.push('min-items');
+  let floorBroken = false;
+  let dropBroken = false;
+  for (const [scale, figures] of after) {
+    const original = alphaBefore.get(scale) ?? null;
+    const now = current.get(scale)?.alpha ?? null;
+    const changed = scale === ownScale || figures.alpha !== now;
+    if (!changed) continue;
+    const ownOrWasAbove = scale === ownScale || (original !== null && original >= settings.alphaFloor);
+    if (ownOrWasAbove && (figures.alpha === null || figures.alpha < settings.alphaFloor)) floorBroken = true;
+    if (original !== null && (figures.alpha === null || original - figures.alpha > settings.maxAlphaDrop)) dropBroken = true;
+  }
+  if (floorBroken) violated.push('alpha-floor');
+  if (dropBroken) violated.push('max-alpha-drop');
+  return violated;
+}
+
+function maxOrNull(values: readonly (number | null)[]): number | null {
+  let largest = -Infinity;
+  for (const value of values) {
+    if (value === null) return null;
+    largest = Math.max(largest, value);
+  }
+  return values.length === 0 ? null : largest;
+}
+
+/**
+ * A pair's evidence with item ids in place of indices, for the audit JSON.
+ * @param evidence The evidence the pair came from.
+ * @param pair The pair (indices into items[]).
+ * @returns The same figures keyed by item id.
+ * References: Fisher 1921 (the interval it carries).
+ */
+export function pairReport(evidence: EngineEvidence, pair: PairEvidence): PairReport {
+  return {
+    items: [evidence.items[pair.a].id, evidence.items[pair.b].id],
+    r: pair.r,
+    n: pair.n,
+    lower: pair.lower,
+    upper: pair.upper,
+    wording: pair.wording,
+  };
+}
+
+/**
+ * A near-dependency with item ids in place of indices, for the audit JSON.
+ * @param evidence The evidence the dependency came from.
+ * @param dependency The dependency (indices into items[]).
+ * @returns The same figures keyed by item id.
+ * References: Belsley, Kuh & Welsch 1980, "Regression Diagnostics", ch. 3.
+ */
+export function dependencyReport(evidence: EngineEvidence, dependency: DependencyEvidence): DependencyReport {
+  return {
+    dimension: dependency.dimension,
+    conditionIndex: dependency.conditionIndex,
+    items: dependency.items.map((index) => evidence.items[index].id),
+    proportions: dependency.proportions,
+    interceptProportion: dependency.interceptProportion,
+    confirmed: dependency.confirmed.map((index) => evidence.items[index].id),
+  };
+}
+
+/** "A", "A and B", "A, B and C". */
+function listOf(names: readonly string[]): string {
+  if (names.length <= 1) return names.join('');
+  return `${names.slice(0, -1).join(', ')} and ${names[names.length - 1]}`;
+}
+
+const CONSTRAINT_WORDS: Readonly<Record<ConstraintName, string>> = Object.freeze({
+  locked: 'it is locked',
+  'min-items': 'its scale would fall below the minimum number of items',
+  'alpha-floor': "a scale's alpha would fall below the floor",
+  'max-alpha-drop': "a scale's alpha would drop by more than the allowed amount",
+  'cut-cap': 'the cap on the share of items cut is reached',
+});
+
+/** The one sentence a client reviewer reads. */
+function reasonSentence(
+  evidence: EngineEvidence,
+  cluster: OverlapCluster,
+  keeper: number,
+  actions: readonly RecommendedAction[],
+  summary: RecommendationEvidence,
+  settings: RecommendSettings,
+): string {
+  const name = (index: number): string => evidence.items[index].id;
+  const percent = Math.round(settings.confidenceLevel * 100);
+  const strongest = cluster.strongPairs[0] ?? null;
+  const describePair = (pair: PairEvidence): string =>
+    `r = ${pair.r.toFixed(2)}` +
+    (pair.lower !== null && pair.upper !== null ? `, ${percent}% interval ${pair.lower.toFixed(2)} to ${pair.upper.toFixed(2)}` : '') +
+    `, n = ${pair.n}`;
+
+  let overlap: string;
+  if (strongest !== null && cluster.items.length === 2) {
+    overlap = `${name(strongest.a)} and ${name(strongest.b)} correlate strongly (${describePair(strongest)})`;
+  } else if (strongest !== null) {
+    overlap = `${listOf(cluster.items.map(name))} overlap (strongest pair ${name(strongest.a)}-${name(strongest.b)}, ${describePair(strongest)})`;
+  } else {
+    const index = summary.conditionIndex === null ? 'an exact dependency' : `condition index ${summary.conditionIndex.toFixed(0)}`;
+    overlap = `${listOf(cluster.items.map(name))} are nearly linearly dependent (${index})`;
+  }
+
+  const changed = actions.filter((action) => action.action !== 'keep');
+  const blocked = actions.filter((action) => action.action === 'keep' && action.blockedBy.length > 0);
+  const keeperId = name(keeper);
+  const keeperWhy = evidence.items[keeper].locked ? ' (locked)' : ' (best keeper score)';
+  const verbs: string[] = [];
+  const merged = changed.filter((action) => action.action === 'merge').map((action) => action.item);
+  const dropped = changed.filter((action) => action.action === 'drop').map((action) => action.item);
+  const reworded = changed.filter((action) => action.action === 'reword').map((action) => action.item);
+  if (merged.length > 0) verbs.push(`merge ${listOf(merged)} into it`);
+  if (dropped.length > 0) verbs.push(`drop ${listOf(dropped)}`);
+  if (reworded.length > 0) verbs.push(`reword ${listOf(reworded)} so that it asks something ${keeperId} does not`);
+
+  const blockers = blocked.map((action) => `${action.item} stays because ${action.blockedBy.map((constraint) => CONSTRAINT_WORDS[constraint]).join(' and ')}`);
+  if (verbs.length === 0) {
+    return `${overlap}; no change is proposed${blockers.length > 0 ? `: ${blockers.join('; ')}` : ''}.`;
+  }
+  let decision = `keep ${keeperId}${keeperWhy} and ${listOf(verbs)}`;
+  if (summary.vifBefore !== null && summary.vifAfter !== null && summary.vifAfter < summary.vifBefore) {
+    decision += `, which lowers the cluster's highest VIF from ${summary.vifBefore.toFixed(1)} to ${summary.vifAfter.toFixed(1)}`;
+  }
+  return `${overlap}; ${decision}${blockers.length > 0 ? `; ${blockers.join('; ')}` : ''}.`;
+}
+
+/** The cautions shown beside every recommendation. */
+function standardCautions(cluster: OverlapCluster): string[] {
+  const smallestN = Math.min(...cluster.pairs.map((pair) => pair.n));
+  return [
+    'Statistical overlap is evidence, not proof, that these items ask the same thing: read the wording before deciding.',
+    `Pilot samples are small (the smallest pair here rests on ${smallestN} respondents): weigh the interval and the stability share.`,
+    'Items from a published, validated instrument must not be shortened or reworded without re-validation and the rights holder\'s permission.',
+  ];
+}

@@ -1,0 +1,161 @@
+/**
+ * Shapes the redundancy engine passes between its steps (evidence, clusters, recommendations,
+ * the what-if) and hands to the lead for the audit JSON (docs: audit-json.md). Plain objects and
+ * arrays; every per-item array follows the order of `items[]`; a value that cannot exist is
+ * `null` with a matching warning, never NaN.
+ */
+import type { CorrelationMethod, MissingPolicy, SquareMatrix } from '../stats/types';
+
+/** One item as the engine sees it: its codebook facts and the designer's lock. */
+export interface EngineItem {
+  /** Column id, e.g. `Q03`. Unique. */
+  readonly id: string;
+  /** Scale id, or null for an item outside every scale. */
+  readonly scale: string | null;
+  /** Wording, or null when the codebook has none. */
+  readonly text: string | null;
+  /** Locked by the designer (trend or mandated question): never proposed for any change. */
+  readonly locked: boolean;
+  /** Lowest valid answer (floor category), or null to take the lowest observed answer. */
+  readonly min: number | null;
+  /** Highest valid answer (ceiling category), or null to take the highest observed answer. */
+  readonly max: number | null;
+}
+
+/** A warning for the audit JSON: code, item ids, one plain sentence. */
+export interface EngineWarning {
+  readonly code: string;
+  readonly items: readonly string[];
+  readonly message: string;
+}
+
+/** Answer distribution of one item (from its observed answers). */
+export interface ItemDescriptives {
+  /** Observed answers. */
+  readonly n: number;
+  readonly mean: number | null;
+  readonly sd: number | null;
+  /** Share of respondents without an answer, in [0, 1]. */
+  readonly missingRate: number;
+  /** Share of observed answers at the lowest valid category. */
+  readonly floor: number | null;
+  /** Share of observed answers at the highest valid category. */
+  readonly ceiling: number | null;
+}
+
+/** Reliability of one scale over its usable items. */
+export interface ScaleEvidence {
+  readonly id: string;
+  /** Indices into items[] of the scale's usable items, ascending. */
+  readonly items: readonly number[];
+  /** Raw Cronbach's alpha, null with fewer than two items or zero total variance. */
+  readonly alpha: number | null;
+  readonly alphaStd: number | null;
+  /** McDonald's omega total from one-factor minres loadings, null when it cannot be computed. */
+  readonly omegaTotal: number | null;
+}
+
+/** Belsley-Kuh-Welsch diagnostics of the scaled, uncentred data matrix with an intercept. */
+export interface CollinearityEvidence {
+  /** Column k is the intercept for k = 0, else items[columns[k]]; `-1` marks the intercept. */
+  readonly columns: readonly number[];
+  /** Condition indices, ascending (1 first); null for a zero singular value (an exact dependency). */
+  readonly conditionIndices: readonly (number | null)[];
+  /** `[dimension][column]`, same orders as above. */
+  readonly varianceProportions: readonly (readonly number[])[];
+  /** Complete rows used. */
+  readonly rowsUsed: number;
+}
+
+/** Everything the engine reads from one wave (see compute-evidence.ts). */
+export interface EngineEvidence {
+  readonly items: readonly EngineItem[];
+  readonly method: CorrelationMethod;
+  readonly missing: MissingPolicy;
+  /** Respondents in the matrix. */
+  readonly rows: number;
+  /** True when no usable item has a missing answer (every policy then uses every row). */
+  readonly completeData: boolean;
+  /** Indices into items[] of the items in the correlation matrix, ascending. */
+  readonly usable: readonly number[];
+  /** Correlations among the usable items (order `usable.length`), recoded values. */
+  readonly correlation: SquareMatrix;
+  /** Respondents behind each correlation (order `usable.length`). */
+  readonly pairN: SquareMatrix;
+  /** Respondents behind the correlation matrix: complete rows (listwise) or rows with any answer (pairwise). */
+  readonly correlationRows: number;
+  /** The correlation matrix was repaired to positive semi-definiteness. */
+  readonly repaired: boolean;
+  /** Covariances among the usable items (same order, same missing policy). */
+  readonly covariance: SquareMatrix;
+  /** Per item (items[] order); null for items outside the matrix or in an exact dependency. */
+  readonly vif: readonly (number | null)[];
+  readonly tolerance: readonly (number | null)[];
+  readonly r2: readonly (number | null)[];
+  /** Groups of items (indices into items[]) that are exactly linearly dependent. */
+  readonly exactDependencies: readonly (readonly number[])[];
+  /** Eigenvalues of the correlation matrix, descending. */
+  readonly eigenvalues: readonly number[];
+  /** sqrt(largest / smallest eigenvalue); null when the smallest is not positive. */
+  readonly conditionNumber: number | null;
+  /** null when too few complete rows (fewer than columns + 1). */
+  readonly collinearity: CollinearityEvidence | null;
+  /** Item-rest correlation within the item's scale (items[] order); null without a scale of 2+ items. */
+  readonly itemRest: readonly (number | null)[];
+  /** Raw alpha of the item's scale without it; null without a scale of 3+ items. */
+  readonly alphaIfDeleted: readonly (number | null)[];
+  readonly scales: readonly ScaleEvidence[];
+  readonly descriptives: readonly ItemDescriptives[];
+  readonly warnings: readonly EngineWarning[];
+}
+
+/** A pair correlation with its Fisher-z interval. */
+export interface PairEvidence {
+  /** Indices into items[]. */
+  readonly a: number;
+  readonly b: number;
+  readonly r: number;
+  /** Respondents behind r. */
+  readonly n: number;
+  /** Fisher-z interval at the settings' confidence level; null when n <= 3 or |r| = 1. */
+  readonly lower: number | null;
+  readonly upper: number | null;
+  /** Wording similarity of the two items, null when either wording is unknown. */
+  readonly wording: number | null;
+}
+
+/** One near-dependency: a dimension with a high condition index and the items it loads. */
+export interface DependencyEvidence {
+  /** Index of the dimension in `collinearity.conditionIndices`. */
+  readonly dimension: number;
+  /** null for an exact dependency (zero singular value: an infinite index). */
+  readonly conditionIndex: number | null;
+  /** Indices into items[] with proportion at or above the threshold, and their proportions. */
+  readonly items: readonly number[];
+  readonly proportions: readonly number[];
+  /**
+   * The items (a subset of `items`) whose VIF in the full-sample correlation matrix confirms the
+   * dependency (at or above the threshold, or infinite). Only these link items into clusters.
+   */
+  readonly confirmed: readonly number[];
+  /** The intercept's proportion on this dimension. */
+  readonly interceptProportion: number;
+}
+
+/** An overlap cluster with its evidence, each kind separately. */
+export interface OverlapCluster {
+  /** Indices into items[], ascending. */
+  readonly items: readonly number[];
+  /** Strong pairs inside the cluster (|r| at or above the threshold), strongest first. */
+  readonly strongPairs: readonly PairEvidence[];
+  /** Near-dependencies with at least one confirmed item in the cluster. */
+  readonly dependencies: readonly DependencyEvidence[];
+  /** Exactly dependent groups (from the correlation matrix's null space) inside the cluster. */
+  readonly exactDependencies: readonly (readonly number[])[];
+  /** Every pair of cluster items with its r, interval and wording similarity. */
+  readonly pairs: readonly PairEvidence[];
+  /** Largest |r| among the cluster's pairs, signed. */
+  readonly maxR: number;
+  /** Condition index of the dimension carrying the largest summed variance proportion of the cluster's items; null without diagnostics. */
+  readonly conditionIndex: number | null;
+}

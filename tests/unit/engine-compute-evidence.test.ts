@@ -1,0 +1,125 @@
+import { describe, expect, it } from 'vitest';
+import { computeEvidence, scaleAlphaOracle, warningsFromNotices } from '../../src/lib/engine/compute-evidence';
+import { engineReference as ref, referenceInput, type PolicyReference } from './engine-fixture';
+
+// Every expected value below comes from R 4.2.2 (psych 2.2.9) via
+// scripts/reference/engine-evidence.R -> fixtures/reference/engine-evidence.json.
+
+function checkPolicy(policy: 'pairwise' | 'listwise', expected: PolicyReference): void {
+  const { matrix, items } = referenceInput();
+  const before = Float64Array.from(matrix.data);
+  const frozenItems = Object.freeze(items.map((item) => Object.freeze({ ...item })));
+  const evidence = computeEvidence(matrix, frozenItems, { method: 'pearson', missing: policy });
+  expect(matrix.data).toEqual(before);
+
+  const ids = evidence.usable.map((index) => items[index].id);
+  expect(ids).toEqual(expected.items); // R: setdiff(colnames(X), "K1"), items[] order kept
+  const order = evidence.correlation.order;
+  expected.correlation.forEach((row, i) =>
+    row.forEach((value, j) => {
+      expect(evidence.correlation.data[i * order + j]).toBeCloseTo(value, 12); // R: cor(x, use = ...)
+      expect(evidence.pairN.data[i * order + j]).toBe(policy === 'pairwise' ? expected.pairN[i][j] : expected.pairN[0][0]); // R: crossprod(!is.na(x))
+    }),
+  );
+  evidence.usable.forEach((index, k) => expect(evidence.vif[index]).toBeCloseTo(expected.vif[k], 10)); // R: diag(solve(R))
+  expect(evidence.vif[items.findIndex((item) => item.id === 'K1')]).toBeNull();
+  evidence.usable.forEach((index, k) => expect(evidence.tolerance[index]! * expected.vif[k]).toBeCloseTo(1, 12)); // identity: tolerance = 1 / VIF
+  expected.eigenvalues.forEach((value, k) => expect(evidence.eigenvalues[k]).toBeCloseTo(value, 10)); // R: eigen(R)$values
+  expect(evidence.conditionNumber).toBeCloseTo(expected.conditionNumber, 10); // R: sqrt(max(ev) / min(ev))
+
+  for (const scale of expected.scales) {
+    const found = evidence.scales.find((candidate) => candidate.id === scale.id)!;
+    expect(found.items.map((index) => items[index].id)).toEqual(scale.items);
+    expect(found.alpha).toBeCloseTo(scale.alpha, 12); // R: k/(k-1)(1 - tr C / sum C)
+    expect(found.alpha).toBeCloseTo(scale.psychRawAlpha, 12); // R: psych::alpha(C)$total$raw_alpha
+    expect(found.omegaTotal).toBeCloseTo(scale.omegaTotal, 5); // R: psych::fa(R, 1, fm = "minres") -> omega total
+    scale.items.forEach((id, k) => {
+      const index = items.findIndex((item) => item.id === id);
+      expect(evidence.itemRest[index]).toBeCloseTo(scale.itemRest[k], 12); // R: item-rest from C
+      expect(evidence.alphaIfDeleted[index]).toBeCloseTo(scale.alphaIfDeleted[k], 12); // R: alpha of C without item
+    });
+  }
+  expect(evidence.itemRest[items.findIndex((item) => item.id === 'U1')]).toBeNull(); // no scale
+}
+
+describe('computeEvidence', () => {
+  it('matches R under pairwise deletion', () => checkPolicy('pairwise', ref.pairwise));
+  it('matches R under listwise deletion', () => checkPolicy('listwise', ref.listwise));
+
+  it('matches the R Belsley-Kuh-Welsch computation on the complete rows', () => {
+    const { matrix, items } = referenceInput();
+    const evidence = computeEvidence(matrix, items, { method: 'pearson', missing: 'pairwise' });
+    const diagnostics = evidence.collinearity!;
+    expect(diagnostics.rowsUsed).toBe(ref.collinearity.rowsUsed); // R: sum(complete.cases(x))
+    expect(diagnostics.columns.map((column) => (column < 0 ? '(intercept)' : items[column].id))).toEqual(['(intercept)', ...ref.pairwise.items]);
+    ref.collinearity.conditionIndices.forEach((value, k) => expect(diagnostics.conditionIndices[k]).toBeCloseTo(value, 8)); // R: svd, d_max / d_k
+    ref.collinearity.varianceProportions.forEach((row, k) =>
+      row.forEach((value, column) => expect(diagnostics.varianceProportions[k][column]).toBeCloseTo(value, 8)), // R: (v^2 / d^2) normalised
+    );
+  });
+
+  it('gives missing rate and floor / ceiling shares per item in items[] order', () => {
+    const { matrix, items } = referenceInput();
+    const evidence = computeEvidence(matrix, items, { method: 'pearson', missing: 'pairwise' });
+    ref.descriptives.forEach((expected, j) => {
+      expect(evidence.descriptives[j].n).toBe(expected.n); // R: sum(!is.na(x))
+      expect(evidence.descriptives[j].missingRate).toBeCloseTo(expected.missingRate, 14); // R: mean(is.na(x))
+      expect(evidence.descriptives[j].floor).toBeCloseTo(expected.floor, 14); // R: mean(x == 1)
+      expect(evidence.descriptives[j].ceiling).toBeCloseTo(expected.ceiling, 14); // R: mean(x == 5)
+    });
+  });
+
+  it('leaves the constant item out with a warning naming it, and never returns NaN', () => {
+    const { matrix, items } = referenceInput();
+    const evidence = computeEvidence(matrix, items, { method: 'pearson', missing: 'pairwise' });
+    expect(evidence.usable).not.toContain(9);
+    expect(evidence.warnings.some((warning) => warning.code === 'constant-item' && warning.items.includes('K1'))).toBe(true);
+    const text = JSON.stringify(evidence, (_, value) => (value instanceof Float64Array ? Array.from(value) : value));
+    expect(text).not.toMatch(/NaN|Infinity/);
+    expect(JSON.parse(text).scales.find((scale: { id: string }) => scale.id === 'S2').items).toEqual([5, 6, 7, 8]);
+  });
+
+  it('skips omega and alpha if deleted at decision detail and keeps everything else', () => {
+    const { matrix, items } = referenceInput();
+    const full = computeEvidence(matrix, items, { method: 'pearson', missing: 'pairwise' });
+    const light = computeEvidence(matrix, items, { method: 'pearson', missing: 'pairwise' }, { detail: 'decision' });
+    expect(light.scales.every((scale) => scale.omegaTotal === null)).toBe(true);
+    expect(light.alphaIfDeleted.every((value) => value === null)).toBe(true);
+    expect(light.vif).toEqual(full.vif);
+    expect(light.itemRest).toEqual(full.itemRest);
+    light.collinearity!.conditionIndices.forEach((value, k) => expect(value).toBeCloseTo(full.collinearity!.conditionIndices[k] as number, 6)); // same diagnostics by the Gram path
+  });
+
+  it('refuses items that do not match the matrix', () => {
+    const { matrix, items } = referenceInput();
+    expect(() => computeEvidence(matrix, items.slice(1), { method: 'pearson', missing: 'pairwise' })).toThrow(/computeEvidence: items must list one entry per matrix column/);
+    const twice = items.map((item, j) => (j === 1 ? { ...item, id: items[0].id } : item));
+    expect(() => computeEvidence(matrix, twice, { method: 'pearson', missing: 'pairwise' })).toThrow(/appears twice/);
+    const badRange = items.map((item, j) => (j === 0 ? { ...item, min: 5, max: 1 } : item));
+    expect(() => computeEvidence(matrix, badRange, { method: 'pearson', missing: 'pairwise' })).toThrow(/invalid range/);
+  });
+});
+
+describe('scaleAlphaOracle', () => {
+  it('gives the alpha a fresh audit of the reduced items gives, under both policies', () => {
+    for (const policy of ['pairwise', 'listwise'] as const) {
+      const { matrix, items } = referenceInput();
+      const evidence = computeEvidence(matrix, items, { method: 'pearson', missing: policy });
+      const removed = new Set(ref.whatIf[policy].removed.map((id) => items.findIndex((item) => item.id === id)));
+      const after = scaleAlphaOracle(evidence, matrix)(removed);
+      for (const scale of ref.whatIf[policy].scales) {
+        expect(after.get(scale.id)!.alpha).toBeCloseTo(scale.alpha, 12); // R: alpha of the reduced item set, same policy
+        expect(after.get(scale.id)!.items).toBe(scale.items);
+      }
+    }
+  });
+});
+
+describe('warningsFromNotices', () => {
+  it('maps local columns to item ids and names the items of an exact dependency', () => {
+    const items = ['Q1', 'Q2', 'Q3'].map((id) => ({ id, scale: null, text: null, locked: false, min: null, max: null }));
+    const [warning] = warningsFromNotices([{ code: 'exact-dependency', items: [0, 1], message: 'Items at columns 0, 1 ...' }], items, [1, 2, 0]);
+    expect(warning.items).toEqual(['Q2', 'Q3']);
+    expect(warning.message).toMatch(/^Q2, Q3 are exactly linearly dependent/);
+  });
+});

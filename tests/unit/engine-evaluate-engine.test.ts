@@ -1,0 +1,36 @@
+import { describe, expect, it } from 'vitest';
+import { evaluateEngineOnWaves } from '../../src/lib/engine/evaluate-engine';
+
+// The floors of issue 5 ("How it is checked"); bench/engine.bench.ts prints the exact figures.
+const PRECISION_FLOOR = 0.95;
+const RECALL_FLOOR = 0.95;
+const CLEAN_RECOMMENDATIONS_PER_TEN_WAVES_CEILING = 1;
+
+describe('evaluateEngineOnWaves', () => {
+  it('finds the planted pairs of 50 random waves with precision and recall of at least 0.95, and at most one recommendation per ten clean waves', async () => {
+    const result = await evaluateEngineOnWaves({ plantedWaves: 50, cleanWaves: 50 });
+    expect(result.plantedPairs).toBeGreaterThan(50); // the generator plants 0-3 clusters per wave
+    expect(result.precision).toBeGreaterThanOrEqual(PRECISION_FLOOR);
+    expect(result.recall).toBeGreaterThanOrEqual(RECALL_FLOOR);
+    expect(result.cleanRecommendationsPerTenWaves).toBeLessThanOrEqual(CLEAN_RECOMMENDATIONS_PER_TEN_WAVES_CEILING);
+  });
+
+  it('holds the floors with the bootstrap on (few waves, 20 resamples), which must not change the clusters', async () => {
+    const off = await evaluateEngineOnWaves({ plantedWaves: 4, cleanWaves: 4, firstSeed: 101 });
+    const on = await evaluateEngineOnWaves({ plantedWaves: 4, cleanWaves: 4, firstSeed: 101, settings: { bootstrap: 20 } });
+    expect(on.truePositives).toBe(off.truePositives);
+    expect(on.falsePositives).toBe(off.falsePositives);
+    expect(on.cleanRecommendations).toBe(off.cleanRecommendations);
+  });
+
+  it('counts a missed pair against recall (a threshold no planted pair reaches finds nothing)', async () => {
+    const result = await evaluateEngineOnWaves({ plantedWaves: 3, cleanWaves: 0, settings: { strongPairThreshold: 1, conditionIndexThreshold: 1e12 } });
+    expect(result.truePositives).toBe(0);
+    expect(result.recall).toBe(0);
+    expect(result.misses.every((line) => line.includes('missed pair'))).toBe(true);
+  });
+
+  it('refuses a negative wave count', async () => {
+    await expect(evaluateEngineOnWaves({ plantedWaves: -1, cleanWaves: 0 })).rejects.toThrow(/plantedWaves must be a non-negative integer/);
+  });
+});
