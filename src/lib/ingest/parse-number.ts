@@ -1,0 +1,57 @@
+/**
+ * Reads a cell as a number the way a survey export writes one: plain decimal notation with an
+ * optional sign and exponent, a decimal comma where the file uses one. Text such as `NaN`,
+ * `Infinity`, `0x1F`, `1,5` in a decimal-point file or a formula (`=1+2`) is not a number.
+ */
+
+const DECIMAL_POINT = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/;
+const DECIMAL_COMMA = /^[+-]?(?:\d+|\d{1,3}(?:\.\d{3})+)(?:,\d+)?$/;
+
+/**
+ * Whether a cell is blank (empty or only white space).
+ * @param cell cell text.
+ * @returns true when there is nothing to read.
+ */
+export function isBlankCell(cell: string): boolean {
+  return cell.trim() === '';
+}
+
+/**
+ * The number a cell holds, or NaN when it holds none.
+ * @param cell cell text (surrounding white space is ignored).
+ * @param decimalSeparator `.` (thousands separators not read) or `,` (a `.` may group thousands: `1.234,5`).
+ * @returns a finite number (never −0), or NaN for blank or non-numeric text.
+ * References: ISO 80000-1:2022, "Quantities and units — Part 1: General" (the decimal sign is a comma or a point on the line).
+ */
+export function parseNumber(cell: string, decimalSeparator: '.' | ','): number {
+  const text = cell.trim();
+  if (text === '') return Number.NaN;
+  let normalised: string;
+  if (decimalSeparator === ',') {
+    if (!DECIMAL_COMMA.test(text)) return Number.NaN;
+    normalised = text.replace(/\./g, '').replace(',', '.');
+  } else {
+    if (!DECIMAL_POINT.test(text)) return Number.NaN;
+    normalised = text;
+  }
+  const value = Number(normalised);
+  if (!Number.isFinite(value)) return Number.NaN;
+  return value === 0 ? 0 : value;
+}
+
+/**
+ * Whether a cell looks like a spreadsheet formula (starts with `=`, `+`, `-`, `@`, tab or CR and
+ * is not a plain number). Such cells are kept as text and never evaluated; anything that writes
+ * them back into a spreadsheet must neutralise them (CSV injection).
+ * @param cell cell text.
+ * @param decimalSeparator the file's decimal separator.
+ * @returns true for formula-looking text.
+ * References: OWASP Foundation 2023, "CSV Injection".
+ */
+export function looksLikeFormula(cell: string, decimalSeparator: '.' | ','): boolean {
+  if (cell.length === 0) return false;
+  const first = cell[0];
+  if (first !== '=' && first !== '+' && first !== '-' && first !== '@' && first !== '\t' && first !== '\r') return false;
+  if (cell.trim() === '') return false;
+  return Number.isNaN(parseNumber(cell, decimalSeparator));
+}

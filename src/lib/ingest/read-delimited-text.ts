@@ -1,0 +1,88 @@
+/**
+ * Reads decoded text as rows of fields with papaparse: quoted fields may hold delimiters, quotes
+ * (doubled) and line breaks. Stops as soon as the row limit is passed, so an oversized file costs
+ * little more than its first rows.
+ */
+import Papa from 'papaparse';
+import type { CellGrid } from './shape-table';
+import type { ReadLimits } from './read-limits';
+import { sniffDecimalSeparator, sniffDelimiter, type Delimiter } from './sniff-delimiter';
+import type { WaveWarning } from './types';
+import { WaveRefusal } from './wave-refusal';
+
+/** Rows of a text export with what was found about its layout. */
+export interface DelimitedText {
+  readonly grid: CellGrid;
+  readonly delimiter: Delimiter;
+  readonly decimalSeparator: '.' | ',';
+  readonly warnings: readonly WaveWarning[];
+}
+
+const SEPARATOR_HINT = /^sep=([,;\t|])\r?\n/;
+
+/**
+ * Parses a text export.
+ * @param text decoded text without a byte-order mark.
+ * @param fileName the uploaded name, for messages.
+ * @param limits the row and column limits (parsing stops once they are passed).
+ * @throws {WaveRefusal} 422 `unterminated-quote` when a quoted field is never closed (the rest of
+ *   the file would become one cell).
+ * @returns the rows (with 1-based starting line numbers), delimiter, decimal separator and warnings.
+ * References: Shafranovich 2005, RFC 4180 "Common Format and MIME Type for CSV Files", §2.
+ */
+export function readDelimitedText(text: string, fileName: string, limits: ReadLimits): DelimitedText {
+  let body = text.replace(/\u001a+$/, '');
+  let delimiter: Delimiter;
+  let firstLine = 1;
+  const hint = SEPARATOR_HINT.exec(body);
+  if (hint) {
+    delimiter = hint[1] as Delimiter;
+    body = body.slice(hint[0].length);
+    firstLine = 2;
+  } else {
+    delimiter = sniffDelimiter(body);
+  }
+
+  const rows: string[][] = [];
+  const fileRows: number[] = [];
+  const warnings: WaveWarning[] = [];
+  let nonBlankRows = 0;
+  let line = firstLine;
+  let lastCursor = 0;
+  let unterminatedAt: number | null = null;
+  let malformedQuotes = 0;
+  Papa.parse<string[]>(body, {
+    delimiter,
+    skipEmptyLines: false,
+    step: (result, parser) => {
+      const row = result.data;
+      const cursor = result.meta.cursor;
+      rows.push(row);
+      fileRows.push(line);
+      const consumed = body.slice(lastCursor, cursor);
+      line += (consumed.match(/\r\n|\r|\n/g) ?? []).length;
+      lastCursor = cursor;
+      for (const error of result.errors) {
+        if (error.code === 'MissingQuotes') unterminatedAt = fileRows[fileRows.length - 1];
+        else if (error.code === 'InvalidQuotes') malformedQuotes++;
+      }
+      if (row.some((cell) => cell.trim() !== '')) nonBlankRows++;
+      let significant = row.length;
+      while (significant > 0 && row[significant - 1].trim() === '') significant--;
+      // One row past the limits is enough for shapeTable to refuse with the right message.
+      if (nonBlankRows > limits.maxRows + 1 || significant > limits.maxColumns) parser.abort();
+    },
+  });
+  if (unterminatedAt !== null) {
+    throw new WaveRefusal(422, 'unterminated-quote', `A quoted field starting on line ${unterminatedAt} of "${fileName}" is never closed, so the rest of the file would run into one cell; fix the stray double quote or export the file again.`);
+  }
+  if (malformedQuotes > 0) {
+    warnings.push({
+      code: 'malformed-quotes',
+      columns: [],
+      message: `${malformedQuotes} ${malformedQuotes === 1 ? 'field has' : 'fields have'} a stray double quote after the closing quote; the text was kept as it stands.`,
+    });
+  }
+  const decimalSeparator = sniffDecimalSeparator(rows, delimiter);
+  return { grid: { rows, fileRows, countRaggedRows: true }, delimiter, decimalSeparator, warnings };
+}

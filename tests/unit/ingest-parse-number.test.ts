@@ -1,0 +1,44 @@
+import { describe, expect, it } from 'vitest';
+import { isBlankCell, looksLikeFormula, parseNumber } from '../../src/lib/ingest';
+
+describe('parseNumber', () => {
+  it('reads plain decimal notation with a point (ISO 80000-1: decimal sign)', () => {
+    expect(parseNumber(' 3 ', '.')).toBe(3);
+    expect(parseNumber('-9', '.')).toBe(-9);
+    expect(parseNumber('+4', '.')).toBe(4);
+    expect(parseNumber('3.5', '.')).toBe(3.5);
+    expect(parseNumber('.5', '.')).toBe(0.5);
+    expect(parseNumber('1e3', '.')).toBe(1000);
+  });
+
+  it('reads decimal commas and thousands points where the file uses them', () => {
+    expect(parseNumber('3,5', ',')).toBe(3.5);
+    expect(parseNumber('1.234,5', ',')).toBe(1234.5);
+    expect(parseNumber('12', ',')).toBe(12);
+    expect(parseNumber('3,5', '.')).toBeNaN();
+    expect(parseNumber('3.5', ',')).toBeNaN();
+  });
+
+  it('treats NaN and Infinity text, hex, formulas and blanks as no number; never returns −0', () => {
+    for (const text of ['NaN', 'Infinity', '-Infinity', 'inf', '0x1F', '=1+2', '', '  ', '1 2', '3,5,1', 'yes']) {
+      expect(parseNumber(text, '.'), text).toBeNaN();
+    }
+    expect(Object.is(parseNumber('-0', '.'), 0)).toBe(true);
+    expect(parseNumber('1e400', '.')).toBeNaN();
+  });
+});
+
+describe('looksLikeFormula (OWASP "CSV Injection": cells starting with = + - @ tab CR)', () => {
+  it('flags formula-looking text but not plain signed numbers', () => {
+    for (const text of ['=1+2', '@SUM(A1)', '+cmd|/C calc', '-2+3', '\t=1', '-Infinity']) expect(looksLikeFormula(text, '.'), text).toBe(true);
+    for (const text of ['-9', '+4', '3', 'Agree', '', '- ']) expect(looksLikeFormula(text, '.'), text).toBe(text === '- ');
+  });
+});
+
+describe('isBlankCell', () => {
+  it('is true only for empty or white-space cells', () => {
+    expect(isBlankCell('')).toBe(true);
+    expect(isBlankCell(' \t')).toBe(true);
+    expect(isBlankCell('0')).toBe(false);
+  });
+});

@@ -1,0 +1,95 @@
+/**
+ * Respondent screening (methods.md §6) against base-R values from
+ * scripts/reference/ingest-screening.R (fixtures/reference/ingest-screening.json).
+ */
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import {
+  answersAsGiven, DEFAULT_SCREENING_OPTIONS, longStringIndex, medianOf, missingShare, screenRespondents, speedCheck, withinPersonSd, type WaveItem,
+} from '../../src/lib/ingest';
+import { itemMatrixFromRows } from '../../src/lib/stats/types';
+
+const reference = JSON.parse(readFileSync(join(import.meta.dirname, '..', '..', 'fixtures', 'reference', 'ingest-screening.json'), 'utf8')) as {
+  answers: (number | null)[][]; durations: (number | null)[]; long_string: number[]; within_sd: (number | null)[];
+  missing_share: number[]; median_duration: number; speeders_third: number[];
+};
+const answers = itemMatrixFromRows(reference.answers.map((row) => row.map((value) => value ?? Number.NaN)));
+const durations = Float64Array.from(reference.durations, (value) => value ?? Number.NaN);
+
+describe('screening statistics against R 4.2.2', () => {
+  it('long-string index (Johnson 2005)', () => {
+    const before = Float64Array.from(answers.data);
+    // R 4.2.2: apply(answers, 1, function(r) max(rle(r[!is.na(r)])$lengths))
+    expect(longStringIndex(answers)).toEqual(reference.long_string);
+    expect(answers.data).toEqual(before);
+  });
+
+  it('within-person SD (Dunn et al. 2018)', () => {
+    // R 4.2.2: apply(answers, 1, sd, na.rm = TRUE)  (NA for fewer than two answers)
+    const sd = withinPersonSd(answers);
+    reference.within_sd.forEach((expected, i) => {
+      if (expected === null) expect(sd[i]).toBeNull();
+      else expect(sd[i]).toBeCloseTo(expected, 12);
+    });
+  });
+
+  it('share of items missing', () => {
+    // R 4.2.2: rowMeans(is.na(answers))
+    missingShare(answers).forEach((share, i) => expect(share).toBeCloseTo(reference.missing_share[i], 14));
+  });
+
+  it('median completion time and speeders below 1/3 of it', () => {
+    // R 4.2.2: median(durations, na.rm = TRUE); which(durations < median / 3) - 1
+    expect(medianOf(durations)).toBe(reference.median_duration);
+    const check = speedCheck(durations, 1 / 3);
+    expect(check.speeders).toEqual(reference.speeders_third);
+    expect(check.threshold).toBeCloseTo(reference.median_duration / 3, 12);
+    expect(check.ratio[4]).toBeNull();
+    expect(() => speedCheck(durations, 0)).toThrow(RangeError);
+    expect(medianOf([NaN])).toBeNull();
+  });
+});
+
+describe('screenRespondents', () => {
+  const items: WaveItem[] = Array.from({ length: 7 }, (_, k) => ({
+    id: `Q${k + 1}`, header: `Q${k + 1}`, scale: null, reverse: k === 6, min: 1, max: 5, missingCodes: [], text: null, labels: [], missingLabels: [],
+    counts: { answered: 0, blank: 0, declaredMissing: 0, outOfRange: 0, nonNumeric: 0, unmappedLabel: 0, mappedLabel: 0 },
+  }));
+  // The wave stores item 7 reverse-scored; screening looks at the answers as given.
+  const recoded = { ...answers, data: Float64Array.from(answers.data) };
+  for (let i = 0; i < recoded.rows; i++) {
+    const index = 6 * recoded.rows + i;
+    if (!Number.isNaN(recoded.data[index])) recoded.data[index] = 6 - recoded.data[index];
+  }
+  const wave = { matrix: recoded, items, duration: durations, respondents: recoded.rows };
+
+  it('flips reverse-keyed items back to the answers as given', () => {
+    expect(Array.from(answersAsGiven(wave).data)).toEqual(Array.from(answers.data));
+  });
+
+  it('flags each condition with its count and proposes the union for exclusion (defaults: common practice)', () => {
+    const result = screenRespondents(wave);
+    const flag = (code: string) => result.flags.find((candidate) => candidate.code === code);
+    // Run threshold: max(5, ceil(0.5 × 7)) = 5; only respondent 0 (run 7, R above) reaches it.
+    expect(flag('long-string')).toMatchObject({ threshold: 5, count: 1, respondents: [0] });
+    // SD 0 with at least 3 answers: respondent 0 (respondent 4 has SD 0 from only 2 answers).
+    expect(flag('low-variability')).toMatchObject({ count: 1, respondents: [0] });
+    expect(flag('speeder')).toMatchObject({ count: 1, respondents: [1] });
+    // More than half missing: respondents 4 (5/7) and 6 (6/7).
+    expect(flag('mostly-missing')).toMatchObject({ count: 2, respondents: [4, 6] });
+    expect(result.proposedExclusions).toEqual([0, 1, 4, 6]);
+    expect(result.medianDuration).toBe(420);
+    expect(result.options).toEqual(DEFAULT_SCREENING_OPTIONS);
+    expect(result.duration?.[4]).toBeNull();
+    expect(JSON.parse(JSON.stringify(result)).withinSd[6]).toBeNull();
+  });
+
+  it('takes configurable cut-offs and has no speeder flag without durations', () => {
+    const result = screenRespondents({ ...wave, duration: null }, { longStringMinimum: 4, missingShareAbove: 0.8 });
+    expect(result.flags.map((flag) => flag.code)).toEqual(['long-string', 'low-variability', 'mostly-missing']);
+    expect(result.flags[0].respondents).toEqual([0, 2, 5, 7]);
+    expect(result.flags[2].respondents).toEqual([6]);
+    expect(() => screenRespondents(wave, { speederShare: 2 })).toThrow(RangeError);
+  });
+});
