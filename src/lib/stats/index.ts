@@ -1,0 +1,45 @@
+/**
+ * The numerical core's one entry point: every published method, one file each (see DEVELOPERS.md).
+ * Pure: typed arrays and plain objects in and out, no file, network, database or framework.
+ * The worker-thread variants live under ./parallel/ and are imported from there on purpose, so
+ * that importing the core never loads node:worker_threads.
+ */
+export * from './alpha-if-item-deleted';
+export * from './bartlett-sphericity';
+export * from './belsley-collinearity';
+export * from './bivariate-normal-cdf';
+export * from './chi-square-distribution';
+export * from './condition-number';
+export * from './correlation-input';
+export * from './correlation-matrix';
+export * from './covariance-input';
+export * from './covariance-matrix';
+export * from './cronbach-alpha';
+export * from './cross-products';
+export * from './f-distribution';
+export * from './fisher-z-interval';
+export * from './incomplete-beta';
+export * from './incomplete-gamma';
+export * from './item-descriptives';
+export * from './item-rest-correlation';
+export * from './kmo';
+export * from './log-gamma';
+export * from './mid-ranks';
+export * from './minres-factor';
+export * from './nearest-correlation';
+export * from './normal-distribution';
+export * from './ols-regression';
+export * from './omega-total';
+export * from './parallel-analysis';
+export * from './pearson-correlation';
+export * from './polychoric-correlation';
+export * from './relative-weights';
+export * from './seeded-random';
+export * from './spearman-brown';
+export * from './spearman-correlation';
+export * from './spectral-inverse';
+export * from './symmetric-eigen';
+export * from './t-distribution';
+export * from './tolerances';
+export * from './types';
+export * from './variance-inflation';
