@@ -43,6 +43,7 @@ const MISSING_KEYS = new Set(MISSING_ANSWER_TEXTS.map(labelKey));
  * Whether an answer text commonly means no answer ("Don't know", "Prefer not to say", "N/A").
  * @param text an answer text.
  * @returns true for a no-answer text.
+ * References: none published; common no-answer options of survey tools (docs/decisions/002-reading-waves.md).
  */
 export function isMissingAnswerText(text: string): boolean {
   return MISSING_KEYS.has(labelKey(text));

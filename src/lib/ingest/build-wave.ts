@@ -37,6 +37,7 @@ function columnHash(values: Float64Array): number {
  * Groups of items whose recoded answers are identical, missing cells included.
  * @param matrix a recoded matrix.
  * @returns groups of 0-based item indices, each of two or more, in order.
+ * References: Fowler, Noll & Vo 1991, "FNV hash" (FNV-1a), used only to group candidates; equality is checked value by value.
  */
 export function identicalGroups(matrix: ItemMatrix): number[][] {
   const n = matrix.rows;
@@ -84,6 +85,7 @@ function countWarning(code: string, items: readonly WaveItem[], pick: (counts: I
  * @param respondents number of respondents.
  * @throws {WaveRefusal} 400 `invalid-exclusions` when a row is not a whole number in range.
  * @returns the rows sorted, without repeats.
+ * References: Paredown api.md (400 for bad input).
  */
 export function checkExclusions(exclusions: readonly unknown[], respondents: number): number[] {
   for (const row of exclusions) {
@@ -98,6 +100,7 @@ export function checkExclusions(exclusions: readonly unknown[], respondents: num
  * The respondent rows audits use: every row not excluded.
  * @param wave a built wave.
  * @returns 0-based rows in order.
+ * References: Paredown product.md (excluded respondents stay in the stored wave and leave audits).
  */
 export function includedRows(wave: Pick<BuiltWave, 'respondents' | 'excluded'>): number[] {
   const excluded = new Set(wave.excluded);

@@ -19,7 +19,12 @@ const ALIASES: Readonly<Record<CodebookColumn, readonly string[]>> = {
   labels: ['labels', 'valuelabels', 'values', 'answerlabels', 'codes', 'responseoptions', 'options'],
 };
 
-/** Key a header is compared by: lower case, without spaces, hyphens, underscores and dots. */
+/**
+ * Key a header is compared by: lower case, without spaces, hyphens, underscores and dots.
+ * @param header a header cell.
+ * @returns the comparison key, e.g. `missingcodes` for "Missing codes".
+ * References: Paredown audit-json.md, codebook columns (the product's own format).
+ */
 export function headerKey(header: string): string {
   return header.toLowerCase().replace(/[\s_\-.]+/g, '');
 }
@@ -28,6 +33,7 @@ export function headerKey(header: string): string {
  * Which codebook column a header names, if any.
  * @param header a header cell.
  * @returns the canonical column name, or null.
+ * References: Paredown audit-json.md, codebook columns; docs/decisions/002-reading-waves.md (accepted spellings).
  */
 export function codebookColumnOf(header: string): CodebookColumn | null {
   const key = headerKey(header);
@@ -42,6 +48,7 @@ export function codebookColumnOf(header: string): CodebookColumn | null {
  * the others.
  * @param headers the header cells.
  * @returns true for a codebook header.
+ * References: Paredown audit-json.md, codebook columns.
  */
 export function looksLikeCodebookHeader(headers: readonly string[]): boolean {
   const found = new Set(headers.map(codebookColumnOf).filter((column) => column !== null));

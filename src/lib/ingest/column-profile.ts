@@ -26,6 +26,7 @@ export interface ColumnData {
  * @param j 0-based column index.
  * @throws {RangeError} when `j` is not a column of the table.
  * @returns the column's data.
+ * References: none published; descriptive counts for the setup form.
  */
 export function columnData(table: WaveTable, j: number): ColumnData {
   if (!Number.isInteger(j) || j < 0 || j >= table.headers.length) throw new RangeError(`columnData: column ${j} does not exist`);

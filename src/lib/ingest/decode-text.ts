@@ -76,6 +76,7 @@ function decodeStrict(bytes: Uint8Array, encoding: 'utf-8' | 'utf-16le' | 'utf-1
  * Whether decoded text holds so many control characters that it is a binary file.
  * @param text decoded text.
  * @returns true when more than {@link BINARY_CONTROL_SHARE} of the first characters are control characters.
+ * References: none published; a common heuristic for telling text from binary data (docs/decisions/002-reading-waves.md).
  */
 export function looksBinary(text: string): boolean {
   const end = Math.min(text.length, BINARY_SAMPLE_CHARS);

@@ -31,6 +31,7 @@ function startsWith(bytes: Uint8Array, magic: readonly number[]): boolean {
  * The lower-case extension of a file name without the dot, or `''`.
  * @param fileName the uploaded name.
  * @returns e.g. `xlsx`.
+ * References: none published; file-name convention.
  */
 export function fileExtension(fileName: string): string {
   const match = /\.([A-Za-z0-9]{1,8})$/.exec(fileName.trim());

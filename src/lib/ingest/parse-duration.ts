@@ -13,6 +13,7 @@ const ISO = /^P(?:(\d+(?:[.,]\d+)?)D)?(?:T(?:(\d+(?:[.,]\d+)?)H)?(?:(\d+(?:[.,]\
  * Whether a cell is written as a clock time or an ISO 8601 duration (not a plain number).
  * @param cell cell text.
  * @returns true for `5:30`, `0:05:30`, `PT5M30S`.
+ * References: ISO 8601-1:2019, "Date and time — Representations for information interchange — Part 1" (durations PnDTnHnMnS).
  */
 export function looksLikeTimeText(cell: string): boolean {
   const text = cell.trim();

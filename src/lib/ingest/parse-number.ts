@@ -11,6 +11,7 @@ const DECIMAL_COMMA = /^[+-]?(?:\d+|\d{1,3}(?:\.\d{3})+)(?:,\d+)?$/;
  * Whether a cell is blank (empty or only white space).
  * @param cell cell text.
  * @returns true when there is nothing to read.
+ * References: Paredown methods.md §1 (blank cells are missing).
  */
 export function isBlankCell(cell: string): boolean {
   return cell.trim() === '';

@@ -69,6 +69,7 @@ function headerWords(header: string): string {
  * At most {@link SAMPLE_CELLS} cells, evenly spaced and in order (all of them when there are fewer).
  * @param cells a column's cells.
  * @returns the sample (the same array when no sampling is needed).
+ * References: none published; systematic sampling with a fixed step (Cochran 1977, "Sampling Techniques", ch. 8).
  */
 export function sampleCells<T>(cells: readonly T[]): readonly T[] {
   if (cells.length <= SAMPLE_CELLS) return cells;

@@ -16,7 +16,12 @@ import type {
 } from './types';
 import { WaveRefusal } from './wave-refusal';
 
-/** Header split into lower-case words: `ResponseId` → `response id`, `time_taken` → `time taken`. */
+/**
+ * Header split into lower-case words: `ResponseId` → `response id`, `time_taken` → `time taken`.
+ * @param header a column header.
+ * @returns lower-case words separated by single spaces.
+ * References: none published; naming conventions of survey exports.
+ */
 export function headerWords(header: string): string {
   return header
     .replace(/([a-z])([A-Z])/g, '$1 $2')

@@ -15,6 +15,7 @@ const NO = new Set(['no', 'n', 'false', 'f', '0', '']);
  * Reads a yes/no cell of the `reverse` column.
  * @param cell the cell text.
  * @returns true, false, or null when the text is neither (blank is "no").
+ * References: Paredown audit-json.md, codebook column `reverse` (yes/no).
  */
 export function parseYesNo(cell: string): boolean | null {
   const key = cell.trim().toLowerCase();
@@ -29,6 +30,7 @@ export function parseYesNo(cell: string): boolean | null {
  * @param cell the cell text.
  * @param decimalSeparator the table's decimal separator.
  * @returns the codes read and the parts that are not numbers.
+ * References: Paredown audit-json.md, codebook column `missing` (codes separated by spaces or semicolons).
  */
 export function parseMissingCodes(cell: string, decimalSeparator: '.' | ','): { codes: number[]; unreadable: string[] } {
   const separators = decimalSeparator === '.' ? /[\s;,]+/ : /[\s;]+/;

@@ -41,6 +41,7 @@ export const DEFAULT_READ_LIMITS: ReadLimits = Object.freeze({
  * @param limits any subset of {@link ReadLimits}.
  * @throws {RangeError} when a limit is not a positive integer (a configuration error, not a client's).
  * @returns the complete limits.
+ * References: Paredown issue 4 (default limits); docs/decisions/002-reading-waves.md.
  */
 export function resolveReadLimits(limits: Partial<ReadLimits> = {}): ReadLimits {
   const resolved = { ...DEFAULT_READ_LIMITS, ...limits };

@@ -37,6 +37,7 @@ function cleanHeader(cell: string): string {
  * `_2`, `_3`, ... (compared without regard to case). Returns the names and one warning per kind.
  * @param original trimmed headers as in the file.
  * @returns unique names and warnings `blank-header`, `duplicate-header`.
+ * References: none published; renaming convention of docs/decisions/002-reading-waves.md.
  */
 export function uniqueHeaders(original: readonly string[]): { headers: string[]; warnings: WaveWarning[] } {
   const taken = new Set<string>();

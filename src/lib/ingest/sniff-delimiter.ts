@@ -5,8 +5,9 @@
 import Papa from 'papaparse';
 import { DELIMITER_SAMPLE_ROWS } from './ingest-thresholds';
 
-/** Delimiters the reader recognises, in order of preference when evidence is equal. */
+/** A field delimiter the reader recognises. */
 export type Delimiter = ',' | ';' | '\t' | '|';
+/** The delimiters tried, in order of preference when the evidence is equal. */
 export const DELIMITERS: readonly Delimiter[] = [',', ';', '\t', '|'];
 
 function fieldCounts(text: string, delimiter: Delimiter): number[] {

@@ -9,6 +9,7 @@ import type { ValueLabel } from './types';
  * collapsed, surrounding punctuation dropped. "Strongly  Agree." and "strongly agree" match.
  * @param text an answer text or label.
  * @returns the comparison key.
+ * References: The Unicode Consortium 2022, "Unicode Standard Annex #15: Unicode Normalization Forms" (NFKC).
  */
 export function labelKey(text: string): string {
   return text
@@ -62,6 +63,7 @@ export function parseValueLabels(cell: string): ValueLabelsRead {
  * Writes labels back in the format {@link parseValueLabels} reads.
  * @param labels value labels.
  * @returns e.g. `1=Disagree; 2=Agree`.
+ * References: Paredown docs/decisions/002-reading-waves.md, "Value labels" (the product's own format).
  */
 export function formatValueLabels(labels: readonly ValueLabel[]): string {
   return labels.map((label) => `${label.code}=${label.label}`).join('; ');

@@ -40,6 +40,7 @@ export class WaveRefusal extends Error {
  * Whether a caught value is a {@link WaveRefusal} (works across module copies by checking shape).
  * @param value anything caught.
  * @returns true when the value carries a refusal status, code and message.
+ * References: Paredown api.md (error shape and statuses).
  */
 export function isWaveRefusal(value: unknown): value is WaveRefusal {
   if (value instanceof WaveRefusal) return true;

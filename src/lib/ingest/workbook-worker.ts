@@ -24,6 +24,8 @@ export interface ParsedSheet {
 const WORKER_SOURCE = String.raw`
 const { parentPort, workerData } = require('node:worker_threads');
 const XLSX = require(workerData.sheetjsPath);
+// SheetJS reports unknown records on the console; a damaged upload must not fill the server's log.
+console.log = console.warn = console.error = console.info = () => {};
 
 // The text a CSV export would hold for a cell: numbers in canonical JavaScript form, date and
 // time formats as formatted, booleans TRUE/FALSE, errors as their code (#N/A).

@@ -81,6 +81,7 @@ function checkOptions(options: ScreeningOptions): void {
  * respondent who ticked the same box throughout shows one value throughout.
  * @param wave a built wave.
  * @returns a new matrix; missing stays NaN.
+ * References: Paredown methods.md §1 (reverse scoring x' = (min + max) − x, undone here).
  */
 export function answersAsGiven(wave: Pick<BuiltWave, 'matrix' | 'items'>): ItemMatrix {
   const { rows, columns } = wave.matrix;

@@ -14,6 +14,7 @@ export interface SpeedCheck {
  * Median of finite values (mean of the two middle values for an even count).
  * @param values numbers, NaN ignored.
  * @returns the median, or null when no value is finite.
+ * References: Hyndman & Fan 1996, "Sample quantiles in statistical packages", The American Statistician 50:361-365 (the median as the mean of the two middle order statistics for even n).
  */
 export function medianOf(values: ArrayLike<number>): number | null {
   const finite = Array.from(values).filter((value) => Number.isFinite(value)).sort((a, b) => a - b);
