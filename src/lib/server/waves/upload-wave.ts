@@ -1,0 +1,148 @@
+/**
+ * Uploading a wave: read the responses (and codebook) as the reader does, propose the column
+ * setup, preview the screening under that proposal, then keep the originals and the proposed
+ * wave in one transaction. The same upload to the same study again is recognised and answered
+ * with the wave already there (docs/decisions/005-storing-waves.md).
+ */
+import { and, eq, isNull } from 'drizzle-orm';
+import { waves } from '../../../db/schema';
+import {
+  buildWave, contentHash, isWaveRefusal, proposeSetup, screenRespondents, type ProposedSetup, type ScreeningResult, type WaveTable, type WaveWarning,
+} from '../../ingest';
+import { logActivity } from '../activity';
+import { getConfig } from '../config';
+import type { CurrentUser } from '../current-user';
+import { getDb } from '../db';
+import type { StudyRow } from '../guard';
+import { newId } from '../ids';
+import type { UploadForm } from './read-upload-form';
+import { readWaveFiles, serverReadLimits } from './read-wave-files';
+import { mediaTypeOf, UploadFiles } from './store-upload-files';
+import { setupOf, STORED_SETUP_VERSION, withoutIgnoredExamples, type StoredWaveSetup, type WaveRow } from './stored-wave';
+import { storedWaveView, type WaveView } from './wave-view';
+
+/** The outcome of an upload. */
+export interface UploadOutcome {
+  /** True when the same upload was already in the study: nothing new was stored. */
+  duplicate: boolean;
+  view: WaveView;
+}
+
+/** A screening preview under a proposal. */
+interface Preview {
+  screening: ScreeningResult | null;
+  respondentIds: readonly string[] | null;
+  warnings: readonly WaveWarning[];
+  note: string | null;
+}
+
+function previewScreening(table: WaveTable, proposal: ProposedSetup): Preview {
+  try {
+    const wave = buildWave(table, { columns: setupOf(proposal.columns) });
+    return { screening: screenRespondents(wave), respondentIds: wave.respondentIds, warnings: wave.warnings, note: null };
+  } catch (error) {
+    if (!isWaveRefusal(error)) throw error;
+    return { screening: null, respondentIds: null, warnings: [], note: `No screening yet: ${error.message}` };
+  }
+}
+
+function nextPilotLabel(tx: Pick<ReturnType<typeof getDb>, 'select'>, studyId: string): string {
+  const labels = new Set(tx.select({ label: waves.label }).from(waves).where(eq(waves.studyId, studyId)).all().map((row) => row.label.toLowerCase()));
+  let n = labels.size + 1;
+  while (labels.has(`pilot ${n}`)) n++;
+  return `Pilot ${n}`;
+}
+
+/**
+ * Reads an upload, proposes its setup and keeps it as a proposed wave.
+ * @param user who uploads.
+ * @param study the study (access already checked by the guard).
+ * @param form the upload form.
+ * @throws {WaveRefusal} whatever the reader refuses (400, 413, 422); nothing is stored then.
+ * @returns the wave with its proposal, or the wave already holding the same upload (`duplicate`).
+ * References: Paredown api.md (POST /api/studies/{id}/waves); docs/decisions/005-storing-waves.md.
+ */
+export async function uploadWave(user: CurrentUser, study: StudyRow, form: UploadForm): Promise<UploadOutcome> {
+  const read = await readWaveFiles(
+    { fileName: form.file.name, bytes: form.file.bytes, codebookName: form.codebook?.name ?? null, codebookBytes: form.codebook?.bytes ?? null, sheet: form.sheet },
+    serverReadLimits(),
+  );
+  const proposal = proposeSetup(read.table, read.codebook);
+  const preview = previewScreening(read.table, proposal);
+  const fileHash = contentHash(form.file.bytes);
+  const codebookHash = form.codebook ? contentHash(form.codebook.bytes) : null;
+  const sheet = read.table.source.sheet;
+  const proposed = withoutIgnoredExamples(proposal.columns);
+
+  const db = getDb();
+  const files = new UploadFiles(getConfig().uploadDir);
+  let result: { duplicate: boolean; waveId: string };
+  try {
+    result = db.transaction((tx) => {
+      const sameUpload = tx
+        .select({ id: waves.id, label: waves.label, codebookHash: waves.codebookHash })
+        .from(waves)
+        .where(and(eq(waves.studyId, study.id), eq(waves.fileHash, fileHash), sheet === null ? isNull(waves.sheet) : eq(waves.sheet, sheet)))
+        .all();
+      const identical = sameUpload.find((wave) => wave.codebookHash === codebookHash);
+      if (identical && !form.asNewWave) return { duplicate: true, waveId: identical.id };
+      const serverWarnings: WaveWarning[] = sameUpload.length > 0 ? [{
+        code: 'file-uploaded-before',
+        columns: [],
+        message: `This file is already in the study as ${sameUpload.map((wave) => `"${wave.label}"`).join(', ')}; this upload is kept as a separate wave.`,
+      }] : [];
+      const stored: StoredWaveSetup = {
+        version: STORED_SETUP_VERSION,
+        columns: setupOf(proposal.columns),
+        proposal: proposed,
+        respondents: proposal.respondents,
+        source: read.source,
+        warnings: [...read.warnings, ...proposal.warnings, ...serverWarnings],
+        buildWarnings: preview.warnings,
+        screeningNote: preview.note,
+      };
+      const responsesFile = files.store(tx, form.file.bytes, form.file.name, mediaTypeOf(read.table.source.format));
+      const codebookFile = form.codebook
+        ? files.store(tx, form.codebook.bytes, form.codebook.name, mediaTypeOf(extensionFormat(form.codebook.name)))
+        : null;
+      const id = newId();
+      const label = form.label ?? nextPilotLabel(tx, study.id);
+      tx.insert(waves).values({
+        id,
+        studyId: study.id,
+        label,
+        fileHash: responsesFile.hash,
+        codebookHash: codebookFile?.hash ?? null,
+        format: read.table.source.format,
+        sheet,
+        status: 'proposed',
+        setup: stored,
+        screening: preview.screening,
+        exclusions: [],
+        rowCount: proposal.respondents,
+        itemCount: proposal.columns.filter((column) => column.role === 'item').length,
+        matrix: null,
+        respondentIds: preview.respondentIds ? [...preview.respondentIds] : null,
+        createdBy: user.id,
+      }).run();
+      logActivity(tx, {
+        teamId: study.teamId,
+        studyId: study.id,
+        userId: user.id,
+        action: 'wave.uploaded',
+        detail: { waveId: id, label, fileName: form.file.name, fileHash, codebookName: form.codebook?.name ?? null, rows: proposal.respondents, columns: proposal.columns.length },
+      });
+      return { duplicate: false, waveId: id };
+    });
+  } catch (error) {
+    files.undo(db);
+    throw error;
+  }
+  const row = db.select().from(waves).where(eq(waves.id, result.waveId)).get() as WaveRow;
+  return { duplicate: result.duplicate, view: storedWaveView(row, true) };
+}
+
+function extensionFormat(name: string): string {
+  const dot = name.lastIndexOf('.');
+  return dot < 0 ? '' : name.slice(dot + 1).toLowerCase();
+}

@@ -1,0 +1,117 @@
+/**
+ * What the wave routes answer: one shape for the upload, the setup confirmation and the wave
+ * itself, with respondent-level parts (proposal examples, flagged rows, exclusions) only for
+ * callers who may read respondents (owners and designers).
+ */
+import { asc, eq } from 'drizzle-orm';
+import { waveItems } from '../../../db/schema';
+import type { ColumnProposal, ItemCounts, ScreeningResult, WaveWarning } from '../../ingest';
+import { getDb } from '../db';
+import {
+  mergeWarnings, parseStoredSetup, screeningDetail, screeningSummary, waveSummary,
+  type ScreeningDetail, type ScreeningSummary, type StoredWaveSetup, type WaveRow, type WaveSummary,
+} from './stored-wave';
+
+/** One item of a wave as the API shows it. */
+export interface ItemView {
+  /** 0-based column of the item in the stored matrix. */
+  position: number;
+  id: string;
+  header: string;
+  scale: string | null;
+  reverse: boolean;
+  min: number | null;
+  max: number | null;
+  missingCodes: number[];
+  text: string | null;
+  valueLabels: Record<string, string> | null;
+  /** What happened to the item's cells when recoded (absent for waves stored before counts were kept). */
+  counts: ItemCounts | null;
+}
+
+/** An outcome column as the API shows it (aggregates only). */
+export interface OutcomeView {
+  id: string;
+  header: string;
+  counts: ItemCounts;
+}
+
+/** The answer of the wave routes. */
+export interface WaveView {
+  wave: WaveSummary;
+  /** Owners and designers: the proposed setup with reasons, profiles and counts. Others: null. */
+  proposal: { respondents: number; columns: ColumnProposal[] } | null;
+  /** The setup in force (as proposed, then as confirmed): what to send back to confirm. Owners and designers only. */
+  setup: StoredWaveSetup['columns'] | null;
+  items: ItemView[];
+  outcomes: OutcomeView[];
+  warnings: WaveWarning[];
+  /** Owners and designers: with the flagged rows and proposed exclusions. Others: counts only. */
+  screening: ScreeningDetail | ScreeningSummary | null;
+  /** Why there is no screening, when there is none. */
+  screeningNote: string | null;
+  /** Owners and designers: the respondent rows left out of audits. Others: null (see wave.excluded). */
+  exclusions: number[] | null;
+}
+
+/** The parts of a view that a build (stored or not) supplies. */
+export interface ViewParts {
+  row: WaveRow;
+  stored: StoredWaveSetup;
+  screening: ScreeningResult | null;
+  respondentIds: readonly string[] | null;
+  items: ItemView[];
+  exclusions: readonly number[];
+}
+
+/**
+ * Assembles the view.
+ * @param parts the wave row (or what it would become), its document, screening, ids, items and exclusions.
+ * @param respondentLevel whether the caller may read respondent-level data.
+ * @returns the view.
+ */
+export function assembleView(parts: ViewParts, respondentLevel: boolean): WaveView {
+  const { row, stored, screening } = parts;
+  return {
+    wave: { ...waveSummary(row, stored), excluded: parts.exclusions.length },
+    proposal: respondentLevel && stored.proposal.length > 0 ? { respondents: stored.respondents, columns: [...stored.proposal] } : null,
+    setup: respondentLevel ? stored.columns : null,
+    items: parts.items,
+    outcomes: (stored.outcomes ?? []).map(({ id, header, counts }) => ({ id, header, counts })),
+    warnings: mergeWarnings(stored.warnings, stored.buildWarnings),
+    screening: respondentLevel ? screeningDetail(screening, parts.respondentIds) : screeningSummary(screening),
+    screeningNote: screening ? null : stored.screeningNote ?? 'No screening has been made for this wave.',
+    exclusions: respondentLevel ? [...parts.exclusions] : null,
+  };
+}
+
+/**
+ * The view of a stored wave.
+ * @param row the wave row.
+ * @param respondentLevel whether the caller may read respondent-level data.
+ * @returns the view, with its items read from `wave_items`.
+ */
+export function storedWaveView(row: WaveRow, respondentLevel: boolean): WaveView {
+  const stored = parseStoredSetup(row.setup, row.rowCount);
+  const items = getDb().select().from(waveItems).where(eq(waveItems.waveId, row.id)).orderBy(asc(waveItems.position)).all();
+  return assembleView({
+    row,
+    stored,
+    screening: (row.screening ?? null) as ScreeningResult | null,
+    respondentIds: row.respondentIds,
+    items: items.map((item) => ({
+      position: item.position,
+      id: item.itemId,
+      header: item.header,
+      scale: item.scale,
+      reverse: item.reverse,
+      min: item.min,
+      max: item.max,
+      missingCodes: item.missingCodes,
+      text: item.text,
+      valueLabels: item.valueLabels ?? null,
+      counts: stored.itemCounts?.[item.itemId] ?? null,
+    })),
+    exclusions: row.exclusions,
+  }, respondentLevel);
+}

@@ -1,0 +1,20 @@
+import type { APIRoute } from 'astro';
+import { getConfig } from '../../../../lib/server/config';
+import { json } from '../../../../lib/server/errors';
+import { requireStudyAccess } from '../../../../lib/server/guard';
+import { readUploadForm } from '../../../../lib/server/waves/read-upload-form';
+import { uploadWave } from '../../../../lib/server/waves/upload-wave';
+import { waveEndpoint } from '../../../../lib/server/waves/wave-endpoint';
+
+/**
+ * POST /api/studies/{id}/waves (owner, designer): upload responses as multipart/form-data
+ * (`file`, optional `codebook`, `sheet`, `label`, `asNewWave`). Answers 201 with the proposed wave,
+ * its column setup, warnings and screening preview; 200 with `duplicate: true` and the wave
+ * already holding the same upload; the reader's refusals as 400, 413 or 422.
+ */
+export const POST: APIRoute = waveEndpoint(async ({ locals, params, request }) => {
+  const { user, study } = requireStudyAccess(locals, params.id ?? '', 'upload:wave');
+  const form = await readUploadForm(request, getConfig().limits.uploadBytes);
+  const { duplicate, view } = await uploadWave(user, study, form);
+  return json({ ...view, duplicate }, duplicate ? 200 : 201, { Location: `/api/waves/${view.wave.id}` });
+});

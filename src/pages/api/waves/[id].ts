@@ -1,0 +1,16 @@
+import type { APIRoute } from 'astro';
+import { can } from '../../../lib/permissions';
+import { json } from '../../../lib/server/errors';
+import { requireWaveAccess } from '../../../lib/server/waves/wave-access';
+import { waveEndpoint } from '../../../lib/server/waves/wave-endpoint';
+import { storedWaveView } from '../../../lib/server/waves/wave-view';
+
+/**
+ * GET /api/waves/{id} (members): the wave's metadata, items, warnings and screening summary.
+ * Owners and designers also get the proposal, the setup, the flagged rows and the exclusions;
+ * everyone else gets aggregates only.
+ */
+export const GET: APIRoute = waveEndpoint(({ locals, params }) => {
+  const { wave, membership } = requireWaveAccess(locals, params.id ?? '', 'read:study');
+  return json(storedWaveView(wave, can(membership.role, 'read:respondents')));
+});
