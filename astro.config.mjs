@@ -4,6 +4,7 @@ import node from '@astrojs/node';
 import react from '@astrojs/react';
 import tailwindcss from '@tailwindcss/vite';
 import auth from 'auth-astro';
+import { auditWorkerIntegration } from './src/lib/server/audit-jobs/audit-worker-build';
 
 // Host names the server answers to. Astro ignores the Host header of any other name (and then
 // builds URLs for localhost, which breaks the sign-in origin check: see stack-notes.md).
@@ -24,7 +25,8 @@ for (const host of (process.env.ALLOWED_HOSTS ?? '').split(',')) {
 export default defineConfig({
   output: 'server',
   adapter: node({ mode: 'standalone' }),
-  integrations: [react(), auth()],
+  // The audit worker thread is bundled on its own into dist/server/ (docs/decisions/004-audit-jobs.md).
+  integrations: [react(), auth(), auditWorkerIntegration()],
   server: { host: '127.0.0.1', port: 4321 },
   security: {
     // Cross-site requests are refused by our own origin check in src/middleware.ts (it exempts

@@ -123,7 +123,9 @@ export async function seedDemo(db: Db, options: SeedOptions): Promise<SeedOutcom
       codebookHash: codebookFile.hash,
       format: table.source.format,
       status: 'confirmed',
-      setup,
+      // The outcome columns go into the setup document as the confirm route stores them
+      // (src/lib/server/waves/stored-wave.ts, StoredOutcome), so audits can fit the outcome model.
+      setup: { ...setup, outcomes: wave.outcomes.map(({ id, header, values, counts }) => ({ id, header, values: Array.from(values, (v) => (Number.isFinite(v) ? v : null)), counts })) },
       screening,
       exclusions: [...wave.excluded],
       rowCount: wave.respondents,

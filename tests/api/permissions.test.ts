@@ -8,6 +8,7 @@
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { body, Client, createMember, demo, demoEmails, inviteAndReadToken, signedIn, uniqueEmail } from '../setup/http';
+import { postWave, textFile } from './waves-http';
 
 type Caller = 'owner' | 'designer' | 'field' | 'reviewer' | 'outsider' | 'token' | 'anonymous';
 const callers: Caller[] = ['owner', 'designer', 'field', 'reviewer', 'outsider', 'token', 'anonymous'];
@@ -63,6 +64,47 @@ const freshOwnerToken = async () => {
   return (await body(response)).token.id as string;
 };
 
+/** The seeded, confirmed wave of the demo study (src/db/seed.ts). */
+const demoWave = 'wave-riverbend-pilot-1';
+let outsideWaveId: string | null = null;
+/** A proposed wave in a fresh study of the other team (made once). */
+const outsideWave = async () => {
+  if (outsideWaveId) return outsideWaveId;
+  const studyId = await freshOutsideStudy();
+  const response = await postWave(clients.outsider, studyId, textFile('transport.csv', 'respondent_id,T1,T2,T3\nn1,1,2,3\nn2,2,3,4\nn3,4,4,5\nn4,5,3,2\n'));
+  outsideWaveId = (await body(response)).wave.id as string;
+  return outsideWaveId;
+};
+
+// Audits (issue 5), of the demo wave.
+let auditSeeds = 0;
+/** A seed no other call used, so that each caller starts a new audit (the same settings are reused). */
+const freshAuditSeed = async () => String(9_000_000 + (Date.now() % 100_000) * 10 + (auditSeeds += 1));
+let sharedAuditId: string | null = null;
+const anAudit = async () => {
+  sharedAuditId ??= (await body(await clients.owner.post(`/api/waves/${demoWave}/audits`, { settings: { bootstrap: 0, seed: 4_242 } }))).audit.id as string;
+  return sharedAuditId;
+};
+/** The shared audit, once it is done. */
+const aDoneAudit = async () => {
+  const id = await anAudit();
+  for (let attempt = 0; attempt < 600 && (await body(await clients.owner.get(`/api/audits/${id}`))).audit.status !== 'done'; attempt++) {
+    await new Promise((r) => setTimeout(r, 100));
+  }
+  return id;
+};
+/** A new audit made to fail (test servers accept `testFault`), once it has failed. */
+const freshFailedAudit = async () => {
+  const started = await clients.owner.post(`/api/waves/${demoWave}/audits`, { settings: { bootstrap: 0, seed: Number(await freshAuditSeed()), testFault: 'throw' } });
+  const id = (await body(started)).audit.id as string;
+  for (let attempt = 0; attempt < 600; attempt++) {
+    if ((await body(await clients.owner.get(`/api/audits/${id}`))).audit.status === 'failed') return id;
+    await new Promise((r) => setTimeout(r, 100));
+  }
+  throw new Error(`audit ${id} did not fail`);
+};
+const runAudit: Expectation = { owner: 202, designer: 202, field: 403, reviewer: 403, outsider: 404, anonymous: 401 };
+
 const table: Row[] = [
   // Health and the caller
   { name: 'health', method: 'GET', path: () => '/api/health', expect: { owner: 200, designer: 200, field: 200, reviewer: 200, outsider: 200, anonymous: 200 } },
@@ -99,6 +141,86 @@ const table: Row[] = [
     prepare: freshOutsideStudy,
     expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 204, anonymous: 401 },
   },
+  // Waves (multipart uploads by every role, and what each role reads, are tested in tests/api/waves.test.ts)
+  {
+    name: 'upload a wave (a JSON body: the guard answers first, then 400 not-multipart)',
+    method: 'POST',
+    path: () => `/api/studies/${demo.study}/waves`,
+    expect: { owner: 400, designer: 400, field: 403, reviewer: 403, outsider: 404, anonymous: 401 },
+  },
+  {
+    name: "upload a wave to the other team's study",
+    method: 'POST',
+    path: () => `/api/studies/${demo.outsideStudy}/waves`,
+    expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 400, anonymous: 401 },
+  },
+  { name: 'read the demo wave', method: 'GET', path: () => `/api/waves/${demoWave}`, expect: demoTeamMembers(200) },
+  { name: 'read a wave that does not exist', method: 'GET', path: () => '/api/waves/no-such-wave', expect: anyoneSignedIn(404) },
+  {
+    name: "read the other team's wave",
+    method: 'GET',
+    path: (id) => `/api/waves/${id}`,
+    prepare: outsideWave,
+    expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 200, anonymous: 401 },
+  },
+  {
+    name: 'check the setup of the demo wave (dry run: nothing stored)',
+    method: 'PUT',
+    path: () => `/api/waves/${demoWave}/setup`,
+    body: () => ({ exclusions: [], dryRun: true }),
+    expect: { owner: 200, designer: 200, field: 403, reviewer: 403, outsider: 404, anonymous: 401 },
+  },
+  {
+    name: "confirm the other team's wave",
+    method: 'PUT',
+    path: (id) => `/api/waves/${id}/setup`,
+    prepare: outsideWave,
+    body: () => ({ exclusions: [], dryRun: true }),
+    expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 400, anonymous: 401 },
+  },
+  {
+    name: 'respondent-level rows of the demo wave',
+    method: 'GET',
+    path: () => `/api/waves/${demoWave}/respondents`,
+    expect: { owner: 200, designer: 200, field: 403, reviewer: 403, outsider: 404, anonymous: 401 },
+  },
+  {
+    name: "respondent-level rows of the other team's wave",
+    method: 'GET',
+    path: (id) => `/api/waves/${id}/respondents`,
+    prepare: outsideWave,
+    expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 409, anonymous: 401 },
+  },
+  // Audits
+  {
+    name: 'start an audit of the demo wave',
+    method: 'POST',
+    path: () => `/api/waves/${demoWave}/audits`,
+    body: (seed) => ({ settings: { bootstrap: 0, seed: Number(seed) } }),
+    prepare: freshAuditSeed,
+    expect: runAudit,
+  },
+  { name: 'start an audit of a wave that does not exist', method: 'POST', path: () => '/api/waves/no-such-wave/audits', body: () => ({ settings: {} }), expect: anyoneSignedIn(404) },
+  {
+    name: "start an audit of the other team's (proposed) wave",
+    method: 'POST',
+    path: (id) => `/api/waves/${id}/audits`,
+    prepare: outsideWave,
+    body: () => ({ settings: {} }),
+    expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 409, anonymous: 401 },
+  },
+  { name: 'list the audits of the demo wave', method: 'GET', path: () => `/api/waves/${demoWave}/audits`, expect: demoTeamMembers(200) },
+  {
+    name: "list the audits of the other team's wave",
+    method: 'GET',
+    path: (id) => `/api/waves/${id}/audits`,
+    prepare: outsideWave,
+    expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 200, anonymous: 401 },
+  },
+  { name: 'read an audit', method: 'GET', path: (id) => `/api/audits/${id}`, prepare: anAudit, expect: demoTeamMembers(200) },
+  { name: 'download an audit', method: 'GET', path: (id) => `/api/audits/${id}?download=1`, prepare: aDoneAudit, expect: demoTeamMembers(200) },
+  { name: 'read an audit that does not exist', method: 'GET', path: () => '/api/audits/no-such-audit', expect: anyoneSignedIn(404) },
+  { name: 'retry a failed audit', method: 'POST', path: (id) => `/api/audits/${id}/retry`, prepare: freshFailedAudit, expect: runAudit },
   // Team members and invitations
   { name: 'list members', method: 'GET', path: () => `/api/teams/${demo.team}/members`, expect: demoTeamMembers(200) },
   {
@@ -162,7 +284,9 @@ const table: Row[] = [
   // Pages
   { name: 'page: dashboard', method: 'GET', path: () => '/', expect: pageForAnyone },
   { name: 'page: demo study', method: 'GET', path: () => `/studies/${demo.study}`, expect: pageForMembers },
+  { name: 'page: upload a wave', method: 'GET', path: () => `/studies/${demo.study}/upload`, expect: { owner: 200, designer: 200, field: 403, reviewer: 403, outsider: 404, anonymous: 303 } },
   { name: "page: other team's study", method: 'GET', path: () => `/studies/${demo.outsideStudy}`, expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 200, anonymous: 303 } },
+  { name: 'page: an audit', method: 'GET', path: (id) => `/audits/${id}`, prepare: anAudit, expect: pageForMembers },
   { name: 'page: demo team members', method: 'GET', path: () => `/teams/${demo.team}/members`, expect: pageForMembers },
   { name: 'page: account', method: 'GET', path: () => '/account', expect: pageForAnyone },
   { name: 'page: outbox', method: 'GET', path: () => '/outbox', expect: pageForAnyone },

@@ -2,6 +2,7 @@
 import { count, desc, eq, inArray } from 'drizzle-orm';
 import { existsSync, unlinkSync } from 'node:fs';
 import { resolve } from 'node:path';
+import { auditJobs } from './audit-jobs/audit-jobs';
 import { audits, cutListVersions, decisions, storedFiles, studies, teams, waves } from '../../db/schema';
 import { can, type Role } from '../permissions';
 import { logActivity } from './activity';
@@ -89,6 +90,9 @@ export interface StudyDetail {
  * @returns the detail.
  */
 export function studyDetail(study: StudyRow): StudyDetail {
+  // The audits service marks audits an earlier process left unfinished as failed when it is
+  // first used, so the list below never shows a stale "running".
+  auditJobs();
   const db = getDb();
   const team = db.select({ id: teams.id, name: teams.name }).from(teams).where(eq(teams.id, study.teamId)).get();
   const waveRows = db

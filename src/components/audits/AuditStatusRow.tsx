@@ -1,0 +1,65 @@
+import { useEffect, useState } from 'react';
+import type { AuditSummary } from '../../lib/server/audit-jobs/audit-jobs';
+import { callApi } from '../api-client';
+import AuditProgressBar from './AuditProgressBar';
+import { formatDuration, settingsLine, statusWords } from './audit-words';
+import { useAuditStatus, type AuditState } from './use-audit-status';
+
+const when = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit' });
+
+/**
+ * One audit as a live row: its settings, then a progress bar while it waits or runs, a link to
+ * its page once done, or its failure reason (with a retry button for those who may run audits).
+ * `onStatus` hears every change of status.
+ */
+export default function AuditStatusRow({ initial, canRun, onStatus }: { initial: AuditState; canRun: boolean; onStatus?: (status: AuditState['status']) => void }) {
+  const [current, setCurrent] = useState(initial);
+  const { audit, problem } = useAuditStatus(current);
+  useEffect(() => {
+    onStatus?.(audit.status);
+  }, [audit.status]);
+  const [retrying, setRetrying] = useState(false);
+  const [retryError, setRetryError] = useState('');
+
+  async function retry() {
+    setRetrying(true);
+    setRetryError('');
+    const answer = await callApi<{ audit: AuditSummary }>('POST', `/api/audits/${encodeURIComponent(audit.id)}/retry`);
+    setRetrying(false);
+    if (answer.ok) setCurrent(answer.data.audit);
+    else setRetryError(answer.message);
+  }
+
+  const settings = audit.settings;
+  return (
+    <li className="grid gap-1.5 py-2.5" data-testid="audit-row" data-status={audit.status}>
+      <div className="flex flex-wrap items-baseline justify-between gap-x-3 gap-y-0.5 text-sm">
+        <span className="font-semibold">
+          {audit.waveLabel ?? 'Audit'}
+          <span className={`chip ml-2 ${audit.status === 'failed' ? 'border-brick-700 text-brick-700' : audit.status === 'done' ? 'chip-owner' : ''}`}>{statusWords[audit.status] ?? audit.status}</span>
+        </span>
+        {audit.createdAt && <span className="text-xs text-ink-faint">{when.format(new Date(audit.createdAt))}</span>}
+      </div>
+      {settings && <p className="text-xs text-ink-soft">{settingsLine(settings)}</p>}
+      {(audit.status === 'queued' || audit.status === 'running') && <AuditProgressBar status={audit.status} stage={audit.stage} percent={audit.percent} />}
+      {audit.status === 'done' && (
+        <p className="text-sm">
+          <a href={`/audits/${encodeURIComponent(audit.id)}`} className="font-semibold" data-testid="open-audit">Open the audit</a>
+          {audit.timings?.runMs !== undefined && <span className="ml-2 text-xs text-ink-faint">ran in {formatDuration(audit.timings.runMs)}</span>}
+        </p>
+      )}
+      {audit.status === 'failed' && (
+        <div className="grid gap-1">
+          <p className="error-text text-sm" data-testid="audit-error">{audit.error ?? 'The audit failed.'}</p>
+          {canRun && (
+            <div>
+              <button type="button" className="button button-quiet text-sm" onClick={retry} disabled={retrying}>{retrying ? 'Queuing…' : 'Retry'}</button>
+            </div>
+          )}
+          {retryError && <p className="error-text text-sm" role="alert">{retryError}</p>}
+        </div>
+      )}
+      {problem && <p className="text-xs text-ochre-700" role="status">{problem}</p>}
+    </li>
+  );
+}

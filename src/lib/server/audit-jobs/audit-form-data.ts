@@ -1,0 +1,76 @@
+/**
+ * What a form that starts an audit needs to know about a wave: its items (to lock some), its
+ * outcome columns, and the settings an audit takes when nothing is changed. Aggregates only: no
+ * respondent-level data.
+ */
+import { and, eq } from 'drizzle-orm';
+import { waveItems, waves } from '../../../db/schema';
+import type { EngineSettings } from '../../engine/engine-settings';
+import { getDb } from '../db';
+import type { StudyRow } from '../guard';
+import { parseStoredSetup, type WaveRow } from '../waves/stored-wave';
+import { defaultAuditSettings, engineDefaults, type ResolvedAuditSettings } from './audit-settings';
+
+/** One wave, ready for the audit form. */
+export interface AuditFormWave {
+  id: string;
+  label: string;
+  status: WaveRow['status'];
+  respondents: number;
+  excluded: number;
+  items: { id: string; scale: string | null; text: string | null }[];
+  outcomes: { id: string; header: string }[];
+  /** The settings of an audit started without changes (study constraints over engine defaults). */
+  defaults: ResolvedAuditSettings;
+}
+
+/** The columns of a wave row the form needs (no matrix). */
+export type FormWaveRow = Pick<WaveRow, 'id' | 'label' | 'status' | 'setup' | 'rowCount' | 'exclusions'>;
+
+/**
+ * The form data of a wave.
+ * @param study the wave's study (its constraints and locked items are the defaults).
+ * @param wave the wave row.
+ * @returns items, outcomes and default settings.
+ */
+export function auditFormWave(study: StudyRow, wave: FormWaveRow): AuditFormWave {
+  const items = getDb()
+    .select({ id: waveItems.itemId, scale: waveItems.scale, text: waveItems.text })
+    .from(waveItems)
+    .where(eq(waveItems.waveId, wave.id))
+    .orderBy(waveItems.position)
+    .all();
+  const outcomes = (parseStoredSetup(wave.setup, wave.rowCount).outcomes ?? []).map(({ id, header }) => ({ id, header }));
+  const defaults = defaultAuditSettings(study.settings);
+  const itemIds = new Set(items.map((item) => item.id));
+  return {
+    id: wave.id,
+    label: wave.label,
+    status: wave.status,
+    respondents: wave.rowCount,
+    excluded: wave.exclusions.length,
+    items,
+    outcomes,
+    defaults: { ...defaults, locked: defaults.locked.filter((id) => itemIds.has(id)) },
+  };
+}
+
+/**
+ * The form data of every confirmed wave of a study, oldest first.
+ * @param study the study.
+ * @returns one entry per confirmed wave.
+ */
+export function confirmedFormWaves(study: StudyRow): AuditFormWave[] {
+  return getDb()
+    .select({ id: waves.id, label: waves.label, status: waves.status, setup: waves.setup, rowCount: waves.rowCount, exclusions: waves.exclusions })
+    .from(waves)
+    .where(and(eq(waves.studyId, study.id), eq(waves.status, 'confirmed')))
+    .orderBy(waves.createdAt)
+    .all()
+    .map((wave) => auditFormWave(study, wave));
+}
+
+/** The engine's own defaults, shown beside each field of the form. */
+export function engineDefaultSettings(): EngineSettings {
+  return engineDefaults;
+}

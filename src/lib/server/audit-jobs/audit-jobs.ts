@@ -1,0 +1,424 @@
+/**
+ * Audits as background jobs: starting one (or reusing a stored result), running it in the worker
+ * pool off the request path, writing its progress (throttled), result, failure reason and
+ * timings to the `audits` row, retrying a failed one, and, when the process starts, marking
+ * every audit an earlier process left `queued` or `running` as failed ("interrupted by a
+ * restart"). The main thread is the only writer of the audits table.
+ *
+ * One instance per process (`auditJobs()`); it is created on first use, and the restart recovery
+ * runs then, before anything else reads or starts an audit (every path that does goes through
+ * `auditJobs()`). docs/decisions/004-audit-jobs.md.
+ */
+import { and, desc, eq, inArray } from 'drizzle-orm';
+import { availableParallelism } from 'node:os';
+import { z } from 'zod';
+import { audits, waveItems, waves } from '../../../db/schema';
+import type { Db } from '../../../db/client';
+import { logActivity } from '../activity';
+import type { CurrentUser } from '../current-user';
+import { getDb } from '../db';
+import { fail } from '../errors';
+import type { StudyRow } from '../guard';
+import { newId } from '../ids';
+import { parseStoredSetup, type WaveRow } from '../waves/stored-wave';
+import { auditSettingsHash, resolveAuditSettings, type AuditSettingsRequest, type ResolvedAuditSettings } from './audit-settings';
+import { AuditJobFailure, AuditWorkerPool } from './worker-pool';
+import { spawnAuditWorker } from './worker-entry';
+import type { AuditWorkerJob } from './worker-protocol';
+
+/** The reason stored on audits found unfinished when the server starts. */
+export const INTERRUPTED_REASON = 'The audit was interrupted by a restart of the server before it finished; retry it.';
+
+/** Progress is written to the database at most this often (and at every change of stage). */
+export const PROGRESS_WRITE_INTERVAL_MS = 250;
+
+/** Stored failure reasons are cut to this length. */
+const MAX_REASON_LENGTH = 2_000;
+
+export type AuditStatus = (typeof audits.$inferSelect)['status'];
+
+/** An audit as the API and pages show it (without its result). */
+export interface AuditSummary {
+  id: string;
+  waveId: string;
+  studyId: string;
+  waveLabel: string;
+  status: AuditStatus;
+  /** The stage running now (`loading`, `evidence`, `structure`, `engine`, `outcome`, `saving`), or null. */
+  stage: string | null;
+  /** 0-100; 100 once done. */
+  percent: number;
+  /** Why it failed, when it failed. */
+  error: string | null;
+  settings: ResolvedAuditSettings;
+  /** Milliseconds per stage, once it ended. */
+  timings: Record<string, number> | null;
+  createdAt: string;
+  startedAt: string | null;
+  finishedAt: string | null;
+}
+
+/** An audit row as read here (no result text). */
+const summaryColumns = {
+  id: audits.id,
+  waveId: audits.waveId,
+  studyId: waves.studyId,
+  waveLabel: waves.label,
+  status: audits.status,
+  stage: audits.stage,
+  progress: audits.progress,
+  error: audits.error,
+  settings: audits.settings,
+  timings: audits.timings,
+  createdAt: audits.createdAt,
+  startedAt: audits.startedAt,
+  finishedAt: audits.finishedAt,
+};
+
+type SummaryRow = {
+  id: string;
+  waveId: string;
+  studyId: string;
+  waveLabel: string;
+  status: AuditStatus;
+  stage: string | null;
+  progress: number;
+  error: string | null;
+  settings: unknown;
+  timings: Record<string, number> | null;
+  createdAt: Date;
+  startedAt: Date | null;
+  finishedAt: Date | null;
+};
+
+function summaryOf(row: SummaryRow): AuditSummary {
+  const iso = (date: Date | null) => (date ? date.toISOString() : null);
+  return {
+    id: row.id,
+    waveId: row.waveId,
+    studyId: row.studyId,
+    waveLabel: row.waveLabel,
+    status: row.status,
+    stage: row.stage,
+    percent: row.status === 'done' ? 100 : row.progress,
+    error: row.error,
+    settings: row.settings as ResolvedAuditSettings,
+    timings: row.timings,
+    createdAt: row.createdAt.toISOString(),
+    startedAt: iso(row.startedAt),
+    finishedAt: iso(row.finishedAt),
+  };
+}
+
+/**
+ * Marks every audit left `queued` or `running` as failed with INTERRUPTED_REASON. Only correct
+ * in a process that has not queued any audit itself yet (its own jobs live in its memory).
+ * @param db the database.
+ * @returns how many audits were marked.
+ */
+export function recoverInterruptedAudits(db: Db): number {
+  const result = db
+    .update(audits)
+    .set({ status: 'failed', error: INTERRUPTED_REASON, finishedAt: new Date() })
+    .where(inArray(audits.status, ['queued', 'running']))
+    .run();
+  return result.changes;
+}
+
+/**
+ * Size of the pool: AUDIT_WORKERS when set (an integer from 1 to 64), else the machine's cores.
+ * @param environment the variables to read.
+ * @throws {Error} naming AUDIT_WORKERS when it is not an integer from 1 to 64.
+ * @returns the number of audits that may run at once.
+ */
+export function auditPoolSize(environment: NodeJS.ProcessEnv = process.env): number {
+  const raw = environment.AUDIT_WORKERS?.trim();
+  if (!raw) return Math.max(1, Math.min(64, availableParallelism()));
+  const parsed = z.coerce.number().int().min(1).max(64).safeParse(raw);
+  if (!parsed.success) throw new Error(`auditPoolSize: AUDIT_WORKERS must be an integer from 1 to 64, got "${raw}"`);
+  return parsed.data;
+}
+
+/** What starting an audit did. */
+export interface StartedAudit {
+  audit: AuditSummary;
+  /** True when a stored (or still running) audit with the same settings was returned instead. */
+  reused: boolean;
+}
+
+/** The audits service of one process. */
+export class AuditJobs {
+  private readonly db: Db;
+  private readonly pool: AuditWorkerPool;
+
+  /**
+   * @param db the database.
+   * @param pool the worker pool that runs the audits.
+   */
+  constructor(db: Db, pool: AuditWorkerPool) {
+    this.db = db;
+    this.pool = pool;
+  }
+
+  /** The pool's counts (for logs and tests). */
+  poolState() {
+    return this.pool.state();
+  }
+
+  /**
+   * Starts an audit of a wave, or returns the audit that already has these settings.
+   * @param user who starts it.
+   * @param study the wave's study (access checked by the guard).
+   * @param wave the wave row.
+   * @param request the request's settings (validated by the route's schema).
+   * @param options `allowTestFaults` (test servers).
+   * @throws {HttpError} 409 `wave-not-confirmed` when the wave's setup is not confirmed (or it has
+   *   no stored responses); 400 `invalid-settings`, `unknown-locked-item`, `unknown-outcome`.
+   * @returns the audit and whether it was reused.
+   */
+  start(user: CurrentUser, study: StudyRow, wave: WaveRow, request: AuditSettingsRequest, options: { allowTestFaults: boolean }): StartedAudit {
+    if (wave.status !== 'confirmed' || !wave.matrix) {
+      throw fail.conflict(`The wave "${wave.label}" is not confirmed yet: confirm its column setup before running an audit.`, 'wave-not-confirmed');
+    }
+    const settings = this.checkedAgainstWave(resolveAuditSettings(request, study.settings, options), wave, request.locked !== undefined);
+    const settingsHash = auditSettingsHash(settings, wave.exclusions);
+    const outcome = this.db.transaction((tx) => {
+      const existing = tx
+        .select({ id: audits.id, status: audits.status })
+        .from(audits)
+        .where(and(eq(audits.waveId, wave.id), eq(audits.settingsHash, settingsHash)))
+        .orderBy(desc(audits.createdAt))
+        .all();
+      const usable = existing.find((row) => row.status === 'done') ?? existing.find((row) => row.status !== 'failed');
+      if (usable) return { id: usable.id, reused: true, queue: false };
+      const failed = existing.find((row) => row.status === 'failed');
+      if (failed) {
+        requeue(tx, failed.id);
+        logActivity(tx, { teamId: study.teamId, studyId: study.id, userId: user.id, action: 'audit.retried', detail: { audit: failed.id, wave: wave.id } });
+        return { id: failed.id, reused: false, queue: true };
+      }
+      const id = newId();
+      tx.insert(audits).values({ id, waveId: wave.id, settings, settingsHash, status: 'queued', progress: 0, createdBy: user.id }).run();
+      logActivity(tx, { teamId: study.teamId, studyId: study.id, userId: user.id, action: 'audit.started', detail: { audit: id, wave: wave.id, method: settings.method, bootstrap: settings.bootstrap } });
+      return { id, reused: false, queue: true };
+    });
+    if (outcome.queue) this.enqueue(outcome.id);
+    return { audit: this.summary(outcome.id)!, reused: outcome.reused };
+  }
+
+  /**
+   * Runs a failed audit again with its stored settings.
+   * @param user who retries.
+   * @param study its study.
+   * @param auditId the audit.
+   * @throws {HttpError} 409 `audit-not-failed` when it is queued, running or done.
+   * @returns the audit, queued again.
+   */
+  retry(user: CurrentUser, study: StudyRow, auditId: string): AuditSummary {
+    const queued = this.db.transaction((tx) => {
+      const row = tx.select({ status: audits.status, waveId: audits.waveId }).from(audits).where(eq(audits.id, auditId)).get();
+      if (!row) throw fail.notFound('No such audit among your teams.', 'audit-not-found');
+      if (row.status !== 'failed') return row.status;
+      requeue(tx, auditId);
+      logActivity(tx, { teamId: study.teamId, studyId: study.id, userId: user.id, action: 'audit.retried', detail: { audit: auditId, wave: row.waveId } });
+      return null;
+    });
+    if (queued !== null) throw fail.conflict(`Only a failed audit can be retried; this one is ${queued}.`, 'audit-not-failed');
+    this.enqueue(auditId);
+    return this.summary(auditId)!;
+  }
+
+  /**
+   * One audit's summary.
+   * @param auditId the audit.
+   * @returns the summary, or null when there is no such audit.
+   */
+  summary(auditId: string): AuditSummary | null {
+    const row = this.db.select(summaryColumns).from(audits).innerJoin(waves, eq(waves.id, audits.waveId)).where(eq(audits.id, auditId)).get();
+    return row ? summaryOf(row as SummaryRow) : null;
+  }
+
+  /**
+   * The stored audit JSON text of a finished audit.
+   * @param auditId the audit.
+   * @returns the text, or null when it has none (not done, or no such audit).
+   */
+  resultText(auditId: string): string | null {
+    return this.db.select({ result: audits.result }).from(audits).where(and(eq(audits.id, auditId), eq(audits.status, 'done'))).get()?.result ?? null;
+  }
+
+  /**
+   * The audits of a wave, newest first.
+   * @param waveId the wave.
+   * @returns their summaries.
+   */
+  listForWave(waveId: string): AuditSummary[] {
+    return this.db
+      .select(summaryColumns)
+      .from(audits)
+      .innerJoin(waves, eq(waves.id, audits.waveId))
+      .where(eq(audits.waveId, waveId))
+      .orderBy(desc(audits.createdAt))
+      .all()
+      .map((row) => summaryOf(row as SummaryRow));
+  }
+
+  /**
+   * The audits of every wave of a study, newest first.
+   * @param studyId the study.
+   * @returns their summaries.
+   */
+  listForStudy(studyId: string): AuditSummary[] {
+    return this.db
+      .select(summaryColumns)
+      .from(audits)
+      .innerJoin(waves, eq(waves.id, audits.waveId))
+      .where(eq(waves.studyId, studyId))
+      .orderBy(desc(audits.createdAt))
+      .all()
+      .map((row) => summaryOf(row as SummaryRow));
+  }
+
+  /**
+   * Checks the locked items and the outcome against the wave. Locked items the request names must
+   * be items of the wave; the study's own locked items may name items of other waves and are
+   * kept only where this wave has them. The outcome may be named by id or column header.
+   */
+  private checkedAgainstWave(settings: ResolvedAuditSettings, wave: WaveRow, lockedFromRequest: boolean): ResolvedAuditSettings {
+    const itemIds = new Set(this.db.select({ id: waveItems.itemId }).from(waveItems).where(eq(waveItems.waveId, wave.id)).all().map((row) => row.id));
+    let locked = settings.locked;
+    const unknown = locked.filter((id) => !itemIds.has(id));
+    if (unknown.length > 0) {
+      if (lockedFromRequest) {
+        throw fail.badRequest(
+          `settings.locked: ${unknown.join(', ')} ${unknown.length > 1 ? 'are not items' : 'is not an item'} of this wave; lock items by their id as listed in the column setup.`,
+          'unknown-locked-item',
+        );
+      }
+      locked = locked.filter((id) => itemIds.has(id));
+    }
+    let outcome = settings.outcome;
+    if (outcome !== null) {
+      const outcomes = parseStoredSetup(wave.setup, wave.rowCount).outcomes ?? [];
+      const found = outcomes.find((entry) => entry.id === outcome || entry.header === outcome);
+      if (!found) {
+        const names = outcomes.map((entry) => entry.id);
+        throw fail.badRequest(
+          `settings.outcome: "${outcome}" is not an outcome column of this wave${names.length ? ` (outcomes: ${names.join(', ')})` : ' (it has none)'}.`,
+          'unknown-outcome',
+        );
+      }
+      outcome = found.id;
+    }
+    return Object.freeze({ ...settings, locked, outcome });
+  }
+
+  /** Hands an audit to the pool and records what happens to it. */
+  private enqueue(auditId: string): void {
+    const queuedAt = Date.now();
+    let startedAt = queuedAt;
+    let lastStage: string | null = null;
+    let lastPercent = -1;
+    let lastWrite = 0;
+    const db = this.db;
+    const whileRunning = and(eq(audits.id, auditId), eq(audits.status, 'running'));
+    this.pool
+      .run({
+        prepare: () => this.jobFor(auditId),
+        onStart: () => {
+          startedAt = Date.now();
+          db.update(audits)
+            .set({ status: 'running', stage: 'loading', progress: 0, startedAt: new Date(startedAt) })
+            .where(and(eq(audits.id, auditId), eq(audits.status, 'queued')))
+            .run();
+        },
+        onProgress: (stage, fraction) => {
+          const percent = Math.max(0, Math.min(99, Math.floor(fraction * 100)));
+          const now = Date.now();
+          if (stage === lastStage && (percent === lastPercent || now - lastWrite < PROGRESS_WRITE_INTERVAL_MS)) return;
+          lastStage = stage;
+          lastPercent = percent;
+          lastWrite = now;
+          db.update(audits).set({ stage, progress: percent }).where(whileRunning).run();
+        },
+      })
+      .then((result) => {
+        if (result === null) return;
+        const finished = Date.now();
+        const timings = { ...result.timings, queuedMs: startedAt - queuedAt, totalMs: finished - queuedAt };
+        db.update(audits)
+          .set({ status: 'done', stage: null, progress: 100, result: result.resultText, error: null, timings, finishedAt: new Date(finished) })
+          .where(whileRunning)
+          .run();
+      })
+      .catch((error: unknown) => {
+        const message = error instanceof AuditJobFailure ? error.message : `The audit could not run: ${error instanceof Error ? error.message : String(error)}`;
+        if (!(error instanceof AuditJobFailure)) console.error(`[paredown] audit ${auditId} could not run:`, error);
+        const finished = Date.now();
+        db.update(audits)
+          .set({
+            status: 'failed',
+            error: message.slice(0, MAX_REASON_LENGTH),
+            finishedAt: new Date(finished),
+            timings: { queuedMs: startedAt - queuedAt, totalMs: finished - queuedAt },
+          })
+          .where(and(eq(audits.id, auditId), inArray(audits.status, ['queued', 'running'])))
+          .run();
+      });
+  }
+
+  /** The job of a queued audit, read when a thread is free; null when it is gone or no longer queued. */
+  private jobFor(auditId: string): AuditWorkerJob | null {
+    const audit = this.db.select({ waveId: audits.waveId, status: audits.status, settings: audits.settings, settingsHash: audits.settingsHash }).from(audits).where(eq(audits.id, auditId)).get();
+    if (!audit || audit.status !== 'queued') return null;
+    const wave = this.db.select().from(waves).where(eq(waves.id, audit.waveId)).get();
+    if (!wave?.matrix) throw new AuditJobFailure('The wave has no stored responses to audit.');
+    const settings = audit.settings as ResolvedAuditSettings;
+    if (auditSettingsHash(settings, wave.exclusions) !== audit.settingsHash) {
+      throw new AuditJobFailure("The wave's excluded respondents changed after this audit was queued; start the audit again.");
+    }
+    const items = this.db.select().from(waveItems).where(eq(waveItems.waveId, wave.id)).orderBy(waveItems.position).all();
+    const outcomes = settings.outcome === null ? [] : (parseStoredSetup(wave.setup, wave.rowCount).outcomes ?? []).filter((entry) => entry.id === settings.outcome);
+    return {
+      jobId: auditId,
+      wave: {
+        matrixBlob: wave.matrix,
+        respondents: wave.rowCount,
+        excluded: wave.exclusions,
+        items: items.map((item) => ({ id: item.itemId, scale: item.scale, reverse: item.reverse, min: item.min ?? Number.NaN, max: item.max ?? Number.NaN, text: item.text })),
+        outcomes: outcomes.map(({ id, header, values }) => ({ id, header, values })),
+      },
+      settings,
+    };
+  }
+}
+
+/** Puts a failed audit back in the queue, clearing what the failed run left. */
+function requeue(tx: Pick<Db, 'update'>, auditId: string): void {
+  tx.update(audits)
+    .set({ status: 'queued', stage: null, progress: 0, result: null, error: null, timings: null, startedAt: null, finishedAt: null })
+    .where(eq(audits.id, auditId))
+    .run();
+}
+
+const INSTANCE = Symbol.for('paredown.auditJobs');
+
+/**
+ * The audits service of this process, created on first use: the restart recovery runs first,
+ * then the pool is made (its threads start with the first audit).
+ * @throws {Error} when AUDIT_WORKERS is invalid.
+ * @returns the service.
+ */
+export function auditJobs(): AuditJobs {
+  const holder = globalThis as unknown as Record<symbol, AuditJobs | undefined>;
+  let instance = holder[INSTANCE];
+  if (!instance) {
+    const db = getDb();
+    const size = auditPoolSize();
+    const recovered = recoverInterruptedAudits(db);
+    if (recovered > 0) console.log(`[paredown] ${recovered} audit${recovered === 1 ? '' : 's'} left unfinished by an earlier run marked failed (interrupted by a restart).`);
+    instance = new AuditJobs(db, new AuditWorkerPool(size, () => spawnAuditWorker()));
+    holder[INSTANCE] = instance;
+  }
+  return instance;
+}

@@ -1,0 +1,133 @@
+/**
+ * Audits in a real browser (Debian's Chromium through playwright-core): the designer starts an
+ * audit from the study page's form, the progress bar shows while it runs, and the audit page shows
+ * the proposed cuts. Screenshots go to test-results/screenshots/audit-*.png. Any console error,
+ * page error or Content-Security-Policy violation fails.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import { execSync } from 'node:child_process';
+import { existsSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { baseUrl, demo, demoEmails, demoPassword } from '../setup/http';
+
+const screenshots = join('test-results', 'screenshots');
+const profiles: string[] = [];
+
+function chromiumPath(): string {
+  if (process.env.CHROMIUM_PATH) return process.env.CHROMIUM_PATH;
+  if (existsSync('/usr/bin/chromium')) return '/usr/bin/chromium';
+  const found = execSync('command -v chromium || command -v chromium-browser || true', { shell: '/bin/sh', encoding: 'utf8' }).trim();
+  if (!found) throw new Error('Chromium is not installed: the browser tests need /usr/bin/chromium (npm test installs it with apt-get as root).');
+  return found;
+}
+
+const flags = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
+
+async function freshContext(): Promise<{ context: BrowserContext; page: Page; problems: string[] }> {
+  const profile = mkdtempSync(join(tmpdir(), 'paredown-chromium-'));
+  profiles.push(profile);
+  const context = await chromium.launchPersistentContext(profile, { executablePath: chromiumPath(), headless: true, args: flags, viewport: { width: 1280, height: 900 } });
+  const page = context.pages()[0] ?? (await context.newPage());
+  const problems: string[] = [];
+  page.on('console', (message) => {
+    if (message.type() === 'error' || /Content Security Policy/i.test(message.text())) problems.push(message.text());
+  });
+  page.on('pageerror', (error) => problems.push(error.message));
+  return { context, page, problems };
+}
+
+async function hydrated(page: Page) {
+  await page.waitForFunction(() => document.querySelectorAll('astro-island').length > 0 && !document.querySelector('astro-island[ssr]'), null, { timeout: 15_000 });
+}
+
+async function signIn(page: Page, email: string) {
+  await page.goto(`${baseUrl()}/signin`);
+  await hydrated(page);
+  await page.fill('#email', email);
+  await page.fill('#password', demoPassword);
+  await Promise.all([page.waitForURL(`${baseUrl()}/`, { timeout: 15_000 }), page.click('button[type=submit]')]);
+}
+
+beforeAll(() => {
+  mkdirSync(screenshots, { recursive: true });
+});
+
+afterAll(() => {
+  for (const profile of profiles) rmSync(profile, { recursive: true, force: true });
+});
+
+describe('audits in Chromium', () => {
+  it('the designer starts an audit on the study page, watches it run and opens its page', async () => {
+    const { context, page, problems } = await freshContext();
+    try {
+      await signIn(page, demoEmails.designer);
+      await page.goto(`${baseUrl()}/studies/${demo.study}`);
+      await hydrated(page);
+      const form = page.locator('[data-testid=audit-form]');
+      await expect(form.locator('#audit-strongPairThreshold').inputValue()).resolves.toBe('0.8');
+      // The demo study's own constraint (src/db/seed.ts: minutesPerItem 0.15) is shown as its default.
+      await expect(form.locator('#audit-secondsPerItem').inputValue()).resolves.toBe('9');
+      await form.locator('#audit-method').selectOption('pearson');
+      await form.locator('#audit-outcome').selectOption('overall_sat');
+      await form.locator('#audit-bootstrap').fill('200');
+      // A seed of its own, so that no earlier audit with the same settings is reused.
+      await form.locator('#audit-seed').fill(String(50_000 + (Date.now() % 40_000)));
+      await form.locator('summary:has-text("Locked items")').click();
+      await form.locator('label:has-text("hours_1") input[type=checkbox]').check();
+      await form.locator('button[type=submit]').click();
+
+      const progress = form.locator('[data-testid=audit-progress] progress');
+      await progress.waitFor({ state: 'visible', timeout: 10_000 });
+      await page.waitForFunction(() => Number(document.querySelector('[data-testid=audit-form] progress')?.getAttribute('value') ?? 0) > 0, null, { timeout: 30_000 });
+      await page.locator('#run-audit-heading').scrollIntoViewIfNeeded();
+      await page.screenshot({ path: join(screenshots, 'audit-study-running.png'), fullPage: true });
+      // The new audit joined the list of the study's audits too.
+      expect(await page.locator('[data-testid=audit-list] [data-testid=audit-row]').count()).toBeGreaterThan(0);
+
+      const open = form.locator('[data-testid=open-audit]');
+      await open.waitFor({ state: 'visible', timeout: 90_000 });
+      await page.screenshot({ path: join(screenshots, 'audit-study-done.png'), fullPage: true });
+      await Promise.all([page.waitForURL(/\/audits\//, { timeout: 15_000 }), open.click()]);
+
+      await expect(page.locator('[data-testid=audit-title]').textContent()).resolves.toContain('Audit of Pilot 1');
+      // fixtures/demo/README.md, "What is planted": five overlap structures, each one proposal.
+      expect(await page.locator('[data-testid=recommendation]').count()).toBe(5);
+      expect((await page.locator('[data-testid=recommendations-summary]').textContent())?.trim()).toMatch(/^5 overlap clusters/);
+      const reasons = await page.locator('[data-testid=recommendation-reason]').allTextContents();
+      expect(reasons.every((reason) => reason.length > 20)).toBe(true);
+      expect(await page.locator('[data-testid=recommendation-stability]').count()).toBe(5);
+      await expect(page.locator('[data-testid=audit-figures]').textContent()).resolves.toContain('386');
+      await expect(page.locator('main').textContent()).resolves.toContain('1 locked item');
+      expect(await page.locator('[data-testid=after-cut-scales] tbody tr').count()).toBeGreaterThan(0);
+      await expect(page.locator('[data-testid=download-json]').getAttribute('href')).resolves.toMatch(/\/api\/audits\/.+\?download=1$/);
+      await page.screenshot({ path: join(screenshots, 'audit-page.png'), fullPage: true });
+      // Close-ups at full resolution, to read the figures and one proposal with a blocked cut.
+      await page.locator('#figures').screenshot({ path: join(screenshots, 'audit-page-figures.png') });
+      await page.locator('[data-testid=recommendation]:has-text("dig_1")').screenshot({ path: join(screenshots, 'audit-page-recommendation.png') });
+      await page.locator('#after-cut').screenshot({ path: join(screenshots, 'audit-page-after-cut.png') });
+      expect(problems).toEqual([]);
+    } finally {
+      await context.close();
+    }
+  });
+
+  it('the client reviewer sees the audits and the audit page, but no form to start one', async () => {
+    const { context, page, problems } = await freshContext();
+    try {
+      await signIn(page, demoEmails.reviewer);
+      await page.goto(`${baseUrl()}/studies/${demo.study}`);
+      await hydrated(page);
+      expect(await page.locator('[data-testid=audit-form]').count()).toBe(0);
+      const open = page.locator('[data-testid=audit-list] [data-testid=open-audit]').first();
+      await open.waitFor({ state: 'visible', timeout: 30_000 });
+      await page.screenshot({ path: join(screenshots, 'audit-study-reviewer.png'), fullPage: true });
+      await Promise.all([page.waitForURL(/\/audits\//, { timeout: 15_000 }), open.click()]);
+      expect(await page.locator('[data-testid=recommendation]').count()).toBeGreaterThan(0);
+      expect(problems).toEqual([]);
+    } finally {
+      await context.close();
+    }
+  });
+});
