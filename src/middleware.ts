@@ -1,12 +1,16 @@
 /**
  * Every request passes these steps, in order:
  * 1. security headers on the way out;
+ * 1a. once per process, on its first request of any kind: the restart recovery of audits
+ *     (audits an earlier process left queued or running are marked failed), since Astro's
+ *     standalone server has no start-up hook (docs/decisions/004-audit-jobs.md);
  * 2. the origin check (CSRF): a write carrying cookies must come from our own origin;
  * 3. who is asking (session cookie or personal API token) into `locals`;
  * 4. the sign-in rate limit, in front of Auth.js's credentials callback;
  * 5. first run (/setup while no user exists) and sign-in for pages.
  */
 import { defineMiddleware, sequence } from 'astro:middleware';
+import { auditJobs } from './lib/server/audit-jobs/audit-jobs';
 import { getConfig } from './lib/server/config';
 import { resolveCaller } from './lib/server/current-user';
 import { errorResponse } from './lib/server/errors';
@@ -25,6 +29,22 @@ function isAsset(pathname: string): boolean {
 const securityHeaders = defineMiddleware(async (context, next) => {
   const response = await next();
   return withSecurityHeaders(response, isAsset(context.url.pathname));
+});
+
+let startedUp = false;
+
+/**
+ * Work that belongs to the start of the server, done on its first request: creating the audits
+ * service runs the restart recovery (`auditJobs()` does it once per process; later calls from
+ * routes and pages only return the service). Marked done only when it succeeded, so a failure
+ * (an unreadable database, an invalid configuration) is met again, not skipped.
+ */
+const startUp = defineMiddleware((_context, next) => {
+  if (!startedUp) {
+    auditJobs();
+    startedUp = true;
+  }
+  return next();
 });
 
 /**
@@ -117,4 +137,4 @@ const gatePages = defineMiddleware((context, next) => {
   return next();
 });
 
-export const onRequest = sequence(securityHeaders, originCheck, identify, signInLimit, gatePages);
+export const onRequest = sequence(securityHeaders, startUp, originCheck, identify, signInLimit, gatePages);

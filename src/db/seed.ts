@@ -12,7 +12,9 @@ import type { Db } from './client';
 import type { TeamRole } from './schema';
 import { storeFile } from './stored-files';
 import { logActivity } from '../lib/server/activity';
-import { buildWave, encodeMatrix, proposeSetup, readCodebook, readTable, screenRespondents } from '../lib/ingest';
+import { buildWave, encodeMatrix, proposeSetup, screenRespondents, type ItemCounts } from '../lib/ingest';
+import { readWaveFiles } from '../lib/server/waves/read-wave-files';
+import { setupOf, STORED_SETUP_VERSION, withoutIgnoredExamples, type StoredWaveSetup } from '../lib/server/waves/stored-wave';
 
 /** The password of every demo account (printed in the README). */
 export const demoPassword = 'paredown-demo';
@@ -74,14 +76,35 @@ export async function seedDemo(db: Db, options: SeedOptions): Promise<SeedOutcom
   const codebookName = 'library-codebook.csv';
   const responses = readFileSync(join(fixturesDir, responsesName));
   const codebookBytes = readFileSync(join(fixturesDir, codebookName));
-  // The wave goes through the same reader as an upload (src/lib/ingest), with the proposed
-  // column setup and the proposed screening exclusions accepted, as a designer would.
-  const table = await readTable(new Uint8Array(responses), responsesName);
-  const codebook = readCodebook(await readTable(new Uint8Array(codebookBytes), codebookName));
-  const proposal = proposeSetup(table, codebook);
-  const setup = { columns: proposal.columns };
-  const screening = screenRespondents(buildWave(table, setup));
-  const wave = buildWave(table, setup, screening.proposedExclusions);
+  // The wave goes through the same reader as an upload (src/lib/ingest, by way of the upload
+  // route's readWaveFiles, with the reader's default limits), with the proposed column setup and
+  // the proposed screening exclusions accepted, as a designer would.
+  const read = await readWaveFiles(
+    { fileName: responsesName, bytes: new Uint8Array(responses), codebookName, codebookBytes: new Uint8Array(codebookBytes), sheet: null },
+    {},
+  );
+  const proposal = proposeSetup(read.table, read.codebook);
+  const setup = { columns: setupOf(proposal.columns) };
+  const screening = screenRespondents(buildWave(read.table, setup));
+  const wave = buildWave(read.table, setup, screening.proposedExclusions);
+  const nullable = (value: number): number | null => (Number.isFinite(value) ? value : null);
+  // The setup document as an upload followed by its confirmation stores it
+  // (src/lib/server/waves/upload-wave.ts and confirm-wave.ts; StoredWaveSetup in stored-wave.ts):
+  // the proposal without the example cells of ignored columns (the demo's e-mail addresses), how
+  // the file was read, its warnings, and the outcome columns, so audits can fit the outcome model.
+  const storedSetup: StoredWaveSetup = {
+    version: STORED_SETUP_VERSION,
+    columns: setup.columns,
+    proposal: withoutIgnoredExamples(proposal.columns),
+    respondents: proposal.respondents,
+    source: read.source,
+    warnings: [...read.warnings, ...proposal.warnings],
+    buildWarnings: wave.warnings,
+    screeningNote: null,
+    itemCounts: Object.fromEntries(wave.items.map((item): [string, ItemCounts] => [item.id, item.counts])),
+    outcomes: wave.outcomes.map(({ id, header, values, counts }) => ({ id, header, values: Array.from(values, nullable), counts })),
+    weight: wave.weight ? Array.from(wave.weight, nullable) : null,
+  };
   const passwordHash = await bcrypt.hash(demoPassword, 10);
 
   db.transaction((tx) => {
@@ -121,11 +144,10 @@ export async function seedDemo(db: Db, options: SeedOptions): Promise<SeedOutcom
       label: 'Pilot 1',
       fileHash: responsesFile.hash,
       codebookHash: codebookFile.hash,
-      format: table.source.format,
+      format: read.table.source.format,
+      sheet: read.table.source.sheet,
       status: 'confirmed',
-      // The outcome columns go into the setup document as the confirm route stores them
-      // (src/lib/server/waves/stored-wave.ts, StoredOutcome), so audits can fit the outcome model.
-      setup: { ...setup, outcomes: wave.outcomes.map(({ id, header, values, counts }) => ({ id, header, values: Array.from(values, (v) => (Number.isFinite(v) ? v : null)), counts })) },
+      setup: storedSetup,
       screening,
       exclusions: [...wave.excluded],
       rowCount: wave.respondents,

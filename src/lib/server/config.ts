@@ -5,7 +5,9 @@
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { dirname, resolve } from 'node:path';
 import { randomBytes } from 'node:crypto';
+import { availableParallelism } from 'node:os';
 import { z } from 'zod';
+import { DEFAULT_READ_LIMITS } from '../ingest/read-limits';
 
 /** How outgoing e-mail leaves the server. */
 export type MailTransportKind = 'outbox' | 'smtp';
@@ -31,7 +33,13 @@ export interface ServerConfig {
     readonly uploadBytes: number;
     readonly rows: number;
     readonly columns: number;
+    /** Heap the isolated workbook reader may use, in MB. */
+    readonly workbookMemoryMb: number;
+    /** Seconds the isolated workbook reader may take. */
+    readonly workbookSeconds: number;
   };
+  /** Audits that may run at once, each in its own worker thread (1 to 64). */
+  readonly auditWorkers: number;
   readonly signIn: {
     /** Failed attempts per e-mail address within the window before 429. */
     readonly maxFailuresPerEmail: number;
@@ -64,6 +72,9 @@ const environmentSchema = z.object({
   UPLOAD_MAX_BYTES: positiveInteger.default(50 * 1024 * 1024),
   UPLOAD_MAX_ROWS: positiveInteger.default(200_000),
   UPLOAD_MAX_COLUMNS: positiveInteger.default(2_000),
+  UPLOAD_MAX_WORKBOOK_MEMORY_MB: positiveInteger.default(DEFAULT_READ_LIMITS.maxWorkbookMemoryMb),
+  UPLOAD_MAX_WORKBOOK_SECONDS: positiveInteger.default(DEFAULT_READ_LIMITS.maxWorkbookSeconds),
+  AUDIT_WORKERS: z.coerce.number().int().min(1).max(64).optional(),
   SIGNIN_MAX_FAILURES_PER_EMAIL: positiveInteger.default(5),
   SIGNIN_MAX_FAILURES_PER_ADDRESS: positiveInteger.default(30),
   SIGNIN_WINDOW_MINUTES: positiveInteger.default(15),
@@ -135,7 +146,10 @@ export function parseConfig(environment: NodeJS.ProcessEnv = process.env): Serve
       uploadBytes: env.UPLOAD_MAX_BYTES,
       rows: env.UPLOAD_MAX_ROWS,
       columns: env.UPLOAD_MAX_COLUMNS,
+      workbookMemoryMb: env.UPLOAD_MAX_WORKBOOK_MEMORY_MB,
+      workbookSeconds: env.UPLOAD_MAX_WORKBOOK_SECONDS,
     },
+    auditWorkers: env.AUDIT_WORKERS ?? Math.max(1, Math.min(64, availableParallelism())),
     signIn: {
       maxFailuresPerEmail: env.SIGNIN_MAX_FAILURES_PER_EMAIL,
       maxFailuresPerAddress: env.SIGNIN_MAX_FAILURES_PER_ADDRESS,

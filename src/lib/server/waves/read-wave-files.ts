@@ -6,10 +6,9 @@
 import { existsSync, readFileSync } from 'node:fs';
 import { resolve, sep } from 'node:path';
 import { eq } from 'drizzle-orm';
-import { z } from 'zod';
 import { storedFiles } from '../../../db/schema';
 import { isWaveRefusal, readCodebook, readTable, WaveRefusal, type Codebook, type ReadLimits, type WaveTable, type WaveWarning } from '../../ingest';
-import { getConfig } from '../config';
+import { getConfig, type ServerConfig } from '../config';
 import { getDb } from '../db';
 import type { StoredSource } from './stored-wave';
 
@@ -33,41 +32,23 @@ export interface WaveFiles {
 }
 
 /**
- * Limits of the isolated workbook reader, from UPLOAD_MAX_WORKBOOK_MEMORY_MB and
- * UPLOAD_MAX_WORKBOOK_SECONDS (the reader's defaults when unset). Read here, validated once, until
- * they join the other upload limits in config.ts.
- */
-const workbookLimitsSchema = z.object({
-  UPLOAD_MAX_WORKBOOK_MEMORY_MB: z.coerce.number().int().positive().optional(),
-  UPLOAD_MAX_WORKBOOK_SECONDS: z.coerce.number().int().positive().optional(),
-});
-let workbookLimits: Partial<ReadLimits> | null = null;
-
-function readWorkbookLimits(): Partial<ReadLimits> {
-  if (workbookLimits) return workbookLimits;
-  const parsed = workbookLimitsSchema.safeParse({
-    UPLOAD_MAX_WORKBOOK_MEMORY_MB: process.env.UPLOAD_MAX_WORKBOOK_MEMORY_MB || undefined,
-    UPLOAD_MAX_WORKBOOK_SECONDS: process.env.UPLOAD_MAX_WORKBOOK_SECONDS || undefined,
-  });
-  if (!parsed.success) {
-    throw new Error(`serverReadLimits: invalid configuration (${parsed.error.issues.map((issue) => `${issue.path.join('.')}: ${issue.message}`).join('; ')})`);
-  }
-  workbookLimits = {
-    ...(parsed.data.UPLOAD_MAX_WORKBOOK_MEMORY_MB ? { maxWorkbookMemoryMb: parsed.data.UPLOAD_MAX_WORKBOOK_MEMORY_MB } : {}),
-    ...(parsed.data.UPLOAD_MAX_WORKBOOK_SECONDS ? { maxWorkbookSeconds: parsed.data.UPLOAD_MAX_WORKBOOK_SECONDS } : {}),
-  };
-  return workbookLimits;
-}
-
-/**
- * The read limits of this server: UPLOAD_MAX_BYTES, UPLOAD_MAX_ROWS, UPLOAD_MAX_COLUMNS (config.ts)
- * and the workbook reader's memory and time; the others keep the reader's defaults.
- * @throws Error when a workbook limit variable is not a positive whole number.
+ * The read limits of this server: UPLOAD_MAX_BYTES, UPLOAD_MAX_ROWS, UPLOAD_MAX_COLUMNS,
+ * UPLOAD_MAX_WORKBOOK_MEMORY_MB and UPLOAD_MAX_WORKBOOK_SECONDS (all validated in config.ts); the
+ * others keep the reader's defaults.
+ * @param config the server's configuration (this process's by default).
+ * @throws Error when the configuration is invalid (see parseConfig).
  * @returns partial limits for readTable.
+ * References: docs/decisions/005-storing-waves.md (the server's upload limits).
  */
-export function serverReadLimits(): Partial<ReadLimits> {
-  const { limits } = getConfig();
-  return { maxBytes: limits.uploadBytes, maxRows: limits.rows, maxColumns: limits.columns, ...readWorkbookLimits() };
+export function serverReadLimits(config: ServerConfig = getConfig()): Partial<ReadLimits> {
+  const { limits } = config;
+  return {
+    maxBytes: limits.uploadBytes,
+    maxRows: limits.rows,
+    maxColumns: limits.columns,
+    maxWorkbookMemoryMb: limits.workbookMemoryMb,
+    maxWorkbookSeconds: limits.workbookSeconds,
+  };
 }
 
 /**

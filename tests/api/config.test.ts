@@ -1,0 +1,59 @@
+/**
+ * The server's configuration (src/lib/server/config.ts): the workbook reader's limits and the
+ * size of the audit pool are validated there with the other variables, and reach the reader
+ * through serverReadLimits. Pure: no server, no files (AUTH_SECRET is given, so no secret file is
+ * written beside the database path).
+ */
+import { availableParallelism } from 'node:os';
+import { describe, expect, it } from 'vitest';
+import { DEFAULT_READ_LIMITS } from '../../src/lib/ingest/read-limits';
+import { parseConfig } from '../../src/lib/server/config';
+import { serverReadLimits } from '../../src/lib/server/waves/read-wave-files';
+
+const base = Object.freeze({ AUTH_SECRET: 'x'.repeat(40), DATABASE_PATH: '/nonexistent/paredown-config-test.sqlite' });
+
+describe('parseConfig: workbook limits and audit workers', () => {
+  it('defaults the workbook limits to the reader\'s own and the pool to the machine\'s cores', () => {
+    const config = parseConfig({ ...base });
+    expect(config.limits.workbookMemoryMb).toBe(DEFAULT_READ_LIMITS.maxWorkbookMemoryMb); // src/lib/ingest/read-limits.ts: 1,024 MB
+    expect(config.limits.workbookSeconds).toBe(DEFAULT_READ_LIMITS.maxWorkbookSeconds); // src/lib/ingest/read-limits.ts: 60 s
+    expect(config.limits.workbookMemoryMb).toBe(1024); // README configuration table
+    expect(config.limits.workbookSeconds).toBe(60); // README configuration table
+    expect(config.auditWorkers).toBe(Math.min(64, availableParallelism())); // docs/decisions/004: default os.availableParallelism()
+  });
+
+  it('reads the variables when set, and treats empty ones as unset', () => {
+    const config = parseConfig({ ...base, UPLOAD_MAX_WORKBOOK_MEMORY_MB: '256', UPLOAD_MAX_WORKBOOK_SECONDS: '15', AUDIT_WORKERS: '3' });
+    expect([config.limits.workbookMemoryMb, config.limits.workbookSeconds, config.auditWorkers]).toEqual([256, 15, 3]);
+    const empty = parseConfig({ ...base, UPLOAD_MAX_WORKBOOK_MEMORY_MB: '', UPLOAD_MAX_WORKBOOK_SECONDS: ' ', AUDIT_WORKERS: '' });
+    expect([empty.limits.workbookMemoryMb, empty.limits.workbookSeconds]).toEqual([1024, 60]); // the defaults above
+    expect(parseConfig({ ...base, AUDIT_WORKERS: '1' }).auditWorkers).toBe(1);
+    expect(parseConfig({ ...base, AUDIT_WORKERS: '64' }).auditWorkers).toBe(64);
+  });
+
+  it.each([
+    ['UPLOAD_MAX_WORKBOOK_MEMORY_MB', '0'],
+    ['UPLOAD_MAX_WORKBOOK_MEMORY_MB', 'lots'],
+    ['UPLOAD_MAX_WORKBOOK_SECONDS', '-5'],
+    ['UPLOAD_MAX_WORKBOOK_SECONDS', '1.5'],
+    ['AUDIT_WORKERS', '0'],
+    ['AUDIT_WORKERS', '65'],
+    ['AUDIT_WORKERS', 'two'],
+  ])('refuses %s=%s, naming the variable', (name, value) => {
+    expect(() => parseConfig({ ...base, [name]: value })).toThrow(new RegExp(`^parseConfig: invalid configuration \\(.*${name}`));
+  });
+});
+
+describe('serverReadLimits', () => {
+  it('passes every configured upload limit to the reader', () => {
+    const config = parseConfig({
+      ...base,
+      UPLOAD_MAX_BYTES: '1000',
+      UPLOAD_MAX_ROWS: '20',
+      UPLOAD_MAX_COLUMNS: '30',
+      UPLOAD_MAX_WORKBOOK_MEMORY_MB: '128',
+      UPLOAD_MAX_WORKBOOK_SECONDS: '7',
+    });
+    expect(serverReadLimits(config)).toEqual({ maxBytes: 1000, maxRows: 20, maxColumns: 30, maxWorkbookMemoryMb: 128, maxWorkbookSeconds: 7 });
+  });
+});
