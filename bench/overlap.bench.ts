@@ -10,10 +10,9 @@
  * machine-readable: {"bench":"overlap-100000x300","seconds":...,"peakMB":...}.
  * Figures only: nothing here asserts on time.
  */
-import { spawnSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
-import { availableParallelism, loadavg, tmpdir } from 'node:os';
+import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { loadAverageAndCores, withRScript } from './bench-helpers';
 import { belsleyCollinearity } from '../src/lib/stats/belsley-collinearity';
 import { conditionNumber } from '../src/lib/stats/condition-number';
 import { centeredCrossProducts, pearsonFromCrossProducts } from '../src/lib/stats/cross-products';
@@ -80,7 +79,7 @@ async function time<T>(label: string, work: () => T | Promise<T>, stages: Record
 
 console.log(`overlap: ${ROWS.toLocaleString('en')} respondents × ${ITEMS} items, ${FACTORS} factors, seed ${SEED}`);
 // Other work on the machine slows every figure; the load average says how busy it was.
-console.log(`  load average at start: ${loadavg().map((value) => value.toFixed(2)).join(' ')} on ${availableParallelism()} cores`);
+console.log(`  load average at start: ${loadAverageAndCores()}`);
 const generationStart = performance.now();
 const matrix = generate();
 console.log(`  generated in ${((performance.now() - generationStart) / 1000).toFixed(1)} s (not timed below); resident ${(process.memoryUsage().rss / 2 ** 20).toFixed(0)} MB`);
@@ -142,20 +141,10 @@ console.log(JSON.stringify({
 
 /** Times R on the same values; null when Rscript is not available. */
 function timeR(data: ItemMatrix): { total: number; withoutSvd: number } | null {
-  if (process.argv.includes('--no-r')) {
-    console.log('  R: skipped (--no-r)');
-    return null;
-  }
-  const probe = spawnSync('Rscript', ['--version'], { encoding: 'utf8' });
-  if (probe.error !== undefined || probe.status !== 0) {
-    console.log('  R: Rscript not on PATH, skipped');
-    return null;
-  }
-  const directory = mkdtempSync(join(tmpdir(), 'paredown-overlap-'));
-  try {
+  return withRScript('paredown-overlap-', (directory) => {
     const file = join(directory, 'matrix.bin');
     writeFileSync(file, new Uint8Array(data.data.buffer, data.data.byteOffset, data.data.byteLength));
-    const script = `
+    return `
       con <- file(${JSON.stringify(file)}, "rb"); x <- readBin(con, "double", n = ${data.rows * data.columns}, endian = "little"); close(con)
       X <- matrix(x, ${data.rows}, ${data.columns}); rm(x); invisible(gc())
       t0 <- proc.time()[["elapsed"]]
@@ -166,17 +155,11 @@ function timeR(data: ItemMatrix): { total: number; withoutSvd: number } | null {
       t4 <- proc.time()[["elapsed"]]
       cat(sprintf("%.3f %.3f %.3f %.3f %.6f %.6f %.6f\\n", t1 - t0, t2 - t1, t3 - t2, t4 - t3, max(vif), sqrt(max(ev$values) / min(ev$values)), max(ci)))
     `;
-    const run = spawnSync('Rscript', ['-e', script], { encoding: 'utf8', maxBuffer: 1 << 20 });
-    if (run.status !== 0) {
-      console.log(`  R: failed (${run.stderr.trim().split('\n').at(-1)})`);
-      return null;
-    }
-    const [cor, solve, eigenTime, svd, rMaxVif, rCondition, rIndex] = run.stdout.trim().split(/\s+/).map(Number);
+  }, (stdout) => {
+    const [cor, solve, eigenTime, svd, rMaxVif, rCondition, rIndex] = stdout.trim().split(/\s+/).map(Number);
     const rTotal = cor + solve + eigenTime + svd;
     console.log(`  R: cor() ${cor.toFixed(3)} s, diag(solve()) ${solve.toFixed(3)} s, eigen() ${eigenTime.toFixed(3)} s, svd(scaled [1, X]) ${svd.toFixed(3)} s: total ${rTotal.toFixed(3)} s`);
     console.log(`  R check: max VIF ${rMaxVif.toFixed(4)}, condition number ${rCondition.toFixed(4)}, largest condition index ${rIndex.toFixed(4)}`);
     return { total: rTotal, withoutSvd: cor + solve + eigenTime };
-  } finally {
-    rmSync(directory, { recursive: true, force: true });
-  }
+  });
 }

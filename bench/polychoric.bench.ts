@@ -13,10 +13,9 @@
  * {"bench":"polychoric-1000x40","seconds":...,"rSeconds":...}.
  * Figures only: nothing here asserts on time.
  */
-import { spawnSync } from 'node:child_process';
-import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
-import { availableParallelism, loadavg, tmpdir } from 'node:os';
+import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
+import { loadAverageAndCores, withRScript } from './bench-helpers';
 import { correlationMatrix, type CorrelationMatrixResult } from '../src/lib/stats/correlation-matrix';
 import { correlationMatrixParallel } from '../src/lib/stats/parallel/correlation-matrix-parallel';
 import { createSeededRandom } from '../src/lib/stats/seeded-random';
@@ -72,17 +71,7 @@ async function seconds(work: () => unknown): Promise<number> {
 
 /** psych::polychoric on the same values; null when Rscript is missing or --no-r is given. */
 function timeR(matrix: ItemMatrix, ours: SquareMatrix): { seconds: number; largestDifference: number } | null {
-  if (process.argv.includes('--no-r')) {
-    console.log('  R: skipped (--no-r)');
-    return null;
-  }
-  const probe = spawnSync('Rscript', ['--version'], { encoding: 'utf8' });
-  if (probe.error !== undefined || probe.status !== 0) {
-    console.log('  R: Rscript not on PATH, skipped');
-    return null;
-  }
-  const directory = mkdtempSync(join(tmpdir(), 'paredown-polychoric-'));
-  try {
+  return withRScript('paredown-polychoric-', (directory) => {
     const dataFile = join(directory, 'items.csv');
     const oursFile = join(directory, 'ours.csv');
     const lines: string[] = [];
@@ -95,27 +84,21 @@ function timeR(matrix: ItemMatrix, ours: SquareMatrix): { seconds: number; large
     const oursLines: string[] = [];
     for (let i = 0; i < ours.order; i++) oursLines.push(Array.from(ours.data.subarray(i * ours.order, (i + 1) * ours.order), (v) => v.toPrecision(17)).join(','));
     writeFileSync(oursFile, oursLines.join('\n') + '\n');
-    const script = `
+    return `
       suppressPackageStartupMessages(library(psych))
       x <- as.matrix(read.csv(${JSON.stringify(dataFile)}, header = FALSE))
       ours <- as.matrix(read.csv(${JSON.stringify(oursFile)}, header = FALSE))
       elapsed <- system.time(p <- polychoric(x, smooth = FALSE, global = TRUE, correct = 0))[["elapsed"]]
       cat(sprintf("%.3f %.6g\\n", elapsed, max(abs(unname(p$rho) - ours))))
     `;
-    const run = spawnSync('Rscript', ['-e', script], { encoding: 'utf8', maxBuffer: 1 << 20 });
-    if (run.status !== 0) {
-      console.log(`  R: failed (${run.stderr.trim().split('\n').at(-1)})`);
-      return null;
-    }
-    const [rSeconds, largestDifference] = run.stdout.trim().split(/\s+/).map(Number);
+  }, (stdout) => {
+    const [rSeconds, largestDifference] = stdout.trim().split(/\s+/).map(Number);
     return { seconds: rSeconds, largestDifference };
-  } finally {
-    rmSync(directory, { recursive: true, force: true });
-  }
+  });
 }
 
 console.log(`polychoric: two-step, pairwise, seed ${SEED}`);
-console.log(`  load average at start: ${loadavg().map((value) => value.toFixed(2)).join(' ')} on ${availableParallelism()} cores (other work on the machine slows every figure)`);
+console.log(`  load average at start: ${loadAverageAndCores()} (other work on the machine slows every figure)`);
 const summary: Record<string, unknown>[] = [];
 for (const [index, size] of SIZES.entries()) {
   const matrix = generate(size, SEED + index);

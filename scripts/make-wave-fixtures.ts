@@ -11,33 +11,12 @@ import { mkdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { crc32, deflateRawSync } from 'node:zlib';
 import * as XLSX from 'xlsx-republish';
+import { waveCorpusDirectory, waveCorpusSchema, type CorpusEntry as Entry, type WaveCorpus } from '../tests/setup/wave-corpus';
 
-const directory = join(import.meta.dirname, '..', 'fixtures', 'waves');
+const directory = waveCorpusDirectory;
 mkdirSync(directory, { recursive: true });
 
 type Cell = string | number | null;
-interface Refused { refused: { status: 400 | 413 | 422; code: string; step: 'read' | 'codebook' | 'propose' | 'build' } }
-interface Wave {
-  wave: {
-    rows: number;
-    items: number;
-    warnings: string[];
-    itemIds?: string[];
-    headers?: string[];
-    roles?: Record<string, string>;
-    /** Values after building: items from the recoded matrix, outcome/weight/duration columns from theirs; null is missing. */
-    cells?: { column: string; row: number; value: number | null }[];
-    source?: { format?: string; encoding?: string | null; delimiter?: string | null; decimalSeparator?: string; sheet?: string | null };
-  };
-}
-interface Entry {
-  file: string;
-  about: string;
-  codebook?: string;
-  sheet?: string;
-  limits?: Record<string, number>;
-  expect: Refused | Wave;
-}
 const entries: Entry[] = [];
 
 function save(file: string, bytes: Uint8Array | string): void {
@@ -419,8 +398,8 @@ save('codebook-value-labels.codebook.csv', csv([['item', 'min', 'max', 'missing'
   }, workbook({ Sheet1: data }, 'biff8'));
 }
 
-const expected = {
-  schema: 'paredown.wave-corpus/1',
+const expected: WaveCorpus = {
+  schema: waveCorpusSchema,
   generatedBy: 'npx tsx scripts/make-wave-fixtures.ts',
   howToRun: [
     'For each entry, read fixtures/waves/<file> with readTable(bytes, file, limits ?? {}, { sheet }).',

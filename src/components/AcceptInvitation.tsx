@@ -1,42 +1,27 @@
-import { useState, type FormEvent } from 'react';
 import { callApi, signIn } from './api-client';
+import { useFormSubmit } from './use-form-submit';
 
 /**
  * Accepts an invitation: either joins as the signed-in user, or creates the account (name and
  * password) and signs in.
  */
 export default function AcceptInvitation({ token, email, mode, teamName }: { token: string; email: string; mode: 'join' | 'create'; teamName: string }) {
-  const [busy, setBusy] = useState(false);
-  const [error, setError] = useState('');
-
-  async function submit(event: FormEvent<HTMLFormElement>) {
-    event.preventDefault();
-    const form = new FormData(event.currentTarget);
-    setBusy(true);
-    setError('');
+  const { busy, error, onSubmit } = useFormSubmit(async (form) => {
     const password = String(form.get('password') ?? '');
-    if (mode === 'create' && password !== String(form.get('repeat') ?? '')) {
-      setBusy(false);
-      setError('The two passwords differ.');
-      return;
-    }
+    if (mode === 'create' && password !== String(form.get('repeat') ?? '')) return 'The two passwords differ.';
     const body = mode === 'create' ? { name: String(form.get('name') ?? ''), password } : {};
     const result = await callApi('POST', `/api/invitations/${encodeURIComponent(token)}/accept`, body);
-    if (!result.ok) {
-      setBusy(false);
-      setError(result.message);
-      return;
-    }
+    if (!result.ok) return result.message;
     if (mode === 'create') {
       const signedIn = await signIn(email, password, '/');
       location.assign(signedIn.ok ? '/' : '/signin');
     } else {
       location.assign('/');
     }
-  }
+  });
 
   return (
-    <form onSubmit={submit} className="space-y-3">
+    <form onSubmit={onSubmit} className="space-y-3">
       {mode === 'create' && (
         <>
           <input type="hidden" name="username" autoComplete="username" value={email} />

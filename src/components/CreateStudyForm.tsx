@@ -1,29 +1,19 @@
-import { useState, type FormEvent } from 'react';
+import { useState } from 'react';
 import { callApi } from './api-client';
+import { useFormSubmit } from './use-form-submit';
 
 /** Creates a study in one team, then opens it. */
 export default function CreateStudyForm({ teamId }: { teamId: string }) {
   const [open, setOpen] = useState(false);
-  const [busy, setBusy] = useState(false);
-  const [error, setError] = useState('');
-
-  async function submit(event: FormEvent<HTMLFormElement>) {
-    event.preventDefault();
-    const form = new FormData(event.currentTarget);
-    setBusy(true);
-    setError('');
+  const { busy, error, onSubmit } = useFormSubmit(async (form) => {
     const result = await callApi<{ study: { id: string } }>('POST', '/api/studies', {
       teamId,
       name: String(form.get('name') ?? ''),
       description: String(form.get('description') ?? ''),
     });
-    if (result.ok) {
-      location.assign(`/studies/${result.data.study.id}`);
-      return;
-    }
-    setError(result.message);
-    setBusy(false);
-  }
+    if (!result.ok) return result.message;
+    location.assign(`/studies/${result.data.study.id}`);
+  });
 
   if (!open) {
     return (
@@ -33,7 +23,7 @@ export default function CreateStudyForm({ teamId }: { teamId: string }) {
     );
   }
   return (
-    <form onSubmit={submit} className="panel mt-3 grid gap-3 p-4 sm:grid-cols-[1fr_2fr_auto] sm:items-end">
+    <form onSubmit={onSubmit} className="panel mt-3 grid gap-3 p-4 sm:grid-cols-[1fr_2fr_auto] sm:items-end">
       <div>
         <label className="label" htmlFor={`study-name-${teamId}`}>Study name</label>
         <input className="field" id={`study-name-${teamId}`} name="name" required maxLength={200} autoFocus placeholder="e.g. Staff survey 2027" />

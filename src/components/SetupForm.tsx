@@ -1,34 +1,20 @@
-import { useState, type FormEvent } from 'react';
 import { callApi, signIn } from './api-client';
+import { useFormSubmit } from './use-form-submit';
 
 /** First run: creates the first owner and their team, then signs in. */
 export default function SetupForm() {
-  const [busy, setBusy] = useState(false);
-  const [error, setError] = useState('');
-
-  async function submit(event: FormEvent<HTMLFormElement>) {
-    event.preventDefault();
-    const form = new FormData(event.currentTarget);
+  const { busy, error, onSubmit } = useFormSubmit(async (form) => {
     const email = String(form.get('email') ?? '').trim();
     const password = String(form.get('password') ?? '');
-    if (password !== String(form.get('repeat') ?? '')) {
-      setError('The two passwords differ.');
-      return;
-    }
-    setBusy(true);
-    setError('');
+    if (password !== String(form.get('repeat') ?? '')) return 'The two passwords differ.';
     const result = await callApi('POST', '/api/setup', { teamName: String(form.get('teamName') ?? ''), name: String(form.get('name') ?? ''), email, password });
-    if (!result.ok) {
-      setBusy(false);
-      setError(result.message);
-      return;
-    }
+    if (!result.ok) return result.message;
     const signedIn = await signIn(email, password, '/');
     location.assign(signedIn.ok ? '/' : '/signin');
-  }
+  });
 
   return (
-    <form onSubmit={submit} className="space-y-3">
+    <form onSubmit={onSubmit} className="space-y-3">
       <div>
         <label className="label" htmlFor="team-name">Team name</label>
         <input className="field" id="team-name" name="teamName" required maxLength={200} autoFocus placeholder="e.g. Survey Methods Unit" />

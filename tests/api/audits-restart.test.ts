@@ -8,7 +8,7 @@ import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoIds } from '../../src/db/seed';
 import { body, Client, demoEmails, demoPassword, signInSucceeded } from '../setup/http';
-import { seededDatabase, startServerOn, type RunningServer, type TestDatabase } from './audits-server';
+import { createTestDatabase, startServerOn, type RunningServer, type TestDatabase } from '../setup/app-server';
 
 let database: TestDatabase;
 const servers: RunningServer[] = [];
@@ -27,7 +27,7 @@ async function statusOf(client: Client, id: string) {
 }
 
 beforeAll(async () => {
-  database = await seededDatabase();
+  database = await createTestDatabase({ seed: true });
 });
 
 afterAll(async () => {
@@ -37,7 +37,7 @@ afterAll(async () => {
 
 describe('an audit interrupted by a restart', () => {
   it('is marked failed by the next server and can be retried', async () => {
-    const first = await startServerOn(database, 'audits-restart-server.log', { AUDIT_WORKERS: '1' });
+    const first = await startServerOn(database, { logName: 'audits-restart-server.log', appendLog: true, environment: { AUDIT_WORKERS: '1' } });
     servers.push(first);
     const designer = await designerOn(first);
     // Polychoric with 5,000 resamples runs for minutes; it is still running when the server dies.
@@ -63,7 +63,7 @@ describe('an audit interrupted by a restart', () => {
     left.close();
     expect(Object.fromEntries(statuses.map((row) => [row.id, row.status]))).toEqual({ [runningId]: 'running', [queuedId]: 'queued' });
 
-    const second = await startServerOn(database, 'audits-restart-server.log', { AUDIT_WORKERS: '1' });
+    const second = await startServerOn(database, { logName: 'audits-restart-server.log', appendLog: true, environment: { AUDIT_WORKERS: '1' } });
     servers.push(second);
     const again = await designerOn(second);
     for (const id of [runningId, queuedId]) {

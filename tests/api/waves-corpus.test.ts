@@ -18,30 +18,10 @@ import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { contentHash } from '../../src/lib/ingest';
 import { startTestServer, type TestServer } from '../setup/app-server';
 import { body, Client, demo, demoEmails, signedIn } from '../setup/http';
+import { readWaveCorpus, type CorpusEntry } from '../setup/wave-corpus';
 import { createStudy, fixture, postWave, readOnlyDatabase, storedMatrix, uploadDirOf, waveRecord, wavesDirectory } from './waves-http';
 
-interface CorpusEntry {
-  file: string;
-  about: string;
-  codebook?: string;
-  sheet?: string;
-  limits?: Record<string, number>;
-  expect: {
-    refused?: { status: number; code: string; step: string };
-    wave?: {
-      rows: number;
-      items: number;
-      warnings: string[];
-      itemIds?: string[];
-      headers?: string[];
-      roles?: Record<string, string>;
-      cells?: { column: string; row: number; value: number | null }[];
-      source?: Record<string, string | null>;
-    };
-  };
-}
-
-const corpus = JSON.parse(readFileSync(join(wavesDirectory, 'expected.json'), 'utf8')) as { entries: CorpusEntry[] };
+const corpus = readWaveCorpus();
 
 /** The server's configuration variable for each reader limit a corpus entry may set. */
 const limitVariables: Record<string, string> = {

@@ -4,65 +4,18 @@
  * the proposed cuts. Screenshots go to test-results/screenshots/audit-*.png. Any console error,
  * page error or Content-Security-Policy violation fails.
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { chromium, type BrowserContext, type Page } from 'playwright-core';
-import { execSync } from 'node:child_process';
-import { existsSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { describe, expect, it } from 'vitest';
 import { join } from 'node:path';
-import { baseUrl, demo, demoEmails, demoPassword } from '../setup/http';
+import { baseUrl, demo, demoEmails } from '../setup/http';
+import { freshContext, hydrated, screenshot, screenshots, signInThroughPage } from '../setup/browser';
 
-const screenshots = join('test-results', 'screenshots');
-const profiles: string[] = [];
-
-function chromiumPath(): string {
-  if (process.env.CHROMIUM_PATH) return process.env.CHROMIUM_PATH;
-  if (existsSync('/usr/bin/chromium')) return '/usr/bin/chromium';
-  const found = execSync('command -v chromium || command -v chromium-browser || true', { shell: '/bin/sh', encoding: 'utf8' }).trim();
-  if (!found) throw new Error('Chromium is not installed: the browser tests need /usr/bin/chromium (npm test installs it with apt-get as root).');
-  return found;
-}
-
-const flags = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
-
-async function freshContext(): Promise<{ context: BrowserContext; page: Page; problems: string[] }> {
-  const profile = mkdtempSync(join(tmpdir(), 'paredown-chromium-'));
-  profiles.push(profile);
-  const context = await chromium.launchPersistentContext(profile, { executablePath: chromiumPath(), headless: true, args: flags, viewport: { width: 1280, height: 900 } });
-  const page = context.pages()[0] ?? (await context.newPage());
-  const problems: string[] = [];
-  page.on('console', (message) => {
-    if (message.type() === 'error' || /Content Security Policy/i.test(message.text())) problems.push(message.text());
-  });
-  page.on('pageerror', (error) => problems.push(error.message));
-  return { context, page, problems };
-}
-
-async function hydrated(page: Page) {
-  await page.waitForFunction(() => document.querySelectorAll('astro-island').length > 0 && !document.querySelector('astro-island[ssr]'), null, { timeout: 15_000 });
-}
-
-async function signIn(page: Page, email: string) {
-  await page.goto(`${baseUrl()}/signin`);
-  await hydrated(page);
-  await page.fill('#email', email);
-  await page.fill('#password', demoPassword);
-  await Promise.all([page.waitForURL(`${baseUrl()}/`, { timeout: 15_000 }), page.click('button[type=submit]')]);
-}
-
-beforeAll(() => {
-  mkdirSync(screenshots, { recursive: true });
-});
-
-afterAll(() => {
-  for (const profile of profiles) rmSync(profile, { recursive: true, force: true });
-});
+const viewport = { width: 1280, height: 900 };
 
 describe('audits in Chromium', () => {
   it('the designer starts an audit on the study page, watches it run and opens its page', async () => {
-    const { context, page, problems } = await freshContext();
+    const { context, page, problems } = await freshContext(viewport);
     try {
-      await signIn(page, demoEmails.designer);
+      await signInThroughPage(page, demoEmails.designer);
       await page.goto(`${baseUrl()}/studies/${demo.study}`);
       await hydrated(page);
       const form = page.locator('[data-testid=audit-form]');
@@ -82,13 +35,13 @@ describe('audits in Chromium', () => {
       await progress.waitFor({ state: 'visible', timeout: 10_000 });
       await page.waitForFunction(() => Number(document.querySelector('[data-testid=audit-form] progress')?.getAttribute('value') ?? 0) > 0, null, { timeout: 30_000 });
       await page.locator('#run-audit-heading').scrollIntoViewIfNeeded();
-      await page.screenshot({ path: join(screenshots, 'audit-study-running.png'), fullPage: true });
+      await screenshot(page, 'audit-study-running');
       // The new audit joined the list of the study's audits too.
       expect(await page.locator('[data-testid=audit-list] [data-testid=audit-row]').count()).toBeGreaterThan(0);
 
       const open = form.locator('[data-testid=open-audit]');
       await open.waitFor({ state: 'visible', timeout: 90_000 });
-      await page.screenshot({ path: join(screenshots, 'audit-study-done.png'), fullPage: true });
+      await screenshot(page, 'audit-study-done');
       await Promise.all([page.waitForURL(/\/audits\//, { timeout: 15_000 }), open.click()]);
 
       await expect(page.locator('[data-testid=audit-title]').textContent()).resolves.toContain('Audit of Pilot 1');
@@ -102,7 +55,7 @@ describe('audits in Chromium', () => {
       await expect(page.locator('main').textContent()).resolves.toContain('1 locked item');
       expect(await page.locator('[data-testid=after-cut-scales] tbody tr').count()).toBeGreaterThan(0);
       await expect(page.locator('[data-testid=download-json]').getAttribute('href')).resolves.toMatch(/\/api\/audits\/.+\?download=1$/);
-      await page.screenshot({ path: join(screenshots, 'audit-page.png'), fullPage: true });
+      await screenshot(page, 'audit-page');
       // Close-ups at full resolution, to read the figures and one proposal with a blocked cut.
       await page.locator('#figures').screenshot({ path: join(screenshots, 'audit-page-figures.png') });
       await page.locator('[data-testid=recommendation]:has-text("dig_1")').screenshot({ path: join(screenshots, 'audit-page-recommendation.png') });
@@ -114,15 +67,15 @@ describe('audits in Chromium', () => {
   });
 
   it('the client reviewer sees the audits and the audit page, but no form to start one', async () => {
-    const { context, page, problems } = await freshContext();
+    const { context, page, problems } = await freshContext(viewport);
     try {
-      await signIn(page, demoEmails.reviewer);
+      await signInThroughPage(page, demoEmails.reviewer);
       await page.goto(`${baseUrl()}/studies/${demo.study}`);
       await hydrated(page);
       expect(await page.locator('[data-testid=audit-form]').count()).toBe(0);
       const open = page.locator('[data-testid=audit-list] [data-testid=open-audit]').first();
       await open.waitFor({ state: 'visible', timeout: 30_000 });
-      await page.screenshot({ path: join(screenshots, 'audit-study-reviewer.png'), fullPage: true });
+      await screenshot(page, 'audit-study-reviewer');
       await Promise.all([page.waitForURL(/\/audits\//, { timeout: 15_000 }), open.click()]);
       expect(await page.locator('[data-testid=recommendation]').count()).toBeGreaterThan(0);
       expect(problems).toEqual([]);

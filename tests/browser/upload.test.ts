@@ -10,54 +10,17 @@
  * 8 speeders, `comments` and `email` as personal data).
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { chromium, type BrowserContext, type Page } from 'playwright-core';
-import { execSync } from 'node:child_process';
-import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { type Page } from 'playwright-core';
+import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { baseUrl, body, demo, demoEmails, demoPassword, signedIn, type Client } from '../setup/http';
+import { baseUrl, body, demo, demoEmails, signedIn, type Client } from '../setup/http';
+import { freshContext, hydrated, screenshot, signInThroughPage } from '../setup/browser';
 
-const screenshots = join('test-results', 'screenshots');
 const demoFiles = join(import.meta.dirname, '..', '..', 'fixtures', 'demo');
 const corpusFiles = join(import.meta.dirname, '..', '..', 'fixtures', 'waves');
 
-function chromiumPath(): string {
-  if (process.env.CHROMIUM_PATH) return process.env.CHROMIUM_PATH;
-  if (existsSync('/usr/bin/chromium')) return '/usr/bin/chromium';
-  const found = execSync('command -v chromium || command -v chromium-browser || true', { shell: '/bin/sh', encoding: 'utf8' }).trim();
-  if (!found) throw new Error('Chromium is not installed: the browser tests need /usr/bin/chromium (npm test installs it with apt-get as root).');
-  return found;
-}
-
-const flags = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'];
-const profiles: string[] = [];
 const studies: string[] = [];
 let owner: Client;
-
-async function freshContext(): Promise<{ context: BrowserContext; page: Page; problems: string[] }> {
-  const profile = mkdtempSync(join(tmpdir(), 'paredown-chromium-'));
-  profiles.push(profile);
-  const context = await chromium.launchPersistentContext(profile, { executablePath: chromiumPath(), headless: true, args: flags, viewport: { width: 1280, height: 800 } });
-  const page = context.pages()[0] ?? (await context.newPage());
-  const problems: string[] = [];
-  page.on('console', (message) => {
-    if (message.type() === 'error' || /Content Security Policy/i.test(message.text())) problems.push(message.text());
-  });
-  page.on('pageerror', (error) => problems.push(error.message));
-  return { context, page, problems };
-}
-
-async function hydrated(page: Page) {
-  await page.waitForFunction(() => document.querySelectorAll('astro-island').length > 0 && !document.querySelector('astro-island[ssr]'), null, { timeout: 15_000 });
-}
-
-async function signInThroughPage(page: Page, email: string) {
-  await page.goto(`${baseUrl()}/signin`);
-  await hydrated(page);
-  await page.fill('#email', email);
-  await page.fill('#password', demoPassword);
-  await Promise.all([page.waitForURL(`${baseUrl()}/`, { timeout: 15_000 }), page.click('button[type=submit]')]);
-}
 
 /** Drops a file on an element the way a desktop drag and drop does (a DataTransfer holding a File). */
 async function dropFile(page: Page, selector: string, path: string, name: string, type: string) {
@@ -76,15 +39,13 @@ async function dropFile(page: Page, selector: string, path: string, name: string
   await page.dispatchEvent(selector, 'drop', { dataTransfer: transfer });
 }
 
-const shot = (page: Page, name: string) => page.screenshot({ path: join(screenshots, `upload-${name}.png`), fullPage: true });
+const shot = (page: Page, name: string) => screenshot(page, `upload-${name}`);
 
 beforeAll(async () => {
-  mkdirSync(screenshots, { recursive: true });
   owner = await signedIn(demoEmails.owner);
 });
 
 afterAll(async () => {
-  for (const profile of profiles) rmSync(profile, { recursive: true, force: true });
   for (const id of studies) await owner.delete(`/api/studies/${id}`);
 });
 

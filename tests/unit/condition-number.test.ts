@@ -1,14 +1,14 @@
 import { describe, expect, it } from 'vitest';
 import { conditionNumber } from '../../src/lib/stats/condition-number';
-import { centeredCrossProducts, pearsonFromCrossProducts } from '../../src/lib/stats/cross-products';
 import { symmetricEigenvalues } from '../../src/lib/stats/symmetric-eigen';
 import { squareMatrixFromRows } from '../../src/lib/stats/types';
 import {
   allFinite,
-  completeCases,
+  completeItemMatrix,
   dataset,
-  itemMatrixOf,
+  indefiniteCorrelation,
   overlapFixture,
+  pearsonOf,
   permuteSquare,
   referenceCorrelation,
   relativeError,
@@ -34,8 +34,8 @@ describe('conditionNumber', () => {
 
   it('does not change when items are reordered or an item is reverse-keyed', () => {
     const entry = dataset('attitude');
-    const matrix = completeCases(itemMatrixOf(entry));
-    const reversed = pearsonFromCrossProducts(centeredCrossProducts(reverseItem(matrix, 2, 40, 90)));
+    const matrix = completeItemMatrix(entry);
+    const reversed = pearsonOf(reverseItem(matrix, 2, 40, 90));
     // R 4.2.2: sqrt(max/min eigen(cor(attitude[, -1]))$values)
     expect(relativeError(conditionNumber(reversed).value!, entry.conditionNumber.value)).toBeLessThan(1e-10);
     const permuted = permuteSquare(referenceCorrelation(entry), [5, 0, 3, 1, 4, 2]);
@@ -57,7 +57,7 @@ describe('conditionNumber', () => {
   });
 
   it('reports an indefinite matrix as null with an indefinite-matrix notice', () => {
-    const result = conditionNumber(squareMatrixFromRows([[1, 0.9, 0.9], [0.9, 1, -0.5], [0.9, -0.5, 1]]));
+    const result = conditionNumber(indefiniteCorrelation());
     expect(result.value).toBeNull();
     expect(result.smallestEigenvalue).toBeLessThan(0);
     expect(result.notices[0].code).toBe('indefinite-matrix');

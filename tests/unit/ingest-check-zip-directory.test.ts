@@ -1,7 +1,8 @@
 import { crc32, deflateRawSync } from 'node:zlib';
 import { describe, expect, it } from 'vitest';
 import * as XLSX from 'xlsx-republish';
-import { checkZipDirectory, resolveReadLimits, WaveRefusal } from '../../src/lib/ingest';
+import { checkZipDirectory, resolveReadLimits } from '../../src/lib/ingest';
+import { refusal } from './ingest-test-helpers';
 
 const limits = resolveReadLimits();
 
@@ -71,16 +72,6 @@ const workbookParts = (sheet: Part): Part[] => [
   { name: 'xl/workbook.xml', content: Buffer.from('<workbook/>') },
   sheet,
 ];
-
-async function refusal(promise: Promise<unknown>): Promise<WaveRefusal> {
-  try {
-    await promise;
-  } catch (error) {
-    if (error instanceof WaveRefusal) return error;
-    throw error;
-  }
-  throw new Error('expected a refusal');
-}
 
 describe('checkZipDirectory', () => {
   it('recognises XLSX and ODS workbooks written by SheetJS', async () => {

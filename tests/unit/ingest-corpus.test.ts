@@ -10,31 +10,9 @@ import { describe, expect, it } from 'vitest';
 import {
   buildWave, isWaveRefusal, proposeSetup, readCodebook, readTable, WaveRefusal, type BuiltWave, type Codebook, type ProposedSetup, type WaveTable,
 } from '../../src/lib/ingest';
+import { readWaveCorpus, waveCorpusDirectory as directory, waveCorpusSchema, type CorpusEntry } from '../setup/wave-corpus';
 
-const directory = join(import.meta.dirname, '..', '..', 'fixtures', 'waves');
-
-interface CorpusEntry {
-  file: string;
-  about: string;
-  codebook?: string;
-  sheet?: string;
-  limits?: Record<string, number>;
-  expect: {
-    refused?: { status: number; code: string; step: string };
-    wave?: {
-      rows: number;
-      items: number;
-      warnings: string[];
-      itemIds?: string[];
-      headers?: string[];
-      roles?: Record<string, string>;
-      cells?: { column: string; row: number; value: number | null }[];
-      source?: Record<string, string | null>;
-    };
-  };
-}
-
-const corpus = JSON.parse(readFileSync(join(directory, 'expected.json'), 'utf8')) as { schema: string; entries: CorpusEntry[] };
+const corpus = readWaveCorpus();
 
 interface Outcome {
   step: string;
@@ -83,7 +61,7 @@ function warningCodes(outcome: Outcome): string[] {
 
 describe('the awkward-file corpus', () => {
   it('has at least 28 entries, each file present, each with one kind of expectation', () => {
-    expect(corpus.schema).toBe('paredown.wave-corpus/1');
+    expect(corpus.schema).toBe(waveCorpusSchema);
     expect(corpus.entries.length).toBeGreaterThanOrEqual(28);
     for (const entry of corpus.entries) {
       expect(Boolean(entry.expect.refused) !== Boolean(entry.expect.wave)).toBe(true);

@@ -1,18 +1,9 @@
 import { describe, expect, it } from 'vitest';
 import * as XLSX from 'xlsx-republish';
-import { readTable, WaveRefusal } from '../../src/lib/ingest';
+import { readTable } from '../../src/lib/ingest';
+import { refusal } from './ingest-test-helpers';
 
 const text = (value: string) => new TextEncoder().encode(value);
-
-async function refusal(promise: Promise<unknown>): Promise<WaveRefusal> {
-  try {
-    await promise;
-  } catch (error) {
-    if (error instanceof WaveRefusal) return error;
-    throw error;
-  }
-  throw new Error('expected a refusal');
-}
 
 describe('readTable', () => {
   it('reads a CSV into text cells with how it was read', async () => {

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import * as XLSX from 'xlsx-republish';
-import { readWorkbook, resolveReadLimits, WaveRefusal } from '../../src/lib/ingest';
+import { readWorkbook, resolveReadLimits } from '../../src/lib/ingest';
+import { refusal } from './ingest-test-helpers';
 
 const limits = resolveReadLimits();
 type Cell = string | number | boolean | null;
@@ -10,16 +11,6 @@ function book(sheets: Record<string, Cell[][] | XLSX.WorkSheet>, bookType: XLSX.
   for (const [name, rows] of Object.entries(sheets)) XLSX.utils.book_append_sheet(workbook, Array.isArray(rows) ? XLSX.utils.aoa_to_sheet(rows) : rows, name);
   workbook.Workbook = { Sheets: workbook.SheetNames.map((name) => ({ name, Hidden: hidden.includes(name) ? 1 : 0 })) } as XLSX.WBProps;
   return new Uint8Array(XLSX.write(workbook, { type: 'array', bookType }) as ArrayBuffer);
-}
-
-async function refusal(promise: Promise<unknown>): Promise<WaveRefusal> {
-  try {
-    await promise;
-  } catch (error) {
-    if (error instanceof WaveRefusal) return error;
-    throw error;
-  }
-  throw new Error('expected a refusal');
 }
 
 describe('readWorkbook', () => {

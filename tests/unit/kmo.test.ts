@@ -1,14 +1,14 @@
 import { describe, expect, it } from 'vitest';
-import { centeredCrossProducts, pearsonFromCrossProducts } from '../../src/lib/stats/cross-products';
 import { kaiserMeyerOlkin, kmoLabel } from '../../src/lib/stats/kmo';
 import { symmetricEigen } from '../../src/lib/stats/symmetric-eigen';
 import { squareMatrixFromRows } from '../../src/lib/stats/types';
 import {
   allFinite,
-  completeCases,
+  completeItemMatrix,
   dataset,
-  itemMatrixOf,
+  indefiniteCorrelation,
   overlapFixture,
+  pearsonOf,
   permuteSquare,
   referenceCorrelation,
   relativeError,
@@ -42,10 +42,10 @@ describe('kaiserMeyerOlkin', () => {
     const entry = dataset('bfi');
     // R 4.2.2: psych::KMO(cor(X))$MSA after recoding A1, C4, C5, E1, E2, O2, O5 as 7 − x
     expect(relativeError(entry.reversedKeys!.kmoOverall, entry.kmo.overall)).toBeLessThan(1e-12);
-    const matrix = completeCases(itemMatrixOf(entry));
+    const matrix = completeItemMatrix(entry);
     const data = Float64Array.from(matrix.data);
     for (const j of entry.reversedKeys!.items) for (let i = 0; i < matrix.rows; i++) data[j * matrix.rows + i] = 7 - data[j * matrix.rows + i];
-    const reversed = kaiserMeyerOlkin(pearsonFromCrossProducts(centeredCrossProducts({ ...matrix, data })));
+    const reversed = kaiserMeyerOlkin(pearsonOf({ ...matrix, data }));
     expect(relativeError(reversed.overall!, entry.reversedKeys!.kmoOverall)).toBeLessThan(1e-9);
     const order = Array.from({ length: 25 }, (_, k) => (k * 7) % 25);
     const permuted = kaiserMeyerOlkin(permuteSquare(referenceCorrelation(entry), order));
@@ -80,7 +80,7 @@ describe('kaiserMeyerOlkin', () => {
   });
 
   it('refuses an indefinite matrix with a notice, and reuses a given decomposition', () => {
-    const indefinite = kaiserMeyerOlkin(squareMatrixFromRows([[1, 0.9, 0.9], [0.9, 1, -0.5], [0.9, -0.5, 1]]));
+    const indefinite = kaiserMeyerOlkin(indefiniteCorrelation());
     expect(indefinite.overall).toBeNull();
     expect(indefinite.notices[0].code).toBe('indefinite-matrix');
     const R = referenceCorrelation(dataset('swiss'));

@@ -6,6 +6,7 @@
  */
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
+import { centeredCrossProducts, pearsonFromCrossProducts } from '../../src/lib/stats/cross-products';
 import { createSeededRandom } from '../../src/lib/stats/seeded-random';
 import { itemMatrixFromRows, squareMatrixFromRows, type ItemMatrix, type SquareMatrix } from '../../src/lib/stats/types';
 
@@ -100,6 +101,24 @@ export function completeCases(matrix: ItemMatrix): ItemMatrix {
   const data = new Float64Array(keep.length * matrix.columns);
   for (let j = 0; j < matrix.columns; j++) keep.forEach((i, k) => (data[j * keep.length + k] = matrix.data[j * matrix.rows + i]));
   return { rows: keep.length, columns: matrix.columns, data };
+}
+
+/** The dataset's rows with every value present, as an ItemMatrix. */
+export function completeItemMatrix(entry: OverlapDataset): ItemMatrix {
+  return completeCases(itemMatrixOf(entry));
+}
+
+/** Pearson correlations of a complete matrix, computed the library's way (centred cross-products). */
+export function pearsonOf(matrix: ItemMatrix): SquareMatrix {
+  return pearsonFromCrossProducts(centeredCrossProducts(matrix));
+}
+
+/**
+ * A 3 × 3 "correlation" matrix that is not positive semi-definite (one eigenvalue is negative:
+ * R 4.2.2, eigen(matrix(c(1, .9, .9, .9, 1, -.5, .9, -.5, 1), 3))$values[3] = -0.5471122), a fresh copy each call.
+ */
+export function indefiniteCorrelation(): SquareMatrix {
+  return squareMatrixFromRows([[1, 0.9, 0.9], [0.9, 1, -0.5], [0.9, -0.5, 1]]);
 }
 
 /** R's correlation matrix of a dataset as a SquareMatrix. */

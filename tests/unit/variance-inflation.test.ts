@@ -1,16 +1,16 @@
 import { Matrix, solve } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
-import { centeredCrossProducts, pearsonFromCrossProducts } from '../../src/lib/stats/cross-products';
 import { symmetricEigen } from '../../src/lib/stats/symmetric-eigen';
 import { itemMatrixFromColumns, squareMatrixFromRows, type ItemMatrix } from '../../src/lib/stats/types';
 import { varianceInflation } from '../../src/lib/stats/variance-inflation';
 import {
   allFinite,
-  completeCases,
+  completeItemMatrix,
   correlatedData,
   dataset,
-  itemMatrixOf,
+  indefiniteCorrelation,
   overlapFixture,
+  pearsonOf,
   permuteSquare,
   referenceCorrelation,
   relativeError,
@@ -40,7 +40,7 @@ function auxiliaryR2(matrix: ItemMatrix, j: number): number {
 }
 
 function vifOf(matrix: ItemMatrix) {
-  return varianceInflation(pearsonFromCrossProducts(centeredCrossProducts(matrix)));
+  return varianceInflation(pearsonOf(matrix));
 }
 
 describe('varianceInflation', () => {
@@ -64,14 +64,14 @@ describe('varianceInflation', () => {
     // R 4.2.2: diag(solve(cor(X)))
     for (const name of ['sat.act', 'longley']) {
       const entry = dataset(name);
-      const result = vifOf(completeCases(itemMatrixOf(entry)));
+      const result = vifOf(completeItemMatrix(entry));
       entry.vifFromInverse.value.forEach((expected, j) => expect(relativeError(result.items[j].vif!, expected), `${name} ${j}`).toBeLessThan(1e-9));
     }
   });
 
   it('equals 1/(1 − R²) of each auxiliary regression (least squares by QR)', () => {
     // Identity: VIF_j = [R⁻¹]_jj = 1 / (1 − R²_j) (Marquardt 1970)
-    for (const matrix of [completeCases(itemMatrixOf(dataset('attitude'))), correlatedData(200, 8, 4, 2, true)]) {
+    for (const matrix of [completeItemMatrix(dataset('attitude')), correlatedData(200, 8, 4, 2, true)]) {
       const result = vifOf(matrix);
       for (let j = 0; j < matrix.columns; j++) {
         const r2 = auxiliaryR2(matrix, j);
@@ -100,8 +100,8 @@ describe('varianceInflation', () => {
     const permuted = varianceInflation(permuteSquare(R, order));
     order.forEach((original, position) => expect(relativeError(permuted.items[position].vif!, base.items[original].vif!)).toBeLessThan(1e-12));
     // R 4.2.2: diag(solve(cor(X))) after X[, keyed] <- 7 - X[, keyed], equal to the unreversed VIFs
-    const reversed = vifOf(completeCases(itemMatrixOf(entry)));
-    const keyed = reverseItem(completeCases(itemMatrixOf(entry)), 0, 1, 6);
+    const reversed = vifOf(completeItemMatrix(entry));
+    const keyed = reverseItem(completeItemMatrix(entry), 0, 1, 6);
     const afterReverse = vifOf(keyed);
     entry.reversedKeys!.vifFromInverse.forEach((expected, j) => {
       expect(relativeError(reversed.items[j].vif!, expected)).toBeLessThan(1e-9);
@@ -160,8 +160,8 @@ describe('varianceInflation', () => {
   });
 
   it('refuses to invert an indefinite matrix and says so', () => {
-    // Eigenvalues of this matrix include a negative one (R: eigen() gives -0.6...)
-    const result = varianceInflation(squareMatrixFromRows([[1, 0.9, 0.9], [0.9, 1, -0.5], [0.9, -0.5, 1]]));
+    // Eigenvalues of this matrix include a negative one (R 4.2.2: eigen() gives 2.047, 1.5, -0.547)
+    const result = varianceInflation(indefiniteCorrelation());
     expect(result.items.every((item) => item.vif === null)).toBe(true);
     expect(result.notices[0].code).toBe('indefinite-matrix');
     expect(result.items[0].topPartner).toEqual({ index: 1, r: 0.9 });

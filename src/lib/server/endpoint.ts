@@ -40,7 +40,6 @@ export const maxJsonBytes = 1024 * 1024;
 export async function readJson<Schema extends z.ZodType>(request: Request, schema: Schema): Promise<z.infer<Schema>> {
   const declared = Number(request.headers.get('content-length') ?? '0');
   if (declared > maxJsonBytes) throw new HttpError(413, 'body-too-large', 'The request body is larger than 1 MB.');
-  let body: unknown;
   let text: string;
   try {
     text = await request.text();
@@ -48,6 +47,19 @@ export async function readJson<Schema extends z.ZodType>(request: Request, schem
     throw new HttpError(400, 'bad-body', 'The request body could not be read.');
   }
   if (text.length > maxJsonBytes) throw new HttpError(413, 'body-too-large', 'The request body is larger than 1 MB.');
+  return parseJsonBody(text, schema);
+}
+
+/**
+ * Parses a request body's text as JSON (an empty body is `{}`) and validates it.
+ * @param text the body's text.
+ * @param schema the zod schema of the body.
+ * @throws HttpError 400 `bad-json` when the text is not JSON, `invalid-body` (naming the first
+ *   problem) when it does not match the schema.
+ * @returns the parsed body.
+ */
+export function parseJsonBody<Schema extends z.ZodType>(text: string, schema: Schema): z.infer<Schema> {
+  let body: unknown;
   try {
     body = text.trim() === '' ? {} : JSON.parse(text);
   } catch {

@@ -9,12 +9,11 @@
  * runs then, before anything else reads or starts an audit (every path that does goes through
  * `auditJobs()`). docs/decisions/004-audit-jobs.md.
  */
-import { and, desc, eq, inArray } from 'drizzle-orm';
-import { availableParallelism } from 'node:os';
-import { z } from 'zod';
+import { and, desc, eq, inArray, type SQL } from 'drizzle-orm';
 import { audits, waveItems, waves } from '../../../db/schema';
 import type { Db } from '../../../db/client';
 import { logActivity } from '../activity';
+import { getConfig } from '../config';
 import type { CurrentUser } from '../current-user';
 import { getDb } from '../db';
 import { fail } from '../errors';
@@ -125,20 +124,6 @@ export function recoverInterruptedAudits(db: Db): number {
   return result.changes;
 }
 
-/**
- * Size of the pool: AUDIT_WORKERS when set (an integer from 1 to 64), else the machine's cores.
- * @param environment the variables to read.
- * @throws {Error} naming AUDIT_WORKERS when it is not an integer from 1 to 64.
- * @returns the number of audits that may run at once.
- */
-export function auditPoolSize(environment: NodeJS.ProcessEnv = process.env): number {
-  const raw = environment.AUDIT_WORKERS?.trim();
-  if (!raw) return Math.max(1, Math.min(64, availableParallelism()));
-  const parsed = z.coerce.number().int().min(1).max(64).safeParse(raw);
-  if (!parsed.success) throw new Error(`auditPoolSize: AUDIT_WORKERS must be an integer from 1 to 64, got "${raw}"`);
-  return parsed.data;
-}
-
 /** What starting an audit did. */
 export interface StartedAudit {
   audit: AuditSummary;
@@ -234,7 +219,7 @@ export class AuditJobs {
    * @returns the summary, or null when there is no such audit.
    */
   summary(auditId: string): AuditSummary | null {
-    const row = this.db.select(summaryColumns).from(audits).innerJoin(waves, eq(waves.id, audits.waveId)).where(eq(audits.id, auditId)).get();
+    const row = this.summaryQuery().where(eq(audits.id, auditId)).get();
     return row ? summaryOf(row as SummaryRow) : null;
   }
 
@@ -253,14 +238,7 @@ export class AuditJobs {
    * @returns their summaries.
    */
   listForWave(waveId: string): AuditSummary[] {
-    return this.db
-      .select(summaryColumns)
-      .from(audits)
-      .innerJoin(waves, eq(waves.id, audits.waveId))
-      .where(eq(audits.waveId, waveId))
-      .orderBy(desc(audits.createdAt))
-      .all()
-      .map((row) => summaryOf(row as SummaryRow));
+    return this.summariesWhere(eq(audits.waveId, waveId));
   }
 
   /**
@@ -269,11 +247,18 @@ export class AuditJobs {
    * @returns their summaries.
    */
   listForStudy(studyId: string): AuditSummary[] {
-    return this.db
-      .select(summaryColumns)
-      .from(audits)
-      .innerJoin(waves, eq(waves.id, audits.waveId))
-      .where(eq(waves.studyId, studyId))
+    return this.summariesWhere(eq(waves.studyId, studyId));
+  }
+
+  /** The summary columns of audits joined to their waves, for a `where` to narrow. */
+  private summaryQuery() {
+    return this.db.select(summaryColumns).from(audits).innerJoin(waves, eq(waves.id, audits.waveId));
+  }
+
+  /** The summaries of the audits matching a condition on the audit or its wave, newest first. */
+  private summariesWhere(condition: SQL): AuditSummary[] {
+    return this.summaryQuery()
+      .where(condition)
       .orderBy(desc(audits.createdAt))
       .all()
       .map((row) => summaryOf(row as SummaryRow));
@@ -406,7 +391,7 @@ const INSTANCE = Symbol.for('paredown.auditJobs');
 /**
  * The audits service of this process, created on first use: the restart recovery runs first,
  * then the pool is made (its threads start with the first audit).
- * @throws {Error} when AUDIT_WORKERS is invalid.
+ * @throws {Error} when the configuration is invalid (AUDIT_WORKERS among others; see parseConfig).
  * @returns the service.
  */
 export function auditJobs(): AuditJobs {
@@ -414,7 +399,7 @@ export function auditJobs(): AuditJobs {
   let instance = holder[INSTANCE];
   if (!instance) {
     const db = getDb();
-    const size = auditPoolSize();
+    const size = getConfig().auditWorkers;
     const recovered = recoverInterruptedAudits(db);
     if (recovered > 0) console.log(`[paredown] ${recovered} audit${recovered === 1 ? '' : 's'} left unfinished by an earlier run marked failed (interrupted by a restart).`);
     instance = new AuditJobs(db, new AuditWorkerPool(size, () => spawnAuditWorker()));

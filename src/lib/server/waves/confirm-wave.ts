@@ -53,10 +53,9 @@ function normalisedSetup(setup: unknown): string | null {
   return parsed.success ? JSON.stringify(parsed.data) : null;
 }
 
-function itemViews(wave: BuiltWave): ItemView[] {
-  return wave.items.map((item, position) => ({
-    position,
-    id: item.id,
+/** What the wave_items row and the item view both hold of a built item: its setup, text and value labels. */
+function itemDescription(item: BuiltWave['items'][number]) {
+  return {
     header: item.header,
     scale: item.scale,
     reverse: item.reverse,
@@ -65,8 +64,11 @@ function itemViews(wave: BuiltWave): ItemView[] {
     missingCodes: [...item.missingCodes],
     text: item.text,
     valueLabels: item.labels.length > 0 ? Object.fromEntries(item.labels.map((label) => [String(label.code), label.label])) : null,
-    counts: item.counts,
-  }));
+  };
+}
+
+function itemViews(wave: BuiltWave): ItemView[] {
+  return wave.items.map((item, position) => ({ position, id: item.id, ...itemDescription(item), counts: item.counts }));
 }
 
 /** The wave built again from its stored files under a setup. */
@@ -201,19 +203,7 @@ export async function confirmWave(user: CurrentUser, study: StudyRow, row: WaveR
       confirmedAt: new Date(),
     }).where(eq(waves.id, row.id)).run();
     tx.delete(waveItems).where(eq(waveItems.waveId, row.id)).run();
-    const itemRows = wave.items.map((item, position) => ({
-      waveId: row.id,
-      position,
-      itemId: item.id,
-      header: item.header,
-      scale: item.scale,
-      reverse: item.reverse,
-      min: item.min,
-      max: item.max,
-      missingCodes: [...item.missingCodes],
-      text: item.text,
-      valueLabels: item.labels.length > 0 ? Object.fromEntries(item.labels.map((label) => [String(label.code), label.label])) : null,
-    }));
+    const itemRows = wave.items.map((item, position) => ({ waveId: row.id, position, itemId: item.id, ...itemDescription(item) }));
     // A few hundred rows per statement keeps well inside SQLite's limit on bound parameters.
     for (let start = 0; start < itemRows.length; start += ITEM_ROWS_PER_INSERT) {
       tx.insert(waveItems).values(itemRows.slice(start, start + ITEM_ROWS_PER_INSERT)).run();

@@ -6,7 +6,7 @@
 import type { APIContext, APIRoute } from 'astro';
 import type { z } from 'zod';
 import { isWaveRefusal } from '../../ingest';
-import { endpoint } from '../endpoint';
+import { endpoint, parseJsonBody } from '../endpoint';
 import { HttpError } from '../errors';
 import { readCappedBody } from './read-upload-form';
 
@@ -44,18 +44,11 @@ export async function readSetupJson<Schema extends z.ZodType>(request: Request, 
     if (error instanceof HttpError && error.status === 413) throw new HttpError(413, 'body-too-large', 'The request body is larger than 16 MB.');
     throw error;
   }
-  let body: unknown;
+  let text: string;
   try {
-    const text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
-    body = text.trim() === '' ? {} : JSON.parse(text);
+    text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
   } catch {
     throw new HttpError(400, 'bad-json', 'The request body is not valid JSON.');
   }
-  const parsed = schema.safeParse(body);
-  if (!parsed.success) {
-    const issue = parsed.error.issues[0];
-    const where = issue.path.length > 0 ? `${issue.path.join('.')}: ` : '';
-    throw new HttpError(400, 'invalid-body', `${where}${issue.message}`);
-  }
-  return parsed.data;
+  return parseJsonBody(text, schema);
 }
