@@ -14,7 +14,7 @@ import { storeFile } from './stored-files';
 import { logActivity } from '../lib/server/activity';
 import { buildWave, encodeMatrix, proposeSetup, screenRespondents, type ItemCounts } from '../lib/ingest';
 import { readWaveFiles } from '../lib/server/waves/read-wave-files';
-import { setupOf, STORED_SETUP_VERSION, withoutIgnoredExamples, type StoredWaveSetup } from '../lib/server/waves/stored-wave';
+import { itemDescription, setupOf, STORED_SETUP_VERSION, withoutIgnoredExamples, type StoredWaveSetup } from '../lib/server/waves/stored-wave';
 
 /** The password of every demo account (printed in the README). */
 export const demoPassword = 'paredown-demo';
@@ -162,14 +162,7 @@ export async function seedDemo(db: Db, options: SeedOptions): Promise<SeedOutcom
         waveId: demoIds.demoWave,
         position,
         itemId: item.id,
-        header: item.header,
-        scale: item.scale,
-        reverse: item.reverse,
-        min: item.min,
-        max: item.max,
-        missingCodes: [...item.missingCodes],
-        text: item.text,
-        valueLabels: item.labels.length > 0 ? Object.fromEntries(item.labels.map((l) => [String(l.code), l.label])) : null,
+        ...itemDescription(item),
       })),
     ).run();
     logActivity(tx, { teamId: demoIds.demoTeam, userId: null, action: 'demo.seeded', detail: { study: demoIds.demoStudy } });

@@ -21,7 +21,7 @@ import { getDb } from '../db';
 import { fail } from '../errors';
 import type { StudyRow } from '../guard';
 import { readStoredFile, readWaveFiles, serverReadLimits } from './read-wave-files';
-import { parseStoredSetup, setupOf, STORED_SETUP_VERSION, type StoredOutcome, type StoredWaveSetup, type WaveRow } from './stored-wave';
+import { itemDescription, parseStoredSetup, setupOf, STORED_SETUP_VERSION, type StoredOutcome, type StoredWaveSetup, type WaveRow } from './stored-wave';
 import { assembleView, storedWaveView, type ItemView, type WaveView } from './wave-view';
 
 /** What the designer sends to confirm a wave. */
@@ -51,20 +51,6 @@ const nullable = (value: number): number | null => (Number.isFinite(value) ? val
 function normalisedSetup(setup: unknown): string | null {
   const parsed = waveSetupSchema.safeParse(setup);
   return parsed.success ? JSON.stringify(parsed.data) : null;
-}
-
-/** What the wave_items row and the item view both hold of a built item: its setup, text and value labels. */
-function itemDescription(item: BuiltWave['items'][number]) {
-  return {
-    header: item.header,
-    scale: item.scale,
-    reverse: item.reverse,
-    min: item.min,
-    max: item.max,
-    missingCodes: [...item.missingCodes],
-    text: item.text,
-    valueLabels: item.labels.length > 0 ? Object.fromEntries(item.labels.map((label) => [String(label.code), label.label])) : null,
-  };
 }
 
 function itemViews(wave: BuiltWave): ItemView[] {

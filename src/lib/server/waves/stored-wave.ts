@@ -10,7 +10,7 @@
  * other member gets aggregates only ({@link screeningSummary}, no proposal, no examples).
  */
 import type {
-  ColumnProposal, ColumnSetup, ItemCounts, ScreeningFlag, ScreeningOptions, ScreeningResult, TableSource, WaveWarning,
+  BuiltWave, ColumnProposal, ColumnSetup, ItemCounts, ScreeningFlag, ScreeningOptions, ScreeningResult, TableSource, WaveWarning,
 } from '../../ingest';
 import type { waves } from '../../../db/schema';
 
@@ -244,4 +244,18 @@ export function mergeWarnings(...lists: readonly (readonly WaveWarning[])[]): Wa
     merged.push(warning);
   }
   return merged;
+}
+
+/** What the wave_items row and the item view both hold of a built item: its setup, text and value labels. */
+export function itemDescription(item: BuiltWave['items'][number]) {
+  return {
+    header: item.header,
+    scale: item.scale,
+    reverse: item.reverse,
+    min: item.min,
+    max: item.max,
+    missingCodes: [...item.missingCodes],
+    text: item.text,
+    valueLabels: item.labels.length > 0 ? Object.fromEntries(item.labels.map((label) => [String(label.code), label.label])) : null,
+  };
 }
