@@ -2,8 +2,8 @@
 // with apt-get when we are root, failing with a clear message otherwise: never skipping); build;
 // then Vitest runs the unit project and the app project (API and browser tests against the built
 // server, see tests/setup/app-server.ts). Extra arguments go to Vitest.
-import { execFileSync, spawnSync } from 'node:child_process';
-import { existsSync } from 'node:fs';
+import { spawnSync } from 'node:child_process';
+import { existsSync, readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
 import { ensureBuilt, ensureInstalled, root, run, step } from './lib/prepare.mjs';
 
@@ -41,12 +41,17 @@ ensureInstalled();
 if (!process.env.CHROMIUM_PATH) ensureChromium();
 ensureBuilt();
 step('Running the tests (vitest: unit and app projects)');
-try {
-  execFileSync(process.execPath, [join(root, 'node_modules', 'vitest', 'vitest.mjs'), 'run', ...process.argv.slice(2)], {
-    cwd: root,
-    stdio: 'inherit',
-    env: process.env,
-  });
-} catch (error) {
-  process.exit(typeof error.status === 'number' ? error.status : 1);
+const summaryFile = join(root, 'test-results', 'vitest-summary.json');
+rmSync(summaryFile, { force: true });
+const result = spawnSync(
+  process.execPath,
+  [join(root, 'node_modules', 'vitest', 'vitest.mjs'), 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${summaryFile}`, ...process.argv.slice(2)],
+  { cwd: root, stdio: 'inherit', env: process.env },
+);
+// One plain closing line that any CI reader understands, from Vitest's own JSON report.
+if (existsSync(summaryFile)) {
+  const report = JSON.parse(readFileSync(summaryFile, 'utf8'));
+  const skipped = (report.numPendingTests ?? 0) + (report.numTodoTests ?? 0);
+  console.log(`\ntests: ${report.numPassedTests} passed, ${report.numFailedTests} failed${skipped ? `, ${skipped} skipped` : ''}`);
 }
+process.exit(typeof result.status === 'number' ? result.status : 1);
