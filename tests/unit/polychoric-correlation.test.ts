@@ -1,13 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import {
-  codeOrdinalItem,
-  countPolychoricTable,
-  createPolychoricWorkspace,
-  fitPolychoricTable,
-  polychoricCorrelation,
-  polychoricLikelihood,
-  POLYCHORIC_LIMITS,
-} from '../../src/lib/stats/polychoric-correlation';
+import { codeOrdinalItem, countPolychoricTable } from '../../src/lib/stats/polychoric-coding';
+import { polychoricCorrelation, POLYCHORIC_LIMITS } from '../../src/lib/stats/polychoric-correlation';
+import { createPolychoricWorkspace, fitPolychoricTable, polychoricLikelihood } from '../../src/lib/stats/polychoric-likelihood';
 import { correlationDataset, datasetColumn, readCorrelationFixture, type Provenance } from './correlation-fixtures';
 
 interface EdgeFixture {

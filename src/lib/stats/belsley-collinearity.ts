@@ -22,6 +22,7 @@
  * Weak Data in Regression"; Golub & Van Loan 2013, "Matrix Computations", 4th ed., §5.2
  * (Householder QR) and §8.6 (SVD).
  */
+import { completeRows } from './complete-rows';
 import { SingularValueDecomposition } from 'ml-matrix';
 import { centeredCrossProducts, type CenteredCrossProducts } from './cross-products';
 import { symmetricEigen } from './symmetric-eigen';
@@ -102,8 +103,9 @@ export function belsleyCollinearity(matrix: ItemMatrix, options: BelsleyCollinea
   if (!Number.isInteger(rows) || rows < 0 || data.length !== rows * columns) {
     throw new RangeError(`belsleyCollinearity: data holds ${data.length} values, expected rows × columns = ${rows * columns}`);
   }
-  const complete = completeRows(matrix);
-  const rowsUsed = complete === null ? rows : complete.length;
+  const kept = completeRows(matrix, 'belsleyCollinearity');
+  const complete = kept.length === rows ? null : kept;
+  const rowsUsed = kept.length;
   const width = columns + 1;
   if (rowsUsed === 0) {
     return {
@@ -131,33 +133,6 @@ interface ScaledSpectrum {
   readonly singularValues: Float64Array;
   readonly vectors: Float64Array;
   readonly zeroColumns: readonly number[];
-}
-
-/** Indices of the rows with every value observed; null when all rows are complete. */
-function completeRows(matrix: ItemMatrix): number[] | null {
-  const { rows, columns, data } = matrix;
-  const missing = new Uint8Array(rows);
-  let anyMissing = false;
-  for (let j = 0; j < columns; j++) {
-    const offset = j * rows;
-    // Fast path: a finite column sum means no NaN or infinity in the column.
-    let sum = 0;
-    for (let i = 0; i < rows; i++) sum += data[offset + i];
-    if (Number.isFinite(sum)) continue;
-    for (let i = 0; i < rows; i++) {
-      const value = data[offset + i];
-      if (Number.isNaN(value)) {
-        missing[i] = 1;
-        anyMissing = true;
-      } else if (!Number.isFinite(value)) {
-        throw new RangeError(`belsleyCollinearity: item ${j} has an infinite value at respondent ${i}`);
-      }
-    }
-  }
-  if (!anyMissing) return null;
-  const kept: number[] = [];
-  for (let i = 0; i < rows; i++) if (missing[i] === 0) kept.push(i);
-  return kept;
 }
 
 function keepRows(matrix: ItemMatrix, kept: readonly number[]): ItemMatrix {

@@ -14,7 +14,7 @@
  *
  * WORKER NOTE: `prepareBivariateNormalRule`, `bivariateNormalCdfFromRule` and
  * `bivariateNormalGrid` also run inside the polychoric worker thread from their source text
- * (see parallel/polychoric-worker-source.ts). They must stay top-level function declarations
+ * (see parallel/polychoric-worker.ts). They must stay top-level function declarations
  * that refer only to their own locals, `Math`, typed arrays, each other and `normalCdf`.
  *
  * References: Genz 2004, "Numerical computation of rectangular bivariate and trivariate normal

@@ -3,7 +3,8 @@
  * number, KMO, repair). Not a statistic: a precondition, kept in one place so every caller
  * words it the same way.
  */
-import { SYMMETRY_TOLERANCE, UNIT_DIAGONAL_TOLERANCE } from './tolerances';
+import { checkSymmetricMatrix } from './symmetric-input';
+import { UNIT_DIAGONAL_TOLERANCE } from './tolerances';
 import type { SquareMatrix } from './types';
 
 /**
@@ -21,22 +22,14 @@ import type { SquareMatrix } from './types';
  * Regression, heredity and panmixia" (properties of the correlation coefficient).
  */
 export function checkCorrelationMatrix(matrix: SquareMatrix, caller: string): void {
-  const { order, data } = matrix;
-  if (!Number.isInteger(order) || order < 1) throw new RangeError(`${caller}: the correlation matrix must have order >= 1, got ${order}`);
-  if (data.length !== order * order) throw new RangeError(`${caller}: expected ${order * order} values for order ${order}, got ${data.length}`);
-  for (let i = 0; i < order; i++) {
-    const diagonal = data[i * order + i];
-    if (!(Math.abs(diagonal - 1) <= UNIT_DIAGONAL_TOLERANCE)) {
-      throw new RangeError(`${caller}: diagonal element ${i} is ${diagonal}, a correlation matrix has 1 there`);
-    }
-    for (let j = i + 1; j < order; j++) {
-      const a = data[i * order + j];
-      const b = data[j * order + i];
-      if (!Number.isFinite(a) || !Number.isFinite(b)) throw new RangeError(`${caller}: element (${i}, ${j}) is not finite`);
-      if (Math.abs(a - b) > SYMMETRY_TOLERANCE * Math.max(Math.abs(a), Math.abs(b), 1)) {
-        throw new RangeError(`${caller}: the matrix is not symmetric at (${i}, ${j}): ${a} against ${b}`);
+  checkSymmetricMatrix(matrix, caller, 'correlation matrix', {
+    diagonal: (value, i) => {
+      if (!(Math.abs(value - 1) <= UNIT_DIAGONAL_TOLERANCE)) {
+        throw new RangeError(`${caller}: diagonal element ${i} is ${value}, a correlation matrix has 1 there`);
       }
-      if (Math.abs(a) > 1 + UNIT_DIAGONAL_TOLERANCE) throw new RangeError(`${caller}: element (${i}, ${j}) is ${a}, outside [-1, 1]`);
-    }
-  }
+    },
+    offDiagonal: (value, i, j) => {
+      if (Math.abs(value) > 1 + UNIT_DIAGONAL_TOLERANCE) throw new RangeError(`${caller}: element (${i}, ${j}) is ${value}, outside [-1, 1]`);
+    },
+  });
 }

@@ -31,19 +31,14 @@
 import { centeredCrossProducts, pearsonFromCrossProducts } from './cross-products';
 import { assignMidRanks, midRanks } from './mid-ranks';
 import { pearsonOfPairComplete } from './pearson-correlation';
-import {
-  codeOrdinalItem,
-  createPolychoricPairsJob,
-  estimatePolychoricPairs,
-  POLYCHORIC_PAIR_FIELDS,
-  type OrdinalItem,
-  type PolychoricPairsJob,
-} from './polychoric-correlation';
+import { codeOrdinalItem, type OrdinalItem } from './polychoric-coding';
+import { createPolychoricPairsJob, estimatePolychoricPairs, POLYCHORIC_PAIR_FIELDS, type PolychoricPairsJob } from './polychoric-pairs';
 import { repairCorrelationMatrix, type CorrelationRepairMethod } from './nearest-correlation';
 import { summarizeSpectrum } from './spectral-inverse';
 import { symmetricEigenvalues } from './symmetric-eigen';
 import { MIN_ROWS_FOR_CORRELATION, POLYCHORIC_MAX_CATEGORIES } from './tolerances';
-import { selectRespondents, type CorrelationMethod, type ItemMatrix, type MissingPolicy, type NumericalNotice, type SquareMatrix } from './types';
+import { completeRows, rowsWithAnyAnswer } from './complete-rows';
+import { itemColumn, selectRespondents, type CorrelationMethod, type ItemMatrix, type MissingPolicy, type NumericalNotice, type SquareMatrix } from './types';
 
 /** Options of `correlationMatrix`. */
 export interface CorrelationMatrixOptions {
@@ -234,7 +229,7 @@ export function prepareCorrelationMatrix(matrix: ItemMatrix, options: Correlatio
     polychoricItems = [];
     for (let j = 0; j < order; j++) {
       try {
-        polychoricItems.push(codeOrdinalItem(column(data, j), POLYCHORIC_MAX_CATEGORIES));
+        polychoricItems.push(codeOrdinalItem(itemColumn(data, j), POLYCHORIC_MAX_CATEGORIES));
       } catch (error) {
         throw new RangeError(`${caller}: item ${j}: ${(error as Error).message}`);
       }
@@ -379,34 +374,6 @@ function checkMatrix(matrix: ItemMatrix, caller: string): void {
   }
 }
 
-function column(matrix: ItemMatrix, j: number): Float64Array {
-  return matrix.data.subarray(j * matrix.rows, (j + 1) * matrix.rows);
-}
-
-function completeRows(matrix: ItemMatrix): number[] {
-  const { rows, columns, data } = matrix;
-  const complete = new Uint8Array(rows).fill(1);
-  for (let j = 0; j < columns; j++) {
-    const offset = j * rows;
-    for (let i = 0; i < rows; i++) if (data[offset + i] !== data[offset + i]) complete[i] = 0;
-  }
-  const indices: number[] = [];
-  for (let i = 0; i < rows; i++) if (complete[i] === 1) indices.push(i);
-  return indices;
-}
-
-function rowsWithAnyAnswer(matrix: ItemMatrix): number {
-  const { rows, columns, data } = matrix;
-  const any = new Uint8Array(rows);
-  for (let j = 0; j < columns; j++) {
-    const offset = j * rows;
-    for (let i = 0; i < rows; i++) if (data[offset + i] === data[offset + i]) any[i] = 1;
-  }
-  let count = 0;
-  for (let i = 0; i < rows; i++) count += any[i];
-  return count;
-}
-
 function allPairs(order: number): Int32Array {
   const pairs = new Int32Array(order * (order - 1));
   let at = 0;
@@ -443,11 +410,11 @@ function fillComplete(data: ItemMatrix, method: CorrelationMethod, values: Float
     return;
   }
   const varying: number[] = [];
-  for (let j = 0; j < order; j++) if (!isConstant(column(data, j))) varying.push(j);
+  for (let j = 0; j < order; j++) if (!isConstant(itemColumn(data, j))) varying.push(j);
   if (varying.length > 0) {
     const working = new Float64Array(rows * varying.length);
     varying.forEach((j, position) => {
-      const source = column(data, j);
+      const source = itemColumn(data, j);
       working.set(method === 'spearman' ? midRanks(source) : source, position * rows);
     });
     const correlations = pearsonFromCrossProducts(centeredCrossProducts({ rows, columns: varying.length, data: working }));
@@ -475,7 +442,7 @@ function fillPairwiseWithMissing(
   const rows = data.rows;
   const columns: Float64Array[] = [];
   for (let j = 0; j < order; j++) {
-    const values_j = column(data, j);
+    const values_j = itemColumn(data, j);
     columns.push(values_j);
     let observed = 0;
     for (let i = 0; i < rows; i++) if (values_j[i] === values_j[i]) observed++;

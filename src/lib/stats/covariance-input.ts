@@ -3,7 +3,7 @@
  * correlation, alpha if deleted). Not a statistic: a precondition, kept in one place so every
  * caller words it the same way. Correlation matrices are checked by correlation-input.ts.
  */
-import { SYMMETRY_TOLERANCE } from './tolerances';
+import { checkSymmetricMatrix } from './symmetric-input';
 import type { SquareMatrix } from './types';
 
 /**
@@ -19,20 +19,10 @@ import type { SquareMatrix } from './types';
  * References: none (input validation; a covariance matrix is symmetric with variances ≥ 0).
  */
 export function checkCovarianceMatrix(matrix: SquareMatrix, caller: string): void {
-  const { order, data } = matrix;
-  if (!Number.isInteger(order) || order < 1) throw new RangeError(`${caller}: the covariance matrix must have order >= 1, got ${order}`);
-  if (data.length !== order * order) throw new RangeError(`${caller}: expected ${order * order} values for order ${order}, got ${data.length}`);
-  for (let i = 0; i < order; i++) {
-    const variance = data[i * order + i];
-    if (!Number.isFinite(variance)) throw new RangeError(`${caller}: element (${i}, ${i}) is not finite`);
-    if (variance < 0) throw new RangeError(`${caller}: the variance on the diagonal at (${i}, ${i}) is negative: ${variance}`);
-    for (let j = i + 1; j < order; j++) {
-      const a = data[i * order + j];
-      const b = data[j * order + i];
-      if (!Number.isFinite(a) || !Number.isFinite(b)) throw new RangeError(`${caller}: element (${i}, ${j}) is not finite`);
-      if (Math.abs(a - b) > SYMMETRY_TOLERANCE * Math.max(Math.abs(a), Math.abs(b), 1)) {
-        throw new RangeError(`${caller}: the matrix is not symmetric at (${i}, ${j}): ${a} against ${b}`);
-      }
-    }
-  }
+  checkSymmetricMatrix(matrix, caller, 'covariance matrix', {
+    diagonal: (variance, i) => {
+      if (!Number.isFinite(variance)) throw new RangeError(`${caller}: element (${i}, ${i}) is not finite`);
+      if (variance < 0) throw new RangeError(`${caller}: the variance on the diagonal at (${i}, ${i}) is negative: ${variance}`);
+    },
+  });
 }

@@ -16,6 +16,7 @@
  * analysis and recommendations" (two-pass centred sums); Cronbach 1951, "Coefficient alpha and
  * the internal structure of tests" (the use made of it).
  */
+import { completeRows, rowsWithAnyAnswer } from './complete-rows';
 import { centeredCrossProducts } from './cross-products';
 import { MIN_ROWS_FOR_COVARIANCE } from './tolerances';
 import { selectRespondents, type ItemMatrix, type MissingPolicy, type NumericalNotice, type SquareMatrix } from './types';
@@ -69,21 +70,12 @@ export function covarianceMatrix(matrix: ItemMatrix, options: CovarianceMatrixOp
   const values = new Float64Array(order * order);
   const counts = new Float64Array(order * order);
   const undefinedPairs: [number, number][] = [];
-  const complete: number[] = [];
-  const anyAnswer = new Uint8Array(rows);
-  for (let i = 0; i < rows; i++) {
-    let all = true;
-    for (let j = 0; j < columns; j++) {
-      if (data[j * rows + i] !== data[j * rows + i]) all = false;
-      else anyAnswer[i] = 1;
-    }
-    if (all) complete.push(i);
-  }
+  const complete = completeRows(matrix);
   const hasMissing = complete.length < rows;
   let rowsUsed: number;
   if (missing === 'listwise' || !hasMissing) {
     const used = hasMissing ? selectRespondents(matrix, complete) : matrix;
-    rowsUsed = missing === 'listwise' ? complete.length : anyAnswer.reduce((sum, flag) => sum + flag, 0);
+    rowsUsed = missing === 'listwise' ? complete.length : rowsWithAnyAnswer(matrix);
     counts.fill(used.rows);
     if (used.rows < MIN_ROWS_FOR_COVARIANCE) {
       for (let j = 0; j < order; j++) for (let k = j; k < order; k++) undefinedPairs.push([j, k]);
@@ -92,7 +84,7 @@ export function covarianceMatrix(matrix: ItemMatrix, options: CovarianceMatrixOp
       for (let t = 0; t < order * order; t++) values[t] = products.centered.data[t] / (used.rows - 1);
     }
   } else {
-    rowsUsed = anyAnswer.reduce((sum, flag) => sum + flag, 0);
+    rowsUsed = rowsWithAnyAnswer(matrix);
     for (let j = 0; j < order; j++) {
       const x = data.subarray(j * rows, (j + 1) * rows);
       for (let k = j; k < order; k++) {

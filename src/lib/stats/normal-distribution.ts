@@ -7,7 +7,7 @@
  * accurate to about 1 part in 10^16.
  *
  * WORKER NOTE: `normalCdf` is also run inside the polychoric worker thread from its source
- * text (see parallel/polychoric-worker-source.ts). It must stay a top-level function
+ * text (see parallel/polychoric-worker.ts). It must stay a top-level function
  * declaration that refers to nothing but its own locals and `Math`.
  *
  * References: Cody 1969, "Rational Chebyshev approximations for the error function"

@@ -13,7 +13,8 @@
  * and QL algorithms for symmetric matrices" (Numer. Math. 11:293-306, tql2); Smith et al. 1976,
  * "Matrix Eigensystem Routines - EISPACK Guide".
  */
-import { EIGEN_MAX_ITERATIONS_PER_VALUE, SYMMETRY_TOLERANCE } from './tolerances';
+import { checkSymmetricMatrix } from './symmetric-input';
+import { EIGEN_MAX_ITERATIONS_PER_VALUE } from './tolerances';
 import type { SquareMatrix } from './types';
 
 /**
@@ -43,7 +44,7 @@ export interface SymmetricEigenDecomposition {
  * 1968 (tql2), both in Numerische Mathematik 11.
  */
 export function symmetricEigen(matrix: SquareMatrix): SymmetricEigenDecomposition {
-  checkSymmetric(matrix, 'symmetricEigen');
+  checkSymmetricMatrix(matrix, 'symmetricEigen', 'matrix');
   const n = matrix.order;
   // w holds Vᵀ: row j of w is column j of the transformation V of the EISPACK listing.
   const w = transposeCopy(matrix);
@@ -84,7 +85,7 @@ export function symmetricEigen(matrix: SquareMatrix): SymmetricEigenDecompositio
  * 1968 (tql1/tql2), both in Numerische Mathematik 11.
  */
 export function symmetricEigenvalues(matrix: SquareMatrix): Float64Array {
-  checkSymmetric(matrix, 'symmetricEigenvalues');
+  checkSymmetricMatrix(matrix, 'symmetricEigenvalues', 'matrix');
   const n = matrix.order;
   const w = transposeCopy(matrix);
   const d = new Float64Array(n);
@@ -92,22 +93,6 @@ export function symmetricEigenvalues(matrix: SquareMatrix): Float64Array {
   tridiagonalize(w, n, d, e, false);
   tridiagonalQl(d, e, n, null, 'symmetricEigenvalues');
   return d.sort().reverse();
-}
-
-function checkSymmetric(matrix: SquareMatrix, caller: string): void {
-  const { order, data } = matrix;
-  if (!Number.isInteger(order) || order < 1) throw new RangeError(`${caller}: the matrix must have order >= 1, got ${order}`);
-  if (data.length !== order * order) throw new RangeError(`${caller}: expected ${order * order} values for order ${order}, got ${data.length}`);
-  for (let i = 0; i < order; i++) {
-    for (let j = i; j < order; j++) {
-      const a = data[i * order + j];
-      const b = data[j * order + i];
-      if (!Number.isFinite(a) || !Number.isFinite(b)) throw new RangeError(`${caller}: element (${i}, ${j}) is not finite`);
-      if (Math.abs(a - b) > SYMMETRY_TOLERANCE * Math.max(Math.abs(a), Math.abs(b), 1)) {
-        throw new RangeError(`${caller}: the matrix is not symmetric at (${i}, ${j}): ${a} against ${b}`);
-      }
-    }
-  }
 }
 
 function transposeCopy(matrix: SquareMatrix): Float64Array {

@@ -17,7 +17,7 @@ import {
   type CorrelationMatrixOptions,
   type CorrelationMatrixResult,
 } from '../correlation-matrix';
-import { estimatePolychoricPairs, POLYCHORIC_PAIR_FIELDS, type PolychoricPairsJob } from '../polychoric-correlation';
+import { estimatePolychoricPairs, POLYCHORIC_PAIR_FIELDS, type PolychoricPairsJob } from '../polychoric-pairs';
 import type { ItemMatrix, NumericalNotice } from '../types';
 import { polychoricWorkerSource } from './polychoric-worker';
 

@@ -7,7 +7,7 @@
  * very functions the calling thread uses (`estimatePolychoricPairs` and what it calls), so both
  * paths run one implementation.
  *
- * Those functions live in three modules and call each other. Under Vitest and Vite's dev server
+ * Those functions live in six modules and call each other. Under Vitest and Vite's dev server
  * a call into another module reads `(0, __vi_import_2__.normalCdf)(x)` in the function's text;
  * `polychoricWorkerSource` rewrites such references to the bare name, which the source defines.
  * tsx and bundlers (Rollup, esbuild) keep cross-module calls as plain (possibly renamed, but
@@ -17,14 +17,10 @@
  */
 import { bivariateNormalCdfFromRule, bivariateNormalGrid, prepareBivariateNormalRule } from '../bivariate-normal-cdf';
 import { normalCdf } from '../normal-distribution';
-import {
-  countPolychoricTable,
-  createPolychoricWorkspace,
-  estimatePolychoricFromTable,
-  estimatePolychoricPairs,
-  fitPolychoricTable,
-  polychoricLikelihood,
-} from '../polychoric-correlation';
+import { countPolychoricTable } from '../polychoric-coding';
+import { estimatePolychoricFromTable } from '../polychoric-correlation';
+import { createPolychoricWorkspace, fitPolychoricTable, polychoricLikelihood } from '../polychoric-likelihood';
+import { estimatePolychoricPairs } from '../polychoric-pairs';
 
 /** Every function the worker needs, callees included. */
 const WORKER_FUNCTIONS: readonly ((...args: never[]) => unknown)[] = [

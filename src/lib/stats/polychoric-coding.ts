@@ -1,0 +1,120 @@
+/**
+ * First step of the polychoric estimator (see polychoric-correlation.ts): each ordinal item
+ * coded to category indices with its thresholds τ_k = Φ⁻¹(share at or below category k) from
+ * all of its observed answers, and the contingency table of two coded items.
+ *
+ * WORKER NOTE: `countPolychoricTable` also runs inside the polychoric worker thread from its
+ * source text (parallel/polychoric-worker.ts). Keep it a top-level function declaration that
+ * refers only to its locals and typed arrays.
+ *
+ * References: Olsson 1979, "Maximum likelihood estimation of the polychoric correlation
+ * coefficient" (Psychometrika 44:443-460); Pearson & Pearson 1922, "On polychoric
+ * coefficients of correlation" (Biometrika 14:127-156).
+ */
+import type { BivariateGridMargin } from './bivariate-normal-cdf';
+import { normalQuantile } from './normal-distribution';
+import { POLYCHORIC_MAX_CATEGORIES } from './tolerances';
+
+/** One ordinal item prepared for polychoric work: category codes and thresholds. */
+export interface OrdinalItem {
+  /** Distinct observed values, ascending; category c is `categories[c]`. */
+  readonly categories: Float64Array;
+  /** Category index of each respondent; `categories.length` marks a missing answer. */
+  readonly codes: Uint8Array;
+  /** Respondents in each category. */
+  readonly counts: Float64Array;
+  /** Respondents who answered. */
+  readonly observed: number;
+  /** Thresholds τ_k = Φ⁻¹(share at or below category k), k = 0 .. categories − 2. */
+  readonly thresholds: BivariateGridMargin;
+}
+
+/**
+ * Codes one item for polychoric work: its distinct observed values become categories
+ * 0, 1, ..., and its thresholds come from all of its observed answers.
+ * @param values The item's answers, NaN for missing.
+ * @param maxCategories Most distinct values allowed (POLYCHORIC_MAX_CATEGORIES by default).
+ * @throws {RangeError} when a value is ±Infinity, or the item has more than maxCategories
+ *   distinct values (polychoric correlation is meant for ordinal items).
+ * @returns The coded item. An item with one category (or none) has no thresholds.
+ * References: Olsson 1979, "Maximum likelihood estimation of the polychoric correlation
+ * coefficient" (first step: thresholds from the marginal proportions).
+ */
+export function codeOrdinalItem(values: ArrayLike<number>, maxCategories: number = POLYCHORIC_MAX_CATEGORIES): OrdinalItem {
+  if (!Number.isInteger(maxCategories) || maxCategories < 2 || maxCategories > 254) {
+    throw new RangeError(`codeOrdinalItem: maxCategories must be an integer from 2 to 254, got ${maxCategories}`);
+  }
+  const distinct = new Set<number>();
+  for (let i = 0; i < values.length; i++) {
+    const value = values[i];
+    if (value === Infinity || value === -Infinity) throw new RangeError(`codeOrdinalItem: value ${i} is infinite; use NaN for a missing answer`);
+    if (value !== value) continue;
+    distinct.add(value === 0 ? 0 : value);
+    if (distinct.size > maxCategories) {
+      throw new RangeError(`codeOrdinalItem: the item has more than ${maxCategories} distinct values; polychoric correlation needs ordinal items`);
+    }
+  }
+  const categories = Float64Array.from(distinct).sort();
+  const count = categories.length;
+  const index = new Map<number, number>();
+  categories.forEach((value, c) => index.set(value, c));
+  const codes = new Uint8Array(values.length);
+  const counts = new Float64Array(count);
+  let observed = 0;
+  for (let i = 0; i < values.length; i++) {
+    const value = values[i];
+    if (value !== value) {
+      codes[i] = count;
+    } else {
+      const c = index.get(value === 0 ? 0 : value) as number;
+      codes[i] = c;
+      counts[c]++;
+      observed++;
+    }
+  }
+  const limitCount = Math.max(0, count - 1);
+  const limits = new Float64Array(limitCount);
+  const lower = new Float64Array(limitCount);
+  const upper = new Float64Array(limitCount);
+  let below = 0;
+  for (let c = 0; c < limitCount; c++) {
+    below += counts[c];
+    // Both tails as exact ratios of counts, so Φ(τ) and Φ(−τ) carry no rounding from 1 − p.
+    lower[c] = below / observed;
+    upper[c] = (observed - below) / observed;
+    limits[c] = lower[c] <= 0.5 ? normalQuantile(lower[c]) : -normalQuantile(upper[c]);
+  }
+  return { categories, codes, counts, observed, thresholds: { limits, lower, upper, count: limitCount } };
+}
+
+/**
+ * Counts the contingency table of two coded items in one pass over the respondents. The
+ * table has row stride `columnCategories + 1`; row `rowCategories` and column
+ * `columnCategories` collect respondents missing on one item and are ignored afterwards.
+ * @param rowCodes Codes of the first item (missing = its category count).
+ * @param rowCategories Categories of the first item.
+ * @param columnCodes Codes of the second item.
+ * @param columnCategories Categories of the second item.
+ * @param respondents Respondents to count (the length of the code arrays).
+ * @param table Output, at least (rowCategories + 1) × (columnCategories + 1) long; overwritten.
+ * @returns The number of pair-complete respondents.
+ * References: Pearson & Pearson 1922, "On polychoric coefficients of correlation" (the
+ * contingency table of two ordinal items).
+ */
+export function countPolychoricTable(
+  rowCodes: Uint8Array,
+  rowCategories: number,
+  columnCodes: Uint8Array,
+  columnCategories: number,
+  respondents: number,
+  table: Float64Array,
+): number {
+  const stride = columnCategories + 1;
+  table.fill(0, 0, (rowCategories + 1) * stride);
+  for (let r = 0; r < respondents; r++) table[rowCodes[r] * stride + columnCodes[r]]++;
+  let n = 0;
+  for (let i = 0; i < rowCategories; i++) {
+    for (let j = 0; j < columnCategories; j++) n += table[i * stride + j];
+  }
+  return n;
+}
