@@ -112,13 +112,9 @@ async function main(argv: string[]): Promise<number> {
   if (outcome !== null && !proposal.columns.some((column) => column.column === outcome)) {
     refuse(`"${outcome}" is not a column of ${basename(dataPath)}; name the outcome column by its header.`);
   }
+  // buildWave takes the proposal as the confirmed setup; only the outcome's role is changed.
   const setup: WaveSetup = {
-    columns: proposal.columns.map((column) => ({
-      column: column.column,
-      role: outcome !== null && column.column === outcome ? 'outcome' : column.role,
-      item: column.item,
-      durationUnit: column.durationUnit ?? null,
-    })),
+    columns: proposal.columns.map((column) => (column.column === outcome ? { ...column, role: 'outcome' } : column)),
   };
   const everyone = buildWave(table, setup);
   const screening = screenRespondents(everyone);

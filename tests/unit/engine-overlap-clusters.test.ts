@@ -39,6 +39,7 @@ function handEvidence(
     vif: ids.map((id) => (options.vif && id in options.vif ? options.vif[id] : 1.5)),
     tolerance: nothing,
     r2: nothing,
+    topPartner: nothing,
     exactDependencies: options.exact ?? [],
     eigenvalues: [],
     conditionNumber: null,

@@ -126,7 +126,7 @@ describe('recommendCuts', () => {
     const evidence: EngineEvidence = {
       items, method: 'pearson', missing: 'pairwise', rows: 300, completeData: true, usable: [0, 1, 2],
       correlation, pairN: squareMatrixFromRows(ids.map(() => ids.map(() => 300))), correlationRows: 300, repaired: false, covariance: correlation,
-      vif: [6, 6, 12], tolerance: [null, null, null], r2: [null, null, null], exactDependencies: [], eigenvalues: [], conditionNumber: null,
+      vif: [6, 6, 12], tolerance: [null, null, null], r2: [null, null, null], topPartner: [null, null, null], exactDependencies: [], eigenvalues: [], conditionNumber: null,
       collinearity: { columns: [-1, 0, 1, 2], conditionIndices: [1, 40], varianceProportions: [[0.5, 0.1, 0.1, 0.1], [0.1, 0.9, 0.9, 0.9]], rowsUsed: 300 },
       itemRest: [null, null, null], alphaIfDeleted: [null, null, null], scales: [],
       descriptives: ids.map(() => ({ n: 300, mean: 3, sd: 1, missingRate: 0, floor: 0.05, ceiling: 0.05 })), warnings: [],

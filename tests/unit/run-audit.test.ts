@@ -18,9 +18,8 @@ async function demoBuiltWave() {
   const table = await readTable(new Uint8Array(readFileSync('fixtures/demo/library-pilot-1.csv')), 'library-pilot-1.csv');
   const codebook = readCodebook(await readTable(new Uint8Array(readFileSync('fixtures/demo/library-codebook.csv')), 'library-codebook.csv'));
   const proposal = proposeSetup(table, codebook);
-  const setup = { columns: proposal.columns.map((c) => ({ column: c.column, role: c.role, item: c.item, durationUnit: c.durationUnit ?? null })) };
-  const screening = screenRespondents(buildWave(table, setup));
-  return buildWave(table, setup, screening.proposedExclusions);
+  const screening = screenRespondents(buildWave(table, proposal));
+  return buildWave(table, proposal, screening.proposedExclusions);
 }
 
 /** Every number in the JSON is finite (JSON.stringify would silently turn NaN into null). */

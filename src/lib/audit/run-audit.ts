@@ -21,6 +21,7 @@ import { kaiserMeyerOlkin } from '../stats/kmo';
 import { olsRegression } from '../stats/ols-regression';
 import { parallelAnalysis } from '../stats/parallel-analysis';
 import { relativeWeights } from '../stats/relative-weights';
+import { completeRows } from '../stats/complete-rows';
 import { correlationMatrix } from '../stats/correlation-matrix';
 import { selectItems, selectRespondents, squareMatrixToRows, type ItemMatrix, type NumericalNotice } from '../stats/types';
 import {
@@ -147,7 +148,7 @@ export async function runAudit(
       msa: local >= 0 ? structure.msa[local] : null,
       itemRest: evidence.itemRest[j],
       alphaIfDeleted: evidence.alphaIfDeleted[j],
-      topPartner: local >= 0 ? topPartner(evidence, local, ids) : null,
+      topPartner: evidence.topPartner[j] === null ? null : { id: ids[evidence.topPartner[j]!.index], r: evidence.topPartner[j]!.r },
     };
   });
 
@@ -204,19 +205,7 @@ export async function runAudit(
 /** Respondents behind the structure tests: complete rows under listwise, every row under pairwise. */
 function respondentsBehind(evidence: EngineEvidence, matrix: ItemMatrix): number {
   if (evidence.missing === 'pairwise' || evidence.completeData) return matrix.rows;
-  let complete = 0;
-  for (let i = 0; i < matrix.rows; i++) {
-    let ok = true;
-    for (const j of evidence.usable) {
-      const value = matrix.data[j * matrix.rows + i];
-      if (value !== value) {
-        ok = false;
-        break;
-      }
-    }
-    if (ok) complete++;
-  }
-  return complete;
+  return completeRows(selectItems(matrix, evidence.usable)).length;
 }
 
 interface StructureStatistics {
@@ -289,21 +278,6 @@ function structureStatistics(
   };
 }
 
-function topPartner(evidence: EngineEvidence, local: number, ids: readonly string[]): { id: string; r: number } | null {
-  const order = evidence.correlation.order;
-  let best = -1;
-  let bestAbs = -1;
-  for (let k = 0; k < order; k++) {
-    if (k === local) continue;
-    const r = evidence.correlation.data[local * order + k];
-    if (Math.abs(r) > bestAbs) {
-      bestAbs = Math.abs(r);
-      best = k;
-    }
-  }
-  return best < 0 ? null : { id: ids[evidence.usable[best]], r: evidence.correlation.data[local * order + best] };
-}
-
 /**
  * The outcome model: OLS of the outcome on every item in the correlation matrix (items in an
  * exact dependency are aliased by the QR and reported as such), on the respondents with the
@@ -313,42 +287,31 @@ function topPartner(evidence: EngineEvidence, local: number, ids: readonly strin
 function fitOutcomeModel(input: AuditInput, evidence: EngineEvidence, warnings: AuditWarningJson[]): AuditOutcomeModelJson | null {
   const outcome = input.outcome!;
   const ids = evidence.usable.map((j) => input.items[j].id);
-  const predictors = selectItems(input.matrix, evidence.usable);
-  const complete: number[] = [];
-  for (let i = 0; i < predictors.rows; i++) {
-    let ok = Number.isFinite(outcome.values[i]);
-    for (let j = 0; ok && j < predictors.columns; j++) ok = Number.isFinite(predictors.data[j * predictors.rows + i]);
-    if (ok) complete.push(i);
-  }
-  if (complete.length < predictors.columns + 2) {
+  const p = evidence.usable.length;
+  const predictorsAndOutcome = selectItems(input.matrix, evidence.usable);
+  const table: ItemMatrix = { rows: predictorsAndOutcome.rows, columns: p + 1, data: concat(predictorsAndOutcome.data, outcome.values) };
+  const complete = completeRows(table);
+  if (complete.length < p + 2) {
     warnings.push({
       code: 'outcome-model-skipped',
       items: [outcome.id],
-      message: `The outcome model needs more complete respondents (${complete.length}) than items plus two (${predictors.columns + 2}); it was skipped.`,
+      message: `The outcome model needs more complete respondents (${complete.length}) than items plus two (${p + 2}); it was skipped.`,
     });
     return null;
   }
-  const x = selectRespondents(predictors, complete);
-  const y = Float64Array.from(complete, (i) => outcome.values[i]);
+  const used = selectRespondents(table, complete);
+  const x: ItemMatrix = { rows: used.rows, columns: p, data: used.data.subarray(0, used.rows * p) };
+  const y = used.data.subarray(used.rows * p);
   const model = olsRegression(x, y);
   warnings.push(...noticeWarnings(model.notices, ids));
 
   // Relative weights need an invertible predictor correlation matrix: use the predictors the QR
   // could estimate (aliased ones, such as a duplicated column, carry no weight of their own).
   const estimable = model.predictors.map((predictor, k) => (predictor.aliased ? -1 : k)).filter((k) => k >= 0);
-  const reducedX = estimable.length === x.columns ? x : selectItems(x, estimable);
-  const withOutcome = correlationMatrix(
-    { rows: reducedX.rows, columns: reducedX.columns + 1, data: concat(reducedX.data, y) },
-    { method: 'pearson', missing: 'listwise' },
-  );
-  const order = withOutcome.matrix.order;
-  const p = order - 1;
-  const rxx = { order: p, data: new Float64Array(p * p) };
-  const rxy = new Float64Array(p);
-  for (let a = 0; a < p; a++) {
-    rxy[a] = withOutcome.matrix.data[a * order + p];
-    for (let b = 0; b < p; b++) rxx.data[a * p + b] = withOutcome.matrix.data[a * order + b];
-  }
+  const withOutcome = correlationMatrix(selectItems(used, [...estimable, p]), { method: 'pearson', missing: 'listwise' }).matrix;
+  const q = estimable.length;
+  const rxx = principalSubmatrix(withOutcome, estimable.map((_, k) => k));
+  const rxy = withOutcome.data.slice(q * (q + 1), q * (q + 1) + q);
   const weights = relativeWeights(rxx, rxy);
   warnings.push(...noticeWarnings(weights.notices, estimable.map((k) => ids[k])));
   const weightOf = new Map<number, number>();

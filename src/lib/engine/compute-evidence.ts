@@ -14,6 +14,7 @@ import { alphaIfItemDeleted } from '../stats/alpha-if-item-deleted';
 import { belsleyCollinearity } from '../stats/belsley-collinearity';
 import { conditionNumber } from '../stats/condition-number';
 import { correlationMatrix, usableItems } from '../stats/correlation-matrix';
+import { completeRows } from '../stats/complete-rows';
 import { covarianceMatrix } from '../stats/covariance-matrix';
 import { cronbachAlpha } from '../stats/cronbach-alpha';
 import { itemDescriptives } from '../stats/item-descriptives';
@@ -212,14 +213,13 @@ export function computeEvidence(
     return {
       items, method: settings.method, missing: settings.missing, rows: matrix.rows, completeData: true, usable,
       correlation: empty, pairN: empty, correlationRows: 0, repaired: false, covariance: empty,
-      vif: nothing, tolerance: nothing, r2: nothing, exactDependencies: [], eigenvalues: [], conditionNumber: null,
+      vif: nothing, tolerance: nothing, r2: nothing, topPartner: nothing, exactDependencies: [], eigenvalues: [], conditionNumber: null,
       collinearity: null, itemRest: nothing, alphaIfDeleted: nothing, scales: [], descriptives, warnings,
     };
   }
 
   const data = usable.length === items.length ? matrix : selectItems(matrix, usable);
-  let completeData = true;
-  for (let t = 0; t < data.data.length && completeData; t++) if (data.data[t] !== data.data[t]) completeData = false;
+  const completeData = completeRows(data).length === data.rows;
 
   const correlation = correlationMatrix(data, { method: settings.method, missing: settings.missing });
   warnings.push(...warningsFromNotices(correlation.notices, items, usable));
@@ -251,6 +251,7 @@ export function computeEvidence(
     vif: overlap.vif,
     tolerance: overlap.tolerance,
     r2: overlap.r2,
+    topPartner: overlap.topPartner,
     exactDependencies: overlap.exactDependencies,
     eigenvalues: overlap.eigenvalues,
     conditionNumber: overlap.conditionNumber,
@@ -268,6 +269,8 @@ export interface InflationAndSpectrum {
   readonly vif: (number | null)[];
   readonly tolerance: (number | null)[];
   readonly r2: (number | null)[];
+  /** Each usable item's strongest partner by |r| (index into items[]), null outside the matrix. */
+  readonly topPartner: ({ readonly index: number; readonly r: number } | null)[];
   readonly exactDependencies: number[][];
   readonly eigenvalues: number[];
   readonly conditionNumber: number | null;
@@ -293,15 +296,18 @@ export function inflationAndSpectrum(correlation: SquareMatrix, items: readonly 
   const vif = new Array<number | null>(items.length).fill(null);
   const tolerance = new Array<number | null>(items.length).fill(null);
   const r2 = new Array<number | null>(items.length).fill(null);
+  const topPartner = new Array<{ index: number; r: number } | null>(items.length).fill(null);
   inflation.items.forEach((entry, k) => {
     vif[usable[k]] = entry.vif;
     tolerance[usable[k]] = entry.tolerance;
     r2[usable[k]] = entry.r2;
+    topPartner[usable[k]] = entry.topPartner === null ? null : { index: usable[entry.topPartner.index], r: entry.topPartner.r };
   });
   return {
     vif,
     tolerance,
     r2,
+    topPartner,
     exactDependencies: inflation.exactDependencies.map((group) => group.map((k) => usable[k])),
     eigenvalues: Array.from(eigen.values),
     conditionNumber: condition.value,

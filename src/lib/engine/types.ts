@@ -92,6 +92,8 @@ export interface EngineEvidence {
   readonly vif: readonly (number | null)[];
   readonly tolerance: readonly (number | null)[];
   readonly r2: readonly (number | null)[];
+  /** Each item's strongest partner by |r| (index into items[] and the signed r); null outside the matrix. */
+  readonly topPartner: readonly ({ readonly index: number; readonly r: number } | null)[];
   /** Groups of items (indices into items[]) that are exactly linearly dependent. */
   readonly exactDependencies: readonly (readonly number[])[];
   /** Eigenvalues of the correlation matrix, descending. */
