@@ -1,5 +1,6 @@
 import { useState, type FormEvent } from 'react';
 import { callApi } from './api-client';
+import { formatDay } from './date-words';
 
 interface TokenView {
   id: string;
@@ -8,8 +9,6 @@ interface TokenView {
   createdAt: string;
   lastUsedAt: string | null;
 }
-
-const day = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short', year: 'numeric' });
 
 /** Lists, creates and revokes personal API tokens; a new token's secret is shown once. */
 export default function TokenManager({ initialTokens }: { initialTokens: TokenView[] }) {
@@ -77,8 +76,8 @@ export default function TokenManager({ initialTokens }: { initialTokens: TokenVi
               <tr key={token.id}>
                 <td className="font-semibold">{token.name}</td>
                 <td><code className="font-mono text-sm">{token.prefix}…</code></td>
-                <td className="num">{day.format(new Date(token.createdAt))}</td>
-                <td className="num text-ink-soft">{token.lastUsedAt ? day.format(new Date(token.lastUsedAt)) : 'never'}</td>
+                <td className="num">{formatDay(token.createdAt)}</td>
+                <td className="num text-ink-soft">{token.lastUsedAt ? formatDay(token.lastUsedAt) : 'never'}</td>
                 <td className="text-right">
                   <button type="button" className="text-sm font-semibold text-brick-700 hover:underline" onClick={() => void revoke(token)}>Revoke</button>
                 </td>

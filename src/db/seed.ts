@@ -12,9 +12,9 @@ import type { Db } from './client';
 import type { TeamRole } from './schema';
 import { storeFile } from './stored-files';
 import { logActivity } from '../lib/server/activity';
-import { buildWave, encodeMatrix, proposeSetup, screenRespondents, type ItemCounts } from '../lib/ingest';
+import { buildWave, encodeMatrix, proposeSetup, screenRespondents } from '../lib/ingest';
 import { readWaveFiles } from '../lib/server/waves/read-wave-files';
-import { itemDescription, setupOf, STORED_SETUP_VERSION, withoutIgnoredExamples, type StoredWaveSetup } from '../lib/server/waves/stored-wave';
+import { confirmedParts, itemDescription, setupOf, STORED_SETUP_VERSION, withoutIgnoredExamples, type StoredWaveSetup } from '../lib/server/waves/stored-wave';
 
 /** The password of every demo account (printed in the README). */
 export const demoPassword = 'paredown-demo';
@@ -84,26 +84,22 @@ export async function seedDemo(db: Db, options: SeedOptions): Promise<SeedOutcom
     {},
   );
   const proposal = proposeSetup(read.table, read.codebook);
-  const setup = { columns: setupOf(proposal.columns) };
-  const screening = screenRespondents(buildWave(read.table, setup));
-  const wave = buildWave(read.table, setup, screening.proposedExclusions);
-  const nullable = (value: number): number | null => (Number.isFinite(value) ? value : null);
+  const screening = screenRespondents(buildWave(read.table, proposal));
+  const wave = buildWave(read.table, proposal, screening.proposedExclusions);
   // The setup document as an upload followed by its confirmation stores it
   // (src/lib/server/waves/upload-wave.ts and confirm-wave.ts; StoredWaveSetup in stored-wave.ts):
   // the proposal without the example cells of ignored columns (the demo's e-mail addresses), how
   // the file was read, its warnings, and the outcome columns, so audits can fit the outcome model.
   const storedSetup: StoredWaveSetup = {
     version: STORED_SETUP_VERSION,
-    columns: setup.columns,
+    columns: setupOf(proposal.columns),
     proposal: withoutIgnoredExamples(proposal.columns),
     respondents: proposal.respondents,
     source: read.source,
     warnings: [...read.warnings, ...proposal.warnings],
     buildWarnings: wave.warnings,
     screeningNote: null,
-    itemCounts: Object.fromEntries(wave.items.map((item): [string, ItemCounts] => [item.id, item.counts])),
-    outcomes: wave.outcomes.map(({ id, header, values, counts }) => ({ id, header, values: Array.from(values, nullable), counts })),
-    weight: wave.weight ? Array.from(wave.weight, nullable) : null,
+    ...confirmedParts(wave),
   };
   const passwordHash = await bcrypt.hash(demoPassword, 10);
 

@@ -1,11 +1,10 @@
 import { useEffect, useState } from 'react';
 import type { AuditSummary } from '../../lib/server/audit-jobs/audit-jobs';
 import { callApi } from '../api-client';
+import { formatRecentTime } from '../date-words';
 import AuditProgressBar from './AuditProgressBar';
 import { formatDuration, settingsLine, statusWords } from './audit-words';
 import { useAuditStatus, type AuditState } from './use-audit-status';
-
-const when = new Intl.DateTimeFormat('en-GB', { day: 'numeric', month: 'short', hour: '2-digit', minute: '2-digit' });
 
 /**
  * One audit as a live row: its settings, then a progress bar while it waits or runs, a link to
@@ -38,7 +37,7 @@ export default function AuditStatusRow({ initial, canRun, onStatus }: { initial:
           {audit.waveLabel ?? 'Audit'}
           <span className={`chip ml-2 ${audit.status === 'failed' ? 'border-brick-700 text-brick-700' : audit.status === 'done' ? 'chip-owner' : ''}`}>{statusWords[audit.status] ?? audit.status}</span>
         </span>
-        {audit.createdAt && <span className="text-xs text-ink-faint">{when.format(new Date(audit.createdAt))}</span>}
+        {audit.createdAt && <span className="text-xs text-ink-faint">{formatRecentTime(audit.createdAt)}</span>}
       </div>
       {settings && <p className="text-xs text-ink-soft">{settingsLine(settings)}</p>}
       {(audit.status === 'queued' || audit.status === 'running') && <AuditProgressBar status={audit.status} stage={audit.stage} percent={audit.percent} />}

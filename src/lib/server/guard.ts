@@ -86,6 +86,22 @@ export function requireStudyAccess(
 }
 
 /**
+ * Runs a guard and turns its 404 into null: pages then answer a bare 404, and the wave and audit
+ * guards answer their own 404 (never revealing what exists). Every other error passes through.
+ * @param check the guard call.
+ * @throws whatever `check` throws except an HttpError with status 404.
+ * @returns what `check` returned, or null when it answered 404.
+ */
+export function nullWhenNotFound<T>(check: () => T): T | null {
+  try {
+    return check();
+  } catch (error) {
+    if (error instanceof HttpError && error.status === 404) return null;
+    throw error;
+  }
+}
+
+/**
  * The caller's role in a team, for pages deciding what to show (null when not a member).
  * @param user the signed-in user or null.
  * @param teamId the team.

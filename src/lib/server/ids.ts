@@ -1,5 +1,6 @@
 /** Random identifiers and token hashing. */
-import { createHash, randomBytes } from 'node:crypto';
+import { randomBytes } from 'node:crypto';
+import { contentHash } from '../ingest/content-hash';
 
 /** A new random id (16 url-safe characters, 96 bits). */
 export function newId(): string {
@@ -15,7 +16,7 @@ export function newSecretToken(prefix = ''): string {
   return prefix + randomBytes(32).toString('base64url');
 }
 
-/** sha256 of a text, hex. */
+/** sha256 of a text (UTF-8) or bytes, hex (contentHash of the bytes). */
 export function sha256Hex(text: string | Buffer): string {
-  return createHash('sha256').update(text).digest('hex');
+  return contentHash(typeof text === 'string' ? Buffer.from(text, 'utf8') : text);
 }

@@ -5,6 +5,7 @@
  */
 import { desc, eq, inArray, or } from 'drizzle-orm';
 import { emailOutbox } from '../../db/schema';
+import { can } from '../permissions';
 import { getConfig } from './config';
 import type { CurrentUser } from './current-user';
 import { getDb } from './db';
@@ -29,7 +30,8 @@ export function outboxEnabled(): boolean {
  * @param limit at most this many.
  */
 export function listOutbox(user: CurrentUser, limit = 100): OutboxMail[] {
-  const ownedTeams = user.memberships.filter((m) => m.role === 'owner').map((m) => m.teamId);
+  // Those who manage a team (its owners) also see the mail sent on its behalf.
+  const ownedTeams = user.memberships.filter((m) => can(m.role, 'manage:team')).map((m) => m.teamId);
   const visible = ownedTeams.length > 0 ? or(eq(emailOutbox.to, user.email), inArray(emailOutbox.teamId, ownedTeams)) : eq(emailOutbox.to, user.email);
   return getDb()
     .select({ id: emailOutbox.id, to: emailOutbox.to, subject: emailOutbox.subject, text: emailOutbox.text, createdAt: emailOutbox.createdAt })

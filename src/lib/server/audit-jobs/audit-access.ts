@@ -8,8 +8,8 @@ import { audits, waves } from '../../../db/schema';
 import type { Action } from '../../permissions';
 import type { CurrentUser, Membership } from '../current-user';
 import { getDb } from '../db';
-import { HttpError, fail } from '../errors';
-import { requireStudyAccess, requireUser, type GuardLocals, type StudyRow } from '../guard';
+import { fail } from '../errors';
+import { nullWhenNotFound, requireStudyAccess, requireUser, type GuardLocals, type StudyRow } from '../guard';
 
 /**
  * The audit's study and the caller's membership, when the caller may take the action.
@@ -33,10 +33,7 @@ export function requireAuditAccess(
     .where(eq(audits.id, auditId))
     .get();
   if (!row) throw notFound();
-  try {
-    return { ...requireStudyAccess(locals, row.studyId, action), waveId: row.waveId };
-  } catch (error) {
-    if (error instanceof HttpError && error.status === 404) throw notFound();
-    throw error;
-  }
+  const access = nullWhenNotFound(() => requireStudyAccess(locals, row.studyId, action));
+  if (!access) throw notFound();
+  return { ...access, waveId: row.waveId };
 }

@@ -9,12 +9,12 @@
  * again exactly; their hash, with a digest of the wave's exclusions (the one part of a confirmed
  * wave that may still change), decides whether a stored result is reused.
  */
-import { createHash } from 'node:crypto';
 import { z } from 'zod';
 import { AUDIT_SCHEMA } from '../../audit/audit-json';
 import { DEFAULT_ENGINE_SETTINGS, resolveEngineSettings, type EngineSettings } from '../../engine/engine-settings';
 import type { StudySettings } from '../../../db/schema';
 import { HttpError } from '../errors';
+import { sha256Hex } from '../ids';
 
 /** Random data sets of parallel analysis when the request does not say (runAudit's default). */
 export const DEFAULT_PARALLEL_ITERATIONS = 100;
@@ -163,7 +163,7 @@ export function canonicalJson(value: unknown): string {
  */
 export function auditSettingsHash(settings: ResolvedAuditSettings, exclusions: readonly number[]): string {
   const input = { schema: AUDIT_SCHEMA, settings, exclusions: [...exclusions].sort((a, b) => a - b) };
-  return createHash('sha256').update(canonicalJson(input)).digest('hex');
+  return sha256Hex(canonicalJson(input));
 }
 
 /** The engine's own defaults, for showing beside each field (no study constraints applied). */

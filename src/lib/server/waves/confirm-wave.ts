@@ -13,7 +13,7 @@ import { eq } from 'drizzle-orm';
 import { waveItems, waves } from '../../../db/schema';
 import {
   buildWave, checkExclusions, encodeMatrix, screenRespondents, validateSetup, waveSetupSchema,
-  type BuiltWave, type ItemCounts, type ScreeningOptions, type ScreeningResult, type WaveSetup,
+  type BuiltWave, type ScreeningOptions, type ScreeningResult, type WaveSetup,
 } from '../../ingest';
 import { logActivity } from '../activity';
 import type { CurrentUser } from '../current-user';
@@ -21,7 +21,7 @@ import { getDb } from '../db';
 import { fail } from '../errors';
 import type { StudyRow } from '../guard';
 import { readStoredFile, readWaveFiles, serverReadLimits } from './read-wave-files';
-import { itemDescription, parseStoredSetup, setupOf, STORED_SETUP_VERSION, type StoredOutcome, type StoredWaveSetup, type WaveRow } from './stored-wave';
+import { confirmedParts, itemDescription, parseStoredSetup, setupOf, STORED_SETUP_VERSION, type StoredWaveSetup, type WaveRow } from './stored-wave';
 import { assembleView, storedWaveView, type ItemView, type WaveView } from './wave-view';
 
 /** What the designer sends to confirm a wave. */
@@ -45,8 +45,6 @@ export interface ConfirmOutcome {
 
 /** Wave items inserted per statement (each binds 11 parameters). */
 const ITEM_ROWS_PER_INSERT = 500;
-
-const nullable = (value: number): number | null => (Number.isFinite(value) ? value : null);
 
 function normalisedSetup(setup: unknown): string | null {
   const parsed = waveSetupSchema.safeParse(setup);
@@ -88,8 +86,6 @@ async function rebuild(row: WaveRow, setup: unknown, exclusions: readonly number
     if (error instanceof RangeError) throw fail.badRequest(error.message.replace(/^screenRespondents: /, 'Screening: '), 'invalid-screening');
     throw error;
   }
-  const itemCounts: Record<string, ItemCounts> = Object.fromEntries(wave.items.map((item) => [item.id, item.counts]));
-  const outcomes: StoredOutcome[] = wave.outcomes.map((outcome) => ({ id: outcome.id, header: outcome.header, values: Array.from(outcome.values, nullable), counts: outcome.counts }));
   const document: StoredWaveSetup = {
     ...before,
     version: STORED_SETUP_VERSION,
@@ -97,9 +93,7 @@ async function rebuild(row: WaveRow, setup: unknown, exclusions: readonly number
     source: before.source ?? read.source,
     buildWarnings: wave.warnings,
     screeningNote: null,
-    itemCounts,
-    outcomes,
-    weight: wave.weight ? Array.from(wave.weight, nullable) : null,
+    ...confirmedParts(wave),
   };
   return { setup: confirmed, wave, screening, document };
 }

@@ -43,12 +43,12 @@ export class UploadFiles {
    * @param bytes the bytes.
    * @param name the name it was uploaded under.
    * @param mediaType its media type.
+   * @param hash the bytes' contentHash, when the caller has it already.
    * @returns the record.
    */
-  store(tx: Pick<Db, 'insert' | 'select'>, bytes: Uint8Array, name: string, mediaType: string | null): StoredFileRecord {
-    const hash = contentHash(bytes);
+  store(tx: Pick<Db, 'insert' | 'select'>, bytes: Uint8Array, name: string, mediaType: string | null, hash = contentHash(bytes)): StoredFileRecord {
     const existed = tx.select({ hash: storedFiles.hash }).from(storedFiles).where(eq(storedFiles.hash, hash)).get();
-    const record = storeFile(tx, this.uploadDir, bytes, name, mediaType);
+    const record = storeFile(tx, this.uploadDir, bytes, name, mediaType, hash);
     // A record this attempt created: a rollback takes it away, and then the file must go too.
     if (!existed && !this.fresh.some((entry) => entry.hash === record.hash)) this.fresh.push(record);
     return record;

@@ -259,3 +259,21 @@ export function itemDescription(item: BuiltWave['items'][number]) {
     valueLabels: item.labels.length > 0 ? Object.fromEntries(item.labels.map((label) => [String(label.code), label.label])) : null,
   };
 }
+
+const finiteOrNull = (value: number): number | null => (Number.isFinite(value) ? value : null);
+
+/**
+ * What a confirmed wave's setup document keeps of its built wave besides the columns: cell
+ * counts per item, the outcome columns and the weights, with missing values as null (JSON).
+ * Shared by confirmation and the demo seed, so both store the same shape.
+ * @param wave the wave built under the confirmed setup.
+ * @returns `itemCounts`, `outcomes` and `weight` of a {@link StoredWaveSetup}.
+ * References: docs/decisions/005-storing-waves.md (what a confirmed wave keeps).
+ */
+export function confirmedParts(wave: BuiltWave): Required<Pick<StoredWaveSetup, 'itemCounts' | 'outcomes' | 'weight'>> {
+  return {
+    itemCounts: Object.fromEntries(wave.items.map((item): [string, ItemCounts] => [item.id, item.counts])),
+    outcomes: wave.outcomes.map(({ id, header, values, counts }) => ({ id, header, values: Array.from(values, finiteOrNull), counts })),
+    weight: wave.weight ? Array.from(wave.weight, finiteOrNull) : null,
+  };
+}

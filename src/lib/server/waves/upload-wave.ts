@@ -38,7 +38,7 @@ interface Preview {
 
 function previewScreening(table: WaveTable, proposal: ProposedSetup): Preview {
   try {
-    const wave = buildWave(table, { columns: setupOf(proposal.columns) });
+    const wave = buildWave(table, proposal);
     return { screening: screenRespondents(wave), respondentIds: wave.respondentIds, warnings: wave.warnings, note: null };
   } catch (error) {
     if (!isWaveRefusal(error)) throw error;
@@ -101,9 +101,9 @@ export async function uploadWave(user: CurrentUser, study: StudyRow, form: Uploa
         buildWarnings: preview.warnings,
         screeningNote: preview.note,
       };
-      const responsesFile = files.store(tx, form.file.bytes, form.file.name, mediaTypeOf(read.table.source.format));
-      const codebookFile = form.codebook
-        ? files.store(tx, form.codebook.bytes, form.codebook.name, mediaTypeOf(extensionFormat(form.codebook.name)))
+      const responsesFile = files.store(tx, form.file.bytes, form.file.name, mediaTypeOf(read.table.source.format), fileHash);
+      const codebookFile = form.codebook && codebookHash !== null
+        ? files.store(tx, form.codebook.bytes, form.codebook.name, mediaTypeOf(extensionFormat(form.codebook.name)), codebookHash)
         : null;
       const id = newId();
       const label = form.label ?? nextPilotLabel(tx, study.id);

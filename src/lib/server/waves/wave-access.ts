@@ -7,8 +7,8 @@ import { waves } from '../../../db/schema';
 import type { Action } from '../../permissions';
 import type { CurrentUser, Membership } from '../current-user';
 import { getDb } from '../db';
-import { HttpError, fail } from '../errors';
-import { requireStudyAccess, requireUser, type GuardLocals, type StudyRow } from '../guard';
+import { fail } from '../errors';
+import { nullWhenNotFound, requireStudyAccess, requireUser, type GuardLocals, type StudyRow } from '../guard';
 import type { WaveRow } from './stored-wave';
 
 /**
@@ -29,10 +29,7 @@ export function requireWaveAccess(
   const notFound = () => fail.notFound('No such wave among your teams.', 'wave-not-found');
   const wave = getDb().select().from(waves).where(eq(waves.id, waveId)).get();
   if (!wave) throw notFound();
-  try {
-    return { ...requireStudyAccess(locals, wave.studyId, action), wave };
-  } catch (error) {
-    if (error instanceof HttpError && error.status === 404) throw notFound();
-    throw error;
-  }
+  const access = nullWhenNotFound(() => requireStudyAccess(locals, wave.studyId, action));
+  if (!access) throw notFound();
+  return { ...access, wave };
 }
