@@ -5,6 +5,10 @@
  *
  * The proposed column setup and the proposed screening exclusions are accepted as they are, as a
  * designer who confirms the proposal would; --keep-all audits every respondent instead.
+ * Settings: every setting of the settings table (src/lib/audit/settings-table.ts) has a flag
+ * (`--strong-pair-threshold 0.85`), and `--settings FILE.json` names any of them by key; flags
+ * win over the file. Both are checked by the same table as the API's requests: an unknown key or
+ * a value out of range is refused with one sentence (exit 2).
  * Exit codes: 0 audited (warnings are in the JSON), 2 input refused (one sentence on standard
  * error: what is wrong and how to fix it), 1 internal fault.
  */
@@ -12,25 +16,31 @@ import { readFile, writeFile } from 'node:fs/promises';
 import { basename } from 'node:path';
 import { parseArgs } from 'node:util';
 import { auditInputFromWave, AuditInputError } from '../lib/audit/audit-input';
-import { runAudit, type AuditSettings } from '../lib/audit/run-audit';
+import { runAudit } from '../lib/audit/run-audit';
+import { auditSettingsSchema } from '../lib/audit/settings-schema';
+import { AUDIT_SETTINGS, AuditSettingsError, auditSettingsProblems, requestFromFlags, resolveAuditSettings } from '../lib/audit/settings-table';
 import { buildWave, isWaveRefusal, proposeSetup, readCodebook, readTable, screenRespondents } from '../lib/ingest';
 import type { WaveSetup } from '../lib/ingest/types';
 
+/** The flags of the settings table, e.g. `--method pearson|spearman|polychoric`, `--bootstrap N`. */
+const settingFlags = AUDIT_SETTINGS.filter((setting) => setting.flag !== null);
+
+function placeholder(domain: (typeof AUDIT_SETTINGS)[number]['domain']): string {
+  if (domain.kind === 'choice') return domain.choices.join('|');
+  if (domain.kind === 'list') return 'ID,ID';
+  if (domain.kind === 'text') return 'COLUMN';
+  return domain.integer ? 'N' : 'X';
+}
+
 const USAGE =
-  'usage: npm run --silent audit -- DATA [--codebook FILE] [--sheet NAME] [--method pearson|spearman|polychoric] ' +
-  '[--missing pairwise|listwise] [--outcome COLUMN] [--locked ID,ID] [--bootstrap N] [--seed N] [--settings FILE.json] [--keep-all] [--out FILE]';
+  'usage: npm run --silent audit -- DATA [--codebook FILE] [--sheet NAME] ' +
+  settingFlags.map((setting) => `[--${setting.flag} ${placeholder(setting.domain)}]`).join(' ') +
+  ' [--settings FILE.json] [--keep-all] [--out FILE]';
 
 class Refusal extends Error {}
 
 function refuse(message: string): never {
   throw new Refusal(message);
-}
-
-function integerOption(name: string, value: string | undefined, min: number): number | undefined {
-  if (value === undefined) return undefined;
-  const number = Number(value);
-  if (!Number.isInteger(number) || number < min) refuse(`--${name} must be a whole number of at least ${min}, got "${value}".`);
-  return number;
 }
 
 async function readSettingsFile(path: string | undefined): Promise<Record<string, unknown>> {
@@ -68,12 +78,7 @@ async function main(argv: string[]): Promise<number> {
       options: {
         codebook: { type: 'string' },
         sheet: { type: 'string' },
-        method: { type: 'string' },
-        missing: { type: 'string' },
-        outcome: { type: 'string' },
-        locked: { type: 'string' },
-        bootstrap: { type: 'string' },
-        seed: { type: 'string' },
+        ...Object.fromEntries(settingFlags.map((setting) => [setting.flag as string, { type: 'string' as const }])),
         settings: { type: 'string' },
         'keep-all': { type: 'boolean' },
         out: { type: 'string' },
@@ -89,14 +94,22 @@ async function main(argv: string[]): Promise<number> {
     return 0;
   }
   if (positionals.length !== 1) refuse(`Give exactly one data file. ${USAGE}`);
-  const method = values.method ?? 'pearson';
-  if (!['pearson', 'spearman', 'polychoric'].includes(method)) refuse(`--method must be pearson, spearman or polychoric, got "${method}".`);
-  const missing = values.missing ?? 'pairwise';
-  if (!['pairwise', 'listwise'].includes(missing)) refuse(`--missing must be pairwise or listwise, got "${missing}".`);
-
-  const bootstrap = integerOption('bootstrap', values.bootstrap, 0);
-  const seed = integerOption('seed', values.seed, 0);
-  const extra = await readSettingsFile(values.settings);
+  // Flags first (named as flags), then the file (named by key), then the two together through
+  // the request schema the API uses, resolved to the one stored shape.
+  const fromFlags = requestFromFlags(values as Record<string, string | undefined>);
+  const flagProblems = auditSettingsProblems(fromFlags, 'flag');
+  if (flagProblems.length > 0) refuse(flagProblems[0]);
+  const fromFile = await readSettingsFile(values.settings);
+  const fileProblems = auditSettingsProblems(fromFile);
+  if (fileProblems.length > 0) refuse(`The settings file "${values.settings}": ${fileProblems[0]}`);
+  const request = auditSettingsSchema.parse({ ...fromFile, ...fromFlags });
+  let settings;
+  try {
+    settings = resolveAuditSettings(request, {}, { allowTestFaults: false });
+  } catch (error) {
+    if (error instanceof AuditSettingsError) refuse(error.message);
+    throw error;
+  }
 
   const dataPath = positionals[0];
   const table = await readTable(await readBytes(dataPath, 'data file'), basename(dataPath), {}, { sheet: values.sheet });
@@ -108,7 +121,7 @@ async function main(argv: string[]): Promise<number> {
     codebook = readCodebook(table.codebookTable);
   }
   const proposal = proposeSetup(table, codebook);
-  const outcome = values.outcome ?? null;
+  const outcome = settings.outcome;
   if (outcome !== null && !proposal.columns.some((column) => column.column === outcome)) {
     refuse(`"${outcome}" is not a column of ${basename(dataPath)}; name the outcome column by its header.`);
   }
@@ -125,16 +138,7 @@ async function main(argv: string[]): Promise<number> {
       (exclusions.length > 0 ? `; left out ${exclusions.length} flagged by screening (--keep-all keeps them).\n` : '.\n'),
   );
 
-  const locked = values.locked ? values.locked.split(',').map((id) => id.trim()).filter(Boolean) : [];
-  const input = auditInputFromWave(wave, { outcome, locked });
-  const settings: AuditSettings = {
-    ...extra,
-    method: method as AuditSettings['method'],
-    missing: missing as AuditSettings['missing'],
-    outcome,
-    ...(bootstrap !== undefined ? { bootstrap } : {}),
-    ...(seed !== undefined ? { seed } : {}),
-  };
+  const input = auditInputFromWave(wave, { outcome, locked: settings.locked });
   let lastPercent = -1;
   const audit = await runAudit(input, settings, (stage, fraction) => {
     const percent = Math.floor(fraction * 100);

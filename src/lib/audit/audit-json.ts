@@ -6,16 +6,25 @@
  * entry in `warnings`, never NaN.
  */
 import type { CorrelationMethod, MissingPolicy } from '../stats/types';
+import type { CutReason } from '../engine/recommend-cuts';
 
 export const AUDIT_SCHEMA = 'paredown.audit/1' as const;
 
+/**
+ * The audit's settings, echoed unchanged from the one stored shape (src/lib/audit/settings-table.ts,
+ * `StoredAuditSettings`): every engine setting in the table's order (method, missing, the
+ * thresholds, constraints, bootstrap and seed), then `outcome`, `locked` (sorted item ids) and
+ * `parallelIterations`; `testFault` only on a test server that injected one.
+ */
 export interface AuditSettingsJson {
   method: CorrelationMethod;
   missing: MissingPolicy;
   outcome: string | null;
   seed: number;
   bootstrap: number;
-  /** Engine thresholds and the designer's constraints (added keys, see the engine's docs). */
+  locked: readonly string[];
+  parallelIterations: number;
+  /** Engine thresholds and the designer's constraints (added keys, see the settings table). */
   [extra: string]: unknown;
 }
 
@@ -60,7 +69,10 @@ export interface AuditRecommendationJson {
   actions: { item: string; action: 'drop' | 'merge' | 'reword' | 'keep'; into: string | null; [extra: string]: unknown }[];
   evidence: { maxR: number | null; conditionIndex: number | null; vifBefore: number | null; vifAfter: number | null; [extra: string]: unknown };
   stability: number | null;
+  /** One sentence, worded by src/lib/words from `because`. */
   reason: string;
+  /** The structured reason behind `reason` (added key; absent from results stored before it). */
+  because?: CutReason;
   [extra: string]: unknown;
 }
 

@@ -12,7 +12,6 @@
 import { runEngine } from '../engine/run-engine';
 import { computeEvidence } from '../engine/compute-evidence';
 import { principalSubmatrix } from '../engine/principal-submatrix';
-import { resolveEngineSettings, type EngineSettings } from '../engine/engine-settings';
 import type { EngineEvidence, EngineItem, EngineWarning } from '../engine/types';
 import type { Recommendation } from '../engine/recommend-cuts';
 import type { AfterCut } from '../engine/simulate-cut';
@@ -34,6 +33,8 @@ import {
   type AuditRecommendationJson,
   type AuditWarningJson,
 } from './audit-json';
+import { engineSettingsOf, resolveAuditSettings, type AuditSettingsRequest } from './settings-table';
+import { cautionSentence, reasonSentence } from '../words';
 
 /** One item as the audit receives it (from the confirmed column setup). */
 export interface AuditItemInput extends EngineItem {
@@ -55,12 +56,11 @@ export interface AuditInput {
   readonly outcome: { readonly id: string; readonly values: Float64Array } | null;
 }
 
-/** Audit settings: the engine's settings plus the outcome. Anything unset takes its default. */
-export interface AuditSettings extends Partial<EngineSettings> {
-  readonly outcome?: string | null;
-  /** Random data sets for parallel analysis. Default 100. */
-  readonly parallelIterations?: number;
-}
+/**
+ * Audit settings: any subset of the settings table (settings-table.ts); anything unset takes its
+ * default, and the locked items default to the items the input marks locked.
+ */
+export type AuditSettings = Readonly<AuditSettingsRequest>;
 
 /** Progress of an audit: a stage name and the overall share done, 0 to 1. */
 export type AuditProgress = (stage: string, fraction: number) => void;
@@ -86,8 +86,15 @@ export async function runAudit(
   onProgress?: AuditProgress,
   signal?: AbortSignal,
 ): Promise<AuditJson> {
-  const { outcome: outcomeId = null, parallelIterations = 100, ...engineOverrides } = settings;
-  const engineSettings = resolveEngineSettings(engineOverrides);
+  const lockedItems = input.items.filter((item) => item.locked).map((item) => item.id);
+  // The stored shape (settings-table.ts), echoed unchanged as the JSON's `settings`. testFault is
+  // accepted here because a test server's stored settings may carry it; the front doors refuse it.
+  const resolved = resolveAuditSettings({ ...settings, locked: settings.locked ?? lockedItems }, {}, { allowTestFaults: true });
+  const { outcome: outcomeId, parallelIterations } = resolved;
+  const engineSettings = engineSettingsOf(resolved);
+  if (resolved.locked.length !== new Set(lockedItems).size || lockedItems.some((id) => !resolved.locked.includes(id))) {
+    throw new RangeError(`runAudit: the settings lock ${resolved.locked.join(', ') || 'no items'} but the input marks ${lockedItems.join(', ') || 'none'} locked`);
+  }
   if (input.matrix.columns !== input.items.length) {
     throw new RangeError(`runAudit: the matrix has ${input.matrix.columns} columns but ${input.items.length} items were described`);
   }
@@ -155,7 +162,7 @@ export async function runAudit(
   const collinearity = evidence.collinearity;
   return {
     schema: AUDIT_SCHEMA,
-    settings: { ...engineSettings, outcome: outcomeId, parallelIterations },
+    settings: { ...resolved },
     input: {
       rows: input.rowsInWave,
       respondentsUsed: input.matrix.rows,
@@ -370,8 +377,9 @@ function recommendationJson(recommendation: Recommendation): AuditRecommendation
     stability: recommendation.stability,
     unstable: recommendation.unstable,
     overlapStability: recommendation.overlapStability,
-    reason: recommendation.reason,
-    cautions: [...recommendation.cautions],
+    reason: reasonSentence(recommendation.because),
+    cautions: recommendation.cautions.map(cautionSentence),
+    because: recommendation.because,
   };
 }
 
