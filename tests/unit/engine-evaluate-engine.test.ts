@@ -24,7 +24,7 @@ describe('evaluateEngineOnWaves', () => {
   });
 
   it('counts a missed pair against recall (a threshold no planted pair reaches finds nothing)', async () => {
-    const result = await evaluateEngineOnWaves({ plantedWaves: 3, cleanWaves: 0, settings: { strongPairThreshold: 1, conditionIndexThreshold: 1e12 } });
+    const result = await evaluateEngineOnWaves({ plantedWaves: 3, cleanWaves: 0, settings: { strongPairThreshold: 1, conditionIndexThreshold: 1e6 } }); // 1e6: the top of the table's range (docs/decisions/006)
     expect(result.truePositives).toBe(0);
     expect(result.recall).toBe(0);
     expect(result.misses.every((line) => line.includes('missed pair'))).toBe(true);
