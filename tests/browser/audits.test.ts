@@ -22,6 +22,12 @@ describe('audits in Chromium', () => {
       await expect(form.locator('#audit-strongPairThreshold').inputValue()).resolves.toBe('0.8');
       // The demo study's own constraint (src/db/seed.ts: minutesPerItem 0.15) is shown as its default.
       await expect(form.locator('#audit-secondsPerItem').inputValue()).resolves.toBe('9');
+      // Every setting of the table has a field: the further thresholds show the engine's defaults
+      // (src/lib/engine/engine-settings.ts: merge at |r| 0.95, interval coverage 95%).
+      await form.locator('summary:has-text("Further thresholds")').click();
+      await expect(form.locator('#audit-mergeCorrelation').inputValue()).resolves.toBe('0.95');
+      await expect(form.locator('#audit-confidenceLevel').inputValue()).resolves.toBe('95');
+      await expect(form.locator('#audit-parallelIterations').inputValue()).resolves.toBe('100');
       await form.locator('#audit-method').selectOption('pearson');
       await form.locator('#audit-outcome').selectOption('overall_sat');
       await form.locator('#audit-bootstrap').fill('200');
