@@ -111,7 +111,7 @@ function dataSection(input: MemoInput): MemoBlock[] {
     blocks.push({
       kind: 'bullets',
       items: audit.warnings.map((warning) =>
-        warning.items.length > 0 && !warning.items.some((id) => warning.message.includes(id)) ? `${warning.items.join(', ')}: ${warning.message}` : warning.message,
+        warning.items.length > 0 && warning.items.length <= 4 && !warning.items.some((id) => warning.message.includes(id)) ? `${warning.items.join(', ')}: ${warning.message}` : warning.message,
       ),
     });
   }

@@ -277,7 +277,8 @@ export function renderMemoPdf(memo: MemoDocument): Promise<Buffer> {
     doc.switchToPage(page);
     const bottom = doc.page.margins.bottom;
     doc.page.margins.bottom = 0;
-    write(state, `${memo.title} · page ${page + 1} of ${range.count}`, 'regular', 7.5, MARGIN, PAGE_HEIGHT - MARGIN / 2 - 4, { width: CONTENT_WIDTH, align: 'right', colour: '#6b7080' });
+    const title = memo.title.length > 70 ? `${memo.title.slice(0, 69)}…` : memo.title;
+    write(state, `${title} · page ${page + 1} of ${range.count}`, 'regular', 7.5, MARGIN, PAGE_HEIGHT - MARGIN / 2 - 4, { width: CONTENT_WIDTH, align: 'right', colour: '#6b7080' });
     doc.page.margins.bottom = bottom;
   }
   doc.end();
