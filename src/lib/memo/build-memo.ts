@@ -8,33 +8,11 @@ import type { MemoBlock, MemoColumn, MemoDocument } from './memo-document';
 import { coefficient, count, dateTime, fileStem, fixed, inflation, NO_VALUE, percent } from './memo-format';
 import type { MemoDecision, MemoInput } from './memo-input';
 import { MEMO_METHODS } from './memo-methods';
+import { actionWords, constraintWords, documentCautions, methodRationale, methodWords } from '../words';
 import { orderForOverlapMap } from './overlap-order';
 
 const left = (label: string, weight = 1): MemoColumn => ({ label, align: 'left', weight });
 const right = (label: string, weight = 1): MemoColumn => ({ label, align: 'right', weight });
-
-/** Why each correlation method suits the items, in one sentence. */
-const METHOD_WORDS: Record<string, string> = {
-  pearson: 'Pearson correlations treat the answers as interval scores; with five or more ordered categories and no strong skew they agree closely with the alternatives and keep every statistic comparable with a later driver model.',
-  spearman: 'Spearman correlations use only the order of the answers (mid-ranks), which suits skewed rating items whose categories need not be equally spaced.',
-  polychoric: 'Polychoric correlations estimate how the continuous attitudes behind two ordinal items correlate, which suits items with few categories or skewed answers; they assume a normal trait behind each item.',
-};
-
-const DECISION_WORDS: Record<MemoDecision['decision'], string> = {
-  keep: 'Keep',
-  drop: 'Drop',
-  merge: 'Merge',
-  reword: 'Reword',
-  undecided: 'Undecided',
-};
-
-/** The cautions every memo carries (product.md). */
-export const MEMO_CAUTIONS: readonly string[] = Object.freeze([
-  'Statistical overlap is evidence, not proof, that two items ask the same thing: the wording decides.',
-  'A published, validated instrument must not be shortened or reworded without re-validation and the rights holder’s permission; locked items were never proposed for cutting.',
-  'Items that carry a trend or a regulatory requirement stay unless their owner releases them.',
-  'The final say belongs to the study’s methodologist and, where people’s data are involved, to the team’s ethics and data-protection rules. This memo carries aggregates only.',
-]);
 
 const numberOrNull = (value: unknown): number | null => (typeof value === 'number' ? value : null);
 
@@ -125,7 +103,7 @@ function settingsSection(input: MemoInput): MemoBlock[] {
     .map(([key, value]) => [key, value === null ? 'none' : String(value)]);
   return [
     { kind: 'heading', level: 1, text: '2. Settings' },
-    { kind: 'paragraph', text: METHOD_WORDS[input.audit.result.settings.method] ?? '' },
+    { kind: 'paragraph', text: methodRationale[input.audit.result.settings.method] ?? '' },
     {
       kind: 'table',
       columns: [left('Setting', 2), left('Value', 2)],
@@ -181,7 +159,7 @@ function structureSection(audit: AuditJson): MemoBlock[] {
     {
       kind: 'figure',
       figure: map,
-      caption: `The overlap map: ${audit.settings.method} correlations of the recoded items, ordered ${map.orderedBy}. Deep rust is a strong positive correlation, indigo a strong negative one, the paper colour none (the same scale as the overlap map on screen); lines mark where a scale starts.`,
+      caption: `The overlap map: ${methodWords[audit.settings.method] ?? audit.settings.method} correlations of the recoded items, ordered ${map.orderedBy}. Deep rust is a strong positive correlation, indigo a strong negative one, the paper colour none (the same scale as the overlap map on screen); lines mark where a scale starts.`,
     },
     {
       kind: 'table',
@@ -313,7 +291,7 @@ function decisionsSection(input: MemoInput): MemoBlock[] {
       columns: [left('Item'), left('Decision', 1.2), left('Why', 3), left('Decided', 1.6)],
       rows: changed.map((decision) => [
         decision.itemId,
-        decision.decision === 'merge' && decision.into ? `Merge into ${decision.into}` : DECISION_WORDS[decision.decision],
+        decision.decision === 'merge' && decision.into ? `Merge into ${decision.into}` : actionWords[decision.decision] ?? decision.decision,
         [decision.reason || NO_VALUE, decision.wording ? `New wording: “${decision.wording}”` : ''].filter(Boolean).join(' '),
         `${decision.decidedBy ?? NO_VALUE}, ${dateTime(decision.decidedAt)}`,
       ]),
@@ -322,7 +300,7 @@ function decisionsSection(input: MemoInput): MemoBlock[] {
   const blocked = audit.recommendations.flatMap((recommendation) =>
     recommendation.actions
       .filter((action) => Array.isArray(action.blockedBy) && (action.blockedBy as unknown[]).length > 0)
-      .map((action) => [action.item, (action.blockedBy as string[]).join(', ')]),
+      .map((action) => [action.item, (action.blockedBy as string[]).map((code) => constraintWords[code] ?? code).join('; ')]),
   );
   const locked = audit.items.filter((item) => (item as { locked?: boolean }).locked === true).map((item) => item.id);
   if (blocked.length > 0 || locked.length > 0) {
@@ -413,7 +391,7 @@ function closingSections(input: MemoInput): MemoBlock[] {
   ];
   const blocks: MemoBlock[] = [
     { kind: 'heading', level: 1, text: '9. Cautions and limitations' },
-    { kind: 'caution', items: MEMO_CAUTIONS },
+    { kind: 'caution', items: documentCautions },
     { kind: 'bullets', items: limitations },
     { kind: 'heading', level: 1, text: '10. Review' },
   ];
@@ -470,7 +448,7 @@ export function buildMemo(input: MemoInput): MemoDocument {
   ];
   return {
     title: `Redundancy memo: ${input.study.name}`,
-    subtitle: `${input.wave.label} · ${audit.settings.method} correlations · ${count(audit.input.respondentsUsed)} respondents, ${count(audit.input.items)} items`,
+    subtitle: `${input.wave.label} · ${methodWords[audit.settings.method] ?? audit.settings.method} correlations · ${count(audit.input.respondentsUsed)} respondents, ${count(audit.input.items)} items`,
     fileStem: fileStem('paredown-memo', input.study.name, input.wave.label, input.decisions.version === null ? 'current' : `v${input.decisions.version}`),
     generatedAt: input.generatedAt,
     blocks,

@@ -44,3 +44,14 @@ export const pageCautions = Object.freeze({
   /** The footer of every signed-in page. */
   footer: 'Paredown finds questionnaire items that say the same thing twice. Statistical overlap is evidence, not proof: read the wording before cutting.',
 });
+
+/**
+ * The cautions every exported document carries (the redundancy memo), product.md's list in full:
+ * the memo is read away from the screens that show the others.
+ */
+export const documentCautions: readonly string[] = Object.freeze([
+  'Statistical overlap is evidence, not proof, that two items ask the same thing: the wording decides.',
+  "A published, validated instrument must not be shortened or reworded without re-validation and the rights holder's permission; locked items were never proposed for cutting.",
+  'Items that carry a trend or a regulatory requirement stay unless their owner releases them.',
+  `${pageCautions.finalSay} The memo carries aggregates only.`,
+]);

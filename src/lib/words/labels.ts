@@ -21,6 +21,13 @@ export const stageWords: Record<string, string> = {
 /** Correlation methods as shown. */
 export const methodWords: Record<string, string> = { pearson: 'Pearson', spearman: 'Spearman', polychoric: 'Polychoric' };
 
+/** Why each correlation method suits the items, in one sentence (the memo's settings section). */
+export const methodRationale: Record<string, string> = {
+  pearson: 'Pearson correlations treat the answers as interval scores; with five or more ordered categories and no strong skew they agree closely with the alternatives and keep every statistic comparable with a later driver model.',
+  spearman: 'Spearman correlations use only the order of the answers (mid-ranks), which suits skewed rating items whose categories need not be equally spaced.',
+  polychoric: 'Polychoric correlations estimate how the continuous attitudes behind two ordinal items correlate, which suits items with few categories or skewed answers; they assume a normal trait behind each item.',
+};
+
 /** Missing-data policies as shown. */
 export const missingWords: Record<string, string> = { pairwise: 'pairwise deletion', listwise: 'listwise deletion' };
 
@@ -34,7 +41,7 @@ export const constraintWords: Record<string, string> = {
 };
 
 /** Actions as shown. */
-export const actionWords: Record<string, string> = { drop: 'Drop', merge: 'Merge', reword: 'Reword', keep: 'Keep' };
+export const actionWords: Record<string, string> = { drop: 'Drop', merge: 'Merge', reword: 'Reword', keep: 'Keep', undecided: 'Undecided' };
 
 /** The settings line of an audit, e.g. "Pearson, pairwise deletion · 200 resamples (seed 1)". */
 export function settingsLine(settings: { method: string; missing: string; bootstrap: number; seed: number; outcome?: string | null }): string {
