@@ -52,6 +52,19 @@ describe('runAudit on the demo wave', async () => {
     for (let a = 0; a < order; a++) for (let b = 0; b < order; b++) expect(audit.correlation.matrix[a][b]).toBeCloseTo(direct.matrix.data[a * order + b], 12);
   });
 
+  it('refits the driver model without the proposed cut, on the same respondents', () => {
+    const model = audit.outcomeModel as unknown as { n: number; completeRows: number; afterCut: { removed: string[]; n: number; coefficients: { term: string; seRatio: number | null }[] } };
+    expect(model.completeRows).toBe(model.n);
+    expect(model.afterCut.removed).toEqual(audit.afterCut?.removed.filter((id) => audit.correlation.items.includes(id)));
+    expect(model.afterCut.n).toBe(model.n);
+    // fixtures/demo/README.md: coll_7 is planted as a near-copy of coll_2, so once it is gone
+    // coll_2's standard error shrinks the most.
+    const ratio = (id: string) => model.afterCut.coefficients.find((c) => c.term === id)?.seRatio ?? Number.NaN;
+    expect(ratio('coll_2')).toBeLessThan(0.5);
+    expect(ratio('hours_1')).toBeGreaterThan(0.8);
+    expect(model.afterCut.coefficients.some((c) => model.afterCut.removed.includes(c.term))).toBe(false);
+  });
+
   it('names the constant item and the exact duplicate instead of producing NaN', () => {
     const codes = audit.warnings.map((w) => `${w.code}:${w.items.join(',')}`);
     expect(codes).toContain('constant-item:hours_7');

@@ -106,6 +106,21 @@ export interface AuditOutcomeModelJson {
   ssr: number;
   sigma: number | null;
   coefficients: AuditCoefficientJson[];
+  /** Respondents with the outcome and every predictor answered: the rows the model rests on. */
+  completeRows?: number;
+  /**
+   * The same model without the items the proposed cut removes, on the same respondents, with each
+   * remaining coefficient's `seRatio` (after/before); null when the cut removes no predictor.
+   */
+  afterCut?: {
+    removed: string[];
+    n: number;
+    r2: number;
+    adjR2: number | null;
+    ssr: number;
+    sigma: number | null;
+    coefficients: (AuditCoefficientJson & { seRatio: number | null })[];
+  } | null;
   [extra: string]: unknown;
 }
 

@@ -10,6 +10,7 @@
  * stability), then the optional outcome model. Pure: no file, database or framework.
  */
 import { runEngine } from '../engine/run-engine';
+import { fitOutcomeModel, refitOutcomeAfterCut } from './outcome-model';
 import { computeEvidence } from '../engine/compute-evidence';
 import { principalSubmatrix } from '../engine/principal-submatrix';
 import type { EngineEvidence, EngineItem, EngineWarning } from '../engine/types';
@@ -17,9 +18,7 @@ import type { Recommendation } from '../engine/recommend-cuts';
 import type { AfterCut } from '../engine/simulate-cut';
 import { bartlettSphericity } from '../stats/bartlett-sphericity';
 import { kaiserMeyerOlkin } from '../stats/kmo';
-import { olsRegression } from '../stats/ols-regression';
 import { parallelAnalysis } from '../stats/parallel-analysis';
-import { relativeWeights } from '../stats/relative-weights';
 import { completeRows } from '../stats/complete-rows';
 import { correlationMatrix } from '../stats/correlation-matrix';
 import { selectItems, selectRespondents, squareMatrixToRows, type ItemMatrix, type NumericalNotice } from '../stats/types';
@@ -130,7 +129,7 @@ export async function runAudit(
   warnings.push(...engine.warnings.map(plainWarning));
 
   report('outcome', 0);
-  const outcomeModel = input.outcome === null || outcomeId === null ? null : fitOutcomeModel(input, evidence, warnings);
+  const outcomeModel = input.outcome === null || outcomeId === null ? null : outcomeModelWithCut(input, evidence, engine.afterCut?.removed ?? [], warnings);
   report('outcome', 1);
 
   const items: AuditItemJson[] = input.items.map((item, j) => {
@@ -286,86 +285,17 @@ function structureStatistics(
 }
 
 /**
- * The outcome model: OLS of the outcome on every item in the correlation matrix (items in an
- * exact dependency are aliased by the QR and reported as such), on the respondents with the
- * outcome and every item answered; Johnson's relative weights from the same rows' Pearson
- * correlations.
+ * The driver model on the items of the correlation matrix and, when the proposed cut removes any
+ * of them, refitted without them on the same respondents (`afterCut`, see outcome-model.ts).
  */
-function fitOutcomeModel(input: AuditInput, evidence: EngineEvidence, warnings: AuditWarningJson[]): AuditOutcomeModelJson | null {
-  const outcome = input.outcome!;
-  const ids = evidence.usable.map((j) => input.items[j].id);
-  const p = evidence.usable.length;
-  const predictorsAndOutcome = selectItems(input.matrix, evidence.usable);
-  const table: ItemMatrix = { rows: predictorsAndOutcome.rows, columns: p + 1, data: concat(predictorsAndOutcome.data, outcome.values) };
-  const complete = completeRows(table);
-  if (complete.length < p + 2) {
-    warnings.push({
-      code: 'outcome-model-skipped',
-      items: [outcome.id],
-      message: `The outcome model needs more complete respondents (${complete.length}) than items plus two (${p + 2}); it was skipped.`,
-    });
-    return null;
-  }
-  const used = selectRespondents(table, complete);
-  const x: ItemMatrix = { rows: used.rows, columns: p, data: used.data.subarray(0, used.rows * p) };
-  const y = used.data.subarray(used.rows * p);
-  const model = olsRegression(x, y);
-  warnings.push(...noticeWarnings(model.notices, ids));
-
-  // Relative weights need an invertible predictor correlation matrix: use the predictors the QR
-  // could estimate (aliased ones, such as a duplicated column, carry no weight of their own).
-  const estimable = model.predictors.map((predictor, k) => (predictor.aliased ? -1 : k)).filter((k) => k >= 0);
-  const withOutcome = correlationMatrix(selectItems(used, [...estimable, p]), { method: 'pearson', missing: 'listwise' }).matrix;
-  const q = estimable.length;
-  const rxx = principalSubmatrix(withOutcome, estimable.map((_, k) => k));
-  const rxy = withOutcome.data.slice(q * (q + 1), q * (q + 1) + q);
-  const weights = relativeWeights(rxx, rxy);
-  warnings.push(...noticeWarnings(weights.notices, estimable.map((k) => ids[k])));
-  const weightOf = new Map<number, number>();
-  if (weights.weights !== null) estimable.forEach((k, position) => weightOf.set(k, weights.weights![position]));
-
-  const coefficients: AuditCoefficientJson[] = [
-    {
-      term: '(intercept)',
-      estimate: model.intercept.estimate ?? 0,
-      se: model.intercept.standardError,
-      t: model.intercept.tStatistic,
-      p: model.intercept.pValue,
-      vif: null,
-      sst: null,
-      tolerance: null,
-      relativeWeight: null,
-    },
-    ...model.predictors.map((predictor, k) => ({
-      term: ids[k],
-      estimate: predictor.estimate ?? 0,
-      aliased: predictor.aliased,
-      se: predictor.standardError,
-      t: predictor.tStatistic,
-      p: predictor.pValue,
-      vif: predictor.varianceInflationFactor,
-      sst: predictor.sumOfSquaresAboutMean,
-      tolerance: predictor.tolerance,
-      relativeWeight: weightOf.get(k) ?? null,
-      seFactors: predictor.standardErrorFactors,
-    })),
-  ];
-  return {
-    outcome: outcome.id,
-    n: model.observations,
-    r2: model.rSquared ?? 0,
-    adjR2: model.adjustedRSquared,
-    ssr: model.sumOfSquaredResiduals,
-    sigma: model.residualStandardError,
-    coefficients,
-  };
-}
-
-function concat(a: Float64Array, b: Float64Array): Float64Array {
-  const out = new Float64Array(a.length + b.length);
-  out.set(a);
-  out.set(b, a.length);
-  return out;
+function outcomeModelWithCut(input: AuditInput, evidence: EngineEvidence, removed: readonly string[], warnings: AuditWarningJson[]): AuditOutcomeModelJson | null {
+  const modelInput = { matrix: input.matrix, ids: input.items.map((item) => item.id), outcome: input.outcome! };
+  const before = fitOutcomeModel(modelInput, evidence.usable, warnings);
+  if (!before) return null;
+  const { rows, ...model } = before;
+  const inModel = removed.filter((id) => model.coefficients.some((coefficient) => coefficient.term === id));
+  const afterCut = inModel.length > 0 && inModel.length < evidence.usable.length ? refitOutcomeAfterCut(modelInput, evidence.usable, before, inModel, warnings) : null;
+  return { ...model, completeRows: rows.length, afterCut };
 }
 
 function recommendationJson(recommendation: Recommendation): AuditRecommendationJson {
