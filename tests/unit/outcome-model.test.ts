@@ -89,7 +89,7 @@ describe('the driver model before and after a cut, against R', () => {
     weights(before).forEach((weight, k) => expect(relative(weight, fixture.before.relativeWeights[k])).toBeLessThan(1e-9));
     weights(after).forEach((weight, k) => expect(relative(weight, fixture.after.relativeWeights[k])).toBeLessThan(1e-9));
     // Identity (Johnson 2000): the raw weights add up to R².
-    const sum = weights(after).reduce((total, weight) => total + (weight ?? 0), 0);
+    const sum = weights(after).reduce<number>((total, weight) => total + (weight ?? 0), 0);
     expect(sum).toBeCloseTo(after.r2, 12);
   });
 

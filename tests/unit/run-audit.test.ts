@@ -55,7 +55,7 @@ describe('runAudit on the demo wave', async () => {
   it('refits the driver model without the proposed cut, on the same respondents', () => {
     const model = audit.outcomeModel as unknown as { n: number; completeRows: number; afterCut: { removed: string[]; n: number; coefficients: { term: string; seRatio: number | null }[] } };
     expect(model.completeRows).toBe(model.n);
-    expect(model.afterCut.removed).toEqual(audit.afterCut?.removed.filter((id) => audit.correlation.items.includes(id)));
+    expect(model.afterCut.removed).toEqual((audit.afterCut?.removed as string[]).filter((id) => audit.correlation.items.includes(id)));
     expect(model.afterCut.n).toBe(model.n);
     // fixtures/demo/README.md: coll_7 is planted as a near-copy of coll_2, so once it is gone
     // coll_2's standard error shrinks the most.
