@@ -10,18 +10,17 @@
 import { readFileSync } from 'node:fs';
 import { auditInputFromWave } from '../src/lib/audit/audit-input';
 import { runAudit } from '../src/lib/audit/run-audit';
-import { buildWave, proposeSetup, readCodebook, readTable, screenRespondents } from '../src/lib/ingest';
+import { acceptProposal, readWave } from '../src/lib/ingest';
 import { buildMemo } from '../src/lib/memo/build-memo';
 import type { MemoInput } from '../src/lib/memo/memo-input';
 import { renderMemoDocx } from '../src/lib/memo/render-docx';
 import { renderMemoPdf } from '../src/lib/memo/render-pdf';
 import { loadAverageAndCores } from './bench-helpers';
 
-const table = await readTable(new Uint8Array(readFileSync('fixtures/demo/library-pilot-1.csv')), 'library-pilot-1.csv');
-const codebook = readCodebook(await readTable(new Uint8Array(readFileSync('fixtures/demo/library-codebook.csv')), 'library-codebook.csv'));
-const proposal = proposeSetup(table, codebook);
-const screening = screenRespondents(buildWave(table, proposal));
-const wave = buildWave(table, proposal, screening.proposedExclusions);
+const { wave, screening } = acceptProposal(await readWave({
+  fileName: 'library-pilot-1.csv', bytes: new Uint8Array(readFileSync('fixtures/demo/library-pilot-1.csv')),
+  codebookName: 'library-codebook.csv', codebookBytes: new Uint8Array(readFileSync('fixtures/demo/library-codebook.csv')), sheet: null,
+}));
 const audit = await runAudit(auditInputFromWave(wave, { outcome: 'overall_sat' }), { bootstrap: 200, seed: 1, outcome: 'overall_sat' });
 const input: MemoInput = {
   study: { name: 'Riverbend City Libraries member survey 2027', description: 'Benchmark copy of the demo study.', team: 'Riverbend Libraries Research' },

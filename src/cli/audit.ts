@@ -19,8 +19,7 @@ import { auditInputFromWave, AuditInputError } from '../lib/audit/audit-input';
 import { runAudit } from '../lib/audit/run-audit';
 import { auditSettingsSchema } from '../lib/audit/settings-schema';
 import { AUDIT_SETTINGS, AuditSettingsError, auditSettingsProblems, requestFromFlags, resolveAuditSettings } from '../lib/audit/settings-table';
-import { buildWave, isWaveRefusal, proposeSetup, readCodebook, readTable, screenRespondents } from '../lib/ingest';
-import type { WaveSetup } from '../lib/ingest/types';
+import { acceptProposal, isWaveRefusal, readWave } from '../lib/ingest';
 
 /** The flags of the settings table, e.g. `--method pearson|spearman|polychoric`, `--bootstrap N`. */
 const settingFlags = AUDIT_SETTINGS.filter((setting) => setting.flag !== null);
@@ -112,27 +111,18 @@ async function main(argv: string[]): Promise<number> {
   }
 
   const dataPath = positionals[0];
-  const table = await readTable(await readBytes(dataPath, 'data file'), basename(dataPath), {}, { sheet: values.sheet });
-  let codebook = null;
-  if (values.codebook) {
-    const codebookTable = await readTable(await readBytes(values.codebook, 'codebook'), basename(values.codebook));
-    codebook = readCodebook(codebookTable);
-  } else if (table.codebookTable) {
-    codebook = readCodebook(table.codebookTable);
-  }
-  const proposal = proposeSetup(table, codebook);
+  // The one reader and the one way to accept a proposal (src/lib/ingest: readWave, acceptProposal),
+  // as the upload route and the demo seed use them; the reader's default limits.
+  const read = await readWave({
+    fileName: basename(dataPath),
+    bytes: await readBytes(dataPath, 'data file'),
+    codebookName: values.codebook ? basename(values.codebook) : null,
+    codebookBytes: values.codebook ? await readBytes(values.codebook, 'codebook') : null,
+    sheet: values.sheet ?? null,
+  });
   const outcome = settings.outcome;
-  if (outcome !== null && !proposal.columns.some((column) => column.column === outcome)) {
-    refuse(`"${outcome}" is not a column of ${basename(dataPath)}; name the outcome column by its header.`);
-  }
-  // buildWave takes the proposal as the confirmed setup; only the outcome's role is changed.
-  const setup: WaveSetup = {
-    columns: proposal.columns.map((column) => (column.column === outcome ? { ...column, role: 'outcome' } : column)),
-  };
-  const everyone = buildWave(table, setup);
-  const screening = screenRespondents(everyone);
-  const exclusions = values['keep-all'] ? [] : [...screening.proposedExclusions];
-  const wave = exclusions.length > 0 ? buildWave(table, setup, exclusions) : everyone;
+  const { wave } = acceptProposal(read, { outcome, keepAll: values['keep-all'] === true });
+  const exclusions = wave.excluded;
   process.stderr.write(
     `Read ${wave.respondents} respondents and ${wave.items.length} items from ${basename(dataPath)}` +
       (exclusions.length > 0 ? `; left out ${exclusions.length} flagged by screening (--keep-all keeps them).\n` : '.\n'),

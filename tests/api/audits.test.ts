@@ -10,7 +10,7 @@
 import Database from 'better-sqlite3';
 import { beforeAll, describe, expect, inject, it } from 'vitest';
 import { AUDIT_SCHEMA } from '../../src/lib/audit/audit-json';
-import { demoIds } from '../../src/db/seed';
+import { demoIds } from '../../src/lib/server/demo-seed';
 import { body, Client, demo, demoEmails, signedIn } from '../setup/http';
 
 const waveId = demoIds.demoWave;
@@ -99,7 +99,7 @@ describe('an audit of the demo wave, started by the designer', () => {
     for (const stage of ['loadingMs', 'evidenceMs', 'structureMs', 'engineMs', 'outcomeMs', 'savingMs', 'runMs', 'queuedMs', 'totalMs']) {
       expect(answer.audit.timings[stage], stage).toBeGreaterThanOrEqual(0);
     }
-    // The demo study's settings: minutesPerItem 0.15 (src/db/seed.ts) → 9 seconds per item.
+    // The demo study's settings: minutesPerItem 0.15 (src/lib/server/demo-seed.ts) → 9 seconds per item.
     expect(answer.audit.settings).toMatchObject({ ...settings, secondsPerItem: 9, strongPairThreshold: 0.8, locked: [] });
     // One stored shape, echoed unchanged in the audit JSON (docs/decisions/006), key order included.
     expect(JSON.stringify(answer.result.settings)).toBe(JSON.stringify(answer.audit.settings));

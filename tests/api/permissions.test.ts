@@ -64,7 +64,7 @@ const freshOwnerToken = async () => {
   return (await body(response)).token.id as string;
 };
 
-/** The seeded, confirmed wave of the demo study (src/db/seed.ts). */
+/** The seeded, confirmed wave of the demo study (src/lib/server/demo-seed.ts). */
 const demoWave = 'wave-riverbend-pilot-1';
 let outsideWaveId: string | null = null;
 /** A proposed wave in a fresh study of the other team (made once). */

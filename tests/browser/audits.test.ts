@@ -20,7 +20,7 @@ describe('audits in Chromium', () => {
       await hydrated(page);
       const form = page.locator('[data-testid=audit-form]');
       await expect(form.locator('#audit-strongPairThreshold').inputValue()).resolves.toBe('0.8');
-      // The demo study's own constraint (src/db/seed.ts: minutesPerItem 0.15) is shown as its default.
+      // The demo study's own constraint (src/lib/server/demo-seed.ts: minutesPerItem 0.15) is shown as its default.
       await expect(form.locator('#audit-secondsPerItem').inputValue()).resolves.toBe('9');
       // Every setting of the table has a field: the further thresholds show the engine's defaults
       // (src/lib/engine/engine-settings.ts: merge at |r| 0.95, interval coverage 95%).

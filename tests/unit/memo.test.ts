@@ -12,7 +12,7 @@ import yauzl from 'yauzl';
 import { describe, expect, it } from 'vitest';
 import { auditInputFromWave } from '../../src/lib/audit/audit-input';
 import { runAudit } from '../../src/lib/audit/run-audit';
-import { buildWave, proposeSetup, readCodebook, readTable, screenRespondents } from '../../src/lib/ingest';
+import { acceptProposal, readWave } from '../../src/lib/ingest';
 import { buildMemo } from '../../src/lib/memo/build-memo';
 import { layoutFigure } from '../../src/lib/memo/figure-layout';
 import type { MemoDocument } from '../../src/lib/memo/memo-document';
@@ -24,11 +24,10 @@ import { renderMemoPdf } from '../../src/lib/memo/render-pdf';
 const outputFolder = join('test-results', 'memo');
 
 async function demoAudit() {
-  const table = await readTable(new Uint8Array(readFileSync('fixtures/demo/library-pilot-1.csv')), 'library-pilot-1.csv');
-  const codebook = readCodebook(await readTable(new Uint8Array(readFileSync('fixtures/demo/library-codebook.csv')), 'library-codebook.csv'));
-  const proposal = proposeSetup(table, codebook);
-  const screening = screenRespondents(buildWave(table, proposal));
-  const wave = buildWave(table, proposal, screening.proposedExclusions);
+  const { wave, screening } = acceptProposal(await readWave({
+    fileName: 'library-pilot-1.csv', bytes: new Uint8Array(readFileSync('fixtures/demo/library-pilot-1.csv')),
+    codebookName: 'library-codebook.csv', codebookBytes: new Uint8Array(readFileSync('fixtures/demo/library-codebook.csv')), sheet: null,
+  }));
   const audit = await runAudit(auditInputFromWave(wave, { outcome: 'overall_sat' }), { bootstrap: 20, seed: 3, outcome: 'overall_sat' });
   return { audit, screening, respondentIds: wave.respondentIds ?? [] };
 }

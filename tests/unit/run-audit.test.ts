@@ -9,17 +9,18 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { auditInputFromWave, AuditInputError } from '../../src/lib/audit/audit-input';
 import { runAudit } from '../../src/lib/audit/run-audit';
-import { buildWave, proposeSetup, readCodebook, readTable, screenRespondents } from '../../src/lib/ingest';
+import { acceptProposal, readWave } from '../../src/lib/ingest';
 import { correlationMatrix } from '../../src/lib/stats/correlation-matrix';
 import { selectItems } from '../../src/lib/stats/types';
 import { demoWave } from '../../src/lib/synth/demo';
 
 async function demoBuiltWave() {
-  const table = await readTable(new Uint8Array(readFileSync('fixtures/demo/library-pilot-1.csv')), 'library-pilot-1.csv');
-  const codebook = readCodebook(await readTable(new Uint8Array(readFileSync('fixtures/demo/library-codebook.csv')), 'library-codebook.csv'));
-  const proposal = proposeSetup(table, codebook);
-  const screening = screenRespondents(buildWave(table, proposal));
-  return buildWave(table, proposal, screening.proposedExclusions);
+  // The one reader and the one accept path, as the seed and the command line use them.
+  const read = await readWave({
+    fileName: 'library-pilot-1.csv', bytes: new Uint8Array(readFileSync('fixtures/demo/library-pilot-1.csv')),
+    codebookName: 'library-codebook.csv', codebookBytes: new Uint8Array(readFileSync('fixtures/demo/library-codebook.csv')), sheet: null,
+  });
+  return acceptProposal(read).wave;
 }
 
 /** Every number in the JSON is finite (JSON.stringify would silently turn NaN into null). */

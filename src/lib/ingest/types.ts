@@ -34,6 +34,14 @@ export interface TableSource {
   readonly sheets: readonly string[];
 }
 
+/** How a wave's files were read: the table's source plus where its codebook came from (enough to read them again exactly). */
+export interface WaveSource extends TableSource {
+  /** The codebook file's name as given, or null. */
+  readonly codebookName: string | null;
+  /** Where the codebook came from: its own file, a sheet of the workbook, or none. */
+  readonly codebookFrom: 'file' | 'sheet' | null;
+}
+
 /**
  * One sheet or text file as a rectangle of text cells. The first non-blank row is the header;
  * wholly blank rows are dropped; every row has `headers.length` cells (`''` for blank).
