@@ -70,7 +70,11 @@ export function mediaTypeOf(formatOrName: string): string | null {
   return mediaTypes[(dot < 0 ? formatOrName : formatOrName.slice(dot + 1)).toLowerCase()] ?? null;
 }
 
-/** The hashes of the files waves refer to (responses and codebooks). */
+/**
+ * The hashes of the files in use: those waves refer to (responses and codebooks). Waves are the
+ * only rows that refer to `stored_files` today; a table that comes to refer to them must be added
+ * here, or the sweep at start and study deletion would take its files.
+ */
 function usedHashes(tx: Pick<Db, 'select'>, among?: readonly string[]): Set<string> {
   const query = tx.select({ file: waves.fileHash, codebook: waves.codebookHash }).from(waves);
   const rows = among ? query.where(or(inArray(waves.fileHash, [...among]), inArray(waves.codebookHash, [...among]))).all() : query.all();
