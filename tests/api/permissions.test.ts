@@ -219,6 +219,7 @@ const table: Row[] = [
   },
   { name: 'read an audit', method: 'GET', path: (id) => `/api/audits/${id}`, prepare: anAudit, expect: demoTeamMembers(200) },
   { name: 'download an audit', method: 'GET', path: (id) => `/api/audits/${id}?download=1`, prepare: aDoneAudit, expect: demoTeamMembers(200) },
+  { name: "an audit's driver model", method: 'GET', path: (id) => `/api/audits/${id}/driver-model`, prepare: aDoneAudit, expect: demoTeamMembers(200) },
   { name: 'the memo of an audit as PDF', method: 'GET', path: (id) => `/api/audits/${id}/memo.pdf`, prepare: aDoneAudit, expect: demoTeamMembers(200) },
   { name: 'the memo of an audit as DOCX', method: 'GET', path: (id) => `/api/audits/${id}/memo.docx`, prepare: aDoneAudit, expect: demoTeamMembers(200) },
   { name: 'the memo of an audit that does not exist', method: 'GET', path: () => '/api/audits/no-such-audit/memo.pdf', expect: anyoneSignedIn(404) },

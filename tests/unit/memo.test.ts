@@ -159,6 +159,18 @@ describe('the memo built from the demo audit', async () => {
     expect(eigen && eigen.kind === 'figure' && eigen.figure.kind === 'eigenvalues' ? eigen.figure.random95?.length : 0).toBe(audit.eigenvalues.length);
   });
 
+  it('shows the driver model before and after the cut when the audit has an outcome', () => {
+    const figure = memo.blocks.find((block) => block.kind === 'figure' && block.figure.kind === 'standard-errors');
+    if (!figure || figure.kind !== 'figure' || figure.figure.kind !== 'standard-errors') throw new Error('no standard-error figure');
+    expect(figure.figure.hasCut).toBe(true);
+    const removed = (audit.outcomeModel?.afterCut?.removed ?? []) as string[];
+    expect(removed.length).toBeGreaterThan(0);
+    // A removed item has no bar after the cut; every other item has both.
+    for (const row of figure.figure.rows) expect(row.after === null).toBe(removed.includes(row.term));
+    const table = memo.blocks.find((block) => block.kind === 'table' && block.columns[3]?.label === 'After / before');
+    expect(table && table.kind === 'table' ? table.rows.length : 0).toBe(figure.figure.rows.length);
+  });
+
   it('writes a DOCX whose document XML carries the content, escaped, with the figures', async () => {
     const bytes = await renderMemoDocx(memo);
     mkdirSync(outputFolder, { recursive: true });

@@ -8,7 +8,7 @@ import type { MemoBlock, MemoColumn, MemoDocument } from './memo-document';
 import { coefficient, count, dateTime, fileStem, fixed, inflation, NO_VALUE, percent } from './memo-format';
 import type { MemoDecision, MemoInput } from './memo-input';
 import { MEMO_METHODS } from './memo-methods';
-import { actionWords, constraintWords, documentCautions, methodRationale, methodWords } from '../words';
+import { actionWords, constraintWords, documentCautions, driverModelRowsNote, methodRationale, methodWords, overlapSentences } from '../words';
 import { orderForOverlapMap } from './overlap-order';
 
 const left = (label: string, weight = 1): MemoColumn => ({ label, align: 'left', weight });
@@ -372,6 +372,41 @@ function effectSection(audit: AuditJson): MemoBlock[] {
         coefficient(coefficientRow.relativeWeight),
       ]),
       caption: `Ordinary least squares on ${count(model.n)} complete rows: R² = ${coefficient(model.r2)}, adjusted R² = ${coefficient(model.adjR2)}. An item's standard error grows with the square root of its VIF.`,
+    });
+    blocks.push(...driverModelAfterCut(audit));
+  }
+  return blocks;
+}
+
+type SplitCoefficient = { term: string; se: number | null; vif: number | null; seFactors?: { residualScale: number; spread: number; overlap: number } | null; seRatio?: number | null };
+
+/** The driver model after the cut: what the cut does to each remaining standard error. */
+function driverModelAfterCut(audit: AuditJson): MemoBlock[] {
+  const model = audit.outcomeModel;
+  if (!model) return [];
+  const before = (model.coefficients as SplitCoefficient[]).filter((row) => row.term !== '(intercept)');
+  const after = new Map(((model.afterCut?.coefficients ?? []) as SplitCoefficient[]).map((row) => [row.term, row]));
+  const split = (row: SplitCoefficient | undefined) =>
+    row && row.se !== null && row.seFactors ? { own: row.seFactors.residualScale / row.seFactors.spread, overlap: Math.max(0, row.se - row.seFactors.residualScale / row.seFactors.spread) } : null;
+  const blocks: MemoBlock[] = [
+    { kind: 'paragraph', text: driverModelRowsNote(typeof model.completeRows === 'number' ? model.completeRows : model.n, audit.input.respondentsUsed, audit.settings.missing) },
+  ];
+  const sentences = overlapSentences(before.map((row) => ({ term: row.term, vif: row.vif, ratioAfterCut: model.afterCut ? after.get(row.term)?.seRatio ?? null : null })));
+  if (sentences.length > 0) blocks.push({ kind: 'bullets', items: sentences });
+  blocks.push({
+    kind: 'figure',
+    figure: { kind: 'standard-errors', hasCut: Boolean(model.afterCut), rows: before.map((row) => ({ term: row.term, before: split(row), after: model.afterCut ? split(after.get(row.term)) : null })) },
+    caption: "Each item's standard error: the part it would have without overlap (residual scale over the item's own spread) and the part overlap adds; the paler bar is the same model after the proposed cut, on the same respondents.",
+  });
+  if (model.afterCut) {
+    blocks.push({
+      kind: 'table',
+      columns: [left('Item', 1.4), right('SE before'), right('SE after'), right('After / before'), right('VIF before')],
+      rows: before.map((row) => {
+        const later = after.get(row.term);
+        return [row.term, fixed(row.se, 3), later ? fixed(later.se, 3) : 'cut', later ? fixed(later.seRatio ?? null) : NO_VALUE, inflation(row.vif, false)];
+      }),
+      caption: `After the cut: R² = ${coefficient(model.afterCut.r2)}, adjusted R² = ${coefficient(model.afterCut.adjR2)} (before: ${coefficient(model.r2)}, ${coefficient(model.adjR2)}).`,
     });
   }
   return blocks;

@@ -5,7 +5,7 @@
  * use the same colour scale as the overlap map on screen.
  */
 import { colourOf } from '../overlap-colours';
-import type { EigenvalueFigure, MemoFigure, OverlapMapFigure } from './memo-document';
+import type { EigenvalueFigure, MemoFigure, OverlapMapFigure, StandardErrorFigure } from './memo-document';
 
 /** A shape of a figure; coordinates in points from the top-left corner. */
 export type FigureShape =
@@ -148,6 +148,34 @@ function eigenvalueDrawing(figure: EigenvalueFigure, width: number): FigureDrawi
   return { width, height, shapes };
 }
 
+function standardErrorDrawing(figure: StandardErrorFigure, width: number): FigureDrawing {
+  const rowHeight = figure.hasCut ? 16 : 10;
+  const labelWidth = 64;
+  const plot = width - labelWidth - 8;
+  const largest = Math.max(1e-12, ...figure.rows.flatMap((row) => [row.before, row.after].map((split) => (split ? split.own + split.overlap : 0))));
+  const shapes: FigureShape[] = [];
+  const bar = (y: number, split: { own: number; overlap: number }, pale: boolean) => {
+    const own = (split.own / largest) * plot;
+    shapes.push({ kind: 'rect', x: labelWidth, y, w: own, h: 6, fill: pale ? '#9aa7c9' : '#2e3a80' });
+    shapes.push({ kind: 'rect', x: labelWidth + own, y, w: (split.overlap / largest) * plot, h: 6, fill: pale ? '#e5bf86' : '#b4621c' });
+  };
+  figure.rows.forEach((row, index) => {
+    const y = 4 + index * rowHeight;
+    shapes.push({ kind: 'text', x: labelWidth - 4, y: y + 6, text: row.term, size: 6.5, anchor: 'end', fill: INK });
+    if (row.before) bar(y, row.before, false);
+    if (figure.hasCut) {
+      if (row.after) bar(y + 7, row.after, true);
+      else shapes.push({ kind: 'text', x: labelWidth + 2, y: y + 13, text: 'cut', size: 6, anchor: 'start', fill: GRID });
+    }
+  });
+  const keyY = 4 + figure.rows.length * rowHeight + 10;
+  shapes.push({ kind: 'rect', x: labelWidth, y: keyY - 5, w: 8, h: 6, fill: '#2e3a80' });
+  shapes.push({ kind: 'text', x: labelWidth + 11, y: keyY, text: 'without overlap', size: 6.5, anchor: 'start', fill: INK });
+  shapes.push({ kind: 'rect', x: labelWidth + 80, y: keyY - 5, w: 8, h: 6, fill: '#b4621c' });
+  shapes.push({ kind: 'text', x: labelWidth + 91, y: keyY, text: figure.hasCut ? 'added by overlap; paler: after the cut' : 'added by overlap', size: 6.5, anchor: 'start', fill: INK });
+  return { width, height: keyY + 6, shapes };
+}
+
 /**
  * Lays a memo figure out as shapes.
  * @param figure the figure.
@@ -157,5 +185,7 @@ function eigenvalueDrawing(figure: EigenvalueFigure, width: number): FigureDrawi
  */
 export function layoutFigure(figure: MemoFigure, width: number): FigureDrawing {
   if (!(width >= 120)) throw new Error(`layoutFigure: width must be at least 120 points, got ${width}`);
-  return figure.kind === 'overlap-map' ? overlapMapDrawing(figure, width) : eigenvalueDrawing(figure, width);
+  if (figure.kind === 'overlap-map') return overlapMapDrawing(figure, width);
+  if (figure.kind === 'standard-errors') return standardErrorDrawing(figure, width);
+  return eigenvalueDrawing(figure, width);
 }

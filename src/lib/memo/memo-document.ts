@@ -38,8 +38,22 @@ export interface EigenvalueFigure {
   readonly random95: readonly number[] | null;
 }
 
+/** One item's standard error split into the part it would have without overlap and the part overlap adds. */
+export interface StandardErrorSplit {
+  readonly own: number;
+  readonly overlap: number;
+}
+
+/** The driver model's standard errors before and after the cut. */
+export interface StandardErrorFigure {
+  readonly kind: 'standard-errors';
+  readonly rows: readonly { readonly term: string; readonly before: StandardErrorSplit | null; readonly after: StandardErrorSplit | null }[];
+  /** Whether a cut was refitted (rows then carry `after`, null for a removed item). */
+  readonly hasCut: boolean;
+}
+
 /** A figure the renderers draw themselves (vector in the PDF, a PNG in the DOCX, SVG in HTML). */
-export type MemoFigure = OverlapMapFigure | EigenvalueFigure;
+export type MemoFigure = OverlapMapFigure | EigenvalueFigure | StandardErrorFigure;
 
 /** One block of the memo, in reading order. */
 export type MemoBlock =

@@ -110,7 +110,7 @@ function blockToDocx(block: MemoBlock): (Paragraph | Table)[] {
               data: Buffer.from(figureSvg(drawing, block.caption), 'utf8'),
               transformation: size,
               fallback: { type: 'png', data: figurePng(drawing) },
-              altText: { name: block.figure.kind, title: block.figure.kind === 'overlap-map' ? 'Overlap map' : 'Eigenvalues', description: printable(block.caption) },
+              altText: { name: block.figure.kind, title: { 'overlap-map': 'Overlap map', eigenvalues: 'Eigenvalues', 'standard-errors': 'Standard errors' }[block.figure.kind], description: printable(block.caption) },
             }),
           ],
         }),

@@ -176,7 +176,7 @@ function drawFigure(state: PdfState, drawing: FigureDrawing, caption: string): v
 }
 
 function figureWidth(figure: MemoFigure): number {
-  return figure.kind === 'eigenvalues' ? Math.min(CONTENT_WIDTH, 420) : CONTENT_WIDTH;
+  return figure.kind === 'overlap-map' ? CONTENT_WIDTH : Math.min(CONTENT_WIDTH, 420);
 }
 
 function drawBlock(state: PdfState, block: MemoBlock): void {

@@ -7,4 +7,5 @@
 export * from './cautions';
 export * from './formats';
 export * from './labels';
+export * from './outcome';
 export * from './reasons';
