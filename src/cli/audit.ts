@@ -19,7 +19,7 @@ import { auditInputFromWave, AuditInputError } from '../lib/audit/audit-input';
 import { runAudit } from '../lib/audit/run-audit';
 import { auditSettingsSchema } from '../lib/audit/settings-schema';
 import { AUDIT_SETTINGS, AuditSettingsError, auditSettingsProblems, requestFromFlags, resolveAuditSettings } from '../lib/audit/settings-table';
-import { acceptProposal, isWaveRefusal, readWave } from '../lib/ingest';
+import { acceptProposal, columnsLeftOut, isWaveRefusal, readWave } from '../lib/ingest';
 
 /** The flags of the settings table, e.g. `--method pearson|spearman|polychoric`, `--bootstrap N`. */
 const settingFlags = AUDIT_SETTINGS.filter((setting) => setting.flag !== null);
@@ -121,14 +121,14 @@ async function main(argv: string[]): Promise<number> {
     sheet: values.sheet ?? null,
   });
   const outcome = settings.outcome;
-  const { wave } = acceptProposal(read, { outcome, keepAll: values['keep-all'] === true });
+  const { wave, proposal, setup, screening } = acceptProposal(read, { outcome, keepAll: values['keep-all'] === true });
   const exclusions = wave.excluded;
   process.stderr.write(
     `Read ${wave.respondents} respondents and ${wave.items.length} items from ${basename(dataPath)}` +
       (exclusions.length > 0 ? `; left out ${exclusions.length} flagged by screening (--keep-all keeps them).\n` : '.\n'),
   );
 
-  const input = auditInputFromWave(wave, { outcome, locked: settings.locked });
+  const input = auditInputFromWave(wave, { outcome, locked: settings.locked, leftOut: columnsLeftOut(proposal, setup), screening });
   let lastPercent = -1;
   const audit = await runAudit(input, settings, (stage, fraction) => {
     const percent = Math.floor(fraction * 100);

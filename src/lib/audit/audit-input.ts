@@ -4,6 +4,7 @@
  * outcome column the settings name. The command line and the server's audit workers share it.
  */
 import { includedRows } from '../ingest/build-wave';
+import type { ScreeningResult } from '../ingest/screening/screen-respondents';
 import type { BuiltWave } from '../ingest/types';
 import { selectRespondents } from '../stats/types';
 import type { AuditInput } from './run-audit';
@@ -23,6 +24,10 @@ export interface AuditInputOptions {
   readonly outcome?: string | null;
   /** Item ids the designer locked (trend or mandated questions): never proposed for cutting. */
   readonly locked?: readonly string[];
+  /** Columns of the file left out of the wave, with reasons (`columnsLeftOut` of the ingest). */
+  readonly leftOut?: AuditInput['leftOut'];
+  /** The screening that proposed the exclusions (its rules and item types go into the audit JSON). */
+  readonly screening?: Pick<ScreeningResult, 'itemTypes' | 'rules' | 'proposedExclusions'> | null;
 }
 
 /**
@@ -66,5 +71,9 @@ export function auditInputFromWave(wave: Pick<BuiltWave, 'matrix' | 'items' | 'o
     rowsInWave: wave.respondents,
     excluded: wave.excluded.length,
     outcome,
+    ...(options.leftOut ? { leftOut: options.leftOut } : {}),
+    ...(options.screening
+      ? { screening: { itemTypes: options.screening.itemTypes, rules: options.screening.rules.map(({ code, applied, items, note }) => ({ code, applied, items, note })), proposedExclusions: options.screening.proposedExclusions.length } }
+      : {}),
   };
 }

@@ -53,6 +53,17 @@ export interface AuditInput {
   readonly excluded: number;
   /** The outcome column for the outcome model, when the settings name one. */
   readonly outcome: { readonly id: string; readonly values: Float64Array } | null;
+  /** Columns of the file the setup left out of the wave, with the reason (each becomes a `column-left-out` warning). */
+  readonly leftOut?: readonly { readonly column: string; readonly reason: string }[];
+  /** The screening behind the exclusions: which rules were applied to which item types. */
+  readonly screening?: AuditScreeningJson | null;
+}
+
+/** What the audit JSON says about the screening that chose the excluded respondents. */
+export interface AuditScreeningJson {
+  readonly itemTypes: Readonly<Record<string, number>>;
+  readonly rules: readonly { readonly code: string; readonly applied: boolean; readonly items: number; readonly note: string }[];
+  readonly proposedExclusions: number;
 }
 
 /**
@@ -110,7 +121,12 @@ export async function runAudit(
   report('evidence', 1);
 
   report('structure', 0);
-  const warnings: AuditWarningJson[] = [...evidence.warnings].map(plainWarning);
+  const warnings: AuditWarningJson[] = (input.leftOut ?? []).map((entry) => ({
+    code: 'column-left-out',
+    items: [entry.column],
+    message: `The column "${entry.column}" is not in this audit: ${entry.reason.replace(/\.$/, '')}.`,
+  }));
+  warnings.push(...[...evidence.warnings].map(plainWarning));
   const ids = input.items.map((item) => item.id);
   const usableIds = evidence.usable.map((j) => ids[j]);
   const respondentsForTests = respondentsBehind(evidence, input.matrix);
@@ -204,6 +220,7 @@ export async function runAudit(
     afterCut: afterCutJson(engine.afterCut),
     clusters: engine.clusters,
     outcomeModel,
+    ...(input.screening ? { screening: { itemTypes: { ...input.screening.itemTypes }, rules: input.screening.rules.map((rule) => ({ ...rule })), proposedExclusions: input.screening.proposedExclusions } } : {}),
     warnings: dedupeWarnings(warnings),
   };
 }

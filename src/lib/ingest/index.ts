@@ -31,11 +31,11 @@ export { parseDuration, looksLikeTimeText } from './parse-duration';
 export { parseValueLabels, formatValueLabels, labelKey, type ValueLabelsRead } from './value-labels';
 export { ANSWER_SCALES, matchAnswerScales, isMissingAnswerText, type AnswerScale, type AnswerScaleMatch } from './answer-scales';
 export { codebookColumnOf, looksLikeCodebookHeader, headerKey, type CodebookColumn } from './codebook-columns';
-export { readCodebook, parseYesNo, parseMissingCodes } from './read-codebook';
+export { readCodebook, parseYesNo, parseMissingCodes, parseItemType } from './read-codebook';
 export { findPersonalData, looksLikeEmail, looksLikePhoneNumber, sampleCells, type PersonalDataFinding } from './personal-data';
 export { guessAnswerRange, type AnswerRangeGuess } from './guess-answer-range';
 export { columnData, type ColumnData } from './column-profile';
-export { proposeSetup, headerWords } from './propose-setup';
+export { proposeSetup, headerWords, columnsLeftOut, itemTypeOf, type ColumnLeftOut } from './propose-setup';
 export { recodeItem, reverseScore, type RecodedItem } from './recode-item';
 export { validateSetup, waveSetupSchema, itemSetupSchema, type CheckedSetup } from './validate-setup';
 export {
@@ -48,5 +48,5 @@ export { withinPersonSd } from './screening/within-person-sd';
 export { missingShare } from './screening/missing-share';
 export { speedCheck, medianOf, type SpeedCheck } from './screening/speeders';
 export {
-  screenRespondents, answersAsGiven, DEFAULT_SCREENING_OPTIONS, type ScreeningOptions, type ScreeningFlag, type ScreeningResult,
+  screenRespondents, answersAsGiven, DEFAULT_SCREENING_OPTIONS, type ScreeningOptions, type ScreeningFlag, type ScreeningResult, type ScreeningRule,
 } from './screening/screen-respondents';

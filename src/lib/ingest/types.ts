@@ -80,6 +80,8 @@ export interface CodebookEntry {
   readonly missingCodes: readonly number[] | null;
   readonly text: string | null;
   readonly labels: readonly ValueLabel[] | null;
+  /** The codebook's `type` column: rating, scored or dichotomous (absent in older codebooks). */
+  readonly type?: ItemType | null;
 }
 
 /** A read codebook. */
@@ -92,6 +94,14 @@ export interface Codebook {
 
 /** What a column is used for. */
 export type ColumnRole = 'item' | 'respondent-id' | 'outcome' | 'duration' | 'weight' | 'ignore';
+
+/**
+ * What kind of item a column is, which decides the screening rules that fit it: a `rating` grid
+ * (agreement, frequency: long-string and within-person SD rules apply), a `scored` test item
+ * (right/wrong or points: a run of identical scores is what a strong performer gives), or a
+ * `dichotomous` checklist (yes/no, 0/1).
+ */
+export type ItemType = 'rating' | 'scored' | 'dichotomous';
 
 /** How an item (or an outcome) is read and recoded. */
 export interface ItemSetup {
@@ -111,6 +121,8 @@ export interface ItemSetup {
   readonly labels: readonly ValueLabel[];
   /** Answer texts that mean no answer (e.g. "Don't know"). */
   readonly missingLabels: readonly string[];
+  /** Item type (default: `dichotomous` for a 0/1 range, else `rating`). */
+  readonly type?: ItemType;
 }
 
 /** Units for a duration column holding plain numbers. */
@@ -202,6 +214,8 @@ export interface WaveItem {
   readonly text: string | null;
   readonly labels: readonly ValueLabel[];
   readonly missingLabels: readonly string[];
+  /** Item type from the setup (absent in waves stored before item types existed). */
+  readonly type?: ItemType;
   readonly counts: ItemCounts;
 }
 

@@ -20,6 +20,7 @@ export const itemSetupSchema = z.object({
   text: z.string().nullable().default(null),
   labels: z.array(valueLabelSchema).default([]),
   missingLabels: z.array(z.string()).default([]),
+  type: z.enum(['rating', 'scored', 'dichotomous']).optional(),
 });
 
 /** The shape of a setup: one entry per column named (others are ignored); extra keys are dropped. */
