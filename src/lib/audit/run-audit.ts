@@ -11,7 +11,7 @@
  */
 import { runEngine } from '../engine/run-engine';
 import { fitOutcomeModel, refitOutcomeAfterCut } from './outcome-model';
-import { computeEvidence } from '../engine/compute-evidence';
+import { computeEvidence, namePositions } from '../engine/compute-evidence';
 import { principalSubmatrix } from '../engine/principal-submatrix';
 import type { EngineEvidence, EngineItem, EngineWarning } from '../engine/types';
 import type { Recommendation } from '../engine/recommend-cuts';
@@ -20,6 +20,7 @@ import { bartlettSphericity } from '../stats/bartlett-sphericity';
 import { kaiserMeyerOlkin } from '../stats/kmo';
 import { parallelAnalysis } from '../stats/parallel-analysis';
 import { completeRows } from '../stats/complete-rows';
+import { AuditInputError } from './audit-input';
 import { correlationMatrix } from '../stats/correlation-matrix';
 import { selectItems, selectRespondents, squareMatrixToRows, type ItemMatrix, type NumericalNotice } from '../stats/types';
 import {
@@ -115,6 +116,8 @@ export async function runAudit(
     const [from, to] = STAGE_SPAN[stage];
     onProgress?.(stage, from + (to - from) * Math.min(1, Math.max(0, fraction)));
   };
+
+  if (engineSettings.missing === 'listwise') refuseListwiseWithoutRows(input);
 
   report('evidence', 0);
   const evidence = computeEvidence(input.matrix, input.items, engineSettings);
@@ -223,6 +226,31 @@ export async function runAudit(
     ...(input.screening ? { screening: { itemTypes: { ...input.screening.itemTypes }, rules: input.screening.rules.map((rule) => ({ ...rule })), proposedExclusions: input.screening.proposedExclusions } } : {}),
     warnings: dedupeWarnings(warnings),
   };
+}
+
+/** Fewest complete rows listwise deletion needs for a correlation (as the core's MIN_ROWS_FOR_CORRELATION). */
+const LISTWISE_MINIMUM_ROWS = 3;
+
+/**
+ * Listwise deletion keeps only the respondents who answered every item; with fewer than three of
+ * them no correlation exists, and the audit stops with one sentence saying what to do.
+ */
+function refuseListwiseWithoutRows(input: AuditInput): void {
+  const complete = completeRows(input.matrix).length;
+  if (complete >= LISTWISE_MINIMUM_ROWS) return;
+  const { rows, columns, data } = input.matrix;
+  const missing = input.items.map((item, j) => {
+    let count = 0;
+    for (let i = 0; i < rows; i++) if (Number.isNaN(data[j * rows + i])) count++;
+    return { id: item.id, count };
+  });
+  const worst = missing.filter((entry) => entry.count > 0).sort((a, b) => b.count - a.count).slice(0, 5);
+  const named = worst.map((entry) => `${entry.id} (${entry.count} of ${rows} missing)`).join(', ');
+  throw new AuditInputError(
+    'no-complete-rows',
+    `Listwise deletion keeps only respondents who answered all ${columns} items, and ${complete === 0 ? 'no one did' : `only ${complete} did`}` +
+      `${named ? ` (most often unanswered: ${named})` : ''}; use pairwise deletion instead (missing: pairwise; on the command line --missing pairwise).`,
+  );
 }
 
 /** Respondents behind the structure tests: complete rows under listwise, every row under pairwise. */
@@ -340,8 +368,9 @@ function plainWarning(warning: EngineWarning): AuditWarningJson {
 }
 
 function noticeWarnings(notices: readonly NumericalNotice[], ids: readonly string[]): AuditWarningJson[] {
-  return notices.map((notice) => ({ code: notice.code, items: notice.items.map((k) => ids[k] ?? String(k)), message: notice.message }));
+  return notices.map((notice) => ({ code: notice.code, items: notice.items.map((k) => ids[k] ?? String(k)), message: namePositions(notice.message, ids) }));
 }
+
 
 function dedupeWarnings(warnings: readonly AuditWarningJson[]): AuditWarningJson[] {
   const seen = new Set<string>();

@@ -23,6 +23,7 @@ import { minresOneFactor } from '../stats/minres-factor';
 import { omegaTotal } from '../stats/omega-total';
 import { symmetricEigen } from '../stats/symmetric-eigen';
 import { selectItems, type ItemMatrix, type NumericalNotice, type SquareMatrix } from '../stats/types';
+import { undefinedPairCover } from '../stats/undefined-pair-cover';
 import { varianceInflation } from '../stats/variance-inflation';
 import type { EngineSettings } from './engine-settings';
 import { principalSubmatrix } from './principal-submatrix';
@@ -53,12 +54,28 @@ export interface ComputeEvidenceOptions {
 export function warningsFromNotices(notices: readonly NumericalNotice[], items: readonly EngineItem[], local: readonly number[], context = ''): EngineWarning[] {
   return notices.map((notice) => {
     const ids = notice.items.map((k) => items[local[k]]?.id).filter((id): id is string => id !== undefined);
-    let message = notice.message;
+    let message = namePositions(notice.message, local.map((j) => items[j]?.id ?? String(j)));
     if (notice.code === 'exact-dependency' && ids.length > 0 && ids.length < local.length) {
       message = `${ids.join(', ')} are exactly linearly dependent (one is an exact linear combination of the others, e.g. a duplicated column): their VIF and condition index are infinite and reported as null.`;
     }
     return { code: notice.code, items: ids, message: context.length > 0 ? `${context}: ${message}` : message };
   });
+}
+
+/**
+ * The core names items by their 0-based position in the matrix it was given ("item 3",
+ * "Predictor 2", "item column 4", "Items at columns 0, 5"); a reader needs the item ids.
+ * @param message a core notice's message.
+ * @param ids the ids of the matrix's columns, in order.
+ * @returns the message with every position replaced by its id.
+ * References: none (a change of vocabulary, not a method).
+ */
+export function namePositions(message: string, ids: readonly string[]): string {
+  const id = (position: string): string => ids[Number(position)] ?? `#${Number(position) + 1}`;
+  return message
+    .replace(/\b(I|i)tems at columns ((?:\d+)(?:, \d+)*)/g, (_, initial: string, list: string) => `${initial}tems ${list.split(', ').map(id).join(', ')}`)
+    .replace(/\b(I|i)tem column (\d+)/g, (_, initial: string, position: string) => `${initial}tem ${id(position)}`)
+    .replace(/\b([Ii]tem|[Pp]redictor) (\d+)\b/g, (_, word: string, position: string) => `${word} ${id(position)}`);
 }
 
 /**
@@ -218,10 +235,31 @@ export function computeEvidence(
     };
   }
 
-  const data = usable.length === items.length ? matrix : selectItems(matrix, usable);
+  let data = usable.length === items.length ? matrix : selectItems(matrix, usable);
+  let correlation = correlationMatrix(data, { method: settings.method, missing: settings.missing });
+  // An undefined correlation (two items never answered together, or no variation where they
+  // were) is never entered as 0: the fewest items that leave no undefined pair are set aside.
+  for (let round = 0; correlation.undefinedPairs.length > 0 && usable.length > 1 && round < items.length; round++) {
+    const answered = usable.map((j) => descriptives[j].n);
+    const cover = undefinedPairCover(usable.length, correlation.undefinedPairs, answered);
+    const chosen = cover.leftOut.map((k, t) => ({ k, partners: cover.partners[t] })).sort((a, b) => a.k - b.k);
+    const names = chosen.map(({ k }) => items[usable[k]].id);
+    const detail = chosen.map(({ k, partners }) => `${items[usable[k]].id} (no correlation with ${partners.map((m) => items[usable[m]].id).join(', ')})`);
+    warnings.push({
+      code: 'correlation-undefined-items-left-out',
+      items: names,
+      message:
+        `${correlation.undefinedPairs.length} item pair(s) have no correlation (fewer than 3 respondents answered both, or one item did not vary where they did), ` +
+        `so ${names.length === 1 ? 'one item was' : `${names.length} items were`} left out of the correlation matrix and every statistic built on it: ${detail.join('; ')}. ` +
+        'The items were chosen greedily (each time the item in the most undefined pairs) so that as few as possible leave; an undefined correlation is never entered as 0.',
+    });
+    const gone = new Set(cover.leftOut);
+    const kept = usable.filter((_, k) => !gone.has(k));
+    usable.splice(0, usable.length, ...kept);
+    data = selectItems(matrix, usable);
+    correlation = correlationMatrix(data, { method: settings.method, missing: settings.missing });
+  }
   const completeData = completeRows(data).length === data.rows;
-
-  const correlation = correlationMatrix(data, { method: settings.method, missing: settings.missing });
   warnings.push(...warningsFromNotices(correlation.notices, items, usable));
   // The core repairs an indefinite matrix (Higham's nearest correlation matrix) and says so.
   const matrixR = correlation.matrix;

@@ -47,4 +47,5 @@ export * from './symmetric-input';
 export * from './t-distribution';
 export * from './tolerances';
 export * from './types';
+export * from './undefined-pair-cover';
 export * from './variance-inflation';
