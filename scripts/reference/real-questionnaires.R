@@ -82,16 +82,20 @@ write_fixture(list(script = script, versions = versions, lsat6 = lsat(psych::lsa
 
 # ── Polychoric / tetrachoric standard errors (two-step) ───────────────────────────────────
 se_pair <- function(d, a, b, label) {
-  x <- d[[a]]
-  y <- d[[b]]
-  keep <- !is.na(x) & !is.na(y)
-  fit <- polycor::polychor(x, y, std.err = TRUE, ML = FALSE)
+  # Pair-complete rows, so that the thresholds of both programs come from the same answers.
+  keep <- !is.na(d[[a]]) & !is.na(d[[b]])
+  x <- d[[a]][keep]
+  y <- d[[b]][keep]
+  rho <- polycor::polychor(x, y, ML = FALSE)
+  # std.err = TRUE runs optim (BFGS) from `start`; starting at the optimise() estimate keeps the
+  # Hessian at the two-step estimate itself.
+  fit <- polycor::polychor(x, y, std.err = TRUE, ML = FALSE, start = rho)
   list(
     data = label, a = a, b = b,
     x = I(as.numeric(x)), y = I(as.numeric(y)),
-    n = sum(keep),
-    rho = fit$rho, se = sqrt(fit$var[1, 1]),
-    call = sprintf("polycor::polychor(%s$%s, %s$%s, std.err = TRUE, ML = FALSE); sqrt(fit$var)", label, a, label, b)
+    n = length(x),
+    rho = rho, rhoStdErrRun = fit$rho, se = sqrt(fit$var[1, 1]),
+    call = sprintf("keep <- complete.cases(%s$%s, %s$%s); rho <- polycor::polychor(x, y, ML = FALSE); fit <- polycor::polychor(x, y, std.err = TRUE, ML = FALSE, start = rho); sqrt(fit$var)", label, a, label, b)
   )
 }
 bfi_items <- psych::bfi[, 1:25]

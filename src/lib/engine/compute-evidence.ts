@@ -283,6 +283,7 @@ export function computeEvidence(
     usable,
     correlation: matrixR,
     pairN: correlation.n,
+    pairStandardErrors: correlation.standardErrors,
     correlationRows: correlation.rowsUsed,
     repaired,
     covariance: covariance.matrix,

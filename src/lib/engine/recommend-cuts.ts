@@ -77,6 +77,9 @@ export interface PairReport {
   readonly n: number;
   readonly lower: number | null;
   readonly upper: number | null;
+  /** Which interval: `fisher-z` (Pearson, Spearman) or `estimator-se` (polychoric: its likelihood's SE). */
+  readonly interval?: 'fisher-z' | 'estimator-se';
+  readonly se?: number | null;
   readonly wording: number | null;
 }
 
@@ -492,6 +495,8 @@ export function pairReport(evidence: EngineEvidence, pair: PairEvidence): PairRe
     n: pair.n,
     lower: pair.lower,
     upper: pair.upper,
+    ...(pair.interval ? { interval: pair.interval } : {}),
+    ...(pair.interval === 'estimator-se' ? { se: pair.se ?? null } : {}),
     wording: pair.wording,
   };
 }

@@ -49,3 +49,4 @@ export * from './tolerances';
 export * from './types';
 export * from './undefined-pair-cover';
 export * from './variance-inflation';
+export * from './wald-correlation-interval';

@@ -29,7 +29,9 @@ function describePair(pair: PairReport, confidenceLevel: number): string {
   const percent = Math.round(confidenceLevel * 100);
   return (
     `r = ${pair.r.toFixed(2)}` +
-    (pair.lower !== null && pair.upper !== null ? `, ${percent}% interval ${pair.lower.toFixed(2)} to ${pair.upper.toFixed(2)}` : '') +
+    (pair.lower !== null && pair.upper !== null
+      ? `, ${percent}% interval ${pair.lower.toFixed(2)} to ${pair.upper.toFixed(2)}${pair.interval === 'estimator-se' ? " from the polychoric estimate's own standard error" : ''}`
+      : '') +
     `, n = ${pair.n}`
   );
 }
