@@ -118,9 +118,11 @@ pa <- function(d, label, iterations) {
   res <- psych::fa.parallel(d, cor = "poly", fa = "pc", n.iter = iterations, plot = FALSE, quant = 0.95)
   list(
     data = label, items = I(colnames(d)), rows = rows_of(d),
-    observed = I(res$pc.values), simulated95 = I(res$pc.sim), resampled95 = I(res$pc.simr),
+    # fa.parallel's $pc.sim and $pc.simr are the MEANS of the random eigenvalues (values.sim.mean
+    # in its source); the quantiles are not returned for components.
+    observed = I(res$pc.values), simulatedMean = I(res$pc.sim), resampledMean = I(res$pc.simr),
     ncomp = res$ncomp, iterations = iterations,
-    call = sprintf("set.seed(2026); psych::fa.parallel(%s, cor = 'poly', fa = 'pc', n.iter = %d, quant = 0.95); $pc.values, $pc.sim, $pc.simr, $ncomp", label, iterations)
+    call = sprintf("set.seed(2026); psych::fa.parallel(%s, cor = 'poly', fa = 'pc', n.iter = %d, quant = 0.95); $pc.values, $pc.sim (mean), $pc.simr (mean), $ncomp (observed above the resampled mean)", label, iterations)
   )
 }
 ac <- psych::bfi[complete.cases(psych::bfi[, 1:10]), 1:10]

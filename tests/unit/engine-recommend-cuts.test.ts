@@ -67,7 +67,8 @@ describe('recommendCuts', () => {
     expect(recommendation.evidence.vifAfter).toBeLessThan(recommendation.evidence.vifBefore!);
     expect(reasonSentence(recommendation.because)).toMatch(/^A1 and A5 correlate strongly \(r = 0\.93, 95% interval 0\.91 to 0\.95, n = 211\); keep A\d .* and drop A\d, which lowers the cluster's highest VIF from [\d.]+ to [\d.]+\.$/);
     expect(recommendation.cautions).toHaveLength(3);
-    expect(recommendation.cautions.map(cautionSentence).join(' ')).toMatch(/not proof.*Pilot samples are small.*validated instrument/);
+    // n = 211 is not small (SMALL_PAIR_N = 200): the caution says what the figure means instead.
+    expect(recommendation.cautions.map(cautionSentence).join(' ')).toMatch(/not proof.*rests on 211 respondents, so each r is precise.*validated instrument/);
   });
 
   it('never proposes a locked item, and a locked item always wins the keeper', () => {

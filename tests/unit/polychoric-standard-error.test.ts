@@ -42,3 +42,23 @@ describe('polychoric and tetrachoric standard errors against polycor 0.8.1', () 
     expect(wald.upper).toBeGreaterThan(first.rho);
   });
 });
+
+describe('the engine puts the estimator interval beside a polychoric pair', () => {
+  it('lsat6 Q1–Q2: se from the likelihood (polycor 0.0741), not Fisher z', async () => {
+    const { computeEvidence } = await import('../../src/lib/engine/compute-evidence');
+    const { pairEvidence } = await import('../../src/lib/engine/overlap-clusters');
+    const screening = JSON.parse(readFileSync(join(import.meta.dirname, '..', '..', 'fixtures', 'reference', 'real-screening.json'), 'utf8')) as { lsat6: { items: string[]; rows: number[][] } };
+    const { itemMatrixFromRows } = await import('../../src/lib/stats');
+    const matrix = itemMatrixFromRows(screening.lsat6.rows);
+    const items = screening.lsat6.items.map((id) => ({ id, scale: 'T', text: null, locked: false, min: 0, max: 1 }));
+    const evidence = computeEvidence(matrix, items, { method: 'polychoric', missing: 'pairwise' });
+    const pair = pairEvidence(evidence, items.map(() => items.map(() => null)), 0, 1, 0.95);
+    const reference = fixture.pairs.find((entry) => entry.data === 'lsat6' && entry.a === 'Q1' && entry.b === 'Q2') as Pair;
+    expect(pair.interval).toBe('estimator-se');
+    // polycor::polychor(lsat6$Q1, lsat6$Q2, std.err = TRUE, ML = FALSE); sqrt(fit$var)
+    expect(Math.abs((pair.se as number) / reference.se - 1)).toBeLessThan(2e-4);
+    const expected = waldCorrelationInterval(pair.r, reference.se);
+    expect(pair.lower).toBeCloseTo(expected.lower, 4);
+    expect(pair.upper).toBeCloseTo(expected.upper, 4);
+  });
+});

@@ -95,3 +95,45 @@ describe('namePositions', () => {
     expect(namePositions('the intercept, item column 1 hold only zeros', ids)).toBe('the intercept, item Q02 hold only zeros');
   });
 });
+
+describe('a scored 0/1 test under polychoric (tetrachoric) correlations: psych::lsat6', async () => {
+  // scripts/reference/real-questionnaires.R → fixtures/reference/real-screening.json (the data only)
+  const { readFileSync } = await import('node:fs');
+  const real = JSON.parse(readFileSync('fixtures/reference/real-screening.json', 'utf8')) as { lsat6: { items: string[]; rows: number[][] } };
+  const { itemMatrixFromRows } = await import('../../src/lib/stats/types');
+  const { proposedCorrelationMethod } = await import('../../src/lib/audit/audit-input');
+  const matrix = itemMatrixFromRows(real.lsat6.rows);
+  const items = real.lsat6.items.map((id) => ({ id, scale: 'LSAT6', text: null, locked: false, min: 0, max: 1, reverse: false }));
+  const base: AuditInput = { matrix, items, rowsInWave: matrix.rows, excluded: 0, outcome: null };
+
+  it('proposes the tetrachoric correlation for 0/1 items, and warns when Pearson (phi) is used', async () => {
+    expect(proposedCorrelationMethod(items).method).toBe('polychoric');
+    expect(proposedCorrelationMethod([...items, { min: 1, max: 5 }]).method).toBe('pearson');
+    const pearson = await runAudit(base, { method: 'pearson', bootstrap: 0 });
+    expect(pearson.warnings.find((entry) => entry.code === 'dichotomous-items-pearson')?.items).toEqual(real.lsat6.items);
+    expect((pearson.parallelAnalysis as { correlation: string }).correlation).toBe('pearson');
+  });
+
+  it('runs parallel analysis on polychoric random data, labels alpha and omega, and warns that 1000 is few for tetrachoric', async () => {
+    const audit = await runAudit(base, { method: 'polychoric', bootstrap: 0, parallelIterations: 100 });
+    const pa = audit.parallelAnalysis as { correlation: string; iterations: number; note: string; suggested: number };
+    expect(pa.correlation).toBe('polychoric');
+    expect(pa.iterations).toBe(20); // POLYCHORIC_PARALLEL_DEFAULT_ITERATIONS: fewer draws, said in the note
+    expect(pa.note).toMatch(/instead of 100/);
+    // psych::fa.parallel(lsat7, cor = 'poly') retains 1 component (real-parallel-poly.json); lsat6 is the same kind of five-item test.
+    expect(pa.suggested).toBe(1);
+    expect(audit.warnings.some((entry) => entry.code === 'dichotomous-items-pearson')).toBe(false);
+    // 1000 respondents < TETRACHORIC_MINIMUM_N? No: 1000 ≥ 400, so no small-sample warning.
+    expect(audit.warnings.some((entry) => entry.code === 'polychoric-sample-small')).toBe(false);
+    const basis = (audit.scales[0] as { basis: Record<string, string> }).basis;
+    expect(basis.alpha).toMatch(/raw scores/);
+    expect(basis.omegaTotal).toMatch(/model-implied omega total.*polychoric/);
+  });
+
+  it('warns where a tetrachoric matrix rests on too few respondents', async () => {
+    const few = itemMatrixFromRows(real.lsat6.rows.filter((_, i) => i % 10 === 0));
+    const audit = await runAudit({ ...base, matrix: few, rowsInWave: few.rows }, { method: 'polychoric', bootstrap: 0 });
+    const warning = audit.warnings.find((entry) => entry.code === 'polychoric-sample-small');
+    expect(warning?.message).toMatch(/as few as 100 respondents per pair, below the 400 this audit asks of a tetrachoric matrix/);
+  });
+});

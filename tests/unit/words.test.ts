@@ -61,7 +61,9 @@ describe('reasonSentence', () => {
 describe('cautionSentence', () => {
   it('words the standard cautions of product.md', () => {
     expect(cautionSentence({ code: 'overlap-not-proof' })).toBe('Statistical overlap is evidence, not proof, that these items ask the same thing: read the wording before deciding.');
-    expect(cautionSentence({ code: 'small-sample', smallestN: 79 })).toBe('Pilot samples are small (the smallest pair here rests on 79 respondents): weigh the interval and the stability share.');
+    expect(cautionSentence({ code: 'small-sample', smallestN: 79 })).toBe('This sample is small (the smallest pair here rests on 79 respondents): weigh the interval and the stability share.');
+    // 3015 respondents is not small (SMALL_PAIR_N = 200, common practice).
+    expect(cautionSentence({ code: 'small-sample', smallestN: 3015 })).toMatch(/^The smallest pair here rests on 3015 respondents, so each r is precise/);
     expect(cautionSentence({ code: 'validated-instrument' })).toBe("Items from a published, validated instrument must not be shortened or reworded without re-validation and the rights holder's permission.");
   });
 

@@ -31,6 +31,23 @@ export interface AuditInputOptions {
 }
 
 /**
+ * The correlation method an audit should use by default for these items: polychoric (for 0/1
+ * items the tetrachoric correlation) when every item is dichotomous or scored 0/1, because phi,
+ * the Pearson r of two 0/1 items, is bounded by their margins; Pearson otherwise.
+ * @param items the wave's items (range and type).
+ * @returns the method and the reason, one sentence.
+ * References: Guilford 1965, "Fundamental Statistics in Psychology and Education" (the bound of phi
+ *   by the margins; from memory); Olsson 1979, Psychometrika 44:443-460 (polychoric / tetrachoric).
+ */
+export function proposedCorrelationMethod(items: readonly { readonly min: number; readonly max: number; readonly type?: string }[]): { method: 'pearson' | 'polychoric'; reason: string } {
+  const binary = items.filter((item) => item.min === 0 && item.max === 1 && item.type !== 'rating');
+  if (items.length > 0 && binary.length === items.length) {
+    return { method: 'polychoric', reason: 'Every item is scored 0/1, so the tetrachoric correlation (polychoric on 0/1) is proposed: phi, the Pearson r of 0/1 items, is bounded by their margins.' };
+  }
+  return { method: 'pearson', reason: 'Rating items: Pearson correlations by default.' };
+}
+
+/**
  * Builds the audit input from a wave.
  * @param wave The built wave; its `excluded` respondents are left out.
  * @param options Outcome id and locked item ids.
@@ -67,6 +84,7 @@ export function auditInputFromWave(wave: Pick<BuiltWave, 'matrix' | 'items' | 'o
       locked: locked.has(item.id),
       min: item.min,
       max: item.max,
+      ...(item.type ? { type: item.type } : {}),
     })),
     rowsInWave: wave.respondents,
     excluded: wave.excluded.length,

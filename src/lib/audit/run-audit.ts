@@ -19,6 +19,8 @@ import type { AfterCut } from '../engine/simulate-cut';
 import { bartlettSphericity } from '../stats/bartlett-sphericity';
 import { kaiserMeyerOlkin } from '../stats/kmo';
 import { parallelAnalysis } from '../stats/parallel-analysis';
+import { polychoricParallelAnalysis } from '../stats/parallel-analysis-polychoric';
+import { POLYCHORIC_PARALLEL_DEFAULT_ITERATIONS } from '../stats/tolerances';
 import { completeRows } from '../stats/complete-rows';
 import { AuditInputError } from './audit-input';
 import { correlationMatrix } from '../stats/correlation-matrix';
@@ -40,6 +42,8 @@ import { cautionSentence, reasonSentence } from '../words';
 export interface AuditItemInput extends EngineItem {
   /** Reverse-keyed in the codebook (the matrix is already recoded). */
   readonly reverse: boolean;
+  /** Item type from the setup (rating, scored, dichotomous); absent: from the range. */
+  readonly type?: 'rating' | 'scored' | 'dichotomous';
 }
 
 /** What one audit reads. */
@@ -132,6 +136,14 @@ export async function runAudit(
   warnings.push(...[...evidence.warnings].map(plainWarning));
   const ids = input.items.map((item) => item.id);
   const usableIds = evidence.usable.map((j) => ids[j]);
+  const dichotomous = input.items.filter((item) => (item.type ?? (item.min === 0 && item.max === 1 ? 'dichotomous' : 'rating')) !== 'rating' && item.min === 0 && item.max === 1);
+  if (dichotomous.length > 0 && evidence.method !== 'polychoric') {
+    warnings.push({
+      code: 'dichotomous-items-pearson',
+      items: dichotomous.map((item) => item.id),
+      message: `${dichotomous.length} item${dichotomous.length === 1 ? ' is' : 's are'} scored 0/1, and a ${evidence.method} correlation of two 0/1 items (phi) cannot reach 1 unless both have the same share of 1s, so strong overlap may stay hidden; the tetrachoric correlation (method: polychoric) is proposed for such items.`,
+    });
+  }
   const respondentsForTests = respondentsBehind(evidence, input.matrix);
   const structure = structureStatistics(evidence, respondentsForTests, engineSettings.seed, parallelIterations, ids);
   warnings.push(...structure.warnings);
@@ -218,6 +230,11 @@ export async function runAudit(
       alpha: scale.alpha,
       alphaStd: scale.alphaStd,
       omegaTotal: scale.omegaTotal,
+      basis: {
+        alpha: `raw scores: Cronbach's alpha from the item covariances (${evidence.missing}), whatever the correlation method`,
+        alphaStd: `the ${evidence.method} correlation matrix (standardized alpha)`,
+        omegaTotal: `model-implied omega total, (sum of loadings)² / ((sum of loadings)² + sum of uniquenesses), from one-factor minres loadings on the ${evidence.method} correlation matrix (not psych::omega's observed-variance version)`,
+      },
     })),
     recommendations: engine.recommendations.map(recommendationJson),
     afterCut: afterCutJson(engine.afterCut),
@@ -313,9 +330,24 @@ function structureStatistics(
     warnings.push(...noticeWarnings(bartlett.notices, keptIds));
   }
   let parallel: AuditJson['parallelAnalysis'] = null;
-  if (respondents >= 3) {
+  const thresholds = evidence.thresholds ?? null;
+  if (respondents >= 3 && evidence.method === 'polychoric' && thresholds !== null && thresholds.every((limits) => limits.length > 0)) {
+    // The random reference is of the same correlation type (Garrido, Abad & Ponsoda 2013): ordinal
+    // data at the observed thresholds, polychoric eigenvalues; fewer draws, each costs a matrix of fits.
+    const draws = Math.min(iterations, POLYCHORIC_PARALLEL_DEFAULT_ITERATIONS);
+    const result = polychoricParallelAnalysis(evidence.eigenvalues, respondents, thresholds, { seed, iterations: draws });
+    parallel = {
+      observed: [...result.observed], random95: [...result.random95], suggested: result.suggested, iterations: result.iterations, seed: result.seed,
+      correlation: 'polychoric',
+      note: `Random data were ordinal items cut at each item's observed thresholds, correlated by polychoric r like the observed matrix (Garrido, Abad & Ponsoda 2013); ${result.iterations} draws${draws < iterations ? ` instead of ${iterations}, as each draw costs a full polychoric matrix` : ''}.`,
+    };
+  } else if (respondents >= 3) {
     const result = parallelAnalysis(evidence.eigenvalues, respondents, { seed, iterations });
-    parallel = { observed: [...result.observed], random95: [...result.random95], suggested: result.suggested, iterations: result.iterations, seed: result.seed };
+    parallel = {
+      observed: [...result.observed], random95: [...result.random95], suggested: result.suggested, iterations: result.iterations, seed: result.seed,
+      correlation: 'pearson',
+      note: `Random data were standard normal, correlated by Pearson r; ${result.iterations} draws.`,
+    };
   } else {
     warnings.push({ code: 'parallel-analysis-skipped', items: [], message: 'Parallel analysis needs at least three respondents with answers; it was skipped.' });
   }
@@ -340,7 +372,12 @@ function outcomeModelWithCut(input: AuditInput, evidence: EngineEvidence, remove
   const { rows, ...model } = before;
   const inModel = removed.filter((id) => model.coefficients.some((coefficient) => coefficient.term === id));
   const afterCut = inModel.length > 0 && inModel.length < evidence.usable.length ? refitOutcomeAfterCut(modelInput, evidence.usable, before, inModel, warnings) : null;
-  return { ...model, completeRows: rows.length, afterCut };
+  return {
+    ...model,
+    completeRows: rows.length,
+    afterCut,
+    basis: `OLS on the ${rows.length} complete rows (the outcome and every item answered); its VIF therefore uses complete rows, while the item table's VIF uses the ${evidence.missing} ${evidence.method} correlation matrix.`,
+  };
 }
 
 function recommendationJson(recommendation: Recommendation): AuditRecommendationJson {

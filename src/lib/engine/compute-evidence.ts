@@ -21,7 +21,8 @@ import { itemDescriptives } from '../stats/item-descriptives';
 import { itemRestCorrelations } from '../stats/item-rest-correlation';
 import { minresOneFactor } from '../stats/minres-factor';
 import { omegaTotal } from '../stats/omega-total';
-import { symmetricEigen } from '../stats/symmetric-eigen';
+import { symmetricEigen, symmetricEigenvalues } from '../stats/symmetric-eigen';
+import { POLYCHORIC_MINIMUM_N, REPAIR_EIGENVALUE_FLOOR, TETRACHORIC_MINIMUM_N } from '../stats/tolerances';
 import { selectItems, type ItemMatrix, type NumericalNotice, type SquareMatrix } from '../stats/types';
 import { undefinedPairCover } from '../stats/undefined-pair-cover';
 import { varianceInflation } from '../stats/variance-inflation';
@@ -261,6 +262,7 @@ export function computeEvidence(
   }
   const completeData = completeRows(data).length === data.rows;
   warnings.push(...warningsFromNotices(correlation.notices, items, usable));
+  if (settings.method === 'polychoric') warnings.push(...polychoricSampleWarnings(correlation, items, usable));
   // The core repairs an indefinite matrix (Higham's nearest correlation matrix) and says so.
   const matrixR = correlation.matrix;
   const repaired = correlation.repaired;
@@ -284,6 +286,7 @@ export function computeEvidence(
     correlation: matrixR,
     pairN: correlation.n,
     pairStandardErrors: correlation.standardErrors,
+    thresholds: correlation.thresholds,
     correlationRows: correlation.rowsUsed,
     repaired,
     covariance: covariance.matrix,
@@ -301,6 +304,47 @@ export function computeEvidence(
     descriptives,
     warnings,
   };
+}
+
+/**
+ * Whether a polychoric (tetrachoric for 0/1 items) matrix rests on enough respondents: the
+ * smallest pair n against the stated minimum, and negative eigenvalues before repair, the sign
+ * that the pairs do not fit together (each estimated on its own from too few answers).
+ * @param correlation The polychoric correlation result.
+ * @param items All items; `usable` maps the matrix's positions into them.
+ * @param usable Indices into items[] of the matrix's items.
+ * @returns Zero, one or two warnings (`polychoric-sample-small`, `polychoric-indefinite`).
+ * References: Lorenzo-Seva & Ferrando 2021, "Not positive definite correlation matrices in exploratory
+ *   item factor analysis: causes, consequences and a proposed solution", Structural Equation Modeling
+ *   28:138-147 (from memory); POLYCHORIC_MINIMUM_N and TETRACHORIC_MINIMUM_N (common practice).
+ */
+export function polychoricSampleWarnings(correlation: ReturnType<typeof correlationMatrix>, items: readonly EngineItem[], usable: readonly number[]): EngineWarning[] {
+  const warnings: EngineWarning[] = [];
+  const order = correlation.matrix.order;
+  if (order < 2) return warnings;
+  const binary = (correlation.thresholds ?? []).every((limits) => limits.length === 1);
+  const minimum = binary ? TETRACHORIC_MINIMUM_N : POLYCHORIC_MINIMUM_N;
+  const kind = binary ? 'tetrachoric' : 'polychoric';
+  let smallest = Infinity;
+  for (let j = 0; j < order; j++) for (let k = j + 1; k < order; k++) smallest = Math.min(smallest, correlation.n.data[j * order + k]);
+  const ids = usable.map((j) => items[j].id);
+  if (smallest < minimum) {
+    warnings.push({
+      code: 'polychoric-sample-small',
+      items: ids,
+      message: `The ${kind} matrix rests on as few as ${smallest} respondents per pair, below the ${minimum} this audit asks of a ${kind} matrix (README, "Minimum respondents per method"); its correlations are imprecise and may not fit together, so read them with care or use Pearson correlations.`,
+    });
+  }
+  const raw = correlation.unrepaired ?? correlation.matrix;
+  const negative = Array.from(symmetricEigenvalues(raw)).filter((value) => value < -REPAIR_EIGENVALUE_FLOOR).length;
+  if (negative > 0) {
+    warnings.push({
+      code: 'polychoric-indefinite',
+      items: ids,
+      message: `Before repair the ${kind} matrix had ${negative} negative eigenvalue${negative === 1 ? '' : 's'}: its pairs, each estimated on its own, do not fit one set of respondents, usually because there are too few respondents for the number of items and categories. The figures use the repaired matrix; more respondents, fewer categories (merge sparse ones) or Pearson correlations avoid the repair.`,
+    });
+  }
+  return warnings;
 }
 
 /** VIF, tolerance, R², exact dependencies, eigenvalues and condition number (one decomposition). */

@@ -87,6 +87,8 @@ export interface EngineEvidence {
    * 1979), NaN where none exists; absent or null for Pearson and Spearman (Fisher's z applies).
    */
   readonly pairStandardErrors?: SquareMatrix | null;
+  /** Polychoric only: each usable item's thresholds (normal quantiles of its cumulative proportions). */
+  readonly thresholds?: readonly (readonly number[])[] | null;
   /** Respondents behind the correlation matrix: complete rows (listwise) or rows with any answer (pairwise). */
   readonly correlationRows: number;
   /** The correlation matrix was repaired to positive semi-definiteness. */

@@ -32,6 +32,7 @@ export * from './normal-distribution';
 export * from './ols-regression';
 export * from './omega-total';
 export * from './parallel-analysis';
+export * from './parallel-analysis-polychoric';
 export * from './pearson-correlation';
 export * from './polychoric-coding';
 export * from './polychoric-correlation';

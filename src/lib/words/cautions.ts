@@ -5,6 +5,12 @@
  */
 import type { Caution } from '../engine/recommend-cuts';
 
+/**
+ * Below this many respondents behind a pair the caution calls the sample small (common practice:
+ * at n = 200 a 95% interval for r = .5 still spans about ±.10).
+ */
+export const SMALL_PAIR_N = 200;
+
 /** A share as a whole percentage, e.g. 0.7 → "70%". */
 function percent(value: number): string {
   return `${Math.round(value * 100)}%`;
@@ -20,7 +26,10 @@ export function cautionSentence(caution: Caution): string {
     case 'overlap-not-proof':
       return 'Statistical overlap is evidence, not proof, that these items ask the same thing: read the wording before deciding.';
     case 'small-sample':
-      return `Pilot samples are small (the smallest pair here rests on ${caution.smallestN} respondents): weigh the interval and the stability share.`;
+      // "Small" only when it is (SMALL_PAIR_N, common practice: at n = 200 a 95% interval for r = .5 still spans about ±.10).
+      return caution.smallestN < SMALL_PAIR_N
+        ? `This sample is small (the smallest pair here rests on ${caution.smallestN} respondents): weigh the interval and the stability share.`
+        : `The smallest pair here rests on ${caution.smallestN} respondents, so each r is precise; the stability share says how often resampling repeats the decision, and a new sample may still differ.`;
     case 'validated-instrument':
       return "Items from a published, validated instrument must not be shortened or reworded without re-validation and the rights holder's permission.";
     case 'unstable-choice':
