@@ -111,12 +111,12 @@ describe('a scored 0/1 test under polychoric (tetrachoric) correlations: psych::
     expect(proposedCorrelationMethod([...items, { min: 1, max: 5 }]).method).toBe('pearson');
     const pearson = await runAudit(base, { method: 'pearson', bootstrap: 0 });
     expect(pearson.warnings.find((entry) => entry.code === 'dichotomous-items-pearson')?.items).toEqual(real.lsat6.items);
-    expect((pearson.parallelAnalysis as { correlation: string }).correlation).toBe('pearson');
+    expect((pearson.parallelAnalysis as unknown as { correlation: string }).correlation).toBe('pearson');
   });
 
   it('runs parallel analysis on polychoric random data, labels alpha and omega, and warns that 1000 is few for tetrachoric', async () => {
     const audit = await runAudit(base, { method: 'polychoric', bootstrap: 0, parallelIterations: 100 });
-    const pa = audit.parallelAnalysis as { correlation: string; iterations: number; note: string; suggested: number };
+    const pa = audit.parallelAnalysis as unknown as { correlation: string; iterations: number; note: string; suggested: number };
     expect(pa.correlation).toBe('polychoric');
     expect(pa.iterations).toBe(20); // POLYCHORIC_PARALLEL_DEFAULT_ITERATIONS: fewer draws, said in the note
     expect(pa.note).toMatch(/instead of 100/);
@@ -125,7 +125,7 @@ describe('a scored 0/1 test under polychoric (tetrachoric) correlations: psych::
     expect(audit.warnings.some((entry) => entry.code === 'dichotomous-items-pearson')).toBe(false);
     // 1000 respondents < TETRACHORIC_MINIMUM_N? No: 1000 ≥ 400, so no small-sample warning.
     expect(audit.warnings.some((entry) => entry.code === 'polychoric-sample-small')).toBe(false);
-    const basis = (audit.scales[0] as { basis: Record<string, string> }).basis;
+    const basis = (audit.scales[0] as unknown as { basis: Record<string, string> }).basis;
     expect(basis.alpha).toMatch(/raw scores/);
     expect(basis.omegaTotal).toMatch(/model-implied omega total.*polychoric/);
   });
