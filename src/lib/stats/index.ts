@@ -31,6 +31,7 @@ export * from './nearest-correlation';
 export * from './normal-distribution';
 export * from './ols-regression';
 export * from './omega-total';
+export * from './one-factor-ml';
 export * from './parallel-analysis';
 export * from './parallel-analysis-polychoric';
 export * from './pearson-correlation';

@@ -156,3 +156,12 @@ export const MINRES_START_POWER_STEPS = 100;
 export const HEYWOOD_COMMUNALITY = 1;
 /** Eigenvalues of R_xx at or below this share of the largest make relative weights undefined. */
 export const RELATIVE_WEIGHTS_EIGENVALUE_TOLERANCE = 1e-12;
+
+/** One-factor ML: the fit stops when every gradient component (in ln ψ) is below this. */
+export const ONE_FACTOR_ML_GRADIENT_TOLERANCE = 1e-8;
+/** One-factor ML: a step that lowers F by less than this (relative) ends the search (F's rounding error). */
+export const ONE_FACTOR_ML_STAGNATION = 1e-14;
+/** One-factor ML: most BFGS iterations. */
+export const ONE_FACTOR_ML_MAX_ITERATIONS = 500;
+/** One-factor ML: smallest uniqueness allowed (a Heywood case stops here; common practice, as factanal's lower = 0.005). */
+export const ONE_FACTOR_ML_UNIQUENESS_FLOOR = 0.005;
