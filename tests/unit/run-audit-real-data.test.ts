@@ -137,3 +137,34 @@ describe('a scored 0/1 test under polychoric (tetrachoric) correlations: psych::
     expect(warning?.message).toMatch(/as few as 100 respondents per pair, below the 400 this audit asks of a tetrachoric matrix/);
   });
 });
+
+describe('the measurement model per scale, before and after the cut', () => {
+  it('fits one factor by ML on Pearson data, and the fit improves once the planted twin is cut', async () => {
+    const { oneFactorMl } = await import('../../src/lib/stats/one-factor-ml');
+    const columns = oneFactorItems(400, 6, 21);
+    const random = createSeededRandom(5);
+    // Q6 is Q5 said twice in other words: Q5 plus a little noise (a locally dependent pair).
+    columns[5] = Float64Array.from(columns[4], (value) => Math.min(5, Math.max(1, value + (random.next() < 0.1 ? (random.next() < 0.5 ? -1 : 1) : 0))));
+    const audit = await runAudit(inputOf(columns, ['Q1', 'Q2', 'Q3', 'Q4', 'Q5', 'Q6']), { missing: 'listwise', bootstrap: 0 });
+    const model = (audit.scales[0] as unknown as { model: { estimator: string; n: number; loadings: number[]; fit: { chisq: number; df: number; cfi: number; srmr: number } } }).model;
+    expect(model.estimator).toBe('ML');
+    expect(model.fit.df).toBe(9);
+    // The same figures as the core on the audit's own matrix (the core is checked against lavaan in one-factor-ml.test.ts).
+    const direct = oneFactorMl({ order: 6, data: Float64Array.from(audit.correlation.matrix.flat()) }, 400);
+    expect(model.fit.chisq).toBeCloseTo(direct.chiSquare, 8);
+    model.loadings.forEach((value, k) => expect(value).toBeCloseTo(direct.loadings[k], 8));
+    expect(audit.afterCut?.removed.length).toBe(1);
+    const after = (audit.afterCut?.scales[0] as unknown as { model: { items: string[]; fit: { cfi: number; srmr: number } } }).model;
+    expect(after.items).toHaveLength(5);
+    expect(after.fit.cfi).toBeGreaterThan(model.fit.cfi);
+    expect(after.fit.srmr).toBeLessThan(model.fit.srmr);
+  });
+
+  it('uses minres (SRMR, no chi-square) on polychoric matrices', async () => {
+    const audit = await runAudit(inputOf(oneFactorItems(300, 4, 8), ['Q1', 'Q2', 'Q3', 'Q4']), { method: 'polychoric', bootstrap: 0 });
+    const model = (audit.scales[0] as unknown as { model: { estimator: string; fit: { chisq: number | null; srmr: number } } }).model;
+    expect(model.estimator).toBe('minres');
+    expect(model.fit.chisq).toBeNull();
+    expect(model.fit.srmr).toBeGreaterThan(0);
+  });
+});

@@ -20,6 +20,9 @@ import { bartlettSphericity } from '../stats/bartlett-sphericity';
 import { kaiserMeyerOlkin } from '../stats/kmo';
 import { parallelAnalysis } from '../stats/parallel-analysis';
 import { polychoricParallelAnalysis } from '../stats/parallel-analysis-polychoric';
+import { minresOneFactor } from '../stats/minres-factor';
+import { oneFactorMl } from '../stats/one-factor-ml';
+import { symmetricEigenvalues } from '../stats/symmetric-eigen';
 import { POLYCHORIC_PARALLEL_DEFAULT_ITERATIONS } from '../stats/tolerances';
 import { completeRows } from '../stats/complete-rows';
 import { AuditInputError } from './audit-input';
@@ -189,6 +192,14 @@ export async function runAudit(
     };
   });
 
+  const removedIds = new Set(engine.afterCut.removed);
+  const modelOf = (members: readonly number[]) => scaleModel(evidence, members, ids);
+  const afterCut = afterCutJson(engine.afterCut);
+  afterCut.scales = afterCut.scales.map((scale) => {
+    const members = evidence.scales.find((entry) => entry.id === scale.id)?.items.filter((j) => !removedIds.has(ids[j])) ?? [];
+    return { ...scale, model: modelOf(members) };
+  });
+
   const collinearity = evidence.collinearity;
   return {
     schema: AUDIT_SCHEMA,
@@ -235,9 +246,10 @@ export async function runAudit(
         alphaStd: `the ${evidence.method} correlation matrix (standardized alpha)`,
         omegaTotal: `model-implied omega total, (sum of loadings)² / ((sum of loadings)² + sum of uniquenesses), from one-factor minres loadings on the ${evidence.method} correlation matrix (not psych::omega's observed-variance version)`,
       },
+      model: modelOf(scale.items),
     })),
     recommendations: engine.recommendations.map(recommendationJson),
-    afterCut: afterCutJson(engine.afterCut),
+    afterCut,
     clusters: engine.clusters,
     outcomeModel,
     ...(input.screening ? { screening: { itemTypes: { ...input.screening.itemTypes }, rules: input.screening.rules.map((rule) => ({ ...rule })), proposedExclusions: input.screening.proposedExclusions } } : {}),
@@ -268,6 +280,67 @@ function refuseListwiseWithoutRows(input: AuditInput): void {
     `Listwise deletion keeps only respondents who answered all ${columns} items, and ${complete === 0 ? 'no one did' : `only ${complete} did`}` +
       `${named ? ` (most often unanswered: ${named})` : ''}; use pairwise deletion instead (missing: pairwise; on the command line --missing pairwise).`,
   );
+}
+
+/** A scale's one-factor measurement model as the audit JSON shows it. */
+export interface ScaleModelJson {
+  readonly estimator: 'ML' | 'minres';
+  readonly correlation: string;
+  readonly items: readonly string[];
+  /** Respondents the chi-square rests on (listwise: complete rows; pairwise: the smallest pair n). */
+  readonly n: number;
+  readonly loadings: readonly number[];
+  /** Residual correlations, observed minus model-implied, items × items in `items` order. */
+  readonly residuals: readonly (readonly number[])[];
+  readonly fit: { readonly chisq: number | null; readonly df: number; readonly rmsea: number | null; readonly cfi: number | null; readonly srmr: number };
+  readonly note: string;
+}
+
+/**
+ * One factor per scale on the audit's correlation matrix: maximum likelihood for Pearson data
+ * (chi-square, RMSEA, CFI, SRMR as lavaan reports them), minres for Spearman and polychoric
+ * matrices (SRMR only: minres gives no chi-square). Null below three items or when the matrix
+ * over the scale is not positive definite.
+ */
+function scaleModel(evidence: EngineEvidence, members: readonly number[], ids: readonly string[]): ScaleModelJson | null {
+  const positions = members.map((j) => evidence.usable.indexOf(j)).filter((k) => k >= 0);
+  if (positions.length < 3) return null;
+  const sub = principalSubmatrix(evidence.correlation, positions);
+  const p = sub.order;
+  let n = evidence.correlationRows;
+  if (evidence.missing === 'pairwise') {
+    const order = evidence.pairN.order;
+    n = Infinity;
+    for (const a of positions) for (const b of positions) if (a !== b) n = Math.min(n, evidence.pairN.data[a * order + b]);
+  }
+  const itemIds = positions.map((k) => ids[evidence.usable[k]]);
+  const rows = (data: Float64Array) => Array.from({ length: p }, (_, i) => Array.from(data.subarray(i * p, (i + 1) * p)));
+  if (evidence.method === 'pearson' && Number.isFinite(n) && n >= 2 && symmetricEigenvalues(sub)[p - 1] > 0) {
+    const fit = oneFactorMl(sub, n);
+    return {
+      estimator: 'ML', correlation: 'pearson', items: itemIds, n, loadings: fit.loadings, residuals: rows(fit.residuals.data),
+      fit: { chisq: fit.chiSquare, df: fit.degreesOfFreedom, rmsea: fit.rmsea, cfi: fit.cfi, srmr: fit.srmr },
+      note: `Maximum likelihood one-factor model on the ${evidence.missing} Pearson correlations; the chi-square uses N = ${n}${evidence.missing === 'pairwise' ? ' (the smallest pair n; ML assumes complete data)' : ''}, as lavaan does (N·F).${fit.degreesOfFreedom === 0 ? ' With three items the model is just identified: df = 0, so it fits exactly and only the loadings inform.' : ''}`,
+    };
+  }
+  const minres = minresOneFactor(sub);
+  if (minres.loadings === null) return null;
+  const loadings = Array.from(minres.loadings);
+  const residuals = new Float64Array(p * p);
+  let squares = 0;
+  for (let i = 0; i < p; i++) {
+    for (let j = 0; j < i; j++) {
+      const residual = sub.data[i * p + j] - loadings[i] * loadings[j];
+      residuals[i * p + j] = residual;
+      residuals[j * p + i] = residual;
+      squares += residual * residual;
+    }
+  }
+  return {
+    estimator: 'minres', correlation: evidence.method, items: itemIds, n: Number.isFinite(n) ? n : 0, loadings, residuals: rows(residuals),
+    fit: { chisq: null, df: (p * (p - 3)) / 2, rmsea: null, cfi: null, srmr: Math.sqrt(squares / ((p * (p + 1)) / 2)) },
+    note: `Minres one-factor model on the ${evidence.method} correlation matrix: it gives no chi-square, so RMSEA and CFI are not computed; SRMR over the lower triangle with its diagonal (zero there by construction), as lavaan defines it.`,
+  };
 }
 
 /** Respondents behind the structure tests: complete rows under listwise, every row under pairwise. */
