@@ -168,3 +168,15 @@ describe('the measurement model per scale, before and after the cut', () => {
     expect(model.fit.srmr).toBeGreaterThan(0);
   });
 });
+
+describe('keying balance', () => {
+  it('flags a cut that removes the last reverse-keyed item of a scale', async () => {
+    const { keyingBalanceWarnings } = await import('../../src/lib/audit/run-audit');
+    const items = ['A1', 'A2', 'A3', 'A4'].map((id, k) => ({ id, scale: 'A', text: null, locked: false, min: 1, max: 5, reverse: k === 3 }));
+    const scales = [{ id: 'A', items: [0, 1, 2, 3] }];
+    expect(keyingBalanceWarnings(items, scales, new Set(['A2']))).toEqual([]);
+    const lost = keyingBalanceWarnings(items, scales, new Set(['A4']));
+    expect(lost.map((entry) => [entry.code, entry.items])).toEqual([['keying-balance-lost', ['A4']]]);
+    expect(lost[0].message).toMatch(/every reverse-keyed item of scale A \(A4\)/);
+  });
+});

@@ -200,6 +200,8 @@ export async function runAudit(
     return { ...scale, model: modelOf(members) };
   });
 
+  warnings.push(...keyingBalanceWarnings(input.items, evidence.scales.map((scale) => ({ id: scale.id, items: scale.items })), removedIds));
+
   const collinearity = evidence.collinearity;
   return {
     schema: AUDIT_SCHEMA,
@@ -280,6 +282,38 @@ function refuseListwiseWithoutRows(input: AuditInput): void {
     `Listwise deletion keeps only respondents who answered all ${columns} items, and ${complete === 0 ? 'no one did' : `only ${complete} did`}` +
       `${named ? ` (most often unanswered: ${named})` : ''}; use pairwise deletion instead (missing: pairwise; on the command line --missing pairwise).`,
   );
+}
+
+/**
+ * Keying balance: a scale that has both reverse-keyed and positively keyed items controls
+ * acquiescence (agreeing whatever the content); a cut that removes the last items of either
+ * keying takes that control away, and is flagged.
+ * @param items the audit's items (reverse flag from the setup).
+ * @param scales each scale's member indices into items[].
+ * @param removed ids of the items the proposed cut removes.
+ * @returns one `keying-balance-lost` warning per scale that loses it.
+ * References: Paulhus 1991, "Measurement and control of response bias", in Robinson, Shaver &
+ *   Wrightsman (eds.), Measures of Personality and Social Psychological Attitudes (balanced keying
+ *   against acquiescence; from memory).
+ */
+export function keyingBalanceWarnings(items: readonly AuditItemInput[], scales: readonly { id: string; items: readonly number[] }[], removed: ReadonlySet<string>): AuditWarningJson[] {
+  const warnings: AuditWarningJson[] = [];
+  for (const scale of scales) {
+    const members = scale.items.map((j) => items[j]);
+    const reverse = members.filter((item) => item.reverse);
+    const forward = members.filter((item) => !item.reverse);
+    if (reverse.length === 0 || forward.length === 0) continue;
+    for (const [side, group] of [['reverse-keyed', reverse], ['positively keyed', forward]] as const) {
+      if (group.every((item) => removed.has(item.id))) {
+        warnings.push({
+          code: 'keying-balance-lost',
+          items: group.map((item) => item.id),
+          message: `The proposed cut removes every ${side} item of scale ${scale.id} (${group.map((item) => item.id).join(', ')}), so the shortened scale can no longer separate agreement with the content from agreeing with anything (acquiescence); keep one of them, or lock it.`,
+        });
+      }
+    }
+  }
+  return warnings;
 }
 
 /** A scale's one-factor measurement model as the audit JSON shows it. */
