@@ -25,6 +25,24 @@ const misspelt = settingsFile({ strongPairThresold: 0.3 });
 const withFault = settingsFile({ testFault: 'crash' });
 
 describe('npm run audit', () => {
+  it('refuses a driver model on predictors that are not items, or are left out, in one sentence (exit 2)', () => {
+    const unknown = audit('fixtures/demo/library-pilot-1.csv', '--codebook', 'fixtures/demo/library-codebook.csv', '--bootstrap', '0', '--outcome', 'overall_sat', '--predictors', 'coll_1,coll_99');
+    expect(unknown.code).toBe(2);
+    expect(unknown.stderr).toMatch(/coll_99 is not an item of this wave: name the driver model's predictors by their item ids\./);
+    expect(unknown.stderr).not.toMatch(/\bat .+\.ts:\d+/);
+    // hours_7 is the demo's constant item (fixtures/demo/README.md), left out of the matrix.
+    const constant = audit('fixtures/demo/library-pilot-1.csv', '--codebook', 'fixtures/demo/library-codebook.csv', '--bootstrap', '0', '--outcome', 'overall_sat', '--predictors', 'coll_1,hours_7');
+    expect(constant.code).toBe(2);
+    expect(constant.stderr).toMatch(/hours_7 cannot be a predictor/);
+    const named = audit('fixtures/demo/library-pilot-1.csv', '--codebook', 'fixtures/demo/library-codebook.csv', '--bootstrap', '0', '--outcome', 'overall_sat', '--predictors', 'coll_2,coll_7,hours_1');
+    expect(named.code).toBe(0);
+    const json = JSON.parse(named.stdout);
+    expect(json.settings.predictors).toEqual(['coll_2', 'coll_7', 'hours_1']);
+    expect(json.outcomeModel.coefficients.map((c: { term: string }) => c.term)).toEqual(['(intercept)', 'coll_2', 'coll_7', 'hours_1']);
+    // The proposed cut merges coll_7 into coll_2, so the refit keeps coll_2 and hours_1.
+    expect(json.outcomeModel.afterCut.coefficients.map((c: { term: string }) => c.term)).toEqual(['(intercept)', 'coll_2', 'hours_1']);
+  });
+
   it('audits the demo file end to end and writes the JSON', () => {
     const out = join(mkdtempSync(join(tmpdir(), 'paredown-cli-')), 'audit.json');
     const result = audit('fixtures/demo/library-pilot-1.xlsx', '--bootstrap', '10', '--method', 'spearman', '--out', out);

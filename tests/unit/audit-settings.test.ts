@@ -23,6 +23,7 @@ describe('resolveAuditSettings', () => {
       secondsPerItem: 9, // 0.15 minutes × 60
       outcome: null,
       locked: ['q2', 'q9'],
+      predictors: [],
       parallelIterations: 100,
     });
     expect(Object.isFrozen(resolved)).toBe(true);

@@ -107,3 +107,20 @@ describe('the driver model before and after a cut, against R', () => {
     expect(() => refitOutcomeAfterCut(input, columns, before, fixture.predictors, [])).toThrow(/removes every predictor/);
   });
 });
+
+describe('refusals of the driver model, each one sentence saying what to do', () => {
+  it('refuses a constant outcome, too few complete rows, unknown predictors and predictors left out', async () => {
+    const { AuditInputError } = await import('../../src/lib/audit/audit-input');
+    const { outcomePredictorColumns } = await import('../../src/lib/audit/outcome-model');
+    const constant = { ...input, outcome: { id: 'age', values: new Float64Array(n).fill(30) } };
+    expect(() => fitOutcomeModel(constant, columns, [])).toThrow(AuditInputError);
+    expect(() => fitOutcomeModel(constant, columns, [])).toThrow(/same value \(30\) for every respondent/);
+    // Only the first 5 respondents answered the outcome: fewer complete rows than 10 predictors + 2.
+    const sparse = { ...input, outcome: { id: 'age', values: Float64Array.from(input.outcome.values, (value, i) => (i < 5 ? value : Number.NaN)) } };
+    expect(() => fitOutcomeModel(sparse, columns, [])).toThrow(/needs more respondents who answered it and every predictor \(\d\) than predictors plus two \(12\)/);
+    expect(() => outcomePredictorColumns(input, columns, ['N1', 'Q99'])).toThrow(/Q99 is not an item of this wave/);
+    expect(() => outcomePredictorColumns(input, [0, 1, 2], ['N1', 'N5'])).toThrow(/N5 cannot be a predictor: left out of the correlation matrix/);
+    expect(outcomePredictorColumns(input, columns, ['E1', 'N1'])).toEqual([0, 5]);
+    expect(outcomePredictorColumns(input, columns, [])).toEqual(columns);
+  });
+});

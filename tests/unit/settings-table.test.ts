@@ -27,7 +27,7 @@ function refusal(settings: unknown): string {
 
 describe('the settings table', () => {
   it('has one complete descriptor per setting, engine settings first in their stored order', () => {
-    expect(AUDIT_SETTINGS.map((setting) => setting.name)).toEqual([...ENGINE_SETTING_NAMES, 'outcome', 'locked', 'parallelIterations', 'testFault']);
+    expect(AUDIT_SETTINGS.map((setting) => setting.name)).toEqual([...ENGINE_SETTING_NAMES, 'outcome', 'locked', 'predictors', 'parallelIterations', 'testFault']);
     for (const setting of AUDIT_SETTINGS) {
       expect(setting.label.length, setting.name).toBeGreaterThan(3);
       expect(setting.help, setting.name).toMatch(/^[A-Z].*\.$/);

@@ -11,6 +11,7 @@ import { olsRegression } from '../stats/ols-regression';
 import { relativeWeights } from '../stats/relative-weights';
 import { selectItems, selectRespondents, type ItemMatrix, type NumericalNotice } from '../stats/types';
 import type { AuditCoefficientJson, AuditOutcomeModelJson, AuditWarningJson } from './audit-json';
+import { AuditInputError } from './audit-input';
 
 /** What the model is fitted from. */
 export interface OutcomeModelInput {
@@ -106,29 +107,58 @@ function fitOnRows(table: ItemMatrix, rows: readonly number[], predictorIds: rea
 }
 
 /**
+ * The matrix columns the driver model uses: the named predictors, or every item of the
+ * correlation matrix when none is named.
+ * @param input the matrix, item ids and outcome column.
+ * @param usable matrix columns of the items in the correlation matrix.
+ * @param predictors item ids the designer named (empty: all usable items).
+ * @throws AuditInputError `unknown-predictor` for an id that is not an item, `predictor-left-out`
+ *   for an item that is not in the correlation matrix (constant, or too few answers).
+ * @returns the columns, in questionnaire order.
+ */
+export function outcomePredictorColumns(input: OutcomeModelInput, usable: readonly number[], predictors: readonly string[]): number[] {
+  if (predictors.length === 0) return [...usable];
+  const unknown = predictors.filter((id) => !input.ids.includes(id));
+  if (unknown.length > 0) {
+    throw new AuditInputError('unknown-predictor', `${unknown.join(', ')} ${unknown.length === 1 ? 'is not an item' : 'are not items'} of this wave: name the driver model's predictors by their item ids.`);
+  }
+  const columns = predictors.map((id) => input.ids.indexOf(id)).sort((a, b) => a - b);
+  const leftOut = columns.filter((j) => !usable.includes(j)).map((j) => input.ids[j]);
+  if (leftOut.length > 0) {
+    throw new AuditInputError('predictor-left-out', `${leftOut.join(', ')} cannot be ${leftOut.length === 1 ? 'a predictor' : 'predictors'}: left out of the correlation matrix (see the warnings); name other items.`);
+  }
+  return columns;
+}
+
+/**
  * The outcome model: OLS of the outcome on the given items (items in an exact dependency are
  * aliased by the QR and reported as such) on the respondents with the outcome and every one of
  * those items answered; Johnson's relative weights from the same rows' Pearson correlations.
  * @param input the matrix, item ids and outcome column.
- * @param columns matrix columns of the predictors (the items in the correlation matrix).
- * @param warnings receives the numerical notices and, when the model cannot be fitted, why.
- * @returns the model, or null (with an `outcome-model-skipped` warning) with too few complete rows.
+ * @param columns matrix columns of the predictors.
+ * @param warnings receives the numerical notices.
+ * @throws AuditInputError `outcome-constant` when every respondent with an answer gives the
+ *   outcome the same value; `outcome-too-few-rows` when fewer respondents answered the outcome and
+ *   every predictor than predictors plus two.
+ * @returns the model with the rows it used.
  * References: Wooldridge, Introductory Econometrics, ch. 3 (the standard-error decomposition);
  *   Johnson (2000), A heuristic method for estimating the relative weight of predictor variables
  *   in multiple regression.
  */
-export function fitOutcomeModel(input: OutcomeModelInput, columns: readonly number[], warnings: AuditWarningJson[]): (AuditOutcomeModelJson & { rows: number[] }) | null {
+export function fitOutcomeModel(input: OutcomeModelInput, columns: readonly number[], warnings: AuditWarningJson[]): AuditOutcomeModelJson & { rows: number[] } {
   const predictorIds = columns.map((j) => input.ids[j]);
   const p = columns.length;
+  const observed = input.outcome.values.filter((value) => !Number.isNaN(value));
+  if (observed.length > 0 && observed.every((value) => value === observed[0])) {
+    throw new AuditInputError('outcome-constant', `The outcome ${input.outcome.id} has the same value (${observed[0]}) for every respondent who answered it, so no model can explain it: choose another outcome or none.`);
+  }
   const table = withColumn(selectItems(input.matrix, columns), input.outcome.values);
   const complete = completeRows(table);
   if (complete.length < p + 2) {
-    warnings.push({
-      code: 'outcome-model-skipped',
-      items: [input.outcome.id],
-      message: `The outcome model needs more complete respondents (${complete.length}) than items plus two (${p + 2}); it was skipped.`,
-    });
-    return null;
+    throw new AuditInputError(
+      'outcome-too-few-rows',
+      `The driver model of ${input.outcome.id} needs more respondents who answered it and every predictor (${complete.length}) than predictors plus two (${p + 2}): name fewer predictors (the predictors setting) or choose no outcome.`,
+    );
   }
   const fit = fitOnRows(table, complete, predictorIds, warnings);
   return { outcome: input.outcome.id, ...fit, rows: complete };

@@ -10,7 +10,7 @@
  * stability), then the optional outcome model. Pure: no file, database or framework.
  */
 import { runEngine } from '../engine/run-engine';
-import { fitOutcomeModel, refitOutcomeAfterCut } from './outcome-model';
+import { fitOutcomeModel, outcomePredictorColumns, refitOutcomeAfterCut } from './outcome-model';
 import { computeEvidence, namePositions } from '../engine/compute-evidence';
 import { principalSubmatrix } from '../engine/principal-submatrix';
 import type { EngineEvidence, EngineItem, EngineWarning } from '../engine/types';
@@ -163,7 +163,7 @@ export async function runAudit(
   warnings.push(...engine.warnings.map(plainWarning));
 
   report('outcome', 0);
-  const outcomeModel = input.outcome === null || outcomeId === null ? null : outcomeModelWithCut(input, evidence, engine.afterCut?.removed ?? [], warnings);
+  const outcomeModel = input.outcome === null || outcomeId === null ? null : outcomeModelWithCut(input, evidence, resolved.predictors, engine.afterCut?.removed ?? [], warnings);
   report('outcome', 1);
 
   const items: AuditItemJson[] = input.items.map((item, j) => {
@@ -472,18 +472,24 @@ function structureStatistics(
  * The driver model on the items of the correlation matrix and, when the proposed cut removes any
  * of them, refitted without them on the same respondents (`afterCut`, see outcome-model.ts).
  */
-function outcomeModelWithCut(input: AuditInput, evidence: EngineEvidence, removed: readonly string[], warnings: AuditWarningJson[]): AuditOutcomeModelJson | null {
+function outcomeModelWithCut(
+  input: AuditInput,
+  evidence: EngineEvidence,
+  predictors: readonly string[],
+  removed: readonly string[],
+  warnings: AuditWarningJson[],
+): AuditOutcomeModelJson {
   const modelInput = { matrix: input.matrix, ids: input.items.map((item) => item.id), outcome: input.outcome! };
-  const before = fitOutcomeModel(modelInput, evidence.usable, warnings);
-  if (!before) return null;
+  const columns = outcomePredictorColumns(modelInput, evidence.usable, predictors);
+  const before = fitOutcomeModel(modelInput, columns, warnings);
   const { rows, ...model } = before;
   const inModel = removed.filter((id) => model.coefficients.some((coefficient) => coefficient.term === id));
-  const afterCut = inModel.length > 0 && inModel.length < evidence.usable.length ? refitOutcomeAfterCut(modelInput, evidence.usable, before, inModel, warnings) : null;
+  const afterCut = inModel.length > 0 && inModel.length < columns.length ? refitOutcomeAfterCut(modelInput, columns, before, inModel, warnings) : null;
   return {
     ...model,
     completeRows: rows.length,
     afterCut,
-    basis: `OLS on the ${rows.length} complete rows (the outcome and every item answered); its VIF therefore uses complete rows, while the item table's VIF uses the ${evidence.missing} ${evidence.method} correlation matrix.`,
+    basis: `OLS on the ${rows.length} complete rows (the outcome and every predictor answered); its VIF therefore uses complete rows, while the item table's VIF uses the ${evidence.missing} ${evidence.method} correlation matrix.`,
   };
 }
 

@@ -80,6 +80,8 @@ export interface StoredAuditSettings extends EngineSettings {
   readonly outcome: string | null;
   /** Item ids the designer locked, sorted, without repeats. */
   readonly locked: readonly string[];
+  /** Item ids the driver model uses as predictors, sorted, without repeats; empty: every item of the correlation matrix. */
+  readonly predictors: readonly string[];
   /** Random data sets of parallel analysis. */
   readonly parallelIterations: number;
   /** Test servers only: a fault to inject. Absent otherwise. */
@@ -256,6 +258,17 @@ export const AUDIT_SETTINGS: readonly SettingDescriptor[] = Object.freeze([
     form: null,
   },
   {
+    name: 'predictors',
+    label: 'Predictors of the driver model',
+    unit: 'item ids',
+    domain: { kind: 'list', maxItems: 5_000, maxLength: 200 },
+    default: [],
+    source: 'common practice (a driver model uses every item unless the designer names a set)',
+    help: 'The items the driver model explains the outcome with; none named means every item in the correlation matrix.',
+    flag: 'predictors',
+    form: null,
+  },
+  {
     name: 'parallelIterations',
     label: 'Parallel analysis data sets',
     unit: 'data sets',
@@ -379,7 +392,7 @@ export function resolveAuditSettings(
     const fallback = (base as Record<string, unknown>)[setting.name];
     const value = given !== undefined ? given : fallback !== undefined ? fallback : setting.default;
     if (value === undefined) continue;
-    resolved[setting.name] = setting.name === 'locked' ? Object.freeze([...new Set(value as string[])].sort()) : value;
+    resolved[setting.name] = setting.domain.kind === 'list' ? Object.freeze([...new Set(value as string[])].sort()) : value;
   }
   return Object.freeze(resolved) as unknown as ResolvedAuditSettings;
 }

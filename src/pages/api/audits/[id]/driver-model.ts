@@ -23,11 +23,7 @@ export const GET: APIRoute = endpoint(({ locals, params }) => {
   const model = audit.outcomeModel;
   let answer: DriverModelResponse;
   if (!model) {
-    const skipped = audit.warnings.find((warning) => warning.code === 'outcome-model-skipped');
-    answer = {
-      model: null,
-      note: skipped?.message ?? 'This audit has no outcome: choose one in the audit settings to see how overlap inflates a driver model.',
-    };
+    answer = { model: null, note: 'This audit has no outcome: choose one in the audit settings to see how overlap inflates a driver model.' };
   } else {
     answer = {
       model: {
