@@ -140,3 +140,38 @@ export const MINRES_START_POWER_STEPS = 100;
 export const HEYWOOD_COMMUNALITY = 1;
 /** Eigenvalues of R_xx at or below this share of the largest make relative weights undefined. */
 export const RELATIVE_WEIGHTS_EIGENVALUE_TOLERANCE = 1e-12;
+
+// ── Local dependence: graphical lasso, EBIC, wTO, residual correlations, smoothing ────────
+
+/**
+ * Graphical lasso: sweeps stop when the mean absolute change of the off-diagonal covariance
+ * estimate in one sweep is below this share of the mean absolute off-diagonal input (glasso's
+ * own criterion; its default there is 1e-4, far looser, and leaves answers that far from the
+ * optimum). The inner lasso of each column stops at the same relative size of step.
+ */
+export const GRAPHICAL_LASSO_TOLERANCE = 1e-10;
+/** Ceiling on graphical-lasso sweeps over all columns before non-convergence is reported. */
+export const GRAPHICAL_LASSO_MAX_SWEEPS = 10_000;
+/** Ceiling on coordinate-descent passes of one column's inner lasso within one sweep. */
+export const GRAPHICAL_LASSO_MAX_INNER_PASSES = 1_000;
+/**
+ * EBIC graphical lasso: tolerance of the fits along the path (the selected one is refitted to
+ * GRAPHICAL_LASSO_TOLERANCE). At 1e-7 the log-likelihoods are exact far beyond the EBIC's
+ * differences, and the path costs about a third of a path at 1e-10.
+ */
+export const EBIC_PATH_TOLERANCE = 1e-7;
+/** EBIC graphical lasso: number of penalties on the path (qgraph::EBICglasso's nlambda). */
+export const EBIC_PENALTY_COUNT = 100;
+/** EBIC graphical lasso: smallest penalty as a share of the largest (qgraph's lambda.min.ratio). */
+export const EBIC_MINIMUM_PENALTY_RATIO = 0.01;
+/** Extended BIC tuning parameter gamma (Foygel & Drton 2010; qgraph's default 0.5). */
+export const EBIC_GAMMA = 0.5;
+/**
+ * A selected penalty below this share of the largest makes a dense network; qgraph warns that
+ * its smallest edges may be false positives (Williams & Rast 2020).
+ */
+export const EBIC_DENSE_PENALTY_RATIO = 0.1;
+/** Unique Variable Analysis flags a pair from this weighted topological overlap (Christensen, Garrido & Golino 2023). */
+export const WTO_FLAG = 0.25;
+/** wTO bands of Unique Variable Analysis: small-to-moderate from .20, moderate-to-large from .25, large above .30. */
+export const WTO_BANDS = Object.freeze({ smallToModerate: 0.2, moderateToLarge: 0.25, large: 0.3 } as const);

@@ -1,0 +1,59 @@
+/**
+ * Helpers for the tests of the local-dependence core (not a module under test): the committed
+ * reference fixtures written by scripts/reference/local-dependence-network.R and
+ * scripts/reference/local-dependence-residuals.R, and a largest-difference helper.
+ */
+import { readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import type { SquareMatrix } from '../../src/lib/stats/types';
+
+/** One glasso::glasso case (see scripts/reference/local-dependence-network.R). */
+export interface GlassoReference {
+  name: string;
+  rho: number;
+  penalizeDiagonal: boolean;
+  input: number[][];
+  tight: { call: string; w: number[][]; wi: number[][]; niter: number };
+  default: { call: string; w: number[][]; wi: number[][]; niter: number };
+}
+
+/** One qgraph::EBICglasso case. */
+export interface EbicReference {
+  name: string;
+  n: number;
+  input: number[][];
+  tight: {
+    call: string;
+    lambda: number[];
+    ebic: number[];
+    selectedIndex: number;
+    network: number[][];
+    wto: { call: string; value: number[][] };
+  };
+  default: { call: string; lambda: number; selectedIndex: number; network: number[][] };
+}
+
+export interface NetworkFixture {
+  versions: Record<string, string>;
+  glasso: GlassoReference[];
+  ebic: EbicReference[];
+}
+
+function readFixture<T>(name: string): T {
+  return JSON.parse(readFileSync(fileURLToPath(new URL(`../../fixtures/reference/${name}`, import.meta.url)), 'utf8')) as T;
+}
+
+export const networkFixture = readFixture<NetworkFixture>('local-dependence-network.json');
+
+/** Largest |a_ij − b_ij| between a core matrix and nested reference rows. */
+export function largestDifference(actual: SquareMatrix, expected: readonly (readonly number[])[]): number {
+  const p = actual.order;
+  if (expected.length !== p) throw new Error(`order ${p} against ${expected.length} reference rows`);
+  let largest = 0;
+  for (let i = 0; i < p; i++) {
+    for (let j = 0; j < p; j++) largest = Math.max(largest, Math.abs(actual.data[i * p + j] - expected[i][j]));
+  }
+  return largest;
+}
+
+export { readFixture };
