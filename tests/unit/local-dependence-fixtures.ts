@@ -57,3 +57,48 @@ export function largestDifference(actual: SquareMatrix, expected: readonly (read
 }
 
 export { readFixture };
+
+/** One scale of psych::bfi with its one-factor minres residuals (scripts/reference/local-dependence-residuals.R). */
+export interface ResidualReference {
+  name: string;
+  items: string[];
+  correlation: number[][];
+  call: string;
+  loadings: number[];
+  residual: number[][];
+  meanResidual: number;
+  relative: number[][];
+}
+
+/** One bootstrap null distribution drawn in R. */
+export interface BootstrapReference {
+  name: string;
+  loadings: number[];
+  n: number;
+  thresholds: number[][] | null;
+  maxRelative: number[];
+  call: string;
+  quantiles: [number, number];
+}
+
+export interface ResidualFixture {
+  versions: Record<string, string>;
+  residuals: ResidualReference[];
+  bootstrap: BootstrapReference[];
+}
+
+export const residualFixture = readFixture<ResidualFixture>('local-dependence-residuals.json');
+
+/** Two-sample Kolmogorov-Smirnov distance sup |F_a − F_b| (Smirnov 1948), both samples sorted ascending. */
+export function kolmogorovSmirnovDistance(a: ArrayLike<number>, b: ArrayLike<number>): number {
+  let i = 0;
+  let j = 0;
+  let largest = 0;
+  while (i < a.length && j < b.length) {
+    const value = Math.min(a[i], b[j]);
+    while (i < a.length && a[i] <= value) i++;
+    while (j < b.length && b[j] <= value) j++;
+    largest = Math.max(largest, Math.abs(i / a.length - j / b.length));
+  }
+  return largest;
+}

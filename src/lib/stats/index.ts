@@ -40,6 +40,7 @@ export * from './polychoric-correlation';
 export * from './polychoric-likelihood';
 export * from './polychoric-pairs';
 export * from './relative-weights';
+export * from './residual-correlations';
 export * from './seeded-random';
 export * from './spearman-brown';
 export * from './spearman-correlation';

@@ -175,3 +175,15 @@ export const EBIC_DENSE_PENALTY_RATIO = 0.1;
 export const WTO_FLAG = 0.25;
 /** wTO bands of Unique Variable Analysis: small-to-moderate from .20, moderate-to-large from .25, large above .30. */
 export const WTO_BANDS = Object.freeze({ smallToModerate: 0.2, moderateToLarge: 0.25, large: 0.3 } as const);
+/** Residual-correlation bootstrap: simulated data sets drawn by default. */
+export const RESIDUAL_BOOTSTRAP_DRAWS = 200;
+/** Residual-correlation bootstrap: the lower and upper percentiles reported of the largest relative residual. */
+export const RESIDUAL_BOOTSTRAP_PERCENTILES = Object.freeze({ flag: 0.95, strict: 0.99 } as const);
+/** Residual-correlation bootstrap: fewer usable draws than this share is an error, not a result. */
+export const RESIDUAL_BOOTSTRAP_MIN_USABLE_SHARE = 0.8;
+/**
+ * Fixed rule of thumb for the relative residual correlation (residual minus the scale's mean):
+ * .20 (Christensen, Makransky & Horton 2017, after Chen & Thissen 1997). Shown beside the
+ * bootstrap critical value, which is the one that adapts to items, respondents and categories.
+ */
+export const RELATIVE_RESIDUAL_RULE_OF_THUMB = 0.2;
