@@ -102,3 +102,25 @@ export function kolmogorovSmirnovDistance(a: ArrayLike<number>, b: ArrayLike<num
   }
   return largest;
 }
+
+/** Figures of a matrix that inverts it, from R (null when it is not positive definite). */
+export interface InverseFigures {
+  smallestEigenvalue: number;
+  largestVif: number | null;
+  kmo: number | null;
+  conditionNumber: number | null;
+}
+
+/** One indefinite matrix of scripts/reference/smooth-correlation.R. */
+export interface SmoothReference {
+  name: string;
+  source: string;
+  correlation: number[][];
+  mtfa: { call: string; communalities: number[] };
+  bentlerYuan: { call: string; matrix: number[][]; figures: InverseFigures };
+  corSmooth: { call: string; matrix: number[][]; figures: InverseFigures };
+  before: InverseFigures;
+  pearson: { call: string; figures: InverseFigures } | null;
+}
+
+export const smoothFixture = readFixture<{ versions: Record<string, string>; cases: SmoothReference[] }>('smooth-correlation.json');

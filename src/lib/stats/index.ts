@@ -42,6 +42,7 @@ export * from './polychoric-pairs';
 export * from './relative-weights';
 export * from './residual-correlations';
 export * from './seeded-random';
+export * from './smooth-correlation-matrix';
 export * from './spearman-brown';
 export * from './spearman-correlation';
 export * from './spectral-inverse';

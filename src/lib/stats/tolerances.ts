@@ -187,3 +187,15 @@ export const RESIDUAL_BOOTSTRAP_MIN_USABLE_SHARE = 0.8;
  * bootstrap critical value, which is the one that adapts to items, respondents and categories.
  */
 export const RELATIVE_RESIDUAL_RULE_OF_THUMB = 0.2;
+/**
+ * Bentler & Yuan (2011) smoothing: the constant k by which the squared scaling of an item with
+ * MTFA communality h ≥ 1 is k / h; it leaves the smoothed matrix an eigenvalue floor of 1 − k.
+ * .98 is the value of Bentler & Yuan's example and of Debelak & Tran (2013, 2016).
+ */
+export const BENTLER_YUAN_SCALING_CONSTANT = 0.98;
+/** Minimum trace factor analysis: upper bound on each communality (Debelak & Tran 2013 used 2.5). */
+export const MTFA_COMMUNALITY_UPPER_BOUND = 2.5;
+/** Minimum trace factor analysis: the barrier method stops when its duality-gap bound is below this. */
+export const MTFA_GAP_TOLERANCE = 1e-10;
+/** Minimum trace factor analysis: ceiling on Newton steps over all barrier stages. */
+export const MTFA_MAX_NEWTON_STEPS = 500;
