@@ -124,3 +124,19 @@ export interface SmoothReference {
 }
 
 export const smoothFixture = readFixture<{ versions: Record<string, string>; cases: SmoothReference[] }>('smooth-correlation.json');
+
+/** One data set of scripts/reference/em-covariance.R. */
+export interface EmReference {
+  name: string;
+  source: string;
+  rows: number;
+  columns: number;
+  missingShare: number;
+  completeRows: number;
+  data: (number | null)[][];
+  em: { call: string; means: number[]; covariance: number[][]; iterations: number; rows: number };
+  lavaan: { call: string; means: number[]; covariance: number[][] };
+  bkw: { call: string; singularValues: number[]; conditionIndices: number[]; proportions: number[][] };
+}
+
+export const emFixture = readFixture<{ versions: Record<string, string>; cases: EmReference[] }>('em-covariance.json');

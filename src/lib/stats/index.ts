@@ -18,6 +18,7 @@ export * from './covariance-matrix';
 export * from './cronbach-alpha';
 export * from './cross-products';
 export * from './ebic-glasso';
+export * from './em-covariance';
 export * from './f-distribution';
 export * from './fisher-z-interval';
 export * from './graphical-lasso';

@@ -199,3 +199,10 @@ export const MTFA_COMMUNALITY_UPPER_BOUND = 2.5;
 export const MTFA_GAP_TOLERANCE = 1e-10;
 /** Minimum trace factor analysis: ceiling on Newton steps over all barrier stages. */
 export const MTFA_MAX_NEWTON_STEPS = 500;
+/**
+ * EM covariance: iterations stop when no mean moves by more than this many standard deviations
+ * and no covariance by more than this share of the product of the two standard deviations.
+ */
+export const EM_TOLERANCE = 1e-10;
+/** EM covariance: iteration limit before non-convergence is reported. */
+export const EM_MAX_ITERATIONS = 10_000;
