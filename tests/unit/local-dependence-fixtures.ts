@@ -68,6 +68,8 @@ export interface ResidualReference {
   residual: number[][];
   meanResidual: number;
   relative: number[][];
+  q3: number[][];
+  q3Relative: number[][];
 }
 
 /** One bootstrap null distribution drawn in R. */
@@ -77,8 +79,10 @@ export interface BootstrapReference {
   n: number;
   thresholds: number[][] | null;
   maxRelative: number[];
+  maxRelativeQ3: number[];
   call: string;
   quantiles: [number, number];
+  quantilesQ3: [number, number];
 }
 
 export interface ResidualFixture {

@@ -1,9 +1,15 @@
 /**
- * Local dependence within a scale from residual correlations after its one-factor model: the
- * residual of each pair, r_ij − λ_i λ_j (Yen's Q3 idea carried to a factor model of the
- * correlation matrix), the relative residual, that residual minus the scale's mean off-diagonal
- * residual, and a critical value for the largest relative residual from a parametric bootstrap
- * of the fitted model (Christensen, Makransky & Horton 2017).
+ * Local dependence within a scale from residual correlations after its one-factor model (Yen's
+ * Q3 idea carried to a factor model of the correlation matrix). Two forms of the residual:
+ * - `q3` (default): the correlation of the two items' residuals given the factor,
+ *   (r_ij − λ_iλ_j) / sqrt((1 − λ_i²)(1 − λ_j²)). This is what Q3 is (a correlation between
+ *   residuals), it is on the scale of a latent residual correlation, which is the scale the .20
+ *   rule of thumb for Q3 was set on, and it has more power than the raw form: the raw residual
+ *   of a pair shrinks with the items' uniquenesses (figures in docs/decisions/009).
+ * - `residual`: the raw residual r_ij − λ_iλ_j (psych::fa's $residual).
+ * Then the relative residual, that residual minus the scale's mean off-diagonal residual, and a
+ * critical value for the largest relative residual from a parametric bootstrap of the fitted
+ * model (Christensen, Makransky & Horton 2017).
  *
  * Why relative, and why a bootstrap: the residuals of a fitted model average slightly below zero
  * (by about −1/(k − 1) for Q3 in Yen's setting), and their spread depends on the number of items,
@@ -38,15 +44,25 @@ import { correlationMatrix } from './correlation-matrix';
 import { centeredCrossProducts, pearsonFromCrossProducts } from './cross-products';
 import { minresOneFactor } from './minres-factor';
 import { createSeededRandom } from './seeded-random';
-import { RESIDUAL_BOOTSTRAP_DRAWS, RESIDUAL_BOOTSTRAP_MIN_USABLE_SHARE, RESIDUAL_BOOTSTRAP_PERCENTILES } from './tolerances';
+import { RESIDUAL_BOOTSTRAP_DRAWS, RESIDUAL_BOOTSTRAP_MIN_USABLE_SHARE, RESIDUAL_BOOTSTRAP_PERCENTILES, RESIDUAL_MIN_UNIQUENESS } from './tolerances';
 import type { ItemPair } from './correlation-matrix';
 import type { NumericalNotice, SquareMatrix } from './types';
 
+/**
+ * Which residual is computed: `q3` (default), the correlation of the two items' residuals given
+ * the factor, (r_ij − λ_iλ_j) / sqrt((1 − λ_i²)(1 − λ_j²)), Yen's Q3 carried to the factor
+ * model and on the scale of a latent residual correlation; or `residual`, the raw residual
+ * r_ij − λ_iλ_j of the correlation matrix (psych::fa's $residual).
+ */
+export type ResidualStatistic = 'q3' | 'residual';
+
 /** Residual correlations of one scale after its one-factor minres model. */
 export interface OneFactorResiduals {
+  /** The statistic computed (`q3` or `residual`). */
+  readonly statistic: ResidualStatistic;
   /** Minres loadings (sum positive). */
   readonly loadings: Float64Array;
-  /** r_ij − λ_i λ_j off the diagonal, 0 on it. */
+  /** Q3 (default) or raw residual r_ij − λ_i λ_j off the diagonal, 0 on it. */
   readonly residuals: SquareMatrix;
   /** Mean of the k(k − 1)/2 off-diagonal residuals. */
   readonly meanResidual: number;
@@ -63,14 +79,17 @@ export interface OneFactorResiduals {
  * Residual and relative residual correlations after a one-factor minres model.
  * @param correlation The scale's item correlation matrix (unit diagonal, symmetric, finite),
  *   with items keyed the same way (reverse-keyed items recoded); not modified.
+ * @param options `statistic`: `q3` (default) or `residual` (see ResidualStatistic).
  * @throws {RangeError} when the matrix is not a correlation matrix in shape.
  * @throws {RangeError} when it has fewer than three items (with two, one factor fits exactly and
- *   every residual is zero: there is nothing to detect).
+ *   every residual is zero: there is nothing to detect), or the statistic is unknown.
  * @returns Loadings, residuals, their mean, relative residuals and the largest one.
  * References: Christensen, Makransky & Horton 2017, Applied Psychological Measurement
  * 41:178-194; Harman & Jones 1966, "Factor analysis by minimizing residuals (minres)".
  */
-export function oneFactorResiduals(correlation: SquareMatrix): OneFactorResiduals {
+export function oneFactorResiduals(correlation: SquareMatrix, options: { readonly statistic?: ResidualStatistic } = {}): OneFactorResiduals {
+  const statistic = options.statistic ?? 'q3';
+  if (statistic !== 'q3' && statistic !== 'residual') throw new RangeError(`oneFactorResiduals: unknown statistic ${String(statistic)}`);
   checkCorrelationMatrix(correlation, 'oneFactorResiduals');
   const k = correlation.order;
   if (k < 3) throw new RangeError(`oneFactorResiduals: a scale needs at least three items for residual correlations, got ${k}`);
@@ -78,8 +97,9 @@ export function oneFactorResiduals(correlation: SquareMatrix): OneFactorResidual
   const loadings = fit.loadings as Float64Array;
   const residuals = new Float64Array(k * k);
   const relative = new Float64Array(k * k);
-  const summary = residualSummary(correlation.data, loadings, k, residuals, relative);
+  const summary = residualSummary(correlation.data, loadings, k, residuals, relative, statistic);
   return {
+    statistic,
     loadings,
     residuals: { order: k, data: residuals },
     meanResidual: summary.mean,
@@ -110,6 +130,8 @@ export interface ResidualBootstrapOptions {
    * given) or `polychoric` (needs thresholds; slower, for a polychoric audit).
    */
   readonly correlation?: ResidualBootstrapCorrelation;
+  /** The statistic, as in `oneFactorResiduals` (default `q3`); both calls must use the same. */
+  readonly statistic?: ResidualStatistic;
 }
 
 /** The result of `residualBootstrap`. */
@@ -133,7 +155,8 @@ export interface ResidualBootstrapResult {
  * @param loadings The fitted one-factor loadings (e.g. `oneFactorResiduals(r).loadings`), at
  *   least three; a |λ| above 1 (a Heywood case) is clipped to 1 with a notice.
  * @param sampleSize Respondents n of the observed wave, an integer ≥ 10.
- * @param options Draws, seed, ordinal thresholds, how draws are correlated.
+ * @param options Draws, seed, ordinal thresholds, how draws are correlated, the statistic (the
+ *   same as the observed one's).
  * @throws {RangeError} when there are fewer than three loadings or one is not finite, n or the
  *   draws are out of range, the thresholds do not match the items or are not ascending, or
  *   `polychoric` is asked for without thresholds.
@@ -149,6 +172,8 @@ export function residualBootstrap(loadings: ArrayLike<number>, sampleSize: numbe
   const draws = options.draws ?? RESIDUAL_BOOTSTRAP_DRAWS;
   const seed = options.seed ?? 1;
   const method = options.correlation ?? 'pearson';
+  const statistic = options.statistic ?? 'q3';
+  if (statistic !== 'q3' && statistic !== 'residual') throw new RangeError(`residualBootstrap: unknown statistic ${String(statistic)}`);
   const thresholds = options.thresholds;
   if (!Number.isInteger(sampleSize) || sampleSize < 10) throw new RangeError(`residualBootstrap: sampleSize must be an integer >= 10, got ${sampleSize}`);
   if (!Number.isInteger(draws) || draws < 20) throw new RangeError(`residualBootstrap: draws must be an integer >= 20, got ${draws}`);
@@ -212,7 +237,7 @@ export function residualBootstrap(loadings: ArrayLike<number>, sampleSize: numbe
     if (simulated === null) continue;
     const fit = minresOneFactor(simulated);
     if (fit.loadings === null) continue;
-    maxima[usable++] = residualSummary(simulated.data, fit.loadings, k, residuals, relative).largest;
+    maxima[usable++] = residualSummary(simulated.data, fit.loadings, k, residuals, relative, statistic).largest;
   }
   if (usable < RESIDUAL_BOOTSTRAP_MIN_USABLE_SHARE * draws) {
     throw new RangeError(
@@ -260,12 +285,15 @@ function residualSummary(
   k: number,
   residuals: Float64Array,
   relative: Float64Array,
+  statistic: ResidualStatistic,
 ): { mean: number; largest: number; first: number; second: number } {
   let sum = 0;
   for (let i = 0; i < k; i++) {
     residuals[i * k + i] = 0;
+    const uniqueI = statistic === 'q3' ? Math.sqrt(Math.max(RESIDUAL_MIN_UNIQUENESS, 1 - loadings[i] * loadings[i])) : 1;
     for (let j = i + 1; j < k; j++) {
-      const value = r[i * k + j] - loadings[i] * loadings[j];
+      const uniqueJ = statistic === 'q3' ? Math.sqrt(Math.max(RESIDUAL_MIN_UNIQUENESS, 1 - loadings[j] * loadings[j])) : 1;
+      const value = (r[i * k + j] - loadings[i] * loadings[j]) / (uniqueI * uniqueJ);
       residuals[i * k + j] = value;
       residuals[j * k + i] = value;
       sum += value;

@@ -206,3 +206,8 @@ export const MTFA_MAX_NEWTON_STEPS = 500;
 export const EM_TOLERANCE = 1e-10;
 /** EM covariance: iteration limit before non-convergence is reported. */
 export const EM_MAX_ITERATIONS = 10_000;
+/**
+ * Q3 residual correlations divide by sqrt(1 − λ²); a uniqueness below this (a Heywood case) is
+ * raised to it so that the ratio stays finite (the Heywood case itself is reported by minres).
+ */
+export const RESIDUAL_MIN_UNIQUENESS = 0.01;
