@@ -17,6 +17,7 @@ import { correlationMatrix, usableItems } from '../stats/correlation-matrix';
 import { completeRows } from '../stats/complete-rows';
 import { covarianceMatrix } from '../stats/covariance-matrix';
 import { cronbachAlpha } from '../stats/cronbach-alpha';
+import { codeOrdinalItem } from '../stats/polychoric-coding';
 import { itemDescriptives } from '../stats/item-descriptives';
 import { itemRestCorrelations } from '../stats/item-rest-correlation';
 import { minresOneFactor } from '../stats/minres-factor';
@@ -24,7 +25,9 @@ import { omegaTotal } from '../stats/omega-total';
 import { symmetricEigen } from '../stats/symmetric-eigen';
 import { selectItems, type ItemMatrix, type NumericalNotice, type SquareMatrix } from '../stats/types';
 import { varianceInflation } from '../stats/variance-inflation';
-import type { EngineSettings } from './engine-settings';
+import { DEFAULT_ENGINE_SETTINGS, type EngineSettings } from './engine-settings';
+import { coreDetectors } from './core-detectors';
+import { localDependenceEvidence, type LocalDependenceDetectors, type LocalDependenceReuse, type LocalDependenceSettings } from './local-dependence';
 import { principalSubmatrix } from './principal-submatrix';
 import type { ScaleAfterRemoval, ScaleAlphaOracle } from './recommend-cuts';
 import type { CollinearityEvidence, EngineEvidence, EngineItem, EngineWarning, ItemDescriptives, ScaleEvidence } from './types';
@@ -37,6 +40,12 @@ export interface ComputeEvidenceOptions {
    * bootstrap resamples.
    */
   readonly detail?: 'full' | 'decision';
+  /**
+   * Local-dependence evidence: computed by default with the core's detectors; `false` skips it;
+   * `reuse` (bootstrap resamples) takes each scale's critical value and the network penalty from
+   * the full sample instead of recomputing them.
+   */
+  readonly localDependence?: false | { readonly detectors?: LocalDependenceDetectors; readonly reuse?: LocalDependenceReuse | null };
 }
 
 /**
@@ -185,7 +194,7 @@ export function scaleReliability(input: ScaleReliabilityInput): ScaleReliability
 export function computeEvidence(
   matrix: ItemMatrix,
   items: readonly EngineItem[],
-  settings: Pick<EngineSettings, 'method' | 'missing'>,
+  settings: Pick<EngineSettings, 'method' | 'missing'> & Partial<LocalDependenceSettings>,
   options: ComputeEvidenceOptions = {},
 ): EngineEvidence {
   checkEngineItems(matrix, items, 'computeEvidence');
@@ -214,7 +223,7 @@ export function computeEvidence(
       items, method: settings.method, missing: settings.missing, rows: matrix.rows, completeData: true, usable,
       correlation: empty, pairN: empty, correlationRows: 0, repaired: false, covariance: empty,
       vif: nothing, tolerance: nothing, r2: nothing, topPartner: nothing, exactDependencies: [], eigenvalues: [], conditionNumber: null,
-      collinearity: null, itemRest: nothing, alphaIfDeleted: nothing, scales: [], descriptives, warnings,
+      collinearity: null, itemRest: nothing, alphaIfDeleted: nothing, scales: [], descriptives, localDependence: null, warnings,
     };
   }
 
@@ -235,6 +244,44 @@ export function computeEvidence(
   const collinearity = collinearityEvidence(data, items, usable, warnings, detail);
   const reliability = scaleReliability({ items, usable, covariance: covariance.matrix, correlation: matrixR, detail });
   warnings.push(...reliability.warnings);
+
+  let localDependence: EngineEvidence['localDependence'] = null;
+  if (options.localDependence !== false) {
+    // Latent thresholds of each item (Φ⁻¹ of its cumulative answer shares), so the residual
+    // bootstrap draws ordinal items like the wave's; an item with too many values for that
+    // (continuous) gets normal draws.
+    const thresholds = usable.map((_, k): number[] | null => {
+      const column = data.data.subarray(k * data.rows, (k + 1) * data.rows);
+      try {
+        const coded = codeOrdinalItem(column);
+        return coded.thresholds.count === 0 ? null : Array.from(coded.thresholds.limits.subarray(0, coded.thresholds.count));
+      } catch (error) {
+        if (error instanceof RangeError) return null;
+        throw error;
+      }
+    });
+    const local = localDependenceEvidence(
+      matrixR,
+      items,
+      usable,
+      correlation.rowsUsed,
+      {
+        residualBootstrapDraws: settings.residualBootstrapDraws ?? DEFAULT_ENGINE_SETTINGS.residualBootstrapDraws,
+        residualCriticalQuantile: settings.residualCriticalQuantile ?? DEFAULT_ENGINE_SETTINGS.residualCriticalQuantile,
+        ebicGamma: settings.ebicGamma ?? DEFAULT_ENGINE_SETTINGS.ebicGamma,
+        ebicPenaltyCount: settings.ebicPenaltyCount ?? DEFAULT_ENGINE_SETTINGS.ebicPenaltyCount,
+        seed: settings.seed ?? DEFAULT_ENGINE_SETTINGS.seed,
+        strongPairThreshold: settings.strongPairThreshold ?? DEFAULT_ENGINE_SETTINGS.strongPairThreshold,
+        residualRelativeThreshold: settings.residualRelativeThreshold ?? DEFAULT_ENGINE_SETTINGS.residualRelativeThreshold,
+      },
+      options.localDependence?.detectors ?? coreDetectors,
+      options.localDependence?.reuse ?? null,
+      thresholds,
+      overlap.exactDependencies,
+    );
+    localDependence = local.evidence;
+    warnings.push(...local.warnings);
+  }
 
   return {
     items,
@@ -260,6 +307,7 @@ export function computeEvidence(
     alphaIfDeleted: reliability.alphaIfDeleted,
     scales: reliability.scales,
     descriptives,
+    localDependence,
     warnings,
   };
 }

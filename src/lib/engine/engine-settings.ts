@@ -26,7 +26,10 @@ export interface EngineSettings {
   readonly mergeCorrelation: number;
   /** ...or when their wording similarity is at or above this. Default 0.80. */
   readonly mergeWordingSimilarity: number;
-  /** A removed item is sent for rewording (not cut) when its wording similarity to the keeper is below this. Default 0.30. */
+  /**
+   * No longer decides anything (issue 9: synonyms share few 3-grams, so low wording similarity is
+   * no reason to reword); kept so that stored audit settings still resolve. Default 0.30.
+   */
   readonly rewordWordingSimilarity: number;
   /** No scale may be cut below this many items. Default 3. */
   readonly minItemsPerScale: number;
@@ -46,6 +49,33 @@ export interface EngineSettings {
   readonly stabilityThreshold: number;
   /** Coverage of the Fisher-z interval shown beside each pair correlation. Default 0.95. */
   readonly confidenceLevel: number;
+  /**
+   * Relative residual (residual correlation minus the scale's mean residual) above which a pair
+   * is locally dependent when no bootstrap critical value is available. Default 0.20 (Chen &
+   * Thissen 1997; Christensen, Makransky & Horton 2017).
+   */
+  readonly residualRelativeThreshold: number;
+  /** Draws of the parametric bootstrap that gives each scale's critical value (0, or at least 20; 0 uses the fixed rule). Default 200 (the core's default). */
+  readonly residualBootstrapDraws: number;
+  /** Quantile of the bootstrap distribution of a scale's largest relative residual taken as its critical value. Default 0.99 (Christensen, Makransky & Horton 2017 tabulate the 95th and 99th; the 99th keeps false alarms on waves with nothing redundant near the ceiling of one per ten waves). */
+  readonly residualCriticalQuantile: number;
+  /**
+   * A relative residual below this share of its critical value is "about zero": a strong pair or a
+   * wTO flag then does not count as redundancy on its own. Default 0.5 (house figure).
+   */
+  readonly residualAboutZeroShare: number;
+  /** A pair with weighted topological overlap at or above this is a wTO flag. Default 0.25 (Christensen, Garrido & Golino 2023). */
+  readonly wtoThreshold: number;
+  /** Gamma of the extended BIC that chooses the graphical-lasso penalty. Default 0.5 (Foygel & Drton 2010). */
+  readonly ebicGamma: number;
+  /** Penalties on the EBIC path, log-spaced down to 0.01 of the largest. Default 100 (qgraph::EBICglasso). */
+  readonly ebicPenaltyCount: number;
+  /**
+   * A near-dependency on which the intercept takes at least this share of its variance is an
+   * item-mean effect of an uncentred coding and forms no cluster. Default 0.5 (the proportion rule
+   * of Belsley, Kuh & Welsch 1980 applied to the intercept).
+   */
+  readonly interceptDominanceThreshold: number;
 }
 
 /**
@@ -72,7 +102,18 @@ export const DEFAULT_ENGINE_SETTINGS: EngineSettings = Object.freeze({
   seed: 1,
   stabilityThreshold: 0.7,
   confidenceLevel: 0.95,
+  residualRelativeThreshold: 0.2,
+  residualBootstrapDraws: 200,
+  residualCriticalQuantile: 0.99,
+  residualAboutZeroShare: 0.5,
+  wtoThreshold: 0.25,
+  ebicGamma: 0.5,
+  ebicPenaltyCount: 100,
+  interceptDominanceThreshold: 0.5,
 }) as EngineSettings;
+
+/** Bands of weighted topological overlap (Christensen, Garrido & Golino 2023): small-to-moderate from .20, moderate-to-large from .25, large from .30. Reported beside each pair. */
+export const WTO_BANDS = Object.freeze({ small: 0.2, moderate: 0.25, large: 0.3 });
 
 /**
  * Weights of the keeper score (see `keeperScore` in recommend-cuts.ts): how much one unit of
@@ -119,6 +160,10 @@ export function resolveEngineSettings(overrides: Partial<EngineSettings> = {}): 
     'maxAlphaDrop',
     'maxCutShare',
     'stabilityThreshold',
+    'residualRelativeThreshold',
+    'residualAboutZeroShare',
+    'wtoThreshold',
+    'interceptDominanceThreshold',
   ];
   for (const key of shares) {
     const value = settings[key] as number;
@@ -131,6 +176,10 @@ export function resolveEngineSettings(overrides: Partial<EngineSettings> = {}): 
   if (!(Number.isInteger(settings.minItemsPerScale) && settings.minItemsPerScale >= 1)) fail(`minItemsPerScale must be an integer >= 1, got ${settings.minItemsPerScale}`);
   if (!(Number.isInteger(settings.bootstrap) && settings.bootstrap >= 0)) fail(`bootstrap must be an integer >= 0, got ${settings.bootstrap}`);
   if (!Number.isInteger(settings.seed)) fail(`seed must be an integer, got ${settings.seed}`);
+  if (!(Number.isInteger(settings.residualBootstrapDraws) && settings.residualBootstrapDraws >= 0)) fail(`residualBootstrapDraws must be an integer >= 0, got ${settings.residualBootstrapDraws}`);
+  if (!(settings.residualCriticalQuantile > 0 && settings.residualCriticalQuantile < 1)) fail(`residualCriticalQuantile must lie in (0, 1), got ${settings.residualCriticalQuantile}`);
+  if (!(Number.isInteger(settings.ebicPenaltyCount) && settings.ebicPenaltyCount >= 2)) fail(`ebicPenaltyCount must be an integer >= 2, got ${settings.ebicPenaltyCount}`);
+  if (!(settings.ebicGamma >= 0 && settings.ebicGamma <= 1)) fail(`ebicGamma must lie in [0, 1], got ${settings.ebicGamma}`);
   if (!(settings.secondsPerItem > 0 && Number.isFinite(settings.secondsPerItem))) fail(`secondsPerItem must be a positive number, got ${settings.secondsPerItem}`);
   return Object.freeze(settings);
 }

@@ -7,6 +7,7 @@
 import { bootstrapStability, type EngineProgress } from './bootstrap-stability';
 import { resolveEngineSettings, type EngineSettings } from './engine-settings';
 import { findOverlapClusters } from './overlap-clusters';
+import { localDependenceReuse } from './local-dependence';
 import { dependencyReport, pairReport, recommendCuts, type DependencyReport, type PairReport, type Recommendation } from './recommend-cuts';
 import { scaleAlphaOracle } from './compute-evidence';
 import { simulateCut, type AfterCut } from './simulate-cut';
@@ -105,7 +106,8 @@ export async function runEngine(
 
   let recommendations: Recommendation[] = [...cuts.recommendations];
   if (resolved.bootstrap > 0 && recommendations.length > 0) {
-    const stability = await bootstrapStability(matrix, items, resolved, wording, recommendations, { onProgress, signal });
+    const reuse = evidence.localDependence === null ? null : localDependenceReuse(evidence.localDependence);
+    const stability = await bootstrapStability(matrix, items, resolved, wording, recommendations, { onProgress, signal, reuse });
     recommendations = recommendations.map((recommendation, k) => {
       const share = stability.shares[k];
       const overlapShare = stability.overlapShares[k];
