@@ -47,6 +47,7 @@ import {
   MTFA_COMMUNALITY_UPPER_BOUND,
   MTFA_GAP_TOLERANCE,
   MTFA_MAX_NEWTON_STEPS,
+  MTFA_NEWTON_DECREMENT_TOLERANCE,
 } from './tolerances';
 import type { NumericalNotice, SquareMatrix } from './types';
 
@@ -230,6 +231,9 @@ export function minimumTraceCommunalities(correlation: SquareMatrix, smallestEig
     return sum - mu * logDet;
   };
 
+  // Barrier method settings (Boyd & Vandenberghe 2004, §11.3: any start μ > 0 and reduction
+  // factor in (0, 1) converge; these keep each centring to a few Newton steps). Armijo slope 0.25
+  // and step halving as in §9.2. Algorithm settings, not tolerances.
   let mu = 0.1;
   let newtonSteps = 0;
   let converged = false;
@@ -255,7 +259,7 @@ export function minimumTraceCommunalities(correlation: SquareMatrix, smallestEig
         decrement -= gradient[i] * step[i];
       }
       newtonSteps++;
-      if (decrement / 2 <= MTFA_GAP_TOLERANCE * 1e-3) break;
+      if (decrement / 2 <= MTFA_NEWTON_DECREMENT_TOLERANCE) break;
       const current = objective(h, mu);
       let t = 1;
       for (let halving = 0; halving < 60; halving++) {
@@ -264,7 +268,7 @@ export function minimumTraceCommunalities(correlation: SquareMatrix, smallestEig
         t /= 2;
       }
       h.set(trial);
-      if (t * t * decrement <= MTFA_GAP_TOLERANCE * 1e-3) break;
+      if (t * t * decrement <= MTFA_NEWTON_DECREMENT_TOLERANCE) break;
     }
     if (gapFactor * mu <= MTFA_GAP_TOLERANCE) {
       converged = true;

@@ -197,6 +197,8 @@ export const BENTLER_YUAN_SCALING_CONSTANT = 0.98;
 export const MTFA_COMMUNALITY_UPPER_BOUND = 2.5;
 /** Minimum trace factor analysis: the barrier method stops when its duality-gap bound is below this. */
 export const MTFA_GAP_TOLERANCE = 1e-10;
+/** Minimum trace factor analysis: a barrier stage is centred when half the squared Newton decrement is below this. */
+export const MTFA_NEWTON_DECREMENT_TOLERANCE = 1e-13;
 /** Minimum trace factor analysis: ceiling on Newton steps over all barrier stages. */
 export const MTFA_MAX_NEWTON_STEPS = 500;
 /**
