@@ -197,6 +197,7 @@ export async function runAudit(
     recommendations: engine.recommendations.map(recommendationJson),
     afterCut: afterCutJson(engine.afterCut),
     clusters: engine.clusters,
+    pairs: engine.pairs.map((pair) => ({ ...pair, items: [...pair.items], rules: [...pair.rules] })),
     outcomeModel,
     warnings: dedupeWarnings(warnings),
   };

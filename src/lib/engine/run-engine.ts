@@ -6,7 +6,7 @@
  */
 import { bootstrapStability, type EngineProgress } from './bootstrap-stability';
 import { resolveEngineSettings, type EngineSettings } from './engine-settings';
-import { findOverlapClusters } from './overlap-clusters';
+import { findOverlapClusters, pairEvidence, pairLocalFigures } from './overlap-clusters';
 import { localDependenceReuse } from './local-dependence';
 import { dependencyReport, pairReport, recommendCuts, type DependencyReport, type PairReport, type Recommendation } from './recommend-cuts';
 import { scaleAlphaOracle } from './compute-evidence';
@@ -37,6 +37,12 @@ export interface EngineResult {
   readonly warnings: readonly EngineWarning[];
   /** The settings used, defaults filled in (store them with the audit). */
   readonly settings: EngineSettings;
+  /**
+   * Every flagged pair (a rule fired for it, whether or not it ended in a recommendation) with all
+   * its evidence: r, interval, n, residual (Q3) and its critical value, wTO, partial correlation,
+   * wording similarity and the rules (audit-json `pairs`).
+   */
+  readonly pairs: readonly PairReport[];
 }
 
 /**
@@ -144,5 +150,18 @@ export async function runEngine(
     dependencies: cluster.dependencies.map((dependency) => dependencyReport(evidence, dependency)),
     exactDependencies: cluster.exactDependencies.map(ids),
   }));
-  return { recommendations, afterCut, clusters, warnings, settings: resolved };
+  const figuresOf = pairLocalFigures(evidence);
+  const pairs: PairReport[] = found.linkedPairs.map(({ a, b, rules }) => {
+    const figures = figuresOf(a, b);
+    return pairReport(evidence, {
+      ...pairEvidence(evidence, wording, a, b, resolved.confidenceLevel),
+      residual: figures.residual,
+      relativeResidual: figures.relativeResidual,
+      residualCritical: figures.residualCritical,
+      wto: figures.wto,
+      partial: figures.partial,
+      rules,
+    });
+  });
+  return { recommendations, afterCut, clusters, warnings, settings: resolved, pairs };
 }
