@@ -288,6 +288,7 @@ export function computeEvidence(
       {
         residualBootstrapDraws: settings.residualBootstrapDraws ?? DEFAULT_ENGINE_SETTINGS.residualBootstrapDraws,
         residualCriticalQuantile: settings.residualCriticalQuantile ?? DEFAULT_ENGINE_SETTINGS.residualCriticalQuantile,
+        residualStatistic: settings.residualStatistic ?? DEFAULT_ENGINE_SETTINGS.residualStatistic,
         ebicGamma: settings.ebicGamma ?? DEFAULT_ENGINE_SETTINGS.ebicGamma,
         ebicPenaltyCount: settings.ebicPenaltyCount ?? DEFAULT_ENGINE_SETTINGS.ebicPenaltyCount,
         seed: settings.seed ?? DEFAULT_ENGINE_SETTINGS.seed,

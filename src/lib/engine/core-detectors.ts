@@ -30,8 +30,8 @@ function partialFromPrecision(precision: SquareMatrix): SquareMatrix {
  * Tibshirani 2008 (graphical lasso); Foygel & Drton 2010 (EBIC); Nowick et al. 2009 (wTO).
  */
 export const coreDetectors: LocalDependenceDetectors = Object.freeze({
-  scaleResiduals(correlation: SquareMatrix): ScaleResidualResult {
-    const fit = oneFactorResiduals(correlation);
+  scaleResiduals(correlation: SquareMatrix, statistic: 'residual' | 'q3'): ScaleResidualResult {
+    const fit = oneFactorResiduals(correlation, { statistic });
     const k = correlation.order;
     const residuals = Array.from({ length: k }, (_, i) => Array.from(fit.residuals.data.subarray(i * k, (i + 1) * k)));
     return { loadings: Array.from(fit.loadings), residuals, meanResidual: fit.meanResidual };
@@ -41,6 +41,7 @@ export const coreDetectors: LocalDependenceDetectors = Object.freeze({
     const result = residualBootstrap(loadings, Math.round(sampleSize), {
       draws: options.draws,
       seed: options.seed,
+      statistic: options.statistic,
       ...(options.thresholds === null ? {} : { thresholds: options.thresholds }),
     });
     // The core reports the 95th and 99th percentiles; any other quantile is read off the sorted draws (type 7).

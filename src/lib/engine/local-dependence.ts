@@ -36,7 +36,7 @@ export interface NetworkResult {
 /** The numerical detectors the engine calls (implemented by the core; see `coreDetectors`). */
 export interface LocalDependenceDetectors {
   /** One-factor residuals of a scale's correlation block. */
-  scaleResiduals(correlation: SquareMatrix): ScaleResidualResult;
+  scaleResiduals(correlation: SquareMatrix, statistic: 'residual' | 'q3'): ScaleResidualResult;
   /**
    * Critical value of a scale's largest relative residual: the given quantile of its distribution
    * over parametric-bootstrap draws of n respondents from the fitted model (seeded). Null when it
@@ -45,7 +45,7 @@ export interface LocalDependenceDetectors {
   residualCritical(
     loadings: readonly number[],
     sampleSize: number,
-    options: { draws: number; quantile: number; seed: number; thresholds: readonly (readonly number[])[] | null },
+    options: { draws: number; quantile: number; seed: number; thresholds: readonly (readonly number[])[] | null; statistic: 'residual' | 'q3' },
   ): number | null;
   /**
    * EBIC-glasso network and its wTO. With `penalty` set, the network is fitted at that penalty
@@ -66,6 +66,7 @@ export interface LocalDependenceReuse {
 export interface LocalDependenceSettings {
   readonly residualBootstrapDraws: number;
   readonly residualCriticalQuantile: number;
+  readonly residualStatistic: 'residual' | 'q3';
   readonly ebicGamma: number;
   readonly ebicPenaltyCount: number;
   readonly seed: number;
@@ -122,11 +123,11 @@ export function localDependenceEvidence(
     // standing out of the scale by the relative rule) is left out of the model; its own pairs keep
     // the residuals of the full model.
     const nearCopies = nearCopyMembers(block, settings);
-    const full = detectors.scaleResiduals(block);
+    const full = detectors.scaleResiduals(block, settings.residualStatistic);
     let fit = full;
     if (nearCopies.size > 0 && members.length - nearCopies.size >= MIN_ITEMS_FOR_RESIDUALS) {
       const keptLocal = members.map((_, k) => k).filter((k) => !nearCopies.has(k));
-      const reduced = detectors.scaleResiduals(principalSubmatrix(block, keptLocal));
+      const reduced = detectors.scaleResiduals(principalSubmatrix(block, keptLocal), settings.residualStatistic);
       if (reduced.loadings !== null && reduced.residuals !== null && full.residuals !== null && full.loadings !== null) {
         const residuals = full.residuals.map((row) => [...row]);
         keptLocal.forEach((a, x) => keptLocal.forEach((b, y) => (residuals[a][b] = (reduced.residuals as number[][])[x][y])));
@@ -150,6 +151,7 @@ export function localDependenceEvidence(
         draws: settings.residualBootstrapDraws,
         quantile: settings.residualCriticalQuantile,
         seed: settings.seed + s,
+        statistic: settings.residualStatistic,
         thresholds: scaleThresholds !== null && scaleThresholds.every((list) => list !== null && list.length > 0) ? (scaleThresholds as number[][]) : null,
       });
     }
