@@ -252,6 +252,8 @@ export function computeEvidence(
     if (smoothed.smoothed) {
       matrixR = kept.length === raw.order ? smoothed.matrix : withCopies(smoothed.matrix, kept, copyOf);
       repaired = true;
+      // The smoothing replaces the core's Higham repair: its notice no longer describes the matrix.
+      for (let w = warnings.length - 1; w >= 0; w--) if (warnings[w].code === 'matrix-repaired') warnings.splice(w, 1);
       warnings.push(...warningsFromNotices(smoothed.notices, items, kept.map((k) => usable[k])));
     }
   }

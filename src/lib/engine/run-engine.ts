@@ -95,7 +95,7 @@ export async function runEngine(
       code: 'vif-from-repaired-matrix',
       items: [],
       message:
-        'The correlation matrix was repaired to the nearest positive semi-definite one, which can leave it nearly singular: VIFs, and the VIF check that confirms near-dependencies, may be inflated, so weigh the strong pairs first.',
+        'The correlation matrix was not positive definite and was smoothed (Bentler-Yuan scaling of the items that carry the inconsistency): VIFs and the VIF check that confirms near-dependencies rest on the smoothed matrix, so weigh them with the pair evidence.',
     });
   }
   const found = findOverlapClusters(evidence, wording, resolved);
