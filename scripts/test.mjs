@@ -37,8 +37,25 @@ function ensureChromium() {
   }
 }
 
+/**
+ * The memo tests read the generated PDF back with Debian's poppler-utils (pdftotext, pdffonts,
+ * pdftoppm); installed with apt-get when missing and we are root, else a clear stop.
+ */
+function ensurePoppler() {
+  if (spawnSync('sh', ['-c', 'command -v pdftotext && command -v pdftoppm && command -v pdffonts'], { encoding: 'utf8' }).status === 0) return;
+  const isRoot = typeof process.getuid === 'function' && process.getuid() === 0;
+  if (!isRoot) {
+    console.error('\u2716 The memo tests need Debian\'s poppler-utils (pdftotext, pdftoppm, pdffonts).\n  Install them (as root: apt-get update && apt-get install -y poppler-utils), then run npm test again.');
+    process.exit(1);
+  }
+  step('Installing poppler-utils for the memo tests (apt-get)');
+  run('apt-get', ['update']);
+  run('apt-get', ['install', '-y', '--no-install-recommends', 'poppler-utils'], { ...process.env, DEBIAN_FRONTEND: 'noninteractive' });
+}
+
 ensureInstalled();
 if (!process.env.CHROMIUM_PATH) ensureChromium();
+ensurePoppler();
 ensureBuilt();
 step('Running the tests (vitest: unit and app projects)');
 const summaryFile = join(root, 'test-results', 'vitest-summary.json');

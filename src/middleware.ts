@@ -2,8 +2,9 @@
  * Every request passes these steps, in order:
  * 1. security headers on the way out;
  * 1a. once per process, on its first request of any kind: the restart recovery of audits
- *     (audits an earlier process left queued or running are marked failed), since Astro's
- *     standalone server has no start-up hook (docs/decisions/004-audit-jobs.md);
+ *     (audits an earlier process left queued or running are marked failed) and the sweep of
+ *     orphaned upload files, since Astro's standalone server has no start-up hook
+ *     (docs/decisions/004-audit-jobs.md, 007-one-way-in-for-waves.md);
  * 2. the origin check (CSRF): a write carrying cookies must come from our own origin;
  * 3. who is asking (session cookie or personal API token) into `locals`;
  * 4. the sign-in rate limit, in front of Auth.js's credentials callback;
@@ -13,7 +14,9 @@ import { defineMiddleware, sequence } from 'astro:middleware';
 import { auditJobs } from './lib/server/audit-jobs/audit-jobs';
 import { getConfig } from './lib/server/config';
 import { resolveCaller } from './lib/server/current-user';
+import { getDb } from './lib/server/db';
 import { errorResponse } from './lib/server/errors';
+import { serverFileStore } from './lib/server/file-store';
 import { hasAnyUser } from './lib/server/first-run';
 import { withSecurityHeaders } from './lib/server/security-headers';
 import { recordSignIn, signInAllowance } from './lib/server/sign-in-limit';
@@ -36,12 +39,14 @@ let startedUp = false;
 /**
  * Work that belongs to the start of the server, done on its first request: creating the audits
  * service runs the restart recovery (`auditJobs()` does it once per process; later calls from
- * routes and pages only return the service). Marked done only when it succeeded, so a failure
+ * routes and pages only return the service); the file store sweeps files no record or wave uses
+ * (an upload cut off between writing its file and committing). Marked done only when it succeeded, so a failure
  * (an unreadable database, an invalid configuration) is met again, not skipped.
  */
 const startUp = defineMiddleware((_context, next) => {
   if (!startedUp) {
     auditJobs();
+    serverFileStore().sweepOrphans(getDb());
     startedUp = true;
   }
   return next();

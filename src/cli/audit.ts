@@ -5,32 +5,41 @@
  *
  * The proposed column setup and the proposed screening exclusions are accepted as they are, as a
  * designer who confirms the proposal would; --keep-all audits every respondent instead.
+ * Settings: every setting of the settings table (src/lib/audit/settings-table.ts) has a flag
+ * (`--strong-pair-threshold 0.85`), and `--settings FILE.json` names any of them by key; flags
+ * win over the file. Both are checked by the same table as the API's requests: an unknown key or
+ * a value out of range is refused with one sentence (exit 2).
  * Exit codes: 0 audited (warnings are in the JSON), 2 input refused (one sentence on standard
  * error: what is wrong and how to fix it), 1 internal fault.
  */
 import { readFile, writeFile } from 'node:fs/promises';
 import { basename } from 'node:path';
 import { parseArgs } from 'node:util';
-import { auditInputFromWave, AuditInputError } from '../lib/audit/audit-input';
-import { runAudit, type AuditSettings } from '../lib/audit/run-audit';
-import { buildWave, isWaveRefusal, proposeSetup, readCodebook, readTable, screenRespondents } from '../lib/ingest';
-import type { WaveSetup } from '../lib/ingest/types';
+import { auditInputFromWave, AuditInputError, proposedCorrelationMethod } from '../lib/audit/audit-input';
+import { runAudit } from '../lib/audit/run-audit';
+import { auditSettingsSchema } from '../lib/audit/settings-schema';
+import { AUDIT_SETTINGS, AuditSettingsError, auditSettingsProblems, requestFromFlags, resolveAuditSettings } from '../lib/audit/settings-table';
+import { acceptProposal, columnsLeftOut, isWaveRefusal, readWave } from '../lib/ingest';
+
+/** The flags of the settings table, e.g. `--method pearson|spearman|polychoric`, `--bootstrap N`. */
+const settingFlags = AUDIT_SETTINGS.filter((setting) => setting.flag !== null);
+
+function placeholder(domain: (typeof AUDIT_SETTINGS)[number]['domain']): string {
+  if (domain.kind === 'choice') return domain.choices.join('|');
+  if (domain.kind === 'list') return 'ID,ID';
+  if (domain.kind === 'text') return 'COLUMN';
+  return domain.integer ? 'N' : 'X';
+}
 
 const USAGE =
-  'usage: npm run --silent audit -- DATA [--codebook FILE] [--sheet NAME] [--method pearson|spearman|polychoric] ' +
-  '[--missing pairwise|listwise] [--outcome COLUMN] [--locked ID,ID] [--bootstrap N] [--seed N] [--settings FILE.json] [--keep-all] [--out FILE]';
+  'usage: npm run --silent audit -- DATA [--codebook FILE] [--sheet NAME] ' +
+  settingFlags.map((setting) => `[--${setting.flag} ${placeholder(setting.domain)}]`).join(' ') +
+  ' [--settings FILE.json] [--keep-all] [--out FILE]';
 
 class Refusal extends Error {}
 
 function refuse(message: string): never {
   throw new Refusal(message);
-}
-
-function integerOption(name: string, value: string | undefined, min: number): number | undefined {
-  if (value === undefined) return undefined;
-  const number = Number(value);
-  if (!Number.isInteger(number) || number < min) refuse(`--${name} must be a whole number of at least ${min}, got "${value}".`);
-  return number;
 }
 
 async function readSettingsFile(path: string | undefined): Promise<Record<string, unknown>> {
@@ -68,12 +77,7 @@ async function main(argv: string[]): Promise<number> {
       options: {
         codebook: { type: 'string' },
         sheet: { type: 'string' },
-        method: { type: 'string' },
-        missing: { type: 'string' },
-        outcome: { type: 'string' },
-        locked: { type: 'string' },
-        bootstrap: { type: 'string' },
-        seed: { type: 'string' },
+        ...Object.fromEntries(settingFlags.map((setting) => [setting.flag as string, { type: 'string' as const }])),
         settings: { type: 'string' },
         'keep-all': { type: 'boolean' },
         out: { type: 'string' },
@@ -89,52 +93,48 @@ async function main(argv: string[]): Promise<number> {
     return 0;
   }
   if (positionals.length !== 1) refuse(`Give exactly one data file. ${USAGE}`);
-  const method = values.method ?? 'pearson';
-  if (!['pearson', 'spearman', 'polychoric'].includes(method)) refuse(`--method must be pearson, spearman or polychoric, got "${method}".`);
-  const missing = values.missing ?? 'pairwise';
-  if (!['pairwise', 'listwise'].includes(missing)) refuse(`--missing must be pairwise or listwise, got "${missing}".`);
-
-  const bootstrap = integerOption('bootstrap', values.bootstrap, 0);
-  const seed = integerOption('seed', values.seed, 0);
-  const extra = await readSettingsFile(values.settings);
+  // Flags first (named as flags), then the file (named by key), then the two together through
+  // the request schema the API uses, resolved to the one stored shape.
+  const fromFlags = requestFromFlags(values as Record<string, string | undefined>);
+  const flagProblems = auditSettingsProblems(fromFlags, 'flag');
+  if (flagProblems.length > 0) refuse(flagProblems[0]);
+  const fromFile = await readSettingsFile(values.settings);
+  const fileProblems = auditSettingsProblems(fromFile);
+  if (fileProblems.length > 0) refuse(`The settings file "${values.settings}": ${fileProblems[0]}`);
+  const request = auditSettingsSchema.parse({ ...fromFile, ...fromFlags });
+  let settings;
+  try {
+    settings = resolveAuditSettings(request, {}, { allowTestFaults: false });
+  } catch (error) {
+    if (error instanceof AuditSettingsError) refuse(error.message);
+    throw error;
+  }
 
   const dataPath = positionals[0];
-  const table = await readTable(await readBytes(dataPath, 'data file'), basename(dataPath), {}, { sheet: values.sheet });
-  let codebook = null;
-  if (values.codebook) {
-    const codebookTable = await readTable(await readBytes(values.codebook, 'codebook'), basename(values.codebook));
-    codebook = readCodebook(codebookTable);
-  } else if (table.codebookTable) {
-    codebook = readCodebook(table.codebookTable);
-  }
-  const proposal = proposeSetup(table, codebook);
-  const outcome = values.outcome ?? null;
-  if (outcome !== null && !proposal.columns.some((column) => column.column === outcome)) {
-    refuse(`"${outcome}" is not a column of ${basename(dataPath)}; name the outcome column by its header.`);
-  }
-  // buildWave takes the proposal as the confirmed setup; only the outcome's role is changed.
-  const setup: WaveSetup = {
-    columns: proposal.columns.map((column) => (column.column === outcome ? { ...column, role: 'outcome' } : column)),
-  };
-  const everyone = buildWave(table, setup);
-  const screening = screenRespondents(everyone);
-  const exclusions = values['keep-all'] ? [] : [...screening.proposedExclusions];
-  const wave = exclusions.length > 0 ? buildWave(table, setup, exclusions) : everyone;
+  // The one reader and the one way to accept a proposal (src/lib/ingest: readWave, acceptProposal),
+  // as the upload route and the demo seed use them; the reader's default limits.
+  const read = await readWave({
+    fileName: basename(dataPath),
+    bytes: await readBytes(dataPath, 'data file'),
+    codebookName: values.codebook ? basename(values.codebook) : null,
+    codebookBytes: values.codebook ? await readBytes(values.codebook, 'codebook') : null,
+    sheet: values.sheet ?? null,
+  });
+  const outcome = settings.outcome;
+  const { wave, proposal, setup, screening } = acceptProposal(read, { outcome, keepAll: values['keep-all'] === true });
+  const exclusions = wave.excluded;
   process.stderr.write(
     `Read ${wave.respondents} respondents and ${wave.items.length} items from ${basename(dataPath)}` +
       (exclusions.length > 0 ? `; left out ${exclusions.length} flagged by screening (--keep-all keeps them).\n` : '.\n'),
   );
 
-  const locked = values.locked ? values.locked.split(',').map((id) => id.trim()).filter(Boolean) : [];
-  const input = auditInputFromWave(wave, { outcome, locked });
-  const settings: AuditSettings = {
-    ...extra,
-    method: method as AuditSettings['method'],
-    missing: missing as AuditSettings['missing'],
-    outcome,
-    ...(bootstrap !== undefined ? { bootstrap } : {}),
-    ...(seed !== undefined ? { seed } : {}),
-  };
+  const input = auditInputFromWave(wave, { outcome, locked: settings.locked, leftOut: columnsLeftOut(proposal, setup), screening });
+  // No method asked for: 0/1 items get the tetrachoric correlation (polychoric on 0/1), since phi,
+  // the Pearson r of 0/1 items, is bounded by their margins; rating items keep the default.
+  if (fromFlags.method === undefined && fromFile.method === undefined && proposedCorrelationMethod(wave.items).method === 'polychoric') {
+    settings = { ...settings, method: 'polychoric' as const };
+    process.stderr.write('Every item is scored 0/1, so the tetrachoric correlation (--method polychoric) is used; give --method pearson to override.\n');
+  }
   let lastPercent = -1;
   const audit = await runAudit(input, settings, (stage, fraction) => {
     const percent = Math.floor(fraction * 100);

@@ -6,7 +6,7 @@
  */
 import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { demoIds } from '../../src/db/seed';
+import { demoIds } from '../../src/lib/server/demo-seed';
 import { INTERRUPTED_REASON } from '../../src/lib/server/audit-jobs/audit-jobs';
 import { createTestDatabase, startServerOn, type RunningServer, type TestDatabase } from '../setup/app-server';
 

@@ -6,7 +6,7 @@
  */
 import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { demoIds } from '../../src/db/seed';
+import { demoIds } from '../../src/lib/server/demo-seed';
 import { body, Client, demoEmails, demoPassword, signInSucceeded } from '../setup/http';
 import { createTestDatabase, startServerOn, type RunningServer, type TestDatabase } from '../setup/app-server';
 

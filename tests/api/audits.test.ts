@@ -10,7 +10,7 @@
 import Database from 'better-sqlite3';
 import { beforeAll, describe, expect, inject, it } from 'vitest';
 import { AUDIT_SCHEMA } from '../../src/lib/audit/audit-json';
-import { demoIds } from '../../src/db/seed';
+import { demoIds } from '../../src/lib/server/demo-seed';
 import { body, Client, demo, demoEmails, signedIn } from '../setup/http';
 
 const waveId = demoIds.demoWave;
@@ -99,8 +99,10 @@ describe('an audit of the demo wave, started by the designer', () => {
     for (const stage of ['loadingMs', 'evidenceMs', 'structureMs', 'engineMs', 'outcomeMs', 'savingMs', 'runMs', 'queuedMs', 'totalMs']) {
       expect(answer.audit.timings[stage], stage).toBeGreaterThanOrEqual(0);
     }
-    // The demo study's settings: minutesPerItem 0.15 (src/db/seed.ts) → 9 seconds per item.
+    // The demo study's settings: minutesPerItem 0.15 (src/lib/server/demo-seed.ts) → 9 seconds per item.
     expect(answer.audit.settings).toMatchObject({ ...settings, secondsPerItem: 9, strongPairThreshold: 0.8, locked: [] });
+    // One stored shape, echoed unchanged in the audit JSON (docs/decisions/006), key order included.
+    expect(JSON.stringify(answer.result.settings)).toBe(JSON.stringify(answer.audit.settings));
   });
 
   it('reuses the stored result for the same resolved settings, whatever their spelling', async () => {
@@ -167,8 +169,11 @@ describe('refusals', () => {
     const cases: [unknown, string, RegExp][] = [
       [{ method: 'kendall' }, 'invalid-body', /method/],
       [{ strongPairThreshold: 2 }, 'invalid-body', /strongPairThreshold/],
-      [{ strongPairThreshold: 0 }, 'invalid-settings', /strongPairThreshold must be above 0/],
-      [{ bootstrp: 10 }, 'invalid-body', /bootstrp/],
+      // One sentence from the settings table (src/lib/audit/settings-table.ts), as the command line says it.
+      [{ strongPairThreshold: 0 }, 'invalid-body', /^settings: strongPairThreshold must be a number above 0 and at most 1, got 0\.$/],
+      [{ bootstrp: 10 }, 'invalid-body', /^settings: "bootstrp" is not an audit setting; did you mean "bootstrap"\?$/],
+      [{ strongPairThresold: 0.3 }, 'invalid-body', /^settings: "strongPairThresold" is not an audit setting; did you mean "strongPairThreshold"\?$/],
+      [{ seed: 1.5 }, 'invalid-body', /^settings: seed must be a whole number from -2147483648 to 2147483647, got 1\.5\.$/],
       [{ bootstrap: -1 }, 'invalid-body', /bootstrap/],
       [{ bootstrap: 1.5 }, 'invalid-body', /bootstrap/],
       [{ locked: ['no_such_item'] }, 'unknown-locked-item', /no_such_item/],

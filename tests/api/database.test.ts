@@ -4,7 +4,7 @@ import { mkdtempSync, readdirSync, readFileSync, rmSync, statSync } from 'node:f
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { openDatabase, type Db } from '../../src/db/client';
-import { seedDemo } from '../../src/db/seed';
+import { seedDemo } from '../../src/lib/server/demo-seed';
 import { decodeMatrix } from '../../src/lib/ingest';
 
 const folder = mkdtempSync(join(tmpdir(), 'paredown-db-test-'));

@@ -64,7 +64,7 @@ const freshOwnerToken = async () => {
   return (await body(response)).token.id as string;
 };
 
-/** The seeded, confirmed wave of the demo study (src/db/seed.ts). */
+/** The seeded, confirmed wave of the demo study (src/lib/server/demo-seed.ts). */
 const demoWave = 'wave-riverbend-pilot-1';
 let outsideWaveId: string | null = null;
 /** A proposed wave in a fresh study of the other team (made once). */
@@ -219,6 +219,12 @@ const table: Row[] = [
   },
   { name: 'read an audit', method: 'GET', path: (id) => `/api/audits/${id}`, prepare: anAudit, expect: demoTeamMembers(200) },
   { name: 'download an audit', method: 'GET', path: (id) => `/api/audits/${id}?download=1`, prepare: aDoneAudit, expect: demoTeamMembers(200) },
+  { name: "an audit's driver model", method: 'GET', path: (id) => `/api/audits/${id}/driver-model`, prepare: aDoneAudit, expect: demoTeamMembers(200) },
+  { name: 'the memo of an audit as PDF', method: 'GET', path: (id) => `/api/audits/${id}/memo.pdf`, prepare: aDoneAudit, expect: demoTeamMembers(200) },
+  { name: 'the memo of an audit as DOCX', method: 'GET', path: (id) => `/api/audits/${id}/memo.docx`, prepare: aDoneAudit, expect: demoTeamMembers(200) },
+  { name: 'the memo of an audit that does not exist', method: 'GET', path: () => '/api/audits/no-such-audit/memo.pdf', expect: anyoneSignedIn(404) },
+  { name: 'the decision history as CSV', method: 'GET', path: () => `/api/studies/${demo.study}/cut-list/history.csv`, expect: demoTeamMembers(200) },
+  { name: "the other team's decision history as CSV", method: 'GET', path: () => `/api/studies/${demo.outsideStudy}/cut-list/history.csv`, expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 200, anonymous: 401 } },
   { name: 'read an audit that does not exist', method: 'GET', path: () => '/api/audits/no-such-audit', expect: anyoneSignedIn(404) },
   { name: 'retry a failed audit', method: 'POST', path: (id) => `/api/audits/${id}/retry`, prepare: freshFailedAudit, expect: runAudit },
   // Team members and invitations
@@ -287,6 +293,7 @@ const table: Row[] = [
   { name: 'page: upload a wave', method: 'GET', path: () => `/studies/${demo.study}/upload`, expect: { owner: 200, designer: 200, field: 403, reviewer: 403, outsider: 404, anonymous: 303 } },
   { name: "page: other team's study", method: 'GET', path: () => `/studies/${demo.outsideStudy}`, expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 200, anonymous: 303 } },
   { name: 'page: an audit', method: 'GET', path: (id) => `/audits/${id}`, prepare: anAudit, expect: pageForMembers },
+  { name: "page: an audit's memo", method: 'GET', path: (id) => `/audits/${id}/memo`, prepare: aDoneAudit, expect: pageForMembers },
   { name: 'page: demo team members', method: 'GET', path: () => `/teams/${demo.team}/members`, expect: pageForMembers },
   { name: 'page: account', method: 'GET', path: () => '/account', expect: pageForAnyone },
   { name: 'page: outbox', method: 'GET', path: () => '/outbox', expect: pageForAnyone },

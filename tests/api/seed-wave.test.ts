@@ -1,5 +1,5 @@
 /**
- * The demo's pilot wave as seeded (src/db/seed.ts) is stored as an upload followed by its
+ * The demo's pilot wave as seeded (src/lib/server/demo-seed.ts) is stored as an upload followed by its
  * confirmation would store it: the versioned setup document (StoredWaveSetup) with how the file
  * was read and its warnings, and no example cells of ignored columns, so none of the e-mail
  * addresses in fixtures/demo/library-pilot-1.csv reaches the database or a browser.
@@ -13,7 +13,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openDatabase } from '../../src/db/client';
-import { demoIds, seedDemo } from '../../src/db/seed';
+import { demoIds, seedDemo } from '../../src/lib/server/demo-seed';
 import { parseStoredSetup, STORED_SETUP_VERSION } from '../../src/lib/server/waves/stored-wave';
 import { startTestServer, type TestServer } from '../setup/app-server';
 import { body, Client, demo, demoEmails, demoPassword, signInSucceeded } from '../setup/http';

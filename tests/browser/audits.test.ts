@@ -20,8 +20,14 @@ describe('audits in Chromium', () => {
       await hydrated(page);
       const form = page.locator('[data-testid=audit-form]');
       await expect(form.locator('#audit-strongPairThreshold').inputValue()).resolves.toBe('0.8');
-      // The demo study's own constraint (src/db/seed.ts: minutesPerItem 0.15) is shown as its default.
+      // The demo study's own constraint (src/lib/server/demo-seed.ts: minutesPerItem 0.15) is shown as its default.
       await expect(form.locator('#audit-secondsPerItem').inputValue()).resolves.toBe('9');
+      // Every setting of the table has a field: the further thresholds show the engine's defaults
+      // (src/lib/engine/engine-settings.ts: merge at |r| 0.95, interval coverage 95%).
+      await form.locator('summary:has-text("Further thresholds")').click();
+      await expect(form.locator('#audit-mergeCorrelation').inputValue()).resolves.toBe('0.95');
+      await expect(form.locator('#audit-confidenceLevel').inputValue()).resolves.toBe('95');
+      await expect(form.locator('#audit-parallelIterations').inputValue()).resolves.toBe('100');
       await form.locator('#audit-method').selectOption('pearson');
       await form.locator('#audit-outcome').selectOption('overall_sat');
       await form.locator('#audit-bootstrap').fill('200');
@@ -60,6 +66,14 @@ describe('audits in Chromium', () => {
       await page.locator('#figures').screenshot({ path: join(screenshots, 'audit-page-figures.png') });
       await page.locator('[data-testid=recommendation]:has-text("dig_1")').screenshot({ path: join(screenshots, 'audit-page-recommendation.png') });
       await page.locator('#after-cut').screenshot({ path: join(screenshots, 'audit-page-after-cut.png') });
+      // The driver model of the outcome chosen in the form, before and after the cut.
+      const driver = page.locator('[data-testid=driver-model]');
+      await driver.scrollIntoViewIfNeeded();
+      await driver.waitFor({ state: 'visible', timeout: 15_000 });
+      expect(await driver.locator('[data-testid=driver-model-table] tbody tr').count()).toBeGreaterThan(10);
+      expect(await driver.locator('[data-testid=driver-model-bars] rect').count()).toBeGreaterThan(20);
+      await expect(driver.locator('[data-testid=driver-model-sentences] li').first().textContent()).resolves.toMatch(/standard error is [\d.]+× what it would be/);
+      await page.locator('#driver-model').screenshot({ path: join(screenshots, 'audit-page-driver-model.png') });
       expect(problems).toEqual([]);
     } finally {
       await context.close();

@@ -14,7 +14,7 @@ import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import type { TestProject } from 'vitest/node';
 import { openDatabase } from '../../src/db/client';
-import { seedDemo } from '../../src/db/seed';
+import { seedDemo } from '../../src/lib/server/demo-seed';
 
 declare module 'vitest' {
   export interface ProvidedContext {

@@ -16,7 +16,7 @@ export const demoEmails = {
   outsider: 'outsider@paredown.test',
 } as const;
 
-/** Fixed ids of the seeded demo (src/db/seed.ts). */
+/** Fixed ids of the seeded demo (src/lib/server/demo-seed.ts). */
 export const demo = {
   team: 'team-riverbend',
   outsideTeam: 'team-northgate',

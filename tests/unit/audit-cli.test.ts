@@ -3,15 +3,26 @@
  * sentence for input it refuses (no stack trace), the same reader as an upload.
  */
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, readFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
+import { resolveAuditSettings } from '../../src/lib/audit/settings-table';
 
 function audit(...args: string[]) {
   const result = spawnSync(process.execPath, ['--import', 'tsx', 'src/cli/audit.ts', ...args], { encoding: 'utf8', timeout: 120_000 });
   return { code: result.status, stdout: result.stdout, stderr: result.stderr };
 }
+
+/** A settings file in a temporary folder. */
+function settingsFile(content: unknown): string {
+  const path = join(mkdtempSync(join(tmpdir(), 'paredown-cli-settings-')), 'settings.json');
+  writeFileSync(path, JSON.stringify(content));
+  return path;
+}
+
+const misspelt = settingsFile({ strongPairThresold: 0.3 });
+const withFault = settingsFile({ testFault: 'crash' });
 
 describe('npm run audit', () => {
   it('audits the demo file end to end and writes the JSON', () => {
@@ -34,6 +45,11 @@ describe('npm run audit', () => {
     ['an outcome that is not a column', ['fixtures/demo/library-pilot-1.csv', '--outcome', 'nope'], /not a column/],
     ['an option without its value', ['fixtures/demo/library-pilot-1.csv', '--seed', '--keep-all'], /--seed/],
     ['a bad bootstrap count', ['fixtures/demo/library-pilot-1.csv', '--bootstrap', 'lots'], /--bootstrap must be/],
+    // The settings table refuses what the API refuses, with the same sentences (docs/decisions/006).
+    ['a misspelt key in --settings', ['fixtures/demo/library-pilot-1.csv', '--settings', misspelt], /"strongPairThresold" is not an audit setting; did you mean "strongPairThreshold"\?$/m],
+    ['a seed that is not whole', ['fixtures/demo/library-pilot-1.csv', '--seed', '1.5'], /--seed must be a whole number from -2147483648 to 2147483647, got 1\.5\./],
+    ['a threshold out of range', ['fixtures/demo/library-pilot-1.csv', '--strong-pair-threshold', '0'], /--strong-pair-threshold must be a number above 0 and at most 1, got 0\./],
+    ['a test fault', ['fixtures/demo/library-pilot-1.csv', '--settings', withFault], /testFault is only accepted by a test server/],
   ])('refuses %s with exit 2 and one sentence', (_name, args, pattern) => {
     const result = audit(...args);
     expect(result.code).toBe(2);
@@ -41,5 +57,17 @@ describe('npm run audit', () => {
     expect(result.stderr).toMatch(pattern);
     expect(result.stderr.trim().split('\n')).toHaveLength(1);
     expect(result.stderr).not.toMatch(/\n\s+at /);
+  });
+
+  it('echoes the settings of flags and --settings in the one stored shape, flags over the file', () => {
+    const out = join(mkdtempSync(join(tmpdir(), 'paredown-cli-')), 'audit.json');
+    const file = settingsFile({ method: 'spearman', strongPairThreshold: 0.85, seed: 5 });
+    const result = audit('fixtures/demo/library-pilot-1.csv', '--settings', file, '--seed=-7', '--locked', 'coll_2,events_3', '--bootstrap', '0', '--out', out);
+    expect(result.code, result.stderr).toBe(0);
+    const json = JSON.parse(readFileSync(out, 'utf8'));
+    const expected = resolveAuditSettings({ method: 'spearman', strongPairThreshold: 0.85, seed: -7, locked: ['coll_2', 'events_3'], bootstrap: 0 });
+    expect(Object.keys(json.settings)).toEqual(Object.keys(expected));
+    expect(json.settings).toEqual(expected);
+    expect(json.items.filter((item: { locked: boolean }) => item.locked).map((item: { id: string }) => item.id)).toEqual(['coll_2', 'events_3']);
   });
 });

@@ -42,7 +42,7 @@ describe('resolveAuditSettings', () => {
     } catch (error) {
       expect((error as HttpError).status).toBe(400);
       expect((error as HttpError).code).toBe('invalid-settings');
-      expect((error as HttpError).message).toMatch(/strongPairThreshold must be above 0/);
+      expect((error as HttpError).message).toBe("settings: strongPairThreshold must be a number above 0 and at most 1, got 0.");
     }
   });
 

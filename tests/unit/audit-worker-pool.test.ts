@@ -9,7 +9,7 @@ import { mkdirSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'nod
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
-import { buildWave, encodeMatrix, proposeSetup, readCodebook, readTable, screenRespondents } from '../../src/lib/ingest';
+import { acceptProposal, encodeMatrix, readWave } from '../../src/lib/ingest';
 import { resolveAuditSettings } from '../../src/lib/server/audit-jobs/audit-settings';
 import { executeAuditJob } from '../../src/lib/server/audit-jobs/execute-audit-job';
 import { AuditJobFailure, AuditWorkerPool } from '../../src/lib/server/audit-jobs/worker-pool';
@@ -32,10 +32,10 @@ function pool(size: number): AuditWorkerPool {
 
 beforeAll(async () => {
   // The demo wave, read as the seed reads it (fixtures/demo/).
-  const table = await readTable(new Uint8Array(readFileSync('fixtures/demo/library-pilot-1.csv')), 'library-pilot-1.csv');
-  const codebook = readCodebook(await readTable(new Uint8Array(readFileSync('fixtures/demo/library-codebook.csv')), 'library-codebook.csv'));
-  const setup = { columns: proposeSetup(table, codebook).columns };
-  const wave = buildWave(table, setup, screenRespondents(buildWave(table, setup)).proposedExclusions);
+  const { wave } = acceptProposal(await readWave({
+    fileName: 'library-pilot-1.csv', bytes: new Uint8Array(readFileSync('fixtures/demo/library-pilot-1.csv')),
+    codebookName: 'library-codebook.csv', codebookBytes: new Uint8Array(readFileSync('fixtures/demo/library-codebook.csv')), sheet: null,
+  }));
   baseJob = {
     jobId: 'base',
     wave: {

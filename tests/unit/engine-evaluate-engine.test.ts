@@ -27,7 +27,7 @@ describe('evaluateEngineOnWaves', () => {
   });
 
   it('counts a missed pair against recall (a threshold no planted pair reaches finds nothing)', async () => {
-    const result = await evaluateEngineOnWaves({ plantedWaves: 3, cleanWaves: 0, localDependence: false, settings: { strongPairThreshold: 1, conditionIndexThreshold: 1e12, residualBootstrapDraws: 0, ebicPenaltyCount: 20, residualRelativeThreshold: 1, wtoThreshold: 1 } });
+    const result = await evaluateEngineOnWaves({ plantedWaves: 3, cleanWaves: 0, localDependence: false, settings: { strongPairThreshold: 1, conditionIndexThreshold: 1e6, residualBootstrapDraws: 0, ebicPenaltyCount: 20, residualRelativeThreshold: 1, wtoThreshold: 1 } });
     expect(result.truePositives).toBe(0);
     expect(result.recall).toBe(0);
     expect(result.misses.every((line) => line.includes('missed pair'))).toBe(true);

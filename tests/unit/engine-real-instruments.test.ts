@@ -15,7 +15,7 @@ async function audit(name: 'bfi' | 'holzinger'): Promise<EngineResult> {
 }
 
 const flagged = (result: EngineResult, [a, b]: readonly [string, string]): string[] =>
-  result.pairs.find((pair) => pair.items.includes(a) && pair.items.includes(b))?.rules.slice() ?? [];
+  result.pairs.find((pair) => pair.items.includes(a) && pair.items.includes(b))?.rules?.slice() ?? [];
 
 describe('the engine on real open instruments, against the largest modification index of a confirmatory model', () => {
   it('psych::bfi: flags N1/N2 ("Get angry easily" / "Get irritated easily") by both local-dependence rules and proposes dropping one', async () => {

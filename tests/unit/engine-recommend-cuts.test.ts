@@ -11,6 +11,7 @@ import { generateWave } from '../../src/lib/synth/generate-wave';
 import { randomWaveSpec } from '../../src/lib/synth/random-wave-spec';
 import type { EngineEvidence, EngineItem } from '../../src/lib/engine/types';
 import { engineReference as ref, referenceInput } from './engine-fixture';
+import { cautionSentence, reasonSentence } from '../../src/lib/words';
 
 // Reference figures: R 4.2.2 via scripts/reference/engine-evidence.R. Scale S1 (A1..A5, pairwise)
 // has alpha 0.8007 and 0.7160 without A5; the twin pair A1-A5 has r = 0.934.
@@ -64,9 +65,10 @@ describe('recommendCuts', () => {
     expect(recommendation.actions[0].action).toBe('drop'); // r = 0.934 < 0.95 and no wording: drop
     expect(recommendation.evidence.vifBefore).toBeCloseTo(Math.max(ref.pairwise.vif[0], ref.pairwise.vif[4]), 10); // R: diag(solve(R))
     expect(recommendation.evidence.vifAfter).toBeLessThan(recommendation.evidence.vifBefore!);
-    expect(recommendation.reason).toMatch(/^A1 and A5 correlate strongly \(r = 0\.93, 95% interval 0\.91 to 0\.95, n = 211\) \[evidence: strong correlation[^\]]*\]; keep A\d .* and drop A\d, which lowers the cluster's highest VIF from [\d.]+ to [\d.]+\.$/);
+    expect(reasonSentence(recommendation.because)).toMatch(/^A1 and A5 correlate strongly \(r = 0\.93, 95% interval 0\.91 to 0\.95, n = 211\); keep A\d .* and drop A\d, which lowers the cluster's highest VIF from [\d.]+ to [\d.]+\.$/);
     expect(recommendation.cautions).toHaveLength(3);
-    expect(recommendation.cautions.join(' ')).toMatch(/not proof.*Pilot samples are small.*validated instrument/);
+    // n = 211 is not small (SMALL_PAIR_N = 200): the caution says what the figure means instead.
+    expect(recommendation.cautions.map(cautionSentence).join(' ')).toMatch(/not proof.*rests on 211 respondents, so each r is precise.*validated instrument/);
   });
 
   it('never proposes a locked item, and a locked item always wins the keeper', () => {
@@ -78,7 +80,7 @@ describe('recommendCuts', () => {
     const both = recommend({}, ['A1', 'A5']);
     expect(both.removed).toEqual([]);
     expect(both.recommendation.actions[0]).toMatchObject({ action: 'keep', blockedBy: ['locked'] });
-    expect(both.recommendation.reason).toMatch(/; no change is proposed: A5 stays because it is locked\.$/);
+    expect(reasonSentence(both.recommendation.because)).toMatch(/; no change is proposed: A5 stays because it is locked\.$/);
   });
 
   it('merges when the pair is nearly perfect or the wording nearly identical, and drops interchangeable items whatever their spelling', () => {
@@ -132,7 +134,7 @@ describe('recommendCuts', () => {
     expect(capped.budget).toBe(0);
     expect(capped.removed).toEqual([]);
     expect(capped.recommendation.actions[0].blockedBy).toEqual(['cut-cap']);
-    expect(capped.recommendation.reason).toMatch(/the cap on the share of items cut is reached/);
+    expect(reasonSentence(capped.recommendation.because)).toMatch(/the cap on the share of items cut is reached/);
     expect(recommend({ maxCutShare: 0.1 }).removed).toHaveLength(1);
   });
 
@@ -157,7 +159,7 @@ describe('recommendCuts', () => {
     expect(recommendation.actions.filter((action) => action.action === 'keep')).toEqual([
       expect.objectContaining({ proposed: null, blockedBy: [] }),
     ]);
-    expect(recommendation.reason).toMatch(/nearly linearly dependent \(condition index 40\)/);
+    expect(reasonSentence(recommendation.because)).toMatch(/nearly linearly dependent \(condition index 40\)/);
   });
 
   it('never breaks a constraint on random waves with random constraints (checked by the what-if)', () => {

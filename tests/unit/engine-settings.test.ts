@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { DEFAULT_ENGINE_SETTINGS, resolveEngineSettings } from '../../src/lib/engine/engine-settings';
+import { DEFAULT_ENGINE_SETTINGS, ENGINE_SETTING_RULES, closestName, resolveEngineSettings } from '../../src/lib/engine/engine-settings';
 
 describe('resolveEngineSettings', () => {
   it('fills the stated defaults', () => {
@@ -23,16 +23,34 @@ describe('resolveEngineSettings', () => {
   });
 
   it('names the setting that is out of range', () => {
-    expect(() => resolveEngineSettings({ strongPairThreshold: 1.2 })).toThrow(/resolveEngineSettings: strongPairThreshold must be a number in \[0, 1\]/);
-    expect(() => resolveEngineSettings({ strongPairThreshold: 0 })).toThrow(/strongPairThreshold must be above 0/);
+    expect(() => resolveEngineSettings({ strongPairThreshold: 1.2 })).toThrow('resolveEngineSettings: strongPairThreshold must be a number above 0 and at most 1, got 1.2');
+    expect(() => resolveEngineSettings({ strongPairThreshold: 0 })).toThrow(/strongPairThreshold must be a number above 0 and at most 1, got 0$/);
     expect(() => resolveEngineSettings({ conditionIndexThreshold: 0.5 })).toThrow(/conditionIndexThreshold/);
     expect(() => resolveEngineSettings({ minItemsPerScale: 2.5 })).toThrow(/minItemsPerScale/);
     expect(() => resolveEngineSettings({ bootstrap: -1 })).toThrow(/bootstrap/);
-    expect(() => resolveEngineSettings({ seed: 1.5 })).toThrow(/seed/);
+    expect(() => resolveEngineSettings({ seed: 1.5 })).toThrow('seed must be a whole number from -2147483648 to 2147483647, got 1.5');
     expect(() => resolveEngineSettings({ secondsPerItem: 0 })).toThrow(/secondsPerItem/);
     expect(() => resolveEngineSettings({ confidenceLevel: 1 })).toThrow(/confidenceLevel/);
     expect(() => resolveEngineSettings({ dependencyVifThreshold: 0.5 })).toThrow(/dependencyVifThreshold/);
     expect(() => resolveEngineSettings({ method: 'kendall' as never })).toThrow(/method must be pearson, spearman or polychoric/);
     expect(() => resolveEngineSettings({ missing: 'mean' as never })).toThrow(/missing must be pairwise or listwise/);
+    expect(() => resolveEngineSettings({ bootstrap: 10_001 })).toThrow('bootstrap must be a whole number from 0 to 10000, got 10001');
+  });
+
+  it('refuses a key that is not a setting, naming the closest one', () => {
+    expect(() => resolveEngineSettings({ strongPairThresold: 0.3 } as never)).toThrow('resolveEngineSettings: "strongPairThresold" is not an engine setting; did you mean "strongPairThreshold"?');
+    expect(() => resolveEngineSettings({ outcome: null } as never)).toThrow(/"outcome" is not an engine setting/);
+  });
+
+  it('keeps the stored key order of its rules', () => {
+    expect(Object.keys(resolveEngineSettings({ seed: 4, method: 'spearman' }))).toEqual(Object.keys(ENGINE_SETTING_RULES));
+  });
+});
+
+describe('closestName', () => {
+  it('finds a misspelt name and gives up on a stranger', () => {
+    expect(closestName('bootstrp', ['bootstrap', 'seed'])).toBe('bootstrap');
+    expect(closestName('SEED', ['bootstrap', 'seed'])).toBe('seed');
+    expect(closestName('colour', ['bootstrap', 'seed'])).toBeNull();
   });
 });

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { buildWave, identicalGroups, includedRows, readTable, WaveRefusal, type WaveSetup, type WaveTable } from '../../src/lib/ingest';
+import { buildWave, identicalGroups, includedRows, readTable, validateSetup, WaveRefusal, type WaveSetup, type WaveTable } from '../../src/lib/ingest';
 
 function deepFreeze<T>(value: T): T {
   if (value && typeof value === 'object' && !ArrayBuffer.isView(value)) {
@@ -36,7 +36,8 @@ async function load(): Promise<WaveTable> {
 
 describe('buildWave', () => {
   it('builds the recoded and raw matrices column-major, with ids, durations, weights and outcomes', async () => {
-    const wave = buildWave(await load(), deepFreeze(structuredClone(setup)));
+    const table = await load();
+    const wave = buildWave(table, validateSetup(table, deepFreeze(structuredClone(setup))));
     expect(wave.respondents).toBe(4);
     expect(wave.items.map((entry) => entry.id)).toEqual(['A', 'B', 'C']);
     // Column-major (types.ts): item j of respondent i at data[j * rows + i].
@@ -56,7 +57,8 @@ describe('buildWave', () => {
   });
 
   it('keeps excluded respondents in the wave and leaves them out of the checks audits depend on', async () => {
-    const wave = buildWave(await load(), setup, Object.freeze([3, 1, 3]));
+    const table = await load();
+    const wave = buildWave(table, validateSetup(table, setup), Object.freeze([3, 1, 3]));
     expect(wave.excluded).toEqual([1, 3]);
     expect(wave.matrix.rows).toBe(4);
     expect(includedRows(wave)).toEqual([0, 2]);
@@ -65,10 +67,10 @@ describe('buildWave', () => {
 
   it('counts out-of-range, non-numeric and unmapped cells, and finds constant and identical items', async () => {
     const table = await readTable(new TextEncoder().encode('A,B,C,D,E\n1,1,3,7,x\n2,2,3,2,Maybe\n3,3,3,1,Agree\n'), 'w.csv');
-    const wave = buildWave(table, {
+    const wave = buildWave(table, validateSetup(table, {
       columns: ['A', 'B', 'C', 'D'].map((name) => ({ column: name, role: 'item', item: item(name, { missingCodes: [3] }) }))
         .concat([{ column: 'E', role: 'item', item: item('E', { labels: [{ code: 1, label: 'Agree' }] }) }]),
-    });
+    }));
     expect(wave.warnings.map((warning) => warning.code)).toEqual([
       'out-of-range-values', 'unmapped-labels', 'constant-item', 'identical-items', 'missing-code-inside-range', 'more-items-than-respondents',
     ]);
@@ -76,16 +78,15 @@ describe('buildWave', () => {
     expect(wave.warnings.find((warning) => warning.code === 'constant-item')?.columns).toEqual(['C', 'E']);
   });
 
-  it('refuses a table without respondents (422), a bad setup (400) and exclusions that are not rows (400)', async () => {
+  it('refuses a table without respondents (422) and exclusions that are not rows (400)', async () => {
     const empty = await readTable(new TextEncoder().encode('A,B\n'), 'w.csv');
-    const small = await readTable(new TextEncoder().encode('A,B\n1,2\n'), 'w.csv');
     const table = await load();
+    const checked = validateSetup(table, setup);
     const cases: [() => unknown, number, string][] = [
-      [() => buildWave(empty, setup), 422, 'no-respondents'],
-      [() => buildWave(small, { columns: [] }), 400, 'no-items'],
+      [() => buildWave(empty, validateSetup(empty, { columns: [{ column: 'A', role: 'item', item: item('A') }] })), 422, 'no-respondents'],
     ];
-    cases.push([() => buildWave(table, setup, [4]), 400, 'invalid-exclusions']);
-    cases.push([() => buildWave(table, setup, [1.5]), 400, 'invalid-exclusions']);
+    cases.push([() => buildWave(table, checked, [4]), 400, 'invalid-exclusions']);
+    cases.push([() => buildWave(table, checked, [1.5]), 400, 'invalid-exclusions']);
     for (const [run, status, code] of cases) {
       try {
         run();

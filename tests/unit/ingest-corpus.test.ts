@@ -8,7 +8,7 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import {
-  buildWave, isWaveRefusal, proposeSetup, readCodebook, readTable, WaveRefusal, type BuiltWave, type Codebook, type ProposedSetup, type WaveTable,
+  acceptWave, isWaveRefusal, proposeSetup, readCodebook, readTable, WaveRefusal, type BuiltWave, type Codebook, type ProposedSetup, type WaveTable,
 } from '../../src/lib/ingest';
 import { readWaveCorpus, waveCorpusDirectory as directory, waveCorpusSchema, type CorpusEntry } from '../setup/wave-corpus';
 
@@ -39,7 +39,7 @@ async function run(entry: CorpusEntry): Promise<Outcome> {
     step = 'propose';
     outcome.proposal = proposeSetup(outcome.table, outcome.codebook);
     step = 'build';
-    outcome.wave = buildWave(outcome.table, outcome.proposal);
+    outcome.wave = acceptWave(outcome.table, { setup: outcome.proposal }).wave;
   } catch (error) {
     // Anything but a WaveRefusal is a defect: let it fail the test with its stack.
     if (!isWaveRefusal(error)) throw error;

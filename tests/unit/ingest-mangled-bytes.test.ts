@@ -4,7 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import * as XLSX from 'xlsx-republish';
-import { buildWave, isWaveRefusal, proposeSetup, readCodebook, readTable } from '../../src/lib/ingest';
+import { acceptWave, isWaveRefusal, proposeSetup, readCodebook, readTable } from '../../src/lib/ingest';
 import { createSeededRandom } from '../../src/lib/stats/seeded-random';
 
 const rows = [['respondent_id', 'Q1', 'Q2', 'Q3', 'comment'], ...Array.from({ length: 30 }, (_, i) => [`R${i}`, (i % 5) + 1, ((i * 3) % 5) + 1, ((i * 7) % 5) + 1, `remark ${i}, "quoted"`])];
@@ -22,7 +22,7 @@ async function outcome(bytes: Uint8Array, name: string): Promise<'refused' | 'wa
     const table = await readTable(bytes, name, { maxWorkbookMemoryMb: 64 });
     const codebook = table.codebookTable ? readCodebook(table.codebookTable) : null;
     const proposal = proposeSetup(table, codebook);
-    if (proposal.columns.some((column) => column.role === 'item')) buildWave(table, proposal);
+    if (proposal.columns.some((column) => column.role === 'item')) acceptWave(table, { setup: proposal });
     return 'wave';
   } catch (error) {
     if (isWaveRefusal(error)) return 'refused';

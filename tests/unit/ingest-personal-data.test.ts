@@ -12,7 +12,7 @@ describe('looksLikeEmail (RFC 5321 §4.1.2: local-part@domain)', () => {
 describe('looksLikePhoneNumber (ITU-T E.164: at most 15 digits)', () => {
   it('recognises grouped, international and leading-zero numbers but not plain ids or ratings', () => {
     for (const text of ['+44 20 7946 0001', '020 7946 0002', '(020) 7946-0003', '0161 496 0005', '07946000123']) expect(looksLikePhoneNumber(text), text).toBe(true);
-    for (const text of ['1234567', '5', '3.5', '+1234567890123456', '12:30', '1990-01-01', '01.02.1990']) expect(looksLikePhoneNumber(text), text).toBe(false);
+    for (const text of ['1234567', '5', '3.5', '+1234567890123456', '12:30', '1990-01-01', '01.02.1990', '3.3333333', '0.1428571', '12345.6789012', '2,6666667']) expect(looksLikePhoneNumber(text), text).toBe(false);
   });
 });
 

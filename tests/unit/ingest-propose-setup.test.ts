@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { columnData, headerWords, proposeSetup, readCodebook, readTable, WaveRefusal, type ColumnProposal, type ProposedSetup } from '../../src/lib/ingest';
+import { columnData, columnsLeftOut, headerWords, proposeSetup, readCodebook, readTable, WaveRefusal, type ColumnProposal, type ProposedSetup } from '../../src/lib/ingest';
 
 const table = (csv: string, name = 'w.csv') => readTable(new TextEncoder().encode(csv), name);
 const column = (setup: ProposedSetup, name: string): ColumnProposal => {
@@ -54,7 +54,7 @@ describe('proposeSetup', () => {
     const data = await table('id,A1,A2,B1\nR1,1,Often,3\nR2,9,Never,2\nR3,3,Always,1\n');
     const codebook = readCodebook(await table('item,scale,reverse,min,max,missing,text,labels\nA1,alpha,yes,1,5,9,First,\nA2,alpha,,,,,Second,1=Never; 2=Sometimes; 3=Always; 4=Often\nZ9,zeta,no,1,5,,Gone,\n'));
     const setup = proposeSetup(data, codebook);
-    expect(column(setup, 'A1').item).toEqual({ id: 'A1', scale: 'alpha', reverse: true, min: 1, max: 5, missingCodes: [9], text: 'First', labels: [], missingLabels: [] });
+    expect(column(setup, 'A1').item).toEqual({ id: 'A1', scale: 'alpha', reverse: true, min: 1, max: 5, missingCodes: [9], text: 'First', labels: [], missingLabels: [], type: 'rating' });
     expect(column(setup, 'A2').item).toMatchObject({ min: 1, max: 4, labels: [{ code: 1, label: 'Never' }, { code: 2, label: 'Sometimes' }, { code: 3, label: 'Always' }, { code: 4, label: 'Often' }] });
     expect(column(setup, 'A2').labelSource).toBe('codebook');
     expect(column(setup, 'A2').counts?.mappedLabel).toBe(3);
@@ -99,7 +99,43 @@ describe('proposeSetup', () => {
     const data = await table('id,contact,Q1\nR1,a@example.org,1\nR2,b@example.org,2\n');
     const setup = proposeSetup(data, readCodebook(await table('item,min,max\ncontact,1,5\nQ1,1,5\n')));
     expect(column(setup, 'contact').role).toBe('ignore');
-    expect(codes(setup)).toEqual(['personal-data-ignored']);
+    // The codebook's word is overruled only for values that can never be stored, and loudly.
+    expect(codes(setup)).toEqual(['personal-data-ignored', 'codebook-item-personal-data']);
+    expect(setup.warnings[1].columns).toEqual(['contact']);
+  });
+
+  it('reads decimal scores with 7+ digits as numbers, never as phone numbers, and the codebook wins', async () => {
+    // Scale scores as R's write.csv writes them (15 significant digits) and as SPSS writes them (7 decimals).
+    const data = await table('id,S1,S2,S3\nR1,3.3333333,2.66666666666667,1\nR2,4.1666667,3.33333333333333,2\nR3,2.8333333,4,3\nR4,1.5,1.16666666666667,4\n');
+    const guessed = proposeSetup(data);
+    expect(column(guessed, 'S1').reason).not.toMatch(/personal data/i);
+    expect(column(guessed, 'S1').role).toBe('ignore'); // decimals: not a rating item by guess
+    const codebook = readCodebook(await table('item,scale\nS1,a\nS2,a\nS3,a\n'));
+    const setup = proposeSetup(data, codebook);
+    expect(setup.columns.filter((c) => c.role === 'item').map((c) => c.column)).toEqual(['S1', 'S2', 'S3']);
+    // Range from every answer, decimals included (1.5..4.1666667 for S1).
+    expect(column(setup, 'S1').item).toMatchObject({ min: 1.5, max: 4.1666667 });
+    expect(column(setup, 'S1').counts?.answered).toBe(4);
+    expect(codes(setup)).not.toContain('personal-data-ignored');
+  });
+
+  it('proposes the item type: 0/1 dichotomous, wider ranges rating, the codebook type column wins', async () => {
+    const data = await table('id,T1,T2,T3,R1\nA,0,1,1,4\nB,1,1,0,2\nC,1,0,1,5\nD,0,0,0,1\n');
+    const guessed = proposeSetup(data);
+    expect(['T1', 'T2', 'T3', 'R1'].map((name) => column(guessed, name).item?.type)).toEqual(['dichotomous', 'dichotomous', 'dichotomous', 'rating']);
+    const codebook = readCodebook(await table('item,type\nT1,scored\nT2,Test\nT3,\nR1,Likert\n'));
+    const setup = proposeSetup(data, codebook);
+    expect(['T1', 'T2', 'T3', 'R1'].map((name) => column(setup, name).item?.type)).toEqual(['scored', 'scored', 'dichotomous', 'rating']);
+  });
+
+  it('names every column left out with its reason', async () => {
+    const data = await table('id,email,notes,Q1,Q2\nR1,a@example.org,x,1,2\nR2,b@example.org,y,2,3\nR3,c@example.org,z,3,1\n');
+    const proposal = proposeSetup(data);
+    const left = columnsLeftOut(proposal);
+    expect(left.map((entry) => entry.column)).toEqual(['email', 'notes']);
+    expect(left[0].reason).toMatch(/personal data/);
+    const confirmed = { columns: proposal.columns.map((c) => (c.column === 'Q2' ? { ...c, role: 'ignore' as const } : c)) };
+    expect(columnsLeftOut(proposal, confirmed).map((entry) => [entry.column, entry.reason])).toContainEqual(['Q2', 'The confirmed setup sets it to ignore.']);
   });
 
   it('refuses a table without respondents (422) and warns when nothing looks like an item', async () => {

@@ -4,7 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import * as XLSX from 'xlsx-republish';
-import { buildWave, encodeMatrix, proposeSetup, readTable, type BuiltWave } from '../../src/lib/ingest';
+import { acceptWave, encodeMatrix, proposeSetup, readTable, type BuiltWave } from '../../src/lib/ingest';
 
 type Cell = string | number | null;
 const rows: Cell[][] = [['respondent_id', 'Q1', 'Q2', 'Q3_r', 'Q4', 'score']];
@@ -25,7 +25,7 @@ function csvText(delimiter: string, decimalComma: boolean): string {
 
 async function wave(bytes: Uint8Array, name: string): Promise<BuiltWave> {
   const table = await readTable(bytes, name);
-  return buildWave(table, proposeSetup(table));
+  return acceptWave(table, { setup: proposeSetup(table) }).wave;
 }
 
 function workbook(bookType: XLSX.BookType): Uint8Array {

@@ -51,8 +51,7 @@ describe('screening statistics against R 4.2.2', () => {
   });
 });
 
-describe('screenRespondents', () => {
-  const items: WaveItem[] = Array.from({ length: 7 }, (_, k) => ({
+const items: WaveItem[] = Array.from({ length: 7 }, (_, k) => ({
     id: `Q${k + 1}`, header: `Q${k + 1}`, scale: null, reverse: k === 6, min: 1, max: 5, missingCodes: [], text: null, labels: [], missingLabels: [],
     counts: { answered: 0, blank: 0, declaredMissing: 0, outOfRange: 0, nonNumeric: 0, unmappedLabel: 0, mappedLabel: 0 },
   }));
@@ -62,7 +61,9 @@ describe('screenRespondents', () => {
     const index = 6 * recoded.rows + i;
     if (!Number.isNaN(recoded.data[index])) recoded.data[index] = 6 - recoded.data[index];
   }
-  const wave = { matrix: recoded, items, duration: durations, respondents: recoded.rows };
+const wave = { matrix: recoded, items, duration: durations, respondents: recoded.rows };
+
+describe('screenRespondents', () => {
 
   it('flips reverse-keyed items back to the answers as given', () => {
     expect(Array.from(answersAsGiven(wave).data)).toEqual(Array.from(answers.data));
@@ -91,5 +92,56 @@ describe('screenRespondents', () => {
     expect(result.flags[0].respondents).toEqual([0, 2, 5, 7]);
     expect(result.flags[2].respondents).toEqual([6]);
     expect(() => screenRespondents(wave, { speederShare: 2 })).toThrow(RangeError);
+  });
+});
+
+describe('screenRespondents on a scored test (psych::lsat6, LSAT section 6, Bock & Lieberman 1970)', () => {
+  // scripts/reference/real-questionnaires.R → fixtures/reference/real-screening.json
+  const real = JSON.parse(readFileSync(join(import.meta.dirname, '..', '..', 'fixtures', 'reference', 'real-screening.json'), 'utf8')) as {
+    lsat6: { items: string[]; rows: number[][]; score_counts: number[] };
+    lsat7: { items: string[]; rows: number[][]; score_counts: number[] };
+  };
+  const waveOf = (set: { items: string[]; rows: number[][] }, type?: 'rating' | 'scored' | 'dichotomous') => {
+    const matrix = itemMatrixFromRows(set.rows);
+    const testItems: WaveItem[] = set.items.map((id) => ({
+      id, header: id, scale: 'test', reverse: false, min: 0, max: 1, missingCodes: [], text: null, labels: [], missingLabels: [],
+      ...(type ? { type } : {}),
+      counts: { answered: 0, blank: 0, declaredMissing: 0, outOfRange: 0, nonNumeric: 0, unmappedLabel: 0, mappedLabel: 0 },
+    }));
+    return { matrix, items: testItems, duration: null, respondents: matrix.rows };
+  };
+
+  it('never proposes excluding the best performers of a 0/1 test, and says which rules it applied', () => {
+    for (const set of [real.lsat6, real.lsat7]) {
+      for (const type of [undefined, 'scored', 'dichotomous'] as const) {
+        const result = screenRespondents(waveOf(set, type));
+        expect(result.proposedExclusions).toEqual([]);
+        expect(result.flags.map((flag) => flag.code)).toEqual(['mostly-missing']);
+        const rule = (code: string) => result.rules.find((entry) => entry.code === code);
+        expect(rule('long-string')).toMatchObject({ applied: false, items: 0 });
+        expect(rule('low-variability')?.applied).toBe(false);
+        expect(rule('long-string')?.note).toMatch(/no rating-grid items/);
+        expect(rule('mostly-missing')?.applied).toBe(true);
+        expect(result.itemTypes[type ?? 'dichotomous']).toBe(5);
+      }
+    }
+  });
+
+  it('treated as a rating grid (the old behaviour) it would flag every perfect and every zero score', () => {
+    const result = screenRespondents(waveOf(real.lsat6, 'rating'));
+    // R 4.2.2: table(rowSums(lsat6)) → 3 examinees score 0 and 298 score 5 of 5: all 301 flagged.
+    const expected = real.lsat6.score_counts[0] + real.lsat6.score_counts[5];
+    expect(expected).toBe(301);
+    expect(result.proposedExclusions.length).toBe(expected);
+    expect(result.rules.find((entry) => entry.code === 'long-string')?.applied).toBe(true);
+  });
+
+  it('applies the grid rules to the rating items only in a mixed wave', () => {
+    const mixed = { ...wave, items: items.map((item, k) => (k < 2 ? { ...item, type: 'scored' as const } : item)) };
+    const result = screenRespondents({ ...mixed, duration: null });
+    expect(result.itemTypes).toEqual({ rating: 5, scored: 2, dichotomous: 0 });
+    expect(result.rules[0].note).toMatch(/5 rating-grid items only \(left out: 2 scored items/);
+    // Run threshold over 5 grid items: max(5, ceil(2.5)) = 5.
+    expect(result.flags[0].threshold).toBe(5);
   });
 });

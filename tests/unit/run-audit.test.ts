@@ -9,17 +9,18 @@ import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
 import { auditInputFromWave, AuditInputError } from '../../src/lib/audit/audit-input';
 import { runAudit } from '../../src/lib/audit/run-audit';
-import { buildWave, proposeSetup, readCodebook, readTable, screenRespondents } from '../../src/lib/ingest';
+import { acceptProposal, readWave } from '../../src/lib/ingest';
 import { correlationMatrix } from '../../src/lib/stats/correlation-matrix';
 import { selectItems } from '../../src/lib/stats/types';
 import { demoWave } from '../../src/lib/synth/demo';
 
 async function demoBuiltWave() {
-  const table = await readTable(new Uint8Array(readFileSync('fixtures/demo/library-pilot-1.csv')), 'library-pilot-1.csv');
-  const codebook = readCodebook(await readTable(new Uint8Array(readFileSync('fixtures/demo/library-codebook.csv')), 'library-codebook.csv'));
-  const proposal = proposeSetup(table, codebook);
-  const screening = screenRespondents(buildWave(table, proposal));
-  return buildWave(table, proposal, screening.proposedExclusions);
+  // The one reader and the one accept path, as the seed and the command line use them.
+  const read = await readWave({
+    fileName: 'library-pilot-1.csv', bytes: new Uint8Array(readFileSync('fixtures/demo/library-pilot-1.csv')),
+    codebookName: 'library-codebook.csv', codebookBytes: new Uint8Array(readFileSync('fixtures/demo/library-codebook.csv')), sheet: null,
+  });
+  return acceptProposal(read).wave;
 }
 
 /** Every number in the JSON is finite (JSON.stringify would silently turn NaN into null). */
@@ -50,6 +51,19 @@ describe('runAudit on the demo wave', async () => {
     const direct = correlationMatrix(selectItems(input.matrix, usable), { method: 'pearson', missing: 'pairwise' });
     const order = direct.matrix.order;
     for (let a = 0; a < order; a++) for (let b = 0; b < order; b++) expect(audit.correlation.matrix[a][b]).toBeCloseTo(direct.matrix.data[a * order + b], 12);
+  });
+
+  it('refits the driver model without the proposed cut, on the same respondents', () => {
+    const model = audit.outcomeModel as unknown as { n: number; completeRows: number; afterCut: { removed: string[]; n: number; coefficients: { term: string; seRatio: number | null }[] } };
+    expect(model.completeRows).toBe(model.n);
+    expect(model.afterCut.removed).toEqual((audit.afterCut?.removed as string[]).filter((id) => audit.correlation.items.includes(id)));
+    expect(model.afterCut.n).toBe(model.n);
+    // fixtures/demo/README.md: coll_7 is planted as a near-copy of coll_2, so once it is gone
+    // coll_2's standard error shrinks the most.
+    const ratio = (id: string) => model.afterCut.coefficients.find((c) => c.term === id)?.seRatio ?? Number.NaN;
+    expect(ratio('coll_2')).toBeLessThan(0.5);
+    expect(ratio('hours_1')).toBeGreaterThan(0.8);
+    expect(model.afterCut.coefficients.some((c) => model.afterCut.removed.includes(c.term))).toBe(false);
   });
 
   it('names the constant item and the exact duplicate instead of producing NaN', () => {

@@ -1,37 +1,31 @@
 import { useMemo, useState, type FormEvent, type ReactNode } from 'react';
 import type { AuditFormWave } from '../../lib/server/audit-jobs/audit-form-data';
 import type { AuditSummary } from '../../lib/server/audit-jobs/audit-jobs';
-import type { EngineSettings } from '../../lib/engine/engine-settings';
+import { AUDIT_SETTINGS, DEFAULT_AUDIT_SETTINGS, type FormPlacement, type SettingDescriptor } from '../../lib/audit/settings-table';
 import { callApi } from '../api-client';
 import { AUDIT_STARTED_EVENT } from './AuditList';
 import AuditStatusRow from './AuditStatusRow';
 
-/** A number field of the form: its settings key, label, how it is shown (percent or not) and its limits. */
-interface NumberField {
-  key: keyof EngineSettings;
-  label: string;
-  hint: string;
-  step: string;
-  min: number;
-  max?: number;
-  /** Shown and typed as a percentage; sent as a share. */
-  percent?: boolean;
+/** A field of the form, generated from the settings table (src/lib/audit/settings-table.ts). */
+type FormField = SettingDescriptor & { form: FormPlacement };
+
+const formFields = AUDIT_SETTINGS.filter((setting): setting is FormField => setting.form !== null && !setting.testOnly);
+const fieldsOf = (group: FormPlacement['group']): FormField[] => formFields.filter((field) => field.form.group === group);
+const choiceFields = formFields.filter((field) => field.domain.kind === 'choice');
+const numberFields = formFields.filter((field) => field.domain.kind === 'number');
+
+const outcomeSetting = AUDIT_SETTINGS.find((setting) => setting.name === 'outcome')!;
+const lockedSetting = AUDIT_SETTINGS.find((setting) => setting.name === 'locked')!;
+
+/** The bounds an input shows: an open bound moves in by one step (e.g. above 0 with step 0.01 → 0.01). */
+function inputBounds(field: FormField): { min?: number; max?: number } {
+  if (field.domain.kind !== 'number') return {};
+  const scale = field.form.percent ? 100 : 1;
+  const step = Number(field.form.step ?? '1');
+  const min = field.domain.min * scale + (field.domain.minOpen ? step : 0);
+  const max = field.domain.max * scale - (field.domain.maxOpen ? step : 0);
+  return { min: Math.round(min * 1e6) / 1e6, max: Math.round(max * 1e6) / 1e6 };
 }
-
-const thresholdFields: NumberField[] = [
-  { key: 'strongPairThreshold', label: 'Strong pair, |r| at least', hint: 'after reverse-keying', step: '0.01', min: 0.01, max: 1 },
-  { key: 'conditionIndexThreshold', label: 'Near-dependency: condition index at least', hint: 'Belsley, Kuh & Welsch', step: '1', min: 1 },
-  { key: 'varianceProportionThreshold', label: '…with variance proportions at least', hint: 'on two or more items', step: '0.05', min: 0, max: 1 },
-  { key: 'stabilityThreshold', label: 'Stable when made in at least', hint: 'share of resamples', step: '1', min: 0, max: 100, percent: true },
-];
-
-const constraintFields: NumberField[] = [
-  { key: 'minItemsPerScale', label: 'Items per scale, at least', hint: 'a scale never falls below', step: '1', min: 1 },
-  { key: 'alphaFloor', label: "Scale alpha, at least", hint: 'after the cut', step: '0.01', min: 0, max: 1 },
-  { key: 'maxAlphaDrop', label: 'Alpha may drop by at most', hint: 'per scale', step: '0.01', min: 0, max: 1 },
-  { key: 'maxCutShare', label: 'Items cut, at most', hint: 'share of usable items', step: '1', min: 0, max: 100, percent: true },
-  { key: 'secondsPerItem', label: 'Answering time per item, seconds', hint: 'for minutes saved', step: '0.5', min: 0.5 },
-];
 
 function shown(value: number, percent?: boolean): string {
   return percent ? String(Math.round(value * 1000) / 10) : String(value);
@@ -53,7 +47,7 @@ function Field({ id, label, hint, children }: { id: string; label: string; hint:
  * the locked items. After starting, the audit's progress shows below the form until it is done,
  * then a link to its page.
  */
-export default function AuditLauncher({ waves, engineDefaults }: { waves: AuditFormWave[]; engineDefaults: EngineSettings }) {
+export default function AuditLauncher({ waves }: { waves: AuditFormWave[] }) {
   const [waveId, setWaveId] = useState(waves[waves.length - 1]?.id ?? '');
   const wave = waves.find((entry) => entry.id === waveId) ?? waves[0];
   const defaults = wave.defaults;
@@ -71,31 +65,50 @@ export default function AuditLauncher({ waves, engineDefaults }: { waves: AuditF
     return [...groups.entries()];
   }, [wave]);
 
-  function defaultHint(field: NumberField): string {
-    const value = defaults[field.key] as number;
-    const engine = engineDefaults[field.key] as number;
-    const text = `${shown(value, field.percent)}${field.percent ? '%' : ''}`;
-    return value === engine ? `${field.hint}; default ${text}` : `${field.hint}; this study's default ${text}`;
+  function defaultHint(field: FormField): string {
+    const value = (defaults as unknown as Record<string, unknown>)[field.name];
+    const engine = (DEFAULT_AUDIT_SETTINGS as unknown as Record<string, unknown>)[field.name];
+    const text = typeof value === 'number' ? `${shown(value, field.form.percent)}${field.form.percent ? '%' : ''}` : String(value);
+    return `${field.help} ${value === engine ? 'Default' : "This study's default"} ${text}.`;
   }
+
+  function numberInput(field: FormField) {
+    const id = `audit-${field.name}`;
+    const value = (defaults as unknown as Record<string, unknown>)[field.name] as number;
+    return (
+      <Field key={field.name} id={id} label={field.label + (field.form.percent ? ' (%)' : '')} hint={defaultHint(field)}>
+        <input className="field num w-32" id={id} name={field.name} type="number" step={field.form.step} {...inputBounds(field)} defaultValue={shown(value, field.form.percent)} />
+      </Field>
+    );
+  }
+
+  function choiceInput(field: FormField) {
+    const id = `audit-${field.name}`;
+    const choices = field.domain.kind === 'choice' ? field.domain.choices : [];
+    return (
+      <Field key={field.name} id={id} label={field.label} hint={field.help}>
+        <select className="field" id={id} name={field.name} defaultValue={String((defaults as unknown as Record<string, unknown>)[field.name])}>
+          {choices.map((choice) => <option key={choice} value={choice}>{field.form.choices?.[choice] ?? choice}</option>)}
+        </select>
+      </Field>
+    );
+  }
+
+  const input = (field: FormField) => (field.domain.kind === 'choice' ? choiceInput(field) : numberInput(field));
 
   async function submit(event: FormEvent<HTMLFormElement>) {
     event.preventDefault();
     const form = new FormData(event.currentTarget);
     const settings: Record<string, unknown> = {
-      method: String(form.get('method')),
-      missing: String(form.get('missing')),
       outcome: form.get('outcome') ? String(form.get('outcome')) : null,
       locked: [...locked].sort(),
     };
-    for (const name of ['bootstrap', 'seed']) {
-      const text = String(form.get(name) ?? '').trim();
-      if (text !== '') settings[name] = Number(text);
-    }
-    for (const field of [...thresholdFields, ...constraintFields]) {
-      const text = String(form.get(field.key) ?? '').trim();
+    for (const field of choiceFields) settings[field.name] = String(form.get(field.name));
+    for (const field of numberFields) {
+      const text = String(form.get(field.name) ?? '').trim();
       if (text === '') continue;
       const value = Number(text);
-      settings[field.key] = field.percent ? Math.round(value * 10) / 1000 : value;
+      settings[field.name] = field.form.percent ? Math.round(value * 10) / 1000 : value;
     }
     setBusy(true);
     setError('');
@@ -139,20 +152,8 @@ export default function AuditLauncher({ waves, engineDefaults }: { waves: AuditF
               </select>
             </Field>
           )}
-          <Field id="audit-method" label="Correlation" hint="polychoric suits ordinal answers; it takes longer">
-            <select className="field" id="audit-method" name="method" defaultValue={defaults.method}>
-              <option value="pearson">Pearson</option>
-              <option value="spearman">Spearman (ranks)</option>
-              <option value="polychoric">Polychoric</option>
-            </select>
-          </Field>
-          <Field id="audit-missing" label="Missing answers" hint="pairwise keeps the most answers">
-            <select className="field" id="audit-missing" name="missing" defaultValue={defaults.missing}>
-              <option value="pairwise">Pairwise deletion</option>
-              <option value="listwise">Listwise deletion</option>
-            </select>
-          </Field>
-          <Field id="audit-outcome" label="Outcome for the driver model" hint={wave.outcomes.length ? 'optional' : 'this wave has no outcome column'}>
+          {fieldsOf('data').map(input)}
+          <Field id="audit-outcome" label={outcomeSetting.label} hint={wave.outcomes.length ? outcomeSetting.help : 'This wave has no outcome column.'}>
             <select className="field" id="audit-outcome" name="outcome" defaultValue="" disabled={wave.outcomes.length === 0}>
               <option value="">None</option>
               {wave.outcomes.map((outcome) => <option key={outcome.id} value={outcome.id}>{outcome.header}</option>)}
@@ -162,36 +163,25 @@ export default function AuditLauncher({ waves, engineDefaults }: { waves: AuditF
 
         <fieldset className="grid content-start gap-3">
           <legend className="mb-2 text-xs font-semibold uppercase tracking-wide text-ink-faint">Overlap and stability</legend>
-          {thresholdFields.map((field) => (
-            <Field key={field.key} id={`audit-${field.key}`} label={field.label + (field.percent ? ' (%)' : '')} hint={defaultHint(field)}>
-              <input className="field num w-32" id={`audit-${field.key}`} name={field.key} type="number" step={field.step} min={field.min} max={field.max} defaultValue={shown(defaults[field.key] as number, field.percent)} />
-            </Field>
-          ))}
-          <div className="grid grid-cols-2 gap-3">
-            <Field id="audit-bootstrap" label="Resamples" hint={`default ${defaults.bootstrap}; 0 skips`}>
-              <input className="field num" id="audit-bootstrap" name="bootstrap" type="number" step="1" min={0} max={10000} defaultValue={defaults.bootstrap} />
-            </Field>
-            <Field id="audit-seed" label="Seed" hint={`default ${defaults.seed}`}>
-              <input className="field num" id="audit-seed" name="seed" type="number" step="1" defaultValue={defaults.seed} />
-            </Field>
-          </div>
+          {fieldsOf('overlap').map(input)}
         </fieldset>
 
         <fieldset className="grid content-start gap-3">
           <legend className="mb-2 text-xs font-semibold uppercase tracking-wide text-ink-faint">Constraints on the cut</legend>
-          {constraintFields.map((field) => (
-            <Field key={field.key} id={`audit-${field.key}`} label={field.label + (field.percent ? ' (%)' : '')} hint={defaultHint(field)}>
-              <input className="field num w-32" id={`audit-${field.key}`} name={field.key} type="number" step={field.step} min={field.min} max={field.max} defaultValue={shown(defaults[field.key] as number, field.percent)} />
-            </Field>
-          ))}
+          {fieldsOf('constraints').map(input)}
         </fieldset>
       </div>
+
+      <details className="rounded border border-rule px-3 py-2" data-testid="audit-more-settings">
+        <summary className="cursor-pointer text-sm font-semibold">Further thresholds <span className="font-normal text-ink-soft">(merge, reword, near-dependency VIF, interval, parallel analysis)</span></summary>
+        <div className="mt-2 grid gap-3 sm:grid-cols-2 lg:grid-cols-3">{fieldsOf('more').map(input)}</div>
+      </details>
 
       <details className="rounded border border-rule px-3 py-2">
         <summary className="cursor-pointer text-sm font-semibold">
           Locked items <span className="font-normal text-ink-soft">({locked.size === 0 ? 'none: every item may be proposed' : `${locked.size} never proposed for cutting`})</span>
         </summary>
-        <p className="mt-2 text-xs text-ink-faint">Trend, mandated or licensed items: the audit still measures them but never proposes them for cutting or rewording.</p>
+        <p className="mt-2 text-xs text-ink-faint">{lockedSetting.help}</p>
         <div className="mt-2 grid gap-3 sm:grid-cols-2 lg:grid-cols-3">
           {scales.map(([scale, items]) => (
             <fieldset key={scale}>

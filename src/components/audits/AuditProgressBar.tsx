@@ -1,4 +1,4 @@
-import { stageWords, statusWords } from './audit-words';
+import { stageWords, statusWords } from '../../lib/words';
 
 /** The progress of one queued or running audit: a native progress bar and the stage in words. */
 export default function AuditProgressBar({ status, stage, percent }: { status: string; stage: string | null; percent: number }) {

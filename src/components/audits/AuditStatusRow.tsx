@@ -3,7 +3,7 @@ import type { AuditSummary } from '../../lib/server/audit-jobs/audit-jobs';
 import { callApi } from '../api-client';
 import { formatRecentTime } from '../date-words';
 import AuditProgressBar from './AuditProgressBar';
-import { formatDuration, settingsLine, statusWords } from './audit-words';
+import { formatDuration, settingsLine, statusWords } from '../../lib/words';
 import { useAuditStatus, type AuditState } from './use-audit-status';
 
 /**

@@ -4,6 +4,7 @@
  * outcome column the settings name. The command line and the server's audit workers share it.
  */
 import { includedRows } from '../ingest/build-wave';
+import type { ScreeningResult } from '../ingest/screening/screen-respondents';
 import type { BuiltWave } from '../ingest/types';
 import { selectRespondents } from '../stats/types';
 import type { AuditInput } from './run-audit';
@@ -23,6 +24,27 @@ export interface AuditInputOptions {
   readonly outcome?: string | null;
   /** Item ids the designer locked (trend or mandated questions): never proposed for cutting. */
   readonly locked?: readonly string[];
+  /** Columns of the file left out of the wave, with reasons (`columnsLeftOut` of the ingest). */
+  readonly leftOut?: AuditInput['leftOut'];
+  /** The screening that proposed the exclusions (its rules and item types go into the audit JSON). */
+  readonly screening?: Pick<ScreeningResult, 'itemTypes' | 'rules' | 'proposedExclusions'> | null;
+}
+
+/**
+ * The correlation method an audit should use by default for these items: polychoric (for 0/1
+ * items the tetrachoric correlation) when every item is dichotomous or scored 0/1, because phi,
+ * the Pearson r of two 0/1 items, is bounded by their margins; Pearson otherwise.
+ * @param items the wave's items (range and type).
+ * @returns the method and the reason, one sentence.
+ * References: Guilford 1965, "Fundamental Statistics in Psychology and Education" (the bound of phi
+ *   by the margins; from memory); Olsson 1979, Psychometrika 44:443-460 (polychoric / tetrachoric).
+ */
+export function proposedCorrelationMethod(items: readonly { readonly min: number; readonly max: number; readonly type?: string }[]): { method: 'pearson' | 'polychoric'; reason: string } {
+  const binary = items.filter((item) => item.min === 0 && item.max === 1 && item.type !== 'rating');
+  if (items.length > 0 && binary.length === items.length) {
+    return { method: 'polychoric', reason: 'Every item is scored 0/1, so the tetrachoric correlation (polychoric on 0/1) is proposed: phi, the Pearson r of 0/1 items, is bounded by their margins.' };
+  }
+  return { method: 'pearson', reason: 'Rating items: Pearson correlations by default.' };
 }
 
 /**
@@ -62,9 +84,14 @@ export function auditInputFromWave(wave: Pick<BuiltWave, 'matrix' | 'items' | 'o
       locked: locked.has(item.id),
       min: item.min,
       max: item.max,
+      ...(item.type ? { type: item.type } : {}),
     })),
     rowsInWave: wave.respondents,
     excluded: wave.excluded.length,
     outcome,
+    ...(options.leftOut ? { leftOut: options.leftOut } : {}),
+    ...(options.screening
+      ? { screening: { itemTypes: options.screening.itemTypes, rules: options.screening.rules.map(({ code, applied, items, note }) => ({ code, applied, items, note })), proposedExclusions: options.screening.proposedExclusions.length } }
+      : {}),
   };
 }

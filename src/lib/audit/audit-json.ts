@@ -6,16 +6,25 @@
  * entry in `warnings`, never NaN.
  */
 import type { CorrelationMethod, MissingPolicy } from '../stats/types';
+import type { CutReason } from '../engine/recommend-cuts';
 
 export const AUDIT_SCHEMA = 'paredown.audit/1' as const;
 
+/**
+ * The audit's settings, echoed unchanged from the one stored shape (src/lib/audit/settings-table.ts,
+ * `StoredAuditSettings`): every engine setting in the table's order (method, missing, the
+ * thresholds, constraints, bootstrap and seed), then `outcome`, `locked` (sorted item ids) and
+ * `parallelIterations`; `testFault` only on a test server that injected one.
+ */
 export interface AuditSettingsJson {
   method: CorrelationMethod;
   missing: MissingPolicy;
   outcome: string | null;
   seed: number;
   bootstrap: number;
-  /** Engine thresholds and the designer's constraints (added keys, see the engine's docs). */
+  locked: readonly string[];
+  parallelIterations: number;
+  /** Engine thresholds and the designer's constraints (added keys, see the settings table). */
   [extra: string]: unknown;
 }
 
@@ -60,7 +69,10 @@ export interface AuditRecommendationJson {
   actions: { item: string; action: 'drop' | 'merge' | 'reword' | 'keep'; into: string | null; [extra: string]: unknown }[];
   evidence: { maxR: number | null; conditionIndex: number | null; vifBefore: number | null; vifAfter: number | null; [extra: string]: unknown };
   stability: number | null;
+  /** One sentence, worded by src/lib/words from `because`. */
   reason: string;
+  /** The structured reason behind `reason` (added key; absent from results stored before it). */
+  because?: CutReason;
   [extra: string]: unknown;
 }
 
@@ -94,6 +106,21 @@ export interface AuditOutcomeModelJson {
   ssr: number;
   sigma: number | null;
   coefficients: AuditCoefficientJson[];
+  /** Respondents with the outcome and every predictor answered: the rows the model rests on. */
+  completeRows?: number;
+  /**
+   * The same model without the items the proposed cut removes, on the same respondents, with each
+   * remaining coefficient's `seRatio` (after/before); null when the cut removes no predictor.
+   */
+  afterCut?: {
+    removed: string[];
+    n: number;
+    r2: number;
+    adjR2: number | null;
+    ssr: number;
+    sigma: number | null;
+    coefficients: (AuditCoefficientJson & { seRatio: number | null })[];
+  } | null;
   [extra: string]: unknown;
 }
 

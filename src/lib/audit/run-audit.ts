@@ -10,18 +10,22 @@
  * stability), then the optional outcome model. Pure: no file, database or framework.
  */
 import { runEngine } from '../engine/run-engine';
-import { computeEvidence } from '../engine/compute-evidence';
+import { fitOutcomeModel, refitOutcomeAfterCut } from './outcome-model';
+import { computeEvidence, namePositions } from '../engine/compute-evidence';
 import { principalSubmatrix } from '../engine/principal-submatrix';
-import { resolveEngineSettings, type EngineSettings } from '../engine/engine-settings';
 import type { EngineEvidence, EngineItem, EngineWarning } from '../engine/types';
 import type { Recommendation } from '../engine/recommend-cuts';
 import type { AfterCut } from '../engine/simulate-cut';
 import { bartlettSphericity } from '../stats/bartlett-sphericity';
 import { kaiserMeyerOlkin } from '../stats/kmo';
-import { olsRegression } from '../stats/ols-regression';
 import { parallelAnalysis } from '../stats/parallel-analysis';
-import { relativeWeights } from '../stats/relative-weights';
+import { polychoricParallelAnalysis } from '../stats/parallel-analysis-polychoric';
+import { minresOneFactor } from '../stats/minres-factor';
+import { oneFactorMl } from '../stats/one-factor-ml';
+import { symmetricEigenvalues } from '../stats/symmetric-eigen';
+import { POLYCHORIC_PARALLEL_DEFAULT_ITERATIONS } from '../stats/tolerances';
 import { completeRows } from '../stats/complete-rows';
+import { AuditInputError } from './audit-input';
 import { correlationMatrix } from '../stats/correlation-matrix';
 import { selectItems, selectRespondents, squareMatrixToRows, type ItemMatrix, type NumericalNotice } from '../stats/types';
 import {
@@ -34,11 +38,15 @@ import {
   type AuditRecommendationJson,
   type AuditWarningJson,
 } from './audit-json';
+import { engineSettingsOf, resolveAuditSettings, type AuditSettingsRequest } from './settings-table';
+import { cautionSentence, reasonSentence } from '../words';
 
 /** One item as the audit receives it (from the confirmed column setup). */
 export interface AuditItemInput extends EngineItem {
   /** Reverse-keyed in the codebook (the matrix is already recoded). */
   readonly reverse: boolean;
+  /** Item type from the setup (rating, scored, dichotomous); absent: from the range. */
+  readonly type?: 'rating' | 'scored' | 'dichotomous';
 }
 
 /** What one audit reads. */
@@ -53,14 +61,24 @@ export interface AuditInput {
   readonly excluded: number;
   /** The outcome column for the outcome model, when the settings name one. */
   readonly outcome: { readonly id: string; readonly values: Float64Array } | null;
+  /** Columns of the file the setup left out of the wave, with the reason (each becomes a `column-left-out` warning). */
+  readonly leftOut?: readonly { readonly column: string; readonly reason: string }[];
+  /** The screening behind the exclusions: which rules were applied to which item types. */
+  readonly screening?: AuditScreeningJson | null;
 }
 
-/** Audit settings: the engine's settings plus the outcome. Anything unset takes its default. */
-export interface AuditSettings extends Partial<EngineSettings> {
-  readonly outcome?: string | null;
-  /** Random data sets for parallel analysis. Default 100. */
-  readonly parallelIterations?: number;
+/** What the audit JSON says about the screening that chose the excluded respondents. */
+export interface AuditScreeningJson {
+  readonly itemTypes: Readonly<Record<string, number>>;
+  readonly rules: readonly { readonly code: string; readonly applied: boolean; readonly items: number; readonly note: string }[];
+  readonly proposedExclusions: number;
 }
+
+/**
+ * Audit settings: any subset of the settings table (settings-table.ts); anything unset takes its
+ * default, and the locked items default to the items the input marks locked.
+ */
+export type AuditSettings = Readonly<AuditSettingsRequest>;
 
 /** Progress of an audit: a stage name and the overall share done, 0 to 1. */
 export type AuditProgress = (stage: string, fraction: number) => void;
@@ -86,8 +104,15 @@ export async function runAudit(
   onProgress?: AuditProgress,
   signal?: AbortSignal,
 ): Promise<AuditJson> {
-  const { outcome: outcomeId = null, parallelIterations = 100, ...engineOverrides } = settings;
-  const engineSettings = resolveEngineSettings(engineOverrides);
+  const lockedItems = input.items.filter((item) => item.locked).map((item) => item.id);
+  // The stored shape (settings-table.ts), echoed unchanged as the JSON's `settings`. testFault is
+  // accepted here because a test server's stored settings may carry it; the front doors refuse it.
+  const resolved = resolveAuditSettings({ ...settings, locked: settings.locked ?? lockedItems }, {}, { allowTestFaults: true });
+  const { outcome: outcomeId, parallelIterations } = resolved;
+  const engineSettings = engineSettingsOf(resolved);
+  if (resolved.locked.length !== new Set(lockedItems).size || lockedItems.some((id) => !resolved.locked.includes(id))) {
+    throw new RangeError(`runAudit: the settings lock ${resolved.locked.join(', ') || 'no items'} but the input marks ${lockedItems.join(', ') || 'none'} locked`);
+  }
   if (input.matrix.columns !== input.items.length) {
     throw new RangeError(`runAudit: the matrix has ${input.matrix.columns} columns but ${input.items.length} items were described`);
   }
@@ -99,14 +124,29 @@ export async function runAudit(
     onProgress?.(stage, from + (to - from) * Math.min(1, Math.max(0, fraction)));
   };
 
+  if (engineSettings.missing === 'listwise') refuseListwiseWithoutRows(input);
+
   report('evidence', 0);
   const evidence = computeEvidence(input.matrix, input.items, engineSettings);
   report('evidence', 1);
 
   report('structure', 0);
-  const warnings: AuditWarningJson[] = [...evidence.warnings].map(plainWarning);
+  const warnings: AuditWarningJson[] = (input.leftOut ?? []).map((entry) => ({
+    code: 'column-left-out',
+    items: [entry.column],
+    message: `The column "${entry.column}" is not in this audit: ${entry.reason.replace(/\.$/, '')}.`,
+  }));
+  warnings.push(...[...evidence.warnings].map(plainWarning));
   const ids = input.items.map((item) => item.id);
   const usableIds = evidence.usable.map((j) => ids[j]);
+  const dichotomous = input.items.filter((item) => (item.type ?? (item.min === 0 && item.max === 1 ? 'dichotomous' : 'rating')) !== 'rating' && item.min === 0 && item.max === 1);
+  if (dichotomous.length > 0 && evidence.method !== 'polychoric') {
+    warnings.push({
+      code: 'dichotomous-items-pearson',
+      items: dichotomous.map((item) => item.id),
+      message: `${dichotomous.length} item${dichotomous.length === 1 ? ' is' : 's are'} scored 0/1, and a ${evidence.method} correlation of two 0/1 items (phi) cannot reach 1 unless both have the same share of 1s, so strong overlap may stay hidden; the tetrachoric correlation (method: polychoric) is proposed for such items.`,
+    });
+  }
   const respondentsForTests = respondentsBehind(evidence, input.matrix);
   const structure = structureStatistics(evidence, respondentsForTests, engineSettings.seed, parallelIterations, ids);
   warnings.push(...structure.warnings);
@@ -123,7 +163,7 @@ export async function runAudit(
   warnings.push(...engine.warnings.map(plainWarning));
 
   report('outcome', 0);
-  const outcomeModel = input.outcome === null || outcomeId === null ? null : fitOutcomeModel(input, evidence, warnings);
+  const outcomeModel = input.outcome === null || outcomeId === null ? null : outcomeModelWithCut(input, evidence, engine.afterCut?.removed ?? [], warnings);
   report('outcome', 1);
 
   const items: AuditItemJson[] = input.items.map((item, j) => {
@@ -152,10 +192,20 @@ export async function runAudit(
     };
   });
 
+  const removedIds = new Set(engine.afterCut.removed);
+  const modelOf = (members: readonly number[]) => scaleModel(evidence, members, ids);
+  const afterCut = afterCutJson(engine.afterCut);
+  afterCut.scales = afterCut.scales.map((scale) => {
+    const members = evidence.scales.find((entry) => entry.id === scale.id)?.items.filter((j) => !removedIds.has(ids[j])) ?? [];
+    return { ...scale, model: modelOf(members) };
+  });
+
+  warnings.push(...keyingBalanceWarnings(input.items, evidence.scales.map((scale) => ({ id: scale.id, items: scale.items })), removedIds));
+
   const collinearity = evidence.collinearity;
   return {
     schema: AUDIT_SCHEMA,
-    settings: { ...engineSettings, outcome: outcomeId, parallelIterations },
+    settings: { ...resolved },
     input: {
       rows: input.rowsInWave,
       respondentsUsed: input.matrix.rows,
@@ -193,13 +243,138 @@ export async function runAudit(
       alpha: scale.alpha,
       alphaStd: scale.alphaStd,
       omegaTotal: scale.omegaTotal,
+      basis: {
+        alpha: `raw scores: Cronbach's alpha from the item covariances (${evidence.missing}), whatever the correlation method`,
+        alphaStd: `the ${evidence.method} correlation matrix (standardized alpha)`,
+        omegaTotal: `model-implied omega total, (sum of loadings)² / ((sum of loadings)² + sum of uniquenesses), from one-factor minres loadings on the ${evidence.method} correlation matrix (not psych::omega's observed-variance version)`,
+      },
+      model: modelOf(scale.items),
     })),
     recommendations: engine.recommendations.map(recommendationJson),
-    afterCut: afterCutJson(engine.afterCut),
+    afterCut,
     clusters: engine.clusters,
-    pairs: engine.pairs.map((pair) => ({ ...pair, items: [...pair.items], rules: [...pair.rules] })),
+    pairs: engine.pairs.map((pair) => ({ ...pair, items: [...pair.items], rules: [...(pair.rules ?? [])] })),
     outcomeModel,
+    ...(input.screening ? { screening: { itemTypes: { ...input.screening.itemTypes }, rules: input.screening.rules.map((rule) => ({ ...rule })), proposedExclusions: input.screening.proposedExclusions } } : {}),
     warnings: dedupeWarnings(warnings),
+  };
+}
+
+/** Fewest complete rows listwise deletion needs for a correlation (as the core's MIN_ROWS_FOR_CORRELATION). */
+const LISTWISE_MINIMUM_ROWS = 3;
+
+/**
+ * Listwise deletion keeps only the respondents who answered every item; with fewer than three of
+ * them no correlation exists, and the audit stops with one sentence saying what to do.
+ */
+function refuseListwiseWithoutRows(input: AuditInput): void {
+  const complete = completeRows(input.matrix).length;
+  if (complete >= LISTWISE_MINIMUM_ROWS) return;
+  const { rows, columns, data } = input.matrix;
+  const missing = input.items.map((item, j) => {
+    let count = 0;
+    for (let i = 0; i < rows; i++) if (Number.isNaN(data[j * rows + i])) count++;
+    return { id: item.id, count };
+  });
+  const worst = missing.filter((entry) => entry.count > 0).sort((a, b) => b.count - a.count).slice(0, 5);
+  const named = worst.map((entry) => `${entry.id} (${entry.count} of ${rows} missing)`).join(', ');
+  throw new AuditInputError(
+    'no-complete-rows',
+    `Listwise deletion keeps only respondents who answered all ${columns} items, and ${complete === 0 ? 'no one did' : `only ${complete} did`}` +
+      `${named ? ` (most often unanswered: ${named})` : ''}; use pairwise deletion instead (missing: pairwise; on the command line --missing pairwise).`,
+  );
+}
+
+/**
+ * Keying balance: a scale that has both reverse-keyed and positively keyed items controls
+ * acquiescence (agreeing whatever the content); a cut that removes the last items of either
+ * keying takes that control away, and is flagged.
+ * @param items the audit's items (reverse flag from the setup).
+ * @param scales each scale's member indices into items[].
+ * @param removed ids of the items the proposed cut removes.
+ * @returns one `keying-balance-lost` warning per scale that loses it.
+ * References: Paulhus 1991, "Measurement and control of response bias", in Robinson, Shaver &
+ *   Wrightsman (eds.), Measures of Personality and Social Psychological Attitudes (balanced keying
+ *   against acquiescence; from memory).
+ */
+export function keyingBalanceWarnings(items: readonly AuditItemInput[], scales: readonly { id: string; items: readonly number[] }[], removed: ReadonlySet<string>): AuditWarningJson[] {
+  const warnings: AuditWarningJson[] = [];
+  for (const scale of scales) {
+    const members = scale.items.map((j) => items[j]);
+    const reverse = members.filter((item) => item.reverse);
+    const forward = members.filter((item) => !item.reverse);
+    if (reverse.length === 0 || forward.length === 0) continue;
+    for (const [side, group] of [['reverse-keyed', reverse], ['positively keyed', forward]] as const) {
+      if (group.every((item) => removed.has(item.id))) {
+        warnings.push({
+          code: 'keying-balance-lost',
+          items: group.map((item) => item.id),
+          message: `The proposed cut removes every ${side} item of scale ${scale.id} (${group.map((item) => item.id).join(', ')}), so the shortened scale can no longer separate agreement with the content from agreeing with anything (acquiescence); keep one of them, or lock it.`,
+        });
+      }
+    }
+  }
+  return warnings;
+}
+
+/** A scale's one-factor measurement model as the audit JSON shows it. */
+export interface ScaleModelJson {
+  readonly estimator: 'ML' | 'minres';
+  readonly correlation: string;
+  readonly items: readonly string[];
+  /** Respondents the chi-square rests on (listwise: complete rows; pairwise: the smallest pair n). */
+  readonly n: number;
+  readonly loadings: readonly number[];
+  /** Residual correlations, observed minus model-implied, items × items in `items` order. */
+  readonly residuals: readonly (readonly number[])[];
+  readonly fit: { readonly chisq: number | null; readonly df: number; readonly rmsea: number | null; readonly cfi: number | null; readonly srmr: number };
+  readonly note: string;
+}
+
+/**
+ * One factor per scale on the audit's correlation matrix: maximum likelihood for Pearson data
+ * (chi-square, RMSEA, CFI, SRMR as lavaan reports them), minres for Spearman and polychoric
+ * matrices (SRMR only: minres gives no chi-square). Null below three items or when the matrix
+ * over the scale is not positive definite.
+ */
+function scaleModel(evidence: EngineEvidence, members: readonly number[], ids: readonly string[]): ScaleModelJson | null {
+  const positions = members.map((j) => evidence.usable.indexOf(j)).filter((k) => k >= 0);
+  if (positions.length < 3) return null;
+  const sub = principalSubmatrix(evidence.correlation, positions);
+  const p = sub.order;
+  let n = evidence.correlationRows;
+  if (evidence.missing === 'pairwise') {
+    const order = evidence.pairN.order;
+    n = Infinity;
+    for (const a of positions) for (const b of positions) if (a !== b) n = Math.min(n, evidence.pairN.data[a * order + b]);
+  }
+  const itemIds = positions.map((k) => ids[evidence.usable[k]]);
+  const rows = (data: Float64Array) => Array.from({ length: p }, (_, i) => Array.from(data.subarray(i * p, (i + 1) * p)));
+  if (evidence.method === 'pearson' && Number.isFinite(n) && n >= 2 && symmetricEigenvalues(sub)[p - 1] > 0) {
+    const fit = oneFactorMl(sub, n);
+    return {
+      estimator: 'ML', correlation: 'pearson', items: itemIds, n, loadings: fit.loadings, residuals: rows(fit.residuals.data),
+      fit: { chisq: fit.chiSquare, df: fit.degreesOfFreedom, rmsea: fit.rmsea, cfi: fit.cfi, srmr: fit.srmr },
+      note: `Maximum likelihood one-factor model on the ${evidence.missing} Pearson correlations; the chi-square uses N = ${n}${evidence.missing === 'pairwise' ? ' (the smallest pair n; ML assumes complete data)' : ''}, as lavaan does (N·F).${fit.degreesOfFreedom === 0 ? ' With three items the model is just identified: df = 0, so it fits exactly and only the loadings inform.' : ''}`,
+    };
+  }
+  const minres = minresOneFactor(sub);
+  if (minres.loadings === null) return null;
+  const loadings = Array.from(minres.loadings);
+  const residuals = new Float64Array(p * p);
+  let squares = 0;
+  for (let i = 0; i < p; i++) {
+    for (let j = 0; j < i; j++) {
+      const residual = sub.data[i * p + j] - loadings[i] * loadings[j];
+      residuals[i * p + j] = residual;
+      residuals[j * p + i] = residual;
+      squares += residual * residual;
+    }
+  }
+  return {
+    estimator: 'minres', correlation: evidence.method, items: itemIds, n: Number.isFinite(n) ? n : 0, loadings, residuals: rows(residuals),
+    fit: { chisq: null, df: (p * (p - 3)) / 2, rmsea: null, cfi: null, srmr: Math.sqrt(squares / ((p * (p + 1)) / 2)) },
+    note: `Minres one-factor model on the ${evidence.method} correlation matrix: it gives no chi-square, so RMSEA and CFI are not computed; SRMR over the lower triangle with its diagonal (zero there by construction), as lavaan defines it.`,
   };
 }
 
@@ -263,9 +438,24 @@ function structureStatistics(
     warnings.push(...noticeWarnings(bartlett.notices, keptIds));
   }
   let parallel: AuditJson['parallelAnalysis'] = null;
-  if (respondents >= 3) {
+  const thresholds = evidence.thresholds ?? null;
+  if (respondents >= 3 && evidence.method === 'polychoric' && thresholds !== null && thresholds.every((limits) => limits.length > 0)) {
+    // The random reference is of the same correlation type (Garrido, Abad & Ponsoda 2013): ordinal
+    // data at the observed thresholds, polychoric eigenvalues; fewer draws, each costs a matrix of fits.
+    const draws = Math.min(iterations, POLYCHORIC_PARALLEL_DEFAULT_ITERATIONS);
+    const result = polychoricParallelAnalysis(evidence.eigenvalues, respondents, thresholds, { seed, iterations: draws });
+    parallel = {
+      observed: [...result.observed], random95: [...result.random95], suggested: result.suggested, iterations: result.iterations, seed: result.seed,
+      correlation: 'polychoric',
+      note: `Random data were ordinal items cut at each item's observed thresholds, correlated by polychoric r like the observed matrix (Garrido, Abad & Ponsoda 2013); ${result.iterations} draws${draws < iterations ? ` instead of ${iterations}, as each draw costs a full polychoric matrix` : ''}.`,
+    };
+  } else if (respondents >= 3) {
     const result = parallelAnalysis(evidence.eigenvalues, respondents, { seed, iterations });
-    parallel = { observed: [...result.observed], random95: [...result.random95], suggested: result.suggested, iterations: result.iterations, seed: result.seed };
+    parallel = {
+      observed: [...result.observed], random95: [...result.random95], suggested: result.suggested, iterations: result.iterations, seed: result.seed,
+      correlation: 'pearson',
+      note: `Random data were standard normal, correlated by Pearson r; ${result.iterations} draws.`,
+    };
   } else {
     warnings.push({ code: 'parallel-analysis-skipped', items: [], message: 'Parallel analysis needs at least three respondents with answers; it was skipped.' });
   }
@@ -280,86 +470,22 @@ function structureStatistics(
 }
 
 /**
- * The outcome model: OLS of the outcome on every item in the correlation matrix (items in an
- * exact dependency are aliased by the QR and reported as such), on the respondents with the
- * outcome and every item answered; Johnson's relative weights from the same rows' Pearson
- * correlations.
+ * The driver model on the items of the correlation matrix and, when the proposed cut removes any
+ * of them, refitted without them on the same respondents (`afterCut`, see outcome-model.ts).
  */
-function fitOutcomeModel(input: AuditInput, evidence: EngineEvidence, warnings: AuditWarningJson[]): AuditOutcomeModelJson | null {
-  const outcome = input.outcome!;
-  const ids = evidence.usable.map((j) => input.items[j].id);
-  const p = evidence.usable.length;
-  const predictorsAndOutcome = selectItems(input.matrix, evidence.usable);
-  const table: ItemMatrix = { rows: predictorsAndOutcome.rows, columns: p + 1, data: concat(predictorsAndOutcome.data, outcome.values) };
-  const complete = completeRows(table);
-  if (complete.length < p + 2) {
-    warnings.push({
-      code: 'outcome-model-skipped',
-      items: [outcome.id],
-      message: `The outcome model needs more complete respondents (${complete.length}) than items plus two (${p + 2}); it was skipped.`,
-    });
-    return null;
-  }
-  const used = selectRespondents(table, complete);
-  const x: ItemMatrix = { rows: used.rows, columns: p, data: used.data.subarray(0, used.rows * p) };
-  const y = used.data.subarray(used.rows * p);
-  const model = olsRegression(x, y);
-  warnings.push(...noticeWarnings(model.notices, ids));
-
-  // Relative weights need an invertible predictor correlation matrix: use the predictors the QR
-  // could estimate (aliased ones, such as a duplicated column, carry no weight of their own).
-  const estimable = model.predictors.map((predictor, k) => (predictor.aliased ? -1 : k)).filter((k) => k >= 0);
-  const withOutcome = correlationMatrix(selectItems(used, [...estimable, p]), { method: 'pearson', missing: 'listwise' }).matrix;
-  const q = estimable.length;
-  const rxx = principalSubmatrix(withOutcome, estimable.map((_, k) => k));
-  const rxy = withOutcome.data.slice(q * (q + 1), q * (q + 1) + q);
-  const weights = relativeWeights(rxx, rxy);
-  warnings.push(...noticeWarnings(weights.notices, estimable.map((k) => ids[k])));
-  const weightOf = new Map<number, number>();
-  if (weights.weights !== null) estimable.forEach((k, position) => weightOf.set(k, weights.weights![position]));
-
-  const coefficients: AuditCoefficientJson[] = [
-    {
-      term: '(intercept)',
-      estimate: model.intercept.estimate ?? 0,
-      se: model.intercept.standardError,
-      t: model.intercept.tStatistic,
-      p: model.intercept.pValue,
-      vif: null,
-      sst: null,
-      tolerance: null,
-      relativeWeight: null,
-    },
-    ...model.predictors.map((predictor, k) => ({
-      term: ids[k],
-      estimate: predictor.estimate ?? 0,
-      aliased: predictor.aliased,
-      se: predictor.standardError,
-      t: predictor.tStatistic,
-      p: predictor.pValue,
-      vif: predictor.varianceInflationFactor,
-      sst: predictor.sumOfSquaresAboutMean,
-      tolerance: predictor.tolerance,
-      relativeWeight: weightOf.get(k) ?? null,
-      seFactors: predictor.standardErrorFactors,
-    })),
-  ];
+function outcomeModelWithCut(input: AuditInput, evidence: EngineEvidence, removed: readonly string[], warnings: AuditWarningJson[]): AuditOutcomeModelJson | null {
+  const modelInput = { matrix: input.matrix, ids: input.items.map((item) => item.id), outcome: input.outcome! };
+  const before = fitOutcomeModel(modelInput, evidence.usable, warnings);
+  if (!before) return null;
+  const { rows, ...model } = before;
+  const inModel = removed.filter((id) => model.coefficients.some((coefficient) => coefficient.term === id));
+  const afterCut = inModel.length > 0 && inModel.length < evidence.usable.length ? refitOutcomeAfterCut(modelInput, evidence.usable, before, inModel, warnings) : null;
   return {
-    outcome: outcome.id,
-    n: model.observations,
-    r2: model.rSquared ?? 0,
-    adjR2: model.adjustedRSquared,
-    ssr: model.sumOfSquaredResiduals,
-    sigma: model.residualStandardError,
-    coefficients,
+    ...model,
+    completeRows: rows.length,
+    afterCut,
+    basis: `OLS on the ${rows.length} complete rows (the outcome and every item answered); its VIF therefore uses complete rows, while the item table's VIF uses the ${evidence.missing} ${evidence.method} correlation matrix.`,
   };
-}
-
-function concat(a: Float64Array, b: Float64Array): Float64Array {
-  const out = new Float64Array(a.length + b.length);
-  out.set(a);
-  out.set(b, a.length);
-  return out;
 }
 
 function recommendationJson(recommendation: Recommendation): AuditRecommendationJson {
@@ -371,8 +497,9 @@ function recommendationJson(recommendation: Recommendation): AuditRecommendation
     stability: recommendation.stability,
     unstable: recommendation.unstable,
     overlapStability: recommendation.overlapStability,
-    reason: recommendation.reason,
-    cautions: [...recommendation.cautions],
+    reason: reasonSentence(recommendation.because),
+    cautions: recommendation.cautions.map(cautionSentence),
+    because: recommendation.because,
   };
 }
 
@@ -386,8 +513,9 @@ function plainWarning(warning: EngineWarning): AuditWarningJson {
 }
 
 function noticeWarnings(notices: readonly NumericalNotice[], ids: readonly string[]): AuditWarningJson[] {
-  return notices.map((notice) => ({ code: notice.code, items: notice.items.map((k) => ids[k] ?? String(k)), message: notice.message }));
+  return notices.map((notice) => ({ code: notice.code, items: notice.items.map((k) => ids[k] ?? String(k)), message: namePositions(notice.message, ids) }));
 }
+
 
 function dedupeWarnings(warnings: readonly AuditWarningJson[]): AuditWarningJson[] {
   const seen = new Set<string>();

@@ -24,8 +24,10 @@ import { itemDescriptives } from '../stats/item-descriptives';
 import { itemRestCorrelations } from '../stats/item-rest-correlation';
 import { minresOneFactor } from '../stats/minres-factor';
 import { omegaTotal } from '../stats/omega-total';
-import { symmetricEigen } from '../stats/symmetric-eigen';
+import { symmetricEigen, symmetricEigenvalues } from '../stats/symmetric-eigen';
+import { POLYCHORIC_MINIMUM_N, REPAIR_EIGENVALUE_FLOOR, TETRACHORIC_MINIMUM_N } from '../stats/tolerances';
 import { selectItems, type ItemMatrix, type NumericalNotice, type SquareMatrix } from '../stats/types';
+import { undefinedPairCover } from '../stats/undefined-pair-cover';
 import { varianceInflation } from '../stats/variance-inflation';
 import { DEFAULT_ENGINE_SETTINGS, type EngineSettings } from './engine-settings';
 import { coreDetectors } from './core-detectors';
@@ -64,12 +66,28 @@ export interface ComputeEvidenceOptions {
 export function warningsFromNotices(notices: readonly NumericalNotice[], items: readonly EngineItem[], local: readonly number[], context = ''): EngineWarning[] {
   return notices.map((notice) => {
     const ids = notice.items.map((k) => items[local[k]]?.id).filter((id): id is string => id !== undefined);
-    let message = notice.message;
+    let message = namePositions(notice.message, local.map((j) => items[j]?.id ?? String(j)));
     if (notice.code === 'exact-dependency' && ids.length > 0 && ids.length < local.length) {
       message = `${ids.join(', ')} are exactly linearly dependent (one is an exact linear combination of the others, e.g. a duplicated column): their VIF and condition index are infinite and reported as null.`;
     }
     return { code: notice.code, items: ids, message: context.length > 0 ? `${context}: ${message}` : message };
   });
+}
+
+/**
+ * The core names items by their 0-based position in the matrix it was given ("item 3",
+ * "Predictor 2", "item column 4", "Items at columns 0, 5"); a reader needs the item ids.
+ * @param message a core notice's message.
+ * @param ids the ids of the matrix's columns, in order.
+ * @returns the message with every position replaced by its id.
+ * References: none (a change of vocabulary, not a method).
+ */
+export function namePositions(message: string, ids: readonly string[]): string {
+  const id = (position: string): string => ids[Number(position)] ?? `#${Number(position) + 1}`;
+  return message
+    .replace(/\b(I|i)tems at columns ((?:\d+)(?:, \d+)*)/g, (_, initial: string, list: string) => `${initial}tems ${list.split(', ').map(id).join(', ')}`)
+    .replace(/\b(I|i)tem column (\d+)/g, (_, initial: string, position: string) => `${initial}tem ${id(position)}`)
+    .replace(/\b([Ii]tem|[Pp]redictor) (\d+)\b/g, (_, word: string, position: string) => `${word} ${id(position)}`);
 }
 
 /**
@@ -229,11 +247,33 @@ export function computeEvidence(
     };
   }
 
-  const data = usable.length === items.length ? matrix : selectItems(matrix, usable);
+  let data = usable.length === items.length ? matrix : selectItems(matrix, usable);
+  let correlation = correlationMatrix(data, { method: settings.method, missing: settings.missing });
+  // An undefined correlation (two items never answered together, or no variation where they
+  // were) is never entered as 0: the fewest items that leave no undefined pair are set aside.
+  for (let round = 0; correlation.undefinedPairs.length > 0 && usable.length > 1 && round < items.length; round++) {
+    const answered = usable.map((j) => descriptives[j].n);
+    const cover = undefinedPairCover(usable.length, correlation.undefinedPairs, answered);
+    const chosen = cover.leftOut.map((k, t) => ({ k, partners: cover.partners[t] })).sort((a, b) => a.k - b.k);
+    const names = chosen.map(({ k }) => items[usable[k]].id);
+    const detail = chosen.map(({ k, partners }) => `${items[usable[k]].id} (no correlation with ${partners.map((m) => items[usable[m]].id).join(', ')})`);
+    warnings.push({
+      code: 'correlation-undefined-items-left-out',
+      items: names,
+      message:
+        `${correlation.undefinedPairs.length} item pair(s) have no correlation (fewer than 3 respondents answered both, or one item did not vary where they did), ` +
+        `so ${names.length === 1 ? 'one item was' : `${names.length} items were`} left out of the correlation matrix and every statistic built on it: ${detail.join('; ')}. ` +
+        'The items were chosen greedily (each time the item in the most undefined pairs) so that as few as possible leave; an undefined correlation is never entered as 0.',
+    });
+    const gone = new Set(cover.leftOut);
+    const kept = usable.filter((_, k) => !gone.has(k));
+    usable.splice(0, usable.length, ...kept);
+    data = selectItems(matrix, usable);
+    correlation = correlationMatrix(data, { method: settings.method, missing: settings.missing });
+  }
   const completeData = completeRows(data).length === data.rows;
-
-  const correlation = correlationMatrix(data, { method: settings.method, missing: settings.missing });
   warnings.push(...warningsFromNotices(correlation.notices, items, usable));
+  if (settings.method === 'polychoric') warnings.push(...polychoricSampleWarnings(correlation, items, usable));
   // An indefinite matrix (pairwise or polychoric) is smoothed by Bentler & Yuan's (2011) scaling
   // with minimum-trace communalities (Debelak & Tran 2016), which leaves a floor under the
   // smallest eigenvalue, instead of Higham's projection, which leaves it nearly singular and makes
@@ -315,6 +355,8 @@ export function computeEvidence(
     usable,
     correlation: matrixR,
     pairN: correlation.n,
+    pairStandardErrors: correlation.standardErrors,
+    thresholds: correlation.thresholds,
     correlationRows: correlation.rowsUsed,
     repaired,
     covariance: covariance.matrix,
@@ -333,6 +375,47 @@ export function computeEvidence(
     localDependence,
     warnings,
   };
+}
+
+/**
+ * Whether a polychoric (tetrachoric for 0/1 items) matrix rests on enough respondents: the
+ * smallest pair n against the stated minimum, and negative eigenvalues before repair, the sign
+ * that the pairs do not fit together (each estimated on its own from too few answers).
+ * @param correlation The polychoric correlation result.
+ * @param items All items; `usable` maps the matrix's positions into them.
+ * @param usable Indices into items[] of the matrix's items.
+ * @returns Zero, one or two warnings (`polychoric-sample-small`, `polychoric-indefinite`).
+ * References: Lorenzo-Seva & Ferrando 2021, "Not positive definite correlation matrices in exploratory
+ *   item factor analysis: causes, consequences and a proposed solution", Structural Equation Modeling
+ *   28:138-147 (from memory); POLYCHORIC_MINIMUM_N and TETRACHORIC_MINIMUM_N (common practice).
+ */
+export function polychoricSampleWarnings(correlation: ReturnType<typeof correlationMatrix>, items: readonly EngineItem[], usable: readonly number[]): EngineWarning[] {
+  const warnings: EngineWarning[] = [];
+  const order = correlation.matrix.order;
+  if (order < 2) return warnings;
+  const binary = (correlation.thresholds ?? []).every((limits) => limits.length === 1);
+  const minimum = binary ? TETRACHORIC_MINIMUM_N : POLYCHORIC_MINIMUM_N;
+  const kind = binary ? 'tetrachoric' : 'polychoric';
+  let smallest = Infinity;
+  for (let j = 0; j < order; j++) for (let k = j + 1; k < order; k++) smallest = Math.min(smallest, correlation.n.data[j * order + k]);
+  const ids = usable.map((j) => items[j].id);
+  if (smallest < minimum) {
+    warnings.push({
+      code: 'polychoric-sample-small',
+      items: ids,
+      message: `The ${kind} matrix rests on as few as ${smallest} respondents per pair, below the ${minimum} this audit asks of a ${kind} matrix (README, "Minimum respondents per method"); its correlations are imprecise and may not fit together, so read them with care or use Pearson correlations.`,
+    });
+  }
+  const raw = correlation.unrepaired ?? correlation.matrix;
+  const negative = Array.from(symmetricEigenvalues(raw)).filter((value) => value < -REPAIR_EIGENVALUE_FLOOR).length;
+  if (negative > 0) {
+    warnings.push({
+      code: 'polychoric-indefinite',
+      items: ids,
+      message: `Before repair the ${kind} matrix had ${negative} negative eigenvalue${negative === 1 ? '' : 's'}: its pairs, each estimated on its own, do not fit one set of respondents, usually because there are too few respondents for the number of items and categories. The figures use the repaired matrix; more respondents, fewer categories (merge sparse ones) or Pearson correlations avoid the repair.`,
+    });
+  }
+  return warnings;
 }
 
 /** VIF, tolerance, R², exact dependencies, eigenvalues and condition number (one decomposition). */

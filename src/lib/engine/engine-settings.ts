@@ -86,39 +86,173 @@ export interface EngineSettings {
 }
 
 /**
- * The defaults. The house figures (maximum alpha drop 0.10, cut cap 25%, 8 seconds per item,
- * stability share 0.70) are Paredown's own choices, stated in docs/decisions/003 and adjustable
- * per audit; the others come from the sources named beside each field.
+ * The range of values one setting takes: a choice among words, or a number between bounds
+ * (each bound closed unless marked open), whole when `integer`.
  */
-export const DEFAULT_ENGINE_SETTINGS: EngineSettings = Object.freeze({
-  method: 'pearson',
-  missing: 'pairwise',
-  strongPairThreshold: 0.8,
-  conditionIndexThreshold: 30,
-  varianceProportionThreshold: 0.5,
-  dependencyVifThreshold: 5,
-  mergeCorrelation: 0.95,
-  mergeWordingSimilarity: 0.8,
-  rewordWordingSimilarity: 0.3,
-  minItemsPerScale: 3,
-  alphaFloor: 0.7,
-  maxAlphaDrop: 0.1,
-  maxCutShare: 0.25,
-  secondsPerItem: 8,
-  bootstrap: 200,
-  seed: 1,
-  stabilityThreshold: 0.7,
-  confidenceLevel: 0.95,
-  residualRelativeThreshold: 0.2,
-  residualStatistic: 'residual',
-  residualBootstrapDraws: 200,
-  residualCriticalQuantile: 0.99,
-  residualAboutZeroShare: 0.5,
-  wtoThreshold: 0.25,
-  ebicGamma: 0.5,
-  ebicPenaltyCount: 100,
-  interceptDominanceThreshold: 0.5,
-}) as EngineSettings;
+export type SettingDomain =
+  | { readonly kind: 'choice'; readonly choices: readonly string[] }
+  | {
+      readonly kind: 'number';
+      readonly min: number;
+      readonly max: number;
+      readonly minOpen?: boolean;
+      readonly maxOpen?: boolean;
+      readonly integer?: boolean;
+    };
+
+/** The domain, default and source of one engine setting. */
+export interface EngineSettingRule<Value> {
+  readonly domain: SettingDomain;
+  readonly default: Value;
+  /** The published source of the default, or "house figure" (Paredown's own choice, docs/decisions/003). */
+  readonly source: string;
+}
+
+const share = (defaultValue: number, source: string, minOpen = false): EngineSettingRule<number> => ({
+  domain: { kind: 'number', min: 0, max: 1, ...(minOpen ? { minOpen: true } : {}) },
+  default: defaultValue,
+  source,
+});
+
+/**
+ * The engine's part of the audit settings table (src/lib/audit/settings-table.ts adds the words
+ * a reader sees): every setting's range, default and the source of the default, in the order the
+ * settings are stored and echoed. The house figures (maximum alpha drop 0.10, cut cap 25%, 8
+ * seconds per item, stability share 0.70, ...) are Paredown's own choices, stated in
+ * docs/decisions/003 and adjustable per audit.
+ */
+export const ENGINE_SETTING_RULES: { readonly [Key in keyof EngineSettings]: EngineSettingRule<EngineSettings[Key]> } = Object.freeze({
+  method: { domain: { kind: 'choice', choices: ['pearson', 'spearman', 'polychoric'] }, default: 'pearson', source: 'common practice (methods.md §1)' },
+  missing: { domain: { kind: 'choice', choices: ['pairwise', 'listwise'] }, default: 'pairwise', source: 'common practice (methods.md §1)' },
+  strongPairThreshold: share(0.8, 'house figure', true),
+  conditionIndexThreshold: { domain: { kind: 'number', min: 1, max: 1e6 }, default: 30, source: 'Belsley, Kuh & Welsch 1980, "Regression Diagnostics"' },
+  varianceProportionThreshold: share(0.5, 'Belsley, Kuh & Welsch 1980, "Regression Diagnostics"'),
+  dependencyVifThreshold: { domain: { kind: 'number', min: 1, max: 1e6 }, default: 5, source: 'methods.md §3 (VIF 5, "worth a look")' },
+  mergeCorrelation: share(0.95, 'house figure'),
+  mergeWordingSimilarity: share(0.8, 'house figure'),
+  rewordWordingSimilarity: share(0.3, 'house figure'),
+  minItemsPerScale: { domain: { kind: 'number', min: 1, max: 1_000, integer: true }, default: 3, source: 'house figure' },
+  alphaFloor: share(0.7, 'Nunnally 1978, "Psychometric Theory"'),
+  maxAlphaDrop: share(0.1, 'house figure'),
+  maxCutShare: share(0.25, 'house figure'),
+  secondsPerItem: { domain: { kind: 'number', min: 0, max: 3_600, minOpen: true }, default: 8, source: 'house figure' },
+  bootstrap: { domain: { kind: 'number', min: 0, max: 10_000, integer: true }, default: 200, source: 'house figure' },
+  seed: { domain: { kind: 'number', min: -(2 ** 31), max: 2 ** 31 - 1, integer: true }, default: 1, source: 'house figure' },
+  stabilityThreshold: share(0.7, 'house figure'),
+  confidenceLevel: { domain: { kind: 'number', min: 0, max: 1, minOpen: true, maxOpen: true }, default: 0.95, source: 'common practice (Fisher 1921, interval of r)' },
+  residualRelativeThreshold: share(0.2, 'Chen & Thissen 1997; Christensen, Makransky & Horton 2017 (relative residual rule)'),
+  residualStatistic: { domain: { kind: 'choice', choices: ['residual', 'q3'] }, default: 'residual', source: 'house figure (docs/decisions/010: fewer false alarms than q3 on generated waves)' },
+  residualBootstrapDraws: { domain: { kind: 'number', min: 0, max: 10_000, integer: true }, default: 200, source: 'house figure (the core residualBootstrap default)' },
+  residualCriticalQuantile: { domain: { kind: 'number', min: 0, max: 1, minOpen: true, maxOpen: true }, default: 0.99, source: 'Christensen, Makransky & Horton 2017 (95th and 99th percentiles tabulated)' },
+  residualAboutZeroShare: share(0.5, 'house figure'),
+  wtoThreshold: share(0.25, 'Christensen, Garrido & Golino 2023 (Unique Variable Analysis)'),
+  ebicGamma: share(0.5, 'Foygel & Drton 2010; qgraph::EBICglasso default'),
+  ebicPenaltyCount: { domain: { kind: 'number', min: 2, max: 1_000, integer: true }, default: 100, source: 'qgraph::EBICglasso default (nlambda)' },
+  interceptDominanceThreshold: share(0.5, 'Belsley, Kuh & Welsch 1980 (proportion rule applied to the intercept)'),
+});
+
+/** Names of the engine's settings, in their stored order. */
+export const ENGINE_SETTING_NAMES = Object.freeze(Object.keys(ENGINE_SETTING_RULES)) as readonly (keyof EngineSettings)[];
+
+/** The defaults, read from the rules above. */
+export const DEFAULT_ENGINE_SETTINGS: EngineSettings = Object.freeze(
+  Object.fromEntries(ENGINE_SETTING_NAMES.map((name) => [name, ENGINE_SETTING_RULES[name].default])),
+) as unknown as EngineSettings;
+
+/**
+ * The range of a domain in words, e.g. "a number above 0 and at most 1", "a whole number from 1
+ * to 1000", "pearson, spearman or polychoric".
+ * @param domain the setting's domain.
+ * @returns the phrase.
+ */
+export function domainWords(domain: SettingDomain): string {
+  if (domain.kind === 'choice') return `${domain.choices.slice(0, -1).join(', ')} or ${domain.choices[domain.choices.length - 1]}`;
+  const what = domain.integer ? 'a whole number' : 'a number';
+  if (!domain.minOpen && !domain.maxOpen) return `${what} from ${domain.min} to ${domain.max}`;
+  return `${what} ${domain.minOpen ? 'above' : 'at least'} ${domain.min} and ${domain.maxOpen ? 'below' : 'at most'} ${domain.max}`;
+}
+
+/**
+ * Whether a value lies in a domain.
+ * @param domain the setting's domain.
+ * @param value any value.
+ * @returns true when the value is one of the choices, or a finite number (whole when required) within the bounds.
+ */
+export function inDomain(domain: SettingDomain, value: unknown): boolean {
+  if (domain.kind === 'choice') return typeof value === 'string' && domain.choices.includes(value);
+  if (typeof value !== 'number' || !Number.isFinite(value)) return false;
+  if (domain.integer && !Number.isInteger(value)) return false;
+  if (domain.minOpen ? !(value > domain.min) : !(value >= domain.min)) return false;
+  return domain.maxOpen ? value < domain.max : value <= domain.max;
+}
+
+/**
+ * The one sentence that refuses a value outside its domain, or null when the value is fine.
+ * @param name the setting's name.
+ * @param domain its domain.
+ * @param value the value given.
+ * @returns e.g. `strongPairThreshold must be a number above 0 and at most 1, got 2`, or null.
+ */
+export function settingProblem(name: string, domain: SettingDomain, value: unknown): string | null {
+  if (inDomain(domain, value)) return null;
+  return `${name} must be ${domainWords(domain)}, got ${shownValue(value)}`;
+}
+
+/** A value as a refusal quotes it. */
+export function shownValue(value: unknown): string {
+  if (typeof value === 'string') return `"${value}"`;
+  if (typeof value === 'number') return String(value);
+  try {
+    return JSON.stringify(value) ?? String(value);
+  } catch {
+    return String(value);
+  }
+}
+
+/**
+ * The known name closest to a misspelt one (Levenshtein distance, case-insensitive), or null
+ * when none is near (more than a third of the letters differ).
+ * @param name the unknown name.
+ * @param known the names it may have meant.
+ * @returns the closest known name, or null.
+ * References: Levenshtein 1966, "Binary codes capable of correcting deletions, insertions, and reversals".
+ */
+export function closestName(name: string, known: readonly string[]): string | null {
+  let best: string | null = null;
+  let bestDistance = Infinity;
+  for (const candidate of known) {
+    const distance = editDistance(name.toLowerCase(), candidate.toLowerCase());
+    if (distance < bestDistance) {
+      best = candidate;
+      bestDistance = distance;
+    }
+  }
+  return best !== null && bestDistance <= Math.max(2, Math.ceil(name.length / 3)) ? best : null;
+}
+
+function editDistance(a: string, b: string): number {
+  let previous = Array.from({ length: b.length + 1 }, (_, j) => j);
+  for (let i = 1; i <= a.length; i += 1) {
+    const current = [i];
+    for (let j = 1; j <= b.length; j += 1) {
+      current[j] = Math.min(previous[j] + 1, current[j - 1] + 1, previous[j - 1] + (a[i - 1] === b[j - 1] ? 0 : 1));
+    }
+    previous = current;
+  }
+  return previous[b.length];
+}
+
+/**
+ * The sentence that refuses an unknown setting, naming the closest known one.
+ * @param name the unknown key.
+ * @param known the known names.
+ * @param what what the names are, e.g. "an audit setting".
+ * @returns e.g. `"strongPairThresold" is not an audit setting; did you mean "strongPairThreshold"?`
+ */
+export function unknownSettingSentence(name: string, known: readonly string[], what: string): string {
+  const near = closestName(name, known);
+  return `"${name}" is not ${what}; ${near === null ? `the settings are ${known.join(', ')}` : `did you mean "${near}"?`}`;
+}
 
 /** Bands of weighted topological overlap (Christensen, Garrido & Golino 2023): small-to-moderate from .20, moderate-to-large from .25, large from .30. Reported beside each pair. */
 export const WTO_BANDS = Object.freeze({ small: 0.2, moderate: 0.25, large: 0.3 });
@@ -142,53 +276,30 @@ export const KEEPER_SCORE_WEIGHTS = Object.freeze({
 export const KEEPER_SCORE_TIE = 1e-6;
 
 /**
- * Merges defaults with what the caller sets and checks every value.
+ * Merges defaults with what the caller sets and checks every value against its rule in
+ * `ENGINE_SETTING_RULES` (the same rules the audit's request schema is generated from).
  * @param overrides Any subset of the settings.
- * @throws {RangeError} naming the setting when a value is out of its range: thresholds and
- *   shares outside (0, 1], a condition index below 1, a negative or non-integer count, a
- *   non-positive answering time, an unknown method or missing policy.
- * @returns Complete, frozen settings.
+ * @throws {RangeError} naming the setting when a key is not an engine setting (with the closest
+ *   known name) or a value lies outside its domain (e.g. a threshold outside (0, 1], a
+ *   non-integer count, an unknown method).
+ * @returns Complete, frozen settings, keys in the order of `ENGINE_SETTING_RULES`.
  * References: Belsley, Kuh & Welsch 1980, "Regression Diagnostics" (condition index 30, proportion
  * 0.5); Nunnally 1978, "Psychometric Theory" (alpha 0.70).
  */
 export function resolveEngineSettings(overrides: Partial<EngineSettings> = {}): EngineSettings {
-  const settings: EngineSettings = { ...DEFAULT_ENGINE_SETTINGS, ...overrides };
   const fail = (condition: string): never => {
     throw new RangeError(`resolveEngineSettings: ${condition}`);
   };
-  if (!['pearson', 'spearman', 'polychoric'].includes(settings.method)) fail(`method must be pearson, spearman or polychoric, got ${String(settings.method)}`);
-  if (!['pairwise', 'listwise'].includes(settings.missing)) fail(`missing must be pairwise or listwise, got ${String(settings.missing)}`);
-  const shares: (keyof EngineSettings)[] = [
-    'strongPairThreshold',
-    'varianceProportionThreshold',
-    'mergeCorrelation',
-    'mergeWordingSimilarity',
-    'rewordWordingSimilarity',
-    'alphaFloor',
-    'maxAlphaDrop',
-    'maxCutShare',
-    'stabilityThreshold',
-    'residualRelativeThreshold',
-    'residualAboutZeroShare',
-    'wtoThreshold',
-    'interceptDominanceThreshold',
-  ];
-  for (const key of shares) {
-    const value = settings[key] as number;
-    if (!(typeof value === 'number' && value >= 0 && value <= 1)) fail(`${key} must be a number in [0, 1], got ${String(value)}`);
+  for (const key of Object.keys(overrides)) {
+    if (!Object.hasOwn(ENGINE_SETTING_RULES, key)) fail(unknownSettingSentence(key, ENGINE_SETTING_NAMES, 'an engine setting'));
   }
-  if (!(settings.strongPairThreshold > 0)) fail('strongPairThreshold must be above 0');
-  if (!(settings.conditionIndexThreshold >= 1 && Number.isFinite(settings.conditionIndexThreshold))) fail(`conditionIndexThreshold must be a finite number >= 1, got ${settings.conditionIndexThreshold}`);
-  if (!(settings.dependencyVifThreshold >= 1 && Number.isFinite(settings.dependencyVifThreshold))) fail(`dependencyVifThreshold must be a finite number >= 1, got ${settings.dependencyVifThreshold}`);
-  if (!(settings.confidenceLevel > 0 && settings.confidenceLevel < 1)) fail(`confidenceLevel must lie in (0, 1), got ${settings.confidenceLevel}`);
-  if (!(Number.isInteger(settings.minItemsPerScale) && settings.minItemsPerScale >= 1)) fail(`minItemsPerScale must be an integer >= 1, got ${settings.minItemsPerScale}`);
-  if (!(Number.isInteger(settings.bootstrap) && settings.bootstrap >= 0)) fail(`bootstrap must be an integer >= 0, got ${settings.bootstrap}`);
-  if (!Number.isInteger(settings.seed)) fail(`seed must be an integer, got ${settings.seed}`);
-  if (settings.residualStatistic !== 'residual' && settings.residualStatistic !== 'q3') fail(`residualStatistic must be residual or q3, got ${String(settings.residualStatistic)}`);
-  if (!(Number.isInteger(settings.residualBootstrapDraws) && settings.residualBootstrapDraws >= 0)) fail(`residualBootstrapDraws must be an integer >= 0, got ${settings.residualBootstrapDraws}`);
-  if (!(settings.residualCriticalQuantile > 0 && settings.residualCriticalQuantile < 1)) fail(`residualCriticalQuantile must lie in (0, 1), got ${settings.residualCriticalQuantile}`);
-  if (!(Number.isInteger(settings.ebicPenaltyCount) && settings.ebicPenaltyCount >= 2)) fail(`ebicPenaltyCount must be an integer >= 2, got ${settings.ebicPenaltyCount}`);
-  if (!(settings.ebicGamma >= 0 && settings.ebicGamma <= 1)) fail(`ebicGamma must lie in [0, 1], got ${settings.ebicGamma}`);
-  if (!(settings.secondsPerItem > 0 && Number.isFinite(settings.secondsPerItem))) fail(`secondsPerItem must be a positive number, got ${settings.secondsPerItem}`);
-  return Object.freeze(settings);
+  const settings: Record<string, unknown> = {};
+  for (const name of ENGINE_SETTING_NAMES) {
+    const given = (overrides as Record<string, unknown>)[name];
+    const value = given === undefined ? ENGINE_SETTING_RULES[name].default : given;
+    const problem = settingProblem(name, ENGINE_SETTING_RULES[name].domain, value);
+    if (problem !== null) fail(problem);
+    settings[name] = value;
+  }
+  return Object.freeze(settings) as unknown as EngineSettings;
 }

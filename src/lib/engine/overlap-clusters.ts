@@ -29,6 +29,7 @@
  * exact dependencies, and the wording similarity of every pair.
  */
 import { fisherZInterval } from '../stats/fisher-z-interval';
+import { waldCorrelationInterval } from '../stats/wald-correlation-interval';
 import { WTO_BANDS, type EngineSettings } from './engine-settings';
 import type { DependencyEvidence, EngineEvidence, EngineWarning, OverlapCluster, PairEvidence, PairRule, ScaleResidualEvidence } from './types';
 
@@ -168,6 +169,20 @@ export function pairEvidence(
   const order = evidence.correlation.order;
   const r = evidence.correlation.data[i * order + j];
   const n = evidence.pairN.data[i * order + j];
+  const standardErrors = evidence.pairStandardErrors ?? null;
+  if (standardErrors !== null) {
+    // Polychoric: the estimator's own standard error; Fisher's 1/sqrt(n − 3) is a Pearson result.
+    const se = standardErrors.data[i * order + j];
+    const wald = Math.abs(r) < 1 && se > 0 && Number.isFinite(se) ? waldCorrelationInterval(r, se, confidenceLevel) : null;
+    return {
+      a: Math.min(a, b), b: Math.max(a, b), r, n,
+      lower: wald === null ? null : wald.lower,
+      upper: wald === null ? null : wald.upper,
+      interval: 'estimator-se',
+      se: Number.isFinite(se) ? se : null,
+      wording: wording[a]?.[b] ?? null,
+    };
+  }
   const interval = n > 3 && Math.abs(r) < 1 ? fisherZInterval(r, n, confidenceLevel) : null;
   return {
     a: Math.min(a, b),
@@ -176,6 +191,7 @@ export function pairEvidence(
     n,
     lower: interval === null ? null : interval.lower,
     upper: interval === null ? null : interval.upper,
+    interval: 'fisher-z',
     wording: wording[a]?.[b] ?? null,
   };
 }

@@ -79,17 +79,20 @@ export interface PairReport {
   readonly n: number;
   readonly lower: number | null;
   readonly upper: number | null;
+  /** Which interval: `fisher-z` (Pearson, Spearman) or `estimator-se` (polychoric: its likelihood's SE). */
+  readonly interval?: 'fisher-z' | 'estimator-se';
+  readonly se?: number | null;
   readonly wording: number | null;
   /** Residual correlation after the scale's one-factor model (null across scales or in scales of fewer than four items). */
-  readonly residual: number | null;
+  readonly residual?: number | null;
   /** Residual minus the scale's mean residual. */
-  readonly relativeResidual: number | null;
+  readonly relativeResidual?: number | null;
   /** The scale's critical value of the relative residual (null: the fixed rule applied, or no residual). */
-  readonly residualCritical: number | null;
-  readonly wto: number | null;
-  readonly partial: number | null;
+  readonly residualCritical?: number | null;
+  readonly wto?: number | null;
+  readonly partial?: number | null;
   /** Rules that fired for the pair. */
-  readonly rules: readonly PairRule[];
+  readonly rules?: readonly PairRule[];
 }
 
 /** A near-dependency with item ids, for the audit JSON. */
@@ -141,6 +144,58 @@ export interface RecommendationEvidence {
   readonly links: readonly PairReport[];
 }
 
+/**
+ * Why a recommendation says what it says, as data: the overlap it rests on, the keeper, what
+ * happens to the other members and what blocked a change. src/lib/words/reasons.ts turns it into
+ * the sentence a reader sees (audit-json `reason`); the audit JSON carries it as `because`.
+ */
+export interface CutReason {
+  /**
+   * `strong-pair`: a cluster of two items joined by a strong pair; `overlap`: more items around
+   * their strongest pair; `dependency`: no strong pair, a near (or exact) linear dependency.
+   */
+  readonly code: 'strong-pair' | 'overlap' | 'dependency';
+  /** The cluster's items, in items[] order. */
+  readonly items: readonly string[];
+  /** The strongest pair (null for `dependency`). */
+  readonly pair: PairReport | null;
+  /** Coverage of the pair's interval (the settings' confidence level). */
+  readonly confidenceLevel: number;
+  /** The cluster's condition index; null without diagnostics or for an exact dependency. */
+  readonly conditionIndex: number | null;
+  readonly keep: string;
+  /** The keeper is kept because it is locked (else: best keeper score). */
+  readonly keeperLocked: boolean;
+  readonly merge: readonly string[];
+  readonly drop: readonly string[];
+  readonly reword: readonly string[];
+  /** Items that stay because a constraint blocked the change, with the constraints. */
+  readonly blocked: readonly { readonly item: string; readonly by: readonly ConstraintName[] }[];
+  /** The cluster's highest VIF before and after this recommendation's drops and merges. */
+  readonly vifBefore: number | null;
+  readonly vifAfter: number | null;
+}
+
+/**
+ * A caution shown beside a recommendation, as data (src/lib/words/cautions.ts words it):
+ * overlap is not proof; the pilot sample is small (smallest pair n); validated instruments; and,
+ * after the bootstrap, an unstable choice (the overlap recurs, the keeper does not) or an
+ * unstable recommendation.
+ */
+export type Caution =
+  | { readonly code: 'overlap-not-proof' }
+  | { readonly code: 'small-sample'; readonly smallestN: number }
+  | { readonly code: 'validated-instrument' }
+  | {
+      readonly code: 'unstable-choice' | 'unstable';
+      /** Share of resamples making the same recommendation. */
+      readonly share: number;
+      /** Share of resamples finding the cluster's items together again. */
+      readonly overlapShare: number;
+      readonly resamples: number;
+      readonly threshold: number;
+    };
+
 /** One recommendation (audit-json `recommendations[]`, with keys added). */
 export interface Recommendation {
   readonly cluster: readonly string[];
@@ -154,10 +209,10 @@ export interface Recommendation {
   readonly unstable: boolean | null;
   /** Share of bootstrap resamples that find the cluster's items together again (any keeper); null when not measured. */
   readonly overlapStability: number | null;
-  /** One sentence a client reviewer can read. */
-  readonly reason: string;
-  /** Cautions shown beside the recommendation. */
-  readonly cautions: readonly string[];
+  /** Why, as data (worded by src/lib/words). */
+  readonly because: CutReason;
+  /** Cautions shown beside the recommendation, as data (worded by src/lib/words). */
+  readonly cautions: readonly Caution[];
 }
 
 /** The constrained cut list. */
@@ -395,7 +450,7 @@ function decideCluster(
     stability: null,
     unstable: null,
     overlapStability: null,
-    reason: reasonSentence(evidence, cluster, keeper, actions, evidenceOut, settings),
+    because: cutReason(evidence, cluster, keeper, actions, evidenceOut, settings),
     cautions: standardCautions(cluster),
   };
 }
@@ -470,6 +525,8 @@ export function pairReport(evidence: EngineEvidence, pair: PairEvidence): PairRe
     n: pair.n,
     lower: pair.lower,
     upper: pair.upper,
+    ...(pair.interval ? { interval: pair.interval } : {}),
+    ...(pair.interval === 'estimator-se' ? { se: pair.se ?? null } : {}),
     wording: pair.wording,
     residual: pair.residual ?? null,
     relativeResidual: pair.relativeResidual ?? null,
@@ -501,94 +558,38 @@ export function dependencyReport(evidence: EngineEvidence, dependency: Dependenc
 /** Rules in the order they are reported. */
 const PAIR_RULE_ORDER: readonly PairRule[] = Object.freeze(['exact', 'near-dependency', 'strong-pair', 'local-dependence-residual', 'local-dependence-wto']);
 
-/** Words for each rule in the reason sentence. */
-const RULE_WORDS: Readonly<Record<PairRule, string>> = Object.freeze({
-  exact: 'exact dependency',
-  'near-dependency': 'near-dependency (condition index)',
-  'strong-pair': 'strong correlation',
-  'local-dependence-residual': 'residual correlation beyond the scale factor',
-  'local-dependence-wto': 'topological overlap in the partial-correlation network',
-});
-
-/** "A", "A and B", "A, B and C". */
-function listOf(names: readonly string[]): string {
-  if (names.length <= 1) return names.join('');
-  return `${names.slice(0, -1).join(', ')} and ${names[names.length - 1]}`;
-}
-
-const CONSTRAINT_WORDS: Readonly<Record<ConstraintName, string>> = Object.freeze({
-  locked: 'it is locked',
-  'min-items': 'its scale would fall below the minimum number of items',
-  'alpha-floor': "a scale's alpha would fall below the floor",
-  'max-alpha-drop': "a scale's alpha would drop by more than the allowed amount",
-  'cut-cap': 'the cap on the share of items cut is reached',
-});
-
-/** The one sentence a client reviewer reads. */
-function reasonSentence(
+/** The structured reason of one recommendation (worded by src/lib/words/reasons.ts). */
+function cutReason(
   evidence: EngineEvidence,
   cluster: OverlapCluster,
   keeper: number,
   actions: readonly RecommendedAction[],
   summary: RecommendationEvidence,
   settings: RecommendSettings,
-): string {
-  const name = (index: number): string => evidence.items[index].id;
-  const percent = Math.round(settings.confidenceLevel * 100);
+): CutReason {
   const strongest = cluster.strongPairs[0] ?? null;
-  const describePair = (pair: PairEvidence): string =>
-    `r = ${pair.r.toFixed(2)}` +
-    (pair.lower !== null && pair.upper !== null ? `, ${percent}% interval ${pair.lower.toFixed(2)} to ${pair.upper.toFixed(2)}` : '') +
-    `, n = ${pair.n}`;
-
-  let overlap: string;
-  if (strongest !== null && cluster.items.length === 2) {
-    overlap = `${name(strongest.a)} and ${name(strongest.b)} correlate strongly (${describePair(strongest)})`;
-  } else if (strongest !== null) {
-    overlap = `${listOf(cluster.items.map(name))} overlap (strongest pair ${name(strongest.a)}-${name(strongest.b)}, ${describePair(strongest)})`;
-  } else if (summary.nearDependency) {
-    const index = summary.conditionIndex === null ? 'an exact dependency' : `condition index ${summary.conditionIndex.toFixed(0)}`;
-    overlap = `${listOf(cluster.items.map(name))} are nearly linearly dependent (${index})`;
-  } else {
-    const link = [...cluster.links].sort((p, q) => (q.relativeResidual ?? -Infinity) - (p.relativeResidual ?? -Infinity))[0];
-    const figures = [
-      `r = ${link.r.toFixed(2)}`,
-      link.residual === null || link.residual === undefined ? null : `residual correlation ${link.residual.toFixed(2)}`,
-      link.wto === null || link.wto === undefined ? null : `wTO ${link.wto.toFixed(2)}`,
-    ].filter((part): part is string => part !== null);
-    overlap = `${listOf(cluster.items.map(name))} share variance beyond their scale's common factor (${name(link.a)}-${name(link.b)}: ${figures.join(', ')})`;
-  }
-
-  const changed = actions.filter((action) => action.action !== 'keep');
-  const blocked = actions.filter((action) => action.action === 'keep' && action.blockedBy.length > 0);
-  const keeperId = name(keeper);
-  const keeperWhy = evidence.items[keeper].locked ? ' (locked)' : ' (best keeper score)';
-  const verbs: string[] = [];
-  const merged = changed.filter((action) => action.action === 'merge').map((action) => action.item);
-  const dropped = changed.filter((action) => action.action === 'drop').map((action) => action.item);
-  const reworded = changed.filter((action) => action.action === 'reword').map((action) => action.item);
-  if (merged.length > 0) verbs.push(`merge ${listOf(merged)} into it`);
-  if (dropped.length > 0) verbs.push(`drop ${listOf(dropped)}`);
-  if (reworded.length > 0) verbs.push(`reword ${listOf(reworded)} so that it asks something ${keeperId} does not`);
-
-  const blockers = blocked.map((action) => `${action.item} stays because ${action.blockedBy.map((constraint) => CONSTRAINT_WORDS[constraint]).join(' and ')}`);
-  if (summary.rules.length > 0) overlap += ` [evidence: ${listOf(summary.rules.map((rule) => RULE_WORDS[rule]))}]`;
-  if (verbs.length === 0) {
-    return `${overlap}; no change is proposed${blockers.length > 0 ? `: ${blockers.join('; ')}` : ''}.`;
-  }
-  let decision = `keep ${keeperId}${keeperWhy} and ${listOf(verbs)}`;
-  if (summary.vifBefore !== null && summary.vifAfter !== null && summary.vifAfter < summary.vifBefore) {
-    decision += `, which lowers the cluster's highest VIF from ${summary.vifBefore.toFixed(1)} to ${summary.vifAfter.toFixed(1)}`;
-  }
-  return `${overlap}; ${decision}${blockers.length > 0 ? `; ${blockers.join('; ')}` : ''}.`;
+  const changed = (kind: ChangeAction): string[] => actions.filter((action) => action.action === kind).map((action) => action.item);
+  return {
+    code: strongest === null ? 'dependency' : cluster.items.length === 2 ? 'strong-pair' : 'overlap',
+    items: cluster.items.map((index) => evidence.items[index].id),
+    pair: strongest === null ? null : pairReport(evidence, strongest),
+    confidenceLevel: settings.confidenceLevel,
+    conditionIndex: summary.conditionIndex,
+    keep: evidence.items[keeper].id,
+    keeperLocked: evidence.items[keeper].locked,
+    merge: changed('merge'),
+    drop: changed('drop'),
+    reword: changed('reword'),
+    blocked: actions
+      .filter((action) => action.action === 'keep' && action.blockedBy.length > 0)
+      .map((action) => ({ item: action.item, by: [...action.blockedBy] })),
+    vifBefore: summary.vifBefore,
+    vifAfter: summary.vifAfter,
+  };
 }
 
-/** The cautions shown beside every recommendation. */
-function standardCautions(cluster: OverlapCluster): string[] {
+/** The cautions every recommendation carries. */
+function standardCautions(cluster: OverlapCluster): Caution[] {
   const smallestN = Math.min(...cluster.pairs.map((pair) => pair.n));
-  return [
-    'Statistical overlap is evidence, not proof, that these items ask the same thing: read the wording before deciding.',
-    `Pilot samples are small (the smallest pair here rests on ${smallestN} respondents): weigh the interval and the stability share.`,
-    'Items from a published, validated instrument must not be shortened or reworded without re-validation and the rights holder\'s permission.',
-  ];
+  return [{ code: 'overlap-not-proof' }, { code: 'small-sample', smallestN }, { code: 'validated-instrument' }];
 }

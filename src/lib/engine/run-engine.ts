@@ -8,7 +8,7 @@ import { bootstrapStability, type EngineProgress } from './bootstrap-stability';
 import { resolveEngineSettings, type EngineSettings } from './engine-settings';
 import { findOverlapClusters, pairEvidence, pairLocalFigures } from './overlap-clusters';
 import { localDependenceReuse } from './local-dependence';
-import { dependencyReport, pairReport, recommendCuts, type DependencyReport, type PairReport, type Recommendation } from './recommend-cuts';
+import { dependencyReport, pairReport, recommendCuts, type DependencyReport, type PairReport, type Caution, type Recommendation } from './recommend-cuts';
 import { scaleAlphaOracle } from './compute-evidence';
 import { simulateCut, type AfterCut } from './simulate-cut';
 import type { EngineEvidence, EngineItem, EngineWarning } from './types';
@@ -118,14 +118,10 @@ export async function runEngine(
       const share = stability.shares[k];
       const overlapShare = stability.overlapShares[k];
       const unstable = stability.unstable[k];
-      const percent = (value: number): string => `${Math.round(value * 100)}%`;
-      let caution: string | null = null;
-      if (unstable && overlapShare >= resolved.stabilityThreshold) {
-        caution =
-          `Unstable choice: the overlap recurs in ${percent(overlapShare)} of ${stability.resamples} bootstrap resamples, but the same keeper and cut in only ${percent(share)} ` +
-          `(threshold ${percent(resolved.stabilityThreshold)}); the items are statistically interchangeable, so choose the one to keep by its wording.`;
-      } else if (unstable) {
-        caution = `Unstable: only ${percent(share)} of ${stability.resamples} bootstrap resamples make this same recommendation, and only ${percent(overlapShare)} find this overlap at all (threshold ${percent(resolved.stabilityThreshold)}).`;
+      let caution: Caution | null = null;
+      if (unstable) {
+        const code = overlapShare >= resolved.stabilityThreshold ? 'unstable-choice' : 'unstable';
+        caution = { code, share, overlapShare, resamples: stability.resamples, threshold: resolved.stabilityThreshold };
       }
       const cautions = caution === null ? recommendation.cautions : [...recommendation.cautions, caution];
       return { ...recommendation, stability: share, unstable, overlapStability: overlapShare, cautions };

@@ -88,6 +88,13 @@ export interface EngineEvidence {
   readonly correlation: SquareMatrix;
   /** Respondents behind each correlation (order `usable.length`). */
   readonly pairN: SquareMatrix;
+  /**
+   * Polychoric only: each r's standard error from its own estimator (two-step likelihood, Olsson
+   * 1979), NaN where none exists; absent or null for Pearson and Spearman (Fisher's z applies).
+   */
+  readonly pairStandardErrors?: SquareMatrix | null;
+  /** Polychoric only: each usable item's thresholds (normal quantiles of its cumulative proportions). */
+  readonly thresholds?: readonly (readonly number[])[] | null;
   /** Respondents behind the correlation matrix: complete rows (listwise) or rows with any answer (pairwise). */
   readonly correlationRows: number;
   /** The correlation matrix was repaired to positive semi-definiteness. */
@@ -161,9 +168,17 @@ export interface PairEvidence {
   readonly r: number;
   /** Respondents behind r. */
   readonly n: number;
-  /** Fisher-z interval at the settings' confidence level; null when n <= 3 or |r| = 1. */
+  /**
+   * Interval at the settings' confidence level: Fisher's z for Pearson and Spearman, the Wald
+   * interval from the polychoric estimator's own standard error (on the z scale) for polychoric;
+   * null when n <= 3, |r| = 1 or no standard error exists.
+   */
   readonly lower: number | null;
   readonly upper: number | null;
+  /** Which interval: `fisher-z` (1/sqrt(n − 3)) or `estimator-se` (the polychoric likelihood's SE). */
+  readonly interval?: 'fisher-z' | 'estimator-se';
+  /** The estimator's standard error behind an `estimator-se` interval. */
+  readonly se?: number | null;
   /** Wording similarity of the two items, null when either wording is unknown. */
   readonly wording: number | null;
   /** Residual correlation after their scale's one-factor model; null across scales or in scales of fewer than four items. */

@@ -9,7 +9,7 @@ import { parseDuration } from './parse-duration';
 import { parseNumber } from './parse-number';
 import { recodeItem } from './recode-item';
 import type { BuiltWave, ColumnSetup, ItemCounts, WaveItem, WaveOutcome, WaveTable, WaveWarning } from './types';
-import { validateSetup } from './validate-setup';
+import type { CheckedSetup } from './validate-setup';
 import { WaveRefusal } from './wave-refusal';
 
 function list(values: readonly string[], most = 5): string {
@@ -109,13 +109,83 @@ export function includedRows(wave: Pick<BuiltWave, 'respondents' | 'excluded'>):
   return rows;
 }
 
+/** Build warnings that depend on which respondents are excluded (recomputed when the exclusions change). */
+export const EXCLUSION_WARNING_CODES: readonly string[] = Object.freeze(['constant-item', 'more-items-than-respondents', 'too-few-respondents']);
+const exclusionCodes = new Set(EXCLUSION_WARNING_CODES);
+/** Build warnings written after `constant-item`, which therefore goes in front of them. */
+const afterConstant = new Set(['identical-items', 'missing-code-inside-range']);
+
+/** What {@link applyExclusions} needs of a wave: a built one, or one read back from its stored matrix. */
+export interface ExcludableWave {
+  /** The recoded matrix, every respondent included. */
+  readonly matrix: ItemMatrix;
+  /** The items in matrix order. */
+  readonly items: readonly Pick<WaveItem, 'id' | 'header'>[];
+  /** The wave's build warnings (those of EXCLUSION_WARNING_CODES are replaced). */
+  readonly warnings: readonly WaveWarning[];
+}
+
+/** The exclusions of a wave and the build warnings under them. */
+export interface WaveExclusions {
+  /** 0-based rows left out of audits, sorted, without repeats. */
+  readonly excluded: number[];
+  readonly warnings: WaveWarning[];
+}
+
 /**
- * Builds a wave from a table and its confirmed setup.
+ * Leaves respondents out of a wave's audits: checks the rows against the matrix, then works out
+ * again the warnings that depend on who is included (constant items, more items than respondents,
+ * too few respondents), keeping every other warning and the order buildWave writes them in.
+ * Needs only the recoded matrix, so a stored wave's exclusions change without its original file.
+ * @param wave the matrix, its items and the current build warnings.
+ * @param exclusions 0-based respondent rows (untrusted).
+ * @throws {WaveRefusal} 400 `invalid-exclusions` when a row is not a whole number in range.
+ * @throws {RangeError} when the matrix does not have one column per item (an internal fault).
+ * @returns the checked exclusions and the warnings.
+ * References: Paredown product.md (excluded respondents stay in the stored wave and leave audits); methods.md §1.
+ */
+export function applyExclusions(wave: ExcludableWave, exclusions: readonly unknown[]): WaveExclusions {
+  const { matrix, items } = wave;
+  if (matrix.columns !== items.length) throw new RangeError(`applyExclusions: the matrix has ${matrix.columns} columns for ${items.length} items`);
+  const n = matrix.rows;
+  const excluded = checkExclusions(exclusions, n);
+  const included = includedRows({ respondents: n, excluded });
+  const warnings = wave.warnings.filter((warning) => !exclusionCodes.has(warning.code));
+  const constant: string[] = [];
+  items.forEach((item, k) => {
+    const values = new Set<number>();
+    for (const i of included) {
+      const value = matrix.data[k * n + i];
+      if (!Number.isNaN(value)) values.add(value);
+      if (values.size > 1) break;
+    }
+    if (values.size < 2) constant.push(item.id);
+  });
+  if (constant.length > 0) {
+    const at = warnings.findIndex((warning) => afterConstant.has(warning.code));
+    warnings.splice(at < 0 ? warnings.length : at, 0, {
+      code: 'constant-item',
+      columns: items.filter((item) => constant.includes(item.id)).map((item) => item.header),
+      message: `${constant.length} ${constant.length === 1 ? 'item has' : 'items have'} fewer than two different answers (${list(constant)}) and will be left out of correlations.`,
+    });
+  }
+  if (items.length > included.length) {
+    warnings.push({ code: 'more-items-than-respondents', columns: [], message: `There are ${items.length} items but only ${included.length} ${included.length === 1 ? 'respondent' : 'respondents'}, so the correlation matrix is singular and VIF cannot be computed; collect more responses or audit fewer items.` });
+  }
+  if (included.length < MIN_RESPONDENTS_FOR_AUDIT) {
+    warnings.push({ code: 'too-few-respondents', columns: [], message: `Only ${included.length} ${included.length === 1 ? 'respondent is' : 'respondents are'} included; an audit needs at least ${MIN_RESPONDENTS_FOR_AUDIT}.` });
+  }
+  return { excluded, warnings };
+}
+
+/**
+ * Builds a wave from a table and its confirmed setup. The setup was checked once by
+ * `validateSetup` (its type says so); the exclusions are checked here, once (applyExclusions).
+ * Callers outside the ingest usually go through `acceptWave` (accept-wave.ts).
  * @param table a table from `readTable`.
- * @param setup the confirmed setup (untrusted JSON is fine: it is validated).
+ * @param setup the confirmed setup, as `validateSetup` returned it for this table.
  * @param exclusions 0-based respondent rows to leave out of audits (kept in the wave).
- * @throws {WaveRefusal} 422 `no-respondents` for a table without answers; 400 for an invalid
- *   setup (see `validateSetup`) or `invalid-exclusions`.
+ * @throws {WaveRefusal} 422 `no-respondents` for a table without answers; 400 `invalid-exclusions`.
  * @returns the wave: items with their setup and cell counts; `matrix` recoded (missing codes,
  *   out-of-range and unreadable cells NaN, reverse-keyed items `min + max − x`); `raw` before
  *   recoding; ids, durations in seconds, weights, outcomes; warnings `out-of-range-values`,
@@ -124,13 +194,12 @@ export function includedRows(wave: Pick<BuiltWave, 'respondents' | 'excluded'>):
  *   `weight-unreadable`, `more-items-than-respondents`, `too-few-respondents`.
  * References: Paredown methods.md §1 "Preparing the response matrix".
  */
-export function buildWave(table: WaveTable, setup: unknown, exclusions: readonly number[] = []): BuiltWave {
+export function buildWave(table: WaveTable, setup: CheckedSetup, exclusions: readonly unknown[] = []): BuiltWave {
   const n = table.rows.length;
   if (n === 0) {
     throw new WaveRefusal(422, 'no-respondents', `"${table.source.fileName}" has a header row but no answers; upload the export with the responses.`);
   }
-  const confirmed = validateSetup(table, setup);
-  const excluded = checkExclusions(exclusions, n);
+  const confirmed = setup;
   const decimalSeparator = table.source.decimalSeparator;
   const setupOf = new Map<string, ColumnSetup>(confirmed.columns.map((entry) => [entry.column, entry]));
   const column = (j: number) => table.rows.map((row) => row[j]);
@@ -150,6 +219,7 @@ export function buildWave(table: WaveTable, setup: unknown, exclusions: readonly
     return {
       id: item.id, header, scale: item.scale, reverse: item.reverse, min: item.min, max: item.max,
       missingCodes: [...item.missingCodes], text: item.text, labels: [...item.labels], missingLabels: [...item.missingLabels],
+      ...(item.type ? { type: item.type } : {}),
       counts: read.counts,
     };
   });
@@ -214,20 +284,6 @@ export function buildWave(table: WaveTable, setup: unknown, exclusions: readonly
   ];
   for (const warning of counted) if (warning) warnings.push(warning);
 
-  const included = includedRows({ respondents: n, excluded });
-  const constant: string[] = [];
-  items.forEach((item, k) => {
-    const values = new Set<number>();
-    for (const i of included) {
-      const value = recodedData[k * n + i];
-      if (!Number.isNaN(value)) values.add(value);
-      if (values.size > 1) break;
-    }
-    if (values.size < 2) constant.push(item.id);
-  });
-  if (constant.length > 0) {
-    warnings.push({ code: 'constant-item', columns: items.filter((item) => constant.includes(item.id)).map((item) => item.header), message: `${constant.length} ${constant.length === 1 ? 'item has' : 'items have'} fewer than two different answers (${list(constant)}) and will be left out of correlations.` });
-  }
   const identical = identicalGroups(matrix).map((group) => group.map((k) => items[k].id).join(' = '));
   if (identical.length > 0) {
     warnings.push({ code: 'identical-items', columns: [], message: `${identical.length} ${identical.length === 1 ? 'group of items holds' : 'groups of items hold'} identical answers (${list(identical)}); all but one of each group may be copied columns.` });
@@ -236,11 +292,7 @@ export function buildWave(table: WaveTable, setup: unknown, exclusions: readonly
   if (codesInside.length > 0) {
     warnings.push({ code: 'missing-code-inside-range', columns: codesInside.map((item) => item.header), message: `${codesInside.length} ${codesInside.length === 1 ? 'item has' : 'items have'} a missing code inside the valid range (${list(codesInside.map((item) => item.id))}), so real answers with that code count as missing; check the codebook.` });
   }
-  if (items.length > included.length) {
-    warnings.push({ code: 'more-items-than-respondents', columns: [], message: `There are ${items.length} items but only ${included.length} ${included.length === 1 ? 'respondent' : 'respondents'}, so the correlation matrix is singular and VIF cannot be computed; collect more responses or audit fewer items.` });
-  }
-  if (included.length < MIN_RESPONDENTS_FOR_AUDIT) {
-    warnings.push({ code: 'too-few-respondents', columns: [], message: `Only ${included.length} ${included.length === 1 ? 'respondent is' : 'respondents are'} included; an audit needs at least ${MIN_RESPONDENTS_FOR_AUDIT}.` });
-  }
-  return { respondents: n, items, matrix, raw, respondentIds, duration, weight, outcomes, excluded, warnings };
+  // constant-item, more-items-than-respondents and too-few-respondents depend on the exclusions.
+  const { excluded, warnings: all } = applyExclusions({ matrix, items, warnings }, exclusions);
+  return { respondents: n, items, matrix, raw, respondentIds, duration, weight, outcomes, excluded, warnings: all };
 }

@@ -6,7 +6,7 @@
  */
 
 /** Canonical codebook column names. */
-export type CodebookColumn = 'item' | 'scale' | 'reverse' | 'min' | 'max' | 'missing' | 'text' | 'labels';
+export type CodebookColumn = 'item' | 'scale' | 'reverse' | 'min' | 'max' | 'missing' | 'text' | 'labels' | 'type';
 
 const ALIASES: Readonly<Record<CodebookColumn, readonly string[]>> = {
   item: ['item', 'itemid', 'variable', 'variablename', 'varname', 'column', 'columnname', 'name', 'field'],
@@ -17,6 +17,7 @@ const ALIASES: Readonly<Record<CodebookColumn, readonly string[]>> = {
   missing: ['missing', 'missingcodes', 'missingvalues', 'missings', 'na', 'nacodes'],
   text: ['text', 'wording', 'question', 'questiontext', 'itemtext', 'label', 'description'],
   labels: ['labels', 'valuelabels', 'values', 'answerlabels', 'codes', 'responseoptions', 'options'],
+  type: ['type', 'itemtype', 'responsetype', 'itemkind', 'kind'],
 };
 
 /**

@@ -12,6 +12,8 @@ const PHONE = /^\+?[\d\s().\-/]{7,24}$/;
 const PERSON_NAME = /^\p{Lu}[\p{L}'’-]+(?:\s+(?:\p{Lu}[\p{L}'’.-]*|van|von|de|der|den|da|di|le|la|du))*\s+\p{Lu}[\p{L}'’-]+$/u;
 const DATE_LIKE = /^(\d{4}[-/.]\d{1,2}[-/.]\d{1,2}|\d{1,2}[-/.]\d{1,2}[-/.]\d{2,4})$/;
 const IPV4 = /^(?:\d{1,3}\.){3}\d{1,3}$/;
+/** A plain decimal number: digits, one decimal point or comma, digits (`3.3333333`, `0,1428571`). */
+const PLAIN_DECIMAL = /^-?\d+[.,]\d+$/;
 
 /** Header words (lower case) that name personal data, with what the column holds. */
 const PERSONAL_HEADER_WORDS: readonly [RegExp, string][] = [
@@ -33,14 +35,16 @@ function digitsIn(text: string): number {
 /**
  * Whether a cell looks like a phone number: 7 to 15 digits written with a leading `+` or `0`,
  * or grouped by spaces, dashes, dots or brackets. A plain run of digits without a leading zero
- * is not enough (it may be an id), and a date (1990-01-01, 01.02.1990) is not one.
+ * is not enough (it may be an id), and a date (1990-01-01, 01.02.1990) is not one. Nor is a plain
+ * decimal number with one separator (`3.3333333`, `0.1428571`), as statistics programs and
+ * spreadsheets write scale scores and sliders: phone numbers grouped by dots have two or more groups.
  * @param cell cell text.
  * @returns true for phone-looking text.
  * References: ITU-T 2010, Recommendation E.164 "The international public telecommunication numbering plan" (at most 15 digits).
  */
 export function looksLikePhoneNumber(cell: string): boolean {
   const text = cell.trim();
-  if (!PHONE.test(text) || DATE_LIKE.test(text)) return false;
+  if (!PHONE.test(text) || DATE_LIKE.test(text) || PLAIN_DECIMAL.test(text)) return false;
   const digits = digitsIn(text);
   if (digits < 7 || digits > 15) return false;
   return text.startsWith('+') || text.startsWith('0') || /\d[\s().\-/]+\d/.test(text);

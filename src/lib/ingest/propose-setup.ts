@@ -12,7 +12,7 @@ import { looksLikeTimeText, parseDuration } from './parse-duration';
 import { findPersonalData, sampleCells } from './personal-data';
 import { recodeItem } from './recode-item';
 import type {
-  Codebook, CodebookEntry, ColumnProposal, ColumnRole, DurationUnit, ItemSetup, LabelSource, ProposedSetup, ValueLabel, WaveTable, WaveWarning,
+  Codebook, CodebookEntry, ColumnProposal, ColumnRole, DurationUnit, ItemSetup, ItemType, LabelSource, ProposedSetup, ValueLabel, WaveSetup, WaveTable, WaveWarning,
 } from './types';
 import { WaveRefusal } from './wave-refusal';
 
@@ -62,6 +62,10 @@ interface Draft {
   scaleFromCodebook: boolean;
   /** A constant item whose range was assumed. */
   rangeAssumed: boolean;
+  /** The codebook lists the column as an item but its values are personal data (never stored). */
+  codebookOverruled: boolean;
+  /** Item type from the codebook's `type` column. */
+  typeFromCodebook: ItemType | null;
 }
 
 interface MutableItem {
@@ -74,6 +78,7 @@ interface MutableItem {
   text: string | null;
   labels: ValueLabel[];
   missingLabels: string[];
+  type?: ItemType;
 }
 
 function list(values: readonly (string | number)[], most = 5): string {
@@ -88,7 +93,7 @@ function newDraft(data: ColumnData): Draft {
   return {
     data, role: 'ignore', reason: '', item: null, durationUnit: null, labelSource: null, answerScale: null,
     rangeKnown: false, constantValue: null, wide: false, labelCandidates: null, guessedMissing: [], personal: null,
-    unmappedText: false, scaleFromCodebook: false, rangeAssumed: false,
+    unmappedText: false, scaleFromCodebook: false, rangeAssumed: false, codebookOverruled: false, typeFromCodebook: null,
   };
 }
 
@@ -200,7 +205,9 @@ function itemFromCodebook(draft: Draft, entry: CodebookEntry): void {
     draft.rangeKnown = true;
   }
   if (min === null || max === null) {
-    const answers = whole.filter((value) => !item.missingCodes.includes(value));
+    // Every number counts here, decimals too: a codebook item may hold scale scores or slider
+    // values such as 3.3333333 (the codebook's word wins over the whole-number guess).
+    const answers = data.numbers.filter((value) => !item.missingCodes.includes(value));
     if (answers.length > 0) {
       min ??= Math.min(...answers);
       max ??= Math.max(...answers);
@@ -209,6 +216,7 @@ function itemFromCodebook(draft: Draft, entry: CodebookEntry): void {
   }
   item.min = min ?? 0;
   item.max = max ?? 0;
+  draft.typeFromCodebook = entry.type ?? null;
   draft.item = item;
   draft.role = 'item';
   if (item.min >= item.max) {
@@ -228,6 +236,9 @@ function classify(draft: Draft, entry: CodebookEntry | undefined, decimalSeparat
   }
   const personal = findPersonalData(data.header, data.filled, decimalSeparator);
   if (personal && (personal.fromValues || !entry)) {
+    // A codebook's word wins over every guess but this one: e-mail addresses, phone numbers and
+    // network addresses are never stored as items (buildWave refuses them), so say so loudly.
+    draft.codebookOverruled = entry !== undefined;
     draft.personal = personal.what;
     draft.reason = `Looks like personal data (${personal.what}); it is never used as an item.`;
     return;
@@ -437,6 +448,57 @@ function guessScales(drafts: readonly Draft[]): void {
 }
 
 /**
+ * The item type a setup gives, or the one its range implies: `dichotomous` for the range 0 to 1,
+ * else `rating`.
+ * @param item an item setup.
+ * @returns the item type.
+ * References: none published; common practice (0/1 items are checklists or scored answers, wider
+ *   ranges rating grids).
+ */
+export function itemTypeOf(item: Pick<ItemSetup, 'min' | 'max' | 'type'>): ItemType {
+  if (item.type) return item.type;
+  return item.min === 0 && item.max === 1 ? 'dichotomous' : 'rating';
+}
+
+/** Sets the item type of every proposed item: the codebook's `type`, else from its range. */
+function settleItemTypes(drafts: readonly Draft[]): void {
+  for (const draft of drafts) {
+    if (draft.item === null || draft.role !== 'item') continue;
+    draft.item.type = draft.typeFromCodebook ?? itemTypeOf({ min: draft.item.min, max: draft.item.max });
+    if (draft.typeFromCodebook === null && draft.item.type === 'dichotomous') {
+      draft.reason = draft.reason.replace(/\.$/, '; answers 0 and 1 make it a dichotomous item (a checklist or a scored answer).');
+    }
+  }
+}
+
+/** A column an audit does not use, with the reason. */
+export interface ColumnLeftOut {
+  readonly column: string;
+  readonly reason: string;
+}
+
+/**
+ * The columns a setup leaves out of the wave (role `ignore`, or not named at all), each with
+ * the reason: the proposal's own reason where the setup kept the proposed role, else that the
+ * designer set it aside.
+ * @param proposal the proposal (every column of the table, with reasons).
+ * @param setup the setup in force (default: the proposal itself).
+ * @returns one entry per column left out, in table order.
+ * References: none published; issue 14 (every column left out of an audit is named with its reason).
+ */
+export function columnsLeftOut(proposal: Pick<ProposedSetup, 'columns'>, setup: WaveSetup = proposal): ColumnLeftOut[] {
+  const roleOf = new Map(setup.columns.map((column) => [column.column, column.role]));
+  const out: ColumnLeftOut[] = [];
+  for (const column of proposal.columns) {
+    const role = roleOf.get(column.column) ?? 'ignore';
+    if (role !== 'ignore') continue;
+    const reason = column.role === 'ignore' ? column.reason : 'The confirmed setup sets it to ignore.';
+    out.push({ column: column.column, reason });
+  }
+  return out;
+}
+
+/**
  * Proposes the setup of a wave.
  * @param table a table from `readTable`.
  * @param codebook a codebook from `readCodebook`, or null. Codebook items are matched to
@@ -473,6 +535,7 @@ export function proposeSetup(table: WaveTable, codebook: Codebook | null = null)
   settleCommonMissingCodes(drafts);
   settleRanges(drafts);
   guessScales(drafts);
+  settleItemTypes(drafts);
 
   const columns: ColumnProposal[] = drafts.map((draft) => {
     const item: ItemSetup | null = draft.item === null || (draft.role !== 'item' && draft.role !== 'outcome') ? null : { ...draft.item };
@@ -496,6 +559,14 @@ export function proposeSetup(table: WaveTable, codebook: Codebook | null = null)
       code: 'personal-data-ignored',
       columns: personal.map((draft) => draft.data.header),
       message: `${personal.length} ${personal.length === 1 ? 'column looks' : 'columns look'} like personal data or free text (${list(personal.map((draft) => `${draft.data.header}: ${draft.personal}`))}) and ${personal.length === 1 ? 'is' : 'are'} set to ignore; ${personal.length === 1 ? 'it is' : 'they are'} never stored as items.`,
+    });
+  }
+  const overruled = drafts.filter((draft) => draft.codebookOverruled);
+  if (overruled.length > 0) {
+    warnings.push({
+      code: 'codebook-item-personal-data',
+      columns: overruled.map((draft) => draft.data.header),
+      message: `The codebook lists ${list(overruled.map((draft) => `${draft.data.header} (${draft.personal})`))} as ${overruled.length === 1 ? 'an item, but its values look' : 'items, but their values look'} like personal data, which is never stored as an item; check the column or remove those values.`,
     });
   }
   const guessedLabels = columns.filter((column) => column.labelSource === 'answer-scale');

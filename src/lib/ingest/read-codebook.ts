@@ -4,7 +4,7 @@
  */
 import { codebookColumnOf, type CodebookColumn } from './codebook-columns';
 import { parseNumber } from './parse-number';
-import type { Codebook, CodebookEntry, ValueLabel, WaveTable, WaveWarning } from './types';
+import type { Codebook, CodebookEntry, ItemType, ValueLabel, WaveTable, WaveWarning } from './types';
 import { parseValueLabels } from './value-labels';
 import { WaveRefusal } from './wave-refusal';
 
@@ -21,6 +21,24 @@ export function parseYesNo(cell: string): boolean | null {
   const key = cell.trim().toLowerCase();
   if (YES.has(key)) return true;
   if (NO.has(key)) return false;
+  return null;
+}
+
+const ITEM_TYPES: readonly [RegExp, ItemType][] = [
+  [/^(rating|ratings|likert|grid|rating grid|rating scale|scale|ordinal)$/, 'rating'],
+  [/^(scored|score|test|scored test|ability|knowledge|correct|right wrong|right\/wrong)$/, 'scored'],
+  [/^(dichotomous|binary|checklist|check ?list|yes ?no|yes\/no|0\/1|boolean)$/, 'dichotomous'],
+];
+
+/**
+ * Reads a cell of the codebook's `type` column.
+ * @param cell the cell text, e.g. `rating`, `Likert`, `scored`, `test`, `dichotomous`, `yes/no`.
+ * @returns the item type, or null when the text names none.
+ * References: none published; the product's own codebook format (rating grid, scored test, dichotomous checklist).
+ */
+export function parseItemType(cell: string): ItemType | null {
+  const key = cell.trim().toLowerCase().replace(/[_-]+/g, ' ').replace(/\s+/g, ' ');
+  for (const [pattern, type] of ITEM_TYPES) if (pattern.test(key)) return type;
   return null;
 }
 
@@ -129,7 +147,13 @@ export function readCodebook(table: WaveTable): Codebook {
       labels = [...read.labels];
       for (const part of read.unreadable) invalid.push(`value label "${part}" for ${item} (row ${line})`);
     }
-    entries.push({ item, scale: cellOf(row, 'scale'), reverse, min, max, missingCodes, text: cellOf(row, 'text'), labels });
+    let type: ItemType | null = null;
+    const typeCell = cellOf(row, 'type');
+    if (typeCell !== null) {
+      type = parseItemType(typeCell);
+      if (type === null) invalid.push(`type "${typeCell}" for ${item} (row ${line}; use rating, scored or dichotomous)`);
+    }
+    entries.push({ item, scale: cellOf(row, 'scale'), reverse, min, max, missingCodes, text: cellOf(row, 'text'), labels, ...(columnIndex.has('type') ? { type } : {}) });
   });
   if (entries.length === 0) {
     throw new WaveRefusal(422, 'empty-codebook', `${where[0].toUpperCase()}${where.slice(1)} names no items; fill its "item" column with the column names of the data.`);
@@ -152,7 +176,7 @@ export function readCodebook(table: WaveTable): Codebook {
     warnings.push({
       code: 'codebook-unknown-column',
       columns: unknown,
-      message: `The codebook ${unknown.length === 1 ? 'column' : 'columns'} ${unknown.slice(0, 5).map((name) => `"${name}"`).join(', ')} ${unknown.length === 1 ? 'is' : 'are'} not used (known columns: item, scale, reverse, min, max, missing, text, labels).`,
+      message: `The codebook ${unknown.length === 1 ? 'column' : 'columns'} ${unknown.slice(0, 5).map((name) => `"${name}"`).join(', ')} ${unknown.length === 1 ? 'is' : 'are'} not used (known columns: item, scale, reverse, min, max, missing, text, labels, type).`,
     });
   }
   return { entries, columns: [...columnIndex.keys()], warnings };

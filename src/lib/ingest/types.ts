@@ -34,6 +34,14 @@ export interface TableSource {
   readonly sheets: readonly string[];
 }
 
+/** How a wave's files were read: the table's source plus where its codebook came from (enough to read them again exactly). */
+export interface WaveSource extends TableSource {
+  /** The codebook file's name as given, or null. */
+  readonly codebookName: string | null;
+  /** Where the codebook came from: its own file, a sheet of the workbook, or none. */
+  readonly codebookFrom: 'file' | 'sheet' | null;
+}
+
 /**
  * One sheet or text file as a rectangle of text cells. The first non-blank row is the header;
  * wholly blank rows are dropped; every row has `headers.length` cells (`''` for blank).
@@ -72,6 +80,8 @@ export interface CodebookEntry {
   readonly missingCodes: readonly number[] | null;
   readonly text: string | null;
   readonly labels: readonly ValueLabel[] | null;
+  /** The codebook's `type` column: rating, scored or dichotomous (absent in older codebooks). */
+  readonly type?: ItemType | null;
 }
 
 /** A read codebook. */
@@ -84,6 +94,14 @@ export interface Codebook {
 
 /** What a column is used for. */
 export type ColumnRole = 'item' | 'respondent-id' | 'outcome' | 'duration' | 'weight' | 'ignore';
+
+/**
+ * What kind of item a column is, which decides the screening rules that fit it: a `rating` grid
+ * (agreement, frequency: long-string and within-person SD rules apply), a `scored` test item
+ * (right/wrong or points: a run of identical scores is what a strong performer gives), or a
+ * `dichotomous` checklist (yes/no, 0/1).
+ */
+export type ItemType = 'rating' | 'scored' | 'dichotomous';
 
 /** How an item (or an outcome) is read and recoded. */
 export interface ItemSetup {
@@ -103,6 +121,8 @@ export interface ItemSetup {
   readonly labels: readonly ValueLabel[];
   /** Answer texts that mean no answer (e.g. "Don't know"). */
   readonly missingLabels: readonly string[];
+  /** Item type (default: `dichotomous` for a 0/1 range, else `rating`). */
+  readonly type?: ItemType;
 }
 
 /** Units for a duration column holding plain numbers. */
@@ -194,6 +214,8 @@ export interface WaveItem {
   readonly text: string | null;
   readonly labels: readonly ValueLabel[];
   readonly missingLabels: readonly string[];
+  /** Item type from the setup (absent in waves stored before item types existed). */
+  readonly type?: ItemType;
   readonly counts: ItemCounts;
 }
 

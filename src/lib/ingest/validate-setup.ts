@@ -20,6 +20,7 @@ export const itemSetupSchema = z.object({
   text: z.string().nullable().default(null),
   labels: z.array(valueLabelSchema).default([]),
   missingLabels: z.array(z.string()).default([]),
+  type: z.enum(['rating', 'scored', 'dichotomous']).optional(),
 });
 
 /** The shape of a setup: one entry per column named (others are ignored); extra keys are dropped. */
@@ -31,6 +32,14 @@ export const waveSetupSchema = z.object({
     durationUnit: z.enum(['seconds', 'minutes', 'milliseconds']).nullable().default(null),
   })),
 });
+
+declare const checkedSetup: unique symbol;
+
+/**
+ * A setup that {@link validateSetup} accepted for one table: the only kind `buildWave` takes, so
+ * a setup is checked once per build and never again inside it.
+ */
+export type CheckedSetup = WaveSetup & { readonly [checkedSetup]: true };
 
 function personalValues(header: string, cells: readonly string[], decimalSeparator: '.' | ','): string | null {
   const filled = cells.map((cell) => cell.trim()).filter((cell) => cell !== '');
@@ -47,10 +56,10 @@ function personalValues(header: string, cells: readonly string[], decimalSeparat
  *   `item-without-setup`, `invalid-range` (min ≥ max), `duplicate-item-id`, `no-items`,
  *   `personal-data-as-item` (a used column holds e-mail addresses, phone numbers or network addresses),
  *   `personal-data-as-id`.
- * @returns the setup with defaults filled in.
+ * @returns the setup with defaults filled in, marked as checked (see CheckedSetup).
  * References: Paredown api.md (400 for bad input; error shape).
  */
-export function validateSetup(table: WaveTable, setup: unknown): WaveSetup {
+export function validateSetup(table: WaveTable, setup: unknown): CheckedSetup {
   const parsed = waveSetupSchema.safeParse(setup);
   if (!parsed.success) {
     const issue = parsed.error.issues[0];
@@ -104,5 +113,5 @@ export function validateSetup(table: WaveTable, setup: unknown): WaveSetup {
   if (items === 0) {
     throw new WaveRefusal(400, 'no-items', 'The setup has no item columns; set at least one column as an item.');
   }
-  return result;
+  return result as CheckedSetup;
 }

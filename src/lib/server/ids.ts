@@ -1,6 +1,5 @@
 /** Random identifiers and token hashing. */
-import { randomBytes } from 'node:crypto';
-import { contentHash } from '../ingest/content-hash';
+import { createHash, randomBytes } from 'node:crypto';
 
 /** A new random id (16 url-safe characters, 96 bits). */
 export function newId(): string {
@@ -16,7 +15,13 @@ export function newSecretToken(prefix = ''): string {
   return prefix + randomBytes(32).toString('base64url');
 }
 
-/** sha256 of a text (UTF-8) or bytes, hex (contentHash of the bytes). */
+/**
+ * sha256 of a text (UTF-8) or bytes, hex: the hash kept of API tokens, invitation tokens and
+ * audit settings (node:crypto; the server's own, not the file reader's content hash).
+ * @param text a text or bytes.
+ * @returns 64 lower-case hex digits.
+ * References: NIST 2015, FIPS PUB 180-4 "Secure Hash Standard (SHS)", §6.2 SHA-256.
+ */
 export function sha256Hex(text: string | Buffer): string {
-  return contentHash(typeof text === 'string' ? Buffer.from(text, 'utf8') : text);
+  return createHash('sha256').update(typeof text === 'string' ? Buffer.from(text, 'utf8') : text).digest('hex');
 }

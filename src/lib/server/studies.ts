@@ -1,14 +1,12 @@
 /** Studies: listing, reading with what lies under them, creating and deleting. */
 import { count, desc, eq, inArray } from 'drizzle-orm';
-import { existsSync, unlinkSync } from 'node:fs';
-import { resolve } from 'node:path';
 import { auditJobs } from './audit-jobs/audit-jobs';
-import { audits, cutListVersions, decisions, storedFiles, studies, teams, waves } from '../../db/schema';
+import { audits, cutListVersions, decisions, studies, teams, waves } from '../../db/schema';
 import { can, type Role } from '../permissions';
 import { logActivity } from './activity';
-import { getConfig } from './config';
 import type { CurrentUser } from './current-user';
 import { getDb } from './db';
+import { serverFileStore } from './file-store';
 import type { StudyRow } from './guard';
 import { newId } from './ids';
 
@@ -161,30 +159,11 @@ export function createStudy(user: CurrentUser, teamId: string, name: string, des
  */
 export function deleteStudy(user: CurrentUser, study: StudyRow): void {
   const db = getDb();
-  const orphans = db.transaction((tx) => {
+  serverFileStore().transaction(db, (tx, files) => {
     const hashes = tx.select({ file: waves.fileHash, codebook: waves.codebookHash }).from(waves).where(eq(waves.studyId, study.id)).all();
     tx.delete(studies).where(eq(studies.id, study.id)).run();
     logActivity(tx, { teamId: study.teamId, studyId: study.id, userId: user.id, action: 'study.deleted', detail: { name: study.name } });
-    const candidates = [...new Set(hashes.flatMap((h) => [h.file, h.codebook]).filter((h): h is string => !!h))];
-    if (candidates.length === 0) return [];
-    const stillUsed = new Set(
-      tx
-        .select({ file: waves.fileHash, codebook: waves.codebookHash })
-        .from(waves)
-        .where(inArray(waves.fileHash, candidates))
-        .all()
-        .flatMap((h) => [h.file, h.codebook]),
-    );
-    for (const h of tx.select({ codebook: waves.codebookHash }).from(waves).where(inArray(waves.codebookHash, candidates)).all()) stillUsed.add(h.codebook);
-    const unused = candidates.filter((h) => !stillUsed.has(h));
-    if (unused.length === 0) return [];
-    const files = tx.select({ hash: storedFiles.hash, path: storedFiles.storagePath }).from(storedFiles).where(inArray(storedFiles.hash, unused)).all();
-    tx.delete(storedFiles).where(inArray(storedFiles.hash, unused)).run();
-    return files;
+    // The study's files that no other wave uses: their records go now, their bytes once this commits.
+    files.forgetUnused([...new Set(hashes.flatMap((h) => [h.file, h.codebook]).filter((h): h is string => !!h))]);
   });
-  const uploadDir = getConfig().uploadDir;
-  for (const file of orphans) {
-    const path = resolve(uploadDir, file.path);
-    if (path.startsWith(uploadDir) && existsSync(path)) unlinkSync(path);
-  }
 }

@@ -81,6 +81,12 @@ export interface CorrelationMatrixResult {
   readonly repaired: boolean;
   /** The matrix before repair, when repaired; else null. */
   readonly unrepaired: SquareMatrix | null;
+  /**
+   * Polychoric only: each estimate's standard error given the thresholds (Olsson 1979's two-step
+   * information in ρ, the analytic second derivative of the log-likelihood), NaN where there is
+   * none (undefined, boundary or not converged); else null.
+   */
+  readonly standardErrors: SquareMatrix | null;
   readonly notices: readonly NumericalNotice[];
 }
 
@@ -259,7 +265,10 @@ export function finishCorrelationMatrix(prepared: PreparedCorrelationMatrix, pol
   const { order, values, counts, undefinedPairs, method, missing } = prepared;
   const correctedPairs: ItemPair[] = [];
   const notConverged: ItemPair[] = [];
+  let standardErrors: SquareMatrix | null = null;
   if (prepared.polychoricJob !== null) {
+    standardErrors = { order, data: new Float64Array(order * order).fill(Number.NaN) };
+    for (let j = 0; j < order; j++) standardErrors.data[j * order + j] = 0;
     const pairs = prepared.polychoricJob.pairs;
     const pairCount = pairs.length / 2;
     if (polychoric === null || polychoric.length !== pairCount * POLYCHORIC_PAIR_FIELDS) {
@@ -272,6 +281,8 @@ export function finishCorrelationMatrix(prepared: PreparedCorrelationMatrix, pol
       const rho = polychoric[at];
       const status = polychoric[at + 2];
       const n = polychoric[at + 3];
+      standardErrors.data[j * order + k] = polychoric[at + 1];
+      standardErrors.data[k * order + j] = polychoric[at + 1];
       counts[j * order + k] = n;
       counts[k * order + j] = n;
       if (Number.isNaN(rho)) {
@@ -356,6 +367,7 @@ export function finishCorrelationMatrix(prepared: PreparedCorrelationMatrix, pol
     indefinite,
     repaired,
     unrepaired,
+    standardErrors,
     notices,
   };
 }

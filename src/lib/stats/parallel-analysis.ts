@@ -109,8 +109,14 @@ function randomEigenvalues(data: Float64Array, rows: number, items: number): Flo
   return symmetricEigenvalues(correlation);
 }
 
-/** Hyndman & Fan definition 7 on sorted values: interpolate at (N − 1)·q. */
-function quantileType7(sorted: Float64Array, q: number): number {
+/**
+ * Hyndman & Fan definition 7 on sorted values: interpolate at (N − 1)·q.
+ * @param sorted Values in ascending order (at least one).
+ * @param q Probability in [0, 1].
+ * @returns The quantile.
+ * References: Hyndman & Fan 1996, "Sample quantiles in statistical packages", definition 7.
+ */
+export function quantileType7(sorted: Float64Array, q: number): number {
   const position = (sorted.length - 1) * q;
   const below = Math.floor(position);
   const above = Math.min(below + 1, sorted.length - 1);

@@ -52,6 +52,22 @@ export const KMO_LABEL_BOUNDS = Object.freeze([
 export const PARALLEL_ANALYSIS_DEFAULT_ITERATIONS = 100;
 /** Parallel analysis: percentile of the random eigenvalues an observed one must exceed (Glorfeld 1995). */
 export const PARALLEL_ANALYSIS_PERCENTILE = 95;
+/**
+ * Parallel analysis on polychoric correlations: random data sets drawn by default. Each needs a
+ * polychoric matrix (p(p−1)/2 likelihood fits), so fewer than for Pearson (common practice:
+ * psych::fa.parallel's own default n.iter is 20).
+ */
+export const POLYCHORIC_PARALLEL_DEFAULT_ITERATIONS = 20;
+/**
+ * Fewest respondents for a polychoric matrix before the audit warns that it rests on too few
+ * (common practice, from memory: simulation studies of polychoric-based factor analysis, e.g.
+ * Flora & Curran 2004, Psychological Methods 9:466-491, found estimates usable from about 200;
+ * tetrachoric correlations need more). The empirical check beside it is the matrix itself:
+ * negative eigenvalues before repair.
+ */
+export const POLYCHORIC_MINIMUM_N = 200;
+/** Fewest respondents for a tetrachoric (0/1 polychoric) matrix before the audit warns (common practice, from memory; see POLYCHORIC_MINIMUM_N). */
+export const TETRACHORIC_MINIMUM_N = 400;
 /** A repaired correlation matrix keeps its eigenvalues at or above this (so it is invertible). */
 export const REPAIR_EIGENVALUE_FLOOR = 1e-8;
 /** Higham's alternating projections stop when the relative change in one sweep is below this. */
@@ -213,3 +229,11 @@ export const EM_MAX_ITERATIONS = 10_000;
  * raised to it so that the ratio stays finite (the Heywood case itself is reported by minres).
  */
 export const RESIDUAL_MIN_UNIQUENESS = 0.01;
+/** One-factor ML: the fit stops when every gradient component (in ln ψ) is below this. */
+export const ONE_FACTOR_ML_GRADIENT_TOLERANCE = 1e-8;
+/** One-factor ML: a step that lowers F by less than this (relative) ends the search (F's rounding error). */
+export const ONE_FACTOR_ML_STAGNATION = 1e-14;
+/** One-factor ML: most BFGS iterations. */
+export const ONE_FACTOR_ML_MAX_ITERATIONS = 500;
+/** One-factor ML: smallest uniqueness allowed (a Heywood case stops here; common practice, as factanal's lower = 0.005). */
+export const ONE_FACTOR_ML_UNIQUENESS_FLOOR = 0.005;

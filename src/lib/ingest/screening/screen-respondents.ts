@@ -3,9 +3,10 @@
  * index and within-person SD), speeders, and respondents missing most items. Each flag comes
  * with its count; the union is proposed for exclusion and the designer accepts or changes it.
  */
-import type { ItemMatrix } from '../../stats/types';
+import { selectItems, type ItemMatrix } from '../../stats/types';
 import { reverseScore } from '../recode-item';
-import type { BuiltWave } from '../types';
+import { itemTypeOf } from '../propose-setup';
+import type { BuiltWave, ItemType } from '../types';
 import { longStringIndex } from './long-string-index';
 import { missingShare } from './missing-share';
 import { speedCheck } from './speeders';
@@ -49,9 +50,23 @@ export interface ScreeningFlag {
   readonly message: string;
 }
 
+/** A screening rule and whether it was applied, with the reason when it was not. */
+export interface ScreeningRule {
+  readonly code: ScreeningFlag['code'];
+  readonly applied: boolean;
+  /** Items the rule looked at (long string and within-person SD: the rating-grid items only). */
+  readonly items: number;
+  /** One plain sentence: what the rule looks at, or why it was not applied. */
+  readonly note: string;
+}
+
 /** The screening of a wave. Per-respondent arrays are plain (JSON-ready), null where not computable. */
 export interface ScreeningResult {
   readonly respondents: number;
+  /** How many items of each type the wave holds (from the setup, else from the range: 0/1 dichotomous). */
+  readonly itemTypes: Readonly<Record<ItemType, number>>;
+  /** Every rule, applied or not, with the reason. */
+  readonly rules: readonly ScreeningRule[];
   readonly options: ScreeningOptions;
   readonly longString: readonly number[];
   readonly withinSd: readonly (number | null)[];
@@ -101,32 +116,52 @@ export function answersAsGiven(wave: Pick<BuiltWave, 'matrix' | 'items'>): ItemM
  * @param wave a built wave (its items in questionnaire order, its durations if any).
  * @param options any of {@link ScreeningOptions}; the rest take the defaults.
  * @throws {RangeError} when an option is outside its range (a programming or configuration error).
- * @returns per-respondent indices, the flags with counts, and the proposed exclusions.
+ * @returns per-respondent indices, the flags with counts, the rules applied (long string and
+ *   within-person SD on rating-grid items only) and the proposed exclusions. `longString` and
+ *   `withinSd` are computed over the rating-grid items (0 / null without any).
  * References: Johnson 2005, J. Research in Personality 39:103-129 (long-string index); Dunn, Heggestad,
  *   Shanock & Theilgard 2018, J. Business and Psychology 33:105-121 (within-person SD); Paredown methods.md §6.
  */
 export function screenRespondents(wave: Pick<BuiltWave, 'matrix' | 'items' | 'duration' | 'respondents'>, options: Partial<ScreeningOptions> = {}): ScreeningResult {
   const settings: ScreeningOptions = { ...DEFAULT_SCREENING_OPTIONS, ...options };
   checkOptions(settings);
-  const answers = answersAsGiven(wave);
+  const allAnswers = answersAsGiven(wave);
+  const types = wave.items.map(itemTypeOf);
+  const itemTypes: Record<ItemType, number> = { rating: 0, scored: 0, dichotomous: 0 };
+  for (const type of types) itemTypes[type]++;
+  // Long strings and a within-person SD of 0 mean careless answering only on a rating grid; on a
+  // scored test a run of right answers is what the best performers give, and a checklist's 0/1
+  // runs say nothing about effort. These two rules therefore look at the rating items only.
+  const gridColumns = types.flatMap((type, k) => (type === 'rating' ? [k] : []));
+  const answers = gridColumns.length === allAnswers.columns ? allAnswers : selectItems(allAnswers, gridColumns);
   const items = answers.columns;
   const longString = longStringIndex(answers);
   const withinSd = withinPersonSd(answers);
-  const missing = missingShare(answers);
-  const answeredCount = missing.map((share) => Math.round((1 - share) * items));
+  const missing = missingShare(allAnswers);
+  const gridMissing = items === allAnswers.columns ? missing : missingShare(answers);
+  const answeredCount = gridMissing.map((share) => Math.round((1 - share) * items));
   const flags: ScreeningFlag[] = [];
+  const rules: ScreeningRule[] = [];
+  const otherTypes = (Object.keys(itemTypes) as ItemType[]).filter((type) => type !== 'rating' && itemTypes[type] > 0).map((type) => `${itemTypes[type]} ${type}`);
+  const gridNote = items === 0
+    ? `not applied: the wave has no rating-grid items (${otherTypes.join(', ')}), and a run of identical answers on a scored test or checklist is no sign of careless answering.`
+    : otherTypes.length > 0
+      ? `applied to the ${items} rating-grid items only (left out: ${otherTypes.join(', ')} items, where identical answers are no sign of careless answering).`
+      : `applied to all ${items} items (rating grid).`;
 
   const runThreshold = Math.max(settings.longStringMinimum, Math.ceil(settings.longStringShare * items));
-  const longRows = longString.flatMap((run, i) => (run >= runThreshold ? [i] : []));
-  flags.push({
+  const longRows = items === 0 ? [] : longString.flatMap((run, i) => (run >= runThreshold ? [i] : []));
+  rules.push({ code: 'long-string', applied: items > 0, items, note: `Long string: ${gridNote}` });
+  rules.push({ code: 'low-variability', applied: items > 0, items, note: `Within-person SD: ${gridNote}` });
+  if (items > 0) flags.push({
     code: 'long-string', threshold: runThreshold, count: longRows.length, respondents: longRows,
     message: items < runThreshold
       ? `With ${items} items no run can reach ${runThreshold} identical answers, so no one is flagged for a long string.`
       : `${longRows.length} ${longRows.length === 1 ? 'respondent gave' : 'respondents gave'} the same answer to ${runThreshold} or more items in a row.`,
   });
 
-  const lowRows = withinSd.flatMap((sd, i) => (sd !== null && answeredCount[i] >= settings.withinSdMinimumAnswers && sd <= settings.withinSdMaximum ? [i] : []));
-  flags.push({
+  const lowRows = items === 0 ? [] : withinSd.flatMap((sd, i) => (sd !== null && answeredCount[i] >= settings.withinSdMinimumAnswers && sd <= settings.withinSdMaximum ? [i] : []));
+  if (items > 0) flags.push({
     code: 'low-variability', threshold: settings.withinSdMaximum, count: lowRows.length, respondents: lowRows,
     message: `${lowRows.length} ${lowRows.length === 1 ? 'respondent has' : 'respondents have'} a within-person SD of ${settings.withinSdMaximum} or less over at least ${settings.withinSdMinimumAnswers} answers.`,
   });
@@ -137,6 +172,7 @@ export function screenRespondents(wave: Pick<BuiltWave, 'matrix' | 'items' | 'du
     const speed = speedCheck(wave.duration, settings.speederShare);
     duration = Array.from(wave.duration, (value) => (Number.isFinite(value) ? value : null));
     medianDuration = speed.median;
+    rules.push({ code: 'speeder', applied: speed.threshold !== null, items: allAnswers.columns, note: speed.threshold === null ? 'Speeders: not applied, no completion time could be read.' : 'Speeders: applied to the completion time.' });
     flags.push({
       code: 'speeder', threshold: speed.threshold ?? 0, count: speed.speeders.length, respondents: speed.speeders,
       message: speed.threshold === null
@@ -145,7 +181,9 @@ export function screenRespondents(wave: Pick<BuiltWave, 'matrix' | 'items' | 'du
     });
   }
 
+  if (wave.duration === null) rules.push({ code: 'speeder', applied: false, items: allAnswers.columns, note: 'Speeders: not applied, the wave has no completion-time column.' });
   const missingRows = missing.flatMap((share, i) => (share > settings.missingShareAbove ? [i] : []));
+  rules.push({ code: 'mostly-missing', applied: true, items: allAnswers.columns, note: `Mostly missing: applied to all ${allAnswers.columns} items.` });
   flags.push({
     code: 'mostly-missing', threshold: settings.missingShareAbove, count: missingRows.length, respondents: missingRows,
     message: `${missingRows.length} ${missingRows.length === 1 ? 'respondent left' : 'respondents left'} more than ${(settings.missingShareAbove * 100).toFixed(0)}% of the items without a valid answer.`,
@@ -153,6 +191,6 @@ export function screenRespondents(wave: Pick<BuiltWave, 'matrix' | 'items' | 'du
 
   const proposed = [...new Set(flags.flatMap((flag) => flag.respondents))].sort((a, b) => a - b);
   return {
-    respondents: wave.respondents, options: settings, longString, withinSd, missingShare: missing, duration, medianDuration, flags, proposedExclusions: proposed,
+    respondents: wave.respondents, itemTypes, rules, options: settings, longString, withinSd, missingShare: missing, duration, medianDuration, flags, proposedExclusions: proposed,
   };
 }

@@ -5,11 +5,10 @@
  */
 import { and, eq } from 'drizzle-orm';
 import { waveItems, waves } from '../../../db/schema';
-import type { EngineSettings } from '../../engine/engine-settings';
 import { getDb } from '../db';
 import type { StudyRow } from '../guard';
 import { parseStoredSetup, type WaveRow } from '../waves/stored-wave';
-import { defaultAuditSettings, engineDefaults, type ResolvedAuditSettings } from './audit-settings';
+import { defaultAuditSettings, type ResolvedAuditSettings } from './audit-settings';
 
 /** One wave, ready for the audit form. */
 export interface AuditFormWave {
@@ -70,7 +69,3 @@ export function confirmedFormWaves(study: StudyRow): AuditFormWave[] {
     .map((wave) => auditFormWave(study, wave));
 }
 
-/** The engine's own defaults, shown beside each field of the form. */
-export function engineDefaultSettings(): EngineSettings {
-  return engineDefaults;
-}

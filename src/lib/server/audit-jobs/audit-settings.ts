@@ -1,97 +1,45 @@
 /**
- * The settings of one audit as the API receives them, and their resolved, canonical form.
+ * The settings of one audit on the server: the study's constraints as the base of a request,
+ * and the reuse key.
  *
- * A request names any subset of the engine's settings (src/lib/engine/engine-settings.ts, by
- * their names there), the outcome column, the locked items and the parallel-analysis size. What
- * it leaves out comes first from the study's own settings (`studies.settings`: locked items,
- * minimum items per scale, alpha floor, maximum alpha drop, cut cap, minutes per item), then from
- * the engine's stated defaults. The resolved settings are complete, so the same audit can be run
- * again exactly; their hash, with a digest of the wave's exclusions (the one part of a confirmed
- * wave that may still change), decides whether a stored result is reused.
+ * The settings themselves (names, ranges, defaults, the request schema, the one stored shape)
+ * come from the settings table, src/lib/audit/settings-table.ts and settings-schema.ts
+ * (docs/decisions/006). A request names any subset of them; what it leaves out comes first from
+ * the study's own settings (`studies.settings`: locked items, minimum items per scale, alpha
+ * floor, maximum alpha drop, cut cap, minutes per item), then from the table's defaults. The
+ * resolved settings are complete, so the same audit can be run again exactly; their hash, with a
+ * digest of the wave's exclusions (the one part of a confirmed wave that may still change),
+ * decides whether a stored result is reused.
  */
-import { z } from 'zod';
 import { AUDIT_SCHEMA } from '../../audit/audit-json';
-import { DEFAULT_ENGINE_SETTINGS, resolveEngineSettings, type EngineSettings } from '../../engine/engine-settings';
+import {
+  AuditSettingsError,
+  resolveAuditSettings as resolveFromTable,
+  type AuditSettingsRequest,
+  type ResolvedAuditSettings,
+} from '../../audit/settings-table';
 import type { StudySettings } from '../../../db/schema';
 import { HttpError } from '../errors';
 import { sha256Hex } from '../ids';
 
-/** Random data sets of parallel analysis when the request does not say (runAudit's default). */
-export const DEFAULT_PARALLEL_ITERATIONS = 100;
-
-/** The most bootstrap resamples one audit may ask for (about 10 minutes of polychoric work here). */
-export const MAX_BOOTSTRAP = 10_000;
-
-/** Faults a test server (PAREDOWN_MODE=test) may inject into an audit, to test failure handling. */
-export const testFaults = ['throw', 'crash'] as const;
-export type TestFault = (typeof testFaults)[number];
-
-const share = z.number().min(0).max(1);
-
-/**
- * The body of POST /api/waves/{id}/audits: `{ "settings": { ... } }`, every key optional.
- * Unknown keys are refused (a misspelt threshold must not silently take its default).
- */
-export const auditRequestSchema = z
-  .object({
-    settings: z
-      .object({
-        method: z.enum(['pearson', 'spearman', 'polychoric']).optional(),
-        missing: z.enum(['pairwise', 'listwise']).optional(),
-        outcome: z.string().min(1).max(200).nullable().optional(),
-        bootstrap: z.number().int().min(0).max(MAX_BOOTSTRAP).optional(),
-        seed: z.number().int().min(-(2 ** 31)).max(2 ** 31 - 1).optional(),
-        locked: z.array(z.string().min(1).max(200)).max(5_000).optional(),
-        parallelIterations: z.number().int().min(10).max(1_000).optional(),
-        strongPairThreshold: share.optional(),
-        conditionIndexThreshold: z.number().min(1).max(1e6).optional(),
-        varianceProportionThreshold: share.optional(),
-        dependencyVifThreshold: z.number().min(1).max(1e6).optional(),
-        mergeCorrelation: share.optional(),
-        mergeWordingSimilarity: share.optional(),
-        rewordWordingSimilarity: share.optional(),
-        minItemsPerScale: z.number().int().min(1).max(1_000).optional(),
-        alphaFloor: share.optional(),
-        maxAlphaDrop: share.optional(),
-        maxCutShare: share.optional(),
-        secondsPerItem: z.number().positive().max(3_600).optional(),
-        stabilityThreshold: share.optional(),
-        confidenceLevel: z.number().gt(0).lt(1).optional(),
-        testFault: z.enum(testFaults).optional(),
-      })
-      .strict()
-      .default({}),
-  })
-  .strict();
-
-/** The settings part of a request. */
-export type AuditSettingsRequest = z.infer<typeof auditRequestSchema>['settings'];
-
-/** Complete settings of one audit: what is stored with it and handed to runAudit. */
-export interface ResolvedAuditSettings extends EngineSettings {
-  /** Outcome column id, or null for no outcome model. */
-  readonly outcome: string | null;
-  /** Item ids the designer locked, sorted, without repeats. */
-  readonly locked: readonly string[];
-  readonly parallelIterations: number;
-  /** Test servers only: a fault to inject. Absent otherwise. */
-  readonly testFault?: TestFault;
-}
+export { auditRequestSchema } from '../../audit/settings-schema';
+export { DEFAULT_PARALLEL_ITERATIONS, MAX_BOOTSTRAP, testFaults } from '../../audit/settings-table';
+export type { AuditSettingsRequest, ResolvedAuditSettings, TestFault } from '../../audit/settings-table';
 
 /**
  * The settings an audit of this study takes when the request says nothing: the study's
  * constraints over the engine's defaults.
  * @param study the study's stored settings.
- * @returns the engine settings the study implies (not yet checked).
+ * @returns the settings the study implies (checked when resolved).
  */
-export function studyDefaults(study: StudySettings): Partial<EngineSettings> & { locked: string[] } {
-  const defaults: Partial<Record<keyof EngineSettings, number>> = {};
+export function studyDefaults(study: StudySettings): AuditSettingsRequest & { locked: string[] } {
+  const defaults: { -readonly [Key in keyof AuditSettingsRequest]: AuditSettingsRequest[Key] } = {};
   if (typeof study.minItemsPerScale === 'number') defaults.minItemsPerScale = study.minItemsPerScale;
   if (typeof study.alphaFloor === 'number') defaults.alphaFloor = study.alphaFloor;
   if (typeof study.maxAlphaDrop === 'number') defaults.maxAlphaDrop = study.maxAlphaDrop;
   if (typeof study.maxCutShare === 'number') defaults.maxCutShare = study.maxCutShare;
   if (typeof study.minutesPerItem === 'number' && study.minutesPerItem > 0) defaults.secondsPerItem = Math.round(study.minutesPerItem * 60 * 1000) / 1000;
-  return { ...(defaults as Partial<EngineSettings>), locked: Array.isArray(study.lockedItems) ? [...study.lockedItems] : [] };
+  return { ...defaults, locked: Array.isArray(study.lockedItems) ? [...study.lockedItems] : [] };
 }
 
 /**
@@ -109,28 +57,12 @@ export function resolveAuditSettings(
   study: StudySettings,
   options: { allowTestFaults: boolean },
 ): ResolvedAuditSettings {
-  const { outcome = null, locked, parallelIterations = DEFAULT_PARALLEL_ITERATIONS, testFault, ...engineOverrides } = request;
-  if (testFault !== undefined && !options.allowTestFaults) {
-    throw new HttpError(400, 'invalid-settings', 'settings: testFault is only accepted by a test server.');
-  }
-  const { locked: studyLocked, ...fromStudy } = studyDefaults(study);
-  let engine: EngineSettings;
   try {
-    engine = resolveEngineSettings({ ...fromStudy, ...engineOverrides });
+    return resolveFromTable(request, studyDefaults(study), options);
   } catch (error) {
-    if (error instanceof RangeError) {
-      throw new HttpError(400, 'invalid-settings', `settings: ${error.message.replace(/^resolveEngineSettings: /, '')}.`);
-    }
+    if (error instanceof AuditSettingsError) throw new HttpError(400, 'invalid-settings', `settings: ${error.message}`);
     throw error;
   }
-  const resolved: ResolvedAuditSettings = {
-    ...engine,
-    outcome,
-    locked: [...new Set(locked ?? studyLocked)].sort(),
-    parallelIterations,
-    ...(testFault === undefined ? {} : { testFault }),
-  };
-  return Object.freeze(resolved);
 }
 
 /**
@@ -165,6 +97,3 @@ export function auditSettingsHash(settings: ResolvedAuditSettings, exclusions: r
   const input = { schema: AUDIT_SCHEMA, settings, exclusions: [...exclusions].sort((a, b) => a - b) };
   return sha256Hex(canonicalJson(input));
 }
-
-/** The engine's own defaults, for showing beside each field (no study constraints applied). */
-export const engineDefaults: EngineSettings = DEFAULT_ENGINE_SETTINGS;

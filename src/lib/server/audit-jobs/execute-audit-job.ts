@@ -103,12 +103,12 @@ export async function executeAuditJob(job: AuditWorkerJob, onProgress: JobProgre
     respondents: wave.respondents,
   } as unknown as Pick<BuiltWave, 'matrix' | 'items' | 'outcomes' | 'excluded' | 'respondents'>;
   const input = auditInputFromWave(storedWave, { outcome: settings.outcome, locked: settings.locked });
-  const { locked: _locked, testFault, ...auditSettings } = settings;
+  const testFault = settings.testFault;
   onProgress('loading', LOADING_SHARE);
 
   const audit = await runAudit(
     input,
-    auditSettings,
+    settings,
     (runStage, fraction) => {
       enter(runStage);
       if (testFault === 'throw' && runStage === 'engine') {

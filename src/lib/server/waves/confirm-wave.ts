@@ -1,28 +1,32 @@
 /**
- * Confirming a wave's column setup and exclusions. The wave is built again from the stored
- * original (so what is kept is exactly what the file says under the confirmed setup), screened,
- * and stored in ONE transaction: the recoded matrix blob, the items, respondent ids, the setup,
- * the screening and the exclusions, then status `confirmed`. After any failure nothing of it
- * remains and the wave is still `proposed`.
+ * Confirming a wave's column setup and exclusions. A proposed wave is built again from its stored
+ * original through the one reader and the one accept path (readWave, acceptWave: so what is kept is
+ * exactly what the file says under the confirmed setup), screened, and written in ONE transaction
+ * by the one confirmed-wave writer (write-confirmed-wave.ts): the recoded matrix blob, the items,
+ * respondent ids, the setup, the screening and the exclusions, then status `confirmed`. After any
+ * failure nothing of it remains and the wave is still `proposed`.
  *
  * A confirmed wave is immutable except for its exclusions, which stay reversible: excluded
- * respondents stay in the stored wave and are only left out of audits
- * (docs/decisions/005-storing-waves.md).
+ * respondents stay in the stored wave and are only left out of audits. Other exclusions are checked
+ * against the stored matrix (applyExclusions), without reading the original file again
+ * (docs/decisions/005-storing-waves.md, 007-one-way-in-for-waves.md).
  */
-import { eq } from 'drizzle-orm';
+import { asc, eq } from 'drizzle-orm';
 import { waveItems, waves } from '../../../db/schema';
 import {
-  buildWave, checkExclusions, encodeMatrix, screenRespondents, validateSetup, waveSetupSchema,
-  type BuiltWave, type ScreeningOptions, type ScreeningResult, type WaveSetup,
+  acceptWave, applyExclusions, decodeMatrix, waveSetupSchema,
+  type AcceptedWave, type BuiltWave, type ScreeningOptions, type ScreeningResult,
 } from '../../ingest';
 import { logActivity } from '../activity';
 import type { CurrentUser } from '../current-user';
 import { getDb } from '../db';
 import { fail } from '../errors';
+import { serverFileStore } from '../file-store';
 import type { StudyRow } from '../guard';
-import { readStoredFile, readWaveFiles, serverReadLimits } from './read-wave-files';
-import { confirmedParts, itemDescription, parseStoredSetup, setupOf, STORED_SETUP_VERSION, type StoredWaveSetup, type WaveRow } from './stored-wave';
+import { readWaveFiles } from './read-wave-files';
+import { confirmedDocument, itemDescription, parseStoredSetup, type StoredWaveSetup, type WaveRow } from './stored-wave';
 import { assembleView, storedWaveView, type ItemView, type WaveView } from './wave-view';
+import { writeConfirmedWave } from './write-confirmed-wave';
 
 /** What the designer sends to confirm a wave. */
 export interface ConfirmRequest {
@@ -43,9 +47,6 @@ export interface ConfirmOutcome {
   view: WaveView;
 }
 
-/** Wave items inserted per statement (each binds 11 parameters). */
-const ITEM_ROWS_PER_INSERT = 500;
-
 function normalisedSetup(setup: unknown): string | null {
   const parsed = waveSetupSchema.safeParse(setup);
   return parsed.success ? JSON.stringify(parsed.data) : null;
@@ -55,59 +56,66 @@ function itemViews(wave: BuiltWave): ItemView[] {
   return wave.items.map((item, position) => ({ position, id: item.id, ...itemDescription(item), counts: item.counts }));
 }
 
-/** The wave built again from its stored files under a setup. */
+/** A proposed wave built again from its stored files under the confirmed setup. */
 interface Rebuilt {
-  setup: WaveSetup;
-  wave: BuiltWave;
-  screening: ScreeningResult;
+  accepted: AcceptedWave;
   document: StoredWaveSetup;
 }
 
-async function rebuild(row: WaveRow, setup: unknown, exclusions: readonly number[], screeningOptions: Partial<ScreeningOptions>): Promise<Rebuilt> {
+async function rebuild(row: WaveRow, setup: unknown, exclusions: readonly unknown[], screeningOptions: Partial<ScreeningOptions>): Promise<Rebuilt> {
   const before = parseStoredSetup(row.setup, row.rowCount);
-  const responses = readStoredFile(row.fileHash);
-  const codebook = row.codebookHash ? readStoredFile(row.codebookHash) : null;
-  const read = await readWaveFiles(
-    {
-      fileName: before.source?.fileName ?? responses.originalName,
-      bytes: responses.bytes,
-      codebookName: codebook ? before.source?.codebookName ?? codebook.originalName : null,
-      codebookBytes: codebook?.bytes ?? null,
-      sheet: row.sheet,
-    },
-    serverReadLimits(),
-  );
-  const confirmed = validateSetup(read.table, setup);
-  const wave = buildWave(read.table, confirmed, exclusions);
-  let screening: ScreeningResult;
+  const db = getDb();
+  const store = serverFileStore();
+  const responses = store.read(db, row.fileHash);
+  const codebook = row.codebookHash ? store.read(db, row.codebookHash) : null;
+  const read = await readWaveFiles({
+    fileName: before.source?.fileName ?? responses.originalName,
+    bytes: responses.bytes,
+    codebookName: codebook ? before.source?.codebookName ?? codebook.originalName : null,
+    codebookBytes: codebook?.bytes ?? null,
+    sheet: row.sheet,
+  });
+  let accepted: AcceptedWave;
   try {
-    screening = screenRespondents(wave, screeningOptions);
+    accepted = acceptWave(read.table, { setup, exclusions, screening: screeningOptions });
   } catch (error) {
-    if (error instanceof RangeError) throw fail.badRequest(error.message.replace(/^screenRespondents: /, 'Screening: '), 'invalid-screening');
+    if (error instanceof RangeError && error.message.startsWith('screenRespondents: ')) {
+      throw fail.badRequest(error.message.replace(/^screenRespondents: /, 'Screening: '), 'invalid-screening');
+    }
     throw error;
   }
-  const document: StoredWaveSetup = {
-    ...before,
-    version: STORED_SETUP_VERSION,
-    columns: setupOf(confirmed.columns),
-    source: before.source ?? read.source,
-    buildWarnings: wave.warnings,
-    screeningNote: null,
-    ...confirmedParts(wave),
-  };
-  return { setup: confirmed, wave, screening, document };
+  return { accepted, document: confirmedDocument(before, accepted, read.source) };
 }
 
-function previewRow(row: WaveRow, rebuilt: Rebuilt, status: WaveRow['status']): WaveRow {
+/** A confirmed wave under other exclusions, worked out from its stored matrix. */
+interface Reexcluded {
+  exclusions: number[];
+  document: StoredWaveSetup;
+}
+
+function reexclude(row: WaveRow, stored: StoredWaveSetup, exclusions: readonly unknown[]): Reexcluded {
+  if (!row.matrix) throw new Error(`wave ${row.id} is confirmed but has no stored matrix`);
+  const matrix = decodeMatrix(new Uint8Array(row.matrix.buffer, row.matrix.byteOffset, row.matrix.byteLength));
+  const items = getDb()
+    .select({ id: waveItems.itemId, header: waveItems.header })
+    .from(waveItems)
+    .where(eq(waveItems.waveId, row.id))
+    .orderBy(asc(waveItems.position))
+    .all();
+  const { excluded, warnings } = applyExclusions({ matrix, items, warnings: stored.buildWarnings }, exclusions);
+  return { exclusions: excluded, document: { ...stored, buildWarnings: warnings } };
+}
+
+/** What a proposed wave's row would become on confirmation (dry runs). */
+function previewRow(row: WaveRow, document: StoredWaveSetup, screening: ScreeningResult, wave: BuiltWave): WaveRow {
   return {
     ...row,
-    status,
-    setup: rebuilt.document,
-    screening: rebuilt.screening,
-    exclusions: [...rebuilt.wave.excluded],
-    rowCount: rebuilt.wave.respondents,
-    itemCount: rebuilt.wave.items.length,
-    respondentIds: rebuilt.wave.respondentIds ? [...rebuilt.wave.respondentIds] : null,
+    setup: document,
+    screening,
+    exclusions: [...wave.excluded],
+    rowCount: wave.respondents,
+    itemCount: wave.items.length,
+    respondentIds: wave.respondentIds ? [...wave.respondentIds] : null,
   };
 }
 
@@ -120,7 +128,7 @@ function previewRow(row: WaveRow, rebuilt: Rebuilt, status: WaveRow['status']): 
  * @throws HttpError 400 `setup-required` (proposed wave without a setup), `exclusions-required`
  *   (confirmed wave without exclusions), `invalid-screening`; 409 `wave-confirmed` when the
  *   setup or screening of a confirmed wave would change, or another confirmation came first.
- * @throws {WaveRefusal} 400 for an invalid setup or exclusions (see validateSetup, checkExclusions).
+ * @throws {WaveRefusal} 400 for an invalid setup or exclusions (see validateSetup, applyExclusions).
  * @returns whether it was stored, and the view of the wave.
  * References: Paredown api.md (PUT /api/waves/{id}/setup); methods.md §6 (screening); docs/decisions/005-storing-waves.md.
  */
@@ -140,13 +148,17 @@ export async function confirmWave(user: CurrentUser, study: StudyRow, row: WaveR
     if (request.exclusions === undefined) {
       throw fail.badRequest(`"${row.label}" is confirmed: send its exclusions (0-based respondent rows) to change them.`, 'exclusions-required');
     }
-    const exclusions = checkExclusions(request.exclusions, row.rowCount);
-    const rebuilt = await rebuild(row, { columns: stored.columns }, exclusions, options);
-    if (dryRun) return { stored: false, view: assembleView({ row: previewRow(row, rebuilt, 'confirmed'), stored: rebuilt.document, screening: rebuilt.screening, respondentIds: rebuilt.wave.respondentIds, items: storedWaveView(row, true).items, exclusions }, true) };
+    const changed = reexclude(row, stored, request.exclusions);
+    const { exclusions } = changed;
+    if (dryRun) {
+      // Only the exclusions and the warnings that depend on them differ from the stored wave.
+      const preview: WaveRow = { ...row, setup: changed.document, exclusions };
+      return { stored: false, view: assembleView({ row: preview, stored: changed.document, screening: storedScreening, respondentIds: row.respondentIds, items: storedWaveView(row, true).items, exclusions }, true) };
+    }
     db.transaction((tx) => {
       const current = tx.select({ exclusions: waves.exclusions }).from(waves).where(eq(waves.id, row.id)).get();
       if (!current) throw fail.notFound('No such wave among your teams.', 'wave-not-found');
-      tx.update(waves).set({ exclusions, setup: { ...stored, buildWarnings: rebuilt.wave.warnings } }).where(eq(waves.id, row.id)).run();
+      tx.update(waves).set({ exclusions, setup: changed.document }).where(eq(waves.id, row.id)).run();
       logActivity(tx, {
         teamId: study.teamId,
         studyId: study.id,
@@ -161,33 +173,16 @@ export async function confirmWave(user: CurrentUser, study: StudyRow, row: WaveR
   if (request.setup === undefined) {
     throw fail.badRequest('Send the column setup to confirm (the proposal\'s columns, changed where needed).', 'setup-required');
   }
-  const rebuilt = await rebuild(row, request.setup, request.exclusions ?? [], request.screening ?? {});
-  const { wave, screening, document } = rebuilt;
+  const { accepted, document } = await rebuild(row, request.setup, request.exclusions ?? [], request.screening ?? {});
+  const { wave, screening } = accepted;
   if (dryRun) {
-    return { stored: false, view: assembleView({ row: previewRow(row, rebuilt, 'proposed'), stored: document, screening, respondentIds: wave.respondentIds, items: itemViews(wave), exclusions: wave.excluded }, true) };
+    return { stored: false, view: assembleView({ row: previewRow(row, document, screening, wave), stored: document, screening, respondentIds: wave.respondentIds, items: itemViews(wave), exclusions: wave.excluded }, true) };
   }
-  const matrix = Buffer.from(encodeMatrix(wave.matrix));
   db.transaction((tx) => {
     const current = tx.select({ status: waves.status }).from(waves).where(eq(waves.id, row.id)).get();
     if (!current) throw fail.notFound('No such wave among your teams.', 'wave-not-found');
     if (current.status !== 'proposed') throw fail.conflict(`"${row.label}" was confirmed meanwhile; reload it to see its setup.`, 'wave-confirmed');
-    tx.update(waves).set({
-      status: 'confirmed',
-      setup: document,
-      screening,
-      exclusions: [...wave.excluded],
-      rowCount: wave.respondents,
-      itemCount: wave.items.length,
-      matrix,
-      respondentIds: wave.respondentIds ? [...wave.respondentIds] : null,
-      confirmedAt: new Date(),
-    }).where(eq(waves.id, row.id)).run();
-    tx.delete(waveItems).where(eq(waveItems.waveId, row.id)).run();
-    const itemRows = wave.items.map((item, position) => ({ waveId: row.id, position, itemId: item.id, ...itemDescription(item) }));
-    // A few hundred rows per statement keeps well inside SQLite's limit on bound parameters.
-    for (let start = 0; start < itemRows.length; start += ITEM_ROWS_PER_INSERT) {
-      tx.insert(waveItems).values(itemRows.slice(start, start + ITEM_ROWS_PER_INSERT)).run();
-    }
+    writeConfirmedWave(tx, { id: row.id }, document, accepted);
     logActivity(tx, {
       teamId: study.teamId,
       studyId: study.id,

@@ -10,7 +10,7 @@
  * other member gets aggregates only ({@link screeningSummary}, no proposal, no examples).
  */
 import type {
-  BuiltWave, ColumnProposal, ColumnSetup, ItemCounts, ScreeningFlag, ScreeningOptions, ScreeningResult, TableSource, WaveWarning,
+  AcceptedWave, BuiltWave, ColumnProposal, ColumnSetup, ItemCounts, ProposedSetup, ReadWave, ScreeningFlag, ScreeningOptions, ScreeningResult, WaveSource, WaveWarning,
 } from '../../ingest';
 import type { waves } from '../../../db/schema';
 
@@ -20,13 +20,8 @@ export type WaveRow = typeof waves.$inferSelect;
 /** Version of the stored setup document written by this module. */
 export const STORED_SETUP_VERSION = 1;
 
-/** How the wave's files were read (enough to read them again exactly). */
-export interface StoredSource extends TableSource {
-  /** The codebook file's name as uploaded, or null. */
-  readonly codebookName: string | null;
-  /** Where the codebook came from: its own file, a sheet of the workbook, or none. */
-  readonly codebookFrom: 'file' | 'sheet' | null;
-}
+/** How the wave's files were read (enough to read them again exactly): the ingest's WaveSource. */
+export type StoredSource = WaveSource;
 
 /** An outcome column kept with a confirmed wave. */
 export interface StoredOutcome {
@@ -275,5 +270,48 @@ export function confirmedParts(wave: BuiltWave): Required<Pick<StoredWaveSetup, 
     itemCounts: Object.fromEntries(wave.items.map((item): [string, ItemCounts] => [item.id, item.counts])),
     outcomes: wave.outcomes.map(({ id, header, values, counts }) => ({ id, header, values: Array.from(values, finiteOrNull), counts })),
     weight: wave.weight ? Array.from(wave.weight, finiteOrNull) : null,
+  };
+}
+
+/** The parts of the setup document fixed at upload: the proposal, how the files were read and their warnings. */
+export type ProposalParts = Pick<StoredWaveSetup, 'version' | 'columns' | 'proposal' | 'respondents' | 'source' | 'warnings'>;
+
+/**
+ * The upload-time parts of a wave's setup document, shared by uploads and the demo seed.
+ * @param read the files as read.
+ * @param proposal the proposed setup.
+ * @param serverWarnings warnings of the server's own (e.g. `file-uploaded-before`).
+ * @returns version, columns (the proposal's setup), the proposal without examples of ignored columns, respondents, source, warnings.
+ * References: docs/decisions/005-storing-waves.md (what the JSON columns hold).
+ */
+export function proposalParts(read: Pick<ReadWave, 'source' | 'warnings'>, proposal: ProposedSetup, serverWarnings: readonly WaveWarning[] = []): ProposalParts {
+  return {
+    version: STORED_SETUP_VERSION,
+    columns: setupOf(proposal.columns),
+    proposal: withoutIgnoredExamples(proposal.columns),
+    respondents: proposal.respondents,
+    source: read.source,
+    warnings: [...read.warnings, ...proposal.warnings, ...serverWarnings],
+  };
+}
+
+/**
+ * The setup document of a confirmed wave: what was kept at upload, with the confirmed setup, the
+ * warnings of the wave built under it and its confirmed parts. Shared by confirmation and the demo seed.
+ * @param before the document so far (the stored one of a proposed wave, or the seed's proposal parts).
+ * @param accepted the wave accepted under the confirmed setup.
+ * @param source how the files were read this time (used when `before` does not say).
+ * @returns the document.
+ * References: docs/decisions/005-storing-waves.md; docs/decisions/007-one-way-in-for-waves.md.
+ */
+export function confirmedDocument(before: ProposalParts | StoredWaveSetup, accepted: AcceptedWave, source: StoredSource): StoredWaveSetup {
+  return {
+    ...before,
+    version: STORED_SETUP_VERSION,
+    columns: setupOf(accepted.setup.columns),
+    source: before.source ?? source,
+    buildWarnings: accepted.wave.warnings,
+    screeningNote: null,
+    ...confirmedParts(accepted.wave),
   };
 }

@@ -1,24 +1,23 @@
 /**
- * Uploading a wave: read the responses (and codebook) as the reader does, propose the column
- * setup, preview the screening under that proposal, then keep the originals and the proposed
- * wave in one transaction. The same upload to the same study again is recognised and answered
- * with the wave already there (docs/decisions/005-storing-waves.md).
+ * Uploading a wave: read the responses (and codebook) with the one reader, propose the column
+ * setup, preview the screening under that proposal (acceptWave), then keep the originals (the
+ * file store) and the proposed wave in one transaction. The same upload to the same study again is
+ * recognised and answered with the wave already there (docs/decisions/005-storing-waves.md, 007).
  */
 import { and, eq, isNull } from 'drizzle-orm';
 import { waves } from '../../../db/schema';
 import {
-  buildWave, contentHash, isWaveRefusal, proposeSetup, screenRespondents, type ProposedSetup, type ScreeningResult, type WaveTable, type WaveWarning,
+  acceptWave, contentHash, isWaveRefusal, proposeSetup, type ProposedSetup, type ScreeningResult, type WaveTable, type WaveWarning,
 } from '../../ingest';
 import { logActivity } from '../activity';
-import { getConfig } from '../config';
 import type { CurrentUser } from '../current-user';
 import { getDb } from '../db';
+import { mediaTypeOf, serverFileStore } from '../file-store';
 import type { StudyRow } from '../guard';
 import { newId } from '../ids';
 import type { UploadForm } from './read-upload-form';
-import { readWaveFiles, serverReadLimits } from './read-wave-files';
-import { mediaTypeOf, UploadFiles } from './store-upload-files';
-import { setupOf, STORED_SETUP_VERSION, withoutIgnoredExamples, type StoredWaveSetup, type WaveRow } from './stored-wave';
+import { readWaveFiles } from './read-wave-files';
+import { proposalParts, type StoredWaveSetup, type WaveRow } from './stored-wave';
 import { storedWaveView, type WaveView } from './wave-view';
 
 /** The outcome of an upload. */
@@ -38,8 +37,8 @@ interface Preview {
 
 function previewScreening(table: WaveTable, proposal: ProposedSetup): Preview {
   try {
-    const wave = buildWave(table, proposal);
-    return { screening: screenRespondents(wave), respondentIds: wave.respondentIds, warnings: wave.warnings, note: null };
+    const { wave, screening } = acceptWave(table, { setup: proposal });
+    return { screening, respondentIds: wave.respondentIds, warnings: wave.warnings, note: null };
   } catch (error) {
     if (!isWaveRefusal(error)) throw error;
     return { screening: null, respondentIds: null, warnings: [], note: `No screening yet: ${error.message}` };
@@ -63,86 +62,63 @@ function nextPilotLabel(tx: Pick<ReturnType<typeof getDb>, 'select'>, studyId: s
  * References: Paredown api.md (POST /api/studies/{id}/waves); docs/decisions/005-storing-waves.md.
  */
 export async function uploadWave(user: CurrentUser, study: StudyRow, form: UploadForm): Promise<UploadOutcome> {
-  const read = await readWaveFiles(
-    { fileName: form.file.name, bytes: form.file.bytes, codebookName: form.codebook?.name ?? null, codebookBytes: form.codebook?.bytes ?? null, sheet: form.sheet },
-    serverReadLimits(),
-  );
+  const read = await readWaveFiles({
+    fileName: form.file.name, bytes: form.file.bytes, codebookName: form.codebook?.name ?? null, codebookBytes: form.codebook?.bytes ?? null, sheet: form.sheet,
+  });
   const proposal = proposeSetup(read.table, read.codebook);
   const preview = previewScreening(read.table, proposal);
   const fileHash = contentHash(form.file.bytes);
   const codebookHash = form.codebook ? contentHash(form.codebook.bytes) : null;
   const sheet = read.table.source.sheet;
-  const proposed = withoutIgnoredExamples(proposal.columns);
 
   const db = getDb();
-  const files = new UploadFiles(getConfig().uploadDir);
-  let result: { duplicate: boolean; waveId: string };
-  try {
-    result = db.transaction((tx) => {
-      const sameUpload = tx
-        .select({ id: waves.id, label: waves.label, codebookHash: waves.codebookHash })
-        .from(waves)
-        .where(and(eq(waves.studyId, study.id), eq(waves.fileHash, fileHash), sheet === null ? isNull(waves.sheet) : eq(waves.sheet, sheet)))
-        .all();
-      const identical = sameUpload.find((wave) => wave.codebookHash === codebookHash);
-      if (identical && !form.asNewWave) return { duplicate: true, waveId: identical.id };
-      const serverWarnings: WaveWarning[] = sameUpload.length > 0 ? [{
-        code: 'file-uploaded-before',
-        columns: [],
-        message: `This file is already in the study as ${sameUpload.map((wave) => `"${wave.label}"`).join(', ')}; this upload is kept as a separate wave.`,
-      }] : [];
-      const stored: StoredWaveSetup = {
-        version: STORED_SETUP_VERSION,
-        columns: setupOf(proposal.columns),
-        proposal: proposed,
-        respondents: proposal.respondents,
-        source: read.source,
-        warnings: [...read.warnings, ...proposal.warnings, ...serverWarnings],
-        buildWarnings: preview.warnings,
-        screeningNote: preview.note,
-      };
-      const responsesFile = files.store(tx, form.file.bytes, form.file.name, mediaTypeOf(read.table.source.format), fileHash);
-      const codebookFile = form.codebook && codebookHash !== null
-        ? files.store(tx, form.codebook.bytes, form.codebook.name, mediaTypeOf(extensionFormat(form.codebook.name)), codebookHash)
-        : null;
-      const id = newId();
-      const label = form.label ?? nextPilotLabel(tx, study.id);
-      tx.insert(waves).values({
-        id,
-        studyId: study.id,
-        label,
-        fileHash: responsesFile.hash,
-        codebookHash: codebookFile?.hash ?? null,
-        format: read.table.source.format,
-        sheet,
-        status: 'proposed',
-        setup: stored,
-        screening: preview.screening,
-        exclusions: [],
-        rowCount: proposal.respondents,
-        itemCount: proposal.columns.filter((column) => column.role === 'item').length,
-        matrix: null,
-        respondentIds: preview.respondentIds ? [...preview.respondentIds] : null,
-        createdBy: user.id,
-      }).run();
-      logActivity(tx, {
-        teamId: study.teamId,
-        studyId: study.id,
-        userId: user.id,
-        action: 'wave.uploaded',
-        detail: { waveId: id, label, fileName: form.file.name, fileHash, codebookName: form.codebook?.name ?? null, rows: proposal.respondents, columns: proposal.columns.length },
-      });
-      return { duplicate: false, waveId: id };
+  const result = serverFileStore().transaction(db, (tx, files): { duplicate: boolean; waveId: string } => {
+    const sameUpload = tx
+      .select({ id: waves.id, label: waves.label, codebookHash: waves.codebookHash })
+      .from(waves)
+      .where(and(eq(waves.studyId, study.id), eq(waves.fileHash, fileHash), sheet === null ? isNull(waves.sheet) : eq(waves.sheet, sheet)))
+      .all();
+    const identical = sameUpload.find((wave) => wave.codebookHash === codebookHash);
+    if (identical && !form.asNewWave) return { duplicate: true, waveId: identical.id };
+    const serverWarnings: WaveWarning[] = sameUpload.length > 0 ? [{
+      code: 'file-uploaded-before',
+      columns: [],
+      message: `This file is already in the study as ${sameUpload.map((wave) => `"${wave.label}"`).join(', ')}; this upload is kept as a separate wave.`,
+    }] : [];
+    const stored: StoredWaveSetup = { ...proposalParts(read, proposal, serverWarnings), buildWarnings: preview.warnings, screeningNote: preview.note };
+    const responsesFile = files.write(form.file.bytes, form.file.name, mediaTypeOf(read.table.source.format), fileHash);
+    const codebookFile = form.codebook && codebookHash !== null
+      ? files.write(form.codebook.bytes, form.codebook.name, mediaTypeOf(form.codebook.name), codebookHash)
+      : null;
+    const id = newId();
+    const label = form.label ?? nextPilotLabel(tx, study.id);
+    tx.insert(waves).values({
+      id,
+      studyId: study.id,
+      label,
+      fileHash: responsesFile.hash,
+      codebookHash: codebookFile?.hash ?? null,
+      format: read.table.source.format,
+      sheet,
+      status: 'proposed',
+      setup: stored,
+      screening: preview.screening,
+      exclusions: [],
+      rowCount: proposal.respondents,
+      itemCount: proposal.columns.filter((column) => column.role === 'item').length,
+      matrix: null,
+      respondentIds: preview.respondentIds ? [...preview.respondentIds] : null,
+      createdBy: user.id,
+    }).run();
+    logActivity(tx, {
+      teamId: study.teamId,
+      studyId: study.id,
+      userId: user.id,
+      action: 'wave.uploaded',
+      detail: { waveId: id, label, fileName: form.file.name, fileHash, codebookName: form.codebook?.name ?? null, rows: proposal.respondents, columns: proposal.columns.length },
     });
-  } catch (error) {
-    files.undo(db);
-    throw error;
-  }
+    return { duplicate: false, waveId: id };
+  });
   const row = db.select().from(waves).where(eq(waves.id, result.waveId)).get() as WaveRow;
   return { duplicate: result.duplicate, view: storedWaveView(row, true) };
-}
-
-function extensionFormat(name: string): string {
-  const dot = name.lastIndexOf('.');
-  return dot < 0 ? '' : name.slice(dot + 1).toLowerCase();
 }

@@ -1,5 +1,8 @@
 /**
- * Words and number formats the audit islands and the audit page share (pure; safe in islands).
+ * Labels a reader sees for the audit's states and choices: status and stage words, methods,
+ * missing-data policies, constraints and actions, and the one-line summary of an audit's
+ * settings. Pure; shared by the islands, the pages and (later) the workspace and the memo.
+ * The labels of the settings themselves live in their descriptors (src/lib/audit/settings-table.ts).
  */
 
 /** What each audit status is called on screen. */
@@ -18,10 +21,17 @@ export const stageWords: Record<string, string> = {
 /** Correlation methods as shown. */
 export const methodWords: Record<string, string> = { pearson: 'Pearson', spearman: 'Spearman', polychoric: 'Polychoric' };
 
+/** Why each correlation method suits the items, in one sentence (the memo's settings section). */
+export const methodRationale: Record<string, string> = {
+  pearson: 'Pearson correlations treat the answers as interval scores; with five or more ordered categories and no strong skew they agree closely with the alternatives and keep every statistic comparable with a later driver model.',
+  spearman: 'Spearman correlations use only the order of the answers (mid-ranks), which suits skewed rating items whose categories need not be equally spaced.',
+  polychoric: 'Polychoric correlations estimate how the continuous attitudes behind two ordinal items correlate, which suits items with few categories or skewed answers; they assume a normal trait behind each item.',
+};
+
 /** Missing-data policies as shown. */
 export const missingWords: Record<string, string> = { pairwise: 'pairwise deletion', listwise: 'listwise deletion' };
 
-/** Constraints that can block a cut, as shown. */
+/** Constraints that can block a cut, as shown in a list (the reason's clauses are in reasons.ts). */
 export const constraintWords: Record<string, string> = {
   locked: 'the item is locked',
   'min-items': 'its scale would fall below the minimum number of items',
@@ -31,40 +41,7 @@ export const constraintWords: Record<string, string> = {
 };
 
 /** Actions as shown. */
-export const actionWords: Record<string, string> = { drop: 'Drop', merge: 'Merge', reword: 'Reword', keep: 'Keep' };
-
-/**
- * A number with a fixed count of decimals, or a dash for a value that does not exist.
- * @param value the number or null.
- * @param digits decimals (2 by default).
- * @returns the text (en-GB, minus sign as U+2212).
- */
-export function formatNumber(value: number | null | undefined, digits = 2): string {
-  if (value === null || value === undefined || !Number.isFinite(value)) return '—';
-  return value.toLocaleString('en-GB', { minimumFractionDigits: digits, maximumFractionDigits: digits }).replace('-', '\u2212');
-}
-
-/**
- * A share as a whole percentage.
- * @param value 0 to 1, or null.
- * @returns e.g. `94%`, or a dash.
- */
-export function formatShare(value: number | null | undefined): string {
-  if (value === null || value === undefined || !Number.isFinite(value)) return '—';
-  return `${Math.round(value * 100)}%`;
-}
-
-/**
- * A duration in words.
- * @param milliseconds the duration.
- * @returns e.g. `0.9 s`, `2 min 5 s`.
- */
-export function formatDuration(milliseconds: number | null | undefined): string {
-  if (milliseconds === null || milliseconds === undefined || !Number.isFinite(milliseconds)) return '—';
-  if (milliseconds < 60_000) return `${(milliseconds / 1000).toLocaleString('en-GB', { maximumFractionDigits: 1 })} s`;
-  const minutes = Math.floor(milliseconds / 60_000);
-  return `${minutes} min ${Math.round((milliseconds - minutes * 60_000) / 1000)} s`;
-}
+export const actionWords: Record<string, string> = { drop: 'Drop', merge: 'Merge', reword: 'Reword', keep: 'Keep', undecided: 'Undecided' };
 
 /** The settings line of an audit, e.g. "Pearson, pairwise deletion · 200 resamples (seed 1)". */
 export function settingsLine(settings: { method: string; missing: string; bootstrap: number; seed: number; outcome?: string | null }): string {

@@ -1,7 +1,7 @@
 /** `npm run db:seed`: seeds the demo into the configured database when it is empty and DEMO_SEED is on. */
 import { getConfig } from '../lib/server/config';
 import { getDb } from '../lib/server/db';
-import { seedDemo } from './seed';
+import { seedDemo } from '../lib/server/demo-seed';
 
 try {
   const config = getConfig();

@@ -7,14 +7,14 @@
 import bcrypt from 'bcryptjs';
 import { readFileSync } from 'node:fs';
 import { join, resolve } from 'node:path';
-import { memberships, studies, teams, users, waveItems, waves } from './schema';
-import type { Db } from './client';
-import type { TeamRole } from './schema';
-import { storeFile } from './stored-files';
-import { logActivity } from '../lib/server/activity';
-import { buildWave, encodeMatrix, proposeSetup, screenRespondents } from '../lib/ingest';
-import { readWaveFiles } from '../lib/server/waves/read-wave-files';
-import { confirmedParts, itemDescription, setupOf, STORED_SETUP_VERSION, withoutIgnoredExamples, type StoredWaveSetup } from '../lib/server/waves/stored-wave';
+import type { Db } from '../../db/client';
+import { memberships, studies, teams, users, type TeamRole } from '../../db/schema';
+import { acceptProposal } from '../ingest';
+import { logActivity } from './activity';
+import { FileStore, mediaTypeOf } from './file-store';
+import { readWaveFiles } from './waves/read-wave-files';
+import { confirmedDocument, proposalParts } from './waves/stored-wave';
+import { writeConfirmedWave } from './waves/write-confirmed-wave';
 
 /** The password of every demo account (printed in the README). */
 export const demoPassword = 'paredown-demo';
@@ -74,36 +74,20 @@ export async function seedDemo(db: Db, options: SeedOptions): Promise<SeedOutcom
   const fixturesDir = resolve(options.fixturesDir ?? 'fixtures/demo');
   const responsesName = 'library-pilot-1.csv';
   const codebookName = 'library-codebook.csv';
-  const responses = readFileSync(join(fixturesDir, responsesName));
-  const codebookBytes = readFileSync(join(fixturesDir, codebookName));
-  // The wave goes through the same reader as an upload (src/lib/ingest, by way of the upload
-  // route's readWaveFiles, with the reader's default limits), with the proposed column setup and
-  // the proposed screening exclusions accepted, as a designer would.
-  const read = await readWaveFiles(
-    { fileName: responsesName, bytes: new Uint8Array(responses), codebookName, codebookBytes: new Uint8Array(codebookBytes), sheet: null },
-    {},
-  );
-  const proposal = proposeSetup(read.table, read.codebook);
-  const screening = screenRespondents(buildWave(read.table, proposal));
-  const wave = buildWave(read.table, proposal, screening.proposedExclusions);
-  // The setup document as an upload followed by its confirmation stores it
-  // (src/lib/server/waves/upload-wave.ts and confirm-wave.ts; StoredWaveSetup in stored-wave.ts):
-  // the proposal without the example cells of ignored columns (the demo's e-mail addresses), how
-  // the file was read, its warnings, and the outcome columns, so audits can fit the outcome model.
-  const storedSetup: StoredWaveSetup = {
-    version: STORED_SETUP_VERSION,
-    columns: setupOf(proposal.columns),
-    proposal: withoutIgnoredExamples(proposal.columns),
-    respondents: proposal.respondents,
-    source: read.source,
-    warnings: [...read.warnings, ...proposal.warnings],
-    buildWarnings: wave.warnings,
-    screeningNote: null,
-    ...confirmedParts(wave),
-  };
+  const responses = new Uint8Array(readFileSync(join(fixturesDir, responsesName)));
+  const codebookBytes = new Uint8Array(readFileSync(join(fixturesDir, codebookName)));
+  // The wave comes in the one way every wave does (docs/decisions/007-one-way-in-for-waves.md):
+  // the one reader (as the upload route reads, with the reader's default limits), the proposed
+  // column setup and the proposed screening exclusions accepted as a designer would, and the
+  // setup document and row an upload followed by its confirmation stores (proposalParts,
+  // confirmedDocument, writeConfirmedWave).
+  const read = await readWaveFiles({ fileName: responsesName, bytes: responses, codebookName, codebookBytes, sheet: null }, {});
+  const accepted = acceptProposal(read);
+  const document = confirmedDocument(proposalParts(read, accepted.proposal), accepted, read.source);
+  const files = new FileStore(options.uploadDir);
   const passwordHash = await bcrypt.hash(demoPassword, 10);
 
-  db.transaction((tx) => {
+  files.transaction(db, (tx, stored) => {
     if (tx.select({ id: users.id }).from(users).limit(1).get()) return;
     tx.insert(teams).values([
       { id: demoIds.demoTeam, name: demoTeamName },
@@ -132,35 +116,20 @@ export async function seedDemo(db: Db, options: SeedOptions): Promise<SeedOutcom
       description: 'A short module on local buses and cycling, in planning. Invented.',
       createdBy: userIds.get('outsider@paredown.test')!,
     }).run();
-    const responsesFile = storeFile(tx, options.uploadDir, responses, responsesName, 'text/csv');
-    const codebookFile = storeFile(tx, options.uploadDir, codebookBytes, codebookName, 'text/csv');
-    tx.insert(waves).values({
-      id: demoIds.demoWave,
-      studyId: demoIds.demoStudy,
-      label: 'Pilot 1',
-      fileHash: responsesFile.hash,
-      codebookHash: codebookFile.hash,
-      format: read.table.source.format,
-      sheet: read.table.source.sheet,
-      status: 'confirmed',
-      setup: storedSetup,
-      screening,
-      exclusions: [...wave.excluded],
-      rowCount: wave.respondents,
-      itemCount: wave.items.length,
-      matrix: Buffer.from(encodeMatrix(wave.matrix)),
-      respondentIds: wave.respondentIds ? [...wave.respondentIds] : null,
-      createdBy: designer,
-      confirmedAt: new Date(),
-    }).run();
-    tx.insert(waveItems).values(
-      wave.items.map((item, position) => ({
-        waveId: demoIds.demoWave,
-        position,
-        itemId: item.id,
-        ...itemDescription(item),
-      })),
-    ).run();
+    const responsesFile = stored.write(responses, responsesName, mediaTypeOf(read.table.source.format));
+    const codebookFile = stored.write(codebookBytes, codebookName, mediaTypeOf(codebookName));
+    writeConfirmedWave(tx, {
+      insert: {
+        id: demoIds.demoWave,
+        studyId: demoIds.demoStudy,
+        label: 'Pilot 1',
+        fileHash: responsesFile.hash,
+        codebookHash: codebookFile.hash,
+        format: read.table.source.format,
+        sheet: read.table.source.sheet,
+        createdBy: designer,
+      },
+    }, document, accepted);
     logActivity(tx, { teamId: demoIds.demoTeam, userId: null, action: 'demo.seeded', detail: { study: demoIds.demoStudy } });
   });
   return { seeded: true, reason: 'demo seeded', matrixStored: true };

@@ -1,0 +1,51 @@
+import type { APIRoute } from 'astro';
+import type { DriverCoefficientView, DriverModelResponse } from '../../../../lib/api/driver-model';
+import type { AuditJson } from '../../../../lib/audit/audit-json';
+import { requireAuditAccess } from '../../../../lib/server/audit-jobs/audit-access';
+import { auditJobs } from '../../../../lib/server/audit-jobs/audit-jobs';
+import { endpoint } from '../../../../lib/server/endpoint';
+import { fail } from '../../../../lib/server/errors';
+
+/**
+ * GET /api/audits/{id}/driver-model (members: aggregates only): the audit's outcome model before
+ * and after the proposed cut, the rows it rests on, or a sentence saying why there is none.
+ * 409 `audit-not-done` until the audit is done.
+ */
+export const GET: APIRoute = endpoint(({ locals, params }) => {
+  const id = params.id ?? '';
+  requireAuditAccess(locals, id, 'read:audit');
+  const jobs = auditJobs();
+  const summary = jobs.summary(id);
+  if (!summary) throw fail.notFound('No such audit among your teams.', 'audit-not-found');
+  const text = jobs.resultText(id);
+  if (text === null) throw fail.conflict(`The audit is ${summary.status}; its driver model can be read once it is done.`, 'audit-not-done');
+  const audit = JSON.parse(text) as AuditJson;
+  const model = audit.outcomeModel;
+  let answer: DriverModelResponse;
+  if (!model) {
+    const skipped = audit.warnings.find((warning) => warning.code === 'outcome-model-skipped');
+    answer = {
+      model: null,
+      note: skipped?.message ?? 'This audit has no outcome: choose one in the audit settings to see how overlap inflates a driver model.',
+    };
+  } else {
+    answer = {
+      model: {
+        outcome: model.outcome,
+        n: model.n,
+        r2: model.r2,
+        adjR2: model.adjR2,
+        sigma: model.sigma,
+        completeRows: model.completeRows ?? model.n,
+        respondentsUsed: audit.input.respondentsUsed,
+        missing: audit.settings.missing,
+        coefficients: model.coefficients as DriverCoefficientView[],
+        afterCut: model.afterCut
+          ? { removed: model.afterCut.removed, n: model.afterCut.n, r2: model.afterCut.r2, adjR2: model.afterCut.adjR2, sigma: model.afterCut.sigma, coefficients: model.afterCut.coefficients }
+          : null,
+      },
+      note: null,
+    };
+  }
+  return new Response(JSON.stringify(answer), { headers: { 'Content-Type': 'application/json; charset=utf-8', 'Cache-Control': 'no-store' } });
+});

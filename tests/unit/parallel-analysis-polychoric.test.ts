@@ -1,0 +1,48 @@
+/**
+ * Parallel analysis on polychoric correlations (Garrido, Abad & Ponsoda 2013), checked loosely
+ * against psych::fa.parallel(x, cor = "poly", fa = "pc") within simulation error. psych's
+ * resampled reference ($pc.simr, the MEAN of the random eigenvalues, values.sim.mean in its
+ * source) shuffles each observed column independently, which keeps every item's marginal
+ * proportions, as our draws at the observed thresholds do in expectation.
+ * Fixture: scripts/reference/real-questionnaires.R → fixtures/reference/real-parallel-poly.json.
+ */
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { correlationMatrix, itemMatrixFromRows, parallelAnalysis, polychoricParallelAnalysis, symmetricEigenvalues } from '../../src/lib/stats';
+
+interface PaSet { data: string; items: string[]; rows: number[][]; observed: number[]; simulatedMean: number[]; resampledMean: number[]; ncomp: number; iterations: number; call: string }
+const fixture = JSON.parse(readFileSync(join(import.meta.dirname, '..', '..', 'fixtures', 'reference', 'real-parallel-poly.json'), 'utf8')) as { sets: PaSet[] };
+
+describe('polychoricParallelAnalysis against psych::fa.parallel(cor = "poly")', () => {
+  for (const set of fixture.sets) {
+    it(set.data, () => {
+      const data = itemMatrixFromRows(set.rows);
+      const poly = correlationMatrix(data, { method: 'polychoric', missing: 'listwise', repair: 'none' });
+      const observed = Array.from(symmetricEigenvalues(poly.matrix));
+      // set.call: $pc.values, the eigenvalues of psych's polychoric matrix
+      observed.forEach((value, k) => expect(value).toBeCloseTo(set.observed[k], 3));
+      const result = polychoricParallelAnalysis(observed, data.rows, poly.thresholds as number[][], { iterations: 20, seed: 2026 });
+      // set.call: $pc.simr (mean of 20 resampled polychoric eigenvalue sets); 20 draws of each
+      // side: the means agree within 0.04 (simulation error, from the spread of the draws).
+      result.randomMean.forEach((value, k) => expect(Math.abs(value - set.resampledMean[k])).toBeLessThan(0.04));
+      // set.call: $ncomp, observed eigenvalues above the resampled mean (Horn's criterion)
+      let aboveMean = 0;
+      while (aboveMean < observed.length && observed[aboveMean] > result.randomMean[aboveMean]) aboveMean++;
+      expect(aboveMean).toBe(set.ncomp);
+      // Random Pearson eigenvalues of normal data (the old reference) are the other, wrong yardstick.
+      const pearson = parallelAnalysis(observed, data.rows, { iterations: 20, seed: 2026 });
+      // Polychoric estimates vary more than Pearson r of normal data, so random polychoric eigenvalues spread wider.
+      expect(result.random95[0]).toBeGreaterThan(pearson.random95[0]);
+    });
+  }
+
+  it('repeats exactly for the same seed and refuses items without thresholds', () => {
+    const thresholds = [[-0.5, 0.5], [0], [-1, 0, 1]];
+    const a = polychoricParallelAnalysis([1.5, 0.9, 0.6], 100, thresholds, { iterations: 3, seed: 9 });
+    const b = polychoricParallelAnalysis([1.5, 0.9, 0.6], 100, thresholds, { iterations: 3, seed: 9 });
+    expect(a).toEqual(b);
+    expect(() => polychoricParallelAnalysis([1.5, 0.9, 0.6], 100, [[-0.5], [], [0]])).toThrow(RangeError);
+    expect(() => polychoricParallelAnalysis([1.5, 0.9], 100, thresholds)).toThrow(RangeError);
+  });
+});
