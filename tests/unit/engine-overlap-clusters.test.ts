@@ -25,6 +25,7 @@ function handEvidence(
   }
   const nothing = ids.map(() => null);
   return {
+    localDependence: null,
     items: ids.map((id) => ({ id, scale: 'S', text: null, locked: false, min: 1, max: 5 })),
     method: 'pearson',
     missing: 'pairwise',
@@ -66,14 +67,40 @@ function diagnostics(ids: string[], dimensions: [number | null, number[]][]): Co
 }
 
 describe('findOverlapClusters', () => {
-  it('forms connected components of the strong-pair graph, strongest pair first', () => {
+  it('forms clusters by complete linkage of the linked pairs, strongest pair first: a chain does not join its ends', () => {
     const ids = ['A', 'B', 'C', 'D', 'E', 'F'];
+    // A-B and B-C are strong, A-C is not: single linkage would chain A, B and C.
     const evidence = handEvidence(ids, [['A', 'B', 0.85], ['B', 'C', 0.82], ['A', 'C', 0.7], ['D', 'E', 0.9], ['E', 'F', 0.79]]);
     const { clusters } = findOverlapClusters(evidence, noWording(6), thresholds);
-    expect(clusters.map((cluster) => idsOf(evidence, cluster.items))).toEqual([['A', 'B', 'C'], ['D', 'E']]);
-    expect(clusters[0].strongPairs.map((pair) => pair.r)).toEqual([0.85, 0.82]);
-    expect(clusters[0].pairs).toHaveLength(3);
+    expect(clusters.map((cluster) => idsOf(evidence, cluster.items))).toEqual([['A', 'B'], ['D', 'E']]);
+    expect(clusters[0].strongPairs.map((pair) => pair.r)).toEqual([0.85]);
+    expect(clusters[0].links.map((pair) => pair.rules)).toEqual([['strong-pair']]);
     expect(clusters[0].maxR).toBe(0.85);
+    // With A-C strong as well, the three form one clique.
+    const clique = handEvidence(ids, [['A', 'B', 0.85], ['B', 'C', 0.82], ['A', 'C', 0.81]]);
+    expect(findOverlapClusters(clique, noWording(6), thresholds).clusters.map((cluster) => idsOf(clique, cluster.items))).toEqual([['A', 'B', 'C']]);
+  });
+
+  it('does not count a strong pair that does not stand out of a homogeneous scale', () => {
+    // Every pair of a four-item scale correlates .81-.84 (loadings near .9): nothing is redundant.
+    const ids = ['A', 'B', 'C', 'D'];
+    const evidence = handEvidence(ids, [['A', 'B', 0.84], ['A', 'C', 0.82], ['A', 'D', 0.81], ['B', 'C', 0.83], ['B', 'D', 0.82], ['C', 'D', 0.81]]);
+    expect(findOverlapClusters(evidence, noWording(4), thresholds).clusters).toHaveLength(0);
+  });
+
+  it('skips a near-dependency whose variance the intercept carries (an item-mean effect)', () => {
+    const ids = ['A', 'B', 'C'];
+    const base = handEvidence(ids, [['A', 'B', 0.1], ['A', 'C', 0.1], ['B', 'C', 0.1]]);
+    const evidence = {
+      ...base,
+      vif: [8, 8, 1],
+      collinearity: { columns: [-1, 0, 1, 2], conditionIndices: [1, 45], varianceProportions: [[0.1, 0.1, 0.1, 0.9], [0.9, 0.9, 0.9, 0.1]], rowsUsed: 300 },
+    };
+    const result = findOverlapClusters(evidence, noWording(3), thresholds);
+    expect(result.dependencies[0].interceptDominated).toBe(true);
+    expect(result.clusters).toHaveLength(0);
+    const centred = { ...evidence, collinearity: { ...evidence.collinearity, varianceProportions: [[0.9, 0.1, 0.1, 0.9], [0.1, 0.9, 0.9, 0.1]] } };
+    expect(findOverlapClusters(centred, noWording(3), thresholds).clusters.map((cluster) => idsOf(centred, cluster.items))).toEqual([['A', 'B']]);
   });
 
   it('takes the strong-pair threshold from the settings', () => {

@@ -83,14 +83,32 @@ describe('recommendCuts', () => {
     expect(reasonSentence(both.recommendation.because)).toMatch(/; no change is proposed: A5 stays because it is locked\.$/);
   });
 
-  it('merges when the pair is nearly perfect or the wording nearly identical, rewords when the wording differs', () => {
+  it('merges when the pair is nearly perfect or the wording nearly identical, and drops interchangeable items whatever their spelling', () => {
     expect(recommend({ mergeCorrelation: 0.93 }).recommendation.actions[0]).toMatchObject({ action: 'merge' }); // r = 0.9335 (R)
     const merged = recommend({}, [], () => 0.85).recommendation;
     expect(merged.actions[0]).toMatchObject({ action: 'merge', into: merged.keep });
-    const reworded = recommend({}, [], () => 0.1);
+    // Synonyms share few 3-grams ("Get angry easily" / "Lose my temper"): low similarity is no reason to reword.
+    expect(recommend({}, [], () => 0.1).recommendation.actions[0].action).toBe('drop');
+    expect(recommend({}, [], () => 0.5).recommendation.actions[0].action).toBe('drop');
+  });
+
+  it('rewords only an item of another scale than the keeper, and never an item marked not rewordable', () => {
+    const run = (rewordable: boolean): { recommendation: Recommendation; removed: string[] } => {
+      const { matrix, items } = referenceInput();
+      // A5 moved to its own scale: the codebook says it measures something else than A1.
+      const moved = items.map((item) => (item.id === 'A5' ? { ...item, scale: 'S9', rewordable } : item));
+      const resolved = resolveEngineSettings({});
+      const evidence = computeEvidence(matrix, moved, resolved);
+      const { clusters } = findOverlapClusters(evidence, moved.map(() => moved.map(() => null)), resolved);
+      const cuts = recommendCuts(evidence, clusters, resolved, scaleAlphaOracle(evidence, matrix));
+      const recommendation = cuts.recommendations.find((entry) => entry.cluster.includes('A5'))!;
+      return { recommendation, removed: cuts.removed.map((index) => moved[index].id) };
+    };
+    const reworded = run(true);
     expect(reworded.recommendation.actions[0]).toMatchObject({ action: 'reword', into: null });
     expect(reworded.removed).toEqual([]); // a reword removes nothing
-    expect(recommend({}, [], () => 0.5).recommendation.actions[0].action).toBe('drop');
+    const licensed = run(false);
+    expect(licensed.recommendation.actions.every((action) => action.action !== 'reword' && action.proposed !== 'reword')).toBe(true);
   });
 
   it('blocks a cut that would leave a scale below its minimum number of items', () => {
@@ -126,7 +144,7 @@ describe('recommendCuts', () => {
     const correlation = squareMatrixFromRows([[1, 0.1, 0.72], [0.1, 1, 0.7], [0.72, 0.7, 1]]);
     const items: EngineItem[] = ids.map((id) => ({ id, scale: null, text: null, locked: false, min: 1, max: 5 }));
     const evidence: EngineEvidence = {
-      items, method: 'pearson', missing: 'pairwise', rows: 300, completeData: true, usable: [0, 1, 2],
+      localDependence: null, items, method: 'pearson', missing: 'pairwise', rows: 300, completeData: true, usable: [0, 1, 2],
       correlation, pairN: squareMatrixFromRows(ids.map(() => ids.map(() => 300))), correlationRows: 300, repaired: false, covariance: correlation,
       vif: [6, 6, 12], tolerance: [null, null, null], r2: [null, null, null], topPartner: [null, null, null], exactDependencies: [], eigenvalues: [], conditionNumber: null,
       collinearity: { columns: [-1, 0, 1, 2], conditionIndices: [1, 40], varianceProportions: [[0.5, 0.1, 0.1, 0.1], [0.1, 0.9, 0.9, 0.9]], rowsUsed: 300 },
@@ -159,6 +177,9 @@ describe('recommendCuts', () => {
         alphaFloor: 0.6 + 0.25 * random.next(),
         maxAlphaDrop: 0.01 + 0.1 * random.next(),
         maxCutShare: 0.02 + 0.2 * random.next(),
+        // Local dependence on, kept cheap: the fixed relative-residual rule and a short EBIC path.
+        residualBootstrapDraws: 0,
+        ebicPenaltyCount: 10,
       });
       const evidence = computeEvidence(matrix, items, settings);
       const { clusters } = findOverlapClusters(evidence, items.map(() => items.map(() => null)), settings);

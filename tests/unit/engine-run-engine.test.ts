@@ -36,6 +36,16 @@ describe('runEngine', () => {
     expect(Object.keys(result.afterCut)).toEqual(expect.arrayContaining(['maxVif', 'conditionNumber', 'scales', 'itemsRemoved', 'minutesSaved']));
     const text = JSON.stringify(result);
     expect(text).not.toMatch(/NaN|Infinity/);
+    // Every recommendation says which evidence fired; every flagged pair carries all its figures (audit-json.md `pairs`).
+    for (const recommendation of result.recommendations) expect(recommendation.evidence.rules.length).toBeGreaterThan(0);
+    expect(result.pairs.length).toBeGreaterThan(0);
+    for (const pair of result.pairs) {
+      expect(Object.keys(pair)).toEqual(expect.arrayContaining(['items', 'r', 'lower', 'upper', 'n', 'residual', 'residualCritical', 'wto', 'partial', 'wording', 'rules']));
+      expect((pair.rules ?? []).length).toBeGreaterThan(0);
+    }
+    const twin = result.pairs.find((pair) => pair.items.includes('coll_2') && pair.items.includes('coll_7'))!;
+    expect(twin.rules).toEqual(expect.arrayContaining(['strong-pair', 'local-dependence-residual']));
+    expect(twin.residual).toBeGreaterThan(twin.residualCritical!);
   });
 
   it('reports the what-if of exactly the proposed drops and merges, at 8 seconds an item', async () => {

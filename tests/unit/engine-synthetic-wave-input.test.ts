@@ -16,7 +16,7 @@ const wave: SyntheticWave = {
     { item: 'q2', scale: 'S', reverse: true, min: 1, max: 7, missing: [9], text: '' },
     { item: 'overall', scale: '', reverse: false, min: 0, max: 10, missing: [], text: 'Overall' },
   ],
-  truth: { plantedPairs: [], duplicates: [], reverseTwins: [], constantItems: [], scales: [], straightliners: [], speeders: [], outcome: 'overall' },
+  truth: { plantedPairs: [], duplicates: [], doublets: [], crossLoadings: [], ownLoadingScales: [], reverseTwins: [], constantItems: [], scales: [], straightliners: [], speeders: [], outcome: 'overall' },
 };
 
 describe('engineInputFromSyntheticWave', () => {

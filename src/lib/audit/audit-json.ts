@@ -124,6 +124,24 @@ export interface AuditOutcomeModelJson {
   [extra: string]: unknown;
 }
 
+/** Overlap evidence of one flagged pair (audit-json.md `pairs`). */
+export interface AuditPairJson {
+  items: string[];
+  r: number;
+  lower: number | null;
+  upper: number | null;
+  n: number;
+  /** Residual correlation after the scale's one-factor model (Q3 scale); null across scales or in scales of fewer than four items. */
+  residual: number | null;
+  relativeResidual: number | null;
+  residualCritical: number | null;
+  wto: number | null;
+  partial: number | null;
+  wording: number | null;
+  rules: string[];
+  [extra: string]: unknown;
+}
+
 export interface AuditJson {
   schema: typeof AUDIT_SCHEMA;
   settings: AuditSettingsJson;

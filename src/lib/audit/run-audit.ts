@@ -253,6 +253,7 @@ export async function runAudit(
     recommendations: engine.recommendations.map(recommendationJson),
     afterCut,
     clusters: engine.clusters,
+    pairs: engine.pairs.map((pair) => ({ ...pair, items: [...pair.items], rules: [...(pair.rules ?? [])] })),
     outcomeModel,
     ...(input.screening ? { screening: { itemTypes: { ...input.screening.itemTypes }, rules: input.screening.rules.map((rule) => ({ ...rule })), proposedExclusions: input.screening.proposedExclusions } } : {}),
     warnings: dedupeWarnings(warnings),

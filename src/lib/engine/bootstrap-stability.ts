@@ -12,7 +12,9 @@
  * Near-identical twins give a high overlap share and a keeper that flips between them: the
  * overlap is stable, the choice between the twins is not (choose by wording).
  *
- * Each resample runs the evidence at `decision` detail (no omega, no alpha if deleted). With no
+ * Each resample runs the evidence at `decision` detail (no omega, no alpha if deleted), with the
+ * local-dependence evidence recomputed (residuals, network, wTO) but each scale's residual
+ * critical value and the network penalty taken from the full sample, to keep it affordable. With no
  * missing answer the core's complete-data path (one cross-product pass) computes the Pearson
  * matrix; with missing answers each pair is computed over its own complete rows.
  */
@@ -23,6 +25,7 @@ import type { EngineSettings } from './engine-settings';
 import { findOverlapClusters } from './overlap-clusters';
 import { recommendCuts, type Recommendation } from './recommend-cuts';
 import type { EngineItem } from './types';
+import type { LocalDependenceReuse } from './local-dependence';
 
 /** Progress callback: a stage name and the fraction of it done, in [0, 1]. */
 export type EngineProgress = (stage: string, fraction: number) => void;
@@ -33,6 +36,13 @@ export interface StabilityOptions {
   readonly onProgress?: EngineProgress;
   /** Aborts between resamples (the promise rejects with the signal's reason). */
   readonly signal?: AbortSignal;
+  /**
+   * Local-dependence figures reused from the full sample: each scale's residual critical value
+   * (not re-bootstrapped inside every resample) and the EBIC-selected network penalty (each
+   * resample fits one graphical lasso at it instead of a 100-penalty path). Null: no
+   * local-dependence evidence in the resamples (as on the full sample).
+   */
+  readonly reuse?: LocalDependenceReuse | null;
 }
 
 /** The stability of each recommendation. */
@@ -115,7 +125,10 @@ export async function bootstrapStability(
     let made: Set<string>;
     let clustersMade: Set<string>[] = [];
     try {
-      const evidence = computeEvidence(sample, items, settings, { detail: 'decision' });
+      const evidence = computeEvidence(sample, items, settings, {
+        detail: 'decision',
+        localDependence: options.reuse === undefined || options.reuse === null ? false : { reuse: options.reuse },
+      });
       const { clusters } = findOverlapClusters(evidence, wording, settings);
       const cuts = recommendCuts(evidence, clusters, settings, scaleAlphaOracle(evidence, sample));
       made = new Set(cuts.recommendations.map(recommendationSignature));

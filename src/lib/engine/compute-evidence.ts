@@ -11,12 +11,15 @@
  * of every matrix and reported in `warnings`; their per-item statistics are null.
  */
 import { alphaIfItemDeleted } from '../stats/alpha-if-item-deleted';
-import { belsleyCollinearity } from '../stats/belsley-collinearity';
+import { belsleyCollinearity, belsleyCollinearityFromMoments } from '../stats/belsley-collinearity';
 import { conditionNumber } from '../stats/condition-number';
 import { correlationMatrix, usableItems } from '../stats/correlation-matrix';
 import { completeRows } from '../stats/complete-rows';
 import { covarianceMatrix } from '../stats/covariance-matrix';
 import { cronbachAlpha } from '../stats/cronbach-alpha';
+import { codeOrdinalItem } from '../stats/polychoric-coding';
+import { smoothCorrelationMatrix } from '../stats/smooth-correlation-matrix';
+import { emCovariance } from '../stats/em-covariance';
 import { itemDescriptives } from '../stats/item-descriptives';
 import { itemRestCorrelations } from '../stats/item-rest-correlation';
 import { minresOneFactor } from '../stats/minres-factor';
@@ -26,7 +29,9 @@ import { POLYCHORIC_MINIMUM_N, REPAIR_EIGENVALUE_FLOOR, TETRACHORIC_MINIMUM_N } 
 import { selectItems, type ItemMatrix, type NumericalNotice, type SquareMatrix } from '../stats/types';
 import { undefinedPairCover } from '../stats/undefined-pair-cover';
 import { varianceInflation } from '../stats/variance-inflation';
-import type { EngineSettings } from './engine-settings';
+import { DEFAULT_ENGINE_SETTINGS, type EngineSettings } from './engine-settings';
+import { coreDetectors } from './core-detectors';
+import { localDependenceEvidence, type LocalDependenceDetectors, type LocalDependenceReuse, type LocalDependenceSettings } from './local-dependence';
 import { principalSubmatrix } from './principal-submatrix';
 import type { ScaleAfterRemoval, ScaleAlphaOracle } from './recommend-cuts';
 import type { CollinearityEvidence, EngineEvidence, EngineItem, EngineWarning, ItemDescriptives, ScaleEvidence } from './types';
@@ -39,6 +44,12 @@ export interface ComputeEvidenceOptions {
    * bootstrap resamples.
    */
   readonly detail?: 'full' | 'decision';
+  /**
+   * Local-dependence evidence: computed by default with the core's detectors; `false` skips it;
+   * `reuse` (bootstrap resamples) takes each scale's critical value and the network penalty from
+   * the full sample instead of recomputing them.
+   */
+  readonly localDependence?: false | { readonly detectors?: LocalDependenceDetectors; readonly reuse?: LocalDependenceReuse | null };
 }
 
 /**
@@ -203,7 +214,7 @@ export function scaleReliability(input: ScaleReliabilityInput): ScaleReliability
 export function computeEvidence(
   matrix: ItemMatrix,
   items: readonly EngineItem[],
-  settings: Pick<EngineSettings, 'method' | 'missing'>,
+  settings: Pick<EngineSettings, 'method' | 'missing'> & Partial<LocalDependenceSettings>,
   options: ComputeEvidenceOptions = {},
 ): EngineEvidence {
   checkEngineItems(matrix, items, 'computeEvidence');
@@ -232,7 +243,7 @@ export function computeEvidence(
       items, method: settings.method, missing: settings.missing, rows: matrix.rows, completeData: true, usable,
       correlation: empty, pairN: empty, correlationRows: 0, repaired: false, covariance: empty,
       vif: nothing, tolerance: nothing, r2: nothing, topPartner: nothing, exactDependencies: [], eigenvalues: [], conditionNumber: null,
-      collinearity: null, itemRest: nothing, alphaIfDeleted: nothing, scales: [], descriptives, warnings,
+      collinearity: null, itemRest: nothing, alphaIfDeleted: nothing, scales: [], descriptives, localDependence: null, warnings,
     };
   }
 
@@ -263,9 +274,29 @@ export function computeEvidence(
   const completeData = completeRows(data).length === data.rows;
   warnings.push(...warningsFromNotices(correlation.notices, items, usable));
   if (settings.method === 'polychoric') warnings.push(...polychoricSampleWarnings(correlation, items, usable));
-  // The core repairs an indefinite matrix (Higham's nearest correlation matrix) and says so.
-  const matrixR = correlation.matrix;
-  const repaired = correlation.repaired;
+  // An indefinite matrix (pairwise or polychoric) is smoothed by Bentler & Yuan's (2011) scaling
+  // with minimum-trace communalities (Debelak & Tran 2016), which leaves a floor under the
+  // smallest eigenvalue, instead of Higham's projection, which leaves it nearly singular and makes
+  // every VIF, KMO and condition number explode. A matrix with an exact dependency only is left
+  // as it is, so exact copies keep their infinite VIF.
+  let matrixR = correlation.matrix;
+  let repaired = correlation.repaired;
+  if (correlation.indefinite) {
+    // Exact copies (identical recoded columns) are taken out before smoothing and put back as
+    // copies of their source, so they stay an exact dependency (infinite VIF, null, with its
+    // warning) instead of being scaled to r = .98 (docs/decisions/009).
+    const raw = correlation.unrepaired ?? correlation.matrix;
+    const copyOf = exactCopies(data);
+    const kept = copyOf.map((source, k) => (source < 0 ? k : -1)).filter((k) => k >= 0);
+    const smoothed = smoothCorrelationMatrix(kept.length === raw.order ? raw : principalSubmatrix(raw, kept));
+    if (smoothed.smoothed) {
+      matrixR = kept.length === raw.order ? smoothed.matrix : withCopies(smoothed.matrix, kept, copyOf);
+      repaired = true;
+      // The smoothing replaces the core's Higham repair: its notice no longer describes the matrix.
+      for (let w = warnings.length - 1; w >= 0; w--) if (warnings[w].code === 'matrix-repaired') warnings.splice(w, 1);
+      warnings.push(...warningsFromNotices(smoothed.notices, items, kept.map((k) => usable[k])));
+    }
+  }
   const covariance = covarianceMatrix(data, { missing: settings.missing });
   warnings.push(...warningsFromNotices(covariance.notices, items, usable));
 
@@ -275,6 +306,45 @@ export function computeEvidence(
   const collinearity = collinearityEvidence(data, items, usable, warnings, detail);
   const reliability = scaleReliability({ items, usable, covariance: covariance.matrix, correlation: matrixR, detail });
   warnings.push(...reliability.warnings);
+
+  let localDependence: EngineEvidence['localDependence'] = null;
+  if (options.localDependence !== false) {
+    // Latent thresholds of each item (Φ⁻¹ of its cumulative answer shares), so the residual
+    // bootstrap draws ordinal items like the wave's; an item with too many values for that
+    // (continuous) gets normal draws.
+    const thresholds = usable.map((_, k): number[] | null => {
+      const column = data.data.subarray(k * data.rows, (k + 1) * data.rows);
+      try {
+        const coded = codeOrdinalItem(column);
+        return coded.thresholds.count === 0 ? null : Array.from(coded.thresholds.limits.subarray(0, coded.thresholds.count));
+      } catch (error) {
+        if (error instanceof RangeError) return null;
+        throw error;
+      }
+    });
+    const local = localDependenceEvidence(
+      matrixR,
+      items,
+      usable,
+      correlation.rowsUsed,
+      {
+        residualBootstrapDraws: settings.residualBootstrapDraws ?? DEFAULT_ENGINE_SETTINGS.residualBootstrapDraws,
+        residualCriticalQuantile: settings.residualCriticalQuantile ?? DEFAULT_ENGINE_SETTINGS.residualCriticalQuantile,
+        residualStatistic: settings.residualStatistic ?? DEFAULT_ENGINE_SETTINGS.residualStatistic,
+        ebicGamma: settings.ebicGamma ?? DEFAULT_ENGINE_SETTINGS.ebicGamma,
+        ebicPenaltyCount: settings.ebicPenaltyCount ?? DEFAULT_ENGINE_SETTINGS.ebicPenaltyCount,
+        seed: settings.seed ?? DEFAULT_ENGINE_SETTINGS.seed,
+        strongPairThreshold: settings.strongPairThreshold ?? DEFAULT_ENGINE_SETTINGS.strongPairThreshold,
+        residualRelativeThreshold: settings.residualRelativeThreshold ?? DEFAULT_ENGINE_SETTINGS.residualRelativeThreshold,
+      },
+      options.localDependence?.detectors ?? coreDetectors,
+      options.localDependence?.reuse ?? null,
+      thresholds,
+      overlap.exactDependencies,
+    );
+    localDependence = local.evidence;
+    warnings.push(...local.warnings);
+  }
 
   return {
     items,
@@ -302,6 +372,7 @@ export function computeEvidence(
     alphaIfDeleted: reliability.alphaIfDeleted,
     scales: reliability.scales,
     descriptives,
+    localDependence,
     warnings,
   };
 }
@@ -398,6 +469,44 @@ export function inflationAndSpectrum(correlation: SquareMatrix, items: readonly 
   };
 }
 
+/** For each column the earlier column it is an exact copy of (same value in every row, missing alike), else -1. */
+function exactCopies(data: ItemMatrix): number[] {
+  const rows = data.rows;
+  const copyOf = new Array<number>(data.columns).fill(-1);
+  for (let b = 1; b < data.columns; b++) {
+    for (let a = 0; a < b; a++) {
+      if (copyOf[a] >= 0) continue;
+      let same = true;
+      for (let i = 0; i < rows && same; i++) {
+        const x = data.data[a * rows + i];
+        const y = data.data[b * rows + i];
+        same = x === y || (x !== x && y !== y);
+      }
+      if (same) {
+        copyOf[b] = a;
+        break;
+      }
+    }
+  }
+  return copyOf;
+}
+
+/** A matrix over the kept columns expanded to every column, each copy repeating its source's row and column (r = 1 with it). */
+function withCopies(matrix: SquareMatrix, kept: readonly number[], copyOf: readonly number[]): SquareMatrix {
+  const order = copyOf.length;
+  const at = new Map(kept.map((k, x) => [k, x]));
+  const source = (k: number): number => at.get(copyOf[k] >= 0 ? copyOf[k] : k) as number;
+  const data = new Float64Array(order * order);
+  for (let i = 0; i < order; i++) for (let j = 0; j < order; j++) data[i * order + j] = i === j ? 1 : matrix.data[source(i) * matrix.order + source(j)];
+  return { order, data };
+}
+
+/**
+ * Below this share of complete rows the Belsley-Kuh-Welsch diagnostics come from the EM moments of
+ * all rows instead of the complete rows. House figure: half.
+ */
+const EM_COMPLETE_ROW_SHARE = 0.5;
+
 /** Belsley-Kuh-Welsch diagnostics, or null (with a warning) when too few complete rows. */
 function collinearityEvidence(
   data: ItemMatrix,
@@ -408,8 +517,28 @@ function collinearityEvidence(
 ): CollinearityEvidence | null {
   // Bootstrap resamples take the Gram-matrix path (one cross-product pass and a small
   // eigen-decomposition): its relative error, about ε·η², is harmless below η = 1e4.
-  const result = belsleyCollinearity(data, { path: detail === 'decision' ? 'gram' : 'auto' });
+  let result = belsleyCollinearity(data, { path: detail === 'decision' ? 'gram' : 'auto' });
   const width = usable.length + 1;
+  let fromEm = false;
+  // With scattered missing answers the complete rows can be too few (a 54-item wave with 3%
+  // missing keeps about 44 of 400): the cross-products then come from the EM estimate of the
+  // means and covariances under missing at random, from every row (Dempster, Laird & Rubin 1977).
+  if (result.rowsUsed < width + 1 || (detail === 'full' && result.rowsUsed < EM_COMPLETE_ROW_SHARE * data.rows)) {
+    try {
+      const em = emCovariance(data);
+      result = belsleyCollinearityFromMoments(em.means, em.covariance, em.rows);
+      fromEm = true;
+    } catch (error) {
+      if (!(error instanceof RangeError)) throw error;
+    }
+  }
+  if (fromEm) {
+    warnings.push({
+      code: 'collinearity-from-em',
+      items: [],
+      message: `Condition indices come from the EM estimate of the items' means and covariances over all ${result.rowsUsed} respondents (missing at random assumed), because few respondents answered every item.`,
+    });
+  }
   if (result.rowsUsed < width + 1) {
     warnings.push({
       code: 'collinearity-skipped',

@@ -26,7 +26,10 @@ export interface EngineSettings {
   readonly mergeCorrelation: number;
   /** ...or when their wording similarity is at or above this. Default 0.80. */
   readonly mergeWordingSimilarity: number;
-  /** A removed item is sent for rewording (not cut) when its wording similarity to the keeper is below this. Default 0.30. */
+  /**
+   * No longer decides anything (issue 9: synonyms share few 3-grams, so low wording similarity is
+   * no reason to reword); kept so that stored audit settings still resolve. Default 0.30.
+   */
   readonly rewordWordingSimilarity: number;
   /** No scale may be cut below this many items. Default 3. */
   readonly minItemsPerScale: number;
@@ -46,6 +49,40 @@ export interface EngineSettings {
   readonly stabilityThreshold: number;
   /** Coverage of the Fisher-z interval shown beside each pair correlation. Default 0.95. */
   readonly confidenceLevel: number;
+  /**
+   * Relative residual (residual correlation minus the scale's mean residual) above which a pair
+   * is locally dependent when no bootstrap critical value is available. Default 0.20 (Chen &
+   * Thissen 1997; Christensen, Makransky & Horton 2017).
+   */
+  readonly residualRelativeThreshold: number;
+  /**
+   * The residual statistic: `residual` (r − λλᵀ, psych::fa's residual) or `q3` (the same divided by
+   * both uniquenesses' square roots). Default `residual`: on the generated waves (60 per kind, README) the
+   * engine with Q3 found about as many doublets (recall .838 vs .829) but made 1.78 recommendations
+   * per ten clean waves against 0.94.
+   */
+  readonly residualStatistic: 'residual' | 'q3';
+  /** Draws of the parametric bootstrap that gives each scale's critical value (0, or at least 20; 0 uses the fixed rule). Default 200 (the core's default). */
+  readonly residualBootstrapDraws: number;
+  /** Quantile of the bootstrap distribution of a scale's largest relative residual taken as its critical value. Default 0.99 (Christensen, Makransky & Horton 2017 tabulate the 95th and 99th; the 99th keeps false alarms on waves with nothing redundant near the ceiling of one per ten waves). */
+  readonly residualCriticalQuantile: number;
+  /**
+   * A relative residual below this share of its critical value is "about zero": a strong pair or a
+   * wTO flag then does not count as redundancy on its own. Default 0.5 (house figure).
+   */
+  readonly residualAboutZeroShare: number;
+  /** A pair with weighted topological overlap at or above this is a wTO flag. Default 0.25 (Christensen, Garrido & Golino 2023). */
+  readonly wtoThreshold: number;
+  /** Gamma of the extended BIC that chooses the graphical-lasso penalty. Default 0.5 (Foygel & Drton 2010). */
+  readonly ebicGamma: number;
+  /** Penalties on the EBIC path, log-spaced down to 0.01 of the largest. Default 100 (qgraph::EBICglasso). */
+  readonly ebicPenaltyCount: number;
+  /**
+   * A near-dependency on which the intercept takes at least this share of its variance is an
+   * item-mean effect of an uncentred coding and forms no cluster. Default 0.5 (the proportion rule
+   * of Belsley, Kuh & Welsch 1980 applied to the intercept).
+   */
+  readonly interceptDominanceThreshold: number;
 }
 
 /**
@@ -103,6 +140,15 @@ export const ENGINE_SETTING_RULES: { readonly [Key in keyof EngineSettings]: Eng
   seed: { domain: { kind: 'number', min: -(2 ** 31), max: 2 ** 31 - 1, integer: true }, default: 1, source: 'house figure' },
   stabilityThreshold: share(0.7, 'house figure'),
   confidenceLevel: { domain: { kind: 'number', min: 0, max: 1, minOpen: true, maxOpen: true }, default: 0.95, source: 'common practice (Fisher 1921, interval of r)' },
+  residualRelativeThreshold: share(0.2, 'Chen & Thissen 1997; Christensen, Makransky & Horton 2017 (relative residual rule)'),
+  residualStatistic: { domain: { kind: 'choice', choices: ['residual', 'q3'] }, default: 'residual', source: 'house figure (docs/decisions/010: fewer false alarms than q3 on generated waves)' },
+  residualBootstrapDraws: { domain: { kind: 'number', min: 0, max: 10_000, integer: true }, default: 200, source: 'house figure (the core residualBootstrap default)' },
+  residualCriticalQuantile: { domain: { kind: 'number', min: 0, max: 1, minOpen: true, maxOpen: true }, default: 0.99, source: 'Christensen, Makransky & Horton 2017 (95th and 99th percentiles tabulated)' },
+  residualAboutZeroShare: share(0.5, 'house figure'),
+  wtoThreshold: share(0.25, 'Christensen, Garrido & Golino 2023 (Unique Variable Analysis)'),
+  ebicGamma: share(0.5, 'Foygel & Drton 2010; qgraph::EBICglasso default'),
+  ebicPenaltyCount: { domain: { kind: 'number', min: 2, max: 1_000, integer: true }, default: 100, source: 'qgraph::EBICglasso default (nlambda)' },
+  interceptDominanceThreshold: share(0.5, 'Belsley, Kuh & Welsch 1980 (proportion rule applied to the intercept)'),
 });
 
 /** Names of the engine's settings, in their stored order. */
@@ -207,6 +253,9 @@ export function unknownSettingSentence(name: string, known: readonly string[], w
   const near = closestName(name, known);
   return `"${name}" is not ${what}; ${near === null ? `the settings are ${known.join(', ')}` : `did you mean "${near}"?`}`;
 }
+
+/** Bands of weighted topological overlap (Christensen, Garrido & Golino 2023): small-to-moderate from .20, moderate-to-large from .25, large from .30. Reported beside each pair. */
+export const WTO_BANDS = Object.freeze({ small: 0.2, moderate: 0.25, large: 0.3 });
 
 /**
  * Weights of the keeper score (see `keeperScore` in recommend-cuts.ts): how much one unit of

@@ -25,6 +25,12 @@ export interface EvaluationOptions {
   readonly firstSeed?: number;
   /** Engine settings; the bootstrap is off unless set here. */
   readonly settings?: Partial<EngineSettings>;
+  /**
+   * Compute the local-dependence evidence (default true). The near-copy evaluation can turn it
+   * off to stay affordable in a unit test; the local-dependence evaluation is
+   * evaluate-local-dependence.ts.
+   */
+  readonly localDependence?: boolean;
 }
 
 /** The evaluation's figures. */
@@ -74,7 +80,7 @@ export async function evaluateEngineOnWaves(options: EvaluationOptions): Promise
   for (let seed = firstSeed; seed < firstSeed + plantedWaves; seed++) {
     const wave = generateWave(randomWaveSpec(seed), seed + PLANTED_WAVE_SEED_OFFSET);
     const { matrix, items } = engineInputFromSyntheticWave(wave);
-    const evidence = computeEvidence(matrix, items, { method: settings.method ?? 'pearson', missing: settings.missing ?? 'pairwise' });
+    const evidence = computeEvidence(matrix, items, { method: settings.method ?? 'pearson', missing: settings.missing ?? 'pairwise', ...settings }, { localDependence: options.localDependence === false ? false : undefined });
     const result = await runEngine(evidence, matrix, items, settings);
     const truth = new Set([...wave.truth.plantedPairs, ...wave.truth.duplicates].map(([a, b]) => pairKey(a, b)));
     const found = new Set<string>();
@@ -97,7 +103,7 @@ export async function evaluateEngineOnWaves(options: EvaluationOptions): Promise
   for (let seed = firstSeed; seed < firstSeed + cleanWaves; seed++) {
     const wave = generateWave(randomUnplantedWaveSpec(seed), seed + CLEAN_WAVE_SEED_OFFSET);
     const { matrix, items } = engineInputFromSyntheticWave(wave);
-    const evidence = computeEvidence(matrix, items, { method: settings.method ?? 'pearson', missing: settings.missing ?? 'pairwise' });
+    const evidence = computeEvidence(matrix, items, { method: settings.method ?? 'pearson', missing: settings.missing ?? 'pairwise', ...settings }, { localDependence: options.localDependence === false ? false : undefined });
     const result = await runEngine(evidence, matrix, items, settings);
     cleanRecommendations += result.recommendations.length;
     for (const recommendation of result.recommendations) misses.push(`clean wave ${seed}: recommendation on ${recommendation.cluster.join(', ')} (max r ${recommendation.evidence.maxR.toFixed(2)}, condition index ${recommendation.evidence.conditionIndex?.toFixed(1) ?? 'null'})`);

@@ -30,8 +30,8 @@
  */
 import { fisherZInterval } from '../stats/fisher-z-interval';
 import { waldCorrelationInterval } from '../stats/wald-correlation-interval';
-import type { EngineSettings } from './engine-settings';
-import type { DependencyEvidence, EngineEvidence, EngineWarning, OverlapCluster, PairEvidence } from './types';
+import { WTO_BANDS, type EngineSettings } from './engine-settings';
+import type { DependencyEvidence, EngineEvidence, EngineWarning, OverlapCluster, PairEvidence, PairRule, ScaleResidualEvidence } from './types';
 
 /** The clusters and the warnings that finding them raised. */
 export interface OverlapClusterResult {
@@ -39,14 +39,27 @@ export interface OverlapClusterResult {
   readonly clusters: readonly OverlapCluster[];
   /** Every near-dependency found (including any whose items also form strong pairs). */
   readonly dependencies: readonly DependencyEvidence[];
+  /** Every linked pair (indices into items[], a < b) with the rules that fired, whether or not it ended in a cluster. */
+  readonly linkedPairs: readonly { readonly a: number; readonly b: number; readonly rules: readonly PairRule[] }[];
   readonly warnings: readonly EngineWarning[];
 }
 
 /** The thresholds `findOverlapClusters` reads from the engine settings. */
 export type OverlapThresholds = Pick<
   EngineSettings,
-  'strongPairThreshold' | 'conditionIndexThreshold' | 'varianceProportionThreshold' | 'dependencyVifThreshold' | 'confidenceLevel'
+  | 'strongPairThreshold'
+  | 'conditionIndexThreshold'
+  | 'varianceProportionThreshold'
+  | 'dependencyVifThreshold'
+  | 'confidenceLevel'
+  | 'residualRelativeThreshold'
+  | 'residualAboutZeroShare'
+  | 'wtoThreshold'
+  | 'interceptDominanceThreshold'
 >;
+
+/** Rules that link a pair on the pair's own evidence (clustered by complete linkage). */
+const PAIR_EVIDENCE_RULES: readonly PairRule[] = ['strong-pair', 'local-dependence-residual', 'local-dependence-wto'];
 
 /** Union-find over item indices (path halving, union by size). */
 class DisjointSets {
@@ -93,7 +106,7 @@ class DisjointSets {
  */
 export function nearDependencies(
   evidence: EngineEvidence,
-  thresholds: Pick<EngineSettings, 'conditionIndexThreshold' | 'varianceProportionThreshold' | 'dependencyVifThreshold'>,
+  thresholds: Pick<EngineSettings, 'conditionIndexThreshold' | 'varianceProportionThreshold' | 'dependencyVifThreshold'> & Partial<Pick<EngineSettings, 'interceptDominanceThreshold'>>,
 ): DependencyEvidence[] {
   if (!(thresholds.conditionIndexThreshold >= 1)) throw new RangeError(`nearDependencies: conditionIndexThreshold must be >= 1, got ${thresholds.conditionIndexThreshold}`);
   if (!(thresholds.varianceProportionThreshold > 0 && thresholds.varianceProportionThreshold <= 1)) {
@@ -124,7 +137,8 @@ export function nearDependencies(
       const vif = evidence.vif[item];
       return vif === null || vif >= thresholds.dependencyVifThreshold;
     });
-    found.push({ dimension, conditionIndex: index, items, proportions: shares, interceptProportion, confirmed });
+    const interceptDominated = interceptProportion >= (thresholds.interceptDominanceThreshold ?? Infinity);
+    found.push({ dimension, conditionIndex: index, items, proportions: shares, interceptProportion, confirmed, interceptDominated });
   });
   return found.sort((a, b) => (b.conditionIndex ?? Infinity) - (a.conditionIndex ?? Infinity) || a.dimension - b.dimension);
 }
@@ -191,18 +205,118 @@ function positionsInMatrix(evidence: EngineEvidence): number[] {
   return position;
 }
 
+/** Local-dependence figures of one pair (null where they do not exist). */
+export interface PairLocalFigures {
+  readonly residual: number | null;
+  readonly relativeResidual: number | null;
+  readonly residualCritical: number | null;
+  readonly wto: number | null;
+  readonly partial: number | null;
+  /** r minus the mean correlation of the two items with the other items of their scale; null across scales or in a two-item scale. */
+  readonly standOut: number | null;
+}
+
+/**
+ * The local-dependence figures of pairs of usable items: residual, relative residual and its
+ * critical value (same scale of four or more items), wTO and partial correlation (when the
+ * network exists), and how far r stands out of the two items' other correlations in their scale.
+ * @param evidence The engine's evidence.
+ * @returns A reader taking two indices into items[] (both usable).
+ * References: Yen 1984 (Q3); Christensen, Makransky & Horton 2017; Nowick et al. 2009.
+ */
+export function pairLocalFigures(evidence: EngineEvidence): (a: number, b: number) => PairLocalFigures {
+  const position = positionsInMatrix(evidence);
+  const order = evidence.correlation.order;
+  const local = evidence.localDependence;
+  const scaleOf = new Map<number, { scale: ScaleResidualEvidence; k: number }>();
+  for (const scale of local?.scales ?? []) scale.items.forEach((item, k) => scaleOf.set(item, { scale, k }));
+  const scaleMembers = new Map<string, number[]>();
+  for (const item of evidence.usable) {
+    const scale = evidence.items[item].scale;
+    if (scale === null) continue;
+    const list = scaleMembers.get(scale);
+    if (list === undefined) scaleMembers.set(scale, [item]);
+    else list.push(item);
+  }
+  const r = (a: number, b: number): number => evidence.correlation.data[position[a] * order + position[b]];
+  return (a, b) => {
+    const i = position[a];
+    const j = position[b];
+    const inA = scaleOf.get(a);
+    const inB = scaleOf.get(b);
+    let residual: number | null = null;
+    let relativeResidual: number | null = null;
+    let residualCritical: number | null = null;
+    if (inA !== undefined && inB !== undefined && inA.scale === inB.scale) {
+      residual = inA.scale.residuals[inA.k][inB.k];
+      relativeResidual = residual - inA.scale.meanResidual;
+      residualCritical = inA.scale.critical;
+    }
+    let standOut: number | null = null;
+    const scale = evidence.items[a].scale;
+    if (scale !== null && scale === evidence.items[b].scale) {
+      const others = (scaleMembers.get(scale) ?? []).filter((item) => item !== a && item !== b);
+      if (others.length > 0) {
+        let sum = 0;
+        for (const other of others) sum += (r(a, other) + r(b, other)) / 2;
+        standOut = r(a, b) - sum / others.length;
+      }
+    }
+    return {
+      residual,
+      relativeResidual,
+      residualCritical,
+      wto: local?.wto === null || local === null ? null : local.wto.data[i * order + j],
+      partial: local?.partial === null || local === null ? null : local.partial.data[i * order + j],
+      standOut,
+    };
+  };
+}
+
+/**
+ * The rules that fire for one pair, each vetoed where its known false alarm shows (see the
+ * module comment and docs/decisions/010-local-dependence-engine.md):
+ * - `local-dependence-residual`: the relative residual exceeds the scale's bootstrap critical
+ *   value (the fixed `residualRelativeThreshold` when there is none), and the network does not
+ *   contradict it: the pair's wTO is at least the small band (0.20) or no network exists. A
+ *   wording factor gives positive residuals to every pair of like-worded items; only the pairs
+ *   the network also links directly count.
+ * - `local-dependence-wto`: wTO at or above `wtoThreshold`, and the pair's relative residual is
+ *   not about zero (at least `residualAboutZeroShare` of its critical value). wTO is high for every
+ *   pair of a small, tight factor, where the residuals are about zero; across scales and in scales
+ *   of three items (no informative residual) wTO does not count on its own.
+ * - `strong-pair`: |r| at or above `strongPairThreshold`, unless the pair does not stand out of its
+ *   scale: its r exceeds the mean correlation of its two items with the rest of their scale by
+ *   less than `residualRelativeThreshold`. In a homogeneous scale every pair passes 0.80.
+ *   (The residual cannot veto here: a near-copy pair that dominates a small scale becomes the
+ *   one factor itself, and its residual is then about zero.)
+ */
+export function pairRules(r: number, figures: PairLocalFigures, thresholds: OverlapThresholds): PairRule[] {
+  const rules: PairRule[] = [];
+  if (Math.abs(r) >= thresholds.strongPairThreshold && !(figures.standOut !== null && figures.standOut < thresholds.residualRelativeThreshold)) rules.push('strong-pair');
+  if (figures.relativeResidual !== null) {
+    const critical = figures.residualCritical ?? thresholds.residualRelativeThreshold;
+    const networkAgrees = figures.wto === null || figures.wto >= WTO_BANDS.small;
+    if (figures.relativeResidual > critical && networkAgrees) rules.push('local-dependence-residual');
+    const aboutZero = figures.relativeResidual < thresholds.residualAboutZeroShare * critical;
+    if (figures.wto !== null && figures.wto >= thresholds.wtoThreshold && !aboutZero) rules.push('local-dependence-wto');
+  }
+  return rules;
+}
+
 /**
  * Finds the overlap clusters (see the module comment for exactly how they are formed).
  * @param evidence The engine's evidence for one wave.
  * @param wording Wording similarity in items[] order (`wordingSimilarity` of the item texts).
- * @param thresholds Strong-pair, condition-index and proportion thresholds, and the interval's
- *   confidence level.
+ * @param thresholds Strong-pair, local-dependence, condition-index and proportion thresholds,
+ *   and the interval's confidence level.
  * @throws {RangeError} when the wording matrix does not match the items or a threshold is out of range.
  * @returns The clusters with their evidence, every near-dependency, and warnings (a strong
  *   NEGATIVE pair after recoding suggests a reverse-keying mistake).
  * References: Belsley, Kuh & Welsch 1980, "Regression Diagnostics" (near-dependencies); Fisher
- * 1921 (interval of r); Tarjan 1975, "Efficiency of a good but not linear set union algorithm"
- * (connected components by union-find).
+ * 1921 (interval of r); Christensen, Makransky & Horton 2017 (relative residual rule); Nowick et
+ * al. 2009 and Christensen, Garrido & Golino 2023 (wTO); Sørensen 1948 and Sokal & Michener 1958
+ * for complete and average linkage (complete linkage here).
  */
 export function findOverlapClusters(
   evidence: EngineEvidence,
@@ -217,17 +331,27 @@ export function findOverlapClusters(
   }
   const { usable, correlation, items } = evidence;
   const order = correlation.order;
-  const sets = new DisjointSets(items.length);
   const warnings: EngineWarning[] = [];
+  const figuresOf = pairLocalFigures(evidence);
+  const key = (a: number, b: number): string => (a < b ? `${a},${b}` : `${b},${a}`);
+  /** Rules per linked pair (key a,b with a < b). */
+  const linkRules = new Map<string, Set<PairRule>>();
+  const addRule = (a: number, b: number, rule: PairRule): void => {
+    const k = key(a, b);
+    const set = linkRules.get(k);
+    if (set === undefined) linkRules.set(k, new Set([rule]));
+    else set.add(rule);
+  };
 
   const strong: PairEvidence[] = [];
   for (let i = 0; i < order; i++) {
     for (let j = i + 1; j < order; j++) {
       const r = correlation.data[i * order + j];
-      if (Math.abs(r) < thresholds.strongPairThreshold) continue;
-      sets.join(usable[i], usable[j]);
-      strong.push(pairEvidence(evidence, wording, usable[i], usable[j], thresholds.confidenceLevel));
-      if (r < 0) {
+      const figures = figuresOf(usable[i], usable[j]);
+      const rules = pairRules(r, figures, thresholds);
+      for (const rule of rules) addRule(usable[i], usable[j], rule);
+      if (rules.includes('strong-pair')) strong.push(pairEvidence(evidence, wording, usable[i], usable[j], thresholds.confidenceLevel));
+      if (Math.abs(r) >= thresholds.strongPairThreshold && r < 0) {
         warnings.push({
           code: 'negative-strong-pair',
           items: [items[usable[i]].id, items[usable[j]].id],
@@ -241,10 +365,15 @@ export function findOverlapClusters(
   const position = positionsInMatrix(evidence);
   const hasStrongPartner = new Set(strong.flatMap((pair) => [pair.a, pair.b]));
   for (const dependency of dependencies) {
+    if (dependency.interceptDominated === true) continue;
     const confirmed = dependency.confirmed;
     if (confirmed.length < 2) continue;
-    for (const item of confirmed) {
-      if (hasStrongPartner.has(item)) continue;
+    const free = confirmed.filter((item) => !hasStrongPartner.has(item));
+    // Items of the dependency without a strong pair of their own are linked to each other (a
+    // clique, so complete linkage keeps an item that is nearly the sum of others with them)...
+    for (let x = 0; x < free.length; x++) for (let y = x + 1; y < free.length; y++) addRule(free[x], free[y], 'near-dependency');
+    // ...and each to the confirmed item it correlates with most strongly.
+    for (const item of free) {
       let partner = -1;
       let strongest = -1;
       for (const other of confirmed) {
@@ -255,7 +384,7 @@ export function findOverlapClusters(
           partner = other;
         }
       }
-      sets.join(item, partner);
+      addRule(item, partner, 'near-dependency');
     }
   }
   // Under listwise deletion with no more complete rows than items the matrix is singular by
@@ -269,38 +398,106 @@ export function findOverlapClusters(
     });
   }
   const exactGroups = rankDeficient ? [] : evidence.exactDependencies;
-  for (const group of exactGroups) for (const item of group.slice(1)) sets.join(group[0], item);
+  for (const group of exactGroups) for (let x = 0; x < group.length; x++) for (let y = x + 1; y < group.length; y++) addRule(group[x], group[y], 'exact');
 
-  const members = new Map<number, number[]>();
+  // Pair evidence (strong pairs, local dependence) forms clusters by complete linkage; a near- or
+  // exact dependency then joins the clusters of its items outright, since it ties several items
+  // together without every pair of them being linked (an item nearly the sum of two others).
+  const pairLinks = new Map([...linkRules].filter(([, rules]) => [...rules].some((rule) => PAIR_EVIDENCE_RULES.includes(rule))));
+  const sets = new DisjointSets(items.length);
+  for (const list of completeLinkage(pairLinks, (a, b) => Math.abs(correlation.data[position[a] * order + position[b]]))) for (const item of list.slice(1)) sets.join(list[0], item);
+  for (const [text, rules] of linkRules) {
+    if (![...rules].some((rule) => rule === 'near-dependency' || rule === 'exact')) continue;
+    const [a, b] = text.split(',').map(Number);
+    sets.join(a, b);
+  }
+  const grouped = new Map<number, number[]>();
   for (const item of usable) {
     const root = sets.find(item);
-    const list = members.get(root);
-    if (list === undefined) members.set(root, [item]);
+    const list = grouped.get(root);
+    if (list === undefined) grouped.set(root, [item]);
     else list.push(item);
   }
-
+  const lists = [...grouped.values()].filter((list) => list.length >= 2);
   const clusters: OverlapCluster[] = [];
-  for (const list of members.values()) {
-    if (list.length < 2) continue;
+  for (const list of lists) {
     const inCluster = new Set(list);
     const pairs: PairEvidence[] = [];
+    const links: PairEvidence[] = [];
     for (let x = 0; x < list.length; x++) {
-      for (let y = x + 1; y < list.length; y++) pairs.push(pairEvidence(evidence, wording, list[x], list[y], thresholds.confidenceLevel));
+      for (let y = x + 1; y < list.length; y++) {
+        const base = pairEvidence(evidence, wording, list[x], list[y], thresholds.confidenceLevel);
+        const figures = figuresOf(list[x], list[y]);
+        const rules = [...(linkRules.get(key(list[x], list[y])) ?? [])];
+        const pair: PairEvidence = {
+          ...base,
+          residual: figures.residual,
+          relativeResidual: figures.relativeResidual,
+          residualCritical: figures.residualCritical,
+          wto: figures.wto,
+          partial: figures.partial,
+          rules,
+        };
+        pairs.push(pair);
+        if (rules.length > 0) links.push(pair);
+      }
     }
-    const strongPairs = strong.filter((pair) => inCluster.has(pair.a)).sort((p, q) => Math.abs(q.r) - Math.abs(p.r));
+    const strongPairs = strong.filter((pair) => inCluster.has(pair.a) && inCluster.has(pair.b)).sort((p, q) => Math.abs(q.r) - Math.abs(p.r));
     const maxPair = pairs.reduce((best, pair) => (Math.abs(pair.r) > Math.abs(best.r) ? pair : best), pairs[0]);
     clusters.push({
       items: list,
       strongPairs,
-      dependencies: dependencies.filter((dependency) => dependency.confirmed.length >= 2 && dependency.confirmed.some((item) => inCluster.has(item))),
-      exactDependencies: exactGroups.filter((group) => inCluster.has(group[0])),
+      dependencies: dependencies.filter((dependency) => dependency.interceptDominated !== true && dependency.confirmed.filter((item) => inCluster.has(item)).length >= 2),
+      exactDependencies: exactGroups.filter((group) => group.every((item) => inCluster.has(item))),
       pairs,
+      links,
       maxR: maxPair.r,
       conditionIndex: clusterConditionIndex(evidence, list),
     });
   }
   clusters.sort((p, q) => p.items[0] - q.items[0]);
-  return { clusters, dependencies, warnings };
+  const linkedPairs = [...linkRules].map(([text, rules]) => {
+    const [a, b] = text.split(',').map(Number);
+    return { a, b, rules: [...rules] };
+  });
+  return { clusters, dependencies, linkedPairs, warnings };
+}
+
+/**
+ * Complete-linkage clustering of the linked pairs: every item starts alone; the two clusters
+ * whose every cross pair is linked merge, strongest link (largest |r|) first, until no two
+ * clusters can merge. So a cluster is a clique of linked pairs: an item joins only when it is
+ * linked to every member, and a chain a–b–c never pulls a and c together (single linkage would).
+ * @param links Linked pairs keyed `a,b` (a < b).
+ * @param strength |r| of a pair, to order the merges.
+ * @returns Clusters of two or more items (each ascending).
+ * References: Sørensen 1948 (complete linkage); Everitt, Landau, Leese & Stahl 2011, "Cluster
+ * Analysis", ch. 4.
+ */
+export function completeLinkage(links: ReadonlyMap<string, unknown>, strength: (a: number, b: number) => number): number[][] {
+  const edges = [...links.keys()].map((text) => text.split(',').map(Number) as [number, number]);
+  edges.sort((p, q) => strength(q[0], q[1]) - strength(p[0], p[1]) || p[0] - q[0] || p[1] - q[1]);
+  const clusterOf = new Map<number, number[]>();
+  for (const [a, b] of edges) {
+    for (const item of [a, b]) if (!clusterOf.has(item)) clusterOf.set(item, [item]);
+  }
+  const linked = (a: number, b: number): boolean => links.has(a < b ? `${a},${b}` : `${b},${a}`);
+  for (const [a, b] of edges) {
+    const left = clusterOf.get(a) as number[];
+    const right = clusterOf.get(b) as number[];
+    if (left === right) continue;
+    if (!left.every((x) => right.every((y) => linked(x, y)))) continue;
+    const merged = [...left, ...right].sort((x, y) => x - y);
+    for (const item of merged) clusterOf.set(item, merged);
+  }
+  const seen = new Set<number[]>();
+  const result: number[][] = [];
+  for (const list of clusterOf.values()) {
+    if (seen.has(list) || list.length < 2) continue;
+    seen.add(list);
+    result.push(list);
+  }
+  return result;
 }
 
 /**

@@ -12,12 +12,14 @@
  *   ceiling shares, and "VIF without partners" the VIF it would have once the other cluster
  *   members are gone. Ties: fewer missing answers, then the earlier item.
  * - The other members are taken worst score first. A member is changed only while it still
- *   overlaps what is left of the cluster (a strong pair with a remaining member, or a
- *   near/exact dependency whose members all remain); otherwise it stays with no change needed.
+ *   overlaps what is left of the cluster (a linked pair with a remaining member: strong pair or
+ *   local dependence, or a near/exact dependency whose members all remain); otherwise it stays
+ *   with no change needed.
  * - Action: `merge` when |r| with the keeper is at or above `mergeCorrelation` (0.95) or the
- *   wording similarity at or above `mergeWordingSimilarity` (0.80); `reword` when the wording is
- *   known and its similarity below `rewordWordingSimilarity` (0.30: the statistics say overlap,
- *   the words do not); `drop` otherwise.
+ *   wording similarity at or above `mergeWordingSimilarity` (0.80); `reword` only when the two
+ *   items belong to different scales of the codebook (their content is meant to differ) and the
+ *   item is rewordable; `drop` otherwise. Spelling never sends an item for rewording: true
+ *   synonyms share few character 3-grams (issue 9).
  * - Constraints, never broken: a locked item is never changed; a drop or merge must leave its
  *   scale at least `minItemsPerScale` usable items, every scale's raw alpha at or above
  *   `alphaFloor` (a scale already below it is only protected from cuts of its own items) and no
@@ -30,7 +32,7 @@ import { varianceInflation } from '../stats/variance-inflation';
 import type { EngineSettings } from './engine-settings';
 import { KEEPER_SCORE_TIE, KEEPER_SCORE_WEIGHTS } from './engine-settings';
 import { principalSubmatrix } from './principal-submatrix';
-import type { DependencyEvidence, EngineEvidence, OverlapCluster, PairEvidence } from './types';
+import type { DependencyEvidence, EngineEvidence, OverlapCluster, PairEvidence, PairRule } from './types';
 
 /** A change the engine can propose for an item. */
 export type ChangeAction = 'drop' | 'merge' | 'reword';
@@ -81,6 +83,16 @@ export interface PairReport {
   readonly interval?: 'fisher-z' | 'estimator-se';
   readonly se?: number | null;
   readonly wording: number | null;
+  /** Residual correlation after the scale's one-factor model (null across scales or in scales of fewer than four items). */
+  readonly residual?: number | null;
+  /** Residual minus the scale's mean residual. */
+  readonly relativeResidual?: number | null;
+  /** The scale's critical value of the relative residual (null: the fixed rule applied, or no residual). */
+  readonly residualCritical?: number | null;
+  readonly wto?: number | null;
+  readonly partial?: number | null;
+  /** Rules that fired for the pair. */
+  readonly rules?: readonly PairRule[];
 }
 
 /** A near-dependency with item ids, for the audit JSON. */
@@ -126,6 +138,10 @@ export interface RecommendationEvidence {
   readonly dependencies: readonly DependencyReport[];
   readonly exactDependencies: readonly (readonly string[])[];
   readonly keeperScores: readonly KeeperScore[];
+  /** Every rule that linked a pair of the cluster (which evidence fired). */
+  readonly rules: readonly PairRule[];
+  /** The linked pairs with all their evidence. */
+  readonly links: readonly PairReport[];
 }
 
 /**
@@ -214,7 +230,6 @@ export type RecommendSettings = Pick<
   | 'strongPairThreshold'
   | 'mergeCorrelation'
   | 'mergeWordingSimilarity'
-  | 'rewordWordingSimilarity'
   | 'minItemsPerScale'
   | 'alphaFloor'
   | 'maxAlphaDrop'
@@ -363,9 +378,16 @@ function decideCluster(
     ...cluster.dependencies.map((dependency) => dependency.confirmed.filter((item) => inCluster.has(item))).filter((group) => group.length >= 2),
     ...cluster.exactDependencies,
   ];
+  // Pairs linked on their own evidence; near- and exact dependencies count through `groups`
+  // (they overlap only while all their members remain).
+  const linked = new Set(
+    cluster.links
+      .filter((pair) => (pair.rules ?? []).some((rule) => rule === 'strong-pair' || rule === 'local-dependence-residual' || rule === 'local-dependence-wto'))
+      .map((pair) => `${pair.a},${pair.b}`),
+  );
   const stillOverlaps = (item: number): boolean => {
     for (const other of remaining) {
-      if (other !== item && Math.abs(correlationBetween(evidence, position, item, other)) >= settings.strongPairThreshold) return true;
+      if (other !== item && linked.has(`${Math.min(item, other)},${Math.max(item, other)}`)) return true;
     }
     return groups.some((group) => group.includes(item) && group.every((member) => remaining.has(member)));
   };
@@ -382,7 +404,7 @@ function decideCluster(
       decided.set(index, { ...base, action: 'keep', into: null, proposed: null, blockedBy: [] });
       continue;
     }
-    const proposed = proposeAction(rWithKeeper, wordingWithKeeper, settings);
+    const proposed = proposeAction(rWithKeeper, wordingWithKeeper, item.scale !== evidence.items[keeper].scale, item.rewordable !== false, settings);
     const blockedBy: ConstraintName[] = [];
     if (item.locked) blockedBy.push('locked');
     else if (proposed !== 'reword') blockedBy.push(...violatedConstraints(evidence, index, settings, scaleAlpha, removed, alphaBefore, cutBudget));
@@ -417,6 +439,8 @@ function decideCluster(
     dependencies: cluster.dependencies.map((dependency) => dependencyReport(evidence, dependency)),
     exactDependencies: cluster.exactDependencies.map(ids),
     keeperScores: scores,
+    rules: PAIR_RULE_ORDER.filter((rule) => cluster.links.some((pair) => pair.rules?.includes(rule))),
+    links: cluster.links.map((pair) => pairReport(evidence, pair)),
   };
   return {
     cluster: ids(cluster.items),
@@ -431,10 +455,16 @@ function decideCluster(
   };
 }
 
-/** merge, reword or drop from the pair's r and wording (see the module comment). */
-function proposeAction(r: number, wording: number | null, settings: RecommendSettings): ChangeAction {
+/**
+ * merge, reword or drop (see the module comment). Statistically interchangeable items are
+ * dropped (or merged), whatever their spelling: synonyms share few 3-grams. `reword` only where
+ * the content is known to differ: the codebook puts the two items in different scales, so the
+ * designer meant them to measure different things and the overlap says the wording does not yet
+ * separate them. An item marked not rewordable is never sent for rewording.
+ */
+function proposeAction(r: number, wording: number | null, otherScale: boolean, rewordable: boolean, settings: RecommendSettings): ChangeAction {
   if (Math.abs(r) >= settings.mergeCorrelation || (wording !== null && wording >= settings.mergeWordingSimilarity)) return 'merge';
-  if (wording !== null && wording < settings.rewordWordingSimilarity) return 'reword';
+  if (otherScale && rewordable) return 'reword';
   return 'drop';
 }
 
@@ -498,6 +528,12 @@ export function pairReport(evidence: EngineEvidence, pair: PairEvidence): PairRe
     ...(pair.interval ? { interval: pair.interval } : {}),
     ...(pair.interval === 'estimator-se' ? { se: pair.se ?? null } : {}),
     wording: pair.wording,
+    residual: pair.residual ?? null,
+    relativeResidual: pair.relativeResidual ?? null,
+    residualCritical: pair.residualCritical ?? null,
+    wto: pair.wto ?? null,
+    partial: pair.partial ?? null,
+    rules: [...(pair.rules ?? [])],
   };
 }
 
@@ -518,6 +554,9 @@ export function dependencyReport(evidence: EngineEvidence, dependency: Dependenc
     confirmed: dependency.confirmed.map((index) => evidence.items[index].id),
   };
 }
+
+/** Rules in the order they are reported. */
+const PAIR_RULE_ORDER: readonly PairRule[] = Object.freeze(['exact', 'near-dependency', 'strong-pair', 'local-dependence-residual', 'local-dependence-wto']);
 
 /** The structured reason of one recommendation (worded by src/lib/words/reasons.ts). */
 function cutReason(

@@ -6,7 +6,8 @@
  */
 import { bootstrapStability, type EngineProgress } from './bootstrap-stability';
 import { resolveEngineSettings, type EngineSettings } from './engine-settings';
-import { findOverlapClusters } from './overlap-clusters';
+import { findOverlapClusters, pairEvidence, pairLocalFigures } from './overlap-clusters';
+import { localDependenceReuse } from './local-dependence';
 import { dependencyReport, pairReport, recommendCuts, type DependencyReport, type PairReport, type Caution, type Recommendation } from './recommend-cuts';
 import { scaleAlphaOracle } from './compute-evidence';
 import { simulateCut, type AfterCut } from './simulate-cut';
@@ -36,6 +37,12 @@ export interface EngineResult {
   readonly warnings: readonly EngineWarning[];
   /** The settings used, defaults filled in (store them with the audit). */
   readonly settings: EngineSettings;
+  /**
+   * Every flagged pair (a rule fired for it, whether or not it ended in a recommendation) with all
+   * its evidence: r, interval, n, residual (Q3) and its critical value, wTO, partial correlation,
+   * wording similarity and the rules (audit-json `pairs`).
+   */
+  readonly pairs: readonly PairReport[];
 }
 
 /**
@@ -88,7 +95,7 @@ export async function runEngine(
       code: 'vif-from-repaired-matrix',
       items: [],
       message:
-        'The correlation matrix was repaired to the nearest positive semi-definite one, which can leave it nearly singular: VIFs, and the VIF check that confirms near-dependencies, may be inflated, so weigh the strong pairs first.',
+        'The correlation matrix was not positive definite and was smoothed (Bentler-Yuan scaling of the items that carry the inconsistency): VIFs and the VIF check that confirms near-dependencies rest on the smoothed matrix, so weigh them with the pair evidence.',
     });
   }
   const found = findOverlapClusters(evidence, wording, resolved);
@@ -105,7 +112,8 @@ export async function runEngine(
 
   let recommendations: Recommendation[] = [...cuts.recommendations];
   if (resolved.bootstrap > 0 && recommendations.length > 0) {
-    const stability = await bootstrapStability(matrix, items, resolved, wording, recommendations, { onProgress, signal });
+    const reuse = evidence.localDependence === null ? null : localDependenceReuse(evidence.localDependence);
+    const stability = await bootstrapStability(matrix, items, resolved, wording, recommendations, { onProgress, signal, reuse });
     recommendations = recommendations.map((recommendation, k) => {
       const share = stability.shares[k];
       const overlapShare = stability.overlapShares[k];
@@ -138,5 +146,18 @@ export async function runEngine(
     dependencies: cluster.dependencies.map((dependency) => dependencyReport(evidence, dependency)),
     exactDependencies: cluster.exactDependencies.map(ids),
   }));
-  return { recommendations, afterCut, clusters, warnings, settings: resolved };
+  const figuresOf = pairLocalFigures(evidence);
+  const pairs: PairReport[] = found.linkedPairs.map(({ a, b, rules }) => {
+    const figures = figuresOf(a, b);
+    return pairReport(evidence, {
+      ...pairEvidence(evidence, wording, a, b, resolved.confidenceLevel),
+      residual: figures.residual,
+      relativeResidual: figures.relativeResidual,
+      residualCritical: figures.residualCritical,
+      wto: figures.wto,
+      partial: figures.partial,
+      rules,
+    });
+  });
+  return { recommendations, afterCut, clusters, warnings, settings: resolved, pairs };
 }

@@ -20,6 +20,12 @@ export interface EngineItem {
   readonly min: number | null;
   /** Highest valid answer (ceiling category), or null to take the highest observed answer. */
   readonly max: number | null;
+  /**
+   * False when the item's wording must not be changed (a licensed instrument, an official
+   * statistic: a codebook or setup flag). Such an item is never proposed for rewording.
+   * Absent means rewordable.
+   */
+  readonly rewordable?: boolean;
 }
 
 /** A warning for the audit JSON: code, item ids, one plain sentence. */
@@ -115,8 +121,44 @@ export interface EngineEvidence {
   readonly alphaIfDeleted: readonly (number | null)[];
   readonly scales: readonly ScaleEvidence[];
   readonly descriptives: readonly ItemDescriptives[];
+  /** Local-dependence evidence (residuals after each scale's factor model, the wTO network); null when not computed. */
+  readonly localDependence: LocalDependenceEvidence | null;
   readonly warnings: readonly EngineWarning[];
 }
+
+/** Residual correlations after one scale's one-factor model. */
+export interface ScaleResidualEvidence {
+  readonly scale: string;
+  /** Indices into items[] of the scale's usable items, ascending. */
+  readonly items: readonly number[];
+  /** One-factor loadings, same order. */
+  readonly loadings: readonly number[];
+  /** Residual correlations r_ij − λ_i λ_j, `items.length` square (zero diagonal). */
+  readonly residuals: readonly (readonly number[])[];
+  /** Mean off-diagonal residual of the scale. */
+  readonly meanResidual: number;
+  /**
+   * Critical value of the relative residual (residual − mean residual) from the parametric
+   * bootstrap of the fitted model; null when it could not be computed (then the fixed 0.20 rule
+   * applies).
+   */
+  readonly critical: number | null;
+}
+
+/** Local-dependence evidence of a wave (methods.md §3b). */
+export interface LocalDependenceEvidence {
+  /** Scales with four or more usable items (a one-factor model of three items fits exactly, so its residuals carry no information). */
+  readonly scales: readonly ScaleResidualEvidence[];
+  /** Regularised partial correlations over the usable items (order `usable.length`); null when the network was not estimated. */
+  readonly partial: SquareMatrix | null;
+  /** Weighted topological overlap over the usable items; null when the network was not estimated. */
+  readonly wto: SquareMatrix | null;
+  /** The graphical-lasso penalty chosen by the extended BIC (or reused from the full sample); null without a network. */
+  readonly penalty: number | null;
+}
+
+/** Which evidence made a pair a link of an overlap cluster. */
+export type PairRule = 'strong-pair' | 'local-dependence-residual' | 'local-dependence-wto' | 'near-dependency' | 'exact';
 
 /** A pair correlation with its Fisher-z interval. */
 export interface PairEvidence {
@@ -139,6 +181,18 @@ export interface PairEvidence {
   readonly se?: number | null;
   /** Wording similarity of the two items, null when either wording is unknown. */
   readonly wording: number | null;
+  /** Residual correlation after their scale's one-factor model; null across scales or in scales of fewer than four items. */
+  readonly residual?: number | null;
+  /** Residual minus the scale's mean residual (the relative rule's statistic); null as above. */
+  readonly relativeResidual?: number | null;
+  /** The scale's critical value for the relative residual; null as above. */
+  readonly residualCritical?: number | null;
+  /** Weighted topological overlap; null without a network. */
+  readonly wto?: number | null;
+  /** Regularised partial correlation; null without a network. */
+  readonly partial?: number | null;
+  /** Rules that fired for this pair (empty for a pair that is only listed). */
+  readonly rules?: readonly PairRule[];
 }
 
 /** One near-dependency: a dimension with a high condition index and the items it loads. */
@@ -157,6 +211,11 @@ export interface DependencyEvidence {
   readonly confirmed: readonly number[];
   /** The intercept's proportion on this dimension. */
   readonly interceptProportion: number;
+  /**
+   * True when the intercept takes at least the proportion threshold of its variance from this
+   * dimension: an item-mean effect of an uncentred coding, not redundancy; it forms no cluster.
+   */
+  readonly interceptDominated?: boolean;
 }
 
 /** An overlap cluster with its evidence, each kind separately. */
@@ -171,6 +230,8 @@ export interface OverlapCluster {
   readonly exactDependencies: readonly (readonly number[])[];
   /** Every pair of cluster items with its r, interval and wording similarity. */
   readonly pairs: readonly PairEvidence[];
+  /** The pairs that link the cluster, each with the rules that fired (a subset of `pairs`, with the full evidence). */
+  readonly links: readonly PairEvidence[];
   /** Largest |r| among the cluster's pairs, signed. */
   readonly maxR: number;
   /** Condition index of the dimension carrying the largest summed variance proportion of the cluster's items; null without diagnostics. */

@@ -34,7 +34,7 @@ import {
   NULL_SPACE_MEMBERSHIP,
   VARIANCE_PROPORTION_INVOLVED,
 } from './tolerances';
-import type { ItemMatrix, NumericalNotice } from './types';
+import type { ItemMatrix, NumericalNotice, SquareMatrix } from './types';
 
 /** Which computation produced the singular values. */
 export type BelsleyPath = 'qr' | 'gram';
@@ -127,6 +127,41 @@ export function belsleyCollinearity(matrix: ItemMatrix, options: BelsleyCollinea
   return assemble(spectrum, rowsUsed, rows - rowsUsed, path);
 }
 
+/**
+ * Belsley-Kuh-Welsch diagnostics from the moments of the items instead of complete rows: the
+ * uncentred cross-product matrix of [1, X] over n rows is
+ * `XᵀX = n · [[1, μᵀ], [μ, Σ + μ μᵀ]]` (per pair of items `n (σ_jk + μ_j μ_k)`, intercept row
+ * `n, n μ`), with Σ the covariance matrix of divisor n. Given an estimate of μ and Σ from every
+ * row (for example `emCovariance`, the maximum-likelihood estimate under missing at random), the
+ * scaled Gram matrix and its eigen-decomposition give the same indices and proportions as the
+ * `gram` path would on complete data. n cancels in the scaling, so it only labels `rowsUsed`.
+ * @param means Each item's mean μ_j (finite).
+ * @param covariance Covariance matrix Σ with divisor n (symmetric, finite, of the same order).
+ * @param rows Respondents n behind the estimate (reported as `rowsUsed`), an integer ≥ 1.
+ * @throws {RangeError} when the orders disagree, a value is not finite, or rows is not a positive integer.
+ * @returns As `belsleyCollinearity`, with `path` 'gram' and `rowsExcluded` 0.
+ * References: Belsley, Kuh & Welsch 1980, "Regression Diagnostics", ch. 3; Dempster, Laird &
+ * Rubin 1977 (the EM moments it is meant for).
+ */
+export function belsleyCollinearityFromMoments(means: ArrayLike<number>, covariance: SquareMatrix, rows: number): BelsleyCollinearityResult {
+  const columns = means.length;
+  if (columns < 1) throw new RangeError('belsleyCollinearityFromMoments: at least one item is required');
+  if (covariance.order !== columns || covariance.data.length !== columns * columns) {
+    throw new RangeError(`belsleyCollinearityFromMoments: ${columns} means but a covariance matrix of order ${covariance.order}`);
+  }
+  if (!Number.isInteger(rows) || rows < 1) throw new RangeError(`belsleyCollinearityFromMoments: rows must be a positive integer, got ${rows}`);
+  const centered = new Float64Array(columns * columns);
+  for (let index = 0; index < centered.length; index++) {
+    const value = covariance.data[index];
+    if (!Number.isFinite(value)) throw new RangeError('belsleyCollinearityFromMoments: the covariance matrix holds a non-finite value');
+    centered[index] = rows * value;
+  }
+  const meanArray = Float64Array.from(means);
+  if (meanArray.some((value) => !Number.isFinite(value))) throw new RangeError('belsleyCollinearityFromMoments: a mean is not finite');
+  const spectrum = spectrumFromCrossProducts(rows, columns, { rows, means: meanArray, centered: { order: columns, data: centered } });
+  return assemble(spectrum, rows, 0, 'gram');
+}
+
 /** Singular values (descending), right singular vectors (columns, row-major) and zero columns. */
 interface ScaledSpectrum {
   readonly width: number;
@@ -206,13 +241,18 @@ function spectrumByQr(matrix: ItemMatrix): ScaledSpectrum {
 /** Eigen-decomposition of the unit-diagonal-scaled Gram matrix of [1, X], from cross-products. */
 function spectrumByGram(matrix: ItemMatrix, given: CenteredCrossProducts | undefined): ScaledSpectrum {
   const { rows: n, columns } = matrix;
-  const width = columns + 1;
   if (given !== undefined && (given.rows !== n || given.centered.order !== columns || given.means.length !== columns)) {
     throw new RangeError(
       `belsleyCollinearity: the cross-products cover ${given.rows} rows and ${given.centered.order} items, the complete data ${n} rows and ${columns} items`,
     );
   }
-  const { means, centered } = given ?? centeredCrossProducts(matrix);
+  return spectrumFromCrossProducts(n, columns, given ?? centeredCrossProducts(matrix));
+}
+
+/** The scaled Gram matrix of [1, X] from centred cross-products and means, and its eigen-decomposition. */
+function spectrumFromCrossProducts(n: number, columns: number, crossProducts: CenteredCrossProducts): ScaledSpectrum {
+  const width = columns + 1;
+  const { means, centered } = crossProducts;
   const gram = new Float64Array(width * width);
   gram[0] = n;
   for (let j = 0; j < columns; j++) {

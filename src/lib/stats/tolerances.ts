@@ -157,6 +157,78 @@ export const HEYWOOD_COMMUNALITY = 1;
 /** Eigenvalues of R_xx at or below this share of the largest make relative weights undefined. */
 export const RELATIVE_WEIGHTS_EIGENVALUE_TOLERANCE = 1e-12;
 
+// ── Local dependence: graphical lasso, EBIC, wTO, residual correlations, smoothing ────────
+
+/**
+ * Graphical lasso: sweeps stop when the mean absolute change of the off-diagonal covariance
+ * estimate in one sweep is below this share of the mean absolute off-diagonal input (glasso's
+ * own criterion; its default there is 1e-4, far looser, and leaves answers that far from the
+ * optimum). The inner lasso of each column stops at the same relative size of step.
+ */
+export const GRAPHICAL_LASSO_TOLERANCE = 1e-10;
+/** Ceiling on graphical-lasso sweeps over all columns before non-convergence is reported. */
+export const GRAPHICAL_LASSO_MAX_SWEEPS = 10_000;
+/** Ceiling on coordinate-descent passes of one column's inner lasso within one sweep. */
+export const GRAPHICAL_LASSO_MAX_INNER_PASSES = 1_000;
+/**
+ * EBIC graphical lasso: tolerance of the fits along the path (the selected one is refitted to
+ * GRAPHICAL_LASSO_TOLERANCE). At 1e-7 the log-likelihoods are exact far beyond the EBIC's
+ * differences, and the path costs about a third of a path at 1e-10.
+ */
+export const EBIC_PATH_TOLERANCE = 1e-7;
+/** EBIC graphical lasso: number of penalties on the path (qgraph::EBICglasso's nlambda). */
+export const EBIC_PENALTY_COUNT = 100;
+/** EBIC graphical lasso: smallest penalty as a share of the largest (qgraph's lambda.min.ratio). */
+export const EBIC_MINIMUM_PENALTY_RATIO = 0.01;
+/** Extended BIC tuning parameter gamma (Foygel & Drton 2010; qgraph's default 0.5). */
+export const EBIC_GAMMA = 0.5;
+/**
+ * A selected penalty below this share of the largest makes a dense network; qgraph warns that
+ * its smallest edges may be false positives (Williams & Rast 2020).
+ */
+export const EBIC_DENSE_PENALTY_RATIO = 0.1;
+/** Unique Variable Analysis flags a pair from this weighted topological overlap (Christensen, Garrido & Golino 2023). */
+export const WTO_FLAG = 0.25;
+/** wTO bands of Unique Variable Analysis: small-to-moderate from .20, moderate-to-large from .25, large above .30. */
+export const WTO_BANDS = Object.freeze({ smallToModerate: 0.2, moderateToLarge: 0.25, large: 0.3 } as const);
+/** Residual-correlation bootstrap: simulated data sets drawn by default. */
+export const RESIDUAL_BOOTSTRAP_DRAWS = 200;
+/** Residual-correlation bootstrap: the lower and upper percentiles reported of the largest relative residual. */
+export const RESIDUAL_BOOTSTRAP_PERCENTILES = Object.freeze({ flag: 0.95, strict: 0.99 } as const);
+/** Residual-correlation bootstrap: fewer usable draws than this share is an error, not a result. */
+export const RESIDUAL_BOOTSTRAP_MIN_USABLE_SHARE = 0.8;
+/**
+ * Fixed rule of thumb for the relative residual correlation (residual minus the scale's mean):
+ * .20 (Christensen, Makransky & Horton 2017, after Chen & Thissen 1997). Shown beside the
+ * bootstrap critical value, which is the one that adapts to items, respondents and categories.
+ */
+export const RELATIVE_RESIDUAL_RULE_OF_THUMB = 0.2;
+/**
+ * Bentler & Yuan (2011) smoothing: the constant k by which the squared scaling of an item with
+ * MTFA communality h ≥ 1 is k / h; it leaves the smoothed matrix an eigenvalue floor of 1 − k.
+ * .98 is the value of Bentler & Yuan's example and of Debelak & Tran (2013, 2016).
+ */
+export const BENTLER_YUAN_SCALING_CONSTANT = 0.98;
+/** Minimum trace factor analysis: upper bound on each communality (Debelak & Tran 2013 used 2.5). */
+export const MTFA_COMMUNALITY_UPPER_BOUND = 2.5;
+/** Minimum trace factor analysis: the barrier method stops when its duality-gap bound is below this. */
+export const MTFA_GAP_TOLERANCE = 1e-10;
+/** Minimum trace factor analysis: a barrier stage is centred when half the squared Newton decrement is below this. */
+export const MTFA_NEWTON_DECREMENT_TOLERANCE = 1e-13;
+/** Minimum trace factor analysis: ceiling on Newton steps over all barrier stages. */
+export const MTFA_MAX_NEWTON_STEPS = 500;
+/**
+ * EM covariance: iterations stop when no mean moves by more than this many standard deviations
+ * and no covariance by more than this share of the product of the two standard deviations.
+ */
+export const EM_TOLERANCE = 1e-10;
+/** EM covariance: iteration limit before non-convergence is reported. */
+export const EM_MAX_ITERATIONS = 10_000;
+/**
+ * Q3 residual correlations divide by sqrt(1 − λ²); a uniqueness below this (a Heywood case) is
+ * raised to it so that the ratio stays finite (the Heywood case itself is reported by minres).
+ */
+export const RESIDUAL_MIN_UNIQUENESS = 0.01;
 /** One-factor ML: the fit stops when every gradient component (in ln ψ) is below this. */
 export const ONE_FACTOR_ML_GRADIENT_TOLERANCE = 1e-8;
 /** One-factor ML: a step that lowers F by less than this (relative) ends the search (F's rounding error). */

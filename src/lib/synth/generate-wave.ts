@@ -12,6 +12,14 @@ interface ItemPlan {
   readonly thresholds: readonly number[];
   /** Index (in the plan list) of the source item for a twin, else -1. */
   readonly sourceIndex: number;
+  /** Index of the doublet shared component this item takes part in, else -1. */
+  readonly doubletIndex: number;
+  /** Weight of the doublet shared component (sqrt of the residual covariance), else 0. */
+  readonly doubletWeight: number;
+  /** Index of the scale the item cross-loads on, else -1. */
+  readonly crossScaleIndex: number;
+  /** Loading on that scale's factor, else 0. */
+  readonly crossLoading: number;
 }
 
 type Role = 'ordinary' | 'straightliner' | 'speeder';
@@ -58,6 +66,8 @@ export function generateWave(spec: WaveSpec, seed: number): SyntheticWave {
   const latents = new Float64Array(plans.length);
   const sharedWeight = Math.sqrt(spec.factorCorrelation);
   const ownWeight = Math.sqrt(1 - spec.factorCorrelation);
+  const doubletCount = plans.reduce((count, plan) => Math.max(count, plan.doubletIndex + 1), 0);
+  const doubletShared = new Float64Array(doubletCount);
 
   for (let i = 0; i < rows; i++) {
     const general = random.nextNormal();
@@ -72,9 +82,14 @@ export function generateWave(spec: WaveSpec, seed: number): SyntheticWave {
       } else if (role === 'speeder') {
         answer = 1 + random.nextInt(plan.points);
       } else {
-        if (plan.sourceIndex < 0) {
+        // Doublet components are drawn only for waves that plant doublets, so waves without them
+        // draw exactly the random numbers they always drew (the demo does not change).
+        if (j === 0) for (let d = 0; d < doubletCount; d++) doubletShared[d] = random.nextNormal();
+        if (plan.sourceIndex < 0 && plan.doubletIndex < 0 && plan.crossScaleIndex < 0) {
           const uniqueness = Math.sqrt(1 - plan.loading * plan.loading);
           latents[j] = plan.loading * factors[plan.scaleIndex] + uniqueness * random.nextNormal();
+        } else if (plan.sourceIndex < 0) {
+          latents[j] = structuredLatent(plan, factors, doubletShared, spec.factorCorrelation, random);
         } else {
           const noisy = latents[plan.sourceIndex] + spec.twinNoise * random.nextNormal();
           latents[j] = noisy / Math.sqrt(1 + spec.twinNoise * spec.twinNoise);
@@ -90,6 +105,25 @@ export function generateWave(spec: WaveSpec, seed: number): SyntheticWave {
   }
 
   return assemble(spec, plans, itemValues, outcomeValues, durations, roles);
+}
+
+/**
+ * Latent response of an item with a doublet component and/or a cross-loading, unit variance:
+ * `loading · own factor + cross · other factor + sqrt(θ) · shared + sqrt(rest) · noise`, where the
+ * rest is `1 − loading² − cross² − 2 · loading · cross · φ − θ` (φ the factor correlation).
+ */
+function structuredLatent(plan: ItemPlan, factors: Float64Array, shared: Float64Array, factorCorrelation: number, random: SeededRandom): number {
+  let latent = plan.loading * factors[plan.scaleIndex];
+  let explained = plan.loading * plan.loading;
+  if (plan.crossScaleIndex >= 0) {
+    latent += plan.crossLoading * factors[plan.crossScaleIndex];
+    explained += plan.crossLoading * plan.crossLoading + 2 * plan.loading * plan.crossLoading * factorCorrelation;
+  }
+  if (plan.doubletIndex >= 0) {
+    latent += plan.doubletWeight * shared[plan.doubletIndex];
+    explained += plan.doubletWeight * plan.doubletWeight;
+  }
+  return latent + Math.sqrt(1 - explained) * random.nextNormal();
 }
 
 function checkSpec(spec: WaveSpec): void {
@@ -126,12 +160,37 @@ function checkSpec(spec: WaveSpec): void {
     if (!Number.isInteger(code.code) || (code.code >= 1 && code.code <= maxPoints)) fail(`missing code ${code.code} must be an integer outside 1..${maxPoints}`);
     if (!(code.rate >= 0)) fail(`missing code ${code.code} has a negative rate`);
   }
+  const scaleNames = spec.scales.map((scale) => scale.name);
   for (const scale of spec.scales) {
     if (scale.points !== 5 && scale.points !== 7) fail(`scale "${scale.name}" must have 5 or 7 points, got ${scale.points}`);
     if (scale.items.length === 0) fail(`scale "${scale.name}" has no items`);
+    const range = scale.loadingRange ?? spec.loadingRange;
+    if (!(range[0] > 0 && range[0] <= range[1] && range[1] < 1)) fail(`scale "${scale.name}" loadingRange must satisfy 0 < low <= high < 1, got [${range[0]}, ${range[1]}]`);
     const byName = new Map<string, ItemSpec>(scale.items.map((item) => [item.name, item]));
+    const inDoublet = new Set<string>();
     for (const item of scale.items) {
       claim(item.name);
+      if (item.crossLoading !== undefined) {
+        const { scale: other, loading } = item.crossLoading;
+        if (!scaleNames.includes(other) || other === scale.name) fail(`item "${item.name}" cross-loads on "${other}", which must be another scale of the wave`);
+        if (!(Math.abs(loading) > 0 && Math.abs(loading) < 1)) fail(`item "${item.name}" cross-loading must lie in (-1, 1) and not be 0, got ${loading}`);
+        if (item.twinOf !== undefined || item.doubletOf !== undefined) fail(`item "${item.name}" cannot be both a cross-loading decoy and a twin or doublet`);
+        const high = range[1];
+        const worst = high * high + loading * loading + 2 * high * Math.abs(loading) * spec.factorCorrelation;
+        if (!(worst < 1)) fail(`item "${item.name}" loading up to ${high} and cross-loading ${loading} leave no unique variance`);
+      }
+      if (item.doubletOf !== undefined) {
+        const source = byName.get(item.doubletOf);
+        const theta = item.doubletResidual;
+        if (item.twinOf !== undefined) fail(`item "${item.name}" cannot be both a twin and a doublet`);
+        if (source === undefined) fail(`doublet "${item.name}" names source "${item.doubletOf}", which is not an item of scale "${scale.name}"`);
+        else if (source.twinOf !== undefined || source.doubletOf !== undefined || source.crossLoading !== undefined) fail(`doublet "${item.name}" names source "${item.doubletOf}", which must be an ordinary item`);
+        else if (scale.items.indexOf(source) > scale.items.indexOf(item)) fail(`doublet "${item.name}" must come after its source "${item.doubletOf}"`);
+        if (inDoublet.has(item.doubletOf)) fail(`source "${item.doubletOf}" already has a doublet`);
+        inDoublet.add(item.doubletOf);
+        if (theta === undefined || !(theta > 0 && theta < 1)) fail(`doublet "${item.name}" needs doubletResidual in (0, 1), got ${String(theta)}`);
+        else if (!(range[1] * range[1] + theta < 1)) fail(`doublet "${item.name}": residual ${theta} plus a loading up to ${range[1]} leaves no unique variance (loading² + residual must stay below 1)`);
+      } else if (item.doubletResidual !== undefined) fail(`item "${item.name}" has doubletResidual without doubletOf`);
       if (item.twinOf === undefined) continue;
       const source = byName.get(item.twinOf);
       if (source === undefined) fail(`twin "${item.name}" names source "${item.twinOf}", which is not an item of scale "${scale.name}"`);
@@ -161,15 +220,37 @@ function checkSpec(spec: WaveSpec): void {
 function planItems(spec: WaveSpec, random: SeededRandom): ItemPlan[] {
   const plans: ItemPlan[] = [];
   const indexByName = new Map<string, number>();
-  const [low, high] = spec.loadingRange;
+  const scaleIndexByName = new Map(spec.scales.map((scale, k) => [scale.name, k]));
+  let doublets = 0;
   spec.scales.forEach((scale, scaleIndex) => {
+    const [low, high] = scale.loadingRange ?? spec.loadingRange;
     for (const item of scale.items) {
       const loading = low + (high - low) * random.next();
       const shift = spec.skew * (0.5 + 0.5 * random.next());
       const sourceIndex = item.twinOf === undefined ? -1 : (indexByName.get(item.twinOf) as number);
       const thresholds = sourceIndex < 0 ? ordinalThresholds(scale.points, shift) : plans[sourceIndex].thresholds;
+      let doubletIndex = -1;
+      let doubletWeight = 0;
+      if (item.doubletOf !== undefined) {
+        const source = indexByName.get(item.doubletOf) as number;
+        doubletIndex = doublets++;
+        doubletWeight = Math.sqrt(item.doubletResidual as number);
+        plans[source] = { ...plans[source], doubletIndex, doubletWeight };
+      }
       indexByName.set(item.name, plans.length);
-      plans.push({ name: item.name, scaleIndex, points: scale.points, reverse: item.reverse === true, loading, thresholds, sourceIndex });
+      plans.push({
+        name: item.name,
+        scaleIndex,
+        points: scale.points,
+        reverse: item.reverse === true,
+        loading,
+        thresholds,
+        sourceIndex,
+        doubletIndex,
+        doubletWeight,
+        crossScaleIndex: item.crossLoading === undefined ? -1 : (scaleIndexByName.get(item.crossLoading.scale) as number),
+        crossLoading: item.crossLoading?.loading ?? 0,
+      });
     }
   });
   return plans;
@@ -279,6 +360,13 @@ function assemble(
     if (plan.sourceIndex >= 0 && plan.reverse !== plans[plan.sourceIndex].reverse) reverseTwins.push([plans[plan.sourceIndex].name, plan.name]);
   });
 
+  const doublets: [string, string][] = [];
+  spec.scales.forEach((scale) => {
+    for (const item of scale.items) if (item.doubletOf !== undefined) doublets.push([item.doubletOf, item.name]);
+  });
+  const crossLoadings = spec.scales.flatMap((scale) => scale.items.filter((item) => item.crossLoading !== undefined).map((item) => item.name));
+  const ownLoadingScales = spec.scales.filter((scale) => scale.loadingRange !== undefined).map((scale) => scale.name);
+
   const rolesOf = (role: Role): number[] => roles.flatMap((value, i) => (value === role ? [i] : []));
   return {
     columns,
@@ -286,6 +374,9 @@ function assemble(
     truth: {
       plantedPairs,
       duplicates: spec.duplicateColumns.map((copy) => [copy.source, copy.name] as const),
+      doublets,
+      crossLoadings,
+      ownLoadingScales,
       reverseTwins,
       constantItems: spec.constantItems.map((constant) => constant.name),
       scales,

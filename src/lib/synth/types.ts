@@ -24,6 +24,22 @@ export interface ItemSpec {
    * reverse-keyed. With `twinOf` this makes a reverse-worded twin.
    */
   readonly reverse?: boolean;
+  /**
+   * When set, the item is a planted doublet of the named item of the same scale: beyond the
+   * common factor, the two latent responses share a component whose covariance (in the
+   * standardized latent metric) is `doubletResidual`, so their latent correlation is
+   * `loading_a · loading_b + doubletResidual` (the residual correlation a confirmatory model of
+   * the latent responses would show). The source must be an ordinary item (no twin, no doublet).
+   */
+  readonly doubletOf?: string;
+  /** Latent residual covariance of a doublet, in (0, 1); required with `doubletOf`. */
+  readonly doubletResidual?: number;
+  /**
+   * When set, the item also loads on another scale's factor (a cross-loading decoy): its latent
+   * response is `loading · own factor + crossLoading.loading · other factor + noise` with unit
+   * variance. Not redundancy: it must not be flagged.
+   */
+  readonly crossLoading?: { readonly scale: string; readonly loading: number };
 }
 
 /** One scale: a set of items that load on one factor. */
@@ -31,6 +47,11 @@ export interface ScaleSpec {
   readonly name: string;
   readonly points: ScalePoints;
   readonly items: readonly ItemSpec[];
+  /**
+   * This scale's loading range, in place of the wave's `loadingRange` (e.g. [0.84, 0.90] for a
+   * highly homogeneous scale, where every pair correlates highly without any redundancy).
+   */
+  readonly loadingRange?: readonly [number, number];
 }
 
 /** A missing code and how often it replaces an answer. */
@@ -130,6 +151,12 @@ export interface WaveTruth {
   readonly plantedPairs: readonly (readonly [string, string])[];
   /** Exactly duplicated columns as [source, copy]. */
   readonly duplicates: readonly (readonly [string, string])[];
+  /** Planted doublets as [source, doublet] (locally dependent pairs, not near-copies). */
+  readonly doublets: readonly (readonly [string, string])[];
+  /** Cross-loading decoy items (not redundant; must not be flagged). */
+  readonly crossLoadings: readonly string[];
+  /** Scales generated with their own loading range (e.g. homogeneous decoy scales). */
+  readonly ownLoadingScales: readonly string[];
   /** Reverse-worded twins as [source, reversed twin]. */
   readonly reverseTwins: readonly (readonly [string, string])[];
   readonly constantItems: readonly string[];

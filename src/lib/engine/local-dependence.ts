@@ -1,0 +1,218 @@
+/**
+ * Local-dependence evidence (methods.md §3b): residual correlations after each scale's one-factor
+ * model with a parametric-bootstrap critical value for the relative rule, and the weighted
+ * topological overlap (wTO) of the EBIC-selected graphical-lasso network of all usable items.
+ *
+ * The numerical work is the core's (src/lib/stats); this file only decides which matrices go in
+ * (each scale's block of the audit's correlation matrix; the whole matrix for the network) and
+ * gathers the results per item. The detectors sit behind `LocalDependenceDetectors` so that the
+ * engine's rules can be tested with any implementation and the bootstrap can reuse what is too
+ * costly to repeat (see `LocalDependenceReuse`).
+ */
+import type { SquareMatrix } from '../stats/types';
+import { principalSubmatrix } from './principal-submatrix';
+import type { EngineItem, EngineWarning, LocalDependenceEvidence, ScaleResidualEvidence } from './types';
+
+/** Residual correlations of one scale after its one-factor model. */
+export interface ScaleResidualResult {
+  /** One-factor loadings (scale order), or null when the model could not be fitted. */
+  readonly loadings: readonly number[] | null;
+  /** Residual matrix r − λλᵀ with zero diagonal (scale order), or null with the loadings. */
+  readonly residuals: readonly (readonly number[])[] | null;
+  /** Mean off-diagonal residual, or null. */
+  readonly meanResidual: number | null;
+}
+
+/** The network of all usable items. */
+export interface NetworkResult {
+  /** Signed regularised partial correlations, zero diagonal. */
+  readonly partial: SquareMatrix;
+  /** Weighted topological overlap of |partial|. */
+  readonly wto: SquareMatrix;
+  /** The penalty used. */
+  readonly penalty: number;
+}
+
+/** The numerical detectors the engine calls (implemented by the core; see `coreDetectors`). */
+export interface LocalDependenceDetectors {
+  /** One-factor residuals of a scale's correlation block. */
+  scaleResiduals(correlation: SquareMatrix, statistic: 'residual' | 'q3'): ScaleResidualResult;
+  /**
+   * Critical value of a scale's largest relative residual: the given quantile of its distribution
+   * over parametric-bootstrap draws of n respondents from the fitted model (seeded). Null when it
+   * cannot be computed.
+   */
+  residualCritical(
+    loadings: readonly number[],
+    sampleSize: number,
+    options: { draws: number; quantile: number; seed: number; thresholds: readonly (readonly number[])[] | null; statistic: 'residual' | 'q3' },
+  ): number | null;
+  /**
+   * EBIC-glasso network and its wTO. With `penalty` set, the network is fitted at that penalty
+   * only (no EBIC path).
+   */
+  network(correlation: SquareMatrix, sampleSize: number, options: { gamma: number; penaltyCount: number; penalty: number | null }): NetworkResult | null;
+}
+
+/** What a bootstrap resample reuses from the full sample (so a resample stays affordable). */
+export interface LocalDependenceReuse {
+  /** Each scale's critical value, by scale id. */
+  readonly critical: ReadonlyMap<string, number | null>;
+  /** The EBIC-selected penalty (the resample fits one network at it). */
+  readonly penalty: number | null;
+}
+
+/** Settings `localDependenceEvidence` reads. */
+export interface LocalDependenceSettings {
+  readonly residualBootstrapDraws: number;
+  readonly residualCriticalQuantile: number;
+  readonly residualStatistic: 'residual' | 'q3';
+  readonly ebicGamma: number;
+  readonly ebicPenaltyCount: number;
+  readonly seed: number;
+  readonly strongPairThreshold: number;
+  readonly residualRelativeThreshold: number;
+}
+
+/** Smallest scale whose one-factor residuals carry information (3 items fit exactly). */
+export const MIN_ITEMS_FOR_RESIDUALS = 4;
+
+/**
+ * The local-dependence evidence of a wave.
+ * @param correlation Correlation matrix over `usable` (positive definite for the network).
+ * @param items All items.
+ * @param usable Indices into items[] of the matrix's items.
+ * @param sampleSize Respondents behind the matrix.
+ * @param settings Bootstrap draws, quantile, EBIC gamma and seed.
+ * @param detectors The numerical detectors.
+ * @param reuse When given (bootstrap resamples), critical values and the penalty are taken from it.
+ * @param exactDependencies Exactly dependent groups (indices into items[]); their later members stay out of the network.
+ * @param thresholds Latent thresholds per usable item (Φ⁻¹ of its cumulative answer shares), for
+ *   ordinal bootstrap draws; null entries (or null) give normal draws for the scale.
+ * @throws {RangeError} when the matrix does not match the usable items.
+ * @returns The evidence and warnings for whatever could not be computed.
+ * References: Yen 1984 (Q3); Christensen, Makransky & Horton 2017 (relative rule, bootstrap
+ * critical value); Nowick et al. 2009 (wTO); Friedman, Hastie & Tibshirani 2008; Foygel & Drton 2010.
+ */
+export function localDependenceEvidence(
+  correlation: SquareMatrix,
+  items: readonly EngineItem[],
+  usable: readonly number[],
+  sampleSize: number,
+  settings: LocalDependenceSettings,
+  detectors: LocalDependenceDetectors,
+  reuse: LocalDependenceReuse | null = null,
+  thresholds: readonly (readonly number[] | null)[] | null = null,
+  exactDependencies: readonly (readonly number[])[] = [],
+): { evidence: LocalDependenceEvidence; warnings: EngineWarning[] } {
+  if (correlation.order !== usable.length) throw new RangeError(`localDependenceEvidence: matrix of order ${correlation.order} for ${usable.length} usable items`);
+  const warnings: EngineWarning[] = [];
+  const position = new Map(usable.map((item, k) => [item, k]));
+  const scaleIds: string[] = [];
+  for (const index of usable) {
+    const scale = items[index].scale;
+    if (scale !== null && !scaleIds.includes(scale)) scaleIds.push(scale);
+  }
+  const scales: ScaleResidualEvidence[] = [];
+  scaleIds.forEach((scale, s) => {
+    const members = usable.filter((index) => items[index].scale === scale);
+    if (members.length < MIN_ITEMS_FOR_RESIDUALS) return;
+    const block = principalSubmatrix(correlation, members.map((index) => position.get(index) as number));
+    // A near-copy pair becomes the scale's one factor and pushes every other pair's residual up.
+    // The later member of each near-copy pair (|r| at or above the strong-pair threshold and
+    // standing out of the scale by the relative rule) is left out of the model; its own pairs keep
+    // the residuals of the full model.
+    const nearCopies = nearCopyMembers(block, settings);
+    const full = detectors.scaleResiduals(block, settings.residualStatistic);
+    let fit = full;
+    if (nearCopies.size > 0 && members.length - nearCopies.size >= MIN_ITEMS_FOR_RESIDUALS) {
+      const keptLocal = members.map((_, k) => k).filter((k) => !nearCopies.has(k));
+      const reduced = detectors.scaleResiduals(principalSubmatrix(block, keptLocal), settings.residualStatistic);
+      if (reduced.loadings !== null && reduced.residuals !== null && full.residuals !== null && full.loadings !== null) {
+        const residuals = full.residuals.map((row) => [...row]);
+        keptLocal.forEach((a, x) => keptLocal.forEach((b, y) => (residuals[a][b] = (reduced.residuals as number[][])[x][y])));
+        const loadings = [...full.loadings];
+        keptLocal.forEach((a, x) => (loadings[a] = (reduced.loadings as number[])[x]));
+        fit = { loadings, residuals, meanResidual: reduced.meanResidual, criticalLoadings: reduced.loadings } as ScaleResidualResult & { criticalLoadings: readonly number[] };
+      }
+    }
+    if (fit.loadings === null || fit.residuals === null || fit.meanResidual === null) {
+      warnings.push({ code: 'residuals-skipped', items: members.map((index) => items[index].id), message: `Scale ${scale}: its one-factor model could not be fitted, so its residual correlations were not checked.` });
+      return;
+    }
+    const criticalLoadings = (fit as { criticalLoadings?: readonly number[] }).criticalLoadings ?? fit.loadings;
+    const criticalItems = criticalLoadings === fit.loadings ? members : members.filter((_, k) => !nearCopies.has(k));
+    let critical: number | null;
+    if (reuse !== null) critical = reuse.critical.get(scale) ?? null;
+    else if (settings.residualBootstrapDraws === 0) critical = null;
+    else {
+      const scaleThresholds = thresholds === null ? null : criticalItems.map((index) => thresholds[position.get(index) as number]);
+      critical = detectors.residualCritical(criticalLoadings, sampleSize, {
+        draws: settings.residualBootstrapDraws,
+        quantile: settings.residualCriticalQuantile,
+        seed: settings.seed + s,
+        statistic: settings.residualStatistic,
+        thresholds: scaleThresholds !== null && scaleThresholds.every((list) => list !== null && list.length > 0) ? (scaleThresholds as number[][]) : null,
+      });
+    }
+    scales.push({ scale, items: members, loadings: fit.loadings, residuals: fit.residuals, meanResidual: fit.meanResidual, critical });
+  });
+
+  let network: NetworkResult | null = null;
+  // An exact copy makes the matrix singular, and the network needs it positive definite: the
+  // network is estimated without the later members of each exact dependency (their wTO and
+  // partial correlations are then 0, and the exact rule covers them).
+  const dropped = new Set<number>();
+  for (const group of exactDependencies) for (const item of group.slice(1)) dropped.add(position.get(item) as number);
+  const kept = usable.map((_, k) => k).filter((k) => !dropped.has(k));
+  if (kept.length >= 3) {
+    try {
+      const fitted = detectors.network(dropped.size === 0 ? correlation : principalSubmatrix(correlation, kept), sampleSize, {
+        gamma: settings.ebicGamma,
+        penaltyCount: settings.ebicPenaltyCount,
+        penalty: reuse?.penalty ?? null,
+      });
+      network = fitted === null || dropped.size === 0 ? fitted : { ...fitted, partial: expand(fitted.partial, kept, usable.length), wto: expand(fitted.wto, kept, usable.length) };
+    } catch (error) {
+      if (!(error instanceof RangeError)) throw error;
+      warnings.push({ code: 'network-skipped', items: [], message: `The partial-correlation network could not be estimated (${error.message}), so weighted topological overlap was not checked.` });
+    }
+  }
+  return {
+    evidence: { scales, partial: network?.partial ?? null, wto: network?.wto ?? null, penalty: network?.penalty ?? null },
+    warnings,
+  };
+}
+
+/** Local positions of the later member of each near-copy pair of a scale block. */
+function nearCopyMembers(block: SquareMatrix, settings: LocalDependenceSettings): Set<number> {
+  const k = block.order;
+  const r = (a: number, b: number): number => block.data[a * k + b];
+  const later = new Set<number>();
+  for (let a = 0; a < k; a++) {
+    for (let b = a + 1; b < k; b++) {
+      if (later.has(a) || later.has(b) || Math.abs(r(a, b)) < settings.strongPairThreshold || k < 3) continue;
+      let sum = 0;
+      for (let c = 0; c < k; c++) if (c !== a && c !== b) sum += (r(a, c) + r(b, c)) / 2;
+      if (r(a, b) - sum / (k - 2) >= settings.residualRelativeThreshold) later.add(b);
+    }
+  }
+  return later;
+}
+
+/** A matrix over `kept` positions written into a zero matrix of the full order. */
+function expand(matrix: SquareMatrix, kept: readonly number[], order: number): SquareMatrix {
+  const data = new Float64Array(order * order);
+  kept.forEach((i, x) => kept.forEach((j, y) => (data[i * order + j] = matrix.data[x * matrix.order + y])));
+  return { order, data };
+}
+
+/**
+ * What a bootstrap resample reuses from the full-sample evidence.
+ * @param evidence The full-sample local-dependence evidence.
+ * @returns Critical values by scale and the selected penalty.
+ * References: none (bookkeeping).
+ */
+export function localDependenceReuse(evidence: LocalDependenceEvidence): LocalDependenceReuse {
+  return { critical: new Map(evidence.scales.map((scale) => [scale.scale, scale.critical])), penalty: evidence.penalty };
+}

@@ -1,0 +1,51 @@
+/**
+ * Loads fixtures/reference/engine-real-instruments.json (written by
+ * scripts/reference/engine-real-instruments.R) as engine input: psych::bfi (reverse-keyed items
+ * recoded 7 − x on its 1..6 range) and lavaan::HolzingerSwineford1939 (continuous scores).
+ */
+import { readFileSync } from 'node:fs';
+import type { EngineItem } from '../../src/lib/engine/types';
+import { itemMatrixFromColumns, type ItemMatrix } from '../../src/lib/stats/types';
+
+export interface MiReference {
+  scale?: string;
+  call?: string;
+  pair: [string, string];
+  mi: number;
+  epc: number;
+  second: { pair: [string, string]; mi: number };
+}
+
+interface Instrument {
+  items: string[];
+  scale: string[];
+  columns: Record<string, (number | null)[]>;
+  largestResidualMi: MiReference | MiReference[];
+  reverse?: string[];
+  min?: number;
+  max?: number;
+  text?: string[];
+}
+
+export const realInstruments = JSON.parse(readFileSync(new URL('../../fixtures/reference/engine-real-instruments.json', import.meta.url), 'utf8')) as {
+  generated: Record<string, string>;
+  bfi: Instrument & { largestResidualMi: MiReference[] };
+  holzinger: Instrument & { largestResidualMi: MiReference };
+};
+
+/** An instrument as the engine's input. */
+export function instrumentInput(instrument: Instrument): { matrix: ItemMatrix; items: EngineItem[] } {
+  const reverse = new Set(instrument.reverse ?? []);
+  const columns = instrument.items.map((id) =>
+    instrument.columns[id].map((value) => (value === null ? Number.NaN : reverse.has(id) ? (instrument.min as number) + (instrument.max as number) - value : value)),
+  );
+  const items: EngineItem[] = instrument.items.map((id, j) => ({
+    id,
+    scale: instrument.scale[j],
+    text: instrument.text?.[j] ?? null,
+    locked: false,
+    min: instrument.min ?? null,
+    max: instrument.max ?? null,
+  }));
+  return { matrix: itemMatrixFromColumns(columns), items };
+}
