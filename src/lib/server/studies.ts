@@ -9,18 +9,8 @@ import { getDb } from './db';
 import { serverFileStore } from './file-store';
 import type { StudyRow } from './guard';
 import { newId } from './ids';
-
-/** A study as lists show it. */
-export interface StudySummary {
-  id: string;
-  name: string;
-  description: string;
-  team: { id: string; name: string };
-  role: Role;
-  waves: number;
-  audits: number;
-  createdAt: string;
-}
+import type { StudyDetail, StudySummary } from '../api/studies';
+export type { StudyDetail, StudySummary } from '../api/studies';
 
 /**
  * The studies the user may read, newest first, across all their teams.
@@ -64,22 +54,6 @@ export function listStudies(user: CurrentUser): StudySummary[] {
     audits: auditCounts.get(r.id) ?? 0,
     createdAt: r.createdAt.toISOString(),
   }));
-}
-
-/** A study with its waves, audits and the state of its cut list. */
-export interface StudyDetail {
-  id: string;
-  name: string;
-  description: string;
-  settings: StudyRow['settings'];
-  team: { id: string; name: string };
-  createdAt: string;
-  waves: { id: string; label: string; status: string; format: string; rows: number; items: number; excluded: number; createdAt: string; confirmedAt: string | null }[];
-  audits: { id: string; waveId: string; status: string; stage: string | null; progress: number; createdAt: string; finishedAt: string | null; error: string | null }[];
-  cutList: {
-    counts: Record<string, number>;
-    latestVersion: { number: number; publishedAt: string; programmedAt: string | null } | null;
-  };
 }
 
 /**

@@ -24,6 +24,8 @@ import { auditSettingsHash, resolveAuditSettings, type AuditSettingsRequest, typ
 import { AuditJobFailure, AuditWorkerPool } from './worker-pool';
 import { spawnAuditWorker } from './worker-entry';
 import type { AuditWorkerJob } from './worker-protocol';
+import type { AuditStatus, AuditSummary } from '../../api/audits';
+export type { AuditStatus, AuditSummary } from '../../api/audits';
 
 /** The reason stored on audits found unfinished when the server starts. */
 export const INTERRUPTED_REASON = 'The audit was interrupted by a restart of the server before it finished; retry it.';
@@ -33,29 +35,6 @@ export const PROGRESS_WRITE_INTERVAL_MS = 250;
 
 /** Stored failure reasons are cut to this length. */
 const MAX_REASON_LENGTH = 2_000;
-
-export type AuditStatus = (typeof audits.$inferSelect)['status'];
-
-/** An audit as the API and pages show it (without its result). */
-export interface AuditSummary {
-  id: string;
-  waveId: string;
-  studyId: string;
-  waveLabel: string;
-  status: AuditStatus;
-  /** The stage running now (`loading`, `evidence`, `structure`, `engine`, `outcome`, `saving`), or null. */
-  stage: string | null;
-  /** 0-100; 100 once done. */
-  percent: number;
-  /** Why it failed, when it failed. */
-  error: string | null;
-  settings: ResolvedAuditSettings;
-  /** Milliseconds per stage, once it ended. */
-  timings: Record<string, number> | null;
-  createdAt: string;
-  startedAt: string | null;
-  finishedAt: string | null;
-}
 
 /** An audit row as read here (no result text). */
 const summaryColumns = {
