@@ -1,5 +1,5 @@
 import { useEffect, useState } from 'react';
-import { auditsApi, type AuditSummary } from '../../lib/api/audits';
+import { auditsApi } from '../../lib/api/audits';
 import { formatRecentTime } from '../date-words';
 import AuditProgressBar from './AuditProgressBar';
 import { formatDuration, settingsLine, statusWords } from '../../lib/words';

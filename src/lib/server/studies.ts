@@ -1,6 +1,5 @@
 /** Studies: listing, reading with what lies under them, creating and deleting. */
 import { count, desc, eq, inArray } from 'drizzle-orm';
-import { auditJobs } from './audit-jobs/audit-jobs';
 import { audits, cutListVersions, decisions, studies, teams, waves } from '../../db/schema';
 import { can, type Role } from '../permissions';
 import { logActivity } from './activity';
@@ -62,9 +61,6 @@ export function listStudies(user: CurrentUser): StudySummary[] {
  * @returns the detail.
  */
 export function studyDetail(study: StudyRow): StudyDetail {
-  // The audits service marks audits an earlier process left unfinished as failed when it is
-  // first used, so the list below never shows a stale "running".
-  auditJobs();
   const db = getDb();
   const team = db.select({ id: teams.id, name: teams.name }).from(teams).where(eq(teams.id, study.teamId)).get();
   const waveRows = db

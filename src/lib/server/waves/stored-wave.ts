@@ -13,7 +13,7 @@ import type {
   AcceptedWave, BuiltWave, ColumnProposal, ColumnSetup, ItemCounts, ProposedSetup, ReadWave, ScreeningFlag, ScreeningOptions, ScreeningResult, WaveSource, WaveWarning,
 } from '../../ingest';
 import type { waves } from '../../../db/schema';
-import type { FlaggedRespondent, ScreeningDetail, ScreeningSummary, StoredSource, WaveSummary } from '../../api/waves';
+import type { ScreeningDetail, ScreeningSummary, StoredSource, WaveSummary } from '../../api/waves';
 export type { FlaggedRespondent, FlagSummary, ScreeningDetail, ScreeningSummary, StoredSource, WaveSummary } from '../../api/waves';
 
 /** A wave row as Drizzle reads it. */

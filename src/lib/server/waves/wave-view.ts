@@ -5,11 +5,10 @@
  */
 import { asc, eq } from 'drizzle-orm';
 import { waveItems } from '../../../db/schema';
-import type { ColumnProposal, ItemCounts, ScreeningResult, WaveWarning } from '../../ingest';
+import type { ScreeningResult } from '../../ingest';
 import { getDb } from '../db';
 import {
-  mergeWarnings, parseStoredSetup, screeningDetail, screeningSummary, waveSummary,
-  type ScreeningDetail, type ScreeningSummary, type StoredWaveSetup, type WaveRow, type WaveSummary,
+  mergeWarnings, parseStoredSetup, screeningDetail, screeningSummary, waveSummary, type StoredWaveSetup, type WaveRow,
 } from './stored-wave';
 import type { ItemView, WaveView } from '../../api/waves';
 export type { ItemView, OutcomeView, WaveView } from '../../api/waves';
