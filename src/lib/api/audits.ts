@@ -3,7 +3,7 @@
  * (GET /api/audits/{id}, `?download=1` for the JSON alone) and retry (POST /api/audits/{id}/retry).
  *
  * The settings request schema and the resolved settings are built elsewhere (issue 8's settings
- * table, under src/lib/audit/): this file re-exports their types and ./audit-settings.ts the
+ * table, under src/lib/audit/): this file re-exports their types and ./schemas/audits.ts the
  * schema, so routes, islands and tests name one place. Until that work lands both come from the
  * server's audit-settings module: the two listed exceptions in tests/unit/layering.test.ts
  * (`pendingElsewhere`). The schema has a file of its own so that islands importing the calls
@@ -14,7 +14,7 @@ import type { EngineSettings } from '../engine/engine-settings';
 import { callApi, segment, type ApiResult } from './client';
 import type { WaveSummary } from './waves';
 
-// Types only (erased from the browser's bundle); the schema itself: ./audit-settings.ts.
+// Types only (erased from the browser's bundle); the schema itself: ./schemas/audits.ts.
 import type { AuditSettingsRequest, ResolvedAuditSettings } from '../server/audit-jobs/audit-settings';
 export type { AuditSettingsRequest, ResolvedAuditSettings };
 

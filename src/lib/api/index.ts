@@ -1,17 +1,25 @@
 /**
- * The API's contracts, one file per domain. Each domain file holds, for its routes:
- * 1. request schemas (zod), named `<verb><Thing>Request`, with `type <Verb><Thing>Request = z.input<...>`;
- * 2. response shapes (TypeScript types), named `<Thing>Response` or `<Thing>View`;
- * 3. the typed calls, one object `<domain>Api` wrapping `callApi` (./client.ts) once per route.
+ * The API's contracts: what each route accepts and answers, shared by the routes
+ * (src/pages/api/**), the pages, the islands (src/components/**) and the tests. Per domain
+ * (me, setup, studies, waves, audits, teams, tokens, outbox; later cut-list, workspace, ...):
  *
- * Routes (src/pages/api/**) read their bodies with these schemas and answer these shapes; the
- * server's services are annotated with them, so the compiler checks both ends. Pages, islands
- * and tests import from here, never from src/lib/server. Nothing here imports server or
- * database code (tests/unit/layering.test.ts). To add a domain: a new file beside these,
- * re-exported below, and its routes' rows in tests/api/permissions.test.ts.
+ * - `src/lib/api/<domain>.ts`: the response shapes (`<Thing>Response`, `<Thing>View`), the request
+ *   types (`<Verb><Thing>Request = z.input<typeof <verb><Thing>Request>`, a type only) and the typed
+ *   calls, one object `<domain>Api` wrapping `callApi` (./client.ts) once per route. Safe for
+ *   the browser: no zod, no server code at run time.
+ * - `src/lib/api/schemas/<domain>.ts`: the request schemas (zod) the routes read bodies with
+ *   (`readJson(request, createStudyRequest)`). Apart so that islands do not ship zod (about 25 KB
+ *   gzipped) unless a form checks its input with the same schema.
  *
- * Islands import the domain file they need (`../lib/api/studies`), not this index, and never
- * ./audit-settings.ts (left out below: it re-exports a server module until the settings table lands).
+ * The server's services are annotated with the shapes and the routes answer
+ * `json(... satisfies <Thing>Response)`, so the compiler checks both ends. Nothing here imports
+ * server or database code (tests/unit/layering.test.ts; the audit settings schema is the listed
+ * exception until the settings table lands in src/lib/audit/). Errors: ./errors.ts.
+ *
+ * To add a domain: `<domain>.ts` and `schemas/<domain>.ts` beside these, re-exported below and in
+ * ./schemas/index.ts, and a row per route and method in tests/api/permission-table.ts (the route
+ * inventory test fails until there is one). Islands import the domain file they need
+ * (`../lib/api/studies`), not this index.
  */
 export * from './errors';
 export * from './client';

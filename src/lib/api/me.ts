@@ -1,16 +1,11 @@
 /**
- * Contracts of the caller's own routes: GET /api/me and PUT /api/me/password, and the password
- * policy every form and route that takes a password shares.
+ * Contracts of the caller's own routes: GET /api/me and PUT /api/me/password (the password
+ * policy every form and route shares is in ./schemas/me.ts).
  */
-import { z } from 'zod';
+import type { z } from 'zod';
+import type { changePasswordRequest } from './schemas/me';
 import type { Action, Role } from '../permissions';
 import { callApi, type ApiResult } from './client';
-
-/** A password policy the forms and the API share: 10 to 200 characters. */
-export const passwordSchema = z
-  .string()
-  .min(10, 'The password needs at least 10 characters.')
-  .max(200, 'The password may have at most 200 characters.');
 
 /** GET /api/me: the caller, their teams, their role and permissions in each. */
 export interface MeResponse {
@@ -20,8 +15,6 @@ export interface MeResponse {
   teams: { id: string; name: string; role: Role; permissions: Action[] }[];
 }
 
-/** Body of PUT /api/me/password. */
-export const changePasswordRequest = z.object({ currentPassword: z.string().min(1).max(200), newPassword: passwordSchema });
 export type ChangePasswordRequest = z.input<typeof changePasswordRequest>;
 
 /** PUT /api/me/password: sessions issued before stop working, so the page signs in again. */

@@ -2,17 +2,10 @@
  * Contracts of the routes that need nobody signed in: POST /api/setup (first run) and
  * GET /api/health.
  */
-import { z } from 'zod';
+import type { z } from 'zod';
+import type { setupRequest } from './schemas/setup';
 import { callApi, type ApiResult } from './client';
-import { passwordSchema } from './me';
 
-/** Body of POST /api/setup: the first owner and their team (on an empty database only). */
-export const setupRequest = z.object({
-  teamName: z.string().trim().min(1, 'The team needs a name.').max(200),
-  name: z.string().trim().min(1, 'Your name is needed.').max(200),
-  email: z.email('That is not an e-mail address.').max(320),
-  password: passwordSchema,
-});
 export type SetupRequest = z.input<typeof setupRequest>;
 
 /** POST /api/setup: 201 with the new ids. */

@@ -1,5 +1,6 @@
 /** Contracts of the study routes: /api/studies and /api/studies/{id}. */
-import { z } from 'zod';
+import type { z } from 'zod';
+import type { createStudyRequest } from './schemas/studies';
 import type { Role } from '../permissions';
 import { callApi, segment, type ApiResult } from './client';
 
@@ -55,12 +56,6 @@ export interface StudyResponse {
   study: StudyDetail & { role: Role };
 }
 
-/** Body of POST /api/studies (`teamId` may be left out when the caller may create in one team only). */
-export const createStudyRequest = z.object({
-  teamId: z.string().min(1).max(64).optional(),
-  name: z.string().trim().min(1, 'A study needs a name.').max(200),
-  description: z.string().trim().max(4000).default(''),
-});
 export type CreateStudyRequest = z.input<typeof createStudyRequest>;
 
 /** POST /api/studies: 201 with the new study. */

@@ -2,10 +2,10 @@
  * Contracts of the team routes: members (/api/teams/{id}/members[/{userId}]), invitations
  * (/api/teams/{id}/invitations[/{invitationId}]) and accepting one (/api/invitations/{token}/accept).
  */
-import { z } from 'zod';
-import { roles, type Role } from '../permissions';
+import type { z } from 'zod';
+import type { acceptInvitationRequest, changeRoleRequest, inviteRequest } from './schemas/teams';
+import type { Role } from '../permissions';
 import { callApi, segment, type ApiResult } from './client';
-import { passwordSchema } from './me';
 
 /** A member as the members page and the API show them. */
 export interface MemberView {
@@ -32,8 +32,6 @@ export interface MembersResponse {
   invitations?: InvitationView[];
 }
 
-/** Body of PUT /api/teams/{id}/members/{userId}. */
-export const changeRoleRequest = z.object({ role: z.enum(roles) });
 export type ChangeRoleRequest = z.input<typeof changeRoleRequest>;
 
 /** PUT /api/teams/{id}/members/{userId}: the member with the new role. */
@@ -46,8 +44,6 @@ export interface InvitationsResponse {
   invitations: InvitationView[];
 }
 
-/** Body of POST /api/teams/{id}/invitations. */
-export const inviteRequest = z.object({ email: z.email('That is not an e-mail address.').max(320), role: z.enum(roles) });
 export type InviteRequest = z.input<typeof inviteRequest>;
 
 /** POST /api/teams/{id}/invitations: 201 with the invitation sent. */
@@ -55,11 +51,6 @@ export interface InviteResponse {
   invitation: { id: string; email: string; role: Role; expiresAt: string };
 }
 
-/**
- * Body of POST /api/invitations/{token}/accept: nothing when signed in as the invited address;
- * a name and a password to create the account otherwise.
- */
-export const acceptInvitationRequest = z.object({ name: z.string().trim().min(1).max(200).optional(), password: passwordSchema.optional() });
 export type AcceptInvitationRequest = z.input<typeof acceptInvitationRequest>;
 
 /** POST /api/invitations/{token}/accept: 201. */

@@ -1,5 +1,6 @@
 /** Contracts of the personal API token routes: /api/tokens and /api/tokens/{id}. */
-import { z } from 'zod';
+import type { z } from 'zod';
+import type { createTokenRequest } from './schemas/tokens';
 import { callApi, segment, type ApiResult } from './client';
 
 /** A token as listed (never its secret). */
@@ -17,8 +18,6 @@ export interface ListTokensResponse {
   tokens: ApiTokenView[];
 }
 
-/** Body of POST /api/tokens. */
-export const createTokenRequest = z.object({ name: z.string().trim().min(1, 'Name the token after what uses it.').max(100) });
 export type CreateTokenRequest = z.input<typeof createTokenRequest>;
 
 /** POST /api/tokens: 201; the secret is in this answer only. */

@@ -4,7 +4,8 @@
  * (GET /api/waves/{id}/respondents). One view shape answers the upload, the confirmation and
  * the wave; respondent-level parts are null for callers who may not read respondents.
  */
-import { z } from 'zod';
+import type { z } from 'zod';
+import type { confirmSetupRequest, respondentsQuery } from './schemas/waves';
 import type { ScreeningFlag, ScreeningOptions } from '../ingest';
 import type { ColumnProposal, ColumnSetup, ItemCounts, WaveSource, WaveWarning } from '../ingest/types';
 import { callApi, segment, type ApiResult } from './client';
@@ -115,42 +116,11 @@ export type UploadWaveResponse = WaveView & { duplicate: boolean };
 /** The multipart fields of POST /api/studies/{id}/waves (sent as FormData, not JSON). */
 export const uploadFields = ['file', 'codebook', 'sheet', 'label', 'asNewWave'] as const;
 
-/** Screening thresholds a confirmation may change (the ingest's defaults where absent). */
-export const screeningOptionsRequest = z
-  .object({
-    longStringShare: z.number().gt(0).lte(1),
-    longStringMinimum: z.number().int().gte(2),
-    withinSdMaximum: z.number().gte(0),
-    withinSdMinimumAnswers: z.number().int().gte(2),
-    speederShare: z.number().gt(0).lte(1),
-    missingShareAbove: z.number().gte(0).lte(1),
-  })
-  .partial();
-
-/**
- * Body of PUT /api/waves/{id}/setup: `{ setup: { columns }, exclusions, screening?, dryRun? }`.
- * `setup` is checked against the stored file by the server (its shape depends on the file).
- */
-export const confirmSetupRequest = z.object({
-  setup: z.unknown().optional(),
-  exclusions: z.array(z.number()).optional(),
-  screening: screeningOptionsRequest.optional(),
-  dryRun: z.boolean().optional(),
-});
 export type ConfirmSetupRequest = z.input<typeof confirmSetupRequest>;
 
 /** PUT /api/waves/{id}/setup: the wave as confirmed (or as it would be, on a dry run). */
 export type ConfirmSetupResponse = WaveView & { stored: boolean; dryRun: boolean };
 
-const yesNo = z.enum(['1', '0', 'true', 'false']).transform((value) => value === '1' || value === 'true');
-
-/** Query of GET /api/waves/{id}/respondents. */
-export const respondentsQuery = z.object({
-  page: z.coerce.number().int().min(1).default(1),
-  perPage: z.coerce.number().int().min(1).max(1000).default(100),
-  flagged: yesNo.default(false),
-  excluded: yesNo.default(false),
-});
 export type RespondentsQuery = z.output<typeof respondentsQuery>;
 
 /** One respondent as the designer's list shows them. */

@@ -4,7 +4,7 @@ import bcrypt from 'bcryptjs';
 const cost = 10;
 
 /** The password policy lives with the API's contracts, where the forms read it too. */
-export { passwordSchema } from '../api/me';
+export { passwordSchema } from '../api/schemas/me';
 
 /** Hashes a password. */
 export async function hashPassword(password: string): Promise<string> {

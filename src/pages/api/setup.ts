@@ -1,5 +1,6 @@
 import type { APIRoute } from 'astro';
-import { setupRequest, type SetupResponse } from '../../lib/api/setup';
+import type { SetupResponse } from '../../lib/api/setup';
+import { setupRequest } from '../../lib/api/schemas/setup';
 import { createFirstOwner } from '../../lib/server/accounts';
 import { endpoint, readJson } from '../../lib/server/endpoint';
 import { json } from '../../lib/server/errors';

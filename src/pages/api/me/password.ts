@@ -1,5 +1,6 @@
 import type { APIRoute } from 'astro';
-import { changePasswordRequest, type ChangePasswordResponse } from '../../../lib/api/me';
+import type { ChangePasswordResponse } from '../../../lib/api/me';
+import { changePasswordRequest } from '../../../lib/api/schemas/me';
 import { changePassword } from '../../../lib/server/accounts';
 import { endpoint, readJson } from '../../../lib/server/endpoint';
 import { fail, json } from '../../../lib/server/errors';

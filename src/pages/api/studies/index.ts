@@ -1,5 +1,6 @@
 import type { APIRoute } from 'astro';
-import { createStudyRequest, type CreateStudyResponse, type ListStudiesResponse } from '../../../lib/api/studies';
+import type { CreateStudyResponse, ListStudiesResponse } from '../../../lib/api/studies';
+import { createStudyRequest } from '../../../lib/api/schemas/studies';
 import { can } from '../../../lib/permissions';
 import { endpoint, readJson } from '../../../lib/server/endpoint';
 import { fail, json } from '../../../lib/server/errors';

@@ -1,5 +1,6 @@
 import type { APIRoute } from 'astro';
-import { createTokenRequest, type CreateTokenResponse, type ListTokensResponse } from '../../../lib/api/tokens';
+import type { CreateTokenResponse, ListTokensResponse } from '../../../lib/api/tokens';
+import { createTokenRequest } from '../../../lib/api/schemas/tokens';
 import { createApiToken, listApiTokens } from '../../../lib/server/api-tokens';
 import { endpoint, readJson } from '../../../lib/server/endpoint';
 import { fail, json } from '../../../lib/server/errors';

@@ -1,5 +1,6 @@
 import type { APIRoute } from 'astro';
-import { acceptInvitationRequest, type AcceptInvitationResponse } from '../../../../lib/api/teams';
+import type { AcceptInvitationResponse } from '../../../../lib/api/teams';
+import { acceptInvitationRequest } from '../../../../lib/api/schemas/teams';
 import { endpoint, readJson } from '../../../../lib/server/endpoint';
 import { json } from '../../../../lib/server/errors';
 import { acceptInvitation } from '../../../../lib/server/invitations';

@@ -1,6 +1,6 @@
 import type { APIRoute } from 'astro';
 import type { StartAuditResponse, WaveAuditsResponse } from '../../../../lib/api/audits';
-import { auditRequestSchema } from '../../../../lib/api/audit-settings';
+import { auditRequestSchema } from '../../../../lib/api/schemas/audits';
 import { auditFormWave } from '../../../../lib/server/audit-jobs/audit-form-data';
 import { auditJobs } from '../../../../lib/server/audit-jobs/audit-jobs';
 import { getConfig } from '../../../../lib/server/config';

@@ -1,5 +1,6 @@
 import type { APIRoute } from 'astro';
-import { respondentsQuery, type RespondentPage } from '../../../../lib/api/waves';
+import type { RespondentPage } from '../../../../lib/api/waves';
+import { respondentsQuery } from '../../../../lib/api/schemas/waves';
 import { fail, json } from '../../../../lib/server/errors';
 import { requireAccess } from '../../../../lib/server/guard';
 import { respondentPage } from '../../../../lib/server/waves/respondent-rows';

@@ -1,5 +1,6 @@
 import type { APIRoute } from 'astro';
-import { confirmSetupRequest, type ConfirmSetupResponse } from '../../../../lib/api/waves';
+import type { ConfirmSetupResponse } from '../../../../lib/api/waves';
+import { confirmSetupRequest } from '../../../../lib/api/schemas/waves';
 import { json } from '../../../../lib/server/errors';
 import { confirmWave } from '../../../../lib/server/waves/confirm-wave';
 import { requireAccess } from '../../../../lib/server/guard';

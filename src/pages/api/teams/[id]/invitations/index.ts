@@ -1,5 +1,6 @@
 import type { APIRoute } from 'astro';
-import { inviteRequest, type InvitationsResponse, type InviteResponse } from '../../../../../lib/api/teams';
+import type { InvitationsResponse, InviteResponse } from '../../../../../lib/api/teams';
+import { inviteRequest } from '../../../../../lib/api/schemas/teams';
 import { endpoint, readJson } from '../../../../../lib/server/endpoint';
 import { json } from '../../../../../lib/server/errors';
 import { requireAccess } from '../../../../../lib/server/guard';

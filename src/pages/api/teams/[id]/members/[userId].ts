@@ -1,5 +1,6 @@
 import type { APIRoute } from 'astro';
-import { changeRoleRequest, type ChangeRoleResponse } from '../../../../../lib/api/teams';
+import type { ChangeRoleResponse } from '../../../../../lib/api/teams';
+import { changeRoleRequest } from '../../../../../lib/api/schemas/teams';
 import { endpoint, readJson } from '../../../../../lib/server/endpoint';
 import { json } from '../../../../../lib/server/errors';
 import { requireAccess } from '../../../../../lib/server/guard';
