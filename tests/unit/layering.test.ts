@@ -47,10 +47,6 @@ const pendingElsewhere: { from: string; to: string; why: string }[] = [
   { from: 'src/db/migrate-cli.ts', to: 'src/lib/server/config', why: 'the migrate command moves out of src/db' },
   { from: 'src/db/migrate-cli.ts', to: 'src/lib/server/db', why: 'the migrate command moves out of src/db' },
   { from: 'src/db/stored-files.ts', to: 'src/lib/ingest/content-hash', why: 'the file store moves to src/lib/server' },
-  // "One settings table": the audit settings schema moves from the server to src/lib/audit/;
-  // the contracts re-export it from wherever it lives.
-  { from: 'src/lib/api/audits.ts', to: 'src/lib/server/audit-jobs/audit-settings', why: 'the settings table moves the schema to src/lib/audit/' },
-  { from: 'src/lib/api/schemas/audits.ts', to: 'src/lib/server/audit-jobs/audit-settings', why: 'the settings table moves the schema to src/lib/audit/' },
   // Not assigned in this round of issue 8 (found while writing this test):
   // the engine's evaluation harness builds its inputs with the synthetic-wave generator;
   { from: 'src/lib/engine/evaluate-engine.ts', to: 'src/lib/synth/generate-wave', why: 'unassigned: move the evaluation harness out of the engine (bench/ or src/lib/synth)' },

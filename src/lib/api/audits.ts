@@ -2,12 +2,9 @@
  * Contracts of the audit routes: start and list (POST/GET /api/waves/{id}/audits), one audit
  * (GET /api/audits/{id}, `?download=1` for the JSON alone) and retry (POST /api/audits/{id}/retry).
  *
- * The settings request schema and the resolved settings are built elsewhere (issue 8's settings
- * table, under src/lib/audit/): this file re-exports their types and ./schemas/audits.ts the
- * schema, so routes, islands and tests name one place. Until that work lands both come from the
- * server's audit-settings module: the two listed exceptions in tests/unit/layering.test.ts
- * (`pendingElsewhere`). The schema has a file of its own so that islands importing the calls
- * below never pull server code into the browser's bundle.
+ * The settings request and the stored settings are defined by the settings table
+ * (src/lib/audit/settings-table.ts, docs/decisions/006): this file re-exports their types and
+ * ./schemas/audits.ts the schema, so routes, islands and tests name one place.
  */
 import type { AuditJson } from '../audit/audit-json';
 import type { EngineSettings } from '../engine/engine-settings';
@@ -15,7 +12,7 @@ import { callApi, segment, type ApiResult } from './client';
 import type { WaveSummary } from './waves';
 
 // Types only (erased from the browser's bundle); the schema itself: ./schemas/audits.ts.
-import type { AuditSettingsRequest, ResolvedAuditSettings } from '../server/audit-jobs/audit-settings';
+import type { AuditSettingsRequest, ResolvedAuditSettings } from '../audit/settings-table';
 export type { AuditSettingsRequest, ResolvedAuditSettings };
 
 /** The states of an audit, in the order it passes them (failed may follow queued or running). */

@@ -13,8 +13,7 @@
  *
  * The server's services are annotated with the shapes and the routes answer
  * `json(... satisfies <Thing>Response)`, so the compiler checks both ends. Nothing here imports
- * server or database code (tests/unit/layering.test.ts; the audit settings schema is the listed
- * exception until the settings table lands in src/lib/audit/). Errors: ./errors.ts.
+ * server or database code (tests/unit/layering.test.ts). Errors: ./errors.ts.
  *
  * To add a domain: `<domain>.ts` and `schemas/<domain>.ts` beside these, re-exported below and in
  * ./schemas/index.ts, and a row per route and method in tests/api/permission-table.ts (the route
