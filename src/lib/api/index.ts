@@ -31,3 +31,4 @@ export * from './audits';
 export * from './teams';
 export * from './tokens';
 export * from './outbox';
+export * from './driver-model';
