@@ -8,7 +8,8 @@ export default defineConfig({
       {
         test: {
           name: 'unit',
-          include: ['tests/unit/**/*.test.ts', 'src/**/*.test.ts'],
+          // The route inventory reads files only (no server): it runs here.
+          include: ['tests/unit/**/*.test.ts', 'src/**/*.test.ts', 'tests/api/route-inventory.test.ts'],
           environment: 'node',
           testTimeout: 60_000,
         },
@@ -17,6 +18,7 @@ export default defineConfig({
         test: {
           name: 'app',
           include: ['tests/api/**/*.test.ts', 'tests/browser/**/*.test.ts'],
+          exclude: ['tests/api/route-inventory.test.ts'],
           environment: 'node',
           // One built server (dist/) on a free loopback port, with its own SQLite file, migrated
           // and seeded; the files share it one after another (one fork) so their data do not

@@ -1,7 +1,10 @@
-// `npm test`: everything. Install if needed; make sure Debian's Chromium is there (installing it
-// with apt-get when we are root, failing with a clear message otherwise: never skipping); build;
-// then Vitest runs the unit project and the app project (API and browser tests against the built
-// server, see tests/setup/app-server.ts). Extra arguments go to Vitest.
+// `npm test`: everything. Install if needed; type-check the whole project (`tsc --noEmit`: src,
+// tests, bench, scripts) and the .astro files (`astro check`), failing before any test runs when
+// either finds an error; make sure Debian's Chromium is there (installing it with apt-get when we
+// are root, failing with a clear message otherwise: never skipping); build; then Vitest runs the
+// unit project (which includes the layering and route-inventory tests) and the app project (API
+// and browser tests against the built server, see tests/setup/app-server.ts). Extra arguments go
+// to Vitest. docs/decisions/008-contracts-guards-and-rails.md.
 import { spawnSync } from 'node:child_process';
 import { existsSync, readFileSync, rmSync } from 'node:fs';
 import { join } from 'node:path';
@@ -53,7 +56,32 @@ function ensurePoppler() {
   run('apt-get', ['install', '-y', '--no-install-recommends', 'poppler-utils'], { ...process.env, DEBIAN_FRONTEND: 'noninteractive' });
 }
 
+/**
+ * Runs one static check and stops `npm test` with a plain sentence when it fails.
+ * @param title what is checked, for the step line.
+ * @param args the node script and its arguments.
+ * @param advice what to do when it fails.
+ */
+function staticCheck(title, args, advice) {
+  step(title);
+  const result = spawnSync(process.execPath, args, { cwd: root, stdio: 'inherit', env: process.env });
+  if (result.status !== 0) {
+    console.error(`\n\u2716 ${title} failed (exit ${result.status ?? result.signal}): ${advice}\n  No test was run.`);
+    process.exit(result.status || 1);
+  }
+}
+
 ensureInstalled();
+staticCheck(
+  'Type-checking (tsc --noEmit)',
+  [join(root, 'node_modules', 'typescript', 'bin', 'tsc'), '--noEmit'],
+  'TypeScript found type errors, listed above with file and line. Fix them (or run `npx tsc --noEmit` to see them again).',
+);
+staticCheck(
+  'Checking the .astro files (astro check)',
+  [join(root, 'node_modules', 'astro', 'astro.js'), 'check'],
+  'astro check found errors in .astro files (or in what they import), listed above. Fix them (or run `npx astro check` to see them again).',
+);
 if (!process.env.CHROMIUM_PATH) ensureChromium();
 ensurePoppler();
 ensureBuilt();

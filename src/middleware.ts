@@ -11,9 +11,9 @@
  * 5. first run (/setup while no user exists) and sign-in for pages.
  */
 import { defineMiddleware, sequence } from 'astro:middleware';
-import { auditJobs } from './lib/server/audit-jobs/audit-jobs';
+import { startAuditJobs } from './lib/server/audit-jobs/audit-jobs';
 import { getConfig } from './lib/server/config';
-import { resolveCaller } from './lib/server/current-user';
+import { recordTokenUse, resolveCaller } from './lib/server/current-user';
 import { getDb } from './lib/server/db';
 import { errorResponse } from './lib/server/errors';
 import { serverFileStore } from './lib/server/file-store';
@@ -37,15 +37,16 @@ const securityHeaders = defineMiddleware(async (context, next) => {
 let startedUp = false;
 
 /**
- * Work that belongs to the start of the server, done on its first request: creating the audits
- * service runs the restart recovery (`auditJobs()` does it once per process; later calls from
- * routes and pages only return the service); the file store sweeps files no record or wave uses
- * (an upload cut off between writing its file and committing). Marked done only when it succeeded, so a failure
- * (an unreadable database, an invalid configuration) is met again, not skipped.
+ * Work that belongs to the start of the server, done on its first request: starting the audits
+ * service runs the restart recovery (`startAuditJobs()`, once per process; routes and pages only
+ * read the service with `auditJobs()`, which writes nothing); the file store sweeps files no
+ * record or wave uses (an upload cut off between writing its file and committing). Marked done
+ * only when it succeeded, so a failure (an unreadable database, an invalid configuration) is met
+ * again, not skipped.
  */
 const startUp = defineMiddleware((_context, next) => {
   if (!startedUp) {
-    auditJobs();
+    startAuditJobs();
     serverFileStore().sweepOrphans(getDb());
     startedUp = true;
   }
@@ -73,6 +74,8 @@ const identify = defineMiddleware(async (context, next) => {
   context.locals.user = resolution.user;
   context.locals.authVia = resolution.via;
   context.locals.authProblem = resolution.problem;
+  // Resolving the caller only reads; stamping the token's last use is this one explicit write.
+  if (resolution.tokenId) recordTokenUse(resolution.tokenId);
   return next();
 });
 

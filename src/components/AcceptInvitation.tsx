@@ -1,4 +1,5 @@
-import { callApi, signIn } from './api-client';
+import { signIn } from '../lib/api/auth';
+import { teamsApi } from '../lib/api/teams';
 import { useFormSubmit } from './use-form-submit';
 
 /**
@@ -10,8 +11,8 @@ export default function AcceptInvitation({ token, email, mode, teamName }: { tok
     const password = String(form.get('password') ?? '');
     if (mode === 'create' && password !== String(form.get('repeat') ?? '')) return 'The two passwords differ.';
     const body = mode === 'create' ? { name: String(form.get('name') ?? ''), password } : {};
-    const result = await callApi('POST', `/api/invitations/${encodeURIComponent(token)}/accept`, body);
-    if (!result.ok) return result.message;
+    const result = await teamsApi.acceptInvitation(token, body);
+    if (!result.ok) return result.error.message;
     if (mode === 'create') {
       const signedIn = await signIn(email, password, '/');
       location.assign(signedIn.ok ? '/' : '/signin');

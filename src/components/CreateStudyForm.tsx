@@ -1,17 +1,17 @@
 import { useState } from 'react';
-import { callApi } from './api-client';
+import { studiesApi } from '../lib/api/studies';
 import { useFormSubmit } from './use-form-submit';
 
 /** Creates a study in one team, then opens it. */
 export default function CreateStudyForm({ teamId }: { teamId: string }) {
   const [open, setOpen] = useState(false);
   const { busy, error, onSubmit } = useFormSubmit(async (form) => {
-    const result = await callApi<{ study: { id: string } }>('POST', '/api/studies', {
+    const result = await studiesApi.create({
       teamId,
       name: String(form.get('name') ?? ''),
       description: String(form.get('description') ?? ''),
     });
-    if (!result.ok) return result.message;
+    if (!result.ok) return result.error.message;
     location.assign(`/studies/${result.data.study.id}`);
   });
 

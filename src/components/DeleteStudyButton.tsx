@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { callApi } from './api-client';
+import { studiesApi } from '../lib/api/studies';
 
 /** Deletes a study after the owner types its name. */
 export default function DeleteStudyButton({ studyId, studyName }: { studyId: string; studyName: string }) {
@@ -10,12 +10,12 @@ export default function DeleteStudyButton({ studyId, studyName }: { studyId: str
 
   async function remove() {
     setBusy(true);
-    const result = await callApi('DELETE', `/api/studies/${studyId}`);
+    const result = await studiesApi.delete(studyId);
     if (result.ok) {
       location.assign('/');
       return;
     }
-    setError(result.message);
+    setError(result.error.message);
     setBusy(false);
   }
 

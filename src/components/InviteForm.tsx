@@ -1,6 +1,6 @@
 import { useState, type FormEvent } from 'react';
 import { roleLabels, roles, type Role } from '../lib/permissions';
-import { callApi } from './api-client';
+import { teamsApi } from '../lib/api/teams';
 
 /** Invites an e-mail address into the team with a role (owners only see it). */
 export default function InviteForm({ teamId, outbox }: { teamId: string; outbox: boolean }) {
@@ -14,14 +14,14 @@ export default function InviteForm({ teamId, outbox }: { teamId: string; outbox:
     setBusy(true);
     setMessage(null);
     const email = String(form.get('email') ?? '').trim();
-    const result = await callApi('POST', `/api/teams/${teamId}/invitations`, { email, role: String(form.get('role')) as Role });
+    const result = await teamsApi.invite(teamId, { email, role: String(form.get('role')) as Role });
     setBusy(false);
     if (result.ok) {
       formElement.reset();
       setMessage({ kind: 'ok', text: `Invitation sent to ${email}.${outbox ? ' In this installation e-mail stays in the outbox.' : ''}` });
       setTimeout(() => location.reload(), 900);
     } else {
-      setMessage({ kind: 'error', text: result.message });
+      setMessage({ kind: 'error', text: result.error.message });
     }
   }
 

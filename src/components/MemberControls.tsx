@@ -1,6 +1,6 @@
 import { useState } from 'react';
 import { roleLabels, roles, type Role } from '../lib/permissions';
-import { callApi } from './api-client';
+import { teamsApi } from '../lib/api/teams';
 
 /** An owner's controls on one member: change the role, remove from the team. */
 export default function MemberControls({ teamId, userId, role, name, isSelf }: { teamId: string; userId: string; role: Role; name: string; isSelf: boolean }) {
@@ -13,11 +13,11 @@ export default function MemberControls({ teamId, userId, role, name, isSelf }: {
     setCurrent(next);
     setBusy(true);
     setError('');
-    const result = await callApi('PUT', `/api/teams/${teamId}/members/${userId}`, { role: next });
+    const result = await teamsApi.changeRole(teamId, userId, { role: next });
     setBusy(false);
     if (!result.ok) {
       setCurrent(before);
-      setError(result.message);
+      setError(result.error.message);
     } else if (isSelf && next !== 'owner') {
       location.reload();
     }
@@ -26,13 +26,13 @@ export default function MemberControls({ teamId, userId, role, name, isSelf }: {
   async function remove() {
     if (!confirm(`Remove ${name} from the team?`)) return;
     setBusy(true);
-    const result = await callApi('DELETE', `/api/teams/${teamId}/members/${userId}`);
+    const result = await teamsApi.removeMember(teamId, userId);
     if (result.ok) {
       location.reload();
       return;
     }
     setBusy(false);
-    setError(result.message);
+    setError(result.error.message);
   }
 
   return (

@@ -1,5 +1,6 @@
 import { useState, type FormEvent } from 'react';
-import { callApi, signIn } from './api-client';
+import { signIn } from '../lib/api/auth';
+import { meApi } from '../lib/api/me';
 
 /** Changes the password, then signs in again with it (older sessions stop working). */
 export default function PasswordForm({ email }: { email: string }) {
@@ -17,10 +18,10 @@ export default function PasswordForm({ email }: { email: string }) {
     }
     setBusy(true);
     setMessage(null);
-    const result = await callApi('PUT', '/api/me/password', { currentPassword: String(form.get('currentPassword') ?? ''), newPassword });
+    const result = await meApi.changePassword({ currentPassword: String(form.get('currentPassword') ?? ''), newPassword });
     if (!result.ok) {
       setBusy(false);
-      setMessage({ kind: 'error', text: result.message });
+      setMessage({ kind: 'error', text: result.error.message });
       return;
     }
     const again = await signIn(email, newPassword, '/account');

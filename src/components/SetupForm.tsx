@@ -1,4 +1,5 @@
-import { callApi, signIn } from './api-client';
+import { signIn } from '../lib/api/auth';
+import { setupApi } from '../lib/api/setup';
 import { useFormSubmit } from './use-form-submit';
 
 /** First run: creates the first owner and their team, then signs in. */
@@ -7,8 +8,8 @@ export default function SetupForm() {
     const email = String(form.get('email') ?? '').trim();
     const password = String(form.get('password') ?? '');
     if (password !== String(form.get('repeat') ?? '')) return 'The two passwords differ.';
-    const result = await callApi('POST', '/api/setup', { teamName: String(form.get('teamName') ?? ''), name: String(form.get('name') ?? ''), email, password });
-    if (!result.ok) return result.message;
+    const result = await setupApi.setUp({ teamName: String(form.get('teamName') ?? ''), name: String(form.get('name') ?? ''), email, password });
+    if (!result.ok) return result.error.message;
     const signedIn = await signIn(email, password, '/');
     location.assign(signedIn.ok ? '/' : '/signin');
   });

@@ -1,5 +1,5 @@
 import { useState, type FormEvent } from 'react';
-import { safeNext, signIn } from './api-client';
+import { safeNext, signIn } from '../lib/api/auth';
 
 /** The sign-in form: e-mail and password, one message that never says which part was wrong. */
 export default function SignInForm({ next, initialError }: { next: string; initialError?: string }) {

@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { signOut } from './api-client';
+import { signOut } from '../lib/api/auth';
 
 /** Signs out through Auth.js (a POST with its CSRF token). */
 export default function SignOutButton() {

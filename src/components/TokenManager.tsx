@@ -1,17 +1,10 @@
 import { useState, type FormEvent } from 'react';
-import { callApi } from './api-client';
+import { tokensApi, type ApiTokenView } from '../lib/api/tokens';
 import { formatDay } from './date-words';
 
-interface TokenView {
-  id: string;
-  name: string;
-  prefix: string;
-  createdAt: string;
-  lastUsedAt: string | null;
-}
 
 /** Lists, creates and revokes personal API tokens; a new token's secret is shown once. */
-export default function TokenManager({ initialTokens }: { initialTokens: TokenView[] }) {
+export default function TokenManager({ initialTokens }: { initialTokens: ApiTokenView[] }) {
   const [tokens, setTokens] = useState(initialTokens);
   const [secret, setSecret] = useState<string | null>(null);
   const [error, setError] = useState('');
@@ -23,10 +16,10 @@ export default function TokenManager({ initialTokens }: { initialTokens: TokenVi
     const name = String(new FormData(formElement).get('name') ?? '');
     setBusy(true);
     setError('');
-    const result = await callApi<{ token: TokenView; secret: string }>('POST', '/api/tokens', { name });
+    const result = await tokensApi.create({ name });
     setBusy(false);
     if (!result.ok) {
-      setError(result.message);
+      setError(result.error.message);
       return;
     }
     formElement.reset();
@@ -34,11 +27,11 @@ export default function TokenManager({ initialTokens }: { initialTokens: TokenVi
     setSecret(result.data.secret);
   }
 
-  async function revoke(token: TokenView) {
+  async function revoke(token: ApiTokenView) {
     if (!confirm(`Revoke "${token.name}"? Scripts using it stop working at once.`)) return;
-    const result = await callApi('DELETE', `/api/tokens/${token.id}`);
+    const result = await tokensApi.revoke(token.id);
     if (result.ok) setTokens(tokens.filter((t) => t.id !== token.id));
-    else setError(result.message);
+    else setError(result.error.message);
   }
 
   return (

@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import { callApi } from './api-client';
+import { teamsApi } from '../lib/api/teams';
 
 /** Withdraws an open invitation (its link stops working). */
 export default function WithdrawInvitationButton({ teamId, invitationId, email }: { teamId: string; invitationId: string; email: string }) {
@@ -14,11 +14,11 @@ export default function WithdrawInvitationButton({ teamId, invitationId, email }
         aria-label={`Withdraw the invitation to ${email}`}
         onClick={async () => {
           setBusy(true);
-          const result = await callApi('DELETE', `/api/teams/${teamId}/invitations/${invitationId}`);
+          const result = await teamsApi.withdrawInvitation(teamId, invitationId);
           if (result.ok) location.reload();
           else {
             setBusy(false);
-            setError(result.message);
+            setError(result.error.message);
           }
         }}
       >

@@ -29,11 +29,16 @@ async function settle(client: Client, auditId: string, seen: { status: string; s
   throw new Error(`audit ${auditId} did not finish within two minutes`);
 }
 
-/** A unique seed, so that a test's settings are its own (the same settings would be reused). */
+/**
+ * A unique seed, so that a test's settings are its own (the same settings would be reused).
+ * Fixed, not from the clock: the test server's database is new on every run
+ * (tests/setup/app-server.ts), so counting in this file's own range is unique and a failure
+ * replays with the same seeds (the permission table counts from 9_000_001, the browser test uses 50_000).
+ */
 let seedCounter = 0;
 function uniqueSeed(): number {
   seedCounter += 1;
-  return 100_000 + (Date.now() % 1_000_000) * 10 + seedCounter;
+  return 100_000 + seedCounter;
 }
 
 beforeAll(async () => {

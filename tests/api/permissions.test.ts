@@ -1,306 +1,10 @@
 /**
- * The permission table, route by route: every route that exists is called as each demo role, as
- * the other team's owner, as the designer through a personal API token, and anonymously, and each
- * status is checked. ADD A ROW HERE FOR EVERY NEW ROUTE (DEVELOPERS.md, "Add a route").
- *
- * Expected statuses follow api.md: 401 not signed in, 403 signed in but the role may not,
- * 404 not in one of your teams, and src/lib/permissions.ts for who may do what.
+ * Runs the permission table (tests/api/permission-table.ts) against the built server, and checks
+ * what the one guard (src/lib/server/guard.ts) answers for each kind of object.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { body, Client, createMember, demo, demoEmails, inviteAndReadToken, signedIn, uniqueEmail } from '../setup/http';
-import { postWave, textFile } from './waves-http';
-
-type Caller = 'owner' | 'designer' | 'field' | 'reviewer' | 'outsider' | 'token' | 'anonymous';
-const callers: Caller[] = ['owner', 'designer', 'field', 'reviewer', 'outsider', 'token', 'anonymous'];
-
-/** Expected status per caller; `token` defaults to the designer's. */
-type Expectation = Partial<Record<Caller, number>> & Record<Exclude<Caller, 'token'>, number>;
-
-interface Row {
-  name: string;
-  method: 'GET' | 'POST' | 'PUT' | 'DELETE';
-  /** The path, given what `prepare` made for this caller. */
-  path: (target: string) => string;
-  body?: (target: string) => unknown;
-  /** Makes a fresh target (an id or token) for each caller, for routes that consume or change it. */
-  prepare?: () => Promise<string>;
-  expect: Expectation;
-}
-
-const clients = {} as Record<Caller, Client>;
-const createdStudies: string[] = [];
-const outsideStudies: string[] = [];
-
-/** Shortcuts for common shapes of expectation. */
-const anyoneSignedIn = (status: number): Expectation => ({ owner: status, designer: status, field: status, reviewer: status, outsider: status, anonymous: 401 });
-const demoTeamMembers = (status: number): Expectation => ({ owner: status, designer: status, field: status, reviewer: status, outsider: 404, anonymous: 401 });
-const onlyOwner = (status: number): Expectation => ({ owner: status, designer: 403, field: 403, reviewer: 403, outsider: 404, anonymous: 401 });
-const pageForMembers: Expectation = { owner: 200, designer: 200, field: 200, reviewer: 200, outsider: 404, anonymous: 303 };
-const pageForAnyone: Expectation = { owner: 200, designer: 200, field: 200, reviewer: 200, outsider: 200, anonymous: 303 };
-
-const freshStudy = async () => {
-  const response = await clients.owner.post('/api/studies', { teamId: demo.team, name: 'Permission test study' });
-  const { study } = await body(response);
-  createdStudies.push(study.id);
-  return study.id as string;
-};
-const freshOutsideStudy = async () => {
-  const response = await clients.outsider.post('/api/studies', { teamId: demo.outsideTeam, name: 'Permission test study' });
-  const { study } = await body(response);
-  outsideStudies.push(study.id);
-  return study.id as string;
-};
-const freshMember = async () => {
-  const member = await createMember(clients.owner, demo.team, 'client_reviewer');
-  return member.userId;
-};
-const freshInvitationId = async () => {
-  const response = await clients.owner.post(`/api/teams/${demo.team}/invitations`, { email: uniqueEmail('withdrawn'), role: 'designer' });
-  return (await body(response)).invitation.id as string;
-};
-const freshInvitationToken = () => inviteAndReadToken(clients.owner, demo.team, uniqueEmail('invitee'), 'client_reviewer');
-const freshOwnerToken = async () => {
-  const response = await clients.owner.post('/api/tokens', { name: 'permission test' });
-  return (await body(response)).token.id as string;
-};
-
-/** The seeded, confirmed wave of the demo study (src/lib/server/demo-seed.ts). */
-const demoWave = 'wave-riverbend-pilot-1';
-let outsideWaveId: string | null = null;
-/** A proposed wave in a fresh study of the other team (made once). */
-const outsideWave = async () => {
-  if (outsideWaveId) return outsideWaveId;
-  const studyId = await freshOutsideStudy();
-  const response = await postWave(clients.outsider, studyId, textFile('transport.csv', 'respondent_id,T1,T2,T3\nn1,1,2,3\nn2,2,3,4\nn3,4,4,5\nn4,5,3,2\n'));
-  outsideWaveId = (await body(response)).wave.id as string;
-  return outsideWaveId;
-};
-
-// Audits (issue 5), of the demo wave.
-let auditSeeds = 0;
-/** A seed no other call used, so that each caller starts a new audit (the same settings are reused). */
-const freshAuditSeed = async () => String(9_000_000 + (Date.now() % 100_000) * 10 + (auditSeeds += 1));
-let sharedAuditId: string | null = null;
-const anAudit = async () => {
-  sharedAuditId ??= (await body(await clients.owner.post(`/api/waves/${demoWave}/audits`, { settings: { bootstrap: 0, seed: 4_242 } }))).audit.id as string;
-  return sharedAuditId;
-};
-/** The shared audit, once it is done. */
-const aDoneAudit = async () => {
-  const id = await anAudit();
-  for (let attempt = 0; attempt < 600 && (await body(await clients.owner.get(`/api/audits/${id}`))).audit.status !== 'done'; attempt++) {
-    await new Promise((r) => setTimeout(r, 100));
-  }
-  return id;
-};
-/** A new audit made to fail (test servers accept `testFault`), once it has failed. */
-const freshFailedAudit = async () => {
-  const started = await clients.owner.post(`/api/waves/${demoWave}/audits`, { settings: { bootstrap: 0, seed: Number(await freshAuditSeed()), testFault: 'throw' } });
-  const id = (await body(started)).audit.id as string;
-  for (let attempt = 0; attempt < 600; attempt++) {
-    if ((await body(await clients.owner.get(`/api/audits/${id}`))).audit.status === 'failed') return id;
-    await new Promise((r) => setTimeout(r, 100));
-  }
-  throw new Error(`audit ${id} did not fail`);
-};
-const runAudit: Expectation = { owner: 202, designer: 202, field: 403, reviewer: 403, outsider: 404, anonymous: 401 };
-
-const table: Row[] = [
-  // Health and the caller
-  { name: 'health', method: 'GET', path: () => '/api/health', expect: { owner: 200, designer: 200, field: 200, reviewer: 200, outsider: 200, anonymous: 200 } },
-  { name: 'me', method: 'GET', path: () => '/api/me', expect: anyoneSignedIn(200) },
-  {
-    name: 'change password (wrong present password: nothing changes)',
-    method: 'PUT',
-    path: () => '/api/me/password',
-    body: () => ({ currentPassword: 'not-the-password', newPassword: 'another-long-password' }),
-    expect: { ...anyoneSignedIn(400), token: 403 },
-  },
-  // Studies
-  { name: 'list studies', method: 'GET', path: () => '/api/studies', expect: anyoneSignedIn(200) },
-  {
-    name: 'create study in the demo team',
-    method: 'POST',
-    path: () => '/api/studies',
-    body: () => ({ teamId: demo.team, name: 'Permission test study' }),
-    expect: { owner: 201, designer: 201, field: 403, reviewer: 403, outsider: 404, anonymous: 401 },
-  },
-  { name: 'read the demo study', method: 'GET', path: () => `/api/studies/${demo.study}`, expect: demoTeamMembers(200) },
-  {
-    name: "read the other team's study",
-    method: 'GET',
-    path: () => `/api/studies/${demo.outsideStudy}`,
-    expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 200, anonymous: 401 },
-  },
-  { name: 'read a study that does not exist', method: 'GET', path: () => '/api/studies/no-such-study', expect: anyoneSignedIn(404) },
-  { name: 'delete a study', method: 'DELETE', path: (id) => `/api/studies/${id}`, prepare: freshStudy, expect: onlyOwner(204) },
-  {
-    name: "delete a study of the other team",
-    method: 'DELETE',
-    path: (id) => `/api/studies/${id}`,
-    prepare: freshOutsideStudy,
-    expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 204, anonymous: 401 },
-  },
-  // Waves (multipart uploads by every role, and what each role reads, are tested in tests/api/waves.test.ts)
-  {
-    name: 'upload a wave (a JSON body: the guard answers first, then 400 not-multipart)',
-    method: 'POST',
-    path: () => `/api/studies/${demo.study}/waves`,
-    expect: { owner: 400, designer: 400, field: 403, reviewer: 403, outsider: 404, anonymous: 401 },
-  },
-  {
-    name: "upload a wave to the other team's study",
-    method: 'POST',
-    path: () => `/api/studies/${demo.outsideStudy}/waves`,
-    expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 400, anonymous: 401 },
-  },
-  { name: 'read the demo wave', method: 'GET', path: () => `/api/waves/${demoWave}`, expect: demoTeamMembers(200) },
-  { name: 'read a wave that does not exist', method: 'GET', path: () => '/api/waves/no-such-wave', expect: anyoneSignedIn(404) },
-  {
-    name: "read the other team's wave",
-    method: 'GET',
-    path: (id) => `/api/waves/${id}`,
-    prepare: outsideWave,
-    expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 200, anonymous: 401 },
-  },
-  {
-    name: 'check the setup of the demo wave (dry run: nothing stored)',
-    method: 'PUT',
-    path: () => `/api/waves/${demoWave}/setup`,
-    body: () => ({ exclusions: [], dryRun: true }),
-    expect: { owner: 200, designer: 200, field: 403, reviewer: 403, outsider: 404, anonymous: 401 },
-  },
-  {
-    name: "confirm the other team's wave",
-    method: 'PUT',
-    path: (id) => `/api/waves/${id}/setup`,
-    prepare: outsideWave,
-    body: () => ({ exclusions: [], dryRun: true }),
-    expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 400, anonymous: 401 },
-  },
-  {
-    name: 'respondent-level rows of the demo wave',
-    method: 'GET',
-    path: () => `/api/waves/${demoWave}/respondents`,
-    expect: { owner: 200, designer: 200, field: 403, reviewer: 403, outsider: 404, anonymous: 401 },
-  },
-  {
-    name: "respondent-level rows of the other team's wave",
-    method: 'GET',
-    path: (id) => `/api/waves/${id}/respondents`,
-    prepare: outsideWave,
-    expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 409, anonymous: 401 },
-  },
-  // Audits
-  {
-    name: 'start an audit of the demo wave',
-    method: 'POST',
-    path: () => `/api/waves/${demoWave}/audits`,
-    body: (seed) => ({ settings: { bootstrap: 0, seed: Number(seed) } }),
-    prepare: freshAuditSeed,
-    expect: runAudit,
-  },
-  { name: 'start an audit of a wave that does not exist', method: 'POST', path: () => '/api/waves/no-such-wave/audits', body: () => ({ settings: {} }), expect: anyoneSignedIn(404) },
-  {
-    name: "start an audit of the other team's (proposed) wave",
-    method: 'POST',
-    path: (id) => `/api/waves/${id}/audits`,
-    prepare: outsideWave,
-    body: () => ({ settings: {} }),
-    expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 409, anonymous: 401 },
-  },
-  { name: 'list the audits of the demo wave', method: 'GET', path: () => `/api/waves/${demoWave}/audits`, expect: demoTeamMembers(200) },
-  {
-    name: "list the audits of the other team's wave",
-    method: 'GET',
-    path: (id) => `/api/waves/${id}/audits`,
-    prepare: outsideWave,
-    expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 200, anonymous: 401 },
-  },
-  { name: 'read an audit', method: 'GET', path: (id) => `/api/audits/${id}`, prepare: anAudit, expect: demoTeamMembers(200) },
-  { name: 'download an audit', method: 'GET', path: (id) => `/api/audits/${id}?download=1`, prepare: aDoneAudit, expect: demoTeamMembers(200) },
-  { name: "an audit's driver model", method: 'GET', path: (id) => `/api/audits/${id}/driver-model`, prepare: aDoneAudit, expect: demoTeamMembers(200) },
-  { name: 'the memo of an audit as PDF', method: 'GET', path: (id) => `/api/audits/${id}/memo.pdf`, prepare: aDoneAudit, expect: demoTeamMembers(200) },
-  { name: 'the memo of an audit as DOCX', method: 'GET', path: (id) => `/api/audits/${id}/memo.docx`, prepare: aDoneAudit, expect: demoTeamMembers(200) },
-  { name: 'the memo of an audit that does not exist', method: 'GET', path: () => '/api/audits/no-such-audit/memo.pdf', expect: anyoneSignedIn(404) },
-  { name: 'the decision history as CSV', method: 'GET', path: () => `/api/studies/${demo.study}/cut-list/history.csv`, expect: demoTeamMembers(200) },
-  { name: "the other team's decision history as CSV", method: 'GET', path: () => `/api/studies/${demo.outsideStudy}/cut-list/history.csv`, expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 200, anonymous: 401 } },
-  { name: 'read an audit that does not exist', method: 'GET', path: () => '/api/audits/no-such-audit', expect: anyoneSignedIn(404) },
-  { name: 'retry a failed audit', method: 'POST', path: (id) => `/api/audits/${id}/retry`, prepare: freshFailedAudit, expect: runAudit },
-  // Team members and invitations
-  { name: 'list members', method: 'GET', path: () => `/api/teams/${demo.team}/members`, expect: demoTeamMembers(200) },
-  {
-    name: 'change a member role',
-    method: 'PUT',
-    path: (userId) => `/api/teams/${demo.team}/members/${userId}`,
-    body: () => ({ role: 'field_manager' }),
-    prepare: freshMember,
-    expect: onlyOwner(200),
-  },
-  { name: 'remove a member', method: 'DELETE', path: (userId) => `/api/teams/${demo.team}/members/${userId}`, prepare: freshMember, expect: onlyOwner(204) },
-  {
-    name: 'withdraw an invitation',
-    method: 'DELETE',
-    path: (id) => `/api/teams/${demo.team}/invitations/${id}`,
-    prepare: freshInvitationId,
-    expect: onlyOwner(204),
-  },
-  { name: 'list open invitations', method: 'GET', path: () => `/api/teams/${demo.team}/invitations`, expect: onlyOwner(200) },
-  {
-    name: 'invite by e-mail',
-    method: 'POST',
-    path: () => `/api/teams/${demo.team}/invitations`,
-    body: () => ({ email: uniqueEmail('invited'), role: 'designer' }),
-    expect: onlyOwner(201),
-  },
-  {
-    name: 'accept an invitation meant for someone else',
-    method: 'POST',
-    path: (token) => `/api/invitations/${token}/accept`,
-    body: () => ({ name: 'New Person', password: 'a-long-test-password' }),
-    prepare: freshInvitationToken,
-    expect: { owner: 403, designer: 403, field: 403, reviewer: 403, outsider: 403, anonymous: 201 },
-  },
-  { name: 'accept an unknown invitation', method: 'POST', path: () => '/api/invitations/not-a-token/accept', expect: { ...anyoneSignedIn(404), anonymous: 404 } },
-  // Personal API tokens
-  { name: 'list tokens', method: 'GET', path: () => '/api/tokens', expect: anyoneSignedIn(200) },
-  { name: 'create a token', method: 'POST', path: () => '/api/tokens', body: () => ({ name: 'test' }), expect: { ...anyoneSignedIn(201), token: 403 } },
-  {
-    name: "revoke the owner's token",
-    method: 'DELETE',
-    path: (id) => `/api/tokens/${id}`,
-    prepare: freshOwnerToken,
-    expect: { owner: 204, designer: 404, field: 404, reviewer: 404, outsider: 404, anonymous: 401 },
-  },
-  // Mail kept in the outbox (MAIL_TRANSPORT=outbox in tests)
-  { name: 'outbox', method: 'GET', path: () => '/api/outbox', expect: anyoneSignedIn(200) },
-  // First run
-  {
-    name: 'setup after setup',
-    method: 'POST',
-    path: () => '/api/setup',
-    body: () => ({ teamName: 'T', name: 'N', email: 'late@example.org', password: 'a-long-test-password' }),
-    expect: { owner: 409, designer: 409, field: 409, reviewer: 409, outsider: 409, anonymous: 409 },
-  },
-  // Anything else under /api/
-  { name: 'unknown API route', method: 'GET', path: () => '/api/no-such-thing', expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 404, anonymous: 404 } },
-  // Auth.js's own routes
-  { name: 'auth csrf', method: 'GET', path: () => '/api/auth/csrf', expect: { owner: 200, designer: 200, field: 200, reviewer: 200, outsider: 200, anonymous: 200 } },
-  { name: 'auth session', method: 'GET', path: () => '/api/auth/session', expect: { owner: 200, designer: 200, field: 200, reviewer: 200, outsider: 200, anonymous: 200 } },
-  // Pages
-  { name: 'page: dashboard', method: 'GET', path: () => '/', expect: pageForAnyone },
-  { name: 'page: demo study', method: 'GET', path: () => `/studies/${demo.study}`, expect: pageForMembers },
-  { name: 'page: upload a wave', method: 'GET', path: () => `/studies/${demo.study}/upload`, expect: { owner: 200, designer: 200, field: 403, reviewer: 403, outsider: 404, anonymous: 303 } },
-  { name: "page: other team's study", method: 'GET', path: () => `/studies/${demo.outsideStudy}`, expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 200, anonymous: 303 } },
-  { name: 'page: an audit', method: 'GET', path: (id) => `/audits/${id}`, prepare: anAudit, expect: pageForMembers },
-  { name: "page: an audit's memo", method: 'GET', path: (id) => `/audits/${id}/memo`, prepare: aDoneAudit, expect: pageForMembers },
-  { name: 'page: demo team members', method: 'GET', path: () => `/teams/${demo.team}/members`, expect: pageForMembers },
-  { name: 'page: account', method: 'GET', path: () => '/account', expect: pageForAnyone },
-  { name: 'page: outbox', method: 'GET', path: () => '/outbox', expect: pageForAnyone },
-  { name: 'page: sign-in', method: 'GET', path: () => '/signin', expect: { owner: 303, designer: 303, field: 303, reviewer: 303, outsider: 303, anonymous: 200 } },
-  { name: 'page: setup after setup', method: 'GET', path: () => '/setup', expect: { owner: 303, designer: 303, field: 303, reviewer: 303, outsider: 303, anonymous: 303 } },
-  { name: 'page: invitation link', method: 'GET', path: () => '/invite/not-a-token', expect: { owner: 200, designer: 200, field: 200, reviewer: 200, outsider: 200, anonymous: 200 } },
-];
+import { body, Client, demo, demoEmails, signedIn } from '../setup/http';
+import { anAudit, callers, clients, createdStudies, demoWave, outsideStudies, outsideWave, table } from './permission-table';
 
 beforeAll(async () => {
   for (const caller of ['owner', 'designer', 'field', 'reviewer', 'outsider'] as const) {
@@ -359,6 +63,51 @@ describe('permission table', () => {
     const { error } = await body(response);
     expect(error.code).toBe('missing-permission');
     expect(error.message).toContain('delete:study');
+  });
+
+  it('answers 404 with the kind of object named, the same for another team\'s object as for none', async () => {
+    // The one guard (src/lib/server/guard.ts), kind by kind: the outsider asks for the demo team's
+    // object and for one that does not exist; both answers must be identical (api.md: never
+    // reveal that it exists).
+    const kinds: { kind: string; code: string; theirs: string; none: string }[] = [
+      { kind: 'team', code: 'team-not-found', theirs: `/api/teams/${demo.team}/members`, none: '/api/teams/no-such-team/members' },
+      { kind: 'study', code: 'study-not-found', theirs: `/api/studies/${demo.study}`, none: '/api/studies/no-such-study' },
+      { kind: 'wave', code: 'wave-not-found', theirs: `/api/waves/${demoWave}`, none: '/api/waves/no-such-wave' },
+      { kind: 'audit', code: 'audit-not-found', theirs: `/api/audits/${await anAudit()}`, none: '/api/audits/no-such-audit' },
+    ];
+    for (const { kind, code, theirs, none } of kinds) {
+      const [a, b] = [await clients.outsider.get(theirs), await clients.outsider.get(none)];
+      expect([a.status, b.status], kind).toEqual([404, 404]);
+      const [bodyA, bodyB] = [await body(a), await body(b)];
+      expect(bodyA.error.code, kind).toBe(code);
+      expect(bodyA, kind).toEqual(bodyB);
+    }
+    // And the other way round: the demo owner asking for the outsider's wave.
+    const theirWave = await clients.owner.get(`/api/waves/${await outsideWave()}`);
+    expect((await body(theirWave)).error.code).toBe('wave-not-found');
+  });
+
+  it('names the missing permission in a 403 for every kind of object', async () => {
+    const refusals: { kind: string; response: Promise<Response>; permission: string }[] = [
+      { kind: 'team', response: clients.designer.get(`/api/teams/${demo.team}/invitations`), permission: 'manage:team' },
+      { kind: 'study', response: clients.field.delete(`/api/studies/${demo.study}`), permission: 'delete:study' },
+      { kind: 'wave', response: clients.reviewer.get(`/api/waves/${demoWave}/respondents`), permission: 'read:respondents' },
+      { kind: 'audit', response: clients.field.post(`/api/audits/${await anAudit()}/retry`), permission: 'run:audit' },
+    ];
+    for (const { kind, response, permission } of refusals) {
+      const answer = await response;
+      expect(answer.status, kind).toBe(403);
+      const { error } = await body(answer);
+      expect(error.code, kind).toBe('missing-permission');
+      expect(error.message, kind).toContain(permission);
+    }
+  });
+
+  it('answers 401 before looking the object up, for every kind', async () => {
+    for (const path of [`/api/teams/${demo.team}/members`, '/api/studies/no-such-study', '/api/waves/no-such-wave', '/api/audits/no-such-audit']) {
+      const answer = await clients.anonymous.get(path);
+      expect(answer.status, path).toBe(401);
+    }
   });
 
   it('refuses a write without our Origin when it carries cookies, but not a bearer-token write', async () => {

@@ -1,8 +1,6 @@
 import { useMemo, useState, type FormEvent, type ReactNode } from 'react';
-import type { AuditFormWave } from '../../lib/server/audit-jobs/audit-form-data';
-import type { AuditSummary } from '../../lib/server/audit-jobs/audit-jobs';
+import { auditsApi, type AuditFormWave, type AuditSummary } from '../../lib/api/audits';
 import { AUDIT_SETTINGS, DEFAULT_AUDIT_SETTINGS, type FormPlacement, type SettingDescriptor } from '../../lib/audit/settings-table';
-import { callApi } from '../api-client';
 import { AUDIT_STARTED_EVENT } from './AuditList';
 import AuditStatusRow from './AuditStatusRow';
 
@@ -112,10 +110,10 @@ export default function AuditLauncher({ waves }: { waves: AuditFormWave[] }) {
     }
     setBusy(true);
     setError('');
-    const answer = await callApi<{ audit: AuditSummary; reused: boolean }>('POST', `/api/waves/${encodeURIComponent(wave.id)}/audits`, { settings });
+    const answer = await auditsApi.start(wave.id, { settings });
     setBusy(false);
     if (!answer.ok) {
-      setError(answer.message);
+      setError(answer.error.message);
       return;
     }
     setStarted(answer.data);

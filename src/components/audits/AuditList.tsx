@@ -1,5 +1,5 @@
 import { useEffect, useState } from 'react';
-import type { AuditSummary } from '../../lib/server/audit-jobs/audit-jobs';
+import type { AuditSummary } from '../../lib/api/audits';
 import AuditStatusRow from './AuditStatusRow';
 
 /** Audits listed before "show older". */

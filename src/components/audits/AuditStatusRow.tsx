@@ -1,6 +1,5 @@
 import { useEffect, useState } from 'react';
-import type { AuditSummary } from '../../lib/server/audit-jobs/audit-jobs';
-import { callApi } from '../api-client';
+import { auditsApi } from '../../lib/api/audits';
 import { formatRecentTime } from '../date-words';
 import AuditProgressBar from './AuditProgressBar';
 import { formatDuration, settingsLine, statusWords } from '../../lib/words';
@@ -23,10 +22,10 @@ export default function AuditStatusRow({ initial, canRun, onStatus }: { initial:
   async function retry() {
     setRetrying(true);
     setRetryError('');
-    const answer = await callApi<{ audit: AuditSummary }>('POST', `/api/audits/${encodeURIComponent(audit.id)}/retry`);
+    const answer = await auditsApi.retry(audit.id);
     setRetrying(false);
     if (answer.ok) setCurrent(answer.data.audit);
-    else setRetryError(answer.message);
+    else setRetryError(answer.error.message);
   }
 
   const settings = audit.settings;

@@ -3,8 +3,7 @@
  * Stops by itself when the audit is done or failed, and when the component unmounts.
  */
 import { useEffect, useState } from 'react';
-import type { AuditSummary } from '../../lib/server/audit-jobs/audit-jobs';
-import { callApi } from '../api-client';
+import { auditsApi, type AuditSummary } from '../../lib/api/audits';
 
 /** Milliseconds between two polls of a running audit. */
 export const AUDIT_POLL_INTERVAL_MS = 1_000;
@@ -29,14 +28,14 @@ export function useAuditStatus(initial: AuditState): { audit: AuditState; proble
     let stopped = false;
     let timer: ReturnType<typeof setTimeout> | undefined;
     const poll = async () => {
-      const answer = await callApi<{ audit: AuditSummary }>('GET', `/api/audits/${encodeURIComponent(audit.id)}`);
+      const answer = await auditsApi.get(audit.id);
       if (stopped) return;
       if (answer.ok) {
         setProblem('');
         setAudit(answer.data.audit);
         if (answer.data.audit.status === 'queued' || answer.data.audit.status === 'running') timer = setTimeout(poll, AUDIT_POLL_INTERVAL_MS);
       } else {
-        setProblem(answer.message);
+        setProblem(answer.error.message);
         timer = setTimeout(poll, AUDIT_POLL_INTERVAL_MS * 3);
       }
     };

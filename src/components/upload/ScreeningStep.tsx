@@ -1,5 +1,5 @@
 import { useState } from 'react';
-import type { ScreeningDetail } from '../../lib/server/waves/stored-wave';
+import type { ScreeningDetail } from '../../lib/api/waves';
 
 /** Words for each screening flag. */
 export const flagWords: Record<string, { title: string; short: string }> = {

@@ -1,6 +1,5 @@
 import { useCallback, useState, type FormEvent } from 'react';
-import { callApi } from '../api-client';
-import type { WaveView } from '../../lib/server/waves/wave-view';
+import { wavesApi, type UploadWaveResponse, type WaveView } from '../../lib/api/waves';
 import DropZone from './DropZone';
 import ScreeningStep from './ScreeningStep';
 import SetupTable from './SetupTable';
@@ -136,11 +135,11 @@ export default function WaveUpload({
     setError('');
     setNote('');
     setProgress(0);
-    const result = await postWithProgress<WaveView & { duplicate: boolean }>(`/api/studies/${studyId}/waves`, form, setProgress);
+    const result = await postWithProgress<UploadWaveResponse>(`/api/studies/${studyId}/waves`, form, setProgress);
     setBusy(false);
     setProgress(null);
     if (!result.ok) {
-      setError(result.message);
+      setError(result.error.message);
       return;
     }
     opened(result.data, result.data.duplicate);
@@ -155,10 +154,10 @@ export default function WaveUpload({
     }
     setBusy(true);
     setError('');
-    const result = await callApi<WaveView>('PUT', `/api/waves/${view.wave.id}/setup`, { setup: { columns: setup.columns }, exclusions: [], dryRun: true });
+    const result = await wavesApi.confirmSetup(view.wave.id, { setup: { columns: setup.columns }, exclusions: [], dryRun: true });
     setBusy(false);
     if (!result.ok) {
-      setError(result.message);
+      setError(result.error.message);
       return;
     }
     const preview = result.data;
@@ -181,13 +180,13 @@ export default function WaveUpload({
     }
     setBusy(true);
     setError('');
-    const result = await callApi<WaveView>('PUT', `/api/waves/${view.wave.id}/setup`, {
+    const result = await wavesApi.confirmSetup(view.wave.id, {
       setup: { columns: setup.columns },
       exclusions: [...excluded].sort((a, b) => a - b),
     });
     setBusy(false);
     if (!result.ok) {
-      setError(result.message);
+      setError(result.error.message);
       return;
     }
     setView(result.data);

@@ -1,8 +1,9 @@
 /**
  * Sends a form with XMLHttpRequest so the page can show upload progress (fetch cannot report
- * it), and reads the answer the way callApi does: JSON data, or api.md's error shape as one message.
+ * it), and reads the answer the way the typed client does (src/lib/api/client.ts): the data, or the error shape.
  */
-import type { ApiResult } from '../api-client';
+import { errorFromAnswer } from '../../lib/api/errors';
+import { resultFromAnswer, type ApiResult } from '../../lib/api/client';
 
 /**
  * Posts a multipart form and reports the share sent.
@@ -21,21 +22,8 @@ export function postWithProgress<T>(url: string, form: FormData, onProgress: (sh
       if (event.lengthComputable && event.total > 0) onProgress(event.loaded / event.total);
     };
     request.upload.onload = () => onProgress(1);
-    request.onerror = () => resolve({ ok: false, status: 0, code: 'network', message: 'The server could not be reached. Check the connection and try again.' });
-    request.onload = () => {
-      let data: unknown = null;
-      try {
-        data = request.responseText ? JSON.parse(request.responseText) : null;
-      } catch {
-        data = null;
-      }
-      if (request.status >= 200 && request.status < 300) {
-        resolve({ ok: true, status: request.status, data: data as T });
-        return;
-      }
-      const error = (data as { error?: { code?: string; message?: string } } | null)?.error;
-      resolve({ ok: false, status: request.status, code: error?.code ?? 'error', message: error?.message ?? `The server answered ${request.status}.` });
-    };
+    request.onerror = () => resolve({ ok: false, status: 0, error: errorFromAnswer(0, null) });
+    request.onload = () => resolve(resultFromAnswer<T>(request.status, request.responseText));
     request.send(form);
   });
 }

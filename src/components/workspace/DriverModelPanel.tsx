@@ -1,7 +1,6 @@
 import { useEffect, useState } from 'react';
-import type { DriverCoefficientView, DriverModelResponse } from '../../lib/api/driver-model';
+import { driverModelApi, type DriverCoefficientView, type DriverModelResponse } from '../../lib/api/driver-model';
 import { driverModelRowsNote, overlapSentences } from '../../lib/words/outcome';
-import { callApi } from '../api-client';
 
 /**
  * The driver model's panel: the coefficient table before and after the proposed cut, and each
@@ -15,10 +14,10 @@ export default function DriverModelPanel({ auditId }: { auditId: string }) {
 
   useEffect(() => {
     let live = true;
-    void callApi<DriverModelResponse>('GET', `/api/audits/${auditId}/driver-model`).then((result) => {
+    void driverModelApi.get(auditId).then((result) => {
       if (!live) return;
       if (result.ok) setAnswer(result.data);
-      else setProblem(result.message);
+      else setProblem(result.error.message);
     });
     return () => {
       live = false;

@@ -1,7 +1,8 @@
 /**
  * Contract of GET /api/audits/{id}/driver-model: the audit's outcome model alone (the panel of
- * the workspace loads this slice, not the whole audit JSON). Types only: safe for islands.
+ * the workspace loads this slice, not the whole audit JSON). Shapes and the typed call: safe for islands.
  */
+import { callApi, segment, type ApiResult } from './client';
 
 /** The three factors of a standard error: se = residualScale / (spread · overlap). */
 export interface StandardErrorFactorsView {
@@ -50,3 +51,8 @@ export interface DriverModelResponse {
   /** Why there is no model, in one sentence, when there is none. */
   note: string | null;
 }
+
+/** The typed calls of this domain. */
+export const driverModelApi = {
+  get: (auditId: string): Promise<ApiResult<DriverModelResponse>> => callApi('GET', `/api/audits/${segment(auditId)}/driver-model`),
+};

@@ -6,15 +6,8 @@ import { apiTokenPrefix, type CurrentUser } from './current-user';
 import { getDb } from './db';
 import { fail } from './errors';
 import { newId, newSecretToken, sha256Hex } from './ids';
-
-/** A token as lists show it (never the secret). */
-export interface ApiTokenView {
-  id: string;
-  name: string;
-  prefix: string;
-  createdAt: string;
-  lastUsedAt: string | null;
-}
+import type { ApiTokenView } from '../api/tokens';
+export type { ApiTokenView } from '../api/tokens';
 
 /** The user's tokens that are not revoked, newest first. */
 export function listApiTokens(userId: string): ApiTokenView[] {

@@ -4,7 +4,7 @@
  * request, so a role change takes effect at once.
  */
 import { getToken } from '@auth/core/jwt';
-import { and, eq, isNull } from 'drizzle-orm';
+import { and, eq, isNull, lt, or } from 'drizzle-orm';
 import { apiTokens, memberships, teams, users } from '../../db/schema';
 import type { Role } from '../permissions';
 import { getConfig } from './config';
@@ -32,7 +32,12 @@ export interface Resolution {
   via: 'session' | 'token' | null;
   /** Set when credentials were sent but not accepted (e.g. a revoked token). */
   problem: 'token-not-recognised' | null;
+  /** The API token that authenticated the request, for the caller to stamp its use; null otherwise. */
+  tokenId?: string | null;
 }
+
+/** A token's last use is written at most this often (milliseconds). */
+export const TOKEN_USE_STAMP_INTERVAL_MS = 60_000;
 
 /** Prefix of personal API tokens. */
 export const apiTokenPrefix = 'pd_';
@@ -56,23 +61,33 @@ export function loadUser(userId: string): CurrentUser | null {
   return { ...user, memberships: rows };
 }
 
-function userFromApiToken(token: string): CurrentUser | null {
-  const db = getDb();
-  const row = db
-    .select({ id: apiTokens.id, userId: apiTokens.userId, lastUsedAt: apiTokens.lastUsedAt })
+function userFromApiToken(token: string): { user: CurrentUser; tokenId: string } | null {
+  const row = getDb()
+    .select({ id: apiTokens.id, userId: apiTokens.userId })
     .from(apiTokens)
     .where(and(eq(apiTokens.tokenHash, sha256Hex(token)), isNull(apiTokens.revokedAt)))
     .get();
-  if (!row) return null;
-  const now = Date.now();
-  if (!row.lastUsedAt || now - row.lastUsedAt.getTime() > 60_000) {
-    db.update(apiTokens).set({ lastUsedAt: new Date(now) }).where(eq(apiTokens.id, row.id)).run();
-  }
-  return loadUser(row.userId);
+  const user = row ? loadUser(row.userId) : null;
+  return row && user ? { user, tokenId: row.id } : null;
 }
 
 /**
- * Resolves the caller of a request.
+ * Stamps an API token's last use (shown on the account page), at most once a minute per token.
+ * The one write of identifying a caller, made by the middleware, not by `resolveCaller`.
+ * @param tokenId the token that authenticated the request.
+ * @param now the time of the request (milliseconds).
+ */
+export function recordTokenUse(tokenId: string, now = Date.now()): void {
+  getDb()
+    .update(apiTokens)
+    .set({ lastUsedAt: new Date(now) })
+    .where(and(eq(apiTokens.id, tokenId), or(isNull(apiTokens.lastUsedAt), lt(apiTokens.lastUsedAt, new Date(now - TOKEN_USE_STAMP_INTERVAL_MS)))))
+    .run();
+}
+
+/**
+ * Resolves the caller of a request. Reads only: the token's last use is stamped by the caller
+ * ({@link recordTokenUse}).
  * @param request the incoming request (its Authorization header and cookies are read).
  * @returns the resolution; `user` is null for anonymous callers.
  */
@@ -82,8 +97,8 @@ export async function resolveCaller(request: Request): Promise<Resolution> {
     const match = /^Bearer\s+(\S+)\s*$/i.exec(authorization);
     const token = match?.[1] ?? '';
     if (token.startsWith(apiTokenPrefix)) {
-      const user = userFromApiToken(token);
-      return user ? { user, via: 'token', problem: null } : { user: null, via: null, problem: 'token-not-recognised' };
+      const found = userFromApiToken(token);
+      return found ? { user: found.user, via: 'token', problem: null, tokenId: found.tokenId } : { user: null, via: null, problem: 'token-not-recognised' };
     }
     return { user: null, via: null, problem: 'token-not-recognised' };
   }

@@ -9,15 +9,8 @@ import { can } from '../permissions';
 import { getConfig } from './config';
 import type { CurrentUser } from './current-user';
 import { getDb } from './db';
-
-/** A kept e-mail. */
-export interface OutboxMail {
-  id: number;
-  to: string;
-  subject: string;
-  text: string;
-  createdAt: string;
-}
+import type { OutboxMail } from '../api/outbox';
+export type { OutboxMail } from '../api/outbox';
 
 /** Whether the outbox is in use (MAIL_TRANSPORT=outbox). */
 export function outboxEnabled(): boolean {

@@ -1,14 +1,10 @@
 /** Password hashing with bcrypt (bcryptjs, pure JavaScript). */
 import bcrypt from 'bcryptjs';
-import { z } from 'zod';
 
 const cost = 10;
 
-/** A password policy the forms and the API share: 10 to 200 characters. */
-export const passwordSchema = z
-  .string()
-  .min(10, 'The password needs at least 10 characters.')
-  .max(200, 'The password may have at most 200 characters.');
+/** The password policy lives with the API's contracts, where the forms read it too. */
+export { passwordSchema } from '../api/schemas/me';
 
 /** Hashes a password. */
 export async function hashPassword(password: string): Promise<string> {

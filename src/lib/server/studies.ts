@@ -1,6 +1,5 @@
 /** Studies: listing, reading with what lies under them, creating and deleting. */
 import { count, desc, eq, inArray } from 'drizzle-orm';
-import { auditJobs } from './audit-jobs/audit-jobs';
 import { audits, cutListVersions, decisions, studies, teams, waves } from '../../db/schema';
 import { can, type Role } from '../permissions';
 import { logActivity } from './activity';
@@ -9,18 +8,8 @@ import { getDb } from './db';
 import { serverFileStore } from './file-store';
 import type { StudyRow } from './guard';
 import { newId } from './ids';
-
-/** A study as lists show it. */
-export interface StudySummary {
-  id: string;
-  name: string;
-  description: string;
-  team: { id: string; name: string };
-  role: Role;
-  waves: number;
-  audits: number;
-  createdAt: string;
-}
+import type { StudyDetail, StudySummary } from '../api/studies';
+export type { StudyDetail, StudySummary } from '../api/studies';
 
 /**
  * The studies the user may read, newest first, across all their teams.
@@ -66,31 +55,12 @@ export function listStudies(user: CurrentUser): StudySummary[] {
   }));
 }
 
-/** A study with its waves, audits and the state of its cut list. */
-export interface StudyDetail {
-  id: string;
-  name: string;
-  description: string;
-  settings: StudyRow['settings'];
-  team: { id: string; name: string };
-  createdAt: string;
-  waves: { id: string; label: string; status: string; format: string; rows: number; items: number; excluded: number; createdAt: string; confirmedAt: string | null }[];
-  audits: { id: string; waveId: string; status: string; stage: string | null; progress: number; createdAt: string; finishedAt: string | null; error: string | null }[];
-  cutList: {
-    counts: Record<string, number>;
-    latestVersion: { number: number; publishedAt: string; programmedAt: string | null } | null;
-  };
-}
-
 /**
  * Reads a study with what lies under it (no respondent-level data).
  * @param study the study row (already checked by the guard).
  * @returns the detail.
  */
 export function studyDetail(study: StudyRow): StudyDetail {
-  // The audits service marks audits an earlier process left unfinished as failed when it is
-  // first used, so the list below never shows a stale "running".
-  auditJobs();
   const db = getDb();
   const team = db.select({ id: teams.id, name: teams.name }).from(teams).where(eq(teams.id, study.teamId)).get();
   const waveRows = db

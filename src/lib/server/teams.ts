@@ -6,24 +6,8 @@ import { logActivity } from './activity';
 import type { CurrentUser } from './current-user';
 import { getDb } from './db';
 import { fail } from './errors';
-
-/** A member as the members page shows them. */
-export interface MemberView {
-  userId: string;
-  name: string;
-  email: string;
-  role: Role;
-  joinedAt: string;
-}
-
-/** A pending invitation. */
-export interface InvitationView {
-  id: string;
-  email: string;
-  role: Role;
-  expiresAt: string;
-  createdAt: string;
-}
+import type { InvitationView, MemberView } from '../api/teams';
+export type { InvitationView, MemberView } from '../api/teams';
 
 /** The team's name. */
 export function teamName(teamId: string): string {

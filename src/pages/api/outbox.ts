@@ -1,4 +1,5 @@
 import type { APIRoute } from 'astro';
+import type { OutboxResponse } from '../../lib/api/outbox';
 import { endpoint } from '../../lib/server/endpoint';
 import { fail, json } from '../../lib/server/errors';
 import { requireUser } from '../../lib/server/guard';
@@ -8,5 +9,5 @@ import { listOutbox, outboxEnabled } from '../../lib/server/outbox';
 export const GET: APIRoute = endpoint(({ locals }) => {
   const user = requireUser(locals);
   if (!outboxEnabled()) throw fail.notFound('The outbox is off: e-mail is sent by SMTP.', 'outbox-off');
-  return json({ mails: listOutbox(user) });
+  return json({ mails: listOutbox(user) } satisfies OutboxResponse);
 });

@@ -8,20 +8,9 @@ import { waveItems, waves } from '../../../db/schema';
 import { getDb } from '../db';
 import type { StudyRow } from '../guard';
 import { parseStoredSetup, type WaveRow } from '../waves/stored-wave';
-import { defaultAuditSettings, type ResolvedAuditSettings } from './audit-settings';
-
-/** One wave, ready for the audit form. */
-export interface AuditFormWave {
-  id: string;
-  label: string;
-  status: WaveRow['status'];
-  respondents: number;
-  excluded: number;
-  items: { id: string; scale: string | null; text: string | null }[];
-  outcomes: { id: string; header: string }[];
-  /** The settings of an audit started without changes (study constraints over engine defaults). */
-  defaults: ResolvedAuditSettings;
-}
+import { defaultAuditSettings } from './audit-settings';
+import type { AuditFormWave } from '../../api/audits';
+export type { AuditFormWave } from '../../api/audits';
 
 /** The columns of a wave row the form needs (no matrix). */
 export type FormWaveRow = Pick<WaveRow, 'id' | 'label' | 'status' | 'setup' | 'rowCount' | 'exclusions'>;

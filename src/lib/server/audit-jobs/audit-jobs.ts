@@ -5,9 +5,9 @@
  * every audit an earlier process left `queued` or `running` as failed ("interrupted by a
  * restart"). The main thread is the only writer of the audits table.
  *
- * One instance per process (`auditJobs()`); it is created on first use, and the restart recovery
- * runs then, before anything else reads or starts an audit (every path that does goes through
- * `auditJobs()`). docs/decisions/004-audit-jobs.md.
+ * One instance per process, started explicitly by `startAuditJobs()` (the middleware, on the
+ * first request), which runs the restart recovery before anything else reads or starts an audit;
+ * `auditJobs()` only returns it. docs/decisions/004-audit-jobs.md, 008.
  */
 import { and, desc, eq, inArray, type SQL } from 'drizzle-orm';
 import { audits, waveItems, waves } from '../../../db/schema';
@@ -24,6 +24,8 @@ import { auditSettingsHash, resolveAuditSettings, type AuditSettingsRequest, typ
 import { AuditJobFailure, AuditWorkerPool } from './worker-pool';
 import { spawnAuditWorker } from './worker-entry';
 import type { AuditWorkerJob } from './worker-protocol';
+import type { AuditStatus, AuditSummary } from '../../api/audits';
+export type { AuditStatus, AuditSummary } from '../../api/audits';
 
 /** The reason stored on audits found unfinished when the server starts. */
 export const INTERRUPTED_REASON = 'The audit was interrupted by a restart of the server before it finished; retry it.';
@@ -33,29 +35,6 @@ export const PROGRESS_WRITE_INTERVAL_MS = 250;
 
 /** Stored failure reasons are cut to this length. */
 const MAX_REASON_LENGTH = 2_000;
-
-export type AuditStatus = (typeof audits.$inferSelect)['status'];
-
-/** An audit as the API and pages show it (without its result). */
-export interface AuditSummary {
-  id: string;
-  waveId: string;
-  studyId: string;
-  waveLabel: string;
-  status: AuditStatus;
-  /** The stage running now (`loading`, `evidence`, `structure`, `engine`, `outcome`, `saving`), or null. */
-  stage: string | null;
-  /** 0-100; 100 once done. */
-  percent: number;
-  /** Why it failed, when it failed. */
-  error: string | null;
-  settings: ResolvedAuditSettings;
-  /** Milliseconds per stage, once it ended. */
-  timings: Record<string, number> | null;
-  createdAt: string;
-  startedAt: string | null;
-  finishedAt: string | null;
-}
 
 /** An audit row as read here (no result text). */
 const summaryColumns = {
@@ -389,12 +368,15 @@ function requeue(tx: Pick<Db, 'update'>, auditId: string): void {
 const INSTANCE = Symbol.for('paredown.auditJobs');
 
 /**
- * The audits service of this process, created on first use: the restart recovery runs first,
- * then the pool is made (its threads start with the first audit).
+ * Starts the audits service of this process, once: the restart recovery runs first (audits an
+ * earlier process left queued or running are marked failed), then the pool is made (its threads
+ * start with the first audit). The middleware calls it on the first request, since Astro's
+ * standalone server has no start-up hook; later calls return the running service. This is the
+ * only place the recovery writes: reading audits never does (docs/decisions/008).
  * @throws {Error} when the configuration is invalid (AUDIT_WORKERS among others; see parseConfig).
  * @returns the service.
  */
-export function auditJobs(): AuditJobs {
+export function startAuditJobs(): AuditJobs {
   const holder = globalThis as unknown as Record<symbol, AuditJobs | undefined>;
   let instance = holder[INSTANCE];
   if (!instance) {
@@ -405,5 +387,17 @@ export function auditJobs(): AuditJobs {
     instance = new AuditJobs(db, new AuditWorkerPool(size, () => spawnAuditWorker()));
     holder[INSTANCE] = instance;
   }
+  return instance;
+}
+
+/**
+ * The running audits service of this process. Has no side effect: it never creates the service
+ * or runs the restart recovery (that is {@link startAuditJobs}, called by the middleware).
+ * @throws {Error} when the service was not started (a code path that skipped the middleware).
+ * @returns the service.
+ */
+export function auditJobs(): AuditJobs {
+  const instance = (globalThis as unknown as Record<symbol, AuditJobs | undefined>)[INSTANCE];
+  if (!instance) throw new Error('The audits service has not been started: the middleware calls startAuditJobs() on the first request (src/middleware.ts).');
   return instance;
 }

@@ -4,8 +4,8 @@
  * decisions; by default the latest published version, or the current decisions before any.
  */
 import type { APIRoute } from 'astro';
-import { requireAuditAccess } from '../audit-jobs/audit-access';
 import { endpoint } from '../endpoint';
+import { requireAccess } from '../guard';
 import { memoDecisionChoice } from './memo-input';
 import { memoFile, type MemoFormat } from './memo-files';
 
@@ -17,7 +17,7 @@ import { memoFile, type MemoFormat } from './memo-files';
 export function memoRoute(format: MemoFormat): APIRoute {
   return endpoint(async ({ locals, params, url }) => {
     const id = params.id ?? '';
-    const { user } = requireAuditAccess(locals, id, 'export:memo');
+    const { user } = requireAccess(locals, 'audit', id, 'export:memo');
     const file = await memoFile(id, format, memoDecisionChoice(url.searchParams), user.name);
     return new Response(new Uint8Array(file.bytes), {
       headers: {

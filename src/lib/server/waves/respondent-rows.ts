@@ -5,41 +5,8 @@
 import type { ScreeningFlag, ScreeningResult } from '../../ingest';
 import { fail } from '../errors';
 import { flagsByRow, parseStoredSetup, type WaveRow } from './stored-wave';
-
-/** One respondent as the designer's list shows them. */
-export interface RespondentRow {
-  /** 0-based row of the respondent in the wave (what exclusions refer to). */
-  row: number;
-  respondentId: string | null;
-  /** Left out of audits. */
-  excluded: boolean;
-  /** Proposed for exclusion by the screening. */
-  proposed: boolean;
-  flags: ScreeningFlag['code'][];
-  /** Longest run of one answer, in items. */
-  longString: number | null;
-  /** Standard deviation of the person's answers (as given), null when not computable. */
-  withinSd: number | null;
-  /** Share of items without a valid answer. */
-  missingShare: number | null;
-  /** Completion time in seconds, null when unknown. */
-  duration: number | null;
-  /** Weight, null without a weight column or when missing. */
-  weight: number | null;
-  /** Outcome values by outcome id (null where missing). */
-  outcomes: Record<string, number | null>;
-}
-
-/** One page of respondents. */
-export interface RespondentPage {
-  waveId: string;
-  page: number;
-  perPage: number;
-  /** Respondents matching the filter. */
-  total: number;
-  pages: number;
-  respondents: RespondentRow[];
-}
+import type { RespondentPage } from '../../api/waves';
+export type { RespondentPage, RespondentRow } from '../../api/waves';
 
 /** Which respondents to list. */
 export interface RespondentQuery {

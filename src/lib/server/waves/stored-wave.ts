@@ -13,15 +13,14 @@ import type {
   AcceptedWave, BuiltWave, ColumnProposal, ColumnSetup, ItemCounts, ProposedSetup, ReadWave, ScreeningFlag, ScreeningOptions, ScreeningResult, WaveSource, WaveWarning,
 } from '../../ingest';
 import type { waves } from '../../../db/schema';
+import type { ScreeningDetail, ScreeningSummary, StoredSource, WaveSummary } from '../../api/waves';
+export type { FlaggedRespondent, FlagSummary, ScreeningDetail, ScreeningSummary, StoredSource, WaveSummary } from '../../api/waves';
 
 /** A wave row as Drizzle reads it. */
 export type WaveRow = typeof waves.$inferSelect;
 
 /** Version of the stored setup document written by this module. */
 export const STORED_SETUP_VERSION = 1;
-
-/** How the wave's files were read (enough to read them again exactly): the ingest's WaveSource. */
-export type StoredSource = WaveSource;
 
 /** An outcome column kept with a confirmed wave. */
 export interface StoredOutcome {
@@ -100,27 +99,6 @@ export function parseStoredSetup(value: unknown, respondents: number): StoredWav
   };
 }
 
-/** The wave as every member may see it. */
-export interface WaveSummary {
-  id: string;
-  studyId: string;
-  label: string;
-  status: 'proposed' | 'confirmed';
-  format: string;
-  sheet: string | null;
-  fileName: string | null;
-  codebookName: string | null;
-  source: StoredSource | null;
-  /** Respondents in the file. */
-  rows: number;
-  /** Items (proposed or confirmed). */
-  items: number;
-  /** Respondents left out of audits (confirmed waves). */
-  excluded: number;
-  createdAt: string;
-  confirmedAt: string | null;
-}
-
 /**
  * The member-visible summary of a wave row.
  * @param row the wave row.
@@ -146,24 +124,6 @@ export function waveSummary(row: WaveRow, stored: StoredWaveSetup): WaveSummary 
   };
 }
 
-/** A screening flag without its respondent list. */
-export interface FlagSummary {
-  code: ScreeningFlag['code'];
-  threshold: number;
-  count: number;
-  message: string;
-}
-
-/** Screening as aggregates: what reviewers and field managers may see. */
-export interface ScreeningSummary {
-  respondents: number;
-  options: ScreeningOptions;
-  medianDuration: number | null;
-  flags: FlagSummary[];
-  /** How many respondents the screening proposes to leave out. */
-  proposedCount: number;
-}
-
 /**
  * Screening reduced to counts.
  * @param screening a screening result, or null.
@@ -178,22 +138,6 @@ export function screeningSummary(screening: ScreeningResult | null): ScreeningSu
     flags: screening.flags.map(({ code, threshold, count, message }) => ({ code, threshold, count, message })),
     proposedCount: screening.proposedExclusions.length,
   };
-}
-
-/** One flagged respondent, for the designer's exclusion list. */
-export interface FlaggedRespondent {
-  /** 0-based respondent row. */
-  row: number;
-  respondentId: string | null;
-  flags: ScreeningFlag['code'][];
-  /** Completion time in seconds, when known. */
-  duration: number | null;
-}
-
-/** Screening for owners and designers: the aggregates plus the flagged rows and the proposal. */
-export interface ScreeningDetail extends ScreeningSummary {
-  proposedExclusions: number[];
-  flagged: FlaggedRespondent[];
 }
 
 /**

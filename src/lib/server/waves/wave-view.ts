@@ -5,54 +5,13 @@
  */
 import { asc, eq } from 'drizzle-orm';
 import { waveItems } from '../../../db/schema';
-import type { ColumnProposal, ItemCounts, ScreeningResult, WaveWarning } from '../../ingest';
+import type { ScreeningResult } from '../../ingest';
 import { getDb } from '../db';
 import {
-  mergeWarnings, parseStoredSetup, screeningDetail, screeningSummary, waveSummary,
-  type ScreeningDetail, type ScreeningSummary, type StoredWaveSetup, type WaveRow, type WaveSummary,
+  mergeWarnings, parseStoredSetup, screeningDetail, screeningSummary, waveSummary, type StoredWaveSetup, type WaveRow,
 } from './stored-wave';
-
-/** One item of a wave as the API shows it. */
-export interface ItemView {
-  /** 0-based column of the item in the stored matrix. */
-  position: number;
-  id: string;
-  header: string;
-  scale: string | null;
-  reverse: boolean;
-  min: number | null;
-  max: number | null;
-  missingCodes: number[];
-  text: string | null;
-  valueLabels: Record<string, string> | null;
-  /** What happened to the item's cells when recoded (absent for waves stored before counts were kept). */
-  counts: ItemCounts | null;
-}
-
-/** An outcome column as the API shows it (aggregates only). */
-export interface OutcomeView {
-  id: string;
-  header: string;
-  counts: ItemCounts;
-}
-
-/** The answer of the wave routes. */
-export interface WaveView {
-  wave: WaveSummary;
-  /** Owners and designers: the proposed setup with reasons, profiles and counts. Others: null. */
-  proposal: { respondents: number; columns: ColumnProposal[] } | null;
-  /** The setup in force (as proposed, then as confirmed): what to send back to confirm. Owners and designers only. */
-  setup: StoredWaveSetup['columns'] | null;
-  items: ItemView[];
-  outcomes: OutcomeView[];
-  warnings: WaveWarning[];
-  /** Owners and designers: with the flagged rows and proposed exclusions. Others: counts only. */
-  screening: ScreeningDetail | ScreeningSummary | null;
-  /** Why there is no screening, when there is none. */
-  screeningNote: string | null;
-  /** Owners and designers: the respondent rows left out of audits. Others: null (see wave.excluded). */
-  exclusions: number[] | null;
-}
+import type { ItemView, WaveView } from '../../api/waves';
+export type { ItemView, OutcomeView, WaveView } from '../../api/waves';
 
 /** The parts of a view that a build (stored or not) supplies. */
 export interface ViewParts {

@@ -1,8 +1,8 @@
 import type { APIRoute } from 'astro';
-import { requireAuditAccess } from '../../../lib/server/audit-jobs/audit-access';
 import { auditJobs } from '../../../lib/server/audit-jobs/audit-jobs';
 import { endpoint } from '../../../lib/server/endpoint';
 import { fail } from '../../../lib/server/errors';
+import { requireAccess } from '../../../lib/server/guard';
 
 /**
  * GET /api/audits/{id} (members, reviewers included: the audit JSON holds aggregates only):
@@ -13,7 +13,7 @@ import { fail } from '../../../lib/server/errors';
 export const GET: APIRoute = endpoint(({ locals, params, url }) => {
   const jobs = auditJobs();
   const id = params.id ?? '';
-  requireAuditAccess(locals, id, 'read:audit');
+  requireAccess(locals, 'audit', id, 'read:audit');
   const audit = jobs.summary(id);
   if (!audit) throw fail.notFound('No such audit among your teams.', 'audit-not-found');
   const resultText = audit.status === 'done' ? jobs.resultText(id) : null;

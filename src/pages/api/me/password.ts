@@ -1,18 +1,16 @@
 import type { APIRoute } from 'astro';
-import { z } from 'zod';
+import type { ChangePasswordResponse } from '../../../lib/api/me';
+import { changePasswordRequest } from '../../../lib/api/schemas/me';
 import { changePassword } from '../../../lib/server/accounts';
 import { endpoint, readJson } from '../../../lib/server/endpoint';
 import { fail, json } from '../../../lib/server/errors';
 import { requireUser } from '../../../lib/server/guard';
-import { passwordSchema } from '../../../lib/server/passwords';
-
-const body = z.object({ currentPassword: z.string().min(1).max(200), newPassword: passwordSchema });
 
 /** PUT /api/me/password: change one's own password (signed in with a session, not a token). */
 export const PUT: APIRoute = endpoint(async ({ locals, request }) => {
   const user = requireUser(locals);
   if (locals.authVia !== 'session') throw fail.forbidden('Change the password from the account page, signed in; API tokens cannot.', 'session-required');
-  const input = await readJson(request, body);
+  const input = await readJson(request, changePasswordRequest);
   await changePassword(user, input.currentPassword, input.newPassword);
-  return json({ changed: true, signInAgain: true });
+  return json({ changed: true, signInAgain: true } satisfies ChangePasswordResponse);
 });

@@ -1,5 +1,6 @@
 import type { APIRoute } from 'astro';
-import { z } from 'zod';
+import type { CreateTokenResponse, ListTokensResponse } from '../../../lib/api/tokens';
+import { createTokenRequest } from '../../../lib/api/schemas/tokens';
 import { createApiToken, listApiTokens } from '../../../lib/server/api-tokens';
 import { endpoint, readJson } from '../../../lib/server/endpoint';
 import { fail, json } from '../../../lib/server/errors';
@@ -8,10 +9,8 @@ import { requireUser } from '../../../lib/server/guard';
 /** GET /api/tokens: the caller's live tokens (never their secrets). */
 export const GET: APIRoute = endpoint(({ locals }) => {
   const user = requireUser(locals);
-  return json({ tokens: listApiTokens(user.id) });
+  return json({ tokens: listApiTokens(user.id) } satisfies ListTokensResponse);
 });
-
-const body = z.object({ name: z.string().trim().min(1, 'Name the token after what uses it.').max(100) });
 
 /**
  * POST /api/tokens: create a token; its secret is in this answer only. Signed in with a session
@@ -20,7 +19,7 @@ const body = z.object({ name: z.string().trim().min(1, 'Name the token after wha
 export const POST: APIRoute = endpoint(async ({ locals, request }) => {
   const user = requireUser(locals);
   if (locals.authVia !== 'session') throw fail.forbidden('Create tokens from the account page, signed in; an API token cannot create another.', 'session-required');
-  const input = await readJson(request, body);
+  const input = await readJson(request, createTokenRequest);
   const { token, secret } = createApiToken(user, input.name);
-  return json({ token, secret }, 201);
+  return json({ token, secret } satisfies CreateTokenResponse, 201);
 });

@@ -1,7 +1,8 @@
 import type { APIRoute } from 'astro';
+import type { WaveView } from '../../../lib/api/waves';
 import { can } from '../../../lib/permissions';
 import { json } from '../../../lib/server/errors';
-import { requireWaveAccess } from '../../../lib/server/waves/wave-access';
+import { requireAccess } from '../../../lib/server/guard';
 import { waveEndpoint } from '../../../lib/server/waves/wave-endpoint';
 import { storedWaveView } from '../../../lib/server/waves/wave-view';
 
@@ -11,6 +12,6 @@ import { storedWaveView } from '../../../lib/server/waves/wave-view';
  * everyone else gets aggregates only.
  */
 export const GET: APIRoute = waveEndpoint(({ locals, params }) => {
-  const { wave, membership } = requireWaveAccess(locals, params.id ?? '', 'read:study');
-  return json(storedWaveView(wave, can(membership.role, 'read:respondents')));
+  const { wave, membership } = requireAccess(locals, 'wave', params.id ?? '', 'read:study');
+  return json(storedWaveView(wave, can(membership.role, 'read:respondents')) satisfies WaveView);
 });

@@ -1,10 +1,10 @@
 import type { APIRoute } from 'astro';
 import type { DriverCoefficientView, DriverModelResponse } from '../../../../lib/api/driver-model';
 import type { AuditJson } from '../../../../lib/audit/audit-json';
-import { requireAuditAccess } from '../../../../lib/server/audit-jobs/audit-access';
 import { auditJobs } from '../../../../lib/server/audit-jobs/audit-jobs';
 import { endpoint } from '../../../../lib/server/endpoint';
 import { fail } from '../../../../lib/server/errors';
+import { requireAccess } from '../../../../lib/server/guard';
 
 /**
  * GET /api/audits/{id}/driver-model (members: aggregates only): the audit's outcome model before
@@ -13,7 +13,7 @@ import { fail } from '../../../../lib/server/errors';
  */
 export const GET: APIRoute = endpoint(({ locals, params }) => {
   const id = params.id ?? '';
-  requireAuditAccess(locals, id, 'read:audit');
+  requireAccess(locals, 'audit', id, 'read:audit');
   const jobs = auditJobs();
   const summary = jobs.summary(id);
   if (!summary) throw fail.notFound('No such audit among your teams.', 'audit-not-found');

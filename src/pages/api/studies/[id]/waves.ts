@@ -1,7 +1,8 @@
 import type { APIRoute } from 'astro';
+import type { UploadWaveResponse } from '../../../../lib/api/waves';
 import { getConfig } from '../../../../lib/server/config';
 import { json } from '../../../../lib/server/errors';
-import { requireStudyAccess } from '../../../../lib/server/guard';
+import { requireAccess } from '../../../../lib/server/guard';
 import { readUploadForm } from '../../../../lib/server/waves/read-upload-form';
 import { uploadWave } from '../../../../lib/server/waves/upload-wave';
 import { waveEndpoint } from '../../../../lib/server/waves/wave-endpoint';
@@ -13,8 +14,8 @@ import { waveEndpoint } from '../../../../lib/server/waves/wave-endpoint';
  * already holding the same upload; the reader's refusals as 400, 413 or 422.
  */
 export const POST: APIRoute = waveEndpoint(async ({ locals, params, request }) => {
-  const { user, study } = requireStudyAccess(locals, params.id ?? '', 'upload:wave');
+  const { user, study } = requireAccess(locals, 'study', params.id ?? '', 'upload:wave');
   const form = await readUploadForm(request, getConfig().limits.uploadBytes);
   const { duplicate, view } = await uploadWave(user, study, form);
-  return json({ ...view, duplicate }, duplicate ? 200 : 201, { Location: `/api/waves/${view.wave.id}` });
+  return json({ ...view, duplicate } satisfies UploadWaveResponse, duplicate ? 200 : 201, { Location: `/api/waves/${view.wave.id}` });
 });

@@ -1,11 +1,12 @@
 import type { APIRoute } from 'astro';
+import type { StartAuditResponse, WaveAuditsResponse } from '../../../../lib/api/audits';
+import { auditRequestSchema } from '../../../../lib/api/schemas/audits';
 import { auditFormWave } from '../../../../lib/server/audit-jobs/audit-form-data';
 import { auditJobs } from '../../../../lib/server/audit-jobs/audit-jobs';
-import { auditRequestSchema } from '../../../../lib/server/audit-jobs/audit-settings';
 import { getConfig } from '../../../../lib/server/config';
 import { endpoint, readJson } from '../../../../lib/server/endpoint';
 import { json } from '../../../../lib/server/errors';
-import { requireWaveAccess } from '../../../../lib/server/waves/wave-access';
+import { requireAccess } from '../../../../lib/server/guard';
 
 /**
  * POST /api/waves/{id}/audits (owner, designer): start an audit with `{ settings }` (any of
@@ -16,10 +17,10 @@ import { requireWaveAccess } from '../../../../lib/server/waves/wave-access';
  */
 export const POST: APIRoute = endpoint(async ({ locals, params, request }) => {
   const jobs = auditJobs();
-  const { user, study, wave } = requireWaveAccess(locals, params.id ?? '', 'run:audit');
+  const { user, study, wave } = requireAccess(locals, 'wave', params.id ?? '', 'run:audit');
   const body = await readJson(request, auditRequestSchema);
   const started = jobs.start(user, study, wave, body.settings, { allowTestFaults: getConfig().mode === 'test' });
-  return json({ audit: started.audit, reused: started.reused }, started.reused ? 200 : 202, { Location: `/api/audits/${started.audit.id}` });
+  return json({ audit: started.audit, reused: started.reused } satisfies StartAuditResponse, started.reused ? 200 : 202, { Location: `/api/audits/${started.audit.id}` });
 });
 
 /**
@@ -28,6 +29,6 @@ export const POST: APIRoute = endpoint(async ({ locals, params, request }) => {
  */
 export const GET: APIRoute = endpoint(({ locals, params }) => {
   const jobs = auditJobs();
-  const { study, wave } = requireWaveAccess(locals, params.id ?? '', 'read:audit');
-  return json({ wave: auditFormWave(study, wave), audits: jobs.listForWave(wave.id) });
+  const { study, wave } = requireAccess(locals, 'wave', params.id ?? '', 'read:audit');
+  return json({ wave: auditFormWave(study, wave), audits: jobs.listForWave(wave.id) } satisfies WaveAuditsResponse);
 });

@@ -1,27 +1,10 @@
 import type { APIRoute } from 'astro';
-import { z } from 'zod';
+import type { ConfirmSetupResponse } from '../../../../lib/api/waves';
+import { confirmSetupRequest } from '../../../../lib/api/schemas/waves';
 import { json } from '../../../../lib/server/errors';
 import { confirmWave } from '../../../../lib/server/waves/confirm-wave';
-import { requireWaveAccess } from '../../../../lib/server/waves/wave-access';
+import { requireAccess } from '../../../../lib/server/guard';
 import { readSetupJson, waveEndpoint } from '../../../../lib/server/waves/wave-endpoint';
-
-const screeningOptions = z
-  .object({
-    longStringShare: z.number().gt(0).lte(1),
-    longStringMinimum: z.number().int().gte(2),
-    withinSdMaximum: z.number().gte(0),
-    withinSdMinimumAnswers: z.number().int().gte(2),
-    speederShare: z.number().gt(0).lte(1),
-    missingShareAbove: z.number().gte(0).lte(1),
-  })
-  .partial();
-
-const body = z.object({
-  setup: z.unknown().optional(),
-  exclusions: z.array(z.number()).optional(),
-  screening: screeningOptions.optional(),
-  dryRun: z.boolean().optional(),
-});
 
 /**
  * PUT /api/waves/{id}/setup (owner, designer): confirm the column setup and exclusions
@@ -30,8 +13,8 @@ const body = z.object({
  * exclusions (409 otherwise). `dryRun: true` checks and previews without storing.
  */
 export const PUT: APIRoute = waveEndpoint(async ({ locals, params, request }) => {
-  const { user, study, wave } = requireWaveAccess(locals, params.id ?? '', 'confirm:wave');
-  const input = await readSetupJson(request, body);
+  const { user, study, wave } = requireAccess(locals, 'wave', params.id ?? '', 'confirm:wave');
+  const input = await readSetupJson(request, confirmSetupRequest);
   const outcome = await confirmWave(user, study, wave, input);
-  return json({ ...outcome.view, stored: outcome.stored, dryRun: input.dryRun === true });
+  return json({ ...outcome.view, stored: outcome.stored, dryRun: input.dryRun === true } satisfies ConfirmSetupResponse);
 });

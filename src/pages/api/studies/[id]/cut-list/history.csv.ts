@@ -5,7 +5,7 @@ import { toCsv } from '../../../../../lib/export/spreadsheet-cells';
 import { fileStem } from '../../../../../lib/memo/memo-format';
 import { getDb } from '../../../../../lib/server/db';
 import { endpoint } from '../../../../../lib/server/endpoint';
-import { requireStudyAccess } from '../../../../../lib/server/guard';
+import { requireAccess } from '../../../../../lib/server/guard';
 
 /**
  * GET /api/studies/{id}/cut-list/history.csv (members): every decision ever made on the study's
@@ -13,7 +13,7 @@ import { requireStudyAccess } from '../../../../../lib/server/guard';
  * spreadsheet-safe cells.
  */
 export const GET: APIRoute = endpoint(({ locals, params }) => {
-  const { study } = requireStudyAccess(locals, params.id ?? '', 'read:cutlist');
+  const { study } = requireAccess(locals, 'study', params.id ?? '', 'read:cutlist');
   const rows = getDb()
     .select({
       at: decisionHistory.decidedAt,

@@ -1,41 +1,8 @@
 /**
- * Browser helpers the islands share: JSON calls to the API (errors in api.md's shape turned into
- * one message) and signing in and out through Auth.js's endpoints.
+ * Signing in and out from the browser, through Auth.js's own endpoints (auth-astro). These are
+ * not Paredown's API routes (no contract of ours), so they live beside the typed client rather
+ * than in it.
  */
-
-/** The outcome of an API call. */
-export type ApiResult<T> = { ok: true; status: number; data: T } | { ok: false; status: number; code: string; message: string };
-
-/**
- * Calls the API with a JSON body.
- * @param method HTTP method.
- * @param path path under the site, e.g. `/api/studies`.
- * @param body JSON body, if any.
- * @returns the parsed answer or the error's code and message.
- */
-export async function callApi<T>(method: string, path: string, body?: unknown): Promise<ApiResult<T>> {
-  let response: Response;
-  try {
-    response = await fetch(path, {
-      method,
-      headers: body === undefined ? { Accept: 'application/json' } : { 'Content-Type': 'application/json', Accept: 'application/json' },
-      body: body === undefined ? undefined : JSON.stringify(body),
-      credentials: 'same-origin',
-    });
-  } catch {
-    return { ok: false, status: 0, code: 'network', message: 'The server could not be reached. Check the connection and try again.' };
-  }
-  const text = await response.text();
-  let data: unknown = null;
-  try {
-    data = text ? JSON.parse(text) : null;
-  } catch {
-    data = null;
-  }
-  if (response.ok) return { ok: true, status: response.status, data: data as T };
-  const error = (data as { error?: { code?: string; message?: string } } | null)?.error;
-  return { ok: false, status: response.status, code: error?.code ?? 'error', message: error?.message ?? `The server answered ${response.status}.` };
-}
 
 async function csrfToken(): Promise<string> {
   const response = await fetch('/api/auth/csrf', { credentials: 'same-origin' });
