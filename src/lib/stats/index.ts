@@ -19,6 +19,7 @@ export * from './cronbach-alpha';
 export * from './cross-products';
 export * from './f-distribution';
 export * from './fisher-z-interval';
+export * from './hierarchical-clustering';
 export * from './incomplete-beta';
 export * from './incomplete-gamma';
 export * from './item-descriptives';
