@@ -226,6 +226,9 @@ const table: Row[] = [
   { name: 'the decision history as CSV', method: 'GET', path: () => `/api/studies/${demo.study}/cut-list/history.csv`, expect: demoTeamMembers(200) },
   { name: "the other team's decision history as CSV", method: 'GET', path: () => `/api/studies/${demo.outsideStudy}/cut-list/history.csv`, expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 200, anonymous: 401 } },
   { name: 'read an audit that does not exist', method: 'GET', path: () => '/api/audits/no-such-audit', expect: anyoneSignedIn(404) },
+  { name: "read an audit's overlap map", method: 'GET', path: (id) => `/api/audits/${id}/overlap-map`, prepare: aDoneAudit, expect: demoTeamMembers(200) },
+  { name: 'read the overlap map of an audit that does not exist', method: 'GET', path: () => '/api/audits/no-such-audit/overlap-map', expect: anyoneSignedIn(404) },
+  { name: "read a pair's crosstab", method: 'GET', path: (id) => `/api/audits/${id}/crosstab?a=coll_2&b=coll_7`, prepare: aDoneAudit, expect: demoTeamMembers(200) },
   { name: 'retry a failed audit', method: 'POST', path: (id) => `/api/audits/${id}/retry`, prepare: freshFailedAudit, expect: runAudit },
   // Team members and invitations
   { name: 'list members', method: 'GET', path: () => `/api/teams/${demo.team}/members`, expect: demoTeamMembers(200) },

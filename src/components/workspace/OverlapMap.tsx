@@ -345,6 +345,9 @@ export default function OverlapMap({ auditId }: { auditId: string }) {
             onKeyDown={onKeyDown}
             onFocus={() => setAnnouncement(describe(focus))}
             data-testid="overlap-map-grid"
+            data-margin={margin}
+            data-cell={cell}
+            data-order={order.map((i) => data.items[i].id).join(' ')}
           >
             <canvas ref={base} className="absolute inset-0" style={{ width: size + margin, height: size + margin }} data-testid="overlap-map-canvas" aria-hidden="true" />
             <canvas
