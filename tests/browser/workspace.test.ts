@@ -89,6 +89,7 @@ async function reorder(page: Page, ordering: 'cluster' | 'scale' | 'questionnair
 
 /** The centre of a cell, in page coordinates. */
 async function cellCentre(page: Page, rowItem: string, columnItem: string): Promise<{ x: number; y: number }> {
+  await page.locator('[data-testid=overlap-map-grid]').scrollIntoViewIfNeeded();
   const { margin, cell, order } = await geometry(page);
   const box = (await page.locator('[data-testid=overlap-map-pointer]').boundingBox())!;
   const row = order.indexOf(rowItem);

@@ -29,19 +29,14 @@ function share(value: number | null): string {
 
 const numberColumn = (key: keyof ItemRow, header: string, title: string, render: (value: number | null, row: ItemRow) => string): ColumnDef<ItemRow> => ({
   id: key,
-  accessorFn: (row) => row[key] as number | null,
+  // Absent values are undefined to the table, so they sort last in either direction.
+  accessorFn: (row) => (row[key] as number | null) ?? undefined,
   header,
   meta: { numeric: true, title } satisfies Numeric,
   sortUndefined: 'last',
-  sortingFn: (a, b, id) => {
-    const x = a.getValue<number | null>(id);
-    const y = b.getValue<number | null>(id);
-    if (x === null && y === null) return 0;
-    if (x === null) return 1;
-    if (y === null) return -1;
-    return x - y;
-  },
-  cell: (context) => render(context.getValue<number | null>(), context.row.original),
+  sortingFn: 'basic',
+  sortDescFirst: true,
+  cell: (context) => render(context.getValue<number | undefined>() ?? null, context.row.original),
 });
 
 const columns: ColumnDef<ItemRow>[] = [

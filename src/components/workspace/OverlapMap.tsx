@@ -27,6 +27,8 @@ const MAX_SIZE = 680;
 /** Smallest cell that still gets item ids written beside it. */
 const LABEL_MIN_CELL = 10;
 const LABEL_MARGIN = 84;
+/** Smallest cell that gets a dot when its pair is at or above the threshold. */
+const DOT_MIN_CELL = 6;
 
 
 interface Cell {
@@ -39,7 +41,7 @@ export default function OverlapMap({ auditId }: { auditId: string }) {
   const [problem, setProblem] = useState('');
   const [ordering, setOrdering] = useState<MapOrdering>('cluster');
   const [threshold, setThreshold] = useState<number>(0.8);
-  const [highlight, setHighlight] = useState(true);
+  const [highlight, setHighlight] = useState(false);
   const [outlines, setOutlines] = useState(true);
   const [hover, setHover] = useState<Cell | null>(null);
   const [focus, setFocus] = useState<Cell>({ row: 0, column: 1 });
@@ -128,6 +130,23 @@ export default function OverlapMap({ auditId }: { auditId: string }) {
     scratch.getContext('2d')?.putImageData(image, 0, 0);
     context.imageSmoothingEnabled = false;
     context.drawImage(scratch, margin, margin, size, size);
+
+    // Pairs at or above the threshold: a dot in the cell where cells are large enough to hold one
+    // (at 300 items a cell is about two pixels: there the fading does the highlighting).
+    if (cell >= DOT_MIN_CELL) {
+      context.fillStyle = '#1c2127';
+      const radius = Math.max(1.5, cell * 0.14);
+      for (let row = 0; row < m; row++) {
+        for (let column = 0; column < m; column++) {
+          if (row === column) continue;
+          const r = mapCorrelation(data, order[row], order[column]);
+          if (r === null || Math.abs(r) < threshold) continue;
+          context.beginPath();
+          context.arc(margin + (column + 0.5) * cell, margin + (row + 0.5) * cell, radius, 0, 2 * Math.PI);
+          context.fill();
+        }
+      }
+    }
 
     // Scale boundaries: a line wherever the scale changes along the current order.
     context.strokeStyle = 'rgba(28, 33, 39, 0.55)';
@@ -405,7 +424,7 @@ function Legend() {
         <span>1</span>
       </div>
       <figcaption className="mt-1">
-        Correlation r: indigo for negative, paper for none, rust for positive; darker is stronger. Grey diagonal: an item with itself. Black outlines: overlap clusters.
+        Correlation r: indigo for negative, paper for none, rust for positive; darker is stronger. Grey diagonal: an item with itself. Black outlines: overlap clusters. Dots: pairs at or above the threshold.
       </figcaption>
     </figure>
   );
