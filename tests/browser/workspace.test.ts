@@ -49,8 +49,27 @@ async function geometry(page: Page): Promise<{ margin: number; cell: number; ord
   };
 }
 
-/** Sweeps the pointer over the map one cell per frame and returns the frame intervals. */
-async function hoverSweep(page: Page, steps: number): Promise<number[]> {
+/** Frame intervals with nothing happening: the pace of this headless browser on this machine now. */
+async function idleFrames(page: Page, count: number): Promise<number[]> {
+  return page.evaluate(async (frames) => {
+    const next = () => new Promise<number>((resolve) => requestAnimationFrame(resolve));
+    const times: number[] = [];
+    let last = await next();
+    for (let k = 0; k < frames; k++) {
+      const now = await next();
+      times.push(now - last);
+      last = now;
+    }
+    return times;
+  }, count);
+}
+
+/**
+ * Sweeps the pointer over the map one cell per frame. Returns the frame intervals, the time from
+ * each pointer event to the hover layer drawn for it (React render included), and that layer's
+ * own drawing time.
+ */
+async function hoverSweep(page: Page, steps: number): Promise<{ frames: number[]; latency: number[]; draw: number[] }> {
   return page.evaluate(async (count) => {
     const target = document.querySelector('[data-testid=overlap-map-pointer]') as HTMLCanvasElement;
     const grid = document.querySelector('[data-testid=overlap-map-grid]') as HTMLElement;
@@ -59,19 +78,35 @@ async function hoverSweep(page: Page, steps: number): Promise<number[]> {
     const m = (grid.dataset.order ?? '').split(' ').length;
     const box = target.getBoundingClientRect();
     const next = () => new Promise<number>((resolve) => requestAnimationFrame(resolve));
-    const times: number[] = [];
+    const frames: number[] = [];
+    const latency: number[] = [];
+    const draw: number[] = [];
     let last = await next();
-    for (let k = 0; k < count; k++) {
+    let dispatchedAt = 0;
+    for (let k = 0; k <= count; k++) {
+      const drawnAt = Number(target.dataset.drawnAt ?? 0);
+      if (dispatchedAt > 0 && drawnAt > dispatchedAt) {
+        latency.push(drawnAt - dispatchedAt);
+        draw.push(Number(target.dataset.drawMs ?? 0));
+      }
+      if (k === count) break;
       // A snake through the matrix: every frame lands on a new cell, rows and columns both change.
       const row = (k * 7) % m;
       const column = (k * 3 + Math.floor(k / m)) % m;
+      dispatchedAt = performance.now();
       target.dispatchEvent(new PointerEvent('pointermove', { bubbles: true, clientX: box.left + margin + (column + 0.5) * cell, clientY: box.top + margin + (row + 0.5) * cell, pointerType: 'mouse' }));
+      // Two frames per step: the island reads the pointer in the next frame and draws after it.
+      await next();
       const now = await next();
-      times.push(now - last);
+      frames.push((now - last) / 2);
       last = now;
     }
-    return times;
+    return { frames, latency, draw };
   }, steps);
+}
+
+function sweepFigures(sweep: { frames: number[]; latency: number[]; draw: number[] }, idle: number[]) {
+  return { idleFrame: stats(idle), sweepFrame: stats(sweep.frames), pointerToDrawn: stats(sweep.latency), hoverLayerDraw: stats(sweep.draw) };
 }
 
 /** Re-orders the map and measures the time to the next painted frame and the matrix layer's own draw. */
@@ -135,7 +170,8 @@ describe('the workspace in Chromium', () => {
       expect((await page.locator('[data-testid=overlap-map-hover] [data-testid=hover-r]').textContent()) ?? '').toContain(audit.correlation.matrix[i][j].toFixed(2));
       expect(cardText).toContain(String(audit.correlation.n[i][j]));
       expect(cardText).toContain(audit.items.find((item: any) => item.id === 'coll_7').text);
-      await page.locator('#overlap-map').screenshot({ path: join(screenshots, 'workspace-03-hover.png') });
+      // A viewport shot: an element shot would scroll the map away from under the pointer.
+      await page.screenshot({ path: join(screenshots, 'workspace-03-hover.png') });
 
       // Click opens the pair: its crosstab, wording, evidence and the proposal involving it.
       await page.mouse.click(target.x, target.y);
@@ -178,7 +214,7 @@ describe('the workspace in Chromium', () => {
       await page.locator('#overlap-map').screenshot({ path: join(screenshots, 'workspace-07-threshold.png') });
 
       // Frame times at the demo size.
-      figures.demo = { items: order.length, hoverSweep: stats(await hoverSweep(page, 240)), reorder: [await reorder(page, 'questionnaire'), await reorder(page, 'scale'), await reorder(page, 'cluster')] };
+      figures.demo = { items: order.length, ...sweepFigures(await hoverSweep(page, 200), await idleFrames(page, 120)), reorder: [await reorder(page, 'questionnaire'), await reorder(page, 'scale'), await reorder(page, 'cluster')] };
 
       // The item table: sort by VIF, largest first; numbers right-aligned under right-aligned headers.
       const table = page.locator('[data-testid=item-table]');
@@ -245,10 +281,13 @@ describe('the workspace in Chromium', () => {
       const { order } = await geometry(page);
       expect(order).toHaveLength(300);
       await page.locator('#overlap-map').screenshot({ path: join(screenshots, 'workspace-12-map-300.png') });
-      const sweep = stats(await hoverSweep(page, 300));
+      const sweep = sweepFigures(await hoverSweep(page, 300), await idleFrames(page, 120));
       const reorders = [await reorder(page, 'questionnaire'), await reorder(page, 'scale'), await reorder(page, 'cluster')];
-      figures.items300 = { items: 300, hoverSweep: sweep, reorder: reorders };
-      await page.locator('#overlap-map').screenshot({ path: join(screenshots, 'workspace-13-map-300-hover.png') });
+      figures.items300 = { items: 300, ...sweep, reorder: reorders };
+      const cell = await cellCentre(page, order[40], order[45]);
+      await page.mouse.move(cell.x, cell.y);
+      await page.locator('[data-testid=overlap-map-hover] [data-testid=hover-card]').waitFor({ state: 'visible' });
+      await page.screenshot({ path: join(screenshots, 'workspace-13-map-300-hover.png') });
       expect(problems).toEqual([]);
     } finally {
       await context.close();
