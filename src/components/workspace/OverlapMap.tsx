@@ -289,8 +289,25 @@ export default function OverlapMap({ auditId }: { auditId: string }) {
     [margin, cell, m],
   );
 
+  // The canvas's place on screen, measured once and again only after a scroll or resize: asking
+  // for it on every pointer move would force a layout of the whole page (a 300-row item table).
+  const boxNow = useRef<DOMRect | null>(null);
+  useEffect(() => {
+    const forget = () => (boxNow.current = null);
+    window.addEventListener('scroll', forget, { passive: true, capture: true });
+    window.addEventListener('resize', forget);
+    return () => {
+      window.removeEventListener('scroll', forget, { capture: true });
+      window.removeEventListener('resize', forget);
+    };
+  }, []);
+  useEffect(() => {
+    boxNow.current = null;
+  }, [size, margin]);
+
   const onPointerMove = (event: React.PointerEvent<HTMLCanvasElement>) => {
-    const box = event.currentTarget.getBoundingClientRect();
+    boxNow.current ??= event.currentTarget.getBoundingClientRect();
+    const box = boxNow.current;
     pending.current = { x: event.clientX - box.left, y: event.clientY - box.top };
     if (frame.current) return;
     frame.current = requestAnimationFrame(() => {
