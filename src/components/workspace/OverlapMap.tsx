@@ -252,7 +252,7 @@ export default function OverlapMap({ auditId }: { auditId: string }) {
     context.setTransform(ratio, 0, 0, ratio, 0, 0);
     context.clearRect(0, 0, size + margin, size + margin);
     const mark = (target: Cell, colour: string, dashed: boolean) => {
-      context.fillStyle = 'rgba(28, 33, 39, 0.07)';
+      context.fillStyle = 'rgba(28, 33, 39, 0.1)';
       context.fillRect(margin, margin + target.row * cell, size, cell);
       context.fillRect(margin + target.column * cell, margin, cell, size);
       context.setLineDash(dashed ? [3, 2] : []);
