@@ -10,7 +10,7 @@
  */
 import { beforeAll, describe, expect, it } from 'vitest';
 import { crosstabSchema, mapCorrelation, mapPairN, overlapMapSchema, SMALL_CELL_LIMIT, upperIndex } from '../../src/lib/api/overlap-map';
-import { demoIds } from '../../src/db/seed';
+import { demoIds } from '../../src/lib/server/demo-seed';
 import { hierarchicalClustering } from '../../src/lib/stats/hierarchical-clustering';
 import { body, Client, demoEmails, signedIn } from '../setup/http';
 import { auditDone } from '../setup/workspace-waves';

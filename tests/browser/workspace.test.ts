@@ -10,7 +10,7 @@ import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { demoIds } from '../../src/db/seed';
+import { demoIds } from '../../src/lib/server/demo-seed';
 import { baseUrl, body, demo, demoEmails, signedIn, type Client } from '../setup/http';
 import { freshContext, hydrated, screenshot, screenshots, signInThroughPage } from '../setup/browser';
 import { auditDone, startAuditOf300Items } from '../setup/workspace-waves';

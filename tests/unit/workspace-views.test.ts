@@ -12,17 +12,17 @@ import { PROPORTION_SHOWN, structureView } from '../../src/components/workspace/
 import { mapCorrelation, upperIndex } from '../../src/lib/api/overlap-map';
 import { auditInputFromWave } from '../../src/lib/audit/audit-input';
 import { runAudit } from '../../src/lib/audit/run-audit';
-import { buildWave, proposeSetup, readCodebook, readTable, screenRespondents } from '../../src/lib/ingest';
+import { acceptProposal, readWave } from '../../src/lib/ingest';
 import { buildOverlapMap } from '../../src/lib/server/workspace/overlap-map';
 import { CONDITION_INDEX_MODERATE } from '../../src/lib/stats/tolerances';
 
 async function demoAudit() {
-  const table = await readTable(new Uint8Array(readFileSync('fixtures/demo/library-pilot-1.csv')), 'library-pilot-1.csv');
-  const codebook = readCodebook(await readTable(new Uint8Array(readFileSync('fixtures/demo/library-codebook.csv')), 'library-codebook.csv'));
-  const proposal = proposeSetup(table, codebook);
-  const screening = screenRespondents(buildWave(table, proposal));
-  const wave = buildWave(table, proposal, screening.proposedExclusions);
-  return runAudit(auditInputFromWave(wave), { bootstrap: 0, seed: 3 });
+  // The one reader and the one accept path, as the seed and the command line use them.
+  const read = await readWave({
+    fileName: 'library-pilot-1.csv', bytes: new Uint8Array(readFileSync('fixtures/demo/library-pilot-1.csv')),
+    codebookName: 'library-codebook.csv', codebookBytes: new Uint8Array(readFileSync('fixtures/demo/library-codebook.csv')), sheet: null,
+  });
+  return runAudit(auditInputFromWave(acceptProposal(read).wave), { bootstrap: 0, seed: 3 });
 }
 
 describe('workspace views of the demo audit', async () => {
