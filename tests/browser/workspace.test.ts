@@ -237,12 +237,11 @@ describe('the workspace in Chromium', () => {
       await page.locator('#items').screenshot({ path: join(screenshots, 'workspace-08-items.png') });
       await page.locator('[data-testid=item-table-search]').fill('');
 
-      // Structure panels and the reserved driver-model place.
+      // Structure panels.
       await page.locator('#structure').scrollIntoViewIfNeeded();
       expect(await page.locator('[data-testid=eigenvalue-plot] circle').count()).toBeGreaterThan(0);
       expect(await page.locator('[data-testid=dependency]').count()).toBeGreaterThan(0);
       await expect(page.locator('[data-testid=near-dependencies]').textContent()).resolves.toContain('complete rows');
-      expect(await page.locator('[data-testid=driver-model-slot]').count()).toBe(1);
       await page.locator('#structure').screenshot({ path: join(screenshots, 'workspace-09-structure.png') });
       await screenshot(page, 'workspace-10-whole-page');
       expect(problems).toEqual([]);
