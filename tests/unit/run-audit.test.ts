@@ -72,6 +72,12 @@ describe('runAudit on the demo wave', async () => {
     expect(audit.items.find((item) => item.id === 'hours_7')?.inMatrix).toBe(false);
     expect(audit.items.find((item) => item.id === 'events_3b')?.vif).toBeNull();
     expect(audit.kmo).not.toBeNull(); // computed with the copy set aside
+    // The outcome model's warning names the copy by its id, not by a column number
+    // (fixtures/demo/README.md: events_3b is a planted exact copy of events_3).
+    const aliased = audit.warnings.find((w) => w.code === 'aliased-column');
+    expect(aliased?.items).toEqual(['events_3b', 'events_3']);
+    expect(aliased?.message).toMatch(/^events_3b is an exact linear combination of the intercept and events_3/);
+    expect(audit.warnings.some((w) => /Predictor \d/.test(w.message))).toBe(false);
     expect(codes).toContain('set-aside-for-structure:events_3b');
   });
 

@@ -34,7 +34,7 @@ export default function AuditStatusRow({ initial, canRun, onStatus }: { initial:
       <div className="flex flex-wrap items-baseline justify-between gap-x-3 gap-y-0.5 text-sm">
         <span className="font-semibold">
           {audit.waveLabel ?? 'Audit'}
-          <span className={`chip ml-2 ${audit.status === 'failed' ? 'border-brick-700 text-brick-700' : audit.status === 'done' ? 'chip-owner' : ''}`}>{statusWords[audit.status] ?? audit.status}</span>
+          <span className={`status ml-2 status-${audit.status}`}>{statusWords[audit.status] ?? audit.status}</span>
         </span>
         {audit.createdAt && <span className="text-xs text-ink-faint">{formatRecentTime(audit.createdAt)}</span>}
       </div>

@@ -39,7 +39,16 @@ export interface OutcomeAfterCutJson {
 }
 
 function noticeWarnings(notices: readonly NumericalNotice[], ids: readonly string[]): AuditWarningJson[] {
-  return notices.map((notice) => ({ code: notice.code, items: notice.items.map((k) => ids[k] ?? String(k)), message: notice.message }));
+  return notices.map((notice) => {
+    const items = notice.items.map((k) => ids[k] ?? String(k));
+    // The core counts columns ("Predictor 39"); the reader knows items by their ids.
+    if (notice.code === 'aliased-column' && items.length > 0) {
+      const [item, ...partners] = items;
+      const message = `${item} is an exact linear combination of the intercept${partners.length > 0 ? ` and ${partners.join(', ')}` : ' and earlier items'} in the outcome model, so its coefficient cannot be estimated and it is left out of the model.`;
+      return { code: notice.code, items, message };
+    }
+    return { code: notice.code, items, message: notice.message };
+  });
 }
 
 function withColumn(matrix: ItemMatrix, column: Float64Array): ItemMatrix {

@@ -22,6 +22,7 @@ export * from './em-covariance';
 export * from './f-distribution';
 export * from './fisher-z-interval';
 export * from './graphical-lasso';
+export * from './hierarchical-clustering';
 export * from './incomplete-beta';
 export * from './incomplete-gamma';
 export * from './item-descriptives';

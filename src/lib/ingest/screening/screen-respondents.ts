@@ -163,7 +163,10 @@ export function screenRespondents(wave: Pick<BuiltWave, 'matrix' | 'items' | 'du
   const lowRows = items === 0 ? [] : withinSd.flatMap((sd, i) => (sd !== null && answeredCount[i] >= settings.withinSdMinimumAnswers && sd <= settings.withinSdMaximum ? [i] : []));
   if (items > 0) flags.push({
     code: 'low-variability', threshold: settings.withinSdMaximum, count: lowRows.length, respondents: lowRows,
-    message: `${lowRows.length} ${lowRows.length === 1 ? 'respondent has' : 'respondents have'} a within-person SD of ${settings.withinSdMaximum} or less over at least ${settings.withinSdMinimumAnswers} answers.`,
+    message:
+      settings.withinSdMaximum <= 0
+        ? `${lowRows.length} ${lowRows.length === 1 ? 'respondent gave' : 'respondents gave'} the same answer to every item they answered (at least ${settings.withinSdMinimumAnswers} answers, no spread at all).`
+        : `${lowRows.length} ${lowRows.length === 1 ? 'respondent has' : 'respondents have'} answers spread by a within-person SD of at most ${settings.withinSdMaximum} over at least ${settings.withinSdMinimumAnswers} answers.`,
   });
 
   let duration: (number | null)[] | null = null;
