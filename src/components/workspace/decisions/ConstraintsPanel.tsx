@@ -1,6 +1,5 @@
 import type { CutListConstraints } from '../../../lib/api/cut-list';
-import { formatNumber } from '../../audits/audit-words';
-import { lockedCaution } from './cautions';
+import { formatNumber, lockedCaution } from '../../../lib/words';
 
 /** The locks and constraints decisions are made under (the study's, with the audit's locks). */
 export default function ConstraintsPanel({ constraints }: { constraints: CutListConstraints }) {

@@ -2,7 +2,7 @@ import { useCallback, useEffect, useRef, useState } from 'react';
 import { decisionKinds, removedItemIds, type AcceptResponse, type CutListItem, type CutListResponse, type DecisionKind, type DecisionResponse, type WhatIfResponse } from '../../../lib/api/cut-list';
 import { callApi } from '../../api-client';
 import { formatDayAndTime } from '../../date-words';
-import { decisionCautions } from './cautions';
+import { decisionCautions } from '../../../lib/words';
 import HistoryList from './HistoryList';
 import ItemDecisions from './ItemDecisions';
 import RecommendationList from './RecommendationList';

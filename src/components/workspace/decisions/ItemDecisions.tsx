@@ -1,8 +1,7 @@
 import { Fragment, useState, type FormEvent } from 'react';
 import { decisionKinds, decisionLabels, type CutListItem, type CutListResponse, type DecisionKind } from '../../../lib/api/cut-list';
-import { formatNumber } from '../../audits/audit-words';
+import { formatNumber, lockedCaution } from '../../../lib/words';
 import { formatDayAndTime } from '../../date-words';
-import { lockedCaution } from './cautions';
 import { decisionPhrase, mergeTargets, stabilityPhrase } from './decision-words';
 
 type Change = { decision: DecisionKind; into: string | null; wording: string | null; reason: string };

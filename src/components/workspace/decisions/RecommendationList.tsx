@@ -1,6 +1,5 @@
 import type { CutListResponse } from '../../../lib/api/cut-list';
-import { formatNumber } from '../../audits/audit-words';
-import { rewordCaution, unknownStabilityCaution, unstableCaution } from './cautions';
+import { formatNumber, rewordCaution, unknownStabilityCaution, unstableCaution } from '../../../lib/words';
 import { decisionPhrase, stabilityPhrase } from './decision-words';
 
 interface Props {

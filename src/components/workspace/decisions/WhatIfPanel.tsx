@@ -1,5 +1,5 @@
 import type { CutListConstraints, WhatIfResponse } from '../../../lib/api/cut-list';
-import { formatNumber } from '../../audits/audit-words';
+import { formatNumber } from '../../../lib/words';
 import { beforeAfter, constraintBreaches, minutesWords } from './decision-words';
 
 interface Props {
@@ -18,7 +18,9 @@ interface Props {
 export default function WhatIfPanel({ whatIf, state, error, constraints, hasAudit }: Props) {
   const breaches = constraintBreaches(whatIf, constraints);
   const breached = new Set(breaches.map((breach) => breach.scale));
+  // A null VIF or condition number is infinite: an exact dependency (a copied column) in the item set.
   const singularBefore = whatIf !== null && whatIf.maxVifBefore === null;
+  const singularAfter = whatIf !== null && whatIf.maxVif === null && whatIf.scales.some((scale) => scale.items > 0);
   return (
     <section className="panel p-4" aria-labelledby="what-if-heading" aria-busy={state === 'busy'} data-testid="what-if">
       <div className="mb-2 flex items-baseline gap-2">
@@ -47,11 +49,11 @@ export default function WhatIfPanel({ whatIf, state, error, constraints, hasAudi
             </div>
             <div className="rounded border border-rule px-2 py-1.5">
               <dt className="text-xs text-ink-faint">Largest VIF</dt>
-              <dd className="num text-left font-semibold" data-testid="what-if-vif">{beforeAfter(whatIf.maxVifBefore, whatIf.maxVif, 1, singularBefore)}</dd>
+              <dd className="num text-left font-semibold" data-testid="what-if-vif">{beforeAfter(whatIf.maxVifBefore, whatIf.maxVif, 1, singularBefore, singularAfter)}</dd>
             </div>
             <div className="rounded border border-rule px-2 py-1.5">
               <dt className="text-xs text-ink-faint">Condition number</dt>
-              <dd className="num text-left font-semibold">{beforeAfter(whatIf.conditionNumberBefore, whatIf.conditionNumber, 1, singularBefore)}</dd>
+              <dd className="num text-left font-semibold">{beforeAfter(whatIf.conditionNumberBefore, whatIf.conditionNumber, 1, singularBefore, singularAfter)}</dd>
             </div>
           </dl>
           <table className="dense-table mt-3 text-sm" data-testid="what-if-scales">
@@ -61,7 +63,7 @@ export default function WhatIfPanel({ whatIf, state, error, constraints, hasAudi
                 <th scope="col">Scale</th>
                 <th scope="col" className="num">Items</th>
                 <th scope="col" className="num">Alpha</th>
-                <th scope="col" className="num" title="Spearman-Brown projection of the old alpha to the new length">S-B</th>
+                <th scope="col" className="num whitespace-nowrap" title="Spearman-Brown projection of the old alpha to the new length">S-B</th>
                 <th scope="col" className="num">Omega</th>
               </tr>
             </thead>
@@ -88,7 +90,11 @@ export default function WhatIfPanel({ whatIf, state, error, constraints, hasAudi
               <ul className="mt-1 list-disc pl-4">{whatIf.warnings.map((w) => <li key={`${w.code}-${w.message}`}>{w.message}</li>)}</ul>
             </details>
           )}
-          {singularBefore && <p className="mt-2 text-xs text-ink-faint">∞: before the cut, an exact copy of a column makes the matrix singular.</p>}
+          {(singularBefore || singularAfter) && (
+            <p className="mt-2 text-xs text-ink-faint" data-testid="what-if-singular">
+              ∞: {singularAfter ? 'an exact copy of a column is still among the items kept, so the matrix stays singular; drop or merge one of the copies.' : 'before the cut, an exact copy of a column makes the matrix singular.'}
+            </p>
+          )}
         </>
       )}
     </section>

@@ -3,7 +3,7 @@
  * figure read, and which constraints the current what-if breaks.
  */
 import type { CutListConstraints, CutListItem, DecisionKind, WhatIfResponse } from '../../../lib/api/cut-list';
-import { formatNumber, formatShare } from '../../audits/audit-words';
+import { formatNumber, formatShare } from '../../../lib/words';
 
 /** A decision in words, e.g. "Merge into coll_2". */
 export function decisionPhrase(decision: DecisionKind, into: string | null): string {
@@ -28,8 +28,8 @@ export function stabilityPhrase(stability: number | null, unstable: boolean): st
 }
 
 /** A "before → after" pair of figures. */
-export function beforeAfter(before: number | null, after: number | null, digits: number, infiniteBefore = false): string {
-  return `${before === null && infiniteBefore ? '∞' : formatNumber(before, digits)} → ${formatNumber(after, digits)}`;
+export function beforeAfter(before: number | null, after: number | null, digits: number, infiniteBefore = false, infiniteAfter = false): string {
+  return `${before === null && infiniteBefore ? '∞' : formatNumber(before, digits)} → ${after === null && infiniteAfter ? '∞' : formatNumber(after, digits)}`;
 }
 
 /** Minutes saved in words. */
