@@ -77,6 +77,7 @@ describe('the cut list of the demo study', () => {
 
 describe('deciding one item', () => {
   it('refuses bad input with 400 and a sentence, an unknown item with 404', async () => {
+    const historyAtStart = (await readCutList()).history.length;
     const cases: [Record<string, unknown>, RegExp][] = [
       [{ decision: 'drop' }, /reason/],
       [{ decision: 'drop', reason: '   ' }, /reason/],
@@ -96,7 +97,8 @@ describe('deciding one item', () => {
     }
     const unknown = await decide(clients.designer, 'no_such_item', { decision: 'keep', reason: 'x' });
     expect(unknown.status).toBe(404);
-    expect((await readCutList()).history).toHaveLength(0);
+    // Nothing was recorded (other files may have left history of their own).
+    expect((await readCutList()).history).toHaveLength(historyAtStart);
   });
 
   it('records keep, drop, merge and reword with who, when, from what to what and why', async () => {
@@ -115,7 +117,7 @@ describe('deciding one item', () => {
 
     const list = await readCutList(clients.reviewer);
     expect(list.counts).toMatchObject({ keep: 2, merge: 1, reword: 1, drop: 0, undecided: DEMO_ITEMS - 4 });
-    expect(list.history.map((h) => [h.itemId, h.from, h.to])).toEqual([
+    expect(list.history.slice(0, 5).map((h) => [h.itemId, h.from, h.to])).toEqual([
       ['staff_6', 'drop', 'keep'],
       ['dig_4', 'undecided', 'reword'],
       ['staff_6', 'undecided', 'drop'],

@@ -141,8 +141,9 @@ export default function DecisionWorkspace({ studyId }: { studyId: string }) {
           <RecommendationList cutList={cutList} busy={busy} onAccept={accept} />
           <ItemDecisions cutList={cutList} busy={busy} onDecide={decide} />
         </div>
-        <div className="min-w-0 space-y-5">
-          <div className="lg:sticky lg:top-4 space-y-5">
+        {/* Below lg the what-if comes first, so a change's effect is in view without scrolling past every item. */}
+        <div className="order-first min-w-0 space-y-5 lg:order-none">
+          <div className="space-y-5 lg:sticky lg:top-4">
             <WhatIfPanel whatIf={whatIf} state={whatIfState} error={whatIfError} constraints={cutList.constraints} hasAudit={audit !== null} />
             <ConstraintsPanel constraints={cutList.constraints} />
           </div>

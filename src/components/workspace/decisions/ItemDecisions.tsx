@@ -154,8 +154,9 @@ export default function ItemDecisions({ cutList, busy, onDecide }: Props) {
                     <td className="text-sm" data-testid="item-decision">
                       <div className={item.decision === 'undecided' ? 'text-ink-faint' : 'font-semibold'}>{decisionPhrase(item.decision, item.into)}</div>
                       {item.wording && <div className="text-xs">“{item.wording}”</div>}
-                      {item.reason && <div className="text-xs text-ink-soft">{item.reason}</div>}
-                      {item.decidedBy && item.decidedAt && <div className="text-xs text-ink-faint">{item.decidedBy.name}, {formatDayAndTime(item.decidedAt)}</div>}
+                      {/* An item set back to undecided shows no reason or author here; the history keeps them. */}
+                      {item.decision !== 'undecided' && item.reason && <div className="text-xs text-ink-soft">{item.reason}</div>}
+                      {item.decision !== 'undecided' && item.decidedBy && item.decidedAt && <div className="text-xs text-ink-faint">{item.decidedBy.name}, {formatDayAndTime(item.decidedAt)}</div>}
                     </td>
                     <td className="text-right">
                       {cutList.canDecide && item.inAudit && (
