@@ -10,4 +10,6 @@ runTs('src/cli/db-migrate.ts');
 step('Seeding the demo if the database is empty');
 runTs('src/cli/db-seed.ts');
 ensureBuilt();
+// The demo accounts, when the demo is seeded: the last lines before the server's address.
+runTs('src/cli/demo-accounts.ts');
 await import('./serve.mjs');

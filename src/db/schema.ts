@@ -192,6 +192,8 @@ export const decisions = sqliteTable(
     decision: text('decision', { enum: decisionKinds }).notNull().default('undecided'),
     /** Target item of a merge. */
     intoItemId: text('into_item_id'),
+    /** The new wording of a reword (null for every other decision). */
+    wording: text('wording'),
     reason: text('reason').notNull().default(''),
     auditId: text('audit_id').references(() => audits.id, { onDelete: 'set null' }),
     decidedBy: text('decided_by').references(() => users.id, { onDelete: 'set null' }),
@@ -209,6 +211,10 @@ export const decisionHistory = sqliteTable(
     itemId: text('item_id').notNull(),
     decision: text('decision', { enum: decisionKinds }).notNull(),
     intoItemId: text('into_item_id'),
+    /** The new wording of a reword. */
+    wording: text('wording'),
+    /** The decision this entry replaced ('undecided' for an item's first). */
+    previousDecision: text('previous_decision', { enum: decisionKinds }).notNull().default('undecided'),
     reason: text('reason').notNull().default(''),
     auditId: text('audit_id').references(() => audits.id, { onDelete: 'set null' }),
     decidedBy: text('decided_by').references(() => users.id, { onDelete: 'set null' }),

@@ -19,7 +19,7 @@ export type Expectation = Partial<Record<Caller, number>> & Record<Exclude<Calle
 
 export interface Row {
   name: string;
-  method: 'GET' | 'POST' | 'PUT' | 'DELETE';
+  method: 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
   /** The path, given what `prepare` made for this caller. */
   path: (target: string) => string;
   body?: (target: string) => unknown;
@@ -111,6 +111,18 @@ const freshFailedAudit = async () => {
   throw new Error(`audit ${id} did not fail`);
 };
 const runAudit: Expectation = { owner: 202, designer: 202, field: 403, reviewer: 403, outsider: 404, anonymous: 401 };
+
+// Decisions, what-if and study settings (issue 10).
+/** The demo's seeded, finished audit (src/lib/server/demo-audit.ts). */
+const demoAudit = 'audit-riverbend-pilot-1';
+const designerOnly = (status: number): Expectation => ({ owner: status, designer: status, field: 403, reviewer: 403, outsider: 404, anonymous: 401 });
+/** A fresh demo-team study holding one uploaded wave whose setup is not confirmed. */
+const freshProposedWave = async () => {
+  const studyId = await freshStudy();
+  const response = await postWave(clients.owner, studyId, textFile('proposed.csv', 'respondent_id,A1,A2,A3\nr1,1,2,3\nr2,2,3,4\nr3,4,4,5\nr4,5,3,2\n'));
+  return (await body(response)).wave.id as string;
+};
+
 
 export const table: Row[] = [
   // Health and the caller
@@ -309,5 +321,20 @@ export const table: Row[] = [
   { name: 'page: outbox', method: 'GET', path: () => '/outbox', expect: pageForAnyone },
   { name: 'page: sign-in', method: 'GET', path: () => '/signin', expect: { owner: 303, designer: 303, field: 303, reviewer: 303, outsider: 303, anonymous: 200 } },
   { name: 'page: setup after setup', method: 'GET', path: () => '/setup', expect: { owner: 303, designer: 303, field: 303, reviewer: 303, outsider: 303, anonymous: 303 } },
-  { name: 'page: invitation link', method: 'GET', path: () => '/invite/not-a-token', expect: { owner: 200, designer: 200, field: 200, reviewer: 200, outsider: 200, anonymous: 200 } },
+  { name: 'read the cut list', method: 'GET', path: () => `/api/studies/${demo.study}/cut-list`, expect: demoTeamMembers(200) },
+  { name: "read another team's cut list", method: 'GET', path: () => `/api/studies/${demo.outsideStudy}/cut-list`, expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 200, anonymous: 401 } },
+  // Setting an undecided item to undecided changes nothing, so the demo's history stays clean.
+  { name: 'decide an item', method: 'PUT', path: () => `/api/studies/${demo.study}/cut-list/coll_1`, body: () => ({ decision: 'undecided' }), expect: designerOnly(200) },
+  { name: "decide an item of another team's study", method: 'PUT', path: () => `/api/studies/${demo.outsideStudy}/cut-list/T1`, body: () => ({ decision: 'undecided' }), expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 404, anonymous: 401 } },
+  // A bad index reaches validation (400) only past the guard.
+  { name: 'accept a recommendation', method: 'POST', path: () => `/api/studies/${demo.study}/cut-list/accept`, body: () => ({ recommendation: -1 }), expect: designerOnly(400) },
+  { name: 'what-if of an audit', method: 'POST', path: () => `/api/audits/${demoAudit}/what-if`, body: () => ({ removed: [] }), expect: demoTeamMembers(200) },
+  { name: 'what-if of an audit that does not exist', method: 'POST', path: () => '/api/audits/no-such-audit/what-if', body: () => ({ removed: [] }), expect: anyoneSignedIn(404) },
+  { name: 'change a study', method: 'PATCH', path: (id) => `/api/studies/${id}`, prepare: freshStudy, body: () => ({ description: 'Changed by the permission test' }), expect: designerOnly(200) },
+  { name: "change another team's study", method: 'PATCH', path: () => `/api/studies/${demo.outsideStudy}`, body: () => ({ description: 'A short module on local buses and cycling, in planning. Invented.' }), expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 200, anonymous: 401 } },
+  { name: 'discard an unconfirmed wave', method: 'DELETE', path: (id) => `/api/waves/${id}`, prepare: freshProposedWave, expect: designerOnly(204) },
+  { name: 'discard a confirmed wave', method: 'DELETE', path: () => `/api/waves/${demoWave}`, expect: designerOnly(409) },
+  { name: 'page: decisions of the demo study', method: 'GET', path: () => `/studies/${demo.study}/decisions`, expect: pageForMembers },
+  { name: "page: decisions of another team's study", method: 'GET', path: () => `/studies/${demo.outsideStudy}/decisions`, expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 200, anonymous: 303 } },
+  { name: 'page: invitation link that does not exist', method: 'GET', path: () => '/invite/not-a-token', expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 404, anonymous: 404 } },
 ];

@@ -94,6 +94,9 @@ export class Client {
   put(path: string, json?: unknown, options?: CallOptions) {
     return this.call('PUT', path, { ...options, json });
   }
+  patch(path: string, json?: unknown, options?: CallOptions) {
+    return this.call('PATCH', path, { ...options, json });
+  }
   delete(path: string, options?: CallOptions) {
     return this.call('DELETE', path, options);
   }

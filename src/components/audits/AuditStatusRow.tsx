@@ -2,7 +2,7 @@ import { useEffect, useState } from 'react';
 import { auditsApi } from '../../lib/api/audits';
 import { formatRecentTime } from '../date-words';
 import AuditProgressBar from './AuditProgressBar';
-import { formatDuration, settingsLine, statusWords } from '../../lib/words';
+import { constraintsLine, formatDuration, settingsLine, statusWords } from '../../lib/words';
 import { useAuditStatus, type AuditState } from './use-audit-status';
 
 /**
@@ -39,6 +39,7 @@ export default function AuditStatusRow({ initial, canRun, onStatus }: { initial:
         {audit.createdAt && <span className="text-xs text-ink-faint">{formatRecentTime(audit.createdAt)}</span>}
       </div>
       {settings && <p className="text-xs text-ink-soft">{settingsLine(settings)}</p>}
+      {settings && <p className="text-xs text-ink-faint" data-testid="audit-constraints">{constraintsLine(settings)}</p>}
       {(audit.status === 'queued' || audit.status === 'running') && <AuditProgressBar status={audit.status} stage={audit.stage} percent={audit.percent} />}
       {audit.status === 'done' && (
         <p className="text-sm">

@@ -64,12 +64,18 @@ export default function SetupTable({ rows, onChange }: { rows: SetupRow[]; onCha
         cell: (info) => {
           const row = info.row.original;
           return (
-            <div className="w-[21rem]">
-              <div className="font-mono text-[0.8125rem] font-semibold text-ink">{row.column}</div>
+            <div className="w-[12rem] xl:w-[21rem]">
+              <div className="break-words font-mono text-[0.8125rem] font-semibold text-ink">{row.column}</div>
               <div className="text-xs leading-snug text-ink-soft">{row.reason}</div>
               <div className="mt-0.5 text-xs text-ink-faint">{profileLine(row)}</div>
               {row.labelSource === 'answer-scale' && (
                 <div className="mt-0.5 text-xs font-semibold text-ochre-700">Answer texts mapped by guess ({row.answerScale}): check them</div>
+              )}
+              {row.counts && (
+                // Below xl the "Set to missing" column is hidden (tablet width); its counts show here.
+                <div className="mt-0.5 text-xs text-ink-soft xl:hidden" data-testid="setup-counts-inline">
+                  Set to missing: <Count value={row.counts.outOfRange} what="values outside the valid range" /> out of range · <Count value={row.counts.nonNumeric} what="cells that are not numbers" /> not numeric · <Count value={row.counts.unmappedLabel} what="answer texts matching no value label" /> unmapped
+                </div>
               )}
               {usesItemFields(row) && <div className="mt-1.5">{input(row, info.row.index, 'text', 'Wording', 'w-full')}</div>}
             </div>
@@ -81,7 +87,7 @@ export default function SetupTable({ rows, onChange }: { rows: SetupRow[]; onCha
         cell: (info) => {
           const row = info.row.original;
           return (
-            <div className="w-[8.5rem] space-y-1">
+            <div className="w-[7.5rem] space-y-1 lg:w-[8.5rem]">
               <select
                 className="field px-1.5 py-1 text-sm"
                 aria-label={`Role of ${row.column}`}
@@ -116,7 +122,7 @@ export default function SetupTable({ rows, onChange }: { rows: SetupRow[]; onCha
           const row = info.row.original;
           if (!usesItemFields(row)) return none;
           return (
-            <div className="w-32 space-y-1">
+            <div className="w-[7rem] space-y-1 lg:w-32">
               {input(row, info.row.index, 'id', 'Item id', 'w-full')}
               {input(row, info.row.index, 'scale', 'Scale', 'w-full')}
             </div>
@@ -147,17 +153,17 @@ export default function SetupTable({ rows, onChange }: { rows: SetupRow[]; onCha
           const row = info.row.original;
           if (!usesItemFields(row)) return none;
           return (
-            <div className="flex w-[8.25rem] items-center gap-1">
-              {input(row, info.row.index, 'min', 'Min', 'w-14', 'decimal')}
+            <div className="flex w-[7rem] items-center gap-1 lg:w-[8.25rem]">
+              {input(row, info.row.index, 'min', 'Min', 'w-12 lg:w-14', 'decimal')}
               <span className="text-xs text-ink-soft">to</span>
-              {input(row, info.row.index, 'max', 'Max', 'w-14', 'decimal')}
+              {input(row, info.row.index, 'max', 'Max', 'w-12 lg:w-14', 'decimal')}
             </div>
           );
         },
       }),
       helper.accessor('missing', {
         header: 'Missing codes',
-        cell: (info) => (usesItemFields(info.row.original) ? input(info.row.original, info.row.index, 'missing', 'Missing codes', 'w-20') : none),
+        cell: (info) => (usesItemFields(info.row.original) ? input(info.row.original, info.row.index, 'missing', 'Missing codes', 'w-16 lg:w-20') : none),
       }),
       helper.display({
         id: 'cells',
@@ -222,7 +228,7 @@ export default function SetupTable({ rows, onChange }: { rows: SetupRow[]; onCha
             {table.getHeaderGroups().map((group) => (
               <tr key={group.id}>
                 {group.headers.map((header) => (
-                  <th key={header.id} scope="col" className="px-2">
+                  <th key={header.id} scope="col" className={`px-1.5 lg:px-2 ${header.column.id === 'cells' ? 'hidden xl:table-cell' : ''}`}>
                     {flexRender(header.column.columnDef.header, header.getContext())}
                   </th>
                 ))}
@@ -233,7 +239,7 @@ export default function SetupTable({ rows, onChange }: { rows: SetupRow[]; onCha
             {visible.map((row) => (
               <tr key={row.id} data-testid="setup-row" data-column={row.original.column} className={row.original.role === 'ignore' ? 'bg-paper' : ''}>
                 {row.getVisibleCells().map((cell) => (
-                  <td key={cell.id} className="px-2">
+                  <td key={cell.id} className={`px-1.5 lg:px-2 ${cell.column.id === 'cells' ? 'hidden xl:table-cell' : ''}`}>
                     {flexRender(cell.column.columnDef.cell, cell.getContext())}
                   </td>
                 ))}

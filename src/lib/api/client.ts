@@ -11,7 +11,7 @@ import { errorFromAnswer, type ApiErrorBody } from './errors';
 export type ApiResult<T> = { ok: true; status: number; data: T } | { ok: false; status: number; error: ApiErrorBody };
 
 /** The HTTP methods the API uses. */
-export type ApiMethod = 'GET' | 'POST' | 'PUT' | 'DELETE';
+export type ApiMethod = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
 
 /**
  * Reads an answer's text as JSON and makes the result.

@@ -15,6 +15,7 @@ import { FileStore, mediaTypeOf } from './file-store';
 import { readWaveFiles } from './waves/read-wave-files';
 import { confirmedDocument, proposalParts } from './waves/stored-wave';
 import { writeConfirmedWave } from './waves/write-confirmed-wave';
+import { seedDemoAudit } from './demo-audit';
 
 /** The password of every demo account (printed in the README). */
 export const demoPassword = 'paredown-demo';
@@ -57,6 +58,8 @@ export interface SeedOptions {
   uploadDir: string;
   /** Folder with library-pilot-1.csv and library-codebook.csv (fixtures/demo by default). */
   fixturesDir?: string;
+  /** Also run and store the demo audit (demo-audit.ts). Default true. */
+  audit?: boolean;
 }
 
 /**
@@ -132,5 +135,7 @@ export async function seedDemo(db: Db, options: SeedOptions): Promise<SeedOutcom
     }, document, accepted);
     logActivity(tx, { teamId: demoIds.demoTeam, userId: null, action: 'demo.seeded', detail: { study: demoIds.demoStudy } });
   });
+  // A finished audit of the pilot wave, so every role sees figures and a cut list at once.
+  if (options.audit !== false) await seedDemoAudit(db, { study: demoIds.demoStudy, wave: demoIds.demoWave, startedBy: 'user-designer' });
   return { seeded: true, reason: 'demo seeded', matrixStored: true };
 }

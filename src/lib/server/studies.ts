@@ -1,6 +1,10 @@
 /** Studies: listing, reading with what lies under them, creating and deleting. */
-import { count, desc, eq, inArray } from 'drizzle-orm';
-import { audits, cutListVersions, decisions, studies, teams, waves } from '../../db/schema';
+import { and, count, desc, eq, inArray } from 'drizzle-orm';
+import type { z } from 'zod';
+import { audits, cutListVersions, decisions, studies, teams, waveItems, waves, type StudySettings } from '../../db/schema';
+import type { studySettingsRequestSchema } from '../api/cut-list';
+import { cutListCounts } from './cut-list';
+import { fail } from './errors';
 import { can, type Role } from '../permissions';
 import { logActivity } from './activity';
 import type { CurrentUser } from './current-user';
@@ -76,10 +80,8 @@ export function studyDetail(study: StudyRow): StudyDetail {
     .where(eq(waves.studyId, study.id))
     .orderBy(desc(audits.createdAt))
     .all();
-  const counts: Record<string, number> = { keep: 0, drop: 0, merge: 0, reword: 0, undecided: 0 };
-  for (const row of db.select({ decision: decisions.decision, n: count() }).from(decisions).where(eq(decisions.studyId, study.id)).groupBy(decisions.decision).all()) {
-    counts[row.decision] = row.n;
-  }
+  // Items of the latest finished audit (else of the latest confirmed wave) with no decision count as undecided.
+  const counts: Record<string, number> = cutListCounts(study);
   const latest = db
     .select({ number: cutListVersions.number, publishedAt: cutListVersions.publishedAt, programmedAt: cutListVersions.programmedAt })
     .from(cutListVersions)
@@ -135,5 +137,92 @@ export function deleteStudy(user: CurrentUser, study: StudyRow): void {
     logActivity(tx, { teamId: study.teamId, studyId: study.id, userId: user.id, action: 'study.deleted', detail: { name: study.name } });
     // The study's files that no other wave uses: their records go now, their bytes once this commits.
     files.forgetUnused([...new Set(hashes.flatMap((h) => [h.file, h.codebook]).filter((h): h is string => !!h))]);
+  });
+}
+
+/**
+ * Discards a wave whose column setup was never confirmed (its upload and proposal), with its
+ * stored files when nothing else refers to them. A confirmed wave stays: audits and decisions rest on it.
+ * @param user who discards it.
+ * @param study its study.
+ * @param wave the wave row.
+ * @throws {HttpError} 409 `wave-confirmed` for a confirmed wave.
+ */
+export function discardWave(user: CurrentUser, study: StudyRow, wave: { id: string; label: string; status: string; fileHash: string; codebookHash: string | null }): void {
+  if (wave.status === 'confirmed') {
+    throw fail.conflict(`The wave "${wave.label}" is confirmed: audits and decisions rest on it, so it cannot be discarded (only a study's owner can delete the whole study).`, 'wave-confirmed');
+  }
+  serverFileStore().transaction(getDb(), (tx, files) => {
+    const deleted = tx.delete(waves).where(and(eq(waves.id, wave.id), eq(waves.status, 'proposed'))).run();
+    if (deleted.changes === 0) throw fail.conflict(`The wave "${wave.label}" was confirmed meanwhile, so it cannot be discarded.`, 'wave-confirmed');
+    logActivity(tx, { teamId: study.teamId, studyId: study.id, userId: user.id, action: 'wave.discarded', detail: { wave: wave.id, label: wave.label } });
+    // Its files, when no other wave uses them: records now, bytes once this commits.
+    files.forgetUnused([wave.fileHash, ...(wave.codebookHash ? [wave.codebookHash] : [])]);
+  });
+}
+
+/** The body PATCH /api/studies/{id} has after validation. */
+export type StudyChange = z.infer<typeof studySettingsRequestSchema>;
+
+/**
+ * Changes a study's name, description and default constraints (locked items, minimum items per
+ * scale, alpha floor; `null` clears one), in one transaction with its activity entry.
+ * @param user who changes it.
+ * @param study the study row.
+ * @param change the validated body.
+ * @throws {HttpError} 400 `unknown-locked-item` for an id no wave of the study has; 409
+ *   `locked-item-removed` when a newly locked item is decided drop or merge.
+ * @returns the updated row.
+ */
+export function updateStudy(user: CurrentUser, study: StudyRow, change: StudyChange): StudyRow {
+  const db = getDb();
+  return db.transaction((tx) => {
+    const settings: StudySettings = { ...(study.settings ?? {}) };
+    const changedKeys: string[] = [];
+    if (change.settings) {
+      const wanted = change.settings;
+      if (wanted.lockedItems !== undefined) {
+        const locked = [...new Set(wanted.lockedItems)].sort();
+        const studyWaves = tx.select({ id: waves.id }).from(waves).where(eq(waves.studyId, study.id)).all().map((w) => w.id);
+        const known = new Set(studyWaves.length === 0 ? [] : tx.select({ id: waveItems.itemId }).from(waveItems).where(inArray(waveItems.waveId, studyWaves)).all().map((r) => r.id));
+        const unknown = locked.filter((id) => !known.has(id));
+        if (unknown.length > 0) {
+          throw fail.badRequest(
+            `settings.lockedItems: ${unknown.slice(0, 5).join(', ')} ${unknown.length === 1 ? 'is not an item' : 'are not items'} of any wave of this study; lock items by their id as listed in the column setup.`,
+            'unknown-locked-item',
+          );
+        }
+        const removedNow = locked.length === 0
+          ? []
+          : tx.select({ itemId: decisions.itemId, decision: decisions.decision }).from(decisions).where(and(eq(decisions.studyId, study.id), inArray(decisions.itemId, locked), inArray(decisions.decision, ['drop', 'merge']))).all();
+        if (removedNow.length > 0) {
+          throw fail.conflict(
+            `${removedNow.map((r) => `${r.itemId} (${r.decision})`).join(', ')} ${removedNow.length === 1 ? 'is' : 'are'} decided to leave the questionnaire; change ${removedNow.length === 1 ? 'that decision' : 'those decisions'} before locking.`,
+            'locked-item-removed',
+          );
+        }
+        settings.lockedItems = locked;
+        changedKeys.push('lockedItems');
+      }
+      for (const key of ['minItemsPerScale', 'alphaFloor'] as const) {
+        const value = wanted[key];
+        if (value === undefined) continue;
+        if (value === null) delete settings[key];
+        else settings[key] = value;
+        changedKeys.push(key);
+      }
+    }
+    const values: Partial<StudyRow> = { settings };
+    if (change.name !== undefined) {
+      values.name = change.name;
+      changedKeys.push('name');
+    }
+    if (change.description !== undefined) {
+      values.description = change.description;
+      changedKeys.push('description');
+    }
+    const updated = tx.update(studies).set(values).where(eq(studies.id, study.id)).returning().get();
+    logActivity(tx, { teamId: study.teamId, studyId: study.id, userId: user.id, action: 'study.updated', detail: { changed: changedKeys } });
+    return updated;
   });
 }

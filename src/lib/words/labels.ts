@@ -4,6 +4,7 @@
  * settings. Pure; shared by the islands, the pages and (later) the workspace and the memo.
  * The labels of the settings themselves live in their descriptors (src/lib/audit/settings-table.ts).
  */
+import { formatNumber, formatShare } from './formats';
 
 /** What each audit status is called on screen. */
 export const statusWords: Record<string, string> = { queued: 'Waiting', running: 'Running', done: 'Done', failed: 'Failed' };
@@ -48,5 +49,21 @@ export function settingsLine(settings: { method: string; missing: string; bootst
   const parts = [`${methodWords[settings.method] ?? settings.method}, ${missingWords[settings.missing] ?? settings.missing}`];
   parts.push(settings.bootstrap > 0 ? `${settings.bootstrap} bootstrap resamples (seed ${settings.seed})` : 'no bootstrap');
   if (settings.outcome) parts.push(`outcome ${settings.outcome}`);
+  return parts.join(' · ');
+}
+
+/**
+ * The locks and constraints an audit ran under, in one line, e.g.
+ * "Locked: coll_1, dig_4 · at least 3 items per scale · alpha at least 0.70 · at most 25% cut".
+ * @param settings the audit's resolved settings (older audits may lack some keys).
+ * @returns the line.
+ */
+export function constraintsLine(settings: { locked?: readonly string[]; minItemsPerScale?: number; alphaFloor?: number; maxAlphaDrop?: number; maxCutShare?: number }): string {
+  const locked = settings.locked ?? [];
+  const parts = [locked.length === 0 ? 'No locked items' : `Locked: ${locked.length > 4 ? `${locked.slice(0, 4).join(', ')} and ${locked.length - 4} more` : locked.join(', ')}`];
+  if (typeof settings.minItemsPerScale === 'number') parts.push(`at least ${settings.minItemsPerScale} items per scale`);
+  if (typeof settings.alphaFloor === 'number') parts.push(`alpha at least ${formatNumber(settings.alphaFloor, 2)}`);
+  if (typeof settings.maxAlphaDrop === 'number') parts.push(`alpha drop at most ${formatNumber(settings.maxAlphaDrop, 2)}`);
+  if (typeof settings.maxCutShare === 'number') parts.push(`at most ${formatShare(settings.maxCutShare)} cut`);
   return parts.join(' · ');
 }

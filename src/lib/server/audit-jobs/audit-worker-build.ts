@@ -13,13 +13,16 @@ import type { AstroIntegration } from 'astro';
 import { build } from 'esbuild';
 import { fileURLToPath } from 'node:url';
 import { join } from 'node:path';
-import { BUILT_WORKER_FILE } from './worker-entry';
+import { BUILT_WORKER_FILE, WHAT_IF_WORKER_FILES } from './worker-entry';
 
 /** The worker's source, relative to the project root. */
 export const AUDIT_WORKER_SOURCE = 'src/lib/server/audit-jobs/audit-worker.ts';
 
+/** The what-if worker's source (docs/decisions/011), bundled the same way beside it. */
+export const WHAT_IF_WORKER_SOURCE = `src/lib/server/audit-jobs/${WHAT_IF_WORKER_FILES.source}`;
+
 /**
- * Bundles the audit worker into a folder.
+ * Bundles the audit worker (and the what-if worker beside it) into a folder.
  * @param root the project root (a file URL or path).
  * @param outDir the server output folder (dist/server).
  * @throws {Error} when esbuild reports an error (the build then fails).
@@ -30,8 +33,15 @@ export async function bundleAuditWorker(root: string | URL, outDir: string | URL
   const rootPath = typeof root === 'string' ? root : fileURLToPath(root);
   const outPath = typeof outDir === 'string' ? outDir : fileURLToPath(outDir);
   const outfile = join(outPath, BUILT_WORKER_FILE);
+  await bundleOne(join(rootPath, AUDIT_WORKER_SOURCE), outfile);
+  await bundleOne(join(rootPath, WHAT_IF_WORKER_SOURCE), join(outPath, WHAT_IF_WORKER_FILES.built));
+  return outfile;
+}
+
+/** Bundles one worker entry into one ESM file for Node 20. */
+async function bundleOne(entry: string, outfile: string): Promise<void> {
   await build({
-    entryPoints: [join(rootPath, AUDIT_WORKER_SOURCE)],
+    entryPoints: [entry],
     outfile,
     bundle: true,
     platform: 'node',
@@ -42,7 +52,6 @@ export async function bundleAuditWorker(root: string | URL, outDir: string | URL
     logLevel: 'warning',
     legalComments: 'none',
   });
-  return outfile;
 }
 
 /**

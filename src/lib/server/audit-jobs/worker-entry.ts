@@ -18,6 +18,18 @@ import { Worker } from 'node:worker_threads';
 /** File name of the bundled worker in the build's server folder. */
 export const BUILT_WORKER_FILE = 'audit-worker.mjs';
 
+/** A worker's source file (beside this module) and its bundled file (in the build's server folder). */
+export interface WorkerFiles {
+  readonly source: string;
+  readonly built: string;
+}
+
+/** The audit worker. */
+export const AUDIT_WORKER_FILES: WorkerFiles = { source: 'audit-worker.ts', built: BUILT_WORKER_FILE };
+
+/** The what-if worker (what-if-worker.ts): same mechanism, its own thread. */
+export const WHAT_IF_WORKER_FILES: WorkerFiles = { source: 'what-if-worker.ts', built: 'what-if-worker.mjs' };
+
 /** How far up from this chunk the bundled worker is looked for (dist/server/chunks/ is one). */
 const SEARCH_DEPTH = 6;
 
@@ -31,18 +43,18 @@ export type AuditWorkerOrigin = { readonly kind: 'built'; readonly file: string 
  *   audit worker step: rebuild).
  * @returns the bundled file, or the TypeScript source beside this module.
  */
-export function locateAuditWorker(moduleUrl: string = import.meta.url): AuditWorkerOrigin {
+export function locateAuditWorker(moduleUrl: string = import.meta.url, worker: WorkerFiles = AUDIT_WORKER_FILES): AuditWorkerOrigin {
   const here = fileURLToPath(moduleUrl);
-  if (here.endsWith('.ts')) return { kind: 'source', file: join(dirname(here), 'audit-worker.ts') };
+  if (here.endsWith('.ts')) return { kind: 'source', file: join(dirname(here), worker.source) };
   let folder = dirname(here);
   for (let depth = 0; depth <= SEARCH_DEPTH; depth++) {
-    const candidate = join(folder, BUILT_WORKER_FILE);
+    const candidate = join(folder, worker.built);
     if (existsSync(candidate)) return { kind: 'built', file: candidate };
     const parent = dirname(folder);
     if (parent === folder) break;
     folder = parent;
   }
-  throw new Error(`locateAuditWorker: ${BUILT_WORKER_FILE} was not found above ${dirname(here)}; run the build again (npm run build) so that it bundles the audit worker`);
+  throw new Error(`locateAuditWorker: ${worker.built} was not found above ${dirname(here)}; run the build again (npm run build) so that it bundles the audit worker`);
 }
 
 /** The tsx loader API, resolved from the project (its ESM entry; `require` would pick the CommonJS one). */
@@ -58,8 +70,8 @@ function tsxApiUrl(): string {
  * @throws {Error} as locateAuditWorker.
  * @returns the worker; it waits for jobs (see worker-protocol.ts).
  */
-export function spawnAuditWorker(origin: AuditWorkerOrigin = locateAuditWorker()): Worker {
-  const options = { name: 'paredown-audit' };
+export function spawnAuditWorker(origin: AuditWorkerOrigin = locateAuditWorker(), name = 'paredown-audit'): Worker {
+  const options = { name };
   if (origin.kind === 'built') return new Worker(origin.file, options);
   const api = tsxApiUrl();
   const source = [

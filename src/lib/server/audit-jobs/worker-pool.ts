@@ -12,12 +12,12 @@ import type { AuditJobResult } from './execute-audit-job';
 import type { AuditWorkerJob, AuditWorkerMessage } from './worker-protocol';
 
 /** One queued audit: how to make its job when a thread is free, and what to tell on the way. */
-export interface PoolTask {
+export interface PoolTask<Job extends { readonly jobId: string } = AuditWorkerJob> {
   /**
    * Builds the job when a thread is free (so a queued audit holds no data while it waits).
    * Returns null when there is nothing to run any more (e.g. the audit was deleted).
    */
-  readonly prepare: () => AuditWorkerJob | null;
+  readonly prepare: () => Job | null;
   /** Called when the job is handed to a thread. */
   readonly onStart?: () => void;
   /** Called with the worker's progress. */
@@ -32,8 +32,8 @@ export class AuditJobFailure extends Error {
   }
 }
 
-interface Pending {
-  readonly task: PoolTask;
+interface Pending<Job extends { readonly jobId: string }> {
+  readonly task: PoolTask<Job>;
   readonly resolve: (result: AuditJobResult | null) => void;
   readonly reject: (error: unknown) => void;
 }
@@ -46,13 +46,16 @@ export interface PoolState {
   readonly queued: number;
 }
 
-/** The pool: `run` queues an audit job; at most `size` run at once, each in its own thread. */
-export class AuditWorkerPool {
+/**
+ * The pool: `run` queues an audit job; at most `size` run at once, each in its own thread. The
+ * what-if worker (what-if-jobs.ts) speaks the same protocol with its own job type.
+ */
+export class AuditWorkerPool<Job extends { readonly jobId: string } = AuditWorkerJob> {
   readonly size: number;
   private readonly spawn: () => Worker;
   private readonly idle: Worker[] = [];
   private readonly threads = new Set<Worker>();
-  private readonly queue: Pending[] = [];
+  private readonly queue: Pending<Job>[] = [];
   private busy = 0;
   private nextJob = 1;
   private closed = false;
@@ -79,7 +82,7 @@ export class AuditWorkerPool {
    * @returns the result text and timings, or null when `prepare` found nothing to run; rejects
    *   with AuditJobFailure (the audit failed, with its reason) or the error `prepare` threw.
    */
-  run(task: PoolTask): Promise<AuditJobResult | null> {
+  run(task: PoolTask<Job>): Promise<AuditJobResult | null> {
     if (this.closed) return Promise.reject(new AuditJobFailure('The audit pool is shut down.'));
     return new Promise((resolve, reject) => {
       this.queue.push({ task, resolve, reject });
@@ -134,9 +137,9 @@ export class AuditWorkerPool {
     this.pump();
   }
 
-  private dispatch(worker: Worker, pending: Pending): void {
+  private dispatch(worker: Worker, pending: Pending<Job>): void {
     this.busy++;
-    let job: AuditWorkerJob | null;
+    let job: Job | null;
     try {
       job = pending.task.prepare();
     } catch (error) {
