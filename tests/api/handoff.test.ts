@@ -150,14 +150,19 @@ describe('exports', () => {
     const parsed = Papa.parse<string[]>((await response.text()).replace(/^\uFEFF/, ''), { skipEmptyLines: true });
     expect(parsed.errors).toEqual([]);
     const [header, ...rows] = parsed.data;
-    expect(header).toEqual(['order', 'item', 'scale', 'in_questionnaire', 'what_became_of_it', 'merged_into', 'wording_to_program', 'codebook_wording', 'reason', 'decided_by', 'decided_at_utc']);
+    expect(header).toEqual(['new_order', 'pilot_order', 'item', 'scale', 'in_questionnaire', 'what_became_of_it', 'merged_into', 'wording_to_program', 'codebook_wording', 'reason', 'decided_by', 'decided_at_utc']);
     expect(rows).toHaveLength(study.items.length);
-    const row = (id: string) => rows.find((r) => r[1] === id)!;
-    expect(row('coll_1').slice(3, 7)).toEqual(['yes', 'Kept with new wording', '', MARKUP_WORDING]);
-    expect(row('coll_7').slice(3, 5)).toEqual(['no', 'Dropped']);
-    expect(row('coll_7')[8]).toBe(COMMA_REASON);
-    expect(row('hours_2').slice(4, 6)).toEqual(['Merged into hours_1', 'hours_1']);
-    expect(row('hours_2')[8]).toBe(`'${FORMULA_REASON}`);
+    const row = (id: string) => rows.find((r) => r[2] === id)!;
+    expect(row('coll_1').slice(0, 2)).toEqual(['1', '1']);
+    expect(row('coll_1').slice(4, 8)).toEqual(['yes', 'Kept with new wording', '', MARKUP_WORDING]);
+    expect(row('coll_7').slice(0, 1)).toEqual(['']);
+    expect(row('coll_7').slice(4, 6)).toEqual(['no', 'Dropped']);
+    expect(row('coll_7')[9]).toBe(COMMA_REASON);
+    expect(row('hours_2').slice(5, 7)).toEqual(['Merged into hours_1', 'hours_1']);
+    expect(row('hours_2')[9]).toBe(`'${FORMULA_REASON}`);
+    // New order numbers the items that stay, 1..kept, in pilot order.
+    const kept = rows.filter((r) => r[4] === 'yes');
+    expect(kept.map((r) => r[0])).toEqual(kept.map((_, index) => String(index + 1)));
     for (const cells of rows) for (const cell of cells) expect(cell).not.toMatch(/^[=+\-@\t\r]/);
     const old = await field.get(`/api/studies/${study.studyId}/cut-list.csv?version=1`);
     expect(old.headers.get('content-disposition')).toContain('-v1.csv"');
@@ -177,12 +182,12 @@ describe('exports', () => {
     }
     const rows = XLSX.utils.sheet_to_json<(string | number)[]>(sheet, { header: 1, defval: '' });
     expect(rows).toHaveLength(study.items.length + 1);
-    const row = (id: string) => rows.find((r) => r[1] === id)!;
-    expect(row('coll_1')[0]).toBe(study.items.indexOf('coll_1') + 1);
-    expect(row('coll_1')[6]).toBe(MARKUP_WORDING);
-    expect(row('coll_7')[8]).toBe(COMMA_REASON);
-    expect(row('hours_2')[8]).toBe(`'${FORMULA_REASON}`);
-    expect(row('coll_3')[4]).toBe('Dropped');
+    const row = (id: string) => rows.find((r) => r[2] === id)!;
+    expect(row('coll_1')[1]).toBe(study.items.indexOf('coll_1') + 1);
+    expect(row('coll_1')[7]).toBe(MARKUP_WORDING);
+    expect(row('coll_7')[9]).toBe(COMMA_REASON);
+    expect(row('hours_2')[9]).toBe(`'${FORMULA_REASON}`);
+    expect(row('coll_3')[5]).toBe('Dropped');
     const about = XLSX.utils.sheet_to_json<(string | number)[]>(book.Sheets.About, { header: 1 });
     expect(about[0]).toEqual(['study', studyName]);
     expect(about[1]).toEqual(['version', 2]);

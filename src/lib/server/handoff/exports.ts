@@ -11,7 +11,8 @@ import { itemFate, staysInQuestionnaire } from '../../words/handoff';
 
 /** The columns of the export, in order. */
 export const exportHeader = [
-  'order',
+  'new_order',
+  'pilot_order',
   'item',
   'scale',
   'in_questionnaire',
@@ -27,13 +28,16 @@ export const exportHeader = [
 type Cell = string | number | null;
 
 /**
- * The rows of a version's export: the header, then every item in questionnaire order.
+ * The rows of a version's export: the header, then every item in questionnaire order; `new_order`
+ * numbers the items that stay (blank for those taken out), `pilot_order` is the pilot wave's.
  * @param version the version.
  */
 export function exportRows(version: VersionDetail): Cell[][] {
+  let kept = 0;
   return [
     [...exportHeader],
     ...version.items.map((item) => [
+      staysInQuestionnaire(item.decision) ? ++kept : null,
       item.position,
       item.itemId,
       item.scale,
@@ -75,7 +79,7 @@ export function exportXlsx(version: VersionDetail, studyName: string): Uint8Arra
   const rows = exportRows(version).map((row) => row.map(cell));
   const book = XLSX.utils.book_new();
   const sheet = XLSX.utils.aoa_to_sheet(rows);
-  sheet['!cols'] = [{ wch: 6 }, { wch: 12 }, { wch: 14 }, { wch: 8 }, { wch: 22 }, { wch: 12 }, { wch: 60 }, { wch: 60 }, { wch: 50 }, { wch: 18 }, { wch: 22 }];
+  sheet['!cols'] = [{ wch: 6 }, { wch: 6 }, { wch: 12 }, { wch: 14 }, { wch: 8 }, { wch: 22 }, { wch: 12 }, { wch: 60 }, { wch: 60 }, { wch: 50 }, { wch: 18 }, { wch: 22 }];
   XLSX.utils.book_append_sheet(book, sheet, 'Cut list');
   const about = [
     ['study', studyName],
