@@ -54,8 +54,9 @@ describe('the handoff in Chromium', () => {
         await page.reload();
         await hydrated(page);
         await page.fill('#publish-note', 'Version for the May fieldwork.');
-        await page.locator('[data-testid=publish-button]').click();
-        await expect(page.locator('[data-testid=publish-result]').textContent()).resolves.toContain('Version 1 is published.');
+        await Promise.all([page.waitForURL(/\/field-list\?published=1$/, { timeout: 15_000 }), page.locator('[data-testid=publish-button]').click()]);
+        await expect(page.locator('[data-testid=published-notice]').textContent()).resolves.toContain('Version 1 is published.');
+        await expect(page.locator('[data-testid=field-list-heading]').textContent()).resolves.toContain('version 1');
         const mails = mailsAbout(studyName, before);
         expect(mails.map((mail) => mail.to)).toEqual(expect.arrayContaining([demoEmails.field, demoEmails.reviewer]));
         expect(mails.map((mail) => mail.to)).not.toContain(demoEmails.designer);

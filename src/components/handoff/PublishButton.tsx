@@ -18,8 +18,12 @@ export default function PublishButton({ studyId, undecided, latestVersion }: { s
     setError('');
     const result = await callApi<PublishResponse>('POST', `/api/studies/${studyId}/cut-list/publish`, { note });
     setBusy(false);
-    if (result.ok) setDone(result.data);
-    else setError(result.message);
+    if (result.ok) {
+      // The published list (with what changed) is the next thing the designer checks; the study
+      // page's panel would otherwise still say nothing is published.
+      setDone(result.data);
+      location.assign(`/studies/${studyId}/field-list?published=${result.data.version.number}`);
+    } else setError(result.message);
   }
 
   if (done) {
