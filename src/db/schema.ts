@@ -250,6 +250,8 @@ export const comments = sqliteTable(
     /** Item id or audit id; the study id for study comments. */
     targetId: text('target_id').notNull(),
     authorId: text('author_id').references(() => users.id, { onDelete: 'set null' }),
+    /** The comment this one answers (threads); null for a comment that starts a thread. */
+    parentId: text('parent_id'),
     body: text('body').notNull(),
     createdAt: createdAt(),
   },

@@ -8,6 +8,8 @@
  * Expected statuses follow api.md: 401 not signed in, 403 signed in but the role may not,
  * 404 not in one of your teams, and src/lib/permissions.ts for who may do what.
  */
+import Database from 'better-sqlite3';
+import { inject } from 'vitest';
 import { body, type Client, createMember, demo, inviteAndReadToken, uniqueEmail } from '../setup/http';
 import { postWave, textFile } from './waves-http';
 
@@ -116,6 +118,32 @@ const runAudit: Expectation = { owner: 202, designer: 202, field: 403, reviewer:
 /** The demo's seeded, finished audit (src/lib/server/demo-audit.ts). */
 const demoAudit = 'audit-riverbend-pilot-1';
 const designerOnly = (status: number): Expectation => ({ owner: status, designer: status, field: 403, reviewer: 403, outsider: 404, anonymous: 401 });
+// The handoff (issue 11): a fresh study of the demo team with one published version (written
+// straight into the database: publishing itself needs every item decided, tested in handoff.test.ts).
+const freshStudyWithVersion = async () => {
+  const id = await freshStudy();
+  const db = new Database(inject('databasePath'), { fileMustExist: true });
+  try {
+    db.prepare('INSERT INTO cut_list_versions (id, study_id, number, items, published_at) VALUES (?, ?, 1, ?, ?)').run(
+      `permission-version-${id}`,
+      id,
+      JSON.stringify([{ itemId: 'q1', decision: 'keep', into: null, reason: 'Stays.', wording: null, position: 1 }]),
+      Date.now(),
+    );
+  } finally {
+    db.close();
+  }
+  return id;
+};
+const handoffWrite = (allowed: ('owner' | 'designer' | 'field' | 'reviewer')[], status: number): Expectation => ({
+  owner: allowed.includes('owner') ? status : 403,
+  designer: allowed.includes('designer') ? status : 403,
+  field: allowed.includes('field') ? status : 403,
+  reviewer: allowed.includes('reviewer') ? status : 403,
+  outsider: 404,
+  anonymous: 401,
+});
+const otherTeams = (outsider: number): Expectation => ({ owner: 404, designer: 404, field: 404, reviewer: 404, outsider, anonymous: 401 });
 /** A fresh demo-team study holding one uploaded wave whose setup is not confirmed. */
 const freshProposedWave = async () => {
   const studyId = await freshStudy();
@@ -337,4 +365,52 @@ export const table: Row[] = [
   { name: 'page: decisions of the demo study', method: 'GET', path: () => `/studies/${demo.study}/decisions`, expect: pageForMembers },
   { name: "page: decisions of another team's study", method: 'GET', path: () => `/studies/${demo.outsideStudy}/decisions`, expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 200, anonymous: 303 } },
   { name: 'page: invitation link that does not exist', method: 'GET', path: () => '/invite/not-a-token', expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 404, anonymous: 404 } },
+  // The handoff (issue 11)
+  {
+    name: 'publish the cut list (the demo study has undecided items: 409 after the guard)',
+    method: 'POST',
+    path: () => `/api/studies/${demo.study}/cut-list/publish`,
+    expect: handoffWrite(['owner', 'designer'], 409),
+  },
+  { name: "publish the other team's cut list", method: 'POST', path: () => `/api/studies/${demo.outsideStudy}/cut-list/publish`, expect: otherTeams(409) },
+  { name: 'list published versions', method: 'GET', path: () => `/api/studies/${demo.study}/cut-list/versions`, expect: demoTeamMembers(200) },
+  { name: "list the other team's versions", method: 'GET', path: () => `/api/studies/${demo.outsideStudy}/cut-list/versions`, expect: otherTeams(200) },
+  { name: 'read a published version with its diff', method: 'GET', path: (id) => `/api/studies/${id}/cut-list/versions/1`, prepare: freshStudyWithVersion, expect: demoTeamMembers(200) },
+  { name: 'export the published list as XLSX', method: 'GET', path: (id) => `/api/studies/${id}/cut-list.xlsx`, prepare: freshStudyWithVersion, expect: demoTeamMembers(200) },
+  { name: 'export the published list as CSV', method: 'GET', path: (id) => `/api/studies/${id}/cut-list.csv`, prepare: freshStudyWithVersion, expect: demoTeamMembers(200) },
+  { name: "export the other team's list (nothing published: 409 after the guard)", method: 'GET', path: () => `/api/studies/${demo.outsideStudy}/cut-list.csv`, expect: otherTeams(409) },
+  {
+    name: 'mark a version programmed',
+    method: 'POST',
+    path: (id) => `/api/studies/${id}/cut-list/programmed`,
+    prepare: freshStudyWithVersion,
+    expect: handoffWrite(['owner', 'field'], 200),
+  },
+  { name: "mark the other team's version programmed", method: 'POST', path: () => `/api/studies/${demo.outsideStudy}/cut-list/programmed`, expect: otherTeams(409) },
+  { name: 'read the comments', method: 'GET', path: () => `/api/studies/${demo.study}/comments`, expect: demoTeamMembers(200) },
+  {
+    name: 'comment on a study',
+    method: 'POST',
+    path: (id) => `/api/studies/${id}/comments`,
+    prepare: freshStudy,
+    body: () => ({ body: 'A permission test comment.' }),
+    expect: demoTeamMembers(201),
+  },
+  { name: "comment on the other team's study", method: 'POST', path: () => `/api/studies/${demo.outsideStudy}/comments`, body: () => ({ body: 'x' }), expect: otherTeams(201) },
+  { name: 'read the review state', method: 'GET', path: () => `/api/studies/${demo.study}/review`, expect: demoTeamMembers(200) },
+  {
+    name: 'review the latest version',
+    method: 'POST',
+    path: (id) => `/api/studies/${id}/review`,
+    prepare: freshStudyWithVersion,
+    body: () => ({ verdict: 'approved' }),
+    expect: handoffWrite(['owner', 'reviewer'], 201),
+  },
+  { name: "review the other team's study (nothing published: 409 after the guard)", method: 'POST', path: () => `/api/studies/${demo.outsideStudy}/review`, body: () => ({ verdict: 'approved' }), expect: otherTeams(409) },
+  { name: "a study's activity", method: 'GET', path: () => `/api/studies/${demo.study}/activity`, expect: demoTeamMembers(200) },
+  { name: "the other team's activity", method: 'GET', path: () => `/api/studies/${demo.outsideStudy}/activity`, expect: otherTeams(200) },
+  { name: 'page: the list to program', method: 'GET', path: () => `/studies/${demo.study}/field-list`, expect: pageForMembers },
+  { name: 'page: the review', method: 'GET', path: () => `/studies/${demo.study}/review`, expect: pageForMembers },
+  { name: 'page: the activity', method: 'GET', path: () => `/studies/${demo.study}/activity`, expect: pageForMembers },
+  { name: "page: the other team's list to program", method: 'GET', path: () => `/studies/${demo.outsideStudy}/field-list`, expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 200, anonymous: 303 } },
 ];

@@ -9,3 +9,4 @@ export * from './formats';
 export * from './labels';
 export * from './outcome';
 export * from './reasons';
+export * from './handoff';
