@@ -8,7 +8,7 @@
  *
  * Run: npx tsx bench/engine-local-dependence.bench.ts   (prints figures, then one JSON line)
  */
-import { evaluateLocalDependence, LOCAL_DEPENDENCE_DETECTORS } from '../src/lib/engine/evaluate-local-dependence';
+import { evaluateLocalDependence, LOCAL_DEPENDENCE_DETECTORS } from '../src/lib/evaluation/evaluate-local-dependence';
 
 const WAVES_PER_KIND = 60;
 const start = Date.now();

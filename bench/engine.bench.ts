@@ -14,9 +14,9 @@
  */
 import { computeEvidence } from '../src/lib/engine/compute-evidence';
 import type { EngineSettings } from '../src/lib/engine/engine-settings';
-import { evaluateEngineOnWaves } from '../src/lib/engine/evaluate-engine';
+import { evaluateEngineOnWaves } from '../src/lib/evaluation/evaluate-engine';
 import { runEngine } from '../src/lib/engine/run-engine';
-import { engineInputFromSyntheticWave } from '../src/lib/engine/synthetic-wave-input';
+import { engineInputFromSyntheticWave } from '../src/lib/evaluation/synthetic-wave-input';
 import { generateWave } from '../src/lib/synth/generate-wave';
 import type { WaveSpec } from '../src/lib/synth/types';
 

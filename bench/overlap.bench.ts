@@ -17,7 +17,7 @@ import { belsleyCollinearity } from '../src/lib/stats/belsley-collinearity';
 import { conditionNumber } from '../src/lib/stats/condition-number';
 import { centeredCrossProducts, pearsonFromCrossProducts } from '../src/lib/stats/cross-products';
 import { kaiserMeyerOlkin } from '../src/lib/stats/kmo';
-import { centeredCrossProductsParallel } from '../src/lib/stats/parallel/cross-products-parallel';
+import { centeredCrossProductsParallel } from './parallel/cross-products-parallel';
 import { createSeededRandom } from '../src/lib/stats/seeded-random';
 import { symmetricEigen } from '../src/lib/stats/symmetric-eigen';
 import type { ItemMatrix } from '../src/lib/stats/types';

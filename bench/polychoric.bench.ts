@@ -17,7 +17,7 @@ import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { loadAverageAndCores, withRScript } from './bench-helpers';
 import { correlationMatrix, type CorrelationMatrixResult } from '../src/lib/stats/correlation-matrix';
-import { correlationMatrixParallel } from '../src/lib/stats/parallel/correlation-matrix-parallel';
+import { correlationMatrixParallel } from './parallel/correlation-matrix-parallel';
 import { createSeededRandom } from '../src/lib/stats/seeded-random';
 import type { ItemMatrix, SquareMatrix } from '../src/lib/stats/types';
 

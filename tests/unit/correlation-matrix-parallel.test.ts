@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { correlationMatrix } from '../../src/lib/stats/correlation-matrix';
-import { correlationMatrixParallel } from '../../src/lib/stats/parallel/correlation-matrix-parallel';
+import { correlationMatrixParallel } from '../../bench/parallel/correlation-matrix-parallel';
 import { correlationDataset, datasetMatrix } from './correlation-fixtures';
 
 describe('correlationMatrixParallel', () => {

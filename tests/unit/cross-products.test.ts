@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { centeredCrossProducts, pearsonFromCrossProducts } from '../../src/lib/stats/cross-products';
-import { centeredCrossProductsParallel } from '../../src/lib/stats/parallel/cross-products-parallel';
-import { crossProductsWorkerSource } from '../../src/lib/stats/parallel/cross-products-worker';
+import { centeredCrossProductsParallel } from '../../bench/parallel/cross-products-parallel';
+import { crossProductsWorkerSource } from '../../bench/parallel/cross-products-worker';
 import { itemMatrixFromColumns } from '../../src/lib/stats/types';
 import {
   completeCases,

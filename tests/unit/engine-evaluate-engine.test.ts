@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { evaluateEngineOnWaves } from '../../src/lib/engine/evaluate-engine';
+import { evaluateEngineOnWaves } from '../../src/lib/evaluation/evaluate-engine';
 
 // The floors of issue 5 ("How it is checked"); bench/engine.bench.ts prints the exact figures.
 const PRECISION_FLOOR = 0.95;

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { evaluateLocalDependence } from '../../src/lib/engine/evaluate-local-dependence';
+import { evaluateLocalDependence } from '../../src/lib/evaluation/evaluate-local-dependence';
 
 // Issue 9 asks for precision and recall of at least .95 on generated doublet waves. The engine does
 // NOT reach it (60 waves per kind: see README "Engine figures" and docs/decisions/010); this test

@@ -4,7 +4,7 @@ import { DEFAULT_ENGINE_SETTINGS, resolveEngineSettings, type EngineSettings } f
 import { findOverlapClusters } from '../../src/lib/engine/overlap-clusters';
 import { keeperScores, recommendCuts, type Recommendation } from '../../src/lib/engine/recommend-cuts';
 import { simulateCut } from '../../src/lib/engine/simulate-cut';
-import { engineInputFromSyntheticWave } from '../../src/lib/engine/synthetic-wave-input';
+import { engineInputFromSyntheticWave } from '../../src/lib/evaluation/synthetic-wave-input';
 import { createSeededRandom } from '../../src/lib/stats/seeded-random';
 import { squareMatrixFromRows, type ItemMatrix } from '../../src/lib/stats/types';
 import { generateWave } from '../../src/lib/synth/generate-wave';

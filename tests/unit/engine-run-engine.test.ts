@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { computeEvidence } from '../../src/lib/engine/compute-evidence';
 import { runEngine } from '../../src/lib/engine/run-engine';
 import { simulateCut } from '../../src/lib/engine/simulate-cut';
-import { engineInputFromSyntheticWave } from '../../src/lib/engine/synthetic-wave-input';
+import { engineInputFromSyntheticWave } from '../../src/lib/evaluation/synthetic-wave-input';
 import { demoWave } from '../../src/lib/synth/demo';
 import { reasonSentence } from '../../src/lib/words';
 

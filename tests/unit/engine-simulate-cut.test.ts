@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { computeEvidence } from '../../src/lib/engine/compute-evidence';
 import { largestVif, simulateCut } from '../../src/lib/engine/simulate-cut';
-import { engineInputFromSyntheticWave } from '../../src/lib/engine/synthetic-wave-input';
+import { engineInputFromSyntheticWave } from '../../src/lib/evaluation/synthetic-wave-input';
 import { selectItems } from '../../src/lib/stats/types';
 import { generateWave } from '../../src/lib/synth/generate-wave';
 import { randomWaveSpec } from '../../src/lib/synth/random-wave-spec';

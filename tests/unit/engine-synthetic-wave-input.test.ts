@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { engineInputFromSyntheticWave } from '../../src/lib/engine/synthetic-wave-input';
+import { engineInputFromSyntheticWave } from '../../src/lib/evaluation/synthetic-wave-input';
 import type { SyntheticWave } from '../../src/lib/synth/types';
 
 // A hand-written wave: the expected values follow from methods.md §1 (x' = min + max − x, missing

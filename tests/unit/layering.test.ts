@@ -37,20 +37,9 @@ interface Arrow {
  * here. (The seed, the CLIs and the file store left src/db and the settings schema left the
  * server before this test landed: their entries are gone.) `from` is a file, `to` a path under src/ without extension, or a package.
  */
-const pendingElsewhere: { from: string; to: string; why: string }[] = [
-  // Not assigned in this round of issue 8 (found while writing this test):
-  // the engine's evaluation harness builds its inputs with the synthetic-wave generator;
-  { from: 'src/lib/engine/evaluate-engine.ts', to: 'src/lib/synth/generate-wave', why: 'unassigned: move the evaluation harness out of the engine (bench/ or src/lib/synth)' },
-  { from: 'src/lib/engine/evaluate-engine.ts', to: 'src/lib/synth/random-wave-spec', why: 'unassigned: as above' },
-  { from: 'src/lib/engine/synthetic-wave-input.ts', to: 'src/lib/synth/types', why: 'unassigned: as above' },
-  // the core's parallel kernels start worker threads ("one worker mechanism" of issue 8).
-  { from: 'src/lib/stats/parallel/correlation-matrix-parallel.ts', to: 'node:os', why: 'unassigned: the parallel kernels move to bench/ or to the one worker mechanism' },
-  { from: 'src/lib/stats/parallel/correlation-matrix-parallel.ts', to: 'node:worker_threads', why: 'unassigned: as above' },
-  { from: 'src/lib/stats/parallel/cross-products-parallel.ts', to: 'node:os', why: 'unassigned: as above' },
-  { from: 'src/lib/stats/parallel/cross-products-parallel.ts', to: 'node:worker_threads', why: 'unassigned: as above' },
-  { from: 'src/lib/stats/parallel/cross-products-worker.ts', to: 'node:worker_threads', why: 'unassigned: as above' },
-  { from: 'src/lib/stats/parallel/polychoric-worker.ts', to: 'node:worker_threads', why: 'unassigned: as above' },
-];
+// Empty: the engine's evaluation harness moved to src/lib/evaluation (above the engine and the
+// generator it combines) and the worker-thread kernels to bench/parallel (the benchmarks use them).
+const pendingElsewhere: { from: string; to: string; why: string }[] = [];
 
 const nodeBuiltins = new Set(builtinModules.flatMap((name) => [name, `node:${name}`]));
 /** Packages of the server, the database and the web framework. */

@@ -2,7 +2,7 @@ import { Worker } from 'node:worker_threads';
 import { describe, expect, it } from 'vitest';
 import { codeOrdinalItem } from '../../src/lib/stats/polychoric-coding';
 import { createPolychoricPairsJob, estimatePolychoricPairs } from '../../src/lib/stats/polychoric-pairs';
-import { bareImportReferences, polychoricWorkerSource } from '../../src/lib/stats/parallel/polychoric-worker';
+import { bareImportReferences, polychoricWorkerSource } from '../../bench/parallel/polychoric-worker';
 import { correlationDataset, datasetColumn } from './correlation-fixtures';
 
 describe('bareImportReferences', () => {

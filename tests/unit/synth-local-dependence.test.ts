@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { engineInputFromSyntheticWave } from '../../src/lib/engine/synthetic-wave-input';
+import { engineInputFromSyntheticWave } from '../../src/lib/evaluation/synthetic-wave-input';
 import { correlationMatrix } from '../../src/lib/stats/correlation-matrix';
 import { generateWave } from '../../src/lib/synth/generate-wave';
 import { DOUBLET_RESIDUAL_RANGE, LOCAL_DEPENDENCE_WAVE_KINDS, localDependenceWaveSpec } from '../../src/lib/synth/local-dependence-spec';

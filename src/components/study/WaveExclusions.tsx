@@ -1,5 +1,5 @@
 import { useEffect, useState } from 'react';
-import type { ScreeningDetail } from '../../lib/server/waves/stored-wave';
+import type { ScreeningDetail } from '../../lib/api/waves';
 import { callApi } from '../../lib/api/client';
 import ScreeningStep from '../upload/ScreeningStep';
 

@@ -6,8 +6,6 @@
 export * from './bootstrap-stability';
 export * from './compute-evidence';
 export * from './engine-settings';
-export * from './evaluate-engine';
-export * from './evaluate-local-dependence';
 export * from './local-dependence';
 export * from './core-detectors';
 export * from './overlap-clusters';
@@ -15,6 +13,5 @@ export * from './principal-submatrix';
 export * from './recommend-cuts';
 export * from './run-engine';
 export * from './simulate-cut';
-export * from './synthetic-wave-input';
 export * from './types';
 export * from './wording-similarity';

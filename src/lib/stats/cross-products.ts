@@ -8,7 +8,7 @@
  * "Algorithms for computing the sample variance: analysis and recommendations" (two-pass,
  * centred sums for accuracy).
  */
-import { accumulateCenteredProducts } from './parallel/centered-products-kernel';
+import { accumulateCenteredProducts } from './centered-products-kernel';
 import { CONSTANT_ITEM_RELATIVE_SD } from './tolerances';
 import type { ItemMatrix, SquareMatrix } from './types';
 

@@ -6,7 +6,7 @@
  *
  * Why a separate bundle: Vite's server build does not emit a worker file referenced with
  * `new URL(..., import.meta.url)`, and the audit is too large to ship as source text the way the
- * small polychoric kernel is (src/lib/stats/parallel/). esbuild is the bundler Astro itself
+ * small polychoric kernel is (bench/parallel/). esbuild is the bundler Astro itself
  * depends on. docs/decisions/004-audit-jobs.md.
  */
 import type { AstroIntegration } from 'astro';

@@ -16,9 +16,9 @@ import {
   prepareCorrelationMatrix,
   type CorrelationMatrixOptions,
   type CorrelationMatrixResult,
-} from '../correlation-matrix';
-import { estimatePolychoricPairs, POLYCHORIC_PAIR_FIELDS, type PolychoricPairsJob } from '../polychoric-pairs';
-import type { ItemMatrix, NumericalNotice } from '../types';
+} from '../../src/lib/stats/correlation-matrix';
+import { estimatePolychoricPairs, POLYCHORIC_PAIR_FIELDS, type PolychoricPairsJob } from '../../src/lib/stats/polychoric-pairs';
+import type { ItemMatrix, NumericalNotice } from '../../src/lib/stats/types';
 import { polychoricWorkerSource } from './polychoric-worker';
 
 /** Options of `correlationMatrixParallel`. */

@@ -15,12 +15,12 @@
  * on a known value (Φ2(0, 0; ½) = 1/3) and reports failure instead of results; the caller then
  * computes on its own thread and says so.
  */
-import { bivariateNormalCdfFromRule, bivariateNormalGrid, prepareBivariateNormalRule } from '../bivariate-normal-cdf';
-import { normalCdf } from '../normal-distribution';
-import { countPolychoricTable } from '../polychoric-coding';
-import { estimatePolychoricFromTable } from '../polychoric-correlation';
-import { createPolychoricWorkspace, fitPolychoricTable, polychoricLikelihood } from '../polychoric-likelihood';
-import { estimatePolychoricPairs } from '../polychoric-pairs';
+import { bivariateNormalCdfFromRule, bivariateNormalGrid, prepareBivariateNormalRule } from '../../src/lib/stats/bivariate-normal-cdf';
+import { normalCdf } from '../../src/lib/stats/normal-distribution';
+import { countPolychoricTable } from '../../src/lib/stats/polychoric-coding';
+import { estimatePolychoricFromTable } from '../../src/lib/stats/polychoric-correlation';
+import { createPolychoricWorkspace, fitPolychoricTable, polychoricLikelihood } from '../../src/lib/stats/polychoric-likelihood';
+import { estimatePolychoricPairs } from '../../src/lib/stats/polychoric-pairs';
 
 /** Every function the worker needs, callees included. */
 const WORKER_FUNCTIONS: readonly ((...args: never[]) => unknown)[] = [

@@ -16,10 +16,10 @@
  */
 import { generateWave } from '../synth/generate-wave';
 import { LOCAL_DEPENDENCE_WAVE_KINDS, localDependenceWaveSpec, type LocalDependenceWaveKind } from '../synth/local-dependence-spec';
-import { computeEvidence } from './compute-evidence';
-import { resolveEngineSettings, type EngineSettings } from './engine-settings';
-import { pairLocalFigures } from './overlap-clusters';
-import { runEngine } from './run-engine';
+import { computeEvidence } from '../engine/compute-evidence';
+import { resolveEngineSettings, type EngineSettings } from '../engine/engine-settings';
+import { pairLocalFigures } from '../engine/overlap-clusters';
+import { runEngine } from '../engine/run-engine';
 import { engineInputFromSyntheticWave } from './synthetic-wave-input';
 
 /** Detectors scored separately, and the engine. */

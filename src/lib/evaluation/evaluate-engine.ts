@@ -10,9 +10,9 @@
  */
 import { generateWave } from '../synth/generate-wave';
 import { randomUnplantedWaveSpec, randomWaveSpec } from '../synth/random-wave-spec';
-import { computeEvidence } from './compute-evidence';
-import type { EngineSettings } from './engine-settings';
-import { runEngine } from './run-engine';
+import { computeEvidence } from '../engine/compute-evidence';
+import type { EngineSettings } from '../engine/engine-settings';
+import { runEngine } from '../engine/run-engine';
 import { engineInputFromSyntheticWave } from './synthetic-wave-input';
 
 /** Options of `evaluateEngineOnWaves`. */

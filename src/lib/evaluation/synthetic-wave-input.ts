@@ -6,7 +6,7 @@
  */
 import type { ItemMatrix } from '../stats/types';
 import type { SyntheticWave } from '../synth/types';
-import type { EngineItem } from './types';
+import type { EngineItem } from '../engine/types';
 
 /** The engine's input built from a synthetic wave. */
 export interface SyntheticEngineInput {

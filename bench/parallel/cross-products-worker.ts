@@ -15,7 +15,7 @@
  * nested functions in an `__name(fn, "name")` call to keep their names; the source defines a
  * pass-through `__name` so that text runs anywhere.
  */
-import { accumulateCenteredProducts } from './centered-products-kernel';
+import { accumulateCenteredProducts } from '../../src/lib/stats/centered-products-kernel';
 
 /** The message a cross-products worker receives as `workerData`. */
 export interface CrossProductsTask {

@@ -17,8 +17,8 @@ import {
   checkedItemMeans,
   mirrorUpperTriangle,
   type CenteredCrossProducts,
-} from '../cross-products';
-import type { ItemMatrix } from '../types';
+} from '../../src/lib/stats/cross-products';
+import type { ItemMatrix } from '../../src/lib/stats/types';
 import { crossProductsWorkerSource, type CrossProductsTask } from './cross-products-worker';
 
 /** Options of `centeredCrossProductsParallel`. */
