@@ -159,7 +159,7 @@ function structureSection(audit: AuditJson): MemoBlock[] {
     {
       kind: 'figure',
       figure: map,
-      caption: `The overlap map: ${methodWords[audit.settings.method] ?? audit.settings.method} correlations of the recoded items, ordered ${map.orderedBy}. Deep rust is a strong positive correlation, indigo a strong negative one, the paper colour none (the same scale as the overlap map on screen); lines mark where a scale starts.`,
+      caption: `The overlap map: ${methodWords[audit.settings.method] ?? audit.settings.method} correlations of the recoded items, ordered ${map.orderedBy}. Deep rust is a strong positive correlation, indigo a strong negative one, the paper colour none (the same scale as the overlap map on screen).`,
     },
     {
       kind: 'table',

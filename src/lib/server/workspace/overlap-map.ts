@@ -5,7 +5,7 @@
  */
 import type { AuditJson } from '../../audit/audit-json';
 import { MAP_DECIMALS, type OverlapMap, type OverlapMapPair } from '../../api/overlap-map';
-import { hierarchicalClustering } from '../../stats/hierarchical-clustering';
+import { clusterTreeOfCorrelations } from '../../memo/overlap-order';
 
 const CACHE_SIZE = 8;
 const cache = new Map<string, OverlapMap>();
@@ -59,21 +59,16 @@ export function buildOverlapMap(auditId: string, audit: AuditJson): OverlapMap {
   // Packed upper triangle, rounded; the pair counts packed alike (or one number when all agree).
   const upper: (number | null)[] = [];
   const counts: number[] = [];
-  const distances = new Float64Array(m * m);
   for (let i = 0; i < m; i++) {
     for (let j = i + 1; j < m; j++) {
       const r = numberOrNull(audit.correlation.matrix[i]?.[j]);
       upper.push(r === null ? null : round(r));
       counts.push(numberOrNull(audit.correlation.n?.[i]?.[j]) ?? 0);
-      // A pair without a correlation is as far apart as two items can be.
-      const distance = r === null ? 1 : Math.max(0, 1 - Math.abs(r));
-      distances[i * m + j] = distance;
-      distances[j * m + i] = distance;
     }
   }
   const pairN = counts.length > 0 && counts.every((n) => n === counts[0]) ? counts[0] : counts;
 
-  const tree = m > 0 ? hierarchicalClustering({ order: m, data: distances }) : { order: [], height: [] };
+  const tree = clusterTreeOfCorrelations(audit.correlation.matrix);
   const questionnaire = items.map((_, i) => i).sort((a, b) => items[a].position - items[b].position);
   const scaleIds = audit.scales.map((scale) => scale.id);
   for (const item of items) if (item.scale !== null && !scaleIds.includes(item.scale)) scaleIds.push(item.scale);
