@@ -41,6 +41,28 @@ describe('the driver model slice', () => {
     for (const removed of model.afterCut.removed) expect(terms).not.toContain(removed);
   });
 
+  it("refits the driver model after the designer's own decisions in the what-if, equal to the audit's refit for the same cut", async () => {
+    const id = await doneAudit({ bootstrap: 0, seed: 41_001, outcome: 'overall_sat' });
+    const audit = (await body(await designer.get(`/api/audits/${id}`))).result;
+    const removed: string[] = audit.afterCut.removed;
+    const whatIf = await body(await reviewer.post(`/api/audits/${id}/what-if`, { removed }));
+    expect(whatIf.driverModel.outcome).toBe('overall_sat');
+    expect(whatIf.driverModel.r2Before).toBeCloseTo(audit.outcomeModel.r2, 12);
+    const after = whatIf.driverModel.afterDecisions;
+    // Source: outcomeModel.afterCut, refitted by runAudit in the audit worker (checked against
+    // R's lm() in tests/unit/outcome-model.test.ts); the what-if worker refits the same cut.
+    expect(after.n).toBe(audit.outcomeModel.afterCut.n);
+    expect(after.r2).toBeCloseTo(audit.outcomeModel.afterCut.r2, 10);
+    for (const coefficient of audit.outcomeModel.afterCut.coefficients) {
+      const mine = after.coefficients.find((c: { term: string }) => c.term === coefficient.term);
+      expect(mine.seRatio ?? 0).toBeCloseTo(coefficient.seRatio ?? 0, 10);
+    }
+    // Another decision set: dropping only coll_7 shrinks coll_2's standard error (its twin).
+    const own = await body(await reviewer.post(`/api/audits/${id}/what-if`, { removed: ['coll_7'] }));
+    expect(own.driverModel.afterDecisions.removed).toEqual(['coll_7']);
+    expect(own.driverModel.afterDecisions.coefficients.find((c: { term: string }) => c.term === 'coll_2').seRatio).toBeLessThan(0.5);
+  });
+
   it('says why there is no model when the audit has no outcome', async () => {
     const id = await doneAudit({ bootstrap: 0, seed: 41_002 });
     const { model, note } = await body(await reviewer.get(`/api/audits/${id}/driver-model`));

@@ -242,6 +242,17 @@ export interface WhatIfResponse {
   conditionNumber: number | null;
   scales: WhatIfScale[];
   warnings: { code: string; items: string[]; message: string }[];
+  /**
+   * The audit's driver model refitted without the items these decisions remove, on the same
+   * respondents (null when the audit has no outcome; `afterDecisions` null when the decisions
+   * remove no predictor): each remaining item's standard error with its ratio after/before.
+   */
+  driverModel: {
+    outcome: string;
+    r2Before: number;
+    adjR2Before: number | null;
+    afterDecisions: { removed: string[]; n: number; r2: number; adjR2: number | null; coefficients: { term: string; se: number | null; seRatio: number | null }[] } | null;
+  } | null;
   /** Milliseconds the worker spent (evidence from its cache when warm, then the cut). */
   computeMs: number;
   /** The worker had to rebuild the audit's evidence first (the first what-if of an audit). */

@@ -79,6 +79,29 @@ export default function WhatIfPanel({ whatIf, state, error, constraints, hasAudi
               ))}
             </tbody>
           </table>
+          {whatIf.driverModel && (
+            <div className="mt-3 text-sm" data-testid="what-if-driver-model">
+              <p className="text-ink-soft">
+                Driver model of <strong className="text-ink">{whatIf.driverModel.outcome}</strong>:{' '}
+                {whatIf.driverModel.afterDecisions
+                  ? `R² ${formatNumber(whatIf.driverModel.r2Before, 2)}→${formatNumber(whatIf.driverModel.afterDecisions.r2, 2)} on the same ${whatIf.driverModel.afterDecisions.n} respondents.`
+                  : 'these decisions remove none of its predictors.'}
+              </p>
+              {whatIf.driverModel.afterDecisions && (
+                <ul className="mt-1 list-disc pl-4 text-xs text-ink-soft">
+                  {[...whatIf.driverModel.afterDecisions.coefficients]
+                    .filter((c) => c.term !== '(intercept)' && c.seRatio !== null && c.seRatio < 0.95)
+                    .sort((a, b) => (a.seRatio ?? 1) - (b.seRatio ?? 1))
+                    .slice(0, 5)
+                    .map((c) => (
+                      <li key={c.term}>
+                        {c.term}: standard error down to {Math.round((c.seRatio ?? 1) * 100)}% of what it was
+                      </li>
+                    ))}
+                </ul>
+              )}
+            </div>
+          )}
           {breaches.length > 0 && (
             <ul className="notice mt-3 space-y-0.5 text-sm" data-testid="what-if-breaches">
               {breaches.map((breach) => <li key={breach.message}>{breach.message}</li>)}

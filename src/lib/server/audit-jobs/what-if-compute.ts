@@ -8,6 +8,7 @@
  */
 import { auditInputFromWave } from '../../audit/audit-input';
 import { computeEvidence } from '../../engine/compute-evidence';
+import { fitOutcomeModel, outcomePredictorColumns, refitOutcomeAfterCut, type OutcomeModelInput } from '../../audit/outcome-model';
 import { resolveEngineSettings, type EngineSettings } from '../../engine/engine-settings';
 import { engineSettingsOf } from '../../audit/settings-table';
 import { simulateCut } from '../../engine/simulate-cut';
@@ -35,6 +36,8 @@ interface Prepared {
   readonly evidence: EngineEvidence;
   readonly matrix: ItemMatrix;
   readonly settings: EngineSettings;
+  /** The audit's driver model before any cut, when the audit has an outcome. */
+  readonly driverModel: { input: OutcomeModelInput; columns: number[]; before: ReturnType<typeof fitOutcomeModel> } | null;
 }
 
 /** Audits whose evidence a worker keeps (the workspace of one or two studies at a time). */
@@ -62,13 +65,21 @@ export class WhatIfCache {
 /** Rebuilds an audit's evidence from its stored wave and settings. */
 function prepare(job: WhatIfJob): Prepared {
   const matrix = decodeMatrix(job.wave.matrixBlob);
-  const storedWave = { matrix, items: job.wave.items, outcomes: [], excluded: job.wave.excluded, respondents: job.wave.respondents } as unknown as Pick<
+  const outcomes = job.wave.outcomes.map((outcome) => ({ id: outcome.id, header: outcome.header, values: Float64Array.from(outcome.values, (v) => (v === null ? Number.NaN : v)) }));
+  const storedWave = { matrix, items: job.wave.items, outcomes, excluded: job.wave.excluded, respondents: job.wave.respondents } as unknown as Pick<
     BuiltWave,
     'matrix' | 'items' | 'outcomes' | 'excluded' | 'respondents'
   >;
-  const input = auditInputFromWave(storedWave, { outcome: null, locked: job.settings.locked });
+  const input = auditInputFromWave(storedWave, { outcome: job.settings.outcome, locked: job.settings.locked });
   const settings = resolveEngineSettings(engineSettingsOf(job.settings));
-  return { evidence: computeEvidence(input.matrix, input.items, settings), matrix: input.matrix, settings };
+  const evidence = computeEvidence(input.matrix, input.items, settings);
+  let driverModel: Prepared['driverModel'] = null;
+  if (input.outcome) {
+    const modelInput = { matrix: input.matrix, ids: input.items.map((item) => item.id), outcome: input.outcome };
+    const columns = outcomePredictorColumns(modelInput, evidence.usable, job.settings.predictors ?? []);
+    driverModel = { input: modelInput, columns, before: fitOutcomeModel(modelInput, columns, []) };
+  }
+  return { evidence, matrix: input.matrix, settings, driverModel };
 }
 
 /**
@@ -89,6 +100,9 @@ export function computeWhatIf(job: WhatIfJob, cache: WhatIfCache): WhatIfRespons
     cache.set(job.key, prepared);
   }
   const after = simulateCut(prepared.evidence, prepared.matrix, job.removed, prepared.settings);
+  const model = prepared.driverModel;
+  const inModel = model ? job.removed.filter((id) => model.columns.some((j) => model.input.ids[j] === id)) : [];
+  const refit = model && inModel.length > 0 && inModel.length < model.columns.length ? refitOutcomeAfterCut(model.input, model.columns, model.before, inModel, []) : null;
   return {
     auditId: job.auditId,
     removed: [...after.removed],
@@ -110,6 +124,14 @@ export function computeWhatIf(job: WhatIfJob, cache: WhatIfCache): WhatIfRespons
       spearmanBrown: scale.spearmanBrown,
     })),
     warnings: after.warnings.map((warning) => ({ code: warning.code, items: [...warning.items], message: warning.message })),
+    driverModel: model
+      ? {
+          outcome: model.before.outcome,
+          r2Before: model.before.r2,
+          adjR2Before: model.before.adjR2,
+          afterDecisions: refit && { removed: refit.removed, n: refit.n, r2: refit.r2, adjR2: refit.adjR2, coefficients: refit.coefficients.map(({ term, se, seRatio }) => ({ term, se, seRatio })) },
+        }
+      : null,
     computeMs: Math.round((performance.now() - started) * 10) / 10,
     coldStart,
   };

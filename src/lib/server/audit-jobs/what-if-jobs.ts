@@ -5,6 +5,7 @@
  * alive). The request thread never computes: it only reads rows and waits for the answer.
  * docs/decisions/011-decisions-and-what-if.md.
  */
+import { parseStoredSetup } from '../waves/stored-wave';
 import { eq } from 'drizzle-orm';
 import { audits, waveItems, waves } from '../../../db/schema';
 import type { Db } from '../../../db/client';
@@ -77,6 +78,8 @@ export class WhatIfJobs {
       throw fail.conflict("The wave's excluded respondents changed after this audit ran, so its what-if would not match it; run a new audit.", 'exclusions-changed');
     }
     const items = this.db.select().from(waveItems).where(eq(waveItems.waveId, wave.id)).orderBy(waveItems.position).all();
+    // The audit's outcome, so the what-if can refit its driver model after the decisions too.
+    const outcomes = settings.outcome === null ? [] : (parseStoredSetup(wave.setup, wave.rowCount).outcomes ?? []).filter((entry) => entry.id === settings.outcome);
     return {
       jobId: `what-if-${auditId}-${nextJob++}`,
       key: `${auditId}:${settingsHash}`,
@@ -86,7 +89,7 @@ export class WhatIfJobs {
         respondents: wave.rowCount,
         excluded: wave.exclusions,
         items: items.map((item) => ({ id: item.itemId, scale: item.scale, reverse: item.reverse, min: item.min ?? Number.NaN, max: item.max ?? Number.NaN, text: item.text })),
-        outcomes: [],
+        outcomes: outcomes.map(({ id, header, values }) => ({ id, header, values })),
       },
       settings,
       removed: [...removed],
