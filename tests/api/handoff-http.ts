@@ -6,7 +6,7 @@
  */
 import Database from 'better-sqlite3';
 import { inject } from 'vitest';
-import { body, type Client, demo } from '../setup/http';
+import { body, type Client, demo, signedIn } from '../setup/http';
 import { createStudy, demoDirectory, fixture, postWave } from './waves-http';
 
 /** A study ready for the handoff. */
@@ -73,37 +73,18 @@ export interface TestDecision {
 }
 
 /**
- * Writes decisions as the workspace's route does: the current decision (with the new wording when
- * the table has that column; the workspace's migration adds it, and until it lands this adds the
- * same nullable column to the test database), a history entry and an activity entry.
+ * Makes decisions through the workspace's route (PUT /api/studies/{id}/cut-list/{itemId}), signed
+ * in as the given member, one item after another; fails the test on any refusal.
  * @param studyId the study.
- * @param byEmail who decides.
+ * @param byEmail who decides (a designer or owner).
  * @param decisions by item id.
  */
-export function decide(studyId: string, byEmail: string, decisions: Record<string, TestDecision>): void {
-  const by = userId(byEmail);
-  withDatabase((db) => {
-    const team = (db.prepare('select team_id as teamId from studies where id = ?').get(studyId) as { teamId: string }).teamId;
-    const now = Date.now();
-    const write = db.transaction(() => {
-      for (const [itemId, d] of Object.entries(decisions)) {
-        db.prepare(
-          `insert into decisions (study_id, item_id, decision, into_item_id, wording, reason, decided_by, decided_at) values (?, ?, ?, ?, ?, ?, ?, ?)
-           on conflict (study_id, item_id) do update set decision = excluded.decision, into_item_id = excluded.into_item_id, wording = excluded.wording, reason = excluded.reason, decided_by = excluded.decided_by, decided_at = excluded.decided_at`,
-        ).run(studyId, itemId, d.decision, d.into ?? null, d.wording ?? null, d.reason ?? '', by, now);
-        db.prepare('insert into decision_history (study_id, item_id, decision, into_item_id, reason, decided_by, decided_at) values (?, ?, ?, ?, ?, ?, ?)').run(studyId, itemId, d.decision, d.into ?? null, d.reason ?? '', by, now);
-        db.prepare('insert into activity_log (team_id, study_id, user_id, action, detail, at) values (?, ?, ?, ?, ?, ?)').run(
-          team,
-          studyId,
-          by,
-          'decision.changed',
-          JSON.stringify({ decision: d.decision, into: d.into ?? null, reason: d.reason ?? '', items: [itemId] }),
-          now,
-        );
-      }
-    });
-    write();
-  });
+export async function decide(studyId: string, byEmail: string, decisions: Record<string, TestDecision>): Promise<void> {
+  const client = await signedIn(byEmail);
+  for (const [itemId, d] of Object.entries(decisions)) {
+    const response = await client.put(`/api/studies/${studyId}/cut-list/${encodeURIComponent(itemId)}`, { decision: d.decision, into: d.into, wording: d.wording, reason: d.reason ?? '' });
+    if (response.status !== 200) throw new Error(`deciding ${itemId} as ${byEmail} answered ${response.status}: ${await response.text()}`);
+  }
 }
 
 /** Keep for every item, with a reason. */

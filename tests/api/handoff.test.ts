@@ -53,7 +53,7 @@ describe('publishing', () => {
     expect(refusal.message).toContain(`${study.items.length} items are undecided`);
     expect(refusal.message).toContain(study.items[0]);
 
-    decide(study.studyId, demoEmails.designer, keepAll(study.items.filter((id) => id !== 'coll_3' && id !== 'dig_5')));
+    await decide(study.studyId, demoEmails.designer, keepAll(study.items.filter((id) => id !== 'coll_3' && id !== 'dig_5')));
     const two = await designer.post(`/api/studies/${study.studyId}/cut-list/publish`, {});
     expect(two.status).toBe(409);
     expect((await body(two)).error.message).toMatch(/^The cut list cannot be published while 2 items are undecided: coll_3 and dig_5\./);
@@ -72,7 +72,7 @@ describe('publishing', () => {
   });
 
   it('publishes version 1 with final wording in questionnaire order and e-mails field managers and reviewers', async () => {
-    decide(study.studyId, demoEmails.designer, {
+    await decide(study.studyId, demoEmails.designer, {
       coll_3: { decision: 'keep', reason: 'Only item on magazines.' },
       dig_5: { decision: 'keep', reason: 'Stays.' },
       coll_7: { decision: 'drop', reason: COMMA_REASON },
@@ -106,7 +106,7 @@ describe('publishing', () => {
     expect(same.status).toBe(409);
     expect((await body(same)).error.code).toBe('unchanged');
 
-    decide(study.studyId, demoEmails.designer, { coll_3: { decision: 'drop', reason: 'Magazines are out of scope.' } });
+    await decide(study.studyId, demoEmails.designer, { coll_3: { decision: 'drop', reason: 'Magazines are out of scope.' } });
     const response = await owner.post(`/api/studies/${study.studyId}/cut-list/publish`, {});
     expect(response.status).toBe(201);
     const { version } = await body(response);

@@ -31,7 +31,7 @@ describe('the handoff in Chromium', () => {
   it('designer publishes, field manager exports and marks programmed, reviewer comments and approves', async () => {
     const designerApi = await signedIn(demoEmails.designer);
     study = await handoffStudy(designerApi, studyName, true);
-    decide(study.studyId, demoEmails.designer, {
+    await decide(study.studyId, demoEmails.designer, {
       ...keepAll(study.items.filter((id) => id !== 'coll_3')),
       coll_7: { decision: 'drop', reason: 'Says what coll_2 says, in other words.' },
       hours_2: { decision: 'merge', into: 'hours_1', reason: '=SUM(1,2) is not a reason, but it must not run.' },
@@ -49,7 +49,7 @@ describe('the handoff in Chromium', () => {
         await expect(page.locator('[data-testid=publish-error]').textContent()).resolves.toContain('1 item is undecided: coll_3');
         await screenshot(page, 'handoff-designer-refused');
 
-        decide(study.studyId, demoEmails.designer, { coll_3: { decision: 'keep', reason: 'The only item on magazines.' } });
+        await decide(study.studyId, demoEmails.designer, { coll_3: { decision: 'keep', reason: 'The only item on magazines.' } });
         const before = lastMailId();
         await page.reload();
         await hydrated(page);
