@@ -2,6 +2,7 @@
  * Browser helpers the islands share: JSON calls to the API (errors in api.md's shape turned into
  * one message) and signing in and out through Auth.js's endpoints.
  */
+import { safeNextPath } from '../lib/safe-path';
 
 /** The outcome of an API call. */
 export type ApiResult<T> = { ok: true; status: number; data: T } | { ok: false; status: number; code: string; message: string };
@@ -85,8 +86,5 @@ export async function signOut(): Promise<void> {
   location.assign('/signin');
 }
 
-/** A same-site path to go to after signing in (anything else becomes `/`). */
-export function safeNext(value: string | null | undefined): string {
-  if (!value || !value.startsWith('/') || value.startsWith('//') || value.startsWith('/\\')) return '/';
-  return value;
-}
+/** A same-site path to go to after signing in (anything else becomes `/`); src/lib/safe-path.ts. */
+export const safeNext = safeNextPath;

@@ -1,10 +1,2 @@
-/**
- * A same-site path to go to after signing in; anything else (another site, a protocol-relative
- * address) becomes `/`.
- * @param value the `next` parameter.
- * @returns a safe path.
- */
-export function safeNextPath(value: string | null | undefined): string {
-  if (!value || !value.startsWith('/') || value.startsWith('//') || value.startsWith('/\\')) return '/';
-  return value;
-}
+/** Where to go after signing in: see src/lib/safe-path.ts (shared with the sign-in form). */
+export { safeNextPath } from '../safe-path';
