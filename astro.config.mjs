@@ -5,6 +5,7 @@ import react from '@astrojs/react';
 import tailwindcss from '@tailwindcss/vite';
 import auth from 'auth-astro';
 import { auditWorkerIntegration } from './src/lib/server/audit-jobs/audit-worker-build';
+import { nodeAdapterHardening } from './src/lib/server/node-adapter-hardening';
 
 // Host names the server answers to. Astro ignores the Host header of any other name (and then
 // builds URLs for localhost, which breaks the sign-in origin check: see stack-notes.md).
@@ -52,7 +53,8 @@ export default defineConfig({
     },
   },
   vite: {
-    plugins: [tailwindcss()],
+    // The socket's address for the sign-in limit, and 405 for TRACE (docs/decisions/014-hardening.md).
+    plugins: [tailwindcss(), nodeAdapterHardening()],
     ssr: { external: ['better-sqlite3'] },
   },
 });

@@ -10,6 +10,8 @@ import { users } from './src/db/schema';
 import { getConfig } from './src/lib/server/config';
 import { getDb } from './src/lib/server/db';
 import { unknownUserHash, verifyPassword } from './src/lib/server/passwords';
+import { maxSignInEmailLength, normaliseSignInEmail } from './src/lib/server/sign-in-limit';
+import { safeRedirectUrl } from './src/lib/safe-path';
 
 const config = getConfig();
 
@@ -23,9 +25,10 @@ export default defineConfig({
     Credentials({
       credentials: { email: { label: 'E-mail' }, password: { label: 'Password', type: 'password' } },
       async authorize(credentials) {
-        const email = String(credentials?.email ?? '').trim().toLowerCase();
+        // The same reading as the sign-in limit's (src/lib/server/sign-in-limit.ts), so both count one address.
+        const email = normaliseSignInEmail(credentials?.email);
         const password = String(credentials?.password ?? '');
-        if (!email || !password || password.length > 200) return null;
+        if (!email || email.length > maxSignInEmailLength || !password || password.length > 200) return null;
         const user = getDb().select().from(users).where(eq(users.email, email)).get();
         // Compare against a fixed hash when the address is unknown, so timing says nothing.
         const matches = await verifyPassword(password, user?.passwordHash ?? unknownUserHash);
@@ -35,6 +38,11 @@ export default defineConfig({
     }),
   ],
   callbacks: {
+    // Only a path on this site, whatever `callbackUrl` holds (src/lib/safe-path.ts): no open
+    // redirect, and no control character reaching a cookie or Location header.
+    redirect({ url, baseUrl }) {
+      return safeRedirectUrl(url, baseUrl);
+    },
     jwt({ token, user }) {
       if (user) {
         token.sub = user.id;

@@ -7,22 +7,37 @@
  *     (docs/decisions/004-audit-jobs.md, 007-one-way-in-for-waves.md);
  * 2. the origin check (CSRF): a write carrying cookies must come from our own origin;
  * 3. who is asking (session cookie or personal API token) into `locals`;
- * 4. the sign-in rate limit, in front of Auth.js's credentials callback;
+ * 4. in front of Auth.js (/api/auth/*): unknown actions 404, other methods 405, bodies read
+ *    through the capped reader (413), the sign-in rate limit on the credentials callback, and
+ *    sign-out ending the session on the server too;
  * 5. first run (/setup while no user exists) and sign-in for pages.
+ * Methods no route answers (anything but GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS) get 405
+ * before any of this; TRACE, TRACK and CONNECT never reach here (src/lib/server/node-adapter-hardening.ts).
  */
 import { defineMiddleware, sequence } from 'astro:middleware';
+import { eq, sql } from 'drizzle-orm';
+import { users } from './db/schema';
 import { startAuditJobs } from './lib/server/audit-jobs/audit-jobs';
 import { getConfig } from './lib/server/config';
 import { recordTokenUse, resolveCaller } from './lib/server/current-user';
 import { getDb } from './lib/server/db';
-import { errorResponse } from './lib/server/errors';
+import { errorResponse, HttpError } from './lib/server/errors';
 import { serverFileStore } from './lib/server/file-store';
 import { hasAnyUser } from './lib/server/first-run';
+import { socketAddressSymbol } from './lib/server/node-adapter-hardening';
+import { cancelQuietly, readBodyCapped } from './lib/server/read-body';
 import { withSecurityHeaders } from './lib/server/security-headers';
-import { recordSignIn, signInAllowance } from './lib/server/sign-in-limit';
+import { recordSignIn, signInAllowance, signInClientAddress, signInEmailFromBody } from './lib/server/sign-in-limit';
 
 const unsafeMethods = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
 const credentialsCallback = '/api/auth/callback/credentials';
+const signOutAction = '/api/auth/signout';
+const answeredMethods = new Set(['GET', 'HEAD', 'POST', 'PUT', 'PATCH', 'DELETE', 'OPTIONS']);
+/** The largest body Auth.js is given to read (its forms hold an e-mail, a password, a token and an address). */
+export const maxAuthBodyBytes = 64 * 1024;
+/** Auth.js 0.37's actions (@auth/core/lib/utils/actions.js); those that take a provider id. */
+const authActions = new Set(['providers', 'session', 'csrf', 'signin', 'signout', 'callback', 'verify-request', 'error', 'webauthn-options']);
+const authActionsWithProvider = new Set(['signin', 'callback', 'webauthn-options']);
 const publicPages = ['/signin', '/setup', '/invite/'];
 
 function isAsset(pathname: string): boolean {
@@ -31,7 +46,13 @@ function isAsset(pathname: string): boolean {
 
 const securityHeaders = defineMiddleware(async (context, next) => {
   const response = await next();
-  return withSecurityHeaders(response, isAsset(context.url.pathname));
+  return withSecurityHeaders(response, isAsset(context.url.pathname), getConfig().publicUrl.startsWith('https://'));
+});
+
+/** Methods no route answers: 405 rather than whatever the router would make of them. */
+const knownMethods = defineMiddleware((context, next) => {
+  if (answeredMethods.has(context.request.method.toUpperCase())) return next();
+  return errorResponse(405, 'method-not-allowed', `This server does not answer ${context.request.method.slice(0, 20)} requests.`, { Allow: 'GET, HEAD, POST, PUT, PATCH, DELETE' });
 });
 
 let startedUp = false;
@@ -79,16 +100,13 @@ const identify = defineMiddleware(async (context, next) => {
   return next();
 });
 
-function clientAddress(request: Request, fallback: () => string): string {
-  if (getConfig().trustProxy) {
-    const forwarded = request.headers.get('x-forwarded-for')?.split(',')[0]?.trim();
-    if (forwarded) return forwarded;
-  }
-  try {
-    return fallback();
-  } catch {
-    return 'unknown';
-  }
+function clientAddress(request: Request): string {
+  const socketAddress = Reflect.get(request, socketAddressSymbol);
+  return signInClientAddress({
+    forwardedFor: request.headers.get('x-forwarded-for'),
+    socketAddress: typeof socketAddress === 'string' ? socketAddress : null,
+    trustProxy: getConfig().trustProxy,
+  });
 }
 
 function tooManyAttempts(request: Request, retryAfterSeconds: number): Response {
@@ -99,7 +117,8 @@ function tooManyAttempts(request: Request, retryAfterSeconds: number): Response 
   return new Response(page, { status: 429, headers: { 'Content-Type': 'text/html; charset=utf-8', 'Retry-After': String(retryAfterSeconds) } });
 }
 
-async function signInSucceeded(response: Response): Promise<boolean> {
+/** Whether an Auth.js answer (a redirect, or JSON with `url` under X-Auth-Return-Redirect) went to a page without `error=`. */
+async function authActionSucceeded(response: Response): Promise<boolean> {
   let target = response.headers.get('location');
   if (!target && (response.headers.get('content-type') ?? '').includes('application/json')) {
     try {
@@ -110,25 +129,64 @@ async function signInSucceeded(response: Response): Promise<boolean> {
     }
   }
   if (!target) return false;
-  return !new URL(target, 'http://x').searchParams.has('error');
+  try {
+    return !new URL(target, 'http://x').searchParams.has('error');
+  } catch {
+    return false;
+  }
 }
 
-const signInLimit = defineMiddleware(async (context, next) => {
+/** Whether a path names an action Auth.js has (the same parse as its parseActionAndProviderId). */
+function isAuthActionPath(pathname: string): boolean {
+  const parts = pathname.slice('/api/auth'.length).split('/').filter(Boolean);
+  if (parts.length !== 1 && parts.length !== 2) return false;
+  if (!authActions.has(parts[0])) return false;
+  return parts.length === 1 || authActionsWithProvider.has(parts[0]);
+}
+
+/**
+ * In front of Auth.js: its own 500s for unknown actions and methods become 404 and 405; every
+ * body is read through the capped reader before Auth.js reads it whole; the credentials callback
+ * is rate-limited; a sign-out also ends the session on the server.
+ */
+const authFront = defineMiddleware(async (context, next) => {
   const { request, url } = context;
-  if (request.method !== 'POST' || url.pathname !== credentialsCallback) return next();
-  let email = '';
-  try {
-    const form = await request.clone().formData();
-    email = String(form.get('email') ?? '').trim().toLowerCase().slice(0, 320);
-  } catch {
-    email = '';
+  if (url.pathname !== '/api/auth' && !url.pathname.startsWith('/api/auth/')) return next();
+  if (!isAuthActionPath(url.pathname)) return errorResponse(404, 'no-such-route', 'There is no such sign-in route.');
+  if (request.method !== 'GET' && request.method !== 'POST' && request.method !== 'HEAD') {
+    return errorResponse(405, 'method-not-allowed', 'The sign-in routes answer GET and POST only.', { Allow: 'GET, POST' });
   }
-  const address = clientAddress(request, () => context.clientAddress);
-  const allowance = signInAllowance(email, address);
-  if (!allowance.allowed) return tooManyAttempts(request, allowance.retryAfterSeconds);
-  const response = await next();
-  recordSignIn(email, address, await signInSucceeded(response));
-  return response;
+  if (request.method !== 'POST') return next();
+  let text: string;
+  try {
+    const bytes = await readBodyCapped(request.clone(), maxAuthBodyBytes);
+    text = new TextDecoder().decode(bytes);
+  } catch (error) {
+    // Neither copy of the body will be read: cancelling both lets the adapter drop the rest.
+    cancelQuietly(request.body);
+    if (error instanceof HttpError) return errorResponse(error.status, error.code, error.message);
+    throw error;
+  }
+  if (url.pathname === credentialsCallback) {
+    const email = signInEmailFromBody(request.headers.get('content-type'), text);
+    const address = clientAddress(request);
+    const allowance = signInAllowance(email, address);
+    if (!allowance.allowed) return tooManyAttempts(request, allowance.retryAfterSeconds);
+    const response = await next();
+    recordSignIn(email, address, await authActionSucceeded(response));
+    return response;
+  }
+  if (url.pathname === signOutAction) {
+    const user = context.locals.user;
+    const response = await next();
+    // The cookie Auth.js clears may have been copied: every session of this user ends here
+    // (current-user.ts refuses a token whose epoch is not the user's).
+    if (user && context.locals.authVia === 'session' && (await authActionSucceeded(response))) {
+      getDb().update(users).set({ sessionEpoch: sql`${users.sessionEpoch} + 1` }).where(eq(users.id, user.id)).run();
+    }
+    return response;
+  }
+  return next();
 });
 
 const gatePages = defineMiddleware((context, next) => {
@@ -145,4 +203,4 @@ const gatePages = defineMiddleware((context, next) => {
   return next();
 });
 
-export const onRequest = sequence(securityHeaders, startUp, originCheck, identify, signInLimit, gatePages);
+export const onRequest = sequence(securityHeaders, knownMethods, startUp, originCheck, identify, authFront, gatePages);

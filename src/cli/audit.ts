@@ -15,7 +15,7 @@
 import { readFile, writeFile } from 'node:fs/promises';
 import { basename } from 'node:path';
 import { parseArgs } from 'node:util';
-import { auditInputFromWave, AuditInputError, proposedCorrelationMethod } from '../lib/audit/audit-input';
+import { auditInputFromWave, AuditInputError, nothingToCompute, proposedCorrelationMethod } from '../lib/audit/audit-input';
 import { runAudit } from '../lib/audit/run-audit';
 import { auditSettingsSchema } from '../lib/audit/settings-schema';
 import { AUDIT_SETTINGS, AuditSettingsError, auditSettingsProblems, requestFromFlags, resolveAuditSettings } from '../lib/audit/settings-table';
@@ -129,6 +129,8 @@ async function main(argv: string[]): Promise<number> {
   );
 
   const input = auditInputFromWave(wave, { outcome, locked: settings.locked, leftOut: columnsLeftOut(proposal, setup), screening });
+  const nothing = nothingToCompute(input.matrix, { setAside: wave.excluded.length });
+  if (nothing) refuse(nothing);
   // No method asked for: 0/1 items get the tetrachoric correlation (polychoric on 0/1), since phi,
   // the Pearson r of 0/1 items, is bounded by their margins; rating items keep the default.
   if (fromFlags.method === undefined && fromFile.method === undefined && proposedCorrelationMethod(wave.items).method === 'polychoric') {

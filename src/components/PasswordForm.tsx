@@ -18,7 +18,8 @@ export default function PasswordForm({ email }: { email: string }) {
     }
     setBusy(true);
     setMessage(null);
-    const result = await meApi.changePassword({ currentPassword: String(form.get('currentPassword') ?? ''), newPassword });
+    const revokeTokens = form.get('revokeTokens') === 'on';
+    const result = await meApi.changePassword({ currentPassword: String(form.get('currentPassword') ?? ''), newPassword, revokeTokens });
     if (!result.ok) {
       setBusy(false);
       setMessage({ kind: 'error', text: result.error.message });
@@ -27,7 +28,9 @@ export default function PasswordForm({ email }: { email: string }) {
     const again = await signIn(email, newPassword, '/account');
     setBusy(false);
     formElement.reset();
-    setMessage(again.ok ? { kind: 'ok', text: 'Password changed. Other sessions have been signed out.' } : { kind: 'error', text: 'Password changed; sign in again with it.' });
+    const revoked = result.data.tokensRevoked;
+    const tokens = revoked > 0 ? ` ${revoked} API ${revoked === 1 ? 'token was' : 'tokens were'} revoked.` : '';
+    setMessage(again.ok ? { kind: 'ok', text: `Password changed. Other sessions have been signed out.${tokens}` } : { kind: 'error', text: `Password changed; sign in again with it.${tokens}` });
   }
 
   return (
@@ -45,6 +48,10 @@ export default function PasswordForm({ email }: { email: string }) {
         <label className="label" htmlFor="repeat-password">New password again</label>
         <input className="field" id="repeat-password" name="repeat" type="password" autoComplete="new-password" minLength={10} required />
       </div>
+      <label className="flex items-start gap-2 text-sm text-ink" htmlFor="revoke-tokens">
+        <input id="revoke-tokens" name="revokeTokens" type="checkbox" className="mt-1" data-testid="revoke-tokens" />
+        <span>Also revoke my API tokens (scripts using them stop working)</span>
+      </label>
       <button className="button" type="submit" disabled={busy}>{busy ? 'Changing…' : 'Change password'}</button>
       {message && (
         <p className={message.kind === 'error' ? 'error-text' : 'text-sm text-spruce-700'} role={message.kind === 'error' ? 'alert' : 'status'}>

@@ -30,7 +30,7 @@ export default function DropZone({
     if (files.length > 0) onFile(files[0], files.slice(1));
   }
 
-  const size = !file ? '' : file.size >= 1024 * 1024 ? `${(file.size / (1024 * 1024)).toFixed(1)} MB` : file.size >= 1024 ? `${Math.round(file.size / 1024)} KB` : `${file.size} bytes`;
+  const size = !file ? '' : file.size >= 1024 * 1024 ? `${(file.size / (1024 * 1024)).toFixed(1)} MiB` : file.size >= 1024 ? `${Math.round(file.size / 1024)} KiB` : `${file.size} bytes`;
   return (
     <div
       data-testid={testId}

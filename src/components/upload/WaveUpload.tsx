@@ -1,5 +1,6 @@
 import { useCallback, useState, type FormEvent } from 'react';
 import { wavesApi, type UploadWaveResponse, type WaveView } from '../../lib/api/waves';
+import { formatMebibytes } from '../../lib/words/formats';
 import DropZone from './DropZone';
 import ScreeningStep from './ScreeningStep';
 import SetupTable from './SetupTable';
@@ -18,7 +19,7 @@ const steps: readonly { key: Step; label: string }[] = [
 const accept = '.csv,.tsv,.txt,.xlsx,.xls,.ods,text/csv,text/plain,application/vnd.openxmlformats-officedocument.spreadsheetml.sheet,application/vnd.ms-excel,application/vnd.oasis.opendocument.spreadsheet';
 
 function megabytes(bytes: number): string {
-  return `${Math.round(bytes / (1024 * 1024))} MB`;
+  return formatMebibytes(bytes);
 }
 
 function StepList({ current }: { current: Step }) {

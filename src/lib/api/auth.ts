@@ -3,6 +3,7 @@
  * not Paredown's API routes (no contract of ours), so they live beside the typed client rather
  * than in it.
  */
+import { safeNextPath } from '../safe-path';
 
 async function csrfToken(): Promise<string> {
   const response = await fetch('/api/auth/csrf', { credentials: 'same-origin' });
@@ -52,8 +53,5 @@ export async function signOut(): Promise<void> {
   location.assign('/signin');
 }
 
-/** A same-site path to go to after signing in (anything else becomes `/`). */
-export function safeNext(value: string | null | undefined): string {
-  if (!value || !value.startsWith('/') || value.startsWith('//') || value.startsWith('/\\')) return '/';
-  return value;
-}
+/** A same-site path to go to after signing in (anything else becomes `/`); src/lib/safe-path.ts. */
+export const safeNext = safeNextPath;

@@ -21,6 +21,8 @@ export type ChangePasswordRequest = z.input<typeof changePasswordRequest>;
 export interface ChangePasswordResponse {
   changed: true;
   signInAgain: true;
+  /** How many personal API tokens were revoked (0 unless asked). */
+  tokensRevoked: number;
 }
 
 /** The typed calls of this domain. */

@@ -15,9 +15,10 @@ export interface SetupResponse {
 }
 
 /** GET /api/health. */
-export interface HealthResponse {
-  status: 'ok';
-}
+export type HealthResponse =
+  | { status: 'ok' }
+  /** 503: the upload storage cannot be written, so uploads are refused until it can. */
+  | { status: 'degraded'; storage: 'not-writable'; message: string };
 
 /** The typed calls of this domain. */
 export const setupApi = {

@@ -6,7 +6,7 @@
 import { includedRows } from '../ingest/build-wave';
 import type { ScreeningResult } from '../ingest/screening/screen-respondents';
 import type { BuiltWave } from '../ingest/types';
-import { selectRespondents } from '../stats/types';
+import { selectRespondents, type ItemMatrix } from '../stats/types';
 import type { AuditInput } from './run-audit';
 
 /** Thrown when the settings ask for something the wave does not have (a client's mistake). */
@@ -94,4 +94,43 @@ export function auditInputFromWave(wave: Pick<BuiltWave, 'matrix' | 'items' | 'o
       ? { screening: { itemTypes: options.screening.itemTypes, rules: options.screening.rules.map(({ code, applied, items, note }) => ({ code, applied, items, note })), proposedExclusions: options.screening.proposedExclusions.length } }
       : {}),
   };
+}
+
+/**
+ * Why an audit would have nothing to compute: fewer than two respondents, or fewer than two items
+ * that vary (two different answers) among them. Such an audit is refused before it starts (the
+ * command line exits 2, the API answers 422 `nothing-to-compute`) rather than run into a JSON of
+ * nulls.
+ * @param matrix the wave's recoded answers (column-major, NaN for missing).
+ * @param options skipRows: 0-based rows left out of the audit (the exclusions), when the matrix
+ *   still holds them; setAside: how many respondents were left out, to name in the sentence
+ *   (the length of skipRows by default).
+ * @returns one sentence saying why, or null when there is something to compute.
+ */
+export function nothingToCompute(matrix: ItemMatrix, options: { skipRows?: readonly number[]; setAside?: number } = {}): string | null {
+  const skip = new Set(options.skipRows ?? []);
+  const rows: number[] = [];
+  for (let i = 0; i < matrix.rows; i++) if (!skip.has(i)) rows.push(i);
+  const setAside = options.setAside ?? skip.size;
+  const aside = setAside > 0 ? ` (${setAside} ${setAside === 1 ? 'was' : 'were'} left out by screening or by hand)` : '';
+  if (rows.length < 2) {
+    const who = rows.length === 0 ? 'There is no respondent' : 'There is only one respondent';
+    return `${who} in the audit${aside}, and an audit compares answers across respondents, so it needs at least two.`;
+  }
+  let varying = 0;
+  for (let j = 0; j < matrix.columns && varying < 2; j++) {
+    let first = Number.NaN;
+    for (const i of rows) {
+      const value = matrix.data[j * matrix.rows + i];
+      if (Number.isNaN(value)) continue;
+      if (Number.isNaN(first)) first = value;
+      else if (value !== first) {
+        varying++;
+        break;
+      }
+    }
+  }
+  if (varying >= 2) return null;
+  const some = varying === 0 ? 'No item has' : 'Only one item has';
+  return `${some} two different answers among the ${rows.length} respondents in the audit${aside}, so there is nothing to compare; check the column setup and the exclusions.`;
 }

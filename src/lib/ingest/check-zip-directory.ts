@@ -10,6 +10,7 @@ import { Buffer } from 'node:buffer';
 import yauzl from 'yauzl';
 import type { ReadLimits } from './read-limits';
 import { WaveRefusal } from './wave-refusal';
+import { formatMebibytes } from '../words/formats';
 
 /** What the central directory says. */
 export interface ZipDirectory {
@@ -20,13 +21,15 @@ export interface ZipDirectory {
   readonly uncompressedBytes: number;
 }
 
+// One size unit in every message (docs/decisions/014-hardening.md).
+
 const LOCAL_HEADER_SIGNATURE = 0x04034b50;
 const DATA_DESCRIPTOR_FLAG = 0x0008;
 const ENCRYPTED_FLAG = 0x0001;
 const ZIP64_MARKER = 0xffffffff;
 
 function megabytes(bytes: number): string {
-  return `${Math.round(bytes / 1e6)} MB`;
+  return formatMebibytes(bytes);
 }
 
 function openZip(buffer: Buffer): Promise<yauzl.ZipFile> {

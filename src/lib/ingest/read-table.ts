@@ -11,6 +11,7 @@ import { readWorkbook, type WorkbookSheet } from './read-workbook';
 import { shapeTable } from './shape-table';
 import type { TableFormat, TableSource, WaveTable, WaveWarning } from './types';
 import { WaveRefusal } from './wave-refusal';
+import { formatMebibytes } from '../words/formats';
 
 /** Options for {@link readTable}. */
 export interface ReadTableOptions {
@@ -53,7 +54,7 @@ export async function readTable(
   const resolved = resolveReadLimits(limits);
   if (!(bytes instanceof Uint8Array)) throw new TypeError('readTable: bytes must be a Uint8Array');
   if (bytes.byteLength > resolved.maxBytes) {
-    throw new WaveRefusal(413, 'file-too-large', `"${fileName}" is ${Math.ceil(bytes.byteLength / 1e6)} MB, more than the limit of ${Math.round(resolved.maxBytes / 1e6)} MB; upload only the responses needed, or a sample.`);
+    throw new WaveRefusal(413, 'file-too-large', `"${fileName}" is ${formatMebibytes(bytes.byteLength)}, more than the limit of ${formatMebibytes(resolved.maxBytes)}; upload only the responses needed, or a sample.`);
   }
   if (bytes.byteLength === 0) {
     throw new WaveRefusal(422, 'empty-file', `"${fileName}" is empty (0 bytes); upload the export that contains the responses.`);

@@ -98,7 +98,7 @@ export function parseWorkbookInWorker(bytes: Uint8Array, fileName: string, limit
       resourceLimits: { maxOldGenerationSizeMb: limits.maxWorkbookMemoryMb },
     });
     let settled = false;
-    const tooDemanding = () => new WaveRefusal(413, 'workbook-too-demanding', `Reading "${fileName}" needed more than the allowed ${limits.maxWorkbookMemoryMb} MB of memory or ${limits.maxWorkbookSeconds} seconds, so it is too large or damaged; save the responses alone as CSV and upload that.`);
+    const tooDemanding = () => new WaveRefusal(413, 'workbook-too-demanding', `Reading "${fileName}" needed more than the allowed ${limits.maxWorkbookMemoryMb.toLocaleString('en-GB')} MiB of memory or ${limits.maxWorkbookSeconds} seconds, so it is too large or damaged; save the responses alone as CSV and upload that.`);
     const finish = (outcome: () => void) => {
       if (settled) return;
       settled = true;

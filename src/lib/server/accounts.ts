@@ -1,6 +1,6 @@
 /** Accounts: the first owner on an empty database, and password changes. */
-import { eq, sql } from 'drizzle-orm';
-import { memberships, teams, users } from '../../db/schema';
+import { and, eq, isNull, sql } from 'drizzle-orm';
+import { apiTokens, memberships, teams, users } from '../../db/schema';
 import { logActivity } from './activity';
 import type { CurrentUser } from './current-user';
 import { getDb } from './db';
@@ -31,21 +31,28 @@ export async function createFirstOwner(input: { teamName: string; name: string; 
 }
 
 /**
- * Changes the user's password; sessions issued before stop working.
+ * Changes the user's password; every session issued before stops working (the session epoch
+ * goes up, src/lib/server/current-user.ts), and the personal API tokens too when asked.
  * @param user the signed-in user.
  * @param currentPassword their present password.
  * @param newPassword the new one (policy checked by the caller's schema).
+ * @param options revokeTokens: also revoke every personal API token of the user.
  * @throws HttpError 400 when the present password is wrong.
+ * @returns how many API tokens were revoked.
  */
-export async function changePassword(user: CurrentUser, currentPassword: string, newPassword: string): Promise<void> {
+export async function changePassword(user: CurrentUser, currentPassword: string, newPassword: string, options: { revokeTokens?: boolean } = {}): Promise<{ tokensRevoked: number }> {
   const db = getDb();
   const row = db.select({ passwordHash: users.passwordHash }).from(users).where(eq(users.id, user.id)).get();
   if (!row || !(await verifyPassword(currentPassword, row.passwordHash))) {
     throw fail.badRequest('The present password is not right.', 'wrong-password');
   }
   const passwordHash = await hashPassword(newPassword);
-  db.transaction((tx) => {
+  return db.transaction((tx) => {
     tx.update(users).set({ passwordHash, sessionEpoch: sql`${users.sessionEpoch} + 1` }).where(eq(users.id, user.id)).run();
-    logActivity(tx, { userId: user.id, action: 'account.password-changed' });
+    const tokensRevoked = options.revokeTokens
+      ? tx.update(apiTokens).set({ revokedAt: new Date() }).where(and(eq(apiTokens.userId, user.id), isNull(apiTokens.revokedAt))).run().changes
+      : 0;
+    logActivity(tx, { userId: user.id, action: 'account.password-changed', detail: { tokensRevoked } });
+    return { tokensRevoked };
   });
 }

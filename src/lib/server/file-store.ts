@@ -13,6 +13,7 @@ import type { Db } from '../../db/client';
 import { storedFiles, waves } from '../../db/schema';
 import { contentHash } from '../ingest/content-hash';
 import { getConfig } from './config';
+import { writingToStorage } from './storage-fault';
 
 /** A transaction as Drizzle's better-sqlite3 driver passes it. */
 export type Tx = Parameters<Parameters<Db['transaction']>[0]>[0];
@@ -97,7 +98,7 @@ export class FileTransaction {
    * @param originalName the name it was uploaded under.
    * @param mediaType its media type, when known.
    * @param hash the bytes' sha256, when the caller has it already (computed here otherwise).
-   * @throws Error when `hash` is not 64 lower-case hex digits.
+   * @throws Error when `hash` is not 64 lower-case hex digits; StorageUnavailableError when the folder cannot be written.
    * @returns the hash, size and path relative to the store's folder.
    */
   write(bytes: Uint8Array, originalName: string, mediaType: string | null, hash = contentHash(bytes)): StoredFileRecord {
@@ -106,10 +107,13 @@ export class FileTransaction {
     const storagePath = join(hash.slice(0, 2), hash);
     const target = this.store.pathOf(storagePath);
     if (!existsSync(target)) {
-      mkdirSync(dirname(target), { recursive: true });
       const partial = `${target}.partial-${process.pid}`;
-      writeFileSync(partial, bytes, { mode: 0o600 });
-      renameSync(partial, target);
+      // An unwritable folder is the server's fault: 503 naming storage (storage-fault.ts).
+      writingToStorage(partial, () => {
+        mkdirSync(dirname(target), { recursive: true });
+        writeFileSync(partial, bytes, { mode: 0o600 });
+        renameSync(partial, target);
+      });
     }
     this.tx.insert(storedFiles).values({ hash, size: bytes.byteLength, originalName, mediaType, storagePath }).onConflictDoNothing().run();
     const record = { hash, size: bytes.byteLength, storagePath };

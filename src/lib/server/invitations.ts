@@ -121,8 +121,8 @@ export async function acceptInvitation(token: string, caller: CurrentUser | null
   const invitation = findInvitation(token);
   if (!invitation) throw fail.notFound('This invitation link is not valid.', 'invitation-not-found');
   if (invitation.state !== 'open') {
-    const said = { accepted: 'used already', expired: 'expired', revoked: 'replaced or withdrawn' }[invitation.state];
-    throw fail.conflict(`This invitation has been ${said}; ask the team owner for a new one.`, `invitation-${invitation.state}`);
+    const said = { accepted: 'has been used already', expired: 'has expired', revoked: 'has been replaced or withdrawn' }[invitation.state];
+    throw fail.conflict(`This invitation ${said}; ask the team owner for a new one.`, `invitation-${invitation.state}`);
   }
   if (caller && caller.email !== invitation.email) {
     throw fail.forbidden(`This invitation is for ${invitation.email}; sign out and accept it as that address.`, 'invitation-for-another-address');

@@ -133,7 +133,7 @@ export function usableItems(matrix: ItemMatrix): UsableItems {
         items: [j],
         message:
           observed === 0
-            ? 'This item has no answers at all, so it cannot be correlated; it is left out.'
+            ? 'This item has no answers among the respondents in the audit (respondents set aside by screening do not count), so it cannot be correlated; it is left out.'
             : 'This item has a single answer, too few to correlate; it is left out.',
       });
     } else if (!varies) {

@@ -8,4 +8,9 @@ export const passwordSchema = z
   .max(200, 'The password may have at most 200 characters.');
 
 /** Body of PUT /api/me/password. */
-export const changePasswordRequest = z.object({ currentPassword: z.string().min(1).max(200), newPassword: passwordSchema });
+export const changePasswordRequest = z.object({
+  currentPassword: z.string().min(1).max(200),
+  newPassword: passwordSchema,
+  /** Also revoke every personal API token (sessions always end). */
+  revokeTokens: z.boolean().optional(),
+});

@@ -16,7 +16,9 @@ import { logActivity } from '../activity';
 import { getConfig } from '../config';
 import type { CurrentUser } from '../current-user';
 import { getDb } from '../db';
-import { fail } from '../errors';
+import { fail, HttpError } from '../errors';
+import { nothingToCompute } from '../../audit/audit-input';
+import { decodeMatrix } from '../../ingest/matrix-blob';
 import type { StudyRow } from '../guard';
 import { newId } from '../ids';
 import { parseStoredSetup, type WaveRow } from '../waves/stored-wave';
@@ -137,7 +139,8 @@ export class AuditJobs {
    * @param request the request's settings (validated by the route's schema).
    * @param options `allowTestFaults` (test servers).
    * @throws {HttpError} 409 `wave-not-confirmed` when the wave's setup is not confirmed (or it has
-   *   no stored responses); 400 `invalid-settings`, `unknown-locked-item`, `unknown-outcome`.
+   *   no stored responses); 400 `invalid-settings`, `unknown-locked-item`, `unknown-outcome`;
+   *   422 `nothing-to-compute` when fewer than two respondents or two varying items are left.
    * @returns the audit and whether it was reused.
    */
   start(user: CurrentUser, study: StudyRow, wave: WaveRow, request: AuditSettingsRequest, options: { allowTestFaults: boolean }): StartedAudit {
@@ -145,6 +148,8 @@ export class AuditJobs {
       throw fail.conflict(`The wave "${wave.label}" is not confirmed yet: confirm its column setup before running an audit.`, 'wave-not-confirmed');
     }
     const settings = this.checkedAgainstWave(resolveAuditSettings(request, study.settings, options), wave, request.locked !== undefined);
+    const nothing = nothingToCompute(decodeMatrix(wave.matrix), { skipRows: wave.exclusions });
+    if (nothing) throw new HttpError(422, 'nothing-to-compute', nothing);
     const settingsHash = auditSettingsHash(settings, wave.exclusions);
     const outcome = this.db.transaction((tx) => {
       const existing = tx

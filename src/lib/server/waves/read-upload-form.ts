@@ -3,7 +3,9 @@
  * checked before a byte is read, and the stream is cut off as soon as it passes the cap, so an
  * oversized upload costs at most the cap in memory.
  */
+import { formatMebibytes } from '../../words/formats';
 import { HttpError } from '../errors';
+import { readBodyCapped } from '../read-body';
 
 /** Room for a codebook file and the form's framing on top of the upload limit. */
 export const CODEBOOK_AND_FORM_ALLOWANCE = 8 * 1024 * 1024;
@@ -26,56 +28,25 @@ export interface UploadForm {
   readonly asNewWave: boolean;
 }
 
-function megabytes(bytes: number): string {
-  return `${Math.round(bytes / (1024 * 1024))} MB`;
-}
-
 function tooLarge(limitBytes: number): HttpError {
   return new HttpError(
     413,
     'file-too-large',
-    `The upload is larger than the limit of ${megabytes(limitBytes)} (plus room for a codebook); upload only the responses needed, or a sample.`,
+    `The upload is larger than the limit of ${formatMebibytes(limitBytes)} (plus room for a codebook); upload only the responses needed, or a sample.`,
   );
 }
 
 /**
- * Reads a request body into memory, refusing it once it passes a size.
+ * Reads a request body into memory, refusing it once it passes a size (the server's one capped
+ * reader, src/lib/server/read-body.ts, with the upload's own 413).
  * @param request the request.
  * @param capBytes the most bytes read.
  * @param limitBytes the configured upload limit (named in the message).
  * @throws HttpError 413 `file-too-large` when the declared or actual length passes the cap; 400 `bad-body` when the stream fails.
  * @returns the bytes.
- * References: Fielding, Nottingham & Reschke 2022, RFC 9110 "HTTP Semantics" §8.6 (Content-Length), §15.5.14 (413).
  */
-export async function readCappedBody(request: Request, capBytes: number, limitBytes: number): Promise<Uint8Array<ArrayBuffer>> {
-  const declared = request.headers.get('content-length');
-  if (declared !== null && Number(declared) > capBytes) throw tooLarge(limitBytes);
-  if (!request.body) return new Uint8Array(new ArrayBuffer(0));
-  const reader = request.body.getReader();
-  const chunks: Uint8Array[] = [];
-  let total = 0;
-  try {
-    for (;;) {
-      const { done, value } = await reader.read();
-      if (done) break;
-      total += value.byteLength;
-      if (total > capBytes) {
-        await reader.cancel().catch(() => undefined);
-        throw tooLarge(limitBytes);
-      }
-      chunks.push(value);
-    }
-  } catch (error) {
-    if (error instanceof HttpError) throw error;
-    throw new HttpError(400, 'bad-body', 'The upload was interrupted before it was complete; try again.');
-  }
-  const bytes = new Uint8Array(new ArrayBuffer(total));
-  let offset = 0;
-  for (const chunk of chunks) {
-    bytes.set(chunk, offset);
-    offset += chunk.byteLength;
-  }
-  return bytes;
+export function readCappedBody(request: Request, capBytes: number, limitBytes: number): Promise<Uint8Array<ArrayBuffer>> {
+  return readBodyCapped(request, capBytes, () => tooLarge(limitBytes));
 }
 
 /**

@@ -5,13 +5,30 @@
  */
 import { asc, eq } from 'drizzle-orm';
 import { waveItems } from '../../../db/schema';
-import type { ScreeningResult } from '../../ingest';
+import type { ScreeningResult, WaveWarning } from '../../ingest';
 import { getDb } from '../db';
 import {
   mergeWarnings, parseStoredSetup, screeningDetail, screeningSummary, waveSummary, type StoredWaveSetup, type WaveRow,
 } from './stored-wave';
 import type { ItemView, WaveView } from '../../api/waves';
 export type { ItemView, OutcomeView, WaveView } from '../../api/waves';
+
+/**
+ * A warning as a caller without `read:respondents` may see it: the ones that quote respondent
+ * ids (`duplicate-respondent-id`) keep their count only. Every other warning names columns and
+ * counts, never a respondent's id or answer (docs/decisions/014-hardening.md).
+ * @param warning the warning as stored.
+ * @returns the warning to show.
+ */
+export function aggregateWarning(warning: WaveWarning): WaveWarning {
+  if (warning.code !== 'duplicate-respondent-id') return warning;
+  const counted = /^(\d+) respondent/.exec(warning.message);
+  const n = counted ? Number(counted[1]) : null;
+  const message = n === null
+    ? 'Some respondent ids appear more than once; check for doubled rows.'
+    : `${n} respondent ${n === 1 ? 'id appears' : 'ids appear'} more than once; check for doubled rows.`;
+  return { code: warning.code, columns: warning.columns, message };
+}
 
 /** The parts of a view that a build (stored or not) supplies. */
 export interface ViewParts {
@@ -37,7 +54,7 @@ export function assembleView(parts: ViewParts, respondentLevel: boolean): WaveVi
     setup: respondentLevel ? stored.columns : null,
     items: parts.items,
     outcomes: (stored.outcomes ?? []).map(({ id, header, counts }) => ({ id, header, counts })),
-    warnings: mergeWarnings(stored.warnings, stored.buildWarnings),
+    warnings: respondentLevel ? mergeWarnings(stored.warnings, stored.buildWarnings) : mergeWarnings(stored.warnings, stored.buildWarnings).map(aggregateWarning),
     screening: respondentLevel ? screeningDetail(screening, parts.respondentIds) : screeningSummary(screening),
     screeningNote: screening ? null : stored.screeningNote ?? 'No screening has been made for this wave.',
     exclusions: respondentLevel ? [...parts.exclusions] : null,

@@ -1,0 +1,89 @@
+/**
+ * Two fixes to the Node adapter's request handling, applied to its code while Vite bundles it
+ * into dist/server (the files in node_modules are never changed):
+ *
+ * 1. The client address. Astro's NodeApp takes the first `X-Forwarded-For` value as the client
+ *    address whatever the configuration, so anyone could pick the address the sign-in limit
+ *    counts against. The socket's own address is kept on the request under
+ *    {@link socketAddressSymbol}; the middleware uses forwarded headers only with TRUST_PROXY=1.
+ * 2. Methods the Fetch API refuses (TRACE, TRACK, CONNECT): `new Request()` throws for them and
+ *    the adapter answered 500. They get 405 with the security headers.
+ *
+ * Each edit must find the text it replaces: an upgrade of astro or @astrojs/node that changes
+ * it fails the build here, so the fix is never silently lost (docs/decisions/014-hardening.md).
+ */
+import type { Plugin } from 'vite';
+
+/** Where the socket's remote address is kept on each Request. */
+export const socketAddressSymbol = Symbol.for('paredown.socketAddress');
+
+interface Edit {
+  /** The end of the module id (a path inside node_modules). */
+  file: string;
+  find: string;
+  replace: string;
+}
+
+const refusedMethodAnswer = `
+      const refusedMethod = /^(TRACE|TRACK|CONNECT)$/i.test(String(req.method ?? ""));
+      res.statusCode = refusedMethod ? 405 : 400;
+      if (refusedMethod) res.setHeader("Allow", "GET, HEAD, POST, PUT, PATCH, DELETE");
+      res.setHeader("Content-Type", "application/json; charset=utf-8");
+      res.setHeader("Cache-Control", "no-store");
+      res.setHeader("X-Content-Type-Options", "nosniff");
+      res.setHeader("X-Frame-Options", "DENY");
+      res.setHeader("Referrer-Policy", "same-origin");
+      res.setHeader("Content-Security-Policy", "default-src 'none'; frame-ancestors 'none'");
+      res.end(JSON.stringify({ error: refusedMethod
+        ? { code: "method-not-allowed", message: "This server does not answer " + String(req.method) + " requests." }
+        : { code: "bad-request", message: "The request could not be read." } }));`;
+
+export const nodeAdapterEdits: readonly Edit[] = [
+  {
+    file: '/astro/dist/core/app/node.js',
+    find: 'const clientIp = forwardedClientIp || req.socket?.remoteAddress;',
+    replace: `Reflect.set(request, Symbol.for("paredown.socketAddress"), req.socket?.remoteAddress ?? "");
+    const clientIp = forwardedClientIp || req.socket?.remoteAddress;`,
+  },
+  {
+    file: '/@astrojs/node/dist/serve-app.js',
+    find: `      logger.error(\`Could not render \${req.url}\`);
+      console.error(err);
+      res.statusCode = 500;
+      res.end("Internal Server Error");`,
+    replace: refusedMethodAnswer,
+  },
+];
+
+/**
+ * The Vite plugin that applies {@link nodeAdapterEdits}.
+ * @throws Error (failing the build) when a file's text to replace is not found.
+ * @returns the plugin.
+ */
+export function nodeAdapterHardening(): Plugin {
+  const seen = new Set<string>();
+  return {
+    name: 'paredown-node-adapter-hardening',
+    enforce: 'pre',
+    transform(code, id) {
+      const path = id.split('?')[0].replaceAll('\\', '/');
+      let changed = code;
+      for (const edit of nodeAdapterEdits) {
+        if (!path.endsWith(edit.file)) continue;
+        if (!changed.includes(edit.find)) {
+          throw new Error(`paredown-node-adapter-hardening: ${edit.file} no longer holds the text this fix replaces; see docs/decisions/014-hardening.md`);
+        }
+        changed = changed.replace(edit.find, edit.replace);
+        seen.add(edit.file);
+      }
+      return changed === code ? null : { code: changed, map: null };
+    },
+    buildEnd(error) {
+      if (error) return;
+      const missing = nodeAdapterEdits.filter((edit) => !seen.has(edit.file));
+      if (missing.length > 0 && seen.size > 0) {
+        throw new Error(`paredown-node-adapter-hardening: not applied to ${missing.map((edit) => edit.file).join(', ')}`);
+      }
+    },
+  };
+}
