@@ -68,9 +68,10 @@ describe('audits in Chromium', () => {
       await page.locator('[data-testid=recommendation]:has-text("dig_1")').screenshot({ path: join(screenshots, 'audit-page-recommendation.png') });
       await page.locator('#after-cut').screenshot({ path: join(screenshots, 'audit-page-after-cut.png') });
       // The driver model of the outcome chosen in the form, before and after the cut.
+      // (the panel hydrates when its section scrolls into view, then loads its slice)
+      await page.locator('#driver-model').scrollIntoViewIfNeeded();
       const driver = page.locator('[data-testid=driver-model]');
-      await driver.scrollIntoViewIfNeeded();
-      await driver.waitFor({ state: 'visible', timeout: 15_000 });
+      await driver.waitFor({ state: 'visible', timeout: 30_000 });
       expect(await driver.locator('[data-testid=driver-model-table] tbody tr').count()).toBeGreaterThan(10);
       expect(await driver.locator('[data-testid=driver-model-bars] rect').count()).toBeGreaterThan(20);
       await expect(driver.locator('[data-testid=driver-model-sentences] li').first().textContent()).resolves.toMatch(/standard error is [\d.]+× what it would be/);

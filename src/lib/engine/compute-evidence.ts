@@ -29,7 +29,7 @@ import { POLYCHORIC_MINIMUM_N, REPAIR_EIGENVALUE_FLOOR, TETRACHORIC_MINIMUM_N } 
 import { selectItems, type ItemMatrix, type NumericalNotice, type SquareMatrix } from '../stats/types';
 import { undefinedPairCover } from '../stats/undefined-pair-cover';
 import { varianceInflation } from '../stats/variance-inflation';
-import { DEFAULT_ENGINE_SETTINGS, type EngineSettings } from './engine-settings';
+import { DEFAULT_ENGINE_SETTINGS, MAX_EM_ITEMS, type EngineSettings } from './engine-settings';
 import { coreDetectors } from './core-detectors';
 import { localDependenceEvidence, type LocalDependenceDetectors, type LocalDependenceReuse, type LocalDependenceSettings } from './local-dependence';
 import { principalSubmatrix } from './principal-submatrix';
@@ -523,7 +523,8 @@ function collinearityEvidence(
   // With scattered missing answers the complete rows can be too few (a 54-item wave with 3%
   // missing keeps about 44 of 400): the cross-products then come from the EM estimate of the
   // means and covariances under missing at random, from every row (Dempster, Laird & Rubin 1977).
-  if (result.rowsUsed < width + 1 || (detail === 'full' && result.rowsUsed < EM_COMPLETE_ROW_SHARE * data.rows)) {
+  const emAffordable = usable.length <= MAX_EM_ITEMS;
+  if (emAffordable && (result.rowsUsed < width + 1 || (detail === 'full' && result.rowsUsed < EM_COMPLETE_ROW_SHARE * data.rows))) {
     try {
       const em = emCovariance(data);
       result = belsleyCollinearityFromMoments(em.means, em.covariance, em.rows);
@@ -543,7 +544,7 @@ function collinearityEvidence(
     warnings.push({
       code: 'collinearity-skipped',
       items: [],
-      message: `Only ${result.rowsUsed} respondents answered every item, too few for condition indices over ${usable.length} items and an intercept; near-dependencies were not checked.`,
+      message: `Only ${result.rowsUsed} respondents answered every item, too few for condition indices over ${usable.length} items and an intercept${emAffordable ? '' : ` (the EM estimate from every respondent is made for at most ${MAX_EM_ITEMS} items)`}; near-dependencies were not checked.`,
     });
     return null;
   }

@@ -155,6 +155,22 @@ export const ENGINE_SETTING_RULES: { readonly [Key in keyof EngineSettings]: Eng
 export const ENGINE_SETTING_NAMES = Object.freeze(Object.keys(ENGINE_SETTING_RULES)) as readonly (keyof EngineSettings)[];
 
 /** The defaults, read from the rules above. */
+/**
+ * The partial-correlation network (graphical lasso over a path of penalties) is estimated only for
+ * at most this many items: its cost grows with the cube of the items times the path length, and
+ * past this size one audit's network took minutes on a 2-core machine. Larger waves get the
+ * residual rule and the other evidence, with a warning (house figure).
+ */
+export const MAX_NETWORK_ITEMS = 120;
+
+/**
+ * The EM estimate of means and covariances (for condition indices when few respondents answered
+ * every item) runs for at most this many items: each iteration works through every respondent's
+ * own pattern of answers with a matrix of that size, which at 300 items took many minutes. Larger
+ * waves with too few complete rows skip the near-dependency check, with a warning (house figure).
+ */
+export const MAX_EM_ITEMS = 80;
+
 export const DEFAULT_ENGINE_SETTINGS: EngineSettings = Object.freeze(
   Object.fromEntries(ENGINE_SETTING_NAMES.map((name) => [name, ENGINE_SETTING_RULES[name].default])),
 ) as unknown as EngineSettings;

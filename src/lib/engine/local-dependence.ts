@@ -11,6 +11,7 @@
  */
 import type { SquareMatrix } from '../stats/types';
 import { principalSubmatrix } from './principal-submatrix';
+import { MAX_NETWORK_ITEMS } from './engine-settings';
 import type { EngineItem, EngineWarning, LocalDependenceEvidence, ScaleResidualEvidence } from './types';
 
 /** Residual correlations of one scale after its one-factor model. */
@@ -165,7 +166,13 @@ export function localDependenceEvidence(
   const dropped = new Set<number>();
   for (const group of exactDependencies) for (const item of group.slice(1)) dropped.add(position.get(item) as number);
   const kept = usable.map((_, k) => k).filter((k) => !dropped.has(k));
-  if (kept.length >= 3) {
+  if (kept.length > MAX_NETWORK_ITEMS) {
+    warnings.push({
+      code: 'network-skipped',
+      items: [],
+      message: `The partial-correlation network is estimated for at most ${MAX_NETWORK_ITEMS} items and this wave has ${kept.length} in the matrix, so weighted topological overlap was not checked; the residual rule and the other evidence still were. Audit the scales in smaller groups to check it.`,
+    });
+  } else if (kept.length >= 3) {
     try {
       const fitted = detectors.network(dropped.size === 0 ? correlation : principalSubmatrix(correlation, kept), sampleSize, {
         gamma: settings.ebicGamma,
