@@ -12,7 +12,7 @@
 import { memo, useCallback, useEffect, useMemo, useRef, useState } from 'react';
 import { callApi } from '../../lib/api/client';
 import { mapCorrelation, type MapOrdering, type OverlapMap as OverlapMapData, type OverlapMapPair } from '../../lib/api/overlap-map';
-import { colourOf, writeColour } from './overlap-colours';
+import { colourOf, writeColour } from '../../lib/overlap-colours';
 import PairDetail from './PairDetail';
 import { HoverCard, formatR as format } from './PairFigures';
 

@@ -5,9 +5,9 @@
  * alive). The request thread never computes: it only reads rows and waits for the answer.
  * docs/decisions/011-decisions-and-what-if.md.
  */
-import { parseStoredSetup } from '../waves/stored-wave';
+import { storedWaveForJob } from './audit-jobs';
 import { eq } from 'drizzle-orm';
-import { audits, waveItems, waves } from '../../../db/schema';
+import { audits, waves } from '../../../db/schema';
 import type { Db } from '../../../db/client';
 import type { WhatIfResponse } from '../../api/cut-list';
 import type { AuditJson } from '../../audit/audit-json';
@@ -77,20 +77,11 @@ export class WhatIfJobs {
     if (auditSettingsHash(settings, wave.exclusions) !== settingsHash) {
       throw fail.conflict("The wave's excluded respondents changed after this audit ran, so its what-if would not match it; run a new audit.", 'exclusions-changed');
     }
-    const items = this.db.select().from(waveItems).where(eq(waveItems.waveId, wave.id)).orderBy(waveItems.position).all();
-    // The audit's outcome, so the what-if can refit its driver model after the decisions too.
-    const outcomes = settings.outcome === null ? [] : (parseStoredSetup(wave.setup, wave.rowCount).outcomes ?? []).filter((entry) => entry.id === settings.outcome);
     return {
       jobId: `what-if-${auditId}-${nextJob++}`,
       key: `${auditId}:${settingsHash}`,
       auditId,
-      wave: {
-        matrixBlob: wave.matrix,
-        respondents: wave.rowCount,
-        excluded: wave.exclusions,
-        items: items.map((item) => ({ id: item.itemId, scale: item.scale, reverse: item.reverse, min: item.min ?? Number.NaN, max: item.max ?? Number.NaN, text: item.text })),
-        outcomes: outcomes.map(({ id, header, values }) => ({ id, header, values })),
-      },
+      wave: storedWaveForJob(this.db, wave, wave.matrix, settings.outcome),
       settings,
       removed: [...removed],
     };
