@@ -8,9 +8,8 @@
  */
 import { Buffer } from 'node:buffer';
 import yauzl from 'yauzl';
-import type { ReadLimits } from './read-limits';
+import { formatMebibytes, type ReadLimits } from './read-limits';
 import { WaveRefusal } from './wave-refusal';
-import { formatMebibytes } from '../words/formats';
 
 /** What the central directory says. */
 export interface ZipDirectory {

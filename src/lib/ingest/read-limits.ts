@@ -52,3 +52,15 @@ export function resolveReadLimits(limits: Partial<ReadLimits> = {}): ReadLimits 
   }
   return Object.freeze(resolved);
 }
+
+/**
+ * A size in mebibytes (1 MiB = 1,048,576 bytes), the one unit every size limit is stated in
+ * (docs/decisions/014-hardening.md).
+ * @param bytes a number of bytes.
+ * @returns e.g. `50 MiB`, or `0.5 MiB` below one.
+ */
+export function formatMebibytes(bytes: number): string {
+  const mib = bytes / (1024 * 1024);
+  if (mib >= 1) return `${Math.round(mib).toLocaleString('en-GB')} MiB`;
+  return `${Math.max(0.1, Math.round(mib * 10) / 10)} MiB`;
+}

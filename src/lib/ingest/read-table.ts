@@ -6,12 +6,11 @@ import { checkZipDirectory } from './check-zip-directory';
 import { decodeText } from './decode-text';
 import { detectFileKind, fileExtension } from './detect-file-kind';
 import { readDelimitedText } from './read-delimited-text';
-import { resolveReadLimits, type ReadLimits } from './read-limits';
+import { formatMebibytes, resolveReadLimits, type ReadLimits } from './read-limits';
 import { readWorkbook, type WorkbookSheet } from './read-workbook';
 import { shapeTable } from './shape-table';
 import type { TableFormat, TableSource, WaveTable, WaveWarning } from './types';
 import { WaveRefusal } from './wave-refusal';
-import { formatMebibytes } from '../words/formats';
 
 /** Options for {@link readTable}. */
 export interface ReadTableOptions {

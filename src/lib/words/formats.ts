@@ -36,14 +36,5 @@ export function formatDuration(milliseconds: number | null | undefined): string 
   return `${minutes} min ${Math.round((milliseconds - minutes * 60_000) / 1000)} s`;
 }
 
-/**
- * A size in mebibytes (1 MiB = 1,048,576 bytes), the one unit every size limit is stated in
- * (docs/decisions/014-hardening.md).
- * @param bytes a number of bytes.
- * @returns e.g. `50 MiB`, or `0.5 MiB` below one.
- */
-export function formatMebibytes(bytes: number): string {
-  const mib = bytes / (1024 * 1024);
-  if (mib >= 1) return `${Math.round(mib).toLocaleString('en-GB')} MiB`;
-  return `${Math.max(0.1, Math.round(mib * 10) / 10)} MiB`;
-}
+/** Sizes are written where the limits live (ingest), so the readers can use it too. */
+export { formatMebibytes } from '../ingest/read-limits';
