@@ -36,7 +36,7 @@ export interface HierarchicalClustering {
  *   finite, or holds a negative dissimilarity.
  * @returns The merges, their heights and the leaf order. One object gives no merges and the
  *   order [0].
- * References: Murtagh 1985, "Multidimensional Clustering Algorithms" (COMPSTAT Lectures 4),
+ * References: Murtagh 1985, "Multidimensional Clustering Algorithms" (Physica-Verlag, COMPSTAT series vol. 4),
  * the HCLUST and HCASS2 routines as shipped in R's stats package; Lance & Williams 1967,
  * "A general theory of classificatory sorting strategies: 1. Hierarchical systems" (Computer
  * Journal 9:373-380); Sokal & Michener 1958, "A statistical method for evaluating systematic

@@ -9,7 +9,7 @@
  * fewer iterations than for Pearson data; the result says how many were drawn.
  */
 import { correlationMatrix } from './correlation-matrix';
-import { PARALLEL_ANALYSIS_DEFAULT_SEED, quantileType7, type ParallelAnalysisResult } from './parallel-analysis';
+import { PARALLEL_ANALYSIS_DEFAULT_SEED, summariseRandomEigenvalues, type ParallelAnalysisResult } from './parallel-analysis';
 import { createSeededRandom } from './seeded-random';
 import { symmetricEigenvalues } from './symmetric-eigen';
 import { PARALLEL_ANALYSIS_PERCENTILE, POLYCHORIC_PARALLEL_DEFAULT_ITERATIONS } from './tolerances';
@@ -87,16 +87,5 @@ export function polychoricParallelAnalysis(
     }
     for (let k = 0; k < items; k++) randomValues[k * iterations + t] = values[k];
   }
-  const random95: number[] = [];
-  const randomMean: number[] = [];
-  for (let k = 0; k < items; k++) {
-    const sorted = randomValues.subarray(k * iterations, (k + 1) * iterations).sort();
-    random95.push(quantileType7(sorted, percentile / 100));
-    let sum = 0;
-    for (let t = 0; t < iterations; t++) sum += sorted[t];
-    randomMean.push(sum / iterations);
-  }
-  let suggested = 0;
-  while (suggested < items && observed[suggested] > random95[suggested]) suggested++;
-  return { observed: Array.from(observed), random95, randomMean, suggested, iterations, seed, percentile };
+  return summariseRandomEigenvalues(observed, randomValues, iterations, seed, percentile);
 }

@@ -88,6 +88,29 @@ export function parallelAnalysis(observed: ArrayLike<number>, rows: number, opti
     for (let k = 0; k < items; k++) randomValues[k * iterations + t] = values[k];
   }
 
+  return summariseRandomEigenvalues(observed, randomValues, iterations, seed, percentile);
+}
+
+/**
+ * The parallel-analysis result from the eigenvalues of the random data sets: per component the
+ * percentile and mean of the random eigenvalues, and how many observed ones exceed the percentile.
+ * Shared by the Pearson and the polychoric variants.
+ * @param observed observed eigenvalues, descending.
+ * @param randomValues `randomValues[k * iterations + t]`: eigenvalue k of random data set t (sorted in place per k).
+ * @param iterations random data sets.
+ * @param seed the seed used (echoed).
+ * @param percentile the percentile compared with (0-100).
+ * @returns the result.
+ * References: Horn 1965; Glorfeld 1995 (the 95th percentile).
+ */
+export function summariseRandomEigenvalues(
+  observed: ArrayLike<number>,
+  randomValues: Float64Array,
+  iterations: number,
+  seed: number,
+  percentile: number,
+): ParallelAnalysisResult {
+  const items = observed.length;
   const random95: number[] = [];
   const randomMean: number[] = [];
   for (let k = 0; k < items; k++) {
