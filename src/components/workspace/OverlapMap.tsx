@@ -122,16 +122,8 @@ export default function OverlapMap({ auditId }: { auditId: string }) {
     const canvas = base.current;
     if (!data || !canvas || m === 0) return;
     const started = performance.now();
-    const ratio = window.devicePixelRatio || 1;
-    const pixels = Math.round((size + margin) * ratio);
-    if (canvas.width !== pixels) {
-      canvas.width = pixels;
-      canvas.height = pixels;
-    }
-    const context = canvas.getContext('2d');
+    const context = clearedContext(canvas, size + margin);
     if (!context) return;
-    context.setTransform(ratio, 0, 0, ratio, 0, 0);
-    context.clearRect(0, 0, size + margin, size + margin);
     // One pixel per cell, then scaled up without smoothing.
     const image = new ImageData(m, m);
     const rgba = image.data;
@@ -221,14 +213,14 @@ export default function OverlapMap({ auditId }: { auditId: string }) {
       context.textBaseline = 'middle';
       context.textAlign = 'right';
       for (let row = 0; row < m; row++) context.fillText(data.items[order[row]].id, margin - 6, margin + (row + 0.5) * cell, margin - 10);
-      context.save();
       context.textAlign = 'left';
       for (let column = 0; column < m; column++) {
-        context.setTransform(ratio, 0, 0, ratio, (margin + (column + 0.5) * cell) * ratio, (margin - 6) * ratio);
+        context.save();
+        context.translate(margin + (column + 0.5) * cell, margin - 6);
         context.rotate(-Math.PI / 2);
         context.fillText(data.items[order[column]].id, 0, 0, margin - 10);
+        context.restore();
       }
-      context.restore();
     }
     canvas.dataset.drawMs = (performance.now() - started).toFixed(2);
   }, [data, dense, ordering, size, margin, threshold, highlight, outlines, showLabels]);
@@ -241,16 +233,8 @@ export default function OverlapMap({ auditId }: { auditId: string }) {
     if (!canvas || m === 0) return;
     const hover = hoverNow.current;
     const started = performance.now();
-    const ratio = window.devicePixelRatio || 1;
-    const pixels = Math.round((size + margin) * ratio);
-    if (canvas.width !== pixels) {
-      canvas.width = pixels;
-      canvas.height = pixels;
-    }
-    const context = canvas.getContext('2d');
+    const context = clearedContext(canvas, size + margin);
     if (!context) return;
-    context.setTransform(ratio, 0, 0, ratio, 0, 0);
-    context.clearRect(0, 0, size + margin, size + margin);
     const mark = (target: Cell, colour: string, dashed: boolean) => {
       context.fillStyle = 'rgba(28, 33, 39, 0.1)';
       context.fillRect(margin, margin + target.row * cell, size, cell);
@@ -489,3 +473,21 @@ const Legend = memo(function Legend() {
     </figure>
   );
 });
+
+/**
+ * A canvas's 2D context sized for a square of `side` CSS pixels at the screen's pixel ratio,
+ * scaled to CSS pixels and cleared; null when the browser gives no 2D context.
+ */
+function clearedContext(canvas: HTMLCanvasElement, side: number): CanvasRenderingContext2D | null {
+  const ratio = window.devicePixelRatio || 1;
+  const pixels = Math.round(side * ratio);
+  if (canvas.width !== pixels) {
+    canvas.width = pixels;
+    canvas.height = pixels;
+  }
+  const context = canvas.getContext('2d');
+  if (!context) return null;
+  context.setTransform(ratio, 0, 0, ratio, 0, 0);
+  context.clearRect(0, 0, side, side);
+  return context;
+}
