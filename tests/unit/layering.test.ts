@@ -169,11 +169,11 @@ describe('layering of src/', () => {
       { from: 'src/lib/stats/kmo.ts', to: 'src/lib/engine/types' },
       { from: 'src/lib/engine/run-engine.ts', to: 'src/lib/audit/run-audit' },
       { from: 'src/lib/ingest/read-table.ts', to: 'drizzle-orm' },
-      { from: 'src/db/schema.ts', to: 'src/lib/api/studies' },
+      { from: 'src/db/schema/studies.ts', to: 'src/lib/api/studies' },
       { from: 'src/lib/api/studies.ts', to: 'node:fs' },
     ]);
     expect(broken.map((v) => v.from)).toEqual([
-      'src/components/upload/WaveUpload.tsx', 'src/lib/stats/kmo.ts', 'src/lib/engine/run-engine.ts', 'src/lib/ingest/read-table.ts', 'src/db/schema.ts', 'src/lib/api/studies.ts',
+      'src/components/upload/WaveUpload.tsx', 'src/lib/stats/kmo.ts', 'src/lib/engine/run-engine.ts', 'src/lib/ingest/read-table.ts', 'src/db/schema/studies.ts', 'src/lib/api/studies.ts',
     ]);
   });
 

@@ -18,7 +18,7 @@ export interface StudySummary {
 
 /**
  * The constraints a study carries into every audit, as the API shows them. The stored column
- * (`studies.settings`, src/db/schema.ts `StudySettings`) must stay assignable to this shape: the
+ * (`studies.settings`, src/db/schema/studies.ts `StudySettings`) must stay assignable to this shape: the
  * server's `studyDetail` returns one as the other, so the compiler checks it.
  */
 export interface StudySettingsView {
