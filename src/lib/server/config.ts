@@ -158,6 +158,17 @@ export function parseConfig(environment: NodeJS.ProcessEnv = process.env): Serve
   };
 }
 
+/**
+ * Where the data lives (DATABASE_PATH, UPLOAD_DIR with their defaults), read without the rest of
+ * the configuration and without side effects: what `npm run backup` and `restore` need.
+ * @param environment the variables to read (process.env by default).
+ * @returns both paths, absolute.
+ */
+export function storageLocations(environment: NodeJS.ProcessEnv = process.env): { databasePath: string; uploadDir: string } {
+  const env = environmentSchema.pick({ DATABASE_PATH: true, UPLOAD_DIR: true }).parse(withoutEmptyValues(environment));
+  return { databasePath: resolve(env.DATABASE_PATH), uploadDir: resolve(env.UPLOAD_DIR) };
+}
+
 let current: ServerConfig | null = null;
 
 /**
