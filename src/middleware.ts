@@ -6,7 +6,8 @@
  *     orphaned upload files, since Astro's standalone server has no start-up hook
  *     (docs/decisions/004-audit-jobs.md, 007-one-way-in-for-waves.md);
  * 2. the origin check (CSRF): a write carrying cookies must come from our own origin;
- * 3. who is asking (session cookie or personal API token) into `locals`;
+ * 3. who is asking (session cookie or personal API token) into `locals`; a token that is not
+ *    accepted (revoked, unknown) gets 401 here, whatever the path;
  * 4. in front of Auth.js (/api/auth/*): unknown actions 404, other methods 405, bodies read
  *    through the capped reader (413), the sign-in rate limit on the credentials callback, and
  *    sign-out ending the session on the server too;
@@ -19,7 +20,7 @@ import { eq, sql } from 'drizzle-orm';
 import { users } from './db/schema';
 import { startAuditJobs } from './lib/server/audit-jobs/audit-jobs';
 import { getConfig } from './lib/server/config';
-import { recordTokenUse, resolveCaller } from './lib/server/current-user';
+import { recordTokenUse, resolveCaller, tokenNotRecognisedMessage } from './lib/server/current-user';
 import { getDb } from './lib/server/db';
 import { errorResponse, HttpError } from './lib/server/errors';
 import { serverFileStore } from './lib/server/file-store';
@@ -95,6 +96,13 @@ const identify = defineMiddleware(async (context, next) => {
   context.locals.user = resolution.user;
   context.locals.authVia = resolution.via;
   context.locals.authProblem = resolution.problem;
+  // A token sent but not accepted (revoked, unknown, of a deleted account) is refused on every
+  // route and page, never served as if no credentials had been sent (RFC 6750 §3.1;
+  // docs/decisions/015-schema-backups.md). Only bearer tokens set a problem: a stale session
+  // cookie still reaches the sign-in page.
+  if (resolution.problem === 'token-not-recognised') {
+    return errorResponse(401, 'token-not-recognised', tokenNotRecognisedMessage, { 'WWW-Authenticate': 'Bearer error="invalid_token"' });
+  }
   // Resolving the caller only reads; stamping the token's last use is this one explicit write.
   if (resolution.tokenId) recordTokenUse(resolution.tokenId);
   return next();

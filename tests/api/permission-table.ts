@@ -1,7 +1,8 @@
 /**
  * The permission table, route by route (tests/api/permissions.test.ts runs it): every route that
  * exists is called as each demo role, as the other team's owner, as the designer through a
- * personal API token, and anonymously, and each status is checked. ADD A ROW HERE FOR EVERY NEW
+ * personal API token, through a token the designer has revoked, and anonymously, and each status
+ * is checked. ADD A ROW HERE FOR EVERY NEW
  * ROUTE AND METHOD (DEVELOPERS.md, "Add a route"): tests/api/route-inventory.test.ts fails,
  * naming the route, while a file under src/pages/api/ exports a method that no row calls.
  *
@@ -13,11 +14,11 @@ import { inject } from 'vitest';
 import { body, type Client, createMember, demo, inviteAndReadToken, uniqueEmail } from '../setup/http';
 import { postWave, textFile } from './waves-http';
 
-export type Caller = 'owner' | 'designer' | 'field' | 'reviewer' | 'outsider' | 'token' | 'anonymous';
-export const callers: Caller[] = ['owner', 'designer', 'field', 'reviewer', 'outsider', 'token', 'anonymous'];
+export type Caller = 'owner' | 'designer' | 'field' | 'reviewer' | 'outsider' | 'token' | 'revoked' | 'anonymous';
+export const callers: Caller[] = ['owner', 'designer', 'field', 'reviewer', 'outsider', 'token', 'revoked', 'anonymous'];
 
-/** Expected status per caller; `token` defaults to the designer's. */
-export type Expectation = Partial<Record<Caller, number>> & Record<Exclude<Caller, 'token'>, number>;
+/** Expected status per caller; `token` defaults to the designer's, `revoked` to 401 (see {@link expectedStatus}). */
+export type Expectation = Partial<Record<Caller, number>> & Record<Exclude<Caller, 'token' | 'revoked'>, number>;
 
 export interface Row {
   name: string;
@@ -28,6 +29,18 @@ export interface Row {
   /** Makes a fresh target (an id or token) for each caller, for routes that consume or change it. */
   prepare?: () => Promise<string>;
   expect: Expectation;
+}
+
+/**
+ * The status a caller should get from a row. A token sent but not accepted (revoked, or of a
+ * deleted account) is answered 401 on every route and page, public ones included, never served
+ * as if anonymous (RFC 6750 §3.1, `invalid_token`; docs/decisions/015-schema-backups.md).
+ * @param row the row.
+ * @param caller who calls.
+ * @returns the expected HTTP status.
+ */
+export function expectedStatus(row: Row, caller: Caller): number {
+  return row.expect[caller] ?? (caller === 'revoked' ? 401 : row.expect.designer);
 }
 
 /** Filled by the permission test's beforeAll (signed-in clients, a token, an anonymous one). */

@@ -36,6 +36,9 @@ export interface Resolution {
   tokenId?: string | null;
 }
 
+/** The answer to a bearer token that is not accepted (the middleware's 401 and the guard's). */
+export const tokenNotRecognisedMessage = 'The API token was not recognised; it may have been revoked. Create a new one on your account page.';
+
 /** A token's last use is written at most this often (milliseconds). */
 export const TOKEN_USE_STAMP_INTERVAL_MS = 60_000;
 

@@ -17,7 +17,7 @@
 import { eq } from 'drizzle-orm';
 import { audits, studies, waves } from '../../db/schema';
 import { can, roleLabels, rolesAllowed, type Action, type Role } from '../permissions';
-import type { CurrentUser, Membership } from './current-user';
+import { tokenNotRecognisedMessage, type CurrentUser, type Membership } from './current-user';
 import { getDb } from './db';
 import { HttpError, fail } from './errors';
 
@@ -136,7 +136,7 @@ export function forbidden(role: Role, action: Action): HttpError {
 export function requireUser(locals: GuardLocals): CurrentUser {
   if (!locals.user) {
     if (locals.authProblem === 'token-not-recognised') {
-      throw fail.unauthenticated('The API token was not recognised; it may have been revoked.');
+      throw new HttpError(401, 'token-not-recognised', tokenNotRecognisedMessage);
     }
     throw fail.unauthenticated();
   }
