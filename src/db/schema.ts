@@ -16,7 +16,7 @@ export type TeamRole = (typeof teamRoles)[number];
 export const decisionKinds = ['keep', 'drop', 'merge', 'reword', 'undecided'] as const;
 export type DecisionKind = (typeof decisionKinds)[number];
 
-export const auditStatuses = ['queued', 'running', 'done', 'failed'] as const;
+export const auditStatuses = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
 export const waveStatuses = ['proposed', 'confirmed'] as const;
 export const commentTargets = ['study', 'item', 'audit'] as const;
 export const reviewVerdicts = ['approved', 'changes_requested'] as const;
