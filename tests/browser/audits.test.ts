@@ -84,13 +84,14 @@ describe('audits in Chromium', () => {
 
   it('the designer cancels a running audit from its page', async () => {
     const { context, page, problems } = await freshContext(viewport);
+    let id = '';
     try {
       await signInThroughPage(page, demoEmails.designer);
       await page.goto(`${baseUrl()}/studies/${demo.study}`);
       await hydrated(page);
       // Started through the API from the page's own session: polychoric with 5,000 resamples runs for
       // minutes (docs/decisions/004), so it is still queued or running when the page opens.
-      const id = await page.evaluate(async (wave) => {
+      id = await page.evaluate(async (wave) => {
         const response = await fetch(`/api/waves/${wave}/audits`, {
           method: 'POST',
           headers: { 'Content-Type': 'application/json' },
@@ -116,6 +117,8 @@ describe('audits in Chromium', () => {
       await screenshot(page, 'audit-page-cancelled');
       expect(problems).toEqual([]);
     } finally {
+      // Should the test fail before its click, minutes of resampling must not hold the team's thread.
+      if (id) await page.evaluate(async (audit) => void (await fetch(`/api/audits/${audit}/cancel`, { method: 'POST' })), id).catch(() => undefined);
       await context.close();
     }
   });

@@ -73,7 +73,7 @@ export default function AuditStatusRow({ initial, canRun, onStatus }: { initial:
       )}
       {(audit.status === 'failed' || audit.status === 'cancelled') && (
         <div className="grid gap-1">
-          <p className="error-text text-sm" data-testid="audit-error">{audit.error ?? (audit.status === 'cancelled' ? cancelAuditWords.cancelled : 'The audit failed.')}</p>
+          <p className={audit.status === 'cancelled' ? 'text-sm text-ink-soft' : 'error-text text-sm'} data-testid="audit-error">{audit.error ?? (audit.status === 'cancelled' ? cancelAuditWords.cancelled : 'The audit failed.')}</p>
           {canRun && (
             <div>
               <button type="button" className="button button-quiet text-sm" onClick={retry} disabled={retrying}>{retrying ? 'Queuing…' : 'Retry'}</button>
