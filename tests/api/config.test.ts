@@ -44,6 +44,32 @@ describe('parseConfig: workbook limits and audit workers', () => {
   });
 });
 
+describe('parseConfig: fair audits (docs/decisions/016-fair-audits.md)', () => {
+  it('defaults the time limit to 600 s and the per-team share to one thread fewer than the pool', () => {
+    const config = parseConfig({ ...base, AUDIT_WORKERS: '4' });
+    expect(config.auditMaxSeconds).toBe(600); // README configuration table
+    expect(config.auditWorkersPerTeam).toBe(3); // docs/decisions/015: AUDIT_WORKERS - 1
+    // One worker: the one team may use it (at least 1).
+    expect(parseConfig({ ...base, AUDIT_WORKERS: '1' }).auditWorkersPerTeam).toBe(1);
+  });
+
+  it('reads the variables when set; a per-team share above the pool means the whole pool', () => {
+    const config = parseConfig({ ...base, AUDIT_WORKERS: '4', AUDIT_WORKERS_PER_TEAM: '2', AUDIT_MAX_SECONDS: '30' });
+    expect([config.auditWorkersPerTeam, config.auditMaxSeconds]).toEqual([2, 30]);
+    expect(parseConfig({ ...base, AUDIT_WORKERS: '2', AUDIT_WORKERS_PER_TEAM: '8' }).auditWorkersPerTeam).toBe(2);
+  });
+
+  it.each([
+    ['AUDIT_MAX_SECONDS', '0'],
+    ['AUDIT_MAX_SECONDS', '86401'],
+    ['AUDIT_MAX_SECONDS', '2.5'],
+    ['AUDIT_WORKERS_PER_TEAM', '0'],
+    ['AUDIT_WORKERS_PER_TEAM', 'all'],
+  ])('refuses %s=%s, naming the variable', (name, value) => {
+    expect(() => parseConfig({ ...base, [name]: value })).toThrow(new RegExp(`^parseConfig: invalid configuration \\(.*${name}`));
+  });
+});
+
 describe('serverReadLimits', () => {
   it('passes every configured upload limit to the reader', () => {
     const config = parseConfig({

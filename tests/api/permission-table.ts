@@ -126,6 +126,28 @@ const freshFailedAudit = async () => {
   throw new Error(`audit ${id} did not fail`);
 };
 const runAudit: Expectation = { owner: 202, designer: 202, field: 403, reviewer: 403, outsider: 404, anonymous: 401 };
+/** Audit rows written by `freshQueuedAudit`, removed by the permission test's afterAll. */
+export const insertedAudits: string[] = [];
+/**
+ * A queued audit of the demo wave, written straight into the database (the seeded audit's
+ * settings, a hash of its own): who may cancel is the guard's answer and the status decides the
+ * rest, so no worker need be held by a real audit for each caller. Cancel answers the same for a
+ * queued row the pool does not hold (tests/api/audits-cancel.test.ts cancels real ones).
+ */
+const freshQueuedAudit = async () => {
+  const id = `permission-cancel-${insertedAudits.length + 1}`;
+  const db = new Database(inject('databasePath'), { fileMustExist: true });
+  try {
+    db.pragma('busy_timeout = 5000');
+    const { settings } = db.prepare('SELECT settings FROM audits WHERE id = ?').get(demoAudit) as { settings: string };
+    db.prepare("INSERT INTO audits (id, wave_id, settings, settings_hash, status, progress) VALUES (?, ?, ?, ?, 'queued', 0)").run(id, demoWave, settings, `hash-${id}`);
+  } finally {
+    db.close();
+  }
+  insertedAudits.push(id);
+  return id;
+};
+const cancelAudit: Expectation = { owner: 200, designer: 200, field: 403, reviewer: 403, outsider: 404, anonymous: 401 };
 
 // Decisions, what-if and study settings (issue 10).
 /** The demo's seeded, finished audit (src/lib/server/demo-audit.ts). */
@@ -290,6 +312,7 @@ export const table: Row[] = [
   { name: "the other team's decision history as CSV", method: 'GET', path: () => `/api/studies/${demo.outsideStudy}/cut-list/history.csv`, expect: { owner: 404, designer: 404, field: 404, reviewer: 404, outsider: 200, anonymous: 401 } },
   { name: 'read an audit that does not exist', method: 'GET', path: () => '/api/audits/no-such-audit', expect: anyoneSignedIn(404) },
   { name: 'retry a failed audit', method: 'POST', path: (id) => `/api/audits/${id}/retry`, prepare: freshFailedAudit, expect: runAudit },
+  { name: 'cancel a queued audit', method: 'POST', path: (id) => `/api/audits/${id}/cancel`, prepare: freshQueuedAudit, expect: cancelAudit },
   // Team members and invitations
   { name: 'list members', method: 'GET', path: () => `/api/teams/${demo.team}/members`, expect: demoTeamMembers(200) },
   {

@@ -2,9 +2,10 @@
  * Runs the permission table (tests/api/permission-table.ts) against the built server, and checks
  * what the one guard (src/lib/server/guard.ts) answers for each kind of object.
  */
-import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import Database from 'better-sqlite3';
+import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { body, Client, demo, demoEmails, signedIn } from '../setup/http';
-import { anAudit, callers, clients, createdStudies, demoWave, expectedStatus, outsideStudies, outsideWave, table } from './permission-table';
+import { anAudit, callers, clients, createdStudies, demoWave, expectedStatus, insertedAudits, outsideStudies, outsideWave, table } from './permission-table';
 
 beforeAll(async () => {
   for (const caller of ['owner', 'designer', 'field', 'reviewer', 'outsider'] as const) {
@@ -26,6 +27,13 @@ beforeAll(async () => {
 
 /** Leaves the demo as the seed made it, for the other test files (the browser test's screenshots). */
 afterAll(async () => {
+  const db = new Database(inject('databasePath'), { fileMustExist: true });
+  try {
+    db.pragma('busy_timeout = 5000');
+    for (const id of insertedAudits) db.prepare('DELETE FROM audits WHERE id = ?').run(id);
+  } finally {
+    db.close();
+  }
   for (const id of createdStudies) await clients.owner.delete(`/api/studies/${id}`);
   for (const id of outsideStudies) await clients.outsider.delete(`/api/studies/${id}`);
   for (const [client, teamId] of [[clients.owner, demo.team], [clients.outsider, demo.outsideTeam]] as const) {

@@ -82,6 +82,47 @@ describe('audits in Chromium', () => {
     }
   });
 
+  it('the designer cancels a running audit from its page', async () => {
+    const { context, page, problems } = await freshContext(viewport);
+    let id = '';
+    try {
+      await signInThroughPage(page, demoEmails.designer);
+      await page.goto(`${baseUrl()}/studies/${demo.study}`);
+      await hydrated(page);
+      // Started through the API from the page's own session: polychoric with 5,000 resamples runs for
+      // minutes (docs/decisions/004), so it is still queued or running when the page opens.
+      id = await page.evaluate(async (wave) => {
+        const response = await fetch(`/api/waves/${wave}/audits`, {
+          method: 'POST',
+          headers: { 'Content-Type': 'application/json' },
+          body: JSON.stringify({ settings: { method: 'polychoric', bootstrap: 5000, seed: 50_001 } }),
+        });
+        return (await response.json()).audit.id as string;
+      }, 'wave-riverbend-pilot-1');
+      await page.goto(`${baseUrl()}/audits/${id}`);
+      await hydrated(page);
+      const watcher = page.locator('[data-testid=audit-watcher]');
+      const cancel = watcher.locator('[data-testid=cancel-audit]');
+      await cancel.waitFor({ state: 'visible', timeout: 10_000 });
+      await expect(cancel.textContent()).resolves.toBe('Cancel audit'); // src/lib/words/labels.ts, cancelAuditWords
+      await screenshot(page, 'audit-page-running');
+      // The page reloads once the audit has ended, with its status in the heading.
+      await Promise.all([page.waitForEvent('load', { timeout: 15_000 }), cancel.click()]);
+      await hydrated(page);
+      await expect(page.locator('[data-testid=audit-title] .status').textContent()).resolves.toBe('Cancelled');
+      await expect(watcher.locator('[data-testid=audit-row]').getAttribute('data-status')).resolves.toBe('cancelled');
+      await expect(watcher.locator('[data-testid=audit-error]').textContent()).resolves.toMatch(/^Cancelled by .+ before it finished/);
+      expect(await watcher.locator('[data-testid=cancel-audit]').count()).toBe(0);
+      expect(await watcher.locator('button:has-text("Retry")').count()).toBe(1);
+      await screenshot(page, 'audit-page-cancelled');
+      expect(problems).toEqual([]);
+    } finally {
+      // Should the test fail before its click, minutes of resampling must not hold the team's thread.
+      if (id) await page.evaluate(async (audit) => void (await fetch(`/api/audits/${audit}/cancel`, { method: 'POST' })), id).catch(() => undefined);
+      await context.close();
+    }
+  });
+
   it('the client reviewer sees the audits and the audit page, but no form to start one', async () => {
     const { context, page, problems } = await freshContext(viewport);
     try {

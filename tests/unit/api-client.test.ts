@@ -47,6 +47,8 @@ describe('the typed client', () => {
     expect(sent[2]).toMatchObject({ path: '/api/audits/a1/retry', method: 'POST', body: undefined });
     await wavesApi.respondents('w1', { page: 2, flagged: true });
     expect(sent[3]).toMatchObject({ path: '/api/waves/w1/respondents?page=2&flagged=true', method: 'GET' });
+    await auditsApi.cancel('a/1');
+    expect(sent[4]).toMatchObject({ path: '/api/audits/a%2F1/cancel', method: 'POST', body: undefined });
   });
 
   it('answers a 204 with null data', async () => {

@@ -2,13 +2,14 @@ import { useEffect, useState } from 'react';
 import { auditsApi } from '../../lib/api/audits';
 import { formatRecentTime } from '../date-words';
 import AuditProgressBar from './AuditProgressBar';
-import { constraintsLine, formatDuration, settingsLine, statusWords } from '../../lib/words';
+import { cancelAuditWords, constraintsLine, formatDuration, settingsLine, statusWords } from '../../lib/words';
 import { useAuditStatus, type AuditState } from './use-audit-status';
 
 /**
- * One audit as a live row: its settings, then a progress bar while it waits or runs, a link to
- * its page once done, or its failure reason (with a retry button for those who may run audits).
- * `onStatus` hears every change of status.
+ * One audit as a live row: its settings, then a progress bar while it waits or runs (with a cancel
+ * button for those who may run audits), a link to its page once done, or why it failed or who
+ * cancelled it (with a retry button for those who may run audits). `onStatus` hears every change
+ * of status.
  */
 export default function AuditStatusRow({ initial, canRun, onStatus }: { initial: AuditState; canRun: boolean; onStatus?: (status: AuditState['status']) => void }) {
   const [current, setCurrent] = useState(initial);
@@ -18,6 +19,8 @@ export default function AuditStatusRow({ initial, canRun, onStatus }: { initial:
   }, [audit.status]);
   const [retrying, setRetrying] = useState(false);
   const [retryError, setRetryError] = useState('');
+  const [cancelling, setCancelling] = useState(false);
+  const [cancelError, setCancelError] = useState('');
 
   async function retry() {
     setRetrying(true);
@@ -26,6 +29,15 @@ export default function AuditStatusRow({ initial, canRun, onStatus }: { initial:
     setRetrying(false);
     if (answer.ok) setCurrent(answer.data.audit);
     else setRetryError(answer.error.message);
+  }
+
+  async function cancel() {
+    setCancelling(true);
+    setCancelError('');
+    const answer = await auditsApi.cancel(audit.id);
+    setCancelling(false);
+    if (answer.ok) setCurrent(answer.data.audit);
+    else setCancelError(answer.error.message);
   }
 
   const settings = audit.settings;
@@ -40,16 +52,28 @@ export default function AuditStatusRow({ initial, canRun, onStatus }: { initial:
       </div>
       {settings && <p className="text-xs text-ink-soft">{settingsLine(settings)}</p>}
       {settings && <p className="text-xs text-ink-faint" data-testid="audit-constraints">{constraintsLine(settings)}</p>}
-      {(audit.status === 'queued' || audit.status === 'running') && <AuditProgressBar status={audit.status} stage={audit.stage} percent={audit.percent} />}
+      {(audit.status === 'queued' || audit.status === 'running') && (
+        <div className="grid gap-1">
+          <AuditProgressBar status={audit.status} stage={audit.stage} percent={audit.percent} />
+          {canRun && (
+            <div>
+              <button type="button" className="button button-quiet text-sm" data-testid="cancel-audit" onClick={cancel} disabled={cancelling}>
+                {cancelling ? cancelAuditWords.pending : cancelAuditWords.button}
+              </button>
+            </div>
+          )}
+          {cancelError && <p className="error-text text-sm" role="alert">{cancelError}</p>}
+        </div>
+      )}
       {audit.status === 'done' && (
         <p className="text-sm">
           <a href={`/audits/${encodeURIComponent(audit.id)}`} className="font-semibold" data-testid="open-audit">Open the audit</a>
           {audit.timings?.runMs !== undefined && <span className="ml-2 text-xs text-ink-faint">ran in {formatDuration(audit.timings.runMs)}</span>}
         </p>
       )}
-      {audit.status === 'failed' && (
+      {(audit.status === 'failed' || audit.status === 'cancelled') && (
         <div className="grid gap-1">
-          <p className="error-text text-sm" data-testid="audit-error">{audit.error ?? 'The audit failed.'}</p>
+          <p className={audit.status === 'cancelled' ? 'text-sm text-ink-soft' : 'error-text text-sm'} data-testid="audit-error">{audit.error ?? (audit.status === 'cancelled' ? cancelAuditWords.cancelled : 'The audit failed.')}</p>
           {canRun && (
             <div>
               <button type="button" className="button button-quiet text-sm" onClick={retry} disabled={retrying}>{retrying ? 'Queuing…' : 'Retry'}</button>

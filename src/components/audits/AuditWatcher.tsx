@@ -2,8 +2,10 @@ import AuditStatusRow from './AuditStatusRow';
 import type { AuditState } from './use-audit-status';
 
 /**
- * On the page of an audit that is not done yet: its live progress, and the page reloads with the
- * figures once it is done. A failed audit shows its reason (and a retry button for those who may).
+ * On the page of an audit that is not done yet: its live progress (and a cancel button for those
+ * who may run audits), and the page reloads once it ends: with the figures when it is done, with
+ * its status in the heading when it failed or was cancelled. A failed or cancelled audit shows
+ * why (and a retry button for those who may).
  */
 export default function AuditWatcher({ initial, canRun }: { initial: AuditState; canRun: boolean }) {
   return (
@@ -12,7 +14,8 @@ export default function AuditWatcher({ initial, canRun }: { initial: AuditState;
         initial={initial}
         canRun={canRun}
         onStatus={(status) => {
-          if (status === 'done' && initial.status !== 'done') location.reload();
+          const ended = status === 'done' || status === 'failed' || status === 'cancelled';
+          if (ended && status !== initial.status) location.reload();
         }}
       />
     </ul>

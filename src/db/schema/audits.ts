@@ -4,7 +4,7 @@ import { users } from './accounts';
 import { createdAt } from './columns';
 import { waves } from './waves';
 
-export const auditStatuses = ['queued', 'running', 'done', 'failed'] as const;
+export const auditStatuses = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
 
 export const audits = sqliteTable(
   'audits',

@@ -1,6 +1,7 @@
 /**
  * Contracts of the audit routes: start and list (POST/GET /api/waves/{id}/audits), one audit
- * (GET /api/audits/{id}, `?download=1` for the JSON alone) and retry (POST /api/audits/{id}/retry).
+ * (GET /api/audits/{id}, `?download=1` for the JSON alone), retry (POST /api/audits/{id}/retry)
+ * and cancel (POST /api/audits/{id}/cancel).
  *
  * The settings request and the stored settings are defined by the settings table
  * (src/lib/audit/settings-table.ts, docs/decisions/006): this file re-exports their types and
@@ -15,8 +16,11 @@ import type { WaveSummary } from './waves';
 import type { AuditSettingsRequest, ResolvedAuditSettings } from '../audit/settings-table';
 export type { AuditSettingsRequest, ResolvedAuditSettings };
 
-/** The states of an audit, in the order it passes them (failed may follow queued or running). */
-export const auditStatuses = ['queued', 'running', 'done', 'failed'] as const;
+/**
+ * The states of an audit, in the order it passes them (failed or cancelled may follow queued or
+ * running; a failed or cancelled audit can be retried, which queues it again).
+ */
+export const auditStatuses = ['queued', 'running', 'done', 'failed', 'cancelled'] as const;
 export type AuditStatus = (typeof auditStatuses)[number];
 
 /** An audit as the API and pages show it (without its result). */
@@ -30,7 +34,7 @@ export interface AuditSummary {
   stage: string | null;
   /** 0-100; 100 once done. */
   percent: number;
-  /** Why it failed, when it failed. */
+  /** Why it failed (or who cancelled it), when it failed or was cancelled. */
   error: string | null;
   settings: ResolvedAuditSettings;
   /** Milliseconds per stage, once it ended. */
@@ -84,10 +88,16 @@ export interface RetryAuditResponse {
   audit: AuditSummary;
 }
 
+/** POST /api/audits/{id}/cancel: 200 with the audit, now cancelled. */
+export interface CancelAuditResponse {
+  audit: AuditSummary;
+}
+
 /** The typed calls of this domain. */
 export const auditsApi = {
   start: (waveId: string, body: StartAuditRequest): Promise<ApiResult<StartAuditResponse>> => callApi('POST', `/api/waves/${segment(waveId)}/audits`, body),
   listForWave: (waveId: string): Promise<ApiResult<WaveAuditsResponse>> => callApi('GET', `/api/waves/${segment(waveId)}/audits`),
   get: (auditId: string): Promise<ApiResult<AuditResponse>> => callApi('GET', `/api/audits/${segment(auditId)}`),
   retry: (auditId: string): Promise<ApiResult<RetryAuditResponse>> => callApi('POST', `/api/audits/${segment(auditId)}/retry`),
+  cancel: (auditId: string): Promise<ApiResult<CancelAuditResponse>> => callApi('POST', `/api/audits/${segment(auditId)}/cancel`),
 };

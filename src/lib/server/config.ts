@@ -40,6 +40,13 @@ export interface ServerConfig {
   };
   /** Audits that may run at once, each in its own worker thread (1 to 64). */
   readonly auditWorkers: number;
+  /**
+   * Audits one team may run at once (1 to auditWorkers); by default one fewer than auditWorkers
+   * (at least 1), so a thread stays free for another team. docs/decisions/016-fair-audits.md.
+   */
+  readonly auditWorkersPerTeam: number;
+  /** Seconds an audit may run in its thread before it is stopped and fails. */
+  readonly auditMaxSeconds: number;
   readonly signIn: {
     /** Failed attempts per e-mail address within the window before 429. */
     readonly maxFailuresPerEmail: number;
@@ -75,6 +82,9 @@ const environmentSchema = z.object({
   UPLOAD_MAX_WORKBOOK_MEMORY_MB: positiveInteger.default(DEFAULT_READ_LIMITS.maxWorkbookMemoryMb),
   UPLOAD_MAX_WORKBOOK_SECONDS: positiveInteger.default(DEFAULT_READ_LIMITS.maxWorkbookSeconds),
   AUDIT_WORKERS: z.coerce.number().int().min(1).max(64).optional(),
+  AUDIT_WORKERS_PER_TEAM: z.coerce.number().int().min(1).max(64).optional(),
+  // A day at most: beyond that a limit protects nothing (and setTimeout holds up to 24.8 days).
+  AUDIT_MAX_SECONDS: z.coerce.number().int().min(1).max(86_400).default(600),
   SIGNIN_MAX_FAILURES_PER_EMAIL: positiveInteger.default(5),
   SIGNIN_MAX_FAILURES_PER_ADDRESS: positiveInteger.default(30),
   SIGNIN_WINDOW_MINUTES: positiveInteger.default(15),
@@ -128,6 +138,7 @@ export function parseConfig(environment: NodeJS.ProcessEnv = process.env): Serve
     throw new Error('parseConfig: SMTP_URL is required when MAIL_TRANSPORT is smtp');
   }
   const publicUrl = (env.PUBLIC_URL ?? `http://${env.HOST}:${env.PORT}`).replace(/\/+$/, '');
+  const auditWorkers = env.AUDIT_WORKERS ?? Math.max(1, Math.min(64, availableParallelism()));
   return {
     mode,
     databasePath,
@@ -149,7 +160,10 @@ export function parseConfig(environment: NodeJS.ProcessEnv = process.env): Serve
       workbookMemoryMb: env.UPLOAD_MAX_WORKBOOK_MEMORY_MB,
       workbookSeconds: env.UPLOAD_MAX_WORKBOOK_SECONDS,
     },
-    auditWorkers: env.AUDIT_WORKERS ?? Math.max(1, Math.min(64, availableParallelism())),
+    auditWorkers,
+    // More per team than in the whole pool means no per-team limit: the pool's size bounds it.
+    auditWorkersPerTeam: Math.min(auditWorkers, env.AUDIT_WORKERS_PER_TEAM ?? Math.max(1, auditWorkers - 1)),
+    auditMaxSeconds: env.AUDIT_MAX_SECONDS,
     signIn: {
       maxFailuresPerEmail: env.SIGNIN_MAX_FAILURES_PER_EMAIL,
       maxFailuresPerAddress: env.SIGNIN_MAX_FAILURES_PER_ADDRESS,

@@ -7,7 +7,29 @@
 import { formatNumber, formatShare } from './formats';
 
 /** What each audit status is called on screen. */
-export const statusWords: Record<string, string> = { queued: 'Waiting', running: 'Running', done: 'Done', failed: 'Failed' };
+export const statusWords: Record<string, string> = { queued: 'Waiting', running: 'Running', done: 'Done', failed: 'Failed', cancelled: 'Cancelled' };
+
+/** The button that cancels a queued or running audit, its words while the request is on its way, and the line of a cancelled audit with no stored reason. */
+export const cancelAuditWords = { button: 'Cancel audit', pending: 'Cancelling…', cancelled: 'The audit was cancelled.' } as const;
+
+/**
+ * The reason stored on an audit someone cancelled.
+ * @param name who cancelled it.
+ * @returns e.g. "Cancelled by Dana Designer before it finished; retry it to run it again."
+ */
+export function auditCancelledReason(name: string): string {
+  return `Cancelled by ${name.trim() || 'a team member'} before it finished; retry it to run it again.`;
+}
+
+/**
+ * The reason stored on an audit stopped at the server's time limit per audit (AUDIT_MAX_SECONDS).
+ * @param maxRunMs the limit in milliseconds.
+ * @returns one sentence saying what happened and what to do.
+ */
+export function auditTimeLimitReason(maxRunMs: number): string {
+  const seconds = Math.round(maxRunMs / 1000);
+  return `The audit ran longer than this server's limit of ${seconds.toLocaleString('en-GB')} second${seconds === 1 ? '' : 's'} per audit and was stopped; run it again with fewer bootstrap resamples (or ask whoever runs Paredown to raise AUDIT_MAX_SECONDS).`;
+}
 
 /** What each stage of a running audit is called on screen. */
 export const stageWords: Record<string, string> = {

@@ -1,9 +1,10 @@
 /**
  * Audits as background jobs: starting one (or reusing a stored result), running it in the worker
- * pool off the request path, writing its progress (throttled), result, failure reason and
- * timings to the `audits` row, retrying a failed one, and, when the process starts, marking
- * every audit an earlier process left `queued` or `running` as failed ("interrupted by a
- * restart"). The main thread is the only writer of the audits table.
+ * pool off the request path (shared fairly across teams, each audit within the server's time
+ * limit), writing its progress (throttled), result, failure reason and timings to the `audits`
+ * row, cancelling a queued or running one, retrying a failed or cancelled one, and, when the
+ * process starts, marking every audit an earlier process left `queued` or `running` as failed
+ * ("interrupted by a restart"). The main thread is the only writer of the audits table.
  *
  * One instance per process, started explicitly by `startAuditJobs()` (the middleware, on the
  * first request), which runs the restart recovery before anything else reads or starts an audit;
@@ -22,8 +23,9 @@ import { decodeMatrix } from '../../ingest/matrix-blob';
 import type { StudyRow } from '../guard';
 import { newId } from '../ids';
 import { parseStoredSetup, type WaveRow } from '../waves/stored-wave';
+import { auditCancelledReason, auditTimeLimitReason, statusWords } from '../../words';
 import { auditSettingsHash, resolveAuditSettings, type AuditSettingsRequest, type ResolvedAuditSettings } from './audit-settings';
-import { AuditJobFailure, AuditWorkerPool } from './worker-pool';
+import { AuditJobCancelled, AuditJobFailure, AuditWorkerPool } from './worker-pool';
 import { spawnAuditWorker } from './worker-entry';
 import type { AuditWorkerJob } from './worker-protocol';
 import type { AuditStatus, AuditSummary } from '../../api/audits';
@@ -37,6 +39,12 @@ export const PROGRESS_WRITE_INTERVAL_MS = 250;
 
 /** Stored failure reasons are cut to this length. */
 const MAX_REASON_LENGTH = 2_000;
+
+/** The statuses an audit can still be cancelled in. */
+const ACTIVE_STATUSES = ['queued', 'running'] as const;
+
+/** The statuses an audit ends in without a result: it can be retried (or is queued again when started with the same settings). */
+const ENDED_WITHOUT_RESULT: readonly AuditStatus[] = ['failed', 'cancelled'];
 
 /** An audit row as read here (no result text). */
 const summaryColumns = {
@@ -158,9 +166,9 @@ export class AuditJobs {
         .where(and(eq(audits.waveId, wave.id), eq(audits.settingsHash, settingsHash)))
         .orderBy(desc(audits.createdAt))
         .all();
-      const usable = existing.find((row) => row.status === 'done') ?? existing.find((row) => row.status !== 'failed');
+      const usable = existing.find((row) => row.status === 'done') ?? existing.find((row) => !ENDED_WITHOUT_RESULT.includes(row.status));
       if (usable) return { id: usable.id, reused: true, queue: false };
-      const failed = existing.find((row) => row.status === 'failed');
+      const failed = existing.find((row) => ENDED_WITHOUT_RESULT.includes(row.status));
       if (failed) {
         requeue(tx, failed.id);
         logActivity(tx, { teamId: study.teamId, studyId: study.id, userId: user.id, action: 'audit.retried', detail: { audit: failed.id, wave: wave.id } });
@@ -171,12 +179,12 @@ export class AuditJobs {
       logActivity(tx, { teamId: study.teamId, studyId: study.id, userId: user.id, action: 'audit.started', detail: { audit: id, wave: wave.id, method: settings.method, bootstrap: settings.bootstrap } });
       return { id, reused: false, queue: true };
     });
-    if (outcome.queue) this.enqueue(outcome.id);
+    if (outcome.queue) this.enqueue(outcome.id, study.teamId);
     return { audit: this.summary(outcome.id)!, reused: outcome.reused };
   }
 
   /**
-   * Runs a failed audit again with its stored settings.
+   * Runs a failed or cancelled audit again with its stored settings.
    * @param user who retries.
    * @param study its study.
    * @param auditId the audit.
@@ -187,13 +195,45 @@ export class AuditJobs {
     const queued = this.db.transaction((tx) => {
       const row = tx.select({ status: audits.status, waveId: audits.waveId }).from(audits).where(eq(audits.id, auditId)).get();
       if (!row) throw fail.notFound('No such audit among your teams.', 'audit-not-found');
-      if (row.status !== 'failed') return row.status;
+      if (!ENDED_WITHOUT_RESULT.includes(row.status)) return row.status;
       requeue(tx, auditId);
       logActivity(tx, { teamId: study.teamId, studyId: study.id, userId: user.id, action: 'audit.retried', detail: { audit: auditId, wave: row.waveId } });
       return null;
     });
-    if (queued !== null) throw fail.conflict(`Only a failed audit can be retried; this one is ${queued}.`, 'audit-not-failed');
-    this.enqueue(auditId);
+    if (queued !== null) throw fail.conflict(`Only a failed or cancelled audit can be retried; this one is ${statusWords[queued]?.toLowerCase() ?? queued}.`, 'audit-not-failed');
+    this.enqueue(auditId, study.teamId);
+    return this.summary(auditId)!;
+  }
+
+  /**
+   * Cancels a queued or running audit: it is marked cancelled (with who did it), then a queued one
+   * leaves the pool's queue and a running one's worker thread is ended (the pool starts a fresh
+   * thread for the next audit). A result that arrives after the mark is not stored.
+   * @param user who cancels.
+   * @param study its study.
+   * @param auditId the audit.
+   * @throws {HttpError} 404 `audit-not-found`; 409 `audit-not-active` when it is done, failed or
+   *   already cancelled.
+   * @returns the cancelled audit.
+   */
+  cancel(user: CurrentUser, study: StudyRow, auditId: string): AuditSummary {
+    const refused = this.db.transaction((tx) => {
+      const row = tx.select({ status: audits.status, waveId: audits.waveId }).from(audits).where(eq(audits.id, auditId)).get();
+      if (!row) throw fail.notFound('No such audit among your teams.', 'audit-not-found');
+      if (!(ACTIVE_STATUSES as readonly AuditStatus[]).includes(row.status)) return row.status;
+      tx.update(audits)
+        .set({ status: 'cancelled', stage: null, error: auditCancelledReason(user.name), finishedAt: new Date() })
+        .where(eq(audits.id, auditId))
+        .run();
+      logActivity(tx, { teamId: study.teamId, studyId: study.id, userId: user.id, action: 'audit.cancelled', detail: { audit: auditId, wave: row.waveId, was: row.status } });
+      return null;
+    });
+    if (refused !== null) {
+      throw fail.conflict(`Only a queued or running audit can be cancelled; this one is ${statusWords[refused]?.toLowerCase() ?? refused}.`, 'audit-not-active');
+    }
+    // The row says cancelled before the pool lets go, so neither a late result nor the pool's
+    // rejection (both written only while queued or running) overwrites it.
+    this.pool.cancel(auditId, 'cancelled');
     return this.summary(auditId)!;
   }
 
@@ -282,8 +322,8 @@ export class AuditJobs {
     return Object.freeze({ ...settings, locked, outcome });
   }
 
-  /** Hands an audit to the pool and records what happens to it. */
-  private enqueue(auditId: string): void {
+  /** Hands an audit to the pool (in its team's share) and records what happens to it. */
+  private enqueue(auditId: string, teamId: string): void {
     const queuedAt = Date.now();
     let startedAt = queuedAt;
     let lastStage: string | null = null;
@@ -293,6 +333,8 @@ export class AuditJobs {
     const whileRunning = and(eq(audits.id, auditId), eq(audits.status, 'running'));
     this.pool
       .run({
+        key: auditId,
+        group: teamId,
         prepare: () => this.jobFor(auditId),
         onStart: () => {
           startedAt = Date.now();
@@ -321,6 +363,8 @@ export class AuditJobs {
           .run();
       })
       .catch((error: unknown) => {
+        // Cancelled: `cancel` has written the row already.
+        if (error instanceof AuditJobCancelled) return;
         const message = error instanceof AuditJobFailure ? error.message : `The audit could not run: ${error instanceof Error ? error.message : String(error)}`;
         if (!(error instanceof AuditJobFailure)) console.error(`[paredown] audit ${auditId} could not run:`, error);
         const finished = Date.now();
@@ -374,10 +418,15 @@ export function startAuditJobs(): AuditJobs {
   let instance = holder[INSTANCE];
   if (!instance) {
     const db = getDb();
-    const size = getConfig().auditWorkers;
+    const config = getConfig();
     const recovered = recoverInterruptedAudits(db);
     if (recovered > 0) console.log(`[paredown] ${recovered} audit${recovered === 1 ? '' : 's'} left unfinished by an earlier run marked failed (interrupted by a restart).`);
-    instance = new AuditJobs(db, new AuditWorkerPool(size, () => spawnAuditWorker()));
+    const pool = new AuditWorkerPool(config.auditWorkers, () => spawnAuditWorker(), {
+      perGroup: config.auditWorkersPerTeam,
+      maxRunMs: config.auditMaxSeconds * 1000,
+      overTime: auditTimeLimitReason,
+    });
+    instance = new AuditJobs(db, pool);
     holder[INSTANCE] = instance;
   }
   return instance;
