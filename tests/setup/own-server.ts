@@ -6,9 +6,6 @@
 import { afterAll, beforeAll } from 'vitest';
 import { startTestServer, type TestServer } from './app-server';
 
-/** Time to build a database, seed it and start the server (a cold start on a busy machine). */
-const START_TIMEOUT_MS = 60_000;
-
 /**
  * Registers the start (beforeAll) and the stop (afterAll) of a server of the block's own.
  * @param options seed: whether to seed the demo; logName: the server's log under test-results/;
@@ -17,9 +14,10 @@ const START_TIMEOUT_MS = 60_000;
  */
 export function useOwnServer(options: { seed: boolean; logName: string; environment?: Record<string, string> }): TestServer {
   let server: TestServer | null = null;
+  // The app project's hookTimeout (vitest.config.ts) bounds the seeding and the start.
   beforeAll(async () => {
     server = await startTestServer(options);
-  }, START_TIMEOUT_MS);
+  });
   afterAll(async () => {
     await server?.stop();
   });
