@@ -114,7 +114,9 @@ async function main(): Promise<void> {
     const journeys = await Promise.all(designers.map((client, i) => runJourney(client, studies[i], i % 2 === 0 ? 'csv' : 'xlsx', files, deadline)));
     const journeysTo = performance.now();
     const journeysPeak = peakRss(server.pid);
-    const readingTo = Math.max(journeysFrom, ...journeys.map((journey) => journey.confirmedAt ?? journeysTo));
+    // The first part of the journeys, until the last confirmation (the whole phase when none got that far).
+    const confirmations = journeys.map((journey) => journey.confirmedAt).filter((at): at is number => at !== undefined);
+    const readingTo = confirmations.length > 0 ? Math.max(...confirmations) : journeysTo;
 
     await health.stop();
     const idle = samplesBetween(health.samples, idleFrom, idleTo);
