@@ -1,14 +1,16 @@
 /**
- * Restart recovery, on a server and database of this file's own: a server is killed while one
- * audit runs and another waits in the queue (one worker thread); a new server on the same
- * database marks both failed ("interrupted by a restart"), never leaves them running, and runs
- * one again when retried.
+ * Restart recovery, on a server and database of this file's own: a server is killed (SIGKILL)
+ * while one audit runs and another waits in the queue (one worker thread); a new server on the
+ * same database and upload folder finds SQLite's integrity check "ok", no orphan file and no
+ * half-written row (tests/setup/crash-checks.ts), marks both audits failed ("interrupted by a
+ * restart"), never leaves them running, and runs one again when retried.
  */
 import Database from 'better-sqlite3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoIds } from '../../src/lib/server/demo-seed';
 import { body, Client, demoEmails, demoPassword, signInSucceeded } from '../setup/http';
 import { createTestDatabase, startServerOn, type RunningServer, type TestDatabase } from '../setup/app-server';
+import { consistencyProblems } from '../setup/crash-checks';
 
 let database: TestDatabase;
 const servers: RunningServer[] = [];
@@ -66,6 +68,7 @@ describe('an audit interrupted by a restart', () => {
     const second = await startServerOn(database, { logName: 'audits-restart-server.log', appendLog: true, environment: { AUDIT_WORKERS: '1' } });
     servers.push(second);
     const again = await designerOn(second);
+    expect(consistencyProblems(database)).toEqual([]);
     for (const id of [runningId, queuedId]) {
       const audit = await statusOf(again, id);
       expect(audit.status, id).toBe('failed');
@@ -84,5 +87,6 @@ describe('an audit interrupted by a restart', () => {
     }
     expect(audit.status).toBe('done');
     expect(audit.error).toBeNull();
+    expect(consistencyProblems(database)).toEqual([]);
   });
 });

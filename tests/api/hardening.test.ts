@@ -13,7 +13,7 @@ import Database from 'better-sqlite3';
 import { rmSync, writeFileSync } from 'node:fs';
 import { request as httpRequest } from 'node:http';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
-import { createTestDatabase, startServerOn, type RunningServer, type TestDatabase } from '../setup/app-server';
+import { useOwnServer } from '../setup/own-server';
 import { body, Client, createMember, demo, demoEmails, demoPassword, inviteAndReadToken, signedIn, signInSucceeded, uniqueEmail } from '../setup/http';
 import { createStudy, postWave, textFile } from './waves-http';
 
@@ -120,20 +120,10 @@ describe('the sign-in limit (finding 1)', () => {
 });
 
 describe('a server without a trusted proxy (TRUST_PROXY=0, https PUBLIC_URL)', () => {
-  let database: TestDatabase;
-  let server: RunningServer;
-
-  beforeAll(async () => {
-    database = await createTestDatabase({ seed: false });
-    server = await startServerOn(database, {
-      logName: 'hardening-no-proxy.log',
-      environment: { TRUST_PROXY: '0', SIGNIN_MAX_FAILURES_PER_ADDRESS: '3', PUBLIC_URL: 'https://paredown.example' },
-    });
-  }, 60_000);
-
-  afterAll(async () => {
-    await server?.stop();
-    database?.remove();
+  const server = useOwnServer({
+    seed: false,
+    logName: 'hardening-no-proxy.log',
+    environment: { TRUST_PROXY: '0', SIGNIN_MAX_FAILURES_PER_ADDRESS: '3', PUBLIC_URL: 'https://paredown.example' },
   });
 
   it('counts failures against the real client address, whatever X-Forwarded-For says', async () => {
@@ -309,26 +299,15 @@ describe('no 500 a client can cause (finding 9)', () => {
   });
 
   describe('with an unwritable upload folder', () => {
-    let database: TestDatabase;
-    let server: RunningServer;
-
-    beforeAll(async () => {
-      database = await createTestDatabase({ seed: true });
-      server = await startServerOn(database, { logName: 'hardening-storage.log' });
-    }, 60_000);
-
-    afterAll(async () => {
-      await server?.stop();
-      database?.remove();
-    });
+    const server = useOwnServer({ seed: true, logName: 'hardening-storage.log' });
 
     it('answers an upload with 503 naming storage, and health notices', async () => {
       const designer = new Client(server.baseUrl);
       expect(signInSucceeded(await designer.signIn(demoEmails.designer, demoPassword))).toBe(true);
       const studyId = await createStudy(designer, demo.team, 'Storage fault');
       // A file where the upload folder should be: nothing can be written under it.
-      rmSync(database.uploadDir, { recursive: true, force: true });
-      writeFileSync(database.uploadDir, 'not a folder');
+      rmSync(server.uploadDir, { recursive: true, force: true });
+      writeFileSync(server.uploadDir, 'not a folder');
       const health = await fetch(`${server.baseUrl}/api/health`);
       expect(health.status).toBe(503);
       expect(await body(health)).toEqual(expect.objectContaining({ status: 'degraded', storage: 'not-writable' }));

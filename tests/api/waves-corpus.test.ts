@@ -50,20 +50,13 @@ async function targetFor(entry: CorpusEntry): Promise<Target> {
   let server: TestServer | null = null;
   let client: Client;
   if (entry.limits) {
-    const saved = { ...process.env };
+    const environment: Record<string, string> = {};
     for (const [name, value] of Object.entries(entry.limits)) {
       const variable = limitVariables[name];
       if (!variable) throw new Error(`${entry.file}: the limit ${name} cannot be set on the server (only ${Object.keys(limitVariables).join(', ')})`);
-      process.env[variable] = String(value);
+      environment[variable] = String(value);
     }
-    try {
-      server = await startTestServer({ seed: true, logName: `app-server-limits-${targets.size}.log` });
-    } finally {
-      for (const variable of Object.values(limitVariables)) {
-        if (saved[variable] === undefined) delete process.env[variable];
-        else process.env[variable] = saved[variable];
-      }
-    }
+    server = await startTestServer({ seed: true, logName: `app-server-limits-${targets.size}.log`, environment });
     client = new Client(server.baseUrl);
     const response = await client.signIn(demoEmails.designer, 'paredown-demo');
     if (response.status !== 302) throw new Error('sign-in on the limits server failed');

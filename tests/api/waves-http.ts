@@ -8,7 +8,7 @@ import { dirname, join } from 'node:path';
 import { inject } from 'vitest';
 import { decodeMatrix } from '../../src/lib/ingest';
 import type { ItemMatrix } from '../../src/lib/stats/types';
-import { body, type Client } from '../setup/http';
+import { body, type HttpClient } from '../setup/http';
 
 export const wavesDirectory = join(import.meta.dirname, '..', '..', 'fixtures', 'waves');
 export const demoDirectory = join(import.meta.dirname, '..', '..', 'fixtures', 'demo');
@@ -51,7 +51,7 @@ export function textFile(name: string, text: string): FilePart {
  * @param extra codebook and text fields.
  */
 export async function postWave(
-  client: Client,
+  client: HttpClient,
   studyId: string,
   file: FilePart | null,
   extra: { codebook?: FilePart; fields?: Record<string, string> } = {},
@@ -60,18 +60,14 @@ export async function postWave(
   if (file) form.set('file', new Blob([file.bytes]), file.name);
   if (extra.codebook) form.set('codebook', new Blob([extra.codebook.bytes]), extra.codebook.name);
   for (const [name, value] of Object.entries(extra.fields ?? {})) form.set(name, value);
-  const headers: Record<string, string> = { accept: 'application/json' };
-  if (client.cookies.size > 0) headers.cookie = [...client.cookies].map(([k, v]) => `${k}=${v}`).join('; ');
-  if (client.bearer) headers.authorization = `Bearer ${client.bearer}`;
-  headers.origin = client.base;
-  return fetch(`${client.base}/api/studies/${studyId}/waves`, { method: 'POST', headers, body: form, redirect: 'manual' });
+  return client.call('POST', `/api/studies/${studyId}/waves`, { formData: form, headers: { accept: 'application/json' } });
 }
 
 /**
  * Creates a study in a team.
  * @returns its id.
  */
-export async function createStudy(client: Client, teamId: string, name: string): Promise<string> {
+export async function createStudy(client: HttpClient, teamId: string, name: string): Promise<string> {
   const response = await client.post('/api/studies', { teamId, name });
   if (response.status !== 201) throw new Error(`creating a study failed: ${response.status} ${await response.text()}`);
   return (await body(response)).study.id as string;

@@ -14,7 +14,7 @@ import { request as httpRequest } from 'node:http';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { contentHash } from '../../src/lib/ingest';
-import { startTestServer, type TestServer } from '../setup/app-server';
+import { useOwnServer } from '../setup/own-server';
 import { body, Client, demo, demoEmails, signedIn } from '../setup/http';
 import { createStudy, demoDirectory, fixture, postWave, readOnlyDatabase, storedMatrix, textFile, uploadDirOf, waveRecord, type FilePart } from './waves-http';
 
@@ -449,22 +449,11 @@ describe('round trip', () => {
 });
 
 describe('size limits on a server with small ones', () => {
-  let server: TestServer;
+  const server = useOwnServer({ seed: true, logName: 'app-server-small-uploads.log', environment: { UPLOAD_MAX_BYTES: String(64 * 1024) } });
   let client: Client;
   beforeAll(async () => {
-    const saved = process.env.UPLOAD_MAX_BYTES;
-    process.env.UPLOAD_MAX_BYTES = String(64 * 1024);
-    try {
-      server = await startTestServer({ seed: true, logName: 'app-server-small-uploads.log' });
-    } finally {
-      if (saved === undefined) delete process.env.UPLOAD_MAX_BYTES;
-      else process.env.UPLOAD_MAX_BYTES = saved;
-    }
     client = new Client(server.baseUrl);
     await client.signIn(demoEmails.designer, 'paredown-demo');
-  });
-  afterAll(async () => {
-    await server?.stop();
   });
 
   it('refuses a file past the limit with 413 and keeps nothing', async () => {

@@ -151,6 +151,9 @@ export async function startServerOn(
 export interface TestServer {
   baseUrl: string;
   databasePath: string;
+  uploadDir: string;
+  /** The server's process id (its peak memory, a kill -9). */
+  pid: number;
   /** Stops the server and removes its database folder. */
   stop: () => Promise<void>;
 }
@@ -159,24 +162,32 @@ export interface TestServer {
  * Starts the built server on a free loopback port with its own temporary database.
  * @param options seed: whether to seed the demo first (the first-run test starts empty, DEMO_SEED=0).
  * @param options logName: file name of the server's log under test-results/.
+ * @param options environment: variables set on top of the test defaults (limits, TRUST_PROXY=0, ...).
  * @throws Error when there is no build, or the server does not start.
- * @returns the address, the database path and a stop function that also removes the folder.
+ * @returns the address, the database and upload paths, the process id and a stop function that also removes the folder.
  */
-export async function startTestServer(options: { seed: boolean; logName: string }): Promise<TestServer> {
+export async function startTestServer(options: { seed: boolean; logName: string; environment?: Record<string, string> }): Promise<TestServer> {
   const database = await createTestDatabase({ seed: options.seed });
-  const server = await startServerOn(database, {
-    logName: options.logName,
-    environment: {
-      DEMO_SEED: options.seed ? '1' : '0',
-      // Lets the rate-limit test speak for different client addresses.
-      TRUST_PROXY: '1',
-    },
-  });
+  let server: RunningServer;
+  try {
+    server = await startServerOn(database, {
+      logName: options.logName,
+      environment: {
+        DEMO_SEED: options.seed ? '1' : '0',
+        // Lets the rate-limit test speak for different client addresses.
+        TRUST_PROXY: '1',
+        ...options.environment,
+      },
+    });
+  } catch (error) {
+    database.remove();
+    throw error;
+  }
   const stop = async () => {
     await server.stop();
     database.remove();
   };
-  return { baseUrl: server.baseUrl, databasePath: database.databasePath, stop };
+  return { baseUrl: server.baseUrl, databasePath: database.databasePath, uploadDir: database.uploadDir, pid: server.child.pid ?? 0, stop };
 }
 
 export default async function setup(project: TestProject) {

@@ -12,7 +12,7 @@ import { join } from 'node:path';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { openDatabase, type Db } from '../../src/db/client';
 import { storedFiles, studies, teams, waves } from '../../src/db/schema';
-import { FileStore, ORPHAN_GRACE_MS } from '../../src/lib/server/file-store';
+import { FileStore } from '../../src/lib/server/file-store';
 import { sha256Hex } from '../../src/lib/server/ids';
 
 const sha256 = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest('hex');
@@ -113,7 +113,7 @@ describe('files no wave uses', () => {
 });
 
 describe('the sweep at start', () => {
-  it('removes old orphans and half-written files, forgets unused records, and leaves young files and foreign names alone', () => {
+  it('removes orphans of any age and half-written files, forgets unused records, and leaves foreign names alone', () => {
     const kept = bytesOf('kept\n');
     const unusedRecord = bytesOf('recorded but unused\n');
     store.transaction(db, (_tx, files) => {
@@ -121,29 +121,30 @@ describe('the sweep at start', () => {
       files.write(unusedRecord, 'unused.csv', 'text/csv');
     });
     addWave('w', sha256(kept));
-    const now = Date.parse('2026-06-01T12:00:00Z');
     const plant = (relative: string, ageMs: number) => {
       const path = join(store.root, relative);
       mkdirSync(join(path, '..'), { recursive: true });
       writeFileSync(path, 'x');
-      utimesSync(path, (now - ageMs) / 1000, (now - ageMs) / 1000);
+      const seconds = (Date.now() - ageMs) / 1000;
+      utimesSync(path, seconds, seconds);
     };
+    const day = 24 * 60 * 60 * 1000;
     const old = sha256(bytesOf('old orphan'));
-    const young = sha256(bytesOf('young orphan'));
-    plant(join(old.slice(0, 2), old), ORPHAN_GRACE_MS + 1000);
-    plant(join(young.slice(0, 2), young), 1000);
-    plant(join(old.slice(0, 2), `${old}.partial-123`), ORPHAN_GRACE_MS + 1000);
-    plant(join('zz', 'notes.txt'), ORPHAN_GRACE_MS + 1000);
-    plant('README', ORPHAN_GRACE_MS + 1000);
+    const young = sha256(bytesOf('young orphan: what a kill -9 between writing and committing leaves'));
+    plant(join(old.slice(0, 2), old), day);
+    plant(join(young.slice(0, 2), young), 0);
+    plant(join(old.slice(0, 2), `${old}.partial-123`), 0);
+    plant(join('zz', 'notes.txt'), day);
+    plant('README', day);
 
-    const outcome = store.sweepOrphans(db, { now });
+    const outcome = store.sweepOrphans(db);
     expect(outcome.unusedRecords).toBe(1);
-    expect(outcome.orphanFiles).toEqual([join(old.slice(0, 2), old), join(old.slice(0, 2), `${old}.partial-123`)].sort());
+    expect(outcome.orphanFiles).toEqual([join(old.slice(0, 2), old), join(old.slice(0, 2), `${old}.partial-123`), join(young.slice(0, 2), young)].sort());
     expect(records()).toEqual([sha256(kept)]);
     expect(onDisk(sha256(kept))).toBe(true);
     expect(onDisk(sha256(unusedRecord))).toBe(false);
     expect(onDisk(old)).toBe(false);
-    expect(onDisk(young)).toBe(true);
+    expect(onDisk(young)).toBe(false);
     expect(existsSync(join(store.root, 'zz', 'notes.txt'))).toBe(true);
     expect(existsSync(join(store.root, 'README'))).toBe(true);
   });

@@ -6,7 +6,7 @@
  * start and listing for a backup, and of the one check that a stored path stays inside the folder
  * (docs/decisions/007-one-way-in-for-waves.md).
  */
-import { existsSync, mkdirSync, readdirSync, readFileSync, renameSync, statSync, unlinkSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readdirSync, readFileSync, renameSync, unlinkSync, writeFileSync } from 'node:fs';
 import { dirname, isAbsolute, join, normalize, resolve, sep } from 'node:path';
 import { eq, inArray, or } from 'drizzle-orm';
 import type { Db } from '../../db/client';
@@ -43,9 +43,6 @@ export interface SweepOutcome {
   /** Files on disk without a record (or left half-written), by path relative to the folder. */
   orphanFiles: string[];
 }
-
-/** A file on disk younger than this is never swept: another process may be about to commit its record (common practice). */
-export const ORPHAN_GRACE_MS = 60 * 60 * 1000;
 
 const HASH = /^[0-9a-f]{64}$/;
 const FOLDER = /^[0-9a-f]{2}$/;
@@ -93,7 +90,9 @@ export class FileTransaction {
   constructor(private readonly store: FileStore, private readonly tx: Tx) {}
 
   /**
-   * Keeps a file's bytes (once per content) and records it, inside the transaction.
+   * Keeps a file's bytes (once per content) and records it, inside the transaction: the record
+   * first, so the bytes are written only while this connection holds SQLite's write lock (which
+   * is what lets the sweep at start judge every file without a record an orphan).
    * @param bytes the file's bytes.
    * @param originalName the name it was uploaded under.
    * @param mediaType its media type, when known.
@@ -106,6 +105,7 @@ export class FileTransaction {
     const existed = this.tx.select({ hash: storedFiles.hash }).from(storedFiles).where(eq(storedFiles.hash, hash)).get();
     const storagePath = join(hash.slice(0, 2), hash);
     const target = this.store.pathOf(storagePath);
+    this.tx.insert(storedFiles).values({ hash, size: bytes.byteLength, originalName, mediaType, storagePath }).onConflictDoNothing().run();
     if (!existsSync(target)) {
       const partial = `${target}.partial-${process.pid}`;
       // An unwritable folder is the server's fault: 503 naming storage (storage-fault.ts).
@@ -115,7 +115,6 @@ export class FileTransaction {
         renameSync(partial, target);
       });
     }
-    this.tx.insert(storedFiles).values({ hash, size: bytes.byteLength, originalName, mediaType, storagePath }).onConflictDoNothing().run();
     const record = { hash, size: bytes.byteLength, storagePath };
     if (!existed && !this.fresh.some((entry) => entry.hash === hash)) this.fresh.push(record);
     return record;
@@ -136,6 +135,11 @@ export class FileTransaction {
     this.tx.delete(storedFiles).where(inArray(storedFiles.hash, rows.map((row) => row.hash))).run();
     this.forgotten.push(...rows);
     return rows.length;
+  }
+
+  /** @internal The paths of the files whose records this transaction deleted. */
+  forgottenPaths(): string[] {
+    return this.forgotten.map((record) => record.storagePath);
   }
 
   /** @internal After a rollback: removes each file this transaction brought in whose record did not survive. */
@@ -182,7 +186,9 @@ export class FileStore {
   /**
    * Runs `work` in one database transaction with a FileTransaction: files it writes are removed
    * again if the transaction fails (so a failed upload leaves neither a row nor a file), files it
-   * forgets are removed once the transaction has committed.
+   * forgets are removed once the transaction has committed. The transaction begins IMMEDIATE: it
+   * takes SQLite's write lock first, waiting out another process's write (the busy timeout)
+   * rather than failing halfway when its first write meets that lock.
    * @param db the database.
    * @param work the transaction's work.
    * @throws whatever `work` throws, after the undo.
@@ -195,7 +201,7 @@ export class FileStore {
       result = db.transaction((tx) => {
         files = new FileTransaction(this, tx);
         return work(tx, files);
-      });
+      }, { behavior: 'immediate' });
     } catch (error) {
       (files as FileTransaction | null)?.undo(db);
       throw error;
@@ -237,32 +243,34 @@ export class FileStore {
   /**
    * At start: forgets records no wave refers to and removes files on disk that no record names
    * (an upload cut off between writing its file and committing), and half-written `.partial-*`
-   * files. Only files the store names its own way (`xx/<sha256>`) are touched, and only once they
-   * are older than `graceMs`, so another process's upload in flight keeps its file.
+   * files. Only files the store names its own way (`xx/<sha256>`) are touched. It all happens
+   * holding SQLite's write lock, and bytes are only ever written holding it (FileTransaction.write
+   * records first): so no other process can be between writing a file and committing its record,
+   * and a file without a record is an orphan whatever its age.
    * @param db the database.
-   * @param options graceMs (ORPHAN_GRACE_MS by default) and now (milliseconds since 1970; the clock by default).
    * @returns what was removed.
    */
-  sweepOrphans(db: Db, options: { graceMs?: number; now?: number } = {}): SweepOutcome {
-    const unusedRecords = this.transaction(db, (_tx, files) => files.forgetUnused());
-    const cutoff = (options.now ?? Date.now()) - (options.graceMs ?? ORPHAN_GRACE_MS);
-    const known = new Set(db.select({ storagePath: storedFiles.storagePath }).from(storedFiles).all().map((row) => normalize(row.storagePath)));
-    const orphanFiles: string[] = [];
-    if (!existsSync(this.root)) return { unusedRecords, orphanFiles };
-    for (const folder of readdirSync(this.root, { withFileTypes: true })) {
-      if (!folder.isDirectory() || !FOLDER.test(folder.name)) continue;
-      for (const entry of readdirSync(join(this.root, folder.name), { withFileTypes: true })) {
-        const match = OURS.exec(entry.name);
-        if (!entry.isFile() || !match || !match[1].startsWith(folder.name)) continue;
-        const relative = join(folder.name, entry.name);
-        if (match[2] === undefined && known.has(normalize(relative))) continue;
-        const path = this.pathOf(relative);
-        if (statSync(path).mtimeMs > cutoff) continue;
-        unlinkSync(path);
-        orphanFiles.push(relative);
+  sweepOrphans(db: Db): SweepOutcome {
+    return this.transaction(db, (tx, files) => {
+      const unusedRecords = files.forgetUnused();
+      const orphanFiles: string[] = [];
+      if (!existsSync(this.root)) return { unusedRecords, orphanFiles };
+      const unused = new Set(files.forgottenPaths().map((path) => normalize(path)));
+      const known = new Set(tx.select({ storagePath: storedFiles.storagePath }).from(storedFiles).all().map((row) => normalize(row.storagePath)));
+      for (const folder of readdirSync(this.root, { withFileTypes: true })) {
+        if (!folder.isDirectory() || !FOLDER.test(folder.name)) continue;
+        for (const entry of readdirSync(join(this.root, folder.name), { withFileTypes: true })) {
+          const match = OURS.exec(entry.name);
+          if (!entry.isFile() || !match || !match[1].startsWith(folder.name)) continue;
+          const relative = join(folder.name, entry.name);
+          // Files of records forgotten just now go once the transaction has committed (finish).
+          if (match[2] === undefined && (known.has(normalize(relative)) || unused.has(normalize(relative)))) continue;
+          unlinkSync(this.pathOf(relative));
+          orphanFiles.push(relative);
+        }
       }
-    }
-    return { unusedRecords, orphanFiles: orphanFiles.sort() };
+      return { unusedRecords, orphanFiles: orphanFiles.sort() };
+    });
   }
 
   /** @internal Removes a stored file's bytes, if there (path checked). */

@@ -4,7 +4,7 @@
  * exactly what the file says under the confirmed setup), screened, and written in ONE transaction
  * by the one confirmed-wave writer (write-confirmed-wave.ts): the recoded matrix blob, the items,
  * respondent ids, the setup, the screening and the exclusions, then status `confirmed`. After any
- * failure nothing of it remains and the wave is still `proposed`.
+ * failure (or a kill -9) nothing of it remains and the wave is still `proposed`.
  *
  * A confirmed wave is immutable except for its exclusions, which stay reversible: excluded
  * respondents stay in the stored wave and are only left out of audits. Other exclusions are checked
@@ -27,6 +27,13 @@ import { readWaveFiles } from './read-wave-files';
 import { confirmedDocument, itemDescription, parseStoredSetup, type StoredWaveSetup, type WaveRow } from './stored-wave';
 import { assembleView, storedWaveView, type ItemView, type WaveView } from './wave-view';
 import { writeConfirmedWave } from './write-confirmed-wave';
+
+/**
+ * The confirmation's transactions read before they write, so they begin IMMEDIATE: they wait for
+ * another process's write lock (the busy timeout) instead of failing with SQLITE_BUSY (a 500) when
+ * their first write meets it; SQLite calls no busy handler for a read turning into a write.
+ */
+const IMMEDIATE = { behavior: 'immediate' } as const;
 
 /** What the designer sends to confirm a wave. */
 export interface ConfirmRequest {
@@ -166,7 +173,7 @@ export async function confirmWave(user: CurrentUser, study: StudyRow, row: WaveR
         action: 'wave.exclusions-changed',
         detail: { waveId: row.id, label: row.label, excludedBefore: current.exclusions.length, excludedAfter: exclusions.length },
       });
-    });
+    }, IMMEDIATE);
     return { stored: true, view: storedWaveView(db.select().from(waves).where(eq(waves.id, row.id)).get() as WaveRow, true) };
   }
 
@@ -190,6 +197,6 @@ export async function confirmWave(user: CurrentUser, study: StudyRow, row: WaveR
       action: 'wave.confirmed',
       detail: { waveId: row.id, label: row.label, respondents: wave.respondents, items: wave.items.length, excluded: wave.excluded.length },
     });
-  });
+  }, IMMEDIATE);
   return { stored: true, view: storedWaveView(db.select().from(waves).where(eq(waves.id, row.id)).get() as WaveRow, true) };
 }
