@@ -91,21 +91,38 @@ export function previewProposal(table: WaveTable, proposal: ProposedSetup): Prop
   }
 }
 
-async function readInThisThread(files: WaveFiles, limits: ReadLimits) {
-  return readWave(files, limits, { parseWorkbook, unexpected: (fileName, error) => new ReadFault(fileName, error) });
+/**
+ * Says which work the time limit covers: only SheetJS (`true` before a parse, `false` after it).
+ * Everything else the reader does is linear in the cells, which the read limits bound.
+ */
+export type TimedPart = (running: boolean) => void;
+
+async function readInThisThread(files: WaveFiles, limits: ReadLimits, timed: TimedPart) {
+  const parseTimed = (bytes: Uint8Array, fileName: string, sheetRows: number) => {
+    timed(true);
+    try {
+      return parseWorkbook(bytes, fileName, sheetRows);
+    } finally {
+      timed(false);
+    }
+  };
+  return readWave(files, limits, { parseWorkbook: parseTimed, unexpected: (fileName, error) => new ReadFault(fileName, error) });
 }
 
 /**
  * Does one job in this thread (the reader thread calls it; tests may call it directly).
  * @param job the job.
+ * @param timed told when the time-limited part (a SheetJS parse) starts and ends; the whole of a
+ *   `parse-workbook` job is that part.
  * @returns the answer, and the buffers to move with it rather than copy.
  */
-export async function runWaveReaderJob(job: WaveReaderJob): Promise<{ answer: WaveReaderAnswer; transfer: TransferListItem[] }> {
+export async function runWaveReaderJob(job: WaveReaderJob, timed: TimedPart = () => {}): Promise<{ answer: WaveReaderAnswer; transfer: TransferListItem[] }> {
   try {
     if (job.kind === 'parse-workbook') {
       return { answer: { ok: true, value: parseWorkbook(job.bytes, job.fileName, job.sheetRows) }, transfer: [] };
     }
-    const read = await readInThisThread(job.files, job.limits);
+    timed(false);
+    const read = await readInThisThread(job.files, job.limits, timed);
     if (job.kind === 'read-upload') {
       const proposal = proposeSetup(read.table, read.codebook);
       const value: UploadRead = { source: read.source, warnings: read.warnings, proposal, preview: previewProposal(read.table, proposal) };

@@ -15,5 +15,6 @@ if (isMainThread || !parentPort) {
 }
 const port = parentPort;
 
-const { answer, transfer } = await runWaveReaderJob(workerData as WaveReaderJob);
+// The time limit covers SheetJS only (wave-reader-jobs.ts, TimedPart); see TimeLimitMessage.
+const { answer, transfer } = await runWaveReaderJob(workerData as WaveReaderJob, (running) => port.postMessage({ type: 'time-limit', running }));
 port.postMessage(answer, transfer);

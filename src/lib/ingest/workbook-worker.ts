@@ -45,7 +45,8 @@ function failureError(failure: WaveReaderFailure, options: ReadWaveOptions): Err
 }
 
 /**
- * Runs one job in a fresh wave reader thread under the heap and time limits.
+ * Runs one job in a fresh wave reader thread under the heap limit, and the time limit over its
+ * SheetJS parsing (the thread says when that runs: TimedPart in wave-reader-jobs.ts).
  * @param job the job.
  * @param files the responses file (named in a too-demanding refusal).
  * @param limits `maxWorkbookMemoryMb` and `maxWorkbookSeconds` bound the thread.
@@ -98,7 +99,8 @@ export function parseWorkbookInWorker(bytes: Uint8Array, fileName: string, limit
  * setup (proposeSetup) and the screening under it (previewProposal), so the calling thread
  * touches no cell.
  * @param files the bytes and names.
- * @param limits read limits (the reader's defaults where absent); the memory and time limits bound the whole read.
+ * @param limits read limits (the reader's defaults where absent); the memory limit bounds the whole
+ *   read, the time limit the SheetJS parse (the rest is linear in the cells, which the read limits bound).
  * @param options `unexpected`, as readWave's.
  * @throws {WaveRefusal} whatever readWave refuses; 413 `workbook-too-demanding` / `file-too-demanding` past the thread's limits.
  * @returns how the files were read, their warnings, the proposal and its screening preview.

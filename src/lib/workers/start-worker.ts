@@ -109,9 +109,26 @@ export class WorkerRunFailure extends Error {
   }
 }
 
+/**
+ * A message a worker may post before its answer to say which of its work the time limit covers:
+ * `running: false` stops the clock (what follows is bounded otherwise, e.g. by the input's size),
+ * `running: true` starts it again with the whole limit. It is not the answer.
+ */
+export interface TimeLimitMessage {
+  readonly type: 'time-limit';
+  readonly running: boolean;
+}
+
+function isTimeLimitMessage(message: unknown): message is TimeLimitMessage {
+  return typeof message === 'object' && message !== null && (message as { type?: unknown }).type === 'time-limit';
+}
+
 /** Options of runWorkerOnce. */
 export interface RunOnceOptions extends SpawnOptions {
-  /** The most milliseconds the worker may take before it is ended (WorkerRunFailure `time-limit`). */
+  /**
+   * The most milliseconds the worker may take before it is ended (WorkerRunFailure `time-limit`):
+   * from when the thread is online, or from each TimeLimitMessage that starts the clock again.
+   */
   readonly timeLimitMs: number;
   /** Where the worker starts from (found with locateWorker by default). */
   readonly origin?: WorkerOrigin;
@@ -119,7 +136,7 @@ export interface RunOnceOptions extends SpawnOptions {
 
 /**
  * Runs one job in a fresh worker thread: starts it with the job as its `workerData`, waits for its
- * one message (the answer), and ends it. The thread is ended on every outcome, so a job costs at
+ * one answer (any message but a TimeLimitMessage), and ends it. The thread is ended on every outcome, so a job costs at
  * most its heap limit, and only while it runs.
  * @param entry the worker (worker-entries.ts); it must post exactly one message.
  * @param options worker data, resource limits and the time limit.
@@ -134,6 +151,7 @@ export function runWorkerOnce<Answer>(entry: WorkerEntry, options: RunOnceOption
   return new Promise<Answer>((resolve, reject) => {
     const worker = spawnWorker(origin, options);
     let settled = false;
+    let timer: NodeJS.Timeout | undefined;
     const finish = (outcome: () => void) => {
       if (settled) return;
       settled = true;
@@ -141,11 +159,24 @@ export function runWorkerOnce<Answer>(entry: WorkerEntry, options: RunOnceOption
       void worker.terminate();
       outcome();
     };
-    const timer = setTimeout(
-      () => finish(() => reject(new WorkerRunFailure('time-limit', `${entry.name}: no answer within ${options.timeLimitMs} ms`))),
-      options.timeLimitMs,
-    );
-    worker.on('message', (message: Answer) => finish(() => resolve(message)));
+    const startClock = () => {
+      clearTimeout(timer);
+      timer = setTimeout(
+        () => finish(() => reject(new WorkerRunFailure('time-limit', `${entry.name}: past its time limit of ${options.timeLimitMs} ms`))),
+        options.timeLimitMs,
+      );
+    };
+    // The clock starts when the thread runs (its start-up is not the job's time).
+    worker.once('online', startClock);
+    worker.on('message', (message: Answer | TimeLimitMessage) => {
+      if (isTimeLimitMessage(message)) {
+        if (settled) return;
+        if (message.running) startClock();
+        else clearTimeout(timer);
+        return;
+      }
+      finish(() => resolve(message));
+    });
     worker.on('error', (error: Error & { code?: string }) => finish(() => {
       if (error.code === 'ERR_WORKER_OUT_OF_MEMORY') reject(new WorkerRunFailure('out-of-memory', `${entry.name}: past its heap limit`, { cause: error }));
       else reject(new WorkerRunFailure('error', `${entry.name} failed: ${error.message}`, { cause: error }));
