@@ -7,12 +7,17 @@
  * - In the built server (dist/server/**) this module is part of Astro's bundle; the build also
  *   bundles every entry of worker-entries.ts on its own into dist/server/ (worker-build.ts). The
  *   bundled file is found by walking up from this chunk's folder.
- * - Under tsx, Vitest and `astro dev` this module is the TypeScript source itself; the worker runs
- *   its entry from source, loaded through tsx's `tsImport` (tsx is a dependency of the project;
- *   Node 20 does not pass `--import` loaders on to worker threads).
+ * - Under tsx, Vitest and `astro dev` this module is the TypeScript source itself; a long-lived
+ *   worker (the audit pool's, the what-if thread) runs its entry from source, loaded through tsx's
+ *   `tsImport` (tsx is a dependency of the project; Node 20 does not pass `--import` loaders on
+ *   to worker threads). A one-off job's worker (runWorkerOnce: the wave reader, one thread per
+ *   file) pays its start-up per job, and tsx's is several times a bundle's; so from source it is
+ *   bundled once per process with the build's own step (esbuild) into `.tmp-workers/` under the
+ *   project, and bundled again when one of its inputs changes.
  * docs/decisions/004-audit-jobs.md (the mechanism), 015-workbook-worker.md (one module for all).
  */
-import { existsSync } from 'node:fs';
+import type { Metafile } from 'esbuild';
+import { existsSync, mkdirSync, rmSync, statSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
@@ -96,6 +101,57 @@ export function spawnWorker(origin: WorkerOrigin, options: SpawnOptions): Worker
   return new Worker(source, { ...workerOptions, eval: true });
 }
 
+/** A one-off worker bundled from source in this process: the file and the newest change of its inputs. */
+const sourceBundles = new Map<string, { file: string; inputs: string[]; newest: number }>();
+
+function newestChange(files: readonly string[]): number {
+  let newest = 0;
+  for (const file of files) {
+    try {
+      newest = Math.max(newest, statSync(file).mtimeMs);
+    } catch {
+      return Number.POSITIVE_INFINITY; // an input went away: bundle again
+    }
+  }
+  return newest;
+}
+
+/**
+ * A source worker bundled for starting (esbuild, as the build does: worker-build.ts), kept for
+ * this process and made again when an input changed.
+ * @param entry the worker.
+ * @param origin its source.
+ * @returns the bundle's origin.
+ */
+function bundledFromSource(entry: WorkerEntry, origin: WorkerOrigin): WorkerOrigin {
+  const kept = sourceBundles.get(origin.file);
+  if (kept && newestChange(kept.inputs) <= kept.newest) return { kind: 'built', file: kept.file };
+  const root = projectRoot();
+  const folder = join(root, '.tmp-workers');
+  mkdirSync(folder, { recursive: true });
+  const file = join(folder, `${process.pid}-${entry.built}`);
+  if (sourceBundles.size === 0) process.once('exit', () => {
+    for (const bundle of sourceBundles.values()) rmSync(bundle.file, { force: true });
+  });
+  // Loaded here, never in a built server (which starts its bundles directly).
+  const { buildSync } = createRequire(import.meta.url)('esbuild') as typeof import('esbuild');
+  const result = buildSync({ ...WORKER_BUNDLE_OPTIONS, entryPoints: [origin.file], outfile: file, metafile: true, logLevel: 'silent' });
+  const inputs = Object.keys((result.metafile as Metafile).inputs).map((input) => join(root, input));
+  sourceBundles.set(origin.file, { file, inputs, newest: newestChange(inputs) });
+  return { kind: 'built', file };
+}
+
+/** How a worker entry is bundled (the build's step, worker-build.ts, and one-off workers from source). */
+export const WORKER_BUNDLE_OPTIONS = Object.freeze({
+  bundle: true,
+  platform: 'node' as const,
+  format: 'esm' as const,
+  target: 'node20',
+  // Dependencies written as CommonJS call require(); give the ESM bundle one.
+  banner: { js: "import { createRequire as __paredownCreateRequire } from 'node:module'; const require = __paredownCreateRequire(import.meta.url);" },
+  legalComments: 'none' as const,
+});
+
 /** Why a one-off worker ended without its answer. */
 export type WorkerRunFailureReason = 'time-limit' | 'out-of-memory' | 'error' | 'exit';
 
@@ -147,7 +203,8 @@ export interface RunOnceOptions extends SpawnOptions {
  * References: Node.js 20 documentation, "worker_threads: resourceLimits", "Event: 'error'", "Event: 'exit'".
  */
 export function runWorkerOnce<Answer>(entry: WorkerEntry, options: RunOnceOptions): Promise<Answer> {
-  const origin = options.origin ?? locateWorker(entry);
+  const located = options.origin ?? locateWorker(entry);
+  const origin = located.kind === 'source' ? bundledFromSource(entry, located) : located;
   return new Promise<Answer>((resolve, reject) => {
     const worker = spawnWorker(origin, options);
     let settled = false;

@@ -13,6 +13,7 @@ import type { AstroIntegration } from 'astro';
 import { build } from 'esbuild';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { WORKER_BUNDLE_OPTIONS } from './start-worker';
 import { WORKER_ENTRIES, type WorkerEntry } from './worker-entries';
 
 /**
@@ -38,18 +39,7 @@ export async function bundleWorkers(root: string | URL, outDir: string | URL, en
 
 /** Bundles one worker entry into one ESM file for Node 20. */
 async function bundleOne(entry: string, outfile: string): Promise<void> {
-  await build({
-    entryPoints: [entry],
-    outfile,
-    bundle: true,
-    platform: 'node',
-    format: 'esm',
-    target: 'node20',
-    // Dependencies written as CommonJS call require(); give the ESM bundle one.
-    banner: { js: "import { createRequire as __paredownCreateRequire } from 'node:module'; const require = __paredownCreateRequire(import.meta.url);" },
-    logLevel: 'warning',
-    legalComments: 'none',
-  });
+  await build({ ...WORKER_BUNDLE_OPTIONS, entryPoints: [entry], outfile, logLevel: 'warning' });
 }
 
 /**
