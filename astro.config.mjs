@@ -4,7 +4,7 @@ import node from '@astrojs/node';
 import react from '@astrojs/react';
 import tailwindcss from '@tailwindcss/vite';
 import auth from 'auth-astro';
-import { auditWorkerIntegration } from './src/lib/server/audit-jobs/audit-worker-build';
+import { workerBuildIntegration } from './src/lib/workers/worker-build';
 import { nodeAdapterHardening } from './src/lib/server/node-adapter-hardening';
 
 // Host names the server answers to. Astro ignores the Host header of any other name (and then
@@ -26,8 +26,9 @@ for (const host of (process.env.ALLOWED_HOSTS ?? '').split(',')) {
 export default defineConfig({
   output: 'server',
   adapter: node({ mode: 'standalone' }),
-  // The audit worker thread is bundled on its own into dist/server/ (docs/decisions/004-audit-jobs.md).
-  integrations: [react(), auth(), auditWorkerIntegration()],
+  // The worker threads (audits, what-if, wave reader) are bundled on their own into dist/server/
+  // (src/lib/workers/worker-build.ts; docs/decisions/004-audit-jobs.md, 015-workbook-worker.md).
+  integrations: [react(), auth(), workerBuildIntegration()],
   server: { host: '127.0.0.1', port: 4321 },
   security: {
     // Cross-site requests are refused by our own origin check in src/middleware.ts (it exempts

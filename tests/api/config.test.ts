@@ -20,6 +20,7 @@ describe('parseConfig: workbook limits and audit workers', () => {
     expect(config.limits.workbookMemoryMb).toBe(1024); // README configuration table
     expect(config.limits.workbookSeconds).toBe(60); // README configuration table
     expect(config.auditWorkers).toBe(Math.min(64, availableParallelism())); // docs/decisions/004: default os.availableParallelism()
+    expect([config.limits.readers, config.limits.readerQueue]).toEqual([2, 16]); // README configuration table; docs/decisions/015
   });
 
   it('reads the variables when set, and treats empty ones as unset', () => {
@@ -29,6 +30,8 @@ describe('parseConfig: workbook limits and audit workers', () => {
     expect([empty.limits.workbookMemoryMb, empty.limits.workbookSeconds]).toEqual([1024, 60]); // the defaults above
     expect(parseConfig({ ...base, AUDIT_WORKERS: '1' }).auditWorkers).toBe(1);
     expect(parseConfig({ ...base, AUDIT_WORKERS: '64' }).auditWorkers).toBe(64);
+    const readers = parseConfig({ ...base, UPLOAD_READERS: '1', UPLOAD_READER_QUEUE: '0' }).limits;
+    expect([readers.readers, readers.readerQueue]).toEqual([1, 0]);
   });
 
   it.each([
@@ -39,6 +42,10 @@ describe('parseConfig: workbook limits and audit workers', () => {
     ['AUDIT_WORKERS', '0'],
     ['AUDIT_WORKERS', '65'],
     ['AUDIT_WORKERS', 'two'],
+    ['UPLOAD_READERS', '0'],
+    ['UPLOAD_READERS', '65'],
+    ['UPLOAD_READER_QUEUE', '-1'],
+    ['UPLOAD_READER_QUEUE', 'many'],
   ])('refuses %s=%s, naming the variable', (name, value) => {
     expect(() => parseConfig({ ...base, [name]: value })).toThrow(new RegExp(`^parseConfig: invalid configuration \\(.*${name}`));
   });

@@ -6,7 +6,10 @@
  *
  * - the core (src/lib/stats) imports only itself (and its one numerical library);
  * - the engine (src/lib/engine) imports only itself and the core;
- * - src/lib/ingest and src/lib/synth never import server, database or framework code;
+ * - src/lib/ingest and src/lib/synth never import server, database or framework code (the ingest
+ *   may use the worker-thread mechanism, src/lib/workers, to read files off the calling thread);
+ * - src/lib/workers (finding, starting and bounding worker threads) imports only itself, Node and
+ *   its bundler: it sits below the ingest and the server, which both use it;
  * - islands (src/components) never import src/lib/server or src/db;
  * - src/db imports nothing above it (no src/lib/server, src/lib/ingest, nor anything higher);
  * - the contracts (src/lib/api) never import server or database code.
@@ -110,7 +113,17 @@ export const rules: Rule[] = [
     refuses: (to) =>
       isPackage(to)
         ? frameworkPackages.test(to) ? 'a framework or database package' : null
-        : within(to, 'src/lib/stats') || within(to, 'src/lib/ingest') || within(to, 'src/lib/synth') ? null : 'above the pure libraries',
+        : within(to, 'src/lib/stats') || within(to, 'src/lib/ingest') || within(to, 'src/lib/synth') || within(to, 'src/lib/workers') ? null : 'above the pure libraries',
+  },
+  {
+    // The ingest reads files in a worker thread (docs/decisions/015-workbook-worker.md), so the
+    // mechanism sits below it: it may know other layers' entry files by name, never import them.
+    name: 'src/lib/workers imports only itself, Node, esbuild and the type of an Astro integration',
+    covers: (from) => within(from, 'src/lib/workers'),
+    refuses: (to) =>
+      isPackage(to)
+        ? nodeBuiltins.has(to) || to === 'esbuild' || to === 'astro' ? null : 'a package other than Node, esbuild or astro'
+        : within(to, 'src/lib/workers') ? null : 'outside the worker mechanism',
   },
   {
     name: 'islands (src/components) never import src/lib/server or src/db',
@@ -171,10 +184,15 @@ describe('layering of src/', () => {
       { from: 'src/lib/ingest/read-table.ts', to: 'drizzle-orm' },
       { from: 'src/db/schema/studies.ts', to: 'src/lib/api/studies' },
       { from: 'src/lib/api/studies.ts', to: 'node:fs' },
+      { from: 'src/lib/workers/start-worker.ts', to: 'src/lib/server/config' },
+      { from: 'src/lib/ingest/workbook-worker.ts', to: 'src/lib/server/waves/wave-readers' },
     ]);
     expect(broken.map((v) => v.from)).toEqual([
       'src/components/upload/WaveUpload.tsx', 'src/lib/stats/kmo.ts', 'src/lib/engine/run-engine.ts', 'src/lib/ingest/read-table.ts', 'src/db/schema/studies.ts', 'src/lib/api/studies.ts',
+      'src/lib/workers/start-worker.ts', 'src/lib/ingest/workbook-worker.ts',
     ]);
+    // The ingest may use the worker mechanism.
+    expect(violations([{ from: 'src/lib/ingest/workbook-worker.ts', to: 'src/lib/workers/start-worker' }])).toEqual([]);
   });
 
   it('has no arrow against a rule, apart from those other work removes', () => {

@@ -23,8 +23,10 @@ export { detectFileKind, fileExtension, type FileKind } from './detect-file-kind
 export { sniffDelimiter, sniffDecimalSeparator, DELIMITERS, type Delimiter } from './sniff-delimiter';
 export { readDelimitedText, type DelimitedText } from './read-delimited-text';
 export { checkZipDirectory, type ZipDirectory } from './check-zip-directory';
-export { readWorkbook, type WorkbookRead, type WorkbookSheet } from './read-workbook';
-export { parseWorkbookInWorker, type ParsedSheet } from './workbook-worker';
+export { readWorkbook, type WorkbookParser, type WorkbookRead, type WorkbookSheet } from './read-workbook';
+export { parseWorkbook, type ParsedSheet } from './parse-workbook';
+export { parseWorkbookInWorker, readUploadInWorker, acceptUploadInWorker } from './workbook-worker';
+export { previewProposal, runWaveReaderJob, type AcceptedRead, type ProposalPreview, type UploadRead, type WaveReaderJob } from './wave-reader-jobs';
 export { shapeTable, uniqueHeaders, type CellGrid } from './shape-table';
 export { parseNumber, isBlankCell, looksLikeFormula } from './parse-number';
 export { parseDuration, looksLikeTimeText } from './parse-duration';

@@ -7,7 +7,7 @@ import { decodeText } from './decode-text';
 import { detectFileKind, fileExtension } from './detect-file-kind';
 import { readDelimitedText } from './read-delimited-text';
 import { formatMebibytes, resolveReadLimits, type ReadLimits } from './read-limits';
-import { readWorkbook, type WorkbookSheet } from './read-workbook';
+import { readWorkbook, type WorkbookParser, type WorkbookSheet } from './read-workbook';
 import { shapeTable } from './shape-table';
 import type { TableFormat, TableSource, WaveTable, WaveWarning } from './types';
 import { WaveRefusal } from './wave-refusal';
@@ -16,6 +16,8 @@ import { WaveRefusal } from './wave-refusal';
 export interface ReadTableOptions {
   /** Workbooks: the sheet holding the responses (default: chosen automatically). */
   readonly sheet?: string;
+  /** Workbooks: how the bytes are parsed (in a wave reader thread by default; see WorkbookParser). */
+  readonly parseWorkbook?: WorkbookParser;
 }
 
 function textFormat(fileName: string): TableFormat {
@@ -33,7 +35,7 @@ function textFormat(fileName: string): TableFormat {
  * @param fileName the uploaded name (its extension only decides how text is labelled and
  *   whether a workbook was promised).
  * @param limits any of {@link ReadLimits}; the rest take their defaults.
- * @param options `sheet`: the responses sheet of a workbook.
+ * @param options `sheet`: the responses sheet of a workbook; `parseWorkbook`: see WorkbookParser.
  * @throws {WaveRefusal} 413 past a limit (`file-too-large`, `too-many-rows`, `too-many-columns`,
  *   `too-many-cells`, `zip-too-large`, `too-many-zip-entries`, `workbook-too-demanding`); 422 when the bytes are not
  *   responses (`empty-file`, `not-a-workbook`, `unsupported-format`, `binary-file`, `nul-bytes`,
@@ -79,7 +81,7 @@ export async function readTable(
   }
   let format: TableFormat = 'xls';
   if (kind === 'zip') format = (await checkZipDirectory(bytes, fileName, resolved)).kind;
-  const workbook = await readWorkbook(bytes, fileName, resolved, options.sheet);
+  const workbook = await readWorkbook(bytes, fileName, resolved, options.sheet, options.parseWorkbook);
   const sheetNames = workbook.sheets.map((sheet) => sheet.name);
   const sourceOf = (sheet: WorkbookSheet): TableSource => ({
     fileName, format, encoding: null, delimiter: null, decimalSeparator: '.', sheet: sheet.name, sheets: sheetNames,

@@ -7,6 +7,7 @@
 import { readCodebook } from './read-codebook';
 import type { ReadLimits } from './read-limits';
 import { readTable } from './read-table';
+import type { WorkbookParser } from './read-workbook';
 import type { Codebook, WaveSource, WaveTable, WaveWarning } from './types';
 import { isWaveRefusal } from './wave-refusal';
 
@@ -37,6 +38,8 @@ export interface ReadWaveOptions {
    * error passes through unchanged (the command line reports it as an internal fault).
    */
   readonly unexpected?: (fileName: string, error: unknown) => Error;
+  /** Workbooks: how the bytes are parsed (in a wave reader thread by default; the reader thread itself parses in place). */
+  readonly parseWorkbook?: WorkbookParser;
 }
 
 async function step<T>(fileName: string, options: ReadWaveOptions, work: () => Promise<T> | T): Promise<T> {
@@ -58,14 +61,14 @@ async function step<T>(fileName: string, options: ReadWaveOptions, work: () => P
  * References: docs/decisions/002-reading-waves.md (the reader and its refusals).
  */
 export async function readWave(files: WaveFiles, limits: Partial<ReadLimits> = {}, options: ReadWaveOptions = {}): Promise<ReadWave> {
-  const table = await step(files.fileName, options, () => readTable(files.bytes, files.fileName, limits, files.sheet ? { sheet: files.sheet } : {}));
+  const table = await step(files.fileName, options, () => readTable(files.bytes, files.fileName, limits, { ...(files.sheet ? { sheet: files.sheet } : {}), ...(options.parseWorkbook ? { parseWorkbook: options.parseWorkbook } : {}) }));
   const warnings: WaveWarning[] = [...table.warnings];
   let codebook: Codebook | null = null;
   let codebookFrom: WaveSource['codebookFrom'] = null;
   if (files.codebookBytes && files.codebookName) {
     const codebookName = files.codebookName;
     const codebookBytes = files.codebookBytes;
-    const codebookTable = await step(codebookName, options, () => readTable(codebookBytes, codebookName, limits));
+    const codebookTable = await step(codebookName, options, () => readTable(codebookBytes, codebookName, limits, options.parseWorkbook ? { parseWorkbook: options.parseWorkbook } : {}));
     codebook = await step(codebookName, options, () => readCodebook(codebookTable));
     codebookFrom = 'file';
     if (table.codebookTable) {

@@ -1,6 +1,6 @@
 /**
- * Reads XLSX, XLS and ODS workbooks through SheetJS (xlsx-republish, run in an isolated worker by
- * workbook-worker.ts): lists the sheets, picks the responses sheet and a codebook sheet. Cells
+ * Reads XLSX, XLS and ODS workbooks through SheetJS (xlsx-republish: parse-workbook.ts, run in the
+ * wave reader thread; workbook-worker.ts): lists the sheets, picks the responses sheet and a codebook sheet. Cells
  * become text the way a CSV would hold them (numbers in canonical JavaScript form, so a workbook
  * and a CSV of the same answers read alike; time formats as formatted). Formulas are never
  * evaluated: a cell's stored value is read, and a text cell that looks like a formula stays text.
@@ -10,7 +10,14 @@ import type { CellGrid } from './shape-table';
 import type { ReadLimits } from './read-limits';
 import type { WaveWarning } from './types';
 import { WaveRefusal } from './wave-refusal';
+import type { ParsedSheet } from './parse-workbook';
 import { parseWorkbookInWorker } from './workbook-worker';
+
+/**
+ * How a workbook's bytes become sheets: in a wave reader thread (parseWorkbookInWorker, the
+ * default), or in this thread when this thread already is a wave reader (parseWorkbook).
+ */
+export type WorkbookParser = (bytes: Uint8Array, fileName: string, sheetRows: number) => ParsedSheet[] | Promise<ParsedSheet[]>;
 
 /** One sheet as a grid of cell texts. */
 export interface WorkbookSheet {
@@ -46,6 +53,7 @@ function isCodebookSheet(sheet: WorkbookSheet): boolean {
  * @param limits the row limit bounds how many rows of each sheet are read; the workbook memory
  *   and time limits bound the isolated parser.
  * @param requestedSheet a sheet the designer chose (matched without regard to case), or undefined to choose automatically.
+ * @param parse how the bytes are parsed (in a wave reader thread by default).
  * @throws {WaveRefusal} 422 `workbook-encrypted` for a password-protected workbook; 422
  *   `workbook-unreadable` when SheetJS cannot read it; 413 `workbook-too-demanding` past the
  *   parser's memory or time limit; 422 `empty-file` when every sheet is empty; 400
@@ -54,8 +62,9 @@ function isCodebookSheet(sheet: WorkbookSheet): boolean {
  *   several sheets could hold responses.
  * References: SheetJS LLC 2024, "SheetJS Community Edition documentation", Parse Options (dense, sheetRows, cellNF).
  */
-export async function readWorkbook(bytes: Uint8Array, fileName: string, limits: ReadLimits, requestedSheet?: string): Promise<WorkbookRead> {
-  const parsed = await parseWorkbookInWorker(bytes, fileName, limits);
+export async function readWorkbook(bytes: Uint8Array, fileName: string, limits: ReadLimits, requestedSheet?: string, parse?: WorkbookParser): Promise<WorkbookRead> {
+  // One header row, the row limit, and one more row so that passing the limit is seen.
+  const parsed = parse ? await parse(bytes, fileName, limits.maxRows + 2) : await parseWorkbookInWorker(bytes, fileName, limits);
   const sheets: WorkbookSheet[] = parsed.map((sheet) => ({
     name: sheet.name,
     hidden: sheet.hidden,

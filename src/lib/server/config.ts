@@ -37,6 +37,10 @@ export interface ServerConfig {
     readonly workbookMemoryMb: number;
     /** Seconds the isolated workbook reader may take. */
     readonly workbookSeconds: number;
+    /** Wave readers (threads reading an upload) at once; all of them together use at most this × workbookMemoryMb of heap. */
+    readonly readers: number;
+    /** Uploads and confirmations that may wait for a reader; past this they are refused with 503. */
+    readonly readerQueue: number;
   };
   /** Audits that may run at once, each in its own worker thread (1 to 64). */
   readonly auditWorkers: number;
@@ -55,6 +59,11 @@ export interface ServerConfig {
     readonly windowMinutes: number;
   };
 }
+
+/** Wave readers at once by default: two keeps a core for the web thread on a 2-core machine (docs/decisions/015-workbook-worker.md). */
+export const DEFAULT_UPLOAD_READERS = 2;
+/** Uploads and confirmations that may wait for a reader by default. */
+export const DEFAULT_UPLOAD_READER_QUEUE = 16;
 
 const booleanText = z
   .enum(['1', '0', 'true', 'false', 'yes', 'no', 'on', 'off'])
@@ -81,6 +90,8 @@ const environmentSchema = z.object({
   UPLOAD_MAX_COLUMNS: positiveInteger.default(2_000),
   UPLOAD_MAX_WORKBOOK_MEMORY_MB: positiveInteger.default(DEFAULT_READ_LIMITS.maxWorkbookMemoryMb),
   UPLOAD_MAX_WORKBOOK_SECONDS: positiveInteger.default(DEFAULT_READ_LIMITS.maxWorkbookSeconds),
+  UPLOAD_READERS: z.coerce.number().int().min(1).max(64).default(DEFAULT_UPLOAD_READERS),
+  UPLOAD_READER_QUEUE: z.coerce.number().int().min(0).max(1000).default(DEFAULT_UPLOAD_READER_QUEUE),
   AUDIT_WORKERS: z.coerce.number().int().min(1).max(64).optional(),
   AUDIT_WORKERS_PER_TEAM: z.coerce.number().int().min(1).max(64).optional(),
   // A day at most: beyond that a limit protects nothing (and setTimeout holds up to 24.8 days).
@@ -159,6 +170,8 @@ export function parseConfig(environment: NodeJS.ProcessEnv = process.env): Serve
       columns: env.UPLOAD_MAX_COLUMNS,
       workbookMemoryMb: env.UPLOAD_MAX_WORKBOOK_MEMORY_MB,
       workbookSeconds: env.UPLOAD_MAX_WORKBOOK_SECONDS,
+      readers: env.UPLOAD_READERS,
+      readerQueue: env.UPLOAD_READER_QUEUE,
     },
     auditWorkers,
     // More per team than in the whole pool means no per-team limit: the pool's size bounds it.

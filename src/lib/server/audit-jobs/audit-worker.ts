@@ -6,7 +6,7 @@
  * the pool records a worker that dies.
  *
  * How it starts: the build bundles this file into dist/server/audit-worker.mjs
- * (audit-worker-build.ts); under tsx, Vitest and `astro dev` it runs from source through tsx
+ * (src/lib/workers/worker-build.ts); under tsx, Vitest and `astro dev` it runs from source through tsx
  * (worker-entry.ts). docs/decisions/004-audit-jobs.md says why.
  */
 import { isMainThread, parentPort } from 'node:worker_threads';

@@ -1,7 +1,8 @@
 /**
  * Confirming a wave's column setup and exclusions. A proposed wave is built again from its stored
- * original through the one reader and the one accept path (readWave, acceptWave: so what is kept is
- * exactly what the file says under the confirmed setup), screened, and written in ONE transaction
+ * original through the one reader and the one accept path (readWave, acceptWave, in a wave reader
+ * thread: wave-readers.ts; so what is kept is exactly what the file says under the confirmed
+ * setup, and this thread touches no cell), screened, and written in ONE transaction
  * by the one confirmed-wave writer (write-confirmed-wave.ts): the recoded matrix blob, the items,
  * respondent ids, the setup, the screening and the exclusions, then status `confirmed`. After any
  * failure (or a kill -9) nothing of it remains and the wave is still `proposed`.
@@ -14,7 +15,7 @@
 import { asc, eq } from 'drizzle-orm';
 import { waveItems, waves } from '../../../db/schema';
 import {
-  acceptWave, applyExclusions, decodeMatrix, waveSetupSchema,
+  applyExclusions, decodeMatrix, waveSetupSchema,
   type AcceptedWave, type BuiltWave, type ScreeningOptions, type ScreeningResult,
 } from '../../ingest';
 import { logActivity } from '../activity';
@@ -23,7 +24,7 @@ import { getDb } from '../db';
 import { fail } from '../errors';
 import { serverFileStore } from '../file-store';
 import type { StudyRow } from '../guard';
-import { readWaveFiles } from './read-wave-files';
+import { waveReaders } from './wave-readers';
 import { confirmedDocument, itemDescription, parseStoredSetup, type StoredWaveSetup, type WaveRow } from './stored-wave';
 import { assembleView, storedWaveView, type ItemView, type WaveView } from './wave-view';
 import { writeConfirmedWave } from './write-confirmed-wave';
@@ -67,6 +68,8 @@ function itemViews(wave: BuiltWave): ItemView[] {
 interface Rebuilt {
   accepted: AcceptedWave;
   document: StoredWaveSetup;
+  /** The recoded matrix as stored (encodeMatrix), made in the reader thread. */
+  matrixBlob: Uint8Array;
 }
 
 async function rebuild(row: WaveRow, setup: unknown, exclusions: readonly unknown[], screeningOptions: Partial<ScreeningOptions>): Promise<Rebuilt> {
@@ -75,23 +78,24 @@ async function rebuild(row: WaveRow, setup: unknown, exclusions: readonly unknow
   const store = serverFileStore();
   const responses = store.read(db, row.fileHash);
   const codebook = row.codebookHash ? store.read(db, row.codebookHash) : null;
-  const read = await readWaveFiles({
+  const files = {
     fileName: before.source?.fileName ?? responses.originalName,
     bytes: responses.bytes,
     codebookName: codebook ? before.source?.codebookName ?? codebook.originalName : null,
     codebookBytes: codebook?.bytes ?? null,
     sheet: row.sheet,
-  });
-  let accepted: AcceptedWave;
+  };
+  let read;
   try {
-    accepted = acceptWave(read.table, { setup, exclusions, screening: screeningOptions });
+    read = await waveReaders().accept(files, { setup, exclusions, screening: screeningOptions });
   } catch (error) {
     if (error instanceof RangeError && error.message.startsWith('screenRespondents: ')) {
       throw fail.badRequest(error.message.replace(/^screenRespondents: /, 'Screening: '), 'invalid-screening');
     }
     throw error;
   }
-  return { accepted, document: confirmedDocument(before, accepted, read.source) };
+  const { accepted, matrixBlob } = read;
+  return { accepted, matrixBlob, document: confirmedDocument(before, accepted, read.source) };
 }
 
 /** A confirmed wave under other exclusions, worked out from its stored matrix. */
@@ -134,7 +138,8 @@ function previewRow(row: WaveRow, document: StoredWaveSetup, screening: Screenin
  * @param request setup, exclusions, screening settings, dry run.
  * @throws HttpError 400 `setup-required` (proposed wave without a setup), `exclusions-required`
  *   (confirmed wave without exclusions), `invalid-screening`; 409 `wave-confirmed` when the
- *   setup or screening of a confirmed wave would change, or another confirmation came first.
+ *   setup or screening of a confirmed wave would change, or another confirmation came first;
+ *   503 `readers-busy` when every wave reader is busy and the line is full.
  * @throws {WaveRefusal} 400 for an invalid setup or exclusions (see validateSetup, applyExclusions).
  * @returns whether it was stored, and the view of the wave.
  * References: Paredown api.md (PUT /api/waves/{id}/setup); methods.md §6 (screening); docs/decisions/005-storing-waves.md.
@@ -180,7 +185,8 @@ export async function confirmWave(user: CurrentUser, study: StudyRow, row: WaveR
   if (request.setup === undefined) {
     throw fail.badRequest('Send the column setup to confirm (the proposal\'s columns, changed where needed).', 'setup-required');
   }
-  const { accepted, document } = await rebuild(row, request.setup, request.exclusions ?? [], request.screening ?? {});
+  waveReaders().checkRoom();
+  const { accepted, document, matrixBlob } = await rebuild(row, request.setup, request.exclusions ?? [], request.screening ?? {});
   const { wave, screening } = accepted;
   if (dryRun) {
     return { stored: false, view: assembleView({ row: previewRow(row, document, screening, wave), stored: document, screening, respondentIds: wave.respondentIds, items: itemViews(wave), exclusions: wave.excluded }, true) };
@@ -189,7 +195,7 @@ export async function confirmWave(user: CurrentUser, study: StudyRow, row: WaveR
     const current = tx.select({ status: waves.status }).from(waves).where(eq(waves.id, row.id)).get();
     if (!current) throw fail.notFound('No such wave among your teams.', 'wave-not-found');
     if (current.status !== 'proposed') throw fail.conflict(`"${row.label}" was confirmed meanwhile; reload it to see its setup.`, 'wave-confirmed');
-    writeConfirmedWave(tx, { id: row.id }, document, accepted);
+    writeConfirmedWave(tx, { id: row.id }, document, accepted, matrixBlob);
     logActivity(tx, {
       teamId: study.teamId,
       studyId: study.id,

@@ -1,7 +1,8 @@
 /**
  * The server's use of the one reader (src/lib/ingest/read-wave.ts): its configured limits, and a
- * reader fault on a client's bytes logged and answered 422 instead of 500. Read at upload from the
- * request and at confirmation from the stored originals (src/lib/server/file-store.ts).
+ * reader fault on a client's bytes logged and answered 422 instead of 500. Uploads and
+ * confirmations read in a wave reader thread with these limits and this fault handling
+ * (wave-readers.ts); readWaveFiles itself serves the demo seed, once, at the first start.
  */
 import { readWave, WaveRefusal, type ReadLimits, type ReadWave, type WaveFiles } from '../../ingest';
 import { getConfig, type ServerConfig } from '../config';
@@ -28,8 +29,13 @@ export function serverReadLimits(config: ServerConfig = getConfig()): Partial<Re
   };
 }
 
-/** Anything but a refusal thrown while reading a client's bytes: logged, and a 422 for the client. */
-function unexpected(fileName: string, error: unknown): Error {
+/**
+ * Anything but a refusal thrown while reading a client's bytes: logged, and a 422 for the client.
+ * @param fileName the file being read.
+ * @param error what was thrown.
+ * @returns the 422 `file-unreadable` refusal, with the reference the log line carries.
+ */
+export function readerFault(fileName: string, error: unknown): Error {
   const reference = Math.random().toString(36).slice(2, 10);
   console.error(`[paredown] reading "${fileName}" failed unexpectedly (ref ${reference}):`, error);
   return new WaveRefusal(422, 'file-unreadable', `"${fileName}" could not be read as responses (reference ${reference}); export it again as CSV or XLSX.`);
@@ -45,5 +51,5 @@ function unexpected(fileName: string, error: unknown): Error {
  * References: docs/decisions/002-reading-waves.md; docs/decisions/007-one-way-in-for-waves.md.
  */
 export function readWaveFiles(files: WaveFiles, limits: Partial<ReadLimits> = serverReadLimits()): Promise<ReadWave> {
-  return readWave(files, limits, { unexpected });
+  return readWave(files, limits, { unexpected: readerFault });
 }

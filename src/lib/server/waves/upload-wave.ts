@@ -1,14 +1,13 @@
 /**
  * Uploading a wave: read the responses (and codebook) with the one reader, propose the column
- * setup, preview the screening under that proposal (acceptWave), then keep the originals (the
- * file store) and the proposed wave in one transaction. The same upload to the same study again is
+ * setup and preview the screening under that proposal, all in a wave reader thread
+ * (wave-readers.ts: this thread touches no cell), then keep the originals (the file store) and
+ * the proposed wave in one transaction. The same upload to the same study again is
  * recognised and answered with the wave already there (docs/decisions/005-storing-waves.md, 007).
  */
 import { and, eq, isNull } from 'drizzle-orm';
 import { waves } from '../../../db/schema';
-import {
-  acceptWave, contentHash, isWaveRefusal, proposeSetup, type ProposedSetup, type ScreeningResult, type WaveTable, type WaveWarning,
-} from '../../ingest';
+import { contentHash, type WaveWarning } from '../../ingest';
 import { logActivity } from '../activity';
 import type { CurrentUser } from '../current-user';
 import { getDb } from '../db';
@@ -16,8 +15,8 @@ import { mediaTypeOf, serverFileStore } from '../file-store';
 import type { StudyRow } from '../guard';
 import { newId } from '../ids';
 import type { UploadForm } from './read-upload-form';
-import { readWaveFiles } from './read-wave-files';
 import { proposalParts, type StoredWaveSetup, type WaveRow } from './stored-wave';
+import { waveReaders } from './wave-readers';
 import { storedWaveView, type WaveView } from './wave-view';
 
 /** The outcome of an upload. */
@@ -25,24 +24,6 @@ export interface UploadOutcome {
   /** True when the same upload was already in the study: nothing new was stored. */
   duplicate: boolean;
   view: WaveView;
-}
-
-/** A screening preview under a proposal. */
-interface Preview {
-  screening: ScreeningResult | null;
-  respondentIds: readonly string[] | null;
-  warnings: readonly WaveWarning[];
-  note: string | null;
-}
-
-function previewScreening(table: WaveTable, proposal: ProposedSetup): Preview {
-  try {
-    const { wave, screening } = acceptWave(table, { setup: proposal });
-    return { screening, respondentIds: wave.respondentIds, warnings: wave.warnings, note: null };
-  } catch (error) {
-    if (!isWaveRefusal(error)) throw error;
-    return { screening: null, respondentIds: null, warnings: [], note: `No screening yet: ${error.message}` };
-  }
 }
 
 function nextPilotLabel(tx: Pick<ReturnType<typeof getDb>, 'select'>, studyId: string): string {
@@ -58,18 +39,18 @@ function nextPilotLabel(tx: Pick<ReturnType<typeof getDb>, 'select'>, studyId: s
  * @param study the study (access already checked by the guard).
  * @param form the upload form.
  * @throws {WaveRefusal} whatever the reader refuses (400, 413, 422); nothing is stored then.
+ * @throws {HttpError} 503 `readers-busy` when every reader is busy and the line is full.
  * @returns the wave with its proposal, or the wave already holding the same upload (`duplicate`).
  * References: Paredown api.md (POST /api/studies/{id}/waves); docs/decisions/005-storing-waves.md.
  */
 export async function uploadWave(user: CurrentUser, study: StudyRow, form: UploadForm): Promise<UploadOutcome> {
-  const read = await readWaveFiles({
+  const read = await waveReaders().readUpload({
     fileName: form.file.name, bytes: form.file.bytes, codebookName: form.codebook?.name ?? null, codebookBytes: form.codebook?.bytes ?? null, sheet: form.sheet,
   });
-  const proposal = proposeSetup(read.table, read.codebook);
-  const preview = previewScreening(read.table, proposal);
+  const { proposal, preview } = read;
   const fileHash = contentHash(form.file.bytes);
   const codebookHash = form.codebook ? contentHash(form.codebook.bytes) : null;
-  const sheet = read.table.source.sheet;
+  const sheet = read.source.sheet;
 
   const db = getDb();
   const result = serverFileStore().transaction(db, (tx, files): { duplicate: boolean; waveId: string } => {
@@ -86,7 +67,7 @@ export async function uploadWave(user: CurrentUser, study: StudyRow, form: Uploa
       message: `This file is already in the study as ${sameUpload.map((wave) => `"${wave.label}"`).join(', ')}; this upload is kept as a separate wave.`,
     }] : [];
     const stored: StoredWaveSetup = { ...proposalParts(read, proposal, serverWarnings), buildWarnings: preview.warnings, screeningNote: preview.note };
-    const responsesFile = files.write(form.file.bytes, form.file.name, mediaTypeOf(read.table.source.format), fileHash);
+    const responsesFile = files.write(form.file.bytes, form.file.name, mediaTypeOf(read.source.format), fileHash);
     const codebookFile = form.codebook && codebookHash !== null
       ? files.write(form.codebook.bytes, form.codebook.name, mediaTypeOf(form.codebook.name), codebookHash)
       : null;
@@ -98,7 +79,7 @@ export async function uploadWave(user: CurrentUser, study: StudyRow, form: Uploa
       label,
       fileHash: responsesFile.hash,
       codebookHash: codebookFile?.hash ?? null,
-      format: read.table.source.format,
+      format: read.source.format,
       sheet,
       status: 'proposed',
       setup: stored,

@@ -14,6 +14,11 @@ import { itemDescription, type StoredWaveSetup } from './stored-wave';
 /** Wave items inserted per statement (each binds 11 parameters). */
 const ITEM_ROWS_PER_INSERT = 500;
 
+/** The blob's bytes as a Buffer, without copying them. */
+function asBuffer(bytes: Uint8Array): Buffer {
+  return Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength);
+}
+
 /** What a wave row holds besides its confirmed parts, for a wave written confirmed from the start (the demo seed). */
 export interface NewWaveRow {
   id: string;
@@ -33,9 +38,10 @@ export interface NewWaveRow {
  * @param target `{ id }` of a proposed wave to update, or `{ insert }` with a new row's own columns.
  * @param document the setup document (see confirmedDocument).
  * @param accepted the wave accepted under the confirmed setup (acceptWave).
+ * @param matrixBlob `encodeMatrix(accepted.wave.matrix)` when the reader thread made it already (confirmation); made here otherwise.
  * @throws Error from the database (the caller's transaction then rolls everything back).
  */
-export function writeConfirmedWave(tx: Tx, target: { id: string } | { insert: NewWaveRow }, document: StoredWaveSetup, accepted: AcceptedWave): void {
+export function writeConfirmedWave(tx: Tx, target: { id: string } | { insert: NewWaveRow }, document: StoredWaveSetup, accepted: AcceptedWave, matrixBlob?: Uint8Array): void {
   const { wave, screening } = accepted;
   const confirmed = {
     status: 'confirmed' as const,
@@ -44,7 +50,7 @@ export function writeConfirmedWave(tx: Tx, target: { id: string } | { insert: Ne
     exclusions: [...wave.excluded],
     rowCount: wave.respondents,
     itemCount: wave.items.length,
-    matrix: Buffer.from(encodeMatrix(wave.matrix)),
+    matrix: asBuffer(matrixBlob ?? encodeMatrix(wave.matrix)),
     respondentIds: wave.respondentIds ? [...wave.respondentIds] : null,
     confirmedAt: new Date(),
   };
