@@ -39,6 +39,7 @@ export const constraintWords: Record<string, string> = {
   'alpha-floor': "its scale's alpha would fall below the floor",
   'max-alpha-drop': "its scale's alpha would drop by more than allowed",
   'cut-cap': 'the cap on the share of items cut is reached',
+  facet: 'it is the last item of its content facet, which would go unasked',
 };
 
 /** Actions as shown. */
