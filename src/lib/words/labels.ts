@@ -68,3 +68,14 @@ export function constraintsLine(settings: { locked?: readonly string[]; minItems
   if (typeof settings.maxCutShare === 'number') parts.push(`at most ${formatShare(settings.maxCutShare)} cut`);
   return parts.join(' · ');
 }
+
+/**
+ * Which reliability figure follows the chosen correlation method and which stays on the raw
+ * scores, said wherever alpha and omega stand side by side (issue 14).
+ * @param method the audit's correlation method, or null where the page does not know it.
+ * @returns one sentence.
+ */
+export function reliabilityBasisNote(method: string | null): string {
+  const matrix = method ? `the ${methodWords[method] ?? method} correlation matrix` : "the audit's correlation matrix";
+  return `Alpha stays on the raw scores (item covariances) whatever the method; omega total follows the chosen method: model-implied, from one-factor minres loadings on ${matrix} (not psych::omega's observed-variance version).`;
+}
