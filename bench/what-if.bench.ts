@@ -22,6 +22,7 @@ import { DEMO_AUDIT_ID } from '../src/lib/server/demo-audit';
 import { resolveAuditSettings } from '../src/lib/server/audit-jobs/audit-settings';
 import { computeWhatIf, WhatIfCache, type WhatIfJob } from '../src/lib/server/audit-jobs/what-if-compute';
 import { WhatIfJobs } from '../src/lib/server/audit-jobs/what-if-jobs';
+import { storedWaveForJob } from '../src/lib/server/audit-jobs/stored-job-wave';
 import { AuditWorkerPool } from '../src/lib/server/audit-jobs/worker-pool';
 import { locateAuditWorker, spawnAuditWorker, WHAT_IF_WORKER_FILES } from '../src/lib/server/audit-jobs/worker-entry';
 import { loadAverageAndCores } from './bench-helpers';
@@ -79,14 +80,7 @@ try {
   const audit = db.select().from(audits).where(eq(audits.id, DEMO_AUDIT_ID)).get()!;
   const wave = db.select().from(waves).where(eq(waves.id, audit.waveId)).get()!;
   const study = db.select().from(studies).where(eq(studies.id, demoIds.demoStudy)).get()!;
-  const items = db.select().from(waveItems).where(eq(waveItems.waveId, wave.id)).orderBy(waveItems.position).all();
-  const jobWave = {
-    matrixBlob: wave.matrix!,
-    respondents: wave.rowCount,
-    excluded: wave.exclusions,
-    items: items.map((item) => ({ id: item.itemId, scale: item.scale, reverse: item.reverse, min: item.min ?? Number.NaN, max: item.max ?? Number.NaN, text: item.text })),
-    outcomes: [],
-  };
+  const jobWave = storedWaveForJob(db, wave, wave.matrix!, null);
   const byMethod: Record<string, { coldMs: number; warmMedianMs: number }> = {};
   for (const method of ['pearson', 'polychoric'] as const) {
     const settings = resolveAuditSettings({ method, bootstrap: 0 }, study.settings, { allowTestFaults: false });

@@ -15,11 +15,11 @@
 import { readFile, writeFile } from 'node:fs/promises';
 import { basename } from 'node:path';
 import { parseArgs } from 'node:util';
-import { auditInputFromWave, AuditInputError, nothingToCompute, proposedCorrelationMethod } from '../lib/audit/audit-input';
+import { auditInputFromSetup, auditSetupOf, AuditInputError, nothingToCompute, proposedCorrelationMethod } from '../lib/audit/audit-input';
 import { runAudit } from '../lib/audit/run-audit';
 import { auditSettingsSchema } from '../lib/audit/settings-schema';
 import { AUDIT_SETTINGS, AuditSettingsError, auditSettingsProblems, requestFromFlags, resolveAuditSettings } from '../lib/audit/settings-table';
-import { acceptProposal, columnsLeftOut, isWaveRefusal, readWave } from '../lib/ingest';
+import { acceptProposal, isWaveRefusal, readWave } from '../lib/ingest';
 
 /** The flags of the settings table, e.g. `--method pearson|spearman|polychoric`, `--bootstrap N`. */
 const settingFlags = AUDIT_SETTINGS.filter((setting) => setting.flag !== null);
@@ -128,7 +128,8 @@ async function main(argv: string[]): Promise<number> {
       (exclusions.length > 0 ? `; left out ${exclusions.length} flagged by screening (--keep-all keeps them).\n` : '.\n'),
   );
 
-  const input = auditInputFromWave(wave, { outcome, locked: settings.locked, leftOut: columnsLeftOut(proposal, setup), screening });
+  // The same function as the server's audit jobs: columns left out, screening rules, item types and facets.
+  const input = auditInputFromSetup(wave, auditSetupOf(proposal.columns, setup.columns, screening), { outcome, locked: settings.locked });
   const nothing = nothingToCompute(input.matrix, { setAside: wave.excluded.length });
   if (nothing) refuse(nothing);
   // No method asked for: 0/1 items get the tetrachoric correlation (polychoric on 0/1), since phi,

@@ -10,6 +10,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { acceptProposal, encodeMatrix, readWave } from '../../src/lib/ingest';
+import { auditSetupOf } from '../../src/lib/audit/audit-input';
 import { resolveAuditSettings } from '../../src/lib/server/audit-jobs/audit-settings';
 import { executeAuditJob } from '../../src/lib/server/audit-jobs/execute-audit-job';
 import { AuditJobFailure, AuditWorkerPool } from '../../src/lib/server/audit-jobs/worker-pool';
@@ -32,7 +33,7 @@ function pool(size: number): AuditWorkerPool {
 
 beforeAll(async () => {
   // The demo wave, read as the seed reads it (fixtures/demo/).
-  const { wave } = acceptProposal(await readWave({
+  const { wave, proposal, setup, screening } = acceptProposal(await readWave({
     fileName: 'library-pilot-1.csv', bytes: new Uint8Array(readFileSync('fixtures/demo/library-pilot-1.csv')),
     codebookName: 'library-codebook.csv', codebookBytes: new Uint8Array(readFileSync('fixtures/demo/library-codebook.csv')), sheet: null,
   }));
@@ -44,6 +45,7 @@ beforeAll(async () => {
       excluded: [...wave.excluded],
       items: wave.items.map((item) => ({ id: item.id, scale: item.scale, reverse: item.reverse, min: item.min, max: item.max, text: item.text })),
       outcomes: wave.outcomes.map((outcome) => ({ id: outcome.id, header: outcome.header, values: Array.from(outcome.values, (v) => (Number.isFinite(v) ? v : null)) })),
+      setup: auditSetupOf(proposal.columns, setup.columns, screening),
     },
     settings: resolveAuditSettings({}, {}, { allowTestFaults: false }),
   };

@@ -20,6 +20,18 @@ describe('readCodebook (audit-json.md: item, scale, reverse, min, max, missing, 
     expect(codebook.warnings).toEqual([]);
   });
 
+  it('reads a facet column into the proposed setup and the built wave (issue 14: content coverage)', async () => {
+    const { proposeSetup, acceptWave } = await import('../../src/lib/ingest');
+    const codebook = readCodebook(await table('item,scale,facet\nQ1,mood,sleep\nQ2,mood,\nQ3,mood,appetite\n'));
+    expect(codebook.columns).toEqual(['item', 'scale', 'facet']);
+    expect(codebook.entries.map((entry) => entry.facet)).toEqual(['sleep', null, 'appetite']);
+    const data = await table('Q1,Q2,Q3\n1,2,3\n2,3,4\n3,4,5\n4,5,1\n5,1,2\n');
+    const proposal = proposeSetup(data, codebook);
+    expect(proposal.columns.map((column) => column.item?.facet ?? null)).toEqual(['sleep', null, 'appetite']);
+    const { wave } = acceptWave(data, { setup: proposal });
+    expect(wave.items.map((item) => item.facet ?? null)).toEqual(['sleep', null, 'appetite']);
+  });
+
   it('accepts any subset of columns and common header spellings', async () => {
     const codebook = readCodebook(await table('Variable Name;Reverse-keyed;Question text\nQ1;true;Wording\n'));
     expect(codebook.columns).toEqual(['item', 'reverse', 'text']);

@@ -46,11 +46,11 @@ export default function SetupTable({ rows, onChange }: { rows: SetupRow[]; onCha
   const [search, setSearch] = useState('');
 
   const columns = useMemo(() => {
-    const input = (row: SetupRow, index: number, key: 'id' | 'scale' | 'min' | 'max' | 'missing' | 'text', label: string, className: string, inputMode?: 'decimal') => (
+    const input = (row: SetupRow, index: number, key: 'id' | 'scale' | 'facet' | 'min' | 'max' | 'missing' | 'text', label: string, className: string, inputMode?: 'decimal') => (
       <input
         className={`field px-1.5 py-1 text-sm placeholder:text-ink-faint ${className}`}
         aria-label={`${label} of ${row.column}`}
-        placeholder={key === 'missing' ? 'none' : label.toLowerCase()}
+        placeholder={key === 'missing' ? 'none' : key === 'facet' ? 'facet (optional)' : label.toLowerCase()}
         inputMode={inputMode}
         value={row[key]}
         onChange={(event) => onChange(index, { [key]: event.target.value })}
@@ -117,7 +117,7 @@ export default function SetupTable({ rows, onChange }: { rows: SetupRow[]; onCha
       }),
       helper.display({
         id: 'idAndScale',
-        header: 'Item id and scale',
+        header: 'Item id, scale, facet',
         cell: (info) => {
           const row = info.row.original;
           if (!usesItemFields(row)) return none;
@@ -125,6 +125,7 @@ export default function SetupTable({ rows, onChange }: { rows: SetupRow[]; onCha
             <div className="w-[7rem] space-y-1 lg:w-32">
               {input(row, info.row.index, 'id', 'Item id', 'w-full')}
               {input(row, info.row.index, 'scale', 'Scale', 'w-full')}
+              {input(row, info.row.index, 'facet', 'Facet', 'w-full')}
             </div>
           );
         },

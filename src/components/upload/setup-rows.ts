@@ -2,7 +2,7 @@
  * The column setup as the form edits it (text in inputs) and back into the setup the API
  * confirms. Pure: no DOM, so the page and a test can share it.
  */
-import type { ColumnProposal, ColumnRole, ColumnSetup, ColumnProfile, DurationUnit, ItemCounts, ValueLabel } from '../../lib/ingest/types';
+import type { ColumnProposal, ColumnRole, ColumnSetup, ColumnProfile, DurationUnit, ItemCounts, ItemType, ValueLabel } from '../../lib/ingest/types';
 
 /** Roles offered in the form, with the words shown. */
 export const roleChoices: readonly { value: ColumnRole; label: string }[] = [
@@ -32,6 +32,10 @@ export interface SetupRow {
   max: string;
   missing: string;
   text: string;
+  /** Content facet (codebook `facet`), '' for none: a cut may not leave a facet empty. */
+  facet: string;
+  /** Item type as proposed (rating, scored, dichotomous), kept through the form. */
+  type: ItemType | null;
   labels: readonly ValueLabel[];
   missingLabels: readonly string[];
   /** Whether the proposal gave this column an item setup (outcomes may go without one). */
@@ -62,6 +66,8 @@ export function rowsFromProposal(columns: readonly ColumnProposal[]): SetupRow[]
     max: show(column.item?.max ?? column.profile.maximum),
     missing: (column.item?.missingCodes ?? []).join(' '),
     text: column.item?.text ?? '',
+    facet: column.item?.facet ?? '',
+    type: column.item?.type ?? null,
     labels: column.item?.labels ?? [],
     missingLabels: column.item?.missingLabels ?? [],
     proposedItem: column.item !== null,
@@ -126,6 +132,8 @@ export function setupFromRows(rows: readonly SetupRow[]): { ok: true; columns: C
         text: row.text.trim() === '' ? null : row.text.trim(),
         labels: row.labels,
         missingLabels: row.missingLabels,
+        ...(row.type ? { type: row.type } : {}),
+        ...(row.facet.trim() !== '' ? { facet: row.facet.trim() } : {}),
       },
     });
   }

@@ -4,10 +4,11 @@
  * outcome column the settings name. The command line and the server's audit workers share it.
  */
 import { includedRows } from '../ingest/build-wave';
+import { columnsLeftOut, itemTypeOf } from '../ingest/propose-setup';
 import type { ScreeningResult } from '../ingest/screening/screen-respondents';
-import type { BuiltWave } from '../ingest/types';
+import type { BuiltWave, ColumnProposal, ColumnSetup, ItemType } from '../ingest/types';
 import { selectRespondents, type ItemMatrix } from '../stats/types';
-import type { AuditInput } from './run-audit';
+import type { AuditInput, AuditScreeningJson } from './run-audit';
 
 /** Thrown when the settings ask for something the wave does not have (a client's mistake). */
 export class AuditInputError extends Error {
@@ -27,7 +28,78 @@ export interface AuditInputOptions {
   /** Columns of the file left out of the wave, with reasons (`columnsLeftOut` of the ingest). */
   readonly leftOut?: AuditInput['leftOut'];
   /** The screening that proposed the exclusions (its rules and item types go into the audit JSON). */
-  readonly screening?: Pick<ScreeningResult, 'itemTypes' | 'rules' | 'proposedExclusions'> | null;
+  readonly screening?: AuditScreeningJson | null;
+}
+
+/**
+ * How a wave was set up, as far as an audit reports it: the proposal (every column of the file
+ * with its proposed role and reason), the setup in force and the screening that proposed the
+ * exclusions. The command line has it from the accepted proposal, the server from the stored
+ * setup document and screening (storedWaveForJob); both pass it to {@link auditInputFromSetup}.
+ * Plain data, so it crosses into an audit worker thread.
+ */
+export interface AuditSetup {
+  readonly proposal: readonly Pick<ColumnProposal, 'column' | 'role' | 'reason'>[];
+  readonly columns: readonly { readonly column: string; readonly role: ColumnSetup['role']; readonly item: { readonly id: string; readonly type?: ItemType; readonly facet?: string | null; readonly min?: number; readonly max?: number } | null }[];
+  /** The screening's item types, rules and how many exclusions it proposed; null for a wave stored without them. */
+  readonly screening: AuditScreeningJson | null;
+}
+
+/**
+ * The part of a setup an audit carries, reduced to plain data for a job: the proposal's column,
+ * role and reason, each column's role and item id, type and facet, the screening's rules.
+ * @param proposal the proposed columns (with reasons).
+ * @param columns the setup in force.
+ * @param screening the screening result, or null.
+ * @returns the audit setup.
+ */
+export function auditSetupOf(
+  proposal: readonly Pick<ColumnProposal, 'column' | 'role' | 'reason'>[],
+  columns: readonly Pick<ColumnSetup, 'column' | 'role' | 'item'>[],
+  screening: (Pick<ScreeningResult, 'itemTypes' | 'rules'> & { readonly proposedExclusions: readonly number[] }) | null,
+): AuditSetup {
+  return {
+    proposal: proposal.map(({ column, role, reason }) => ({ column, role, reason })),
+    columns: columns.map(({ column, role, item }) => ({
+      column,
+      role,
+      item: item === null ? null : { id: item.id, min: item.min, max: item.max, ...(item.type ? { type: item.type } : {}), ...(item.facet ? { facet: item.facet } : {}) },
+    })),
+    screening: screening && Array.isArray(screening.rules) && screening.itemTypes
+      ? { itemTypes: { ...screening.itemTypes }, rules: screening.rules.map(({ code, applied, items, note }) => ({ code, applied, items, note })), proposedExclusions: screening.proposedExclusions.length }
+      : null,
+  };
+}
+
+/**
+ * The one way from a wave and its setup to an audit input, for the command line and the server
+ * alike: the columns the setup leaves out (each a `column-left-out` warning), the screening's
+ * rules and item types (the JSON's `screening`), and each item's type and facet from the setup
+ * where the wave's items do not carry them (a stored wave's item rows keep neither).
+ * @param wave the built or stored wave.
+ * @param setup the audit setup ({@link auditSetupOf}).
+ * @param options outcome and locked items.
+ * @throws {AuditInputError} as {@link auditInputFromWave}.
+ * @returns the audit input.
+ * References: issue 14 (every column left out is named; screening says which rules it applied).
+ */
+export function auditInputFromSetup(
+  wave: Pick<BuiltWave, 'matrix' | 'items' | 'outcomes' | 'excluded' | 'respondents'>,
+  setup: AuditSetup,
+  options: Pick<AuditInputOptions, 'outcome' | 'locked'> = {},
+): AuditInput {
+  const byId = new Map(setup.columns.flatMap((column) => (column.role === 'item' && column.item ? [[column.item.id, column.item] as const] : [])));
+  const items = wave.items.map((item) => {
+    const fromSetup = byId.get(item.id);
+    const type = item.type ?? fromSetup?.type ?? itemTypeOf({ min: item.min, max: item.max });
+    const facet = item.facet ?? fromSetup?.facet ?? null;
+    return { ...item, type, ...(facet ? { facet } : {}) };
+  });
+  return auditInputFromWave({ ...wave, items }, {
+    ...options,
+    leftOut: columnsLeftOut({ columns: setup.proposal as ColumnProposal[] }, { columns: setup.columns as ColumnSetup[] }),
+    screening: setup.screening,
+  });
 }
 
 /**
@@ -85,13 +157,14 @@ export function auditInputFromWave(wave: Pick<BuiltWave, 'matrix' | 'items' | 'o
       min: item.min,
       max: item.max,
       ...(item.type ? { type: item.type } : {}),
+      ...(item.facet ? { facet: item.facet } : {}),
     })),
     rowsInWave: wave.respondents,
     excluded: wave.excluded.length,
     outcome,
     ...(options.leftOut ? { leftOut: options.leftOut } : {}),
     ...(options.screening
-      ? { screening: { itemTypes: options.screening.itemTypes, rules: options.screening.rules.map(({ code, applied, items, note }) => ({ code, applied, items, note })), proposedExclusions: options.screening.proposedExclusions.length } }
+      ? { screening: options.screening }
       : {}),
   };
 }

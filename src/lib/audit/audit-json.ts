@@ -5,6 +5,7 @@
  * dropped without a new schema version. A value that does not exist is `null` with a matching
  * entry in `warnings`, never NaN.
  */
+import type { ExploratoryJson } from './exploratory-structure';
 import type { CorrelationMethod, MissingPolicy } from '../stats/types';
 import type { CutReason } from '../engine/recommend-cuts';
 
@@ -166,6 +167,8 @@ export interface AuditJson {
   kmo: number | null;
   bartlett: { chi2: number | null; df: number; p: number | null; [extra: string]: unknown } | null;
   parallelAnalysis: { observed: number[]; random95: number[]; suggested: number; [extra: string]: unknown } | null;
+  /** The exploratory view of a multi-scale wave (added key; null for one scale; absent from older results). */
+  structure?: { exploratory: ExploratoryJson | null };
   scales: AuditScaleJson[];
   recommendations: AuditRecommendationJson[];
   afterCut: AuditAfterCutJson | null;

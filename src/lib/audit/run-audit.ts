@@ -38,6 +38,7 @@ import {
   type AuditRecommendationJson,
   type AuditWarningJson,
 } from './audit-json';
+import { exploratoryStructure } from './exploratory-structure';
 import { engineSettingsOf, resolveAuditSettings, type AuditSettingsRequest } from './settings-table';
 import { cautionSentence, reasonSentence } from '../words';
 
@@ -162,6 +163,11 @@ export async function runAudit(
   );
   warnings.push(...engine.warnings.map(plainWarning));
 
+  // The exploratory view of a multi-scale wave; its candidates sit behind the same constraints, on top of the proposed cut.
+  const removedIndices = engine.afterCut.removed.map((id) => ids.indexOf(id));
+  const exploratory = exploratoryStructure(evidence, input.matrix, engine.settings, removedIndices);
+  warnings.push(...exploratory.warnings);
+
   report('outcome', 0);
   const outcomeModel = input.outcome === null || outcomeId === null ? null : outcomeModelWithCut(input, evidence, resolved.predictors, engine.afterCut?.removed ?? [], warnings);
   report('outcome', 1);
@@ -175,6 +181,7 @@ export async function runAudit(
       reverse: item.reverse,
       text: item.text,
       locked: item.locked,
+      ...(item.facet ? { facet: item.facet } : {}),
       inMatrix: local >= 0,
       n: descriptives.n,
       mean: descriptives.mean,
@@ -237,6 +244,7 @@ export async function runAudit(
     kmoLabel: structure.kmoLabel,
     bartlett: structure.bartlett,
     parallelAnalysis: structure.parallel,
+    structure: { exploratory: exploratory.view },
     scales: evidence.scales.map((scale) => ({
       id: scale.id,
       items: scale.items.map((j) => ids[j]),

@@ -24,14 +24,18 @@
  *   scale at least `minItemsPerScale` usable items, every scale's raw alpha at or above
  *   `alphaFloor` (a scale already below it is only protected from cuts of its own items) and no
  *   more than `maxAlphaDrop` below its value before any cut, and the number of cut items within
- *   `maxCutShare` of the usable items. A reword removes nothing, so only the lock applies to it.
+ *   `maxCutShare` of the usable items, and no content facet (the codebook's `facet`) left without
+ *   an item. A reword removes nothing, so only the lock applies to it.
  * - Clusters are handled strongest first (largest |r|), so the cut cap spends itself on the
  *   clearest duplicates.
  */
 import { varianceInflation } from '../stats/variance-inflation';
 import type { EngineSettings } from './engine-settings';
 import { KEEPER_SCORE_TIE, KEEPER_SCORE_WEIGHTS } from './engine-settings';
+import { dependencyReport, pairReport } from './evidence-reports';
+import { emptiesFacet } from './facet-coverage';
 import { principalSubmatrix } from './principal-submatrix';
+export { dependencyReport, pairReport } from './evidence-reports';
 import type { DependencyEvidence, EngineEvidence, OverlapCluster, PairEvidence, PairRule } from './types';
 
 /** A change the engine can propose for an item. */
@@ -41,7 +45,7 @@ export type ChangeAction = 'drop' | 'merge' | 'reword';
 export type CutActionKind = ChangeAction | 'keep';
 
 /** Names of the designer's constraints, as they appear in `blockedBy`. */
-export type ConstraintName = 'locked' | 'min-items' | 'alpha-floor' | 'max-alpha-drop' | 'cut-cap';
+export type ConstraintName = 'locked' | 'min-items' | 'alpha-floor' | 'max-alpha-drop' | 'cut-cap' | 'facet';
 
 /** A scale's raw alpha and usable item count after a set of items is removed. */
 export interface ScaleAfterRemoval {
@@ -468,6 +472,25 @@ function proposeAction(r: number, wording: number | null, otherScale: boolean, r
   return 'drop';
 }
 
+/**
+ * The constraints that block removing one more item on top of a cut, for candidates found outside
+ * the overlap clusters (weak or cross-loading items of the exploratory view): the same rules as
+ * the cut list, with the cap counted from the usable items.
+ * @param evidence the engine's evidence.
+ * @param index the item (index into items[]).
+ * @param settings the designer's constraints.
+ * @param scaleAlpha reliability after a removal (`scaleAlphaOracle`).
+ * @param removed the items the cut already removes.
+ * @returns the constraints broken (empty: the removal is allowed).
+ * References: as recommendCuts.
+ */
+export function blockingConstraints(evidence: EngineEvidence, index: number, settings: RecommendSettings, scaleAlpha: ScaleAlphaOracle, removed: ReadonlySet<number>): ConstraintName[] {
+  if (evidence.items[index].locked) return ['locked'];
+  const cutBudget = Math.floor(settings.maxCutShare * evidence.usable.length + 1e-9);
+  const before = new Map(evidence.scales.map((scale) => [scale.id, scale.alpha]));
+  return violatedConstraints(evidence, index, settings, scaleAlpha, removed, before, cutBudget);
+}
+
 /** Every constraint that removing `index` (on top of `removed`) would break. */
 function violatedConstraints(
   evidence: EngineEvidence,
@@ -486,6 +509,7 @@ function violatedConstraints(
   const after = scaleAlpha(trial);
   const current = scaleAlpha(removed);
   if (ownScale !== null && (after.get(ownScale)?.items ?? 0) < settings.minItemsPerScale) violated.push('min-items');
+  if (emptiesFacet(evidence.items, index, removed)) violated.push('facet');
   let floorBroken = false;
   let dropBroken = false;
   for (const [scale, figures] of after) {
@@ -509,50 +533,6 @@ function maxOrNull(values: readonly (number | null)[]): number | null {
     largest = Math.max(largest, value);
   }
   return values.length === 0 ? null : largest;
-}
-
-/**
- * A pair's evidence with item ids in place of indices, for the audit JSON.
- * @param evidence The evidence the pair came from.
- * @param pair The pair (indices into items[]).
- * @returns The same figures keyed by item id.
- * References: Fisher 1921 (the interval it carries).
- */
-export function pairReport(evidence: EngineEvidence, pair: PairEvidence): PairReport {
-  return {
-    items: [evidence.items[pair.a].id, evidence.items[pair.b].id],
-    r: pair.r,
-    n: pair.n,
-    lower: pair.lower,
-    upper: pair.upper,
-    ...(pair.interval ? { interval: pair.interval } : {}),
-    ...(pair.interval === 'estimator-se' ? { se: pair.se ?? null } : {}),
-    wording: pair.wording,
-    residual: pair.residual ?? null,
-    relativeResidual: pair.relativeResidual ?? null,
-    residualCritical: pair.residualCritical ?? null,
-    wto: pair.wto ?? null,
-    partial: pair.partial ?? null,
-    rules: [...(pair.rules ?? [])],
-  };
-}
-
-/**
- * A near-dependency with item ids in place of indices, for the audit JSON.
- * @param evidence The evidence the dependency came from.
- * @param dependency The dependency (indices into items[]).
- * @returns The same figures keyed by item id.
- * References: Belsley, Kuh & Welsch 1980, "Regression Diagnostics", ch. 3.
- */
-export function dependencyReport(evidence: EngineEvidence, dependency: DependencyEvidence): DependencyReport {
-  return {
-    dimension: dependency.dimension,
-    conditionIndex: dependency.conditionIndex,
-    items: dependency.items.map((index) => evidence.items[index].id),
-    proportions: dependency.proportions,
-    interceptProportion: dependency.interceptProportion,
-    confirmed: dependency.confirmed.map((index) => evidence.items[index].id),
-  };
 }
 
 /** Rules in the order they are reported. */

@@ -17,6 +17,7 @@ import { spearmanBrown } from '../stats/spearman-brown';
 import { selectItems, type ItemMatrix, type SquareMatrix } from '../stats/types';
 import { inflationAndSpectrum, scaleReliability, warningsFromNotices } from './compute-evidence';
 import type { EngineSettings } from './engine-settings';
+import { facetWarnings } from './facet-coverage';
 import { principalSubmatrix } from './principal-submatrix';
 import type { EngineEvidence, EngineWarning } from './types';
 
@@ -154,6 +155,7 @@ export function simulateCut(
     };
   });
 
+  warnings.push(...facetWarnings(items, removed));
   const removedInOrder = [...removed].sort((a, b) => a - b);
   return {
     maxVif,

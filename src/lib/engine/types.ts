@@ -26,6 +26,8 @@ export interface EngineItem {
    * Absent means rewordable.
    */
   readonly rewordable?: boolean;
+  /** The content facet the item covers (codebook `facet`), or null/absent: a cut may not leave a facet empty. */
+  readonly facet?: string | null;
 }
 
 /** A warning for the audit JSON: code, item ids, one plain sentence. */

@@ -220,6 +220,7 @@ export function buildWave(table: WaveTable, setup: CheckedSetup, exclusions: rea
       id: item.id, header, scale: item.scale, reverse: item.reverse, min: item.min, max: item.max,
       missingCodes: [...item.missingCodes], text: item.text, labels: [...item.labels], missingLabels: [...item.missingLabels],
       ...(item.type ? { type: item.type } : {}),
+      ...(item.facet ? { facet: item.facet } : {}),
       counts: read.counts,
     };
   });

@@ -1,12 +1,12 @@
 /**
  * The codebook's columns and the header spellings each is recognised by. The product's format
  * (audit-json.md) is `item, scale, reverse, min, max, missing, text`, plus `labels` for value
- * labels; common spellings from survey tools are accepted too. Headers are compared in lower
+ * labels, `type` for the item type and `facet` for the content facet an item covers; common spellings from survey tools are accepted too. Headers are compared in lower
  * case with spaces, hyphens and underscores removed.
  */
 
 /** Canonical codebook column names. */
-export type CodebookColumn = 'item' | 'scale' | 'reverse' | 'min' | 'max' | 'missing' | 'text' | 'labels' | 'type';
+export type CodebookColumn = 'item' | 'scale' | 'reverse' | 'min' | 'max' | 'missing' | 'text' | 'labels' | 'type' | 'facet';
 
 const ALIASES: Readonly<Record<CodebookColumn, readonly string[]>> = {
   item: ['item', 'itemid', 'variable', 'variablename', 'varname', 'column', 'columnname', 'name', 'field'],
@@ -18,6 +18,7 @@ const ALIASES: Readonly<Record<CodebookColumn, readonly string[]>> = {
   text: ['text', 'wording', 'question', 'questiontext', 'itemtext', 'label', 'description'],
   labels: ['labels', 'valuelabels', 'values', 'answerlabels', 'codes', 'responseoptions', 'options'],
   type: ['type', 'itemtype', 'responsetype', 'itemkind', 'kind'],
+  facet: ['facet', 'subfacet', 'content', 'contentarea', 'topic', 'aspect'],
 };
 
 /**

@@ -79,6 +79,7 @@ interface MutableItem {
   labels: ValueLabel[];
   missingLabels: string[];
   type?: ItemType;
+  facet?: string | null;
 }
 
 function list(values: readonly (string | number)[], most = 5): string {
@@ -169,6 +170,7 @@ function itemFromCodebook(draft: Draft, entry: CodebookEntry): void {
   const item = blankItem(data.header);
   const guessed: string[] = [];
   item.scale = entry.scale;
+  if (entry.facet) item.facet = entry.facet;
   draft.scaleFromCodebook = entry.scale !== null;
   item.text = entry.text;
   if (entry.reverse !== null) item.reverse = entry.reverse;

@@ -153,7 +153,11 @@ export function readCodebook(table: WaveTable): Codebook {
       type = parseItemType(typeCell);
       if (type === null) invalid.push(`type "${typeCell}" for ${item} (row ${line}; use rating, scored or dichotomous)`);
     }
-    entries.push({ item, scale: cellOf(row, 'scale'), reverse, min, max, missingCodes, text: cellOf(row, 'text'), labels, ...(columnIndex.has('type') ? { type } : {}) });
+    entries.push({
+      item, scale: cellOf(row, 'scale'), reverse, min, max, missingCodes, text: cellOf(row, 'text'), labels,
+      ...(columnIndex.has('type') ? { type } : {}),
+      ...(columnIndex.has('facet') ? { facet: cellOf(row, 'facet') } : {}),
+    });
   });
   if (entries.length === 0) {
     throw new WaveRefusal(422, 'empty-codebook', `${where[0].toUpperCase()}${where.slice(1)} names no items; fill its "item" column with the column names of the data.`);
@@ -176,7 +180,7 @@ export function readCodebook(table: WaveTable): Codebook {
     warnings.push({
       code: 'codebook-unknown-column',
       columns: unknown,
-      message: `The codebook ${unknown.length === 1 ? 'column' : 'columns'} ${unknown.slice(0, 5).map((name) => `"${name}"`).join(', ')} ${unknown.length === 1 ? 'is' : 'are'} not used (known columns: item, scale, reverse, min, max, missing, text, labels, type).`,
+      message: `The codebook ${unknown.length === 1 ? 'column' : 'columns'} ${unknown.slice(0, 5).map((name) => `"${name}"`).join(', ')} ${unknown.length === 1 ? 'is' : 'are'} not used (known columns: item, scale, reverse, min, max, missing, text, labels, type, facet).`,
     });
   }
   return { entries, columns: [...columnIndex.keys()], warnings };

@@ -82,6 +82,8 @@ export interface CodebookEntry {
   readonly labels: readonly ValueLabel[] | null;
   /** The codebook's `type` column: rating, scored or dichotomous (absent in older codebooks). */
   readonly type?: ItemType | null;
+  /** The codebook's `facet` column: the content facet the item covers (absent in older codebooks). */
+  readonly facet?: string | null;
 }
 
 /** A read codebook. */
@@ -123,6 +125,11 @@ export interface ItemSetup {
   readonly missingLabels: readonly string[];
   /** Item type (default: `dichotomous` for a 0/1 range, else `rating`). */
   readonly type?: ItemType;
+  /**
+   * The content facet the item covers (e.g. `sleep` within a wellbeing scale), or null. A cut
+   * that would leave a facet without items is blocked like any constraint.
+   */
+  readonly facet?: string | null;
 }
 
 /** Units for a duration column holding plain numbers. */
@@ -216,6 +223,8 @@ export interface WaveItem {
   readonly missingLabels: readonly string[];
   /** Item type from the setup (absent in waves stored before item types existed). */
   readonly type?: ItemType;
+  /** Content facet from the setup, or absent. */
+  readonly facet?: string | null;
   readonly counts: ItemCounts;
 }
 

@@ -21,6 +21,7 @@ export const itemSetupSchema = z.object({
   labels: z.array(valueLabelSchema).default([]),
   missingLabels: z.array(z.string()).default([]),
   type: z.enum(['rating', 'scored', 'dichotomous']).optional(),
+  facet: z.string().trim().max(200).nullable().optional(),
 });
 
 /** The shape of a setup: one entry per column named (others are ignored); extra keys are dropped. */

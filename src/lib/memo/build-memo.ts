@@ -8,7 +8,7 @@ import type { MemoBlock, MemoColumn, MemoDocument } from './memo-document';
 import { coefficient, count, dateTime, fileStem, fixed, inflation, NO_VALUE, percent } from './memo-format';
 import type { MemoDecision, MemoInput } from './memo-input';
 import { MEMO_METHODS } from './memo-methods';
-import { actionWords, constraintWords, documentCautions, driverModelRowsNote, methodRationale, methodWords, overlapSentences } from '../words';
+import { actionWords, constraintWords, documentCautions, driverModelRowsNote, methodRationale, methodWords, overlapSentences, SMALL_PAIR_N } from '../words';
 import { orderForOverlapMap } from './overlap-order';
 
 const left = (label: string, weight = 1): MemoColumn => ({ label, align: 'left', weight });
@@ -418,7 +418,7 @@ function closingSections(input: MemoInput): MemoBlock[] {
   const limitations = [
     smallest === null
       ? 'The correlations rest on few respondents; read every figure with its interval.'
-      : `The smallest pair correlation rests on ${count(smallest)} respondents${smallest < 300 ? ', a small pilot sample: read each correlation with its interval and each recommendation with its stability share' : ''}.`,
+      : `The smallest pair correlation rests on ${count(smallest)} respondents${smallest < SMALL_PAIR_N ? ', a small pilot sample: read each correlation with its interval and each recommendation with its stability share' : ''}.`,
     audit.settings.missing === 'pairwise'
       ? 'Pairwise handling of missing answers assumes they are missing at random; items skipped for a reason (routing, sensitive topics) can bias their correlations.'
       : 'Listwise handling keeps only complete respondents, who may differ from those who skipped items.',

@@ -7,11 +7,12 @@
  * Self-contained: it needs only the seeded study and wave rows.
  */
 import { eq } from 'drizzle-orm';
-import { audits, studies, users, waveItems, waves } from '../../db/schema';
+import { audits, studies, users, waves } from '../../db/schema';
 import type { Db } from '../../db/client';
 import { logActivity } from './activity';
 import { auditSettingsHash, resolveAuditSettings } from './audit-jobs/audit-settings';
 import { executeAuditJob } from './audit-jobs/execute-audit-job';
+import { storedWaveForJob } from './audit-jobs/stored-job-wave';
 
 /** Bootstrap resamples of the demo audit (the default is 200; 60 keep a fresh start quick and still mark unstable proposals). */
 export const DEMO_AUDIT_BOOTSTRAP = 60;
@@ -32,18 +33,11 @@ export async function seedDemoAudit(db: Db, ids: { study: string; wave: string; 
   const wave = db.select().from(waves).where(eq(waves.id, ids.wave)).get();
   if (!study || !wave?.matrix) throw new Error(`seedDemoAudit: the demo study ${ids.study} or its wave ${ids.wave} with stored responses is missing`);
   const settings = resolveAuditSettings({ bootstrap: DEMO_AUDIT_BOOTSTRAP, seed: DEMO_AUDIT_SEED }, study.settings, { allowTestFaults: false });
-  const items = db.select().from(waveItems).where(eq(waveItems.waveId, wave.id)).orderBy(waveItems.position).all();
   const startedAt = new Date();
   const result = await executeAuditJob(
     {
       jobId: DEMO_AUDIT_ID,
-      wave: {
-        matrixBlob: wave.matrix,
-        respondents: wave.rowCount,
-        excluded: wave.exclusions,
-        items: items.map((item) => ({ id: item.itemId, scale: item.scale, reverse: item.reverse, min: item.min ?? Number.NaN, max: item.max ?? Number.NaN, text: item.text })),
-        outcomes: [],
-      },
+      wave: storedWaveForJob(db, wave, wave.matrix, null),
       settings,
     },
     () => {},

@@ -237,3 +237,14 @@ export const ONE_FACTOR_ML_STAGNATION = 1e-14;
 export const ONE_FACTOR_ML_MAX_ITERATIONS = 500;
 /** One-factor ML: smallest uniqueness allowed (a Heywood case stops here; common practice, as factanal's lower = 0.005). */
 export const ONE_FACTOR_ML_UNIQUENESS_FLOOR = 0.005;
+
+/** Iterated principal axes for k factors: stop when no communality moves by more than this. */
+export const MINRES_FACTORS_TOLERANCE = 1e-12;
+/** Iterated principal axes for k factors: at most this many eigen-decompositions. */
+export const MINRES_FACTORS_MAX_ITERATIONS = 20_000;
+/** Oblimin (gradient projection): stop when the projected gradient's norm falls below this (GPArotation's default is 1e-5). */
+export const OBLIMIN_GRADIENT_TOLERANCE = 1e-8;
+/** Oblimin: when no step lowers the criterion (rounding floor), the rotation counts as settled if the projected gradient is below this. */
+export const OBLIMIN_STALL_TOLERANCE = 1e-6;
+/** Oblimin (gradient projection): at most this many outer steps. */
+export const OBLIMIN_MAX_ITERATIONS = 20_000;

@@ -70,7 +70,7 @@ export const documentCautions: readonly string[] = Object.freeze([
 /** Shown above the decisions, always. */
 export const decisionCautions: readonly string[] = [
   'Statistical overlap is evidence, not proof, that two items ask the same thing: read both wordings before you cut.',
-  'Pilot samples are small: a proposal that changes across bootstrap resamples is marked unstable; weigh it with care.',
+  'A proposal that changes across bootstrap resamples is marked unstable; weigh it with care, the more so where its caution says the sample is small.',
   'A published, validated instrument is not shortened or reworded without re-validation and the rights holder’s permission.',
   'Items that carry a trend or a regulatory requirement stay unless their owner releases them; locked items cannot be dropped or merged here.',
   'The final say belongs to the study’s methodologist and the team’s ethics and data-protection rules.',

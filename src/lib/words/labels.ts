@@ -61,6 +61,7 @@ export const constraintWords: Record<string, string> = {
   'alpha-floor': "its scale's alpha would fall below the floor",
   'max-alpha-drop': "its scale's alpha would drop by more than allowed",
   'cut-cap': 'the cap on the share of items cut is reached',
+  facet: 'it is the last item of its content facet, which would go unasked',
 };
 
 /** Actions as shown. */
@@ -88,4 +89,15 @@ export function constraintsLine(settings: { locked?: readonly string[]; minItems
   if (typeof settings.maxAlphaDrop === 'number') parts.push(`alpha drop at most ${formatNumber(settings.maxAlphaDrop, 2)}`);
   if (typeof settings.maxCutShare === 'number') parts.push(`at most ${formatShare(settings.maxCutShare)} cut`);
   return parts.join(' · ');
+}
+
+/**
+ * Which reliability figure follows the chosen correlation method and which stays on the raw
+ * scores, said wherever alpha and omega stand side by side (issue 14).
+ * @param method the audit's correlation method, or null where the page does not know it.
+ * @returns one sentence.
+ */
+export function reliabilityBasisNote(method: string | null): string {
+  const matrix = method ? `the ${methodWords[method] ?? method} correlation matrix` : "the audit's correlation matrix";
+  return `Alpha stays on the raw scores (item covariances) whatever the method; omega total follows the chosen method: model-implied, from one-factor minres loadings on ${matrix} (not psych::omega's observed-variance version).`;
 }

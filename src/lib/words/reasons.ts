@@ -12,6 +12,7 @@ export const constraintClauses: Readonly<Record<ConstraintName, string>> = Objec
   'alpha-floor': "a scale's alpha would fall below the floor",
   'max-alpha-drop': "a scale's alpha would drop by more than the allowed amount",
   'cut-cap': 'the cap on the share of items cut is reached',
+  facet: 'it is the last item of its content facet',
 });
 
 /**

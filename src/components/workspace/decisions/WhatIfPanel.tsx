@@ -1,5 +1,5 @@
 import type { CutListConstraints, WhatIfResponse } from '../../../lib/api/cut-list';
-import { formatNumber } from '../../../lib/words';
+import { formatNumber, reliabilityBasisNote } from '../../../lib/words';
 import { beforeAfter, constraintBreaches, minutesWords } from './decision-words';
 
 interface Props {
@@ -57,7 +57,7 @@ export default function WhatIfPanel({ whatIf, state, error, constraints, hasAudi
             </div>
           </dl>
           <table className="dense-table mt-3 text-sm" data-testid="what-if-scales">
-            <caption className="sr-only">Each scale before and after the current decisions</caption>
+            <caption className="text-left text-xs text-ink-soft">{reliabilityBasisNote(null)}</caption>
             <thead>
               <tr>
                 <th scope="col">Scale</th>

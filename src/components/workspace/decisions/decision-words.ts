@@ -60,6 +60,8 @@ export function constraintBreaches(whatIf: WhatIfResponse | null, constraints: C
       breaches.push({ scale: scale.id, message: `${scale.id}’s alpha would fall to ${formatNumber(scale.alpha, 2)}, below the study’s floor of ${formatNumber(constraints.alphaFloor, 2)}.` });
     }
   }
+  // A cut that empties a content facet (the codebook's facet column) is a constraint too.
+  for (const warning of whatIf.warnings) if (warning.code === 'facet-emptied') breaches.push({ scale: warning.items.join(', '), message: warning.message });
   return breaches;
 }
 

@@ -19,6 +19,8 @@ import type { CurrentUser } from '../current-user';
 import { getDb } from '../db';
 import { fail, HttpError } from '../errors';
 import { nothingToCompute } from '../../audit/audit-input';
+import { storedWaveForJob } from './stored-job-wave';
+export { storedWaveForJob } from './stored-job-wave';
 import { decodeMatrix } from '../../ingest/matrix-blob';
 import type { StudyRow } from '../guard';
 import { newId } from '../ids';
@@ -442,25 +444,4 @@ export function auditJobs(): AuditJobs {
   const instance = (globalThis as unknown as Record<symbol, AuditJobs | undefined>)[INSTANCE];
   if (!instance) throw new Error('The audits service has not been started: the middleware calls startAuditJobs() on the first request (src/middleware.ts).');
   return instance;
-}
-
-/**
- * The stored wave as an audit or what-if worker reads it: the matrix, the items, the exclusions
- * and the one outcome the settings name (or none).
- * @param db the database.
- * @param wave the wave row.
- * @param matrix its stored matrix.
- * @param outcome the outcome the settings name, or null.
- * @returns the job's wave.
- */
-export function storedWaveForJob(db: Db, wave: typeof waves.$inferSelect, matrix: Buffer, outcome: string | null): AuditWorkerJob['wave'] {
-  const items = db.select().from(waveItems).where(eq(waveItems.waveId, wave.id)).orderBy(waveItems.position).all();
-  const outcomes = outcome === null ? [] : (parseStoredSetup(wave.setup, wave.rowCount).outcomes ?? []).filter((entry) => entry.id === outcome);
-  return {
-    matrixBlob: matrix,
-    respondents: wave.rowCount,
-    excluded: wave.exclusions,
-    items: items.map((item) => ({ id: item.itemId, scale: item.scale, reverse: item.reverse, min: item.min ?? Number.NaN, max: item.max ?? Number.NaN, text: item.text })),
-    outcomes: outcomes.map(({ id, header, values }) => ({ id, header, values })),
-  };
 }

@@ -1,14 +1,12 @@
 /**
  * One audit job from stored data to the audit JSON text: decode the stored matrix, build the
- * audit input (`auditInputFromWave`), run the audit (`runAudit`), serialise. Runs inside an audit
+ * audit input with its setup (`auditInputFromJobWave`, through the command line's `auditInputFromSetup`), run the audit (`runAudit`), serialise. Runs inside an audit
  * worker thread (audit-worker.ts) and, in tests, on the calling thread; it touches no database,
  * so the main thread alone writes the audits table.
  */
-import { auditInputFromWave } from '../../audit/audit-input';
 import type { AuditJson } from '../../audit/audit-json';
 import { runAudit } from '../../audit/run-audit';
-import type { BuiltWave } from '../../ingest/types';
-import { decodeMatrix } from '../../ingest/matrix-blob';
+import { auditInputFromJobWave } from './job-input';
 import type { AuditWorkerJob, StageTimings } from './worker-protocol';
 
 /** The stages an audit reports, in order: ours around runAudit's own four. */
@@ -92,17 +90,7 @@ export async function executeAuditJob(job: AuditWorkerJob, onProgress: JobProgre
 
   onProgress('loading', 0);
   const { settings, wave } = job;
-  const matrix = decodeMatrix(wave.matrixBlob);
-  // auditInputFromWave reads, of each item, id, scale, text, reverse, min and max, and of each
-  // outcome, id, header and values: the stored wave has exactly these (no cell counts or labels).
-  const storedWave = {
-    matrix,
-    items: wave.items,
-    outcomes: wave.outcomes.map((outcome) => ({ id: outcome.id, header: outcome.header, values: Float64Array.from(outcome.values, (v) => (v === null ? Number.NaN : v)) })),
-    excluded: wave.excluded,
-    respondents: wave.respondents,
-  } as unknown as Pick<BuiltWave, 'matrix' | 'items' | 'outcomes' | 'excluded' | 'respondents'>;
-  const input = auditInputFromWave(storedWave, { outcome: settings.outcome, locked: settings.locked });
+  const input = auditInputFromJobWave(wave, { outcome: settings.outcome, locked: settings.locked });
   const testFault = settings.testFault;
   onProgress('loading', LOADING_SHARE);
 

@@ -6,15 +6,13 @@
  * submatrices (or recomputes from the data of the remaining items where the evidence says it must).
  * Touches no database: the main thread reads the rows and sends them. docs/decisions/011.
  */
-import { auditInputFromWave } from '../../audit/audit-input';
+import { auditInputFromJobWave } from './job-input';
 import { computeEvidence } from '../../engine/compute-evidence';
 import { fitOutcomeModel, outcomePredictorColumns, refitOutcomeAfterCut, type OutcomeModelInput } from '../../audit/outcome-model';
 import { resolveEngineSettings, type EngineSettings } from '../../engine/engine-settings';
 import { engineSettingsOf } from '../../audit/settings-table';
 import { simulateCut } from '../../engine/simulate-cut';
 import type { EngineEvidence } from '../../engine/types';
-import { decodeMatrix } from '../../ingest/matrix-blob';
-import type { BuiltWave } from '../../ingest/types';
 import type { ItemMatrix } from '../../stats/types';
 import type { WhatIfResponse } from '../../api/cut-list';
 import type { AuditWorkerJob } from './worker-protocol';
@@ -64,13 +62,7 @@ export class WhatIfCache {
 
 /** Rebuilds an audit's evidence from its stored wave and settings. */
 function prepare(job: WhatIfJob): Prepared {
-  const matrix = decodeMatrix(job.wave.matrixBlob);
-  const outcomes = job.wave.outcomes.map((outcome) => ({ id: outcome.id, header: outcome.header, values: Float64Array.from(outcome.values, (v) => (v === null ? Number.NaN : v)) }));
-  const storedWave = { matrix, items: job.wave.items, outcomes, excluded: job.wave.excluded, respondents: job.wave.respondents } as unknown as Pick<
-    BuiltWave,
-    'matrix' | 'items' | 'outcomes' | 'excluded' | 'respondents'
-  >;
-  const input = auditInputFromWave(storedWave, { outcome: job.settings.outcome, locked: job.settings.locked });
+  const input = auditInputFromJobWave(job.wave, { outcome: job.settings.outcome, locked: job.settings.locked });
   const settings = resolveEngineSettings(engineSettingsOf(job.settings));
   const evidence = computeEvidence(input.matrix, input.items, settings);
   let driverModel: Prepared['driverModel'] = null;

@@ -4,6 +4,7 @@
  * settings name) and the resolved settings; it answers with progress, then either the audit JSON
  * as text or the reason it failed. Plain data only (structured clone).
  */
+import type { AuditSetup } from '../../audit/audit-input';
 import type { ResolvedAuditSettings } from './audit-settings';
 
 /** An item of the stored wave, as the audit reads it. */
@@ -37,6 +38,8 @@ export interface AuditWorkerJob {
     readonly items: readonly JobItem[];
     /** The outcome the settings name (or none). */
     readonly outcomes: readonly JobOutcome[];
+    /** The columns left out, the screening, item types and facets (from the stored setup document). */
+    readonly setup: AuditSetup;
   };
   readonly settings: ResolvedAuditSettings;
 }
