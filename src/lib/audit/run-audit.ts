@@ -454,7 +454,7 @@ function structureStatistics(
     parallel = {
       observed: [...result.observed], random95: [...result.random95], suggested: result.suggested, iterations: result.iterations, seed: result.seed,
       correlation: 'pearson',
-      note: `Random data were standard normal, correlated by Pearson r; ${result.iterations} draws.`,
+      note: `Random data were standard normal of the same size, correlated by Pearson r (each random matrix drawn from its Wishart law, Bartlett's decomposition); ${result.iterations} draws.`,
     };
   } else {
     warnings.push({ code: 'parallel-analysis-skipped', items: [], message: 'Parallel analysis needs at least three respondents with answers; it was skipped.' });
