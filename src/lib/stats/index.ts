@@ -30,6 +30,7 @@ export * from './item-descriptives';
 export * from './item-rest-correlation';
 export * from './kmo';
 export * from './log-gamma';
+export * from './masked-cross-products';
 export * from './mid-ranks';
 export * from './minres-factor';
 export * from './nearest-correlation';
