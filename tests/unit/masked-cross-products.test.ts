@@ -105,6 +105,17 @@ describe('pairwise-missing statistics from masked cross-products', () => {
     },
   );
 
+  it('keeps an exact copy of an item at exactly 1, as the pair loop does', () => {
+    const base = scatteredData(900, 6, 3, 0.05, { rounded: true });
+    const rows = base.rows;
+    const data = new Float64Array(rows * 7);
+    data.set(base.data);
+    data.set(base.data.subarray(2 * rows, 3 * rows), 6 * rows); // item 6 copies item 2, missing answers included
+    const result = correlationMatrix({ rows, columns: 7, data }, { method: 'pearson', missing: 'pairwise', repair: 'none' });
+    expect(result.matrix.data[2 * 7 + 6]).toBe(1);
+    expect(result.matrix.data[6 * 7 + 2]).toBe(1);
+  });
+
   it('gives the sums of a hand-worked example and flags a pair it cannot give accurately', () => {
     // x = 1, 2, NaN, 4; y = 2, NaN, 5, 9; z = 3, 3, 3, NaN. Item means over own answers: 7/3, 16/3, 3.
     // Pair (x, y): rows 0 and 3, x = 1, 4 (mean 2.5), y = 2, 9 (mean 5.5): Σ(x−2.5)² = 4.5,

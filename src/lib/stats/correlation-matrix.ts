@@ -37,7 +37,7 @@ import { createPolychoricPairsJob, estimatePolychoricPairs, POLYCHORIC_PAIR_FIEL
 import { repairCorrelationMatrix, type CorrelationRepairMethod } from './nearest-correlation';
 import { summarizeSpectrum } from './spectral-inverse';
 import { symmetricEigenvalues } from './symmetric-eigen';
-import { MIN_ROWS_FOR_CORRELATION, POLYCHORIC_MAX_CATEGORIES } from './tolerances';
+import { MIN_ROWS_FOR_CORRELATION, NEAR_PERFECT_CORRELATION, POLYCHORIC_MAX_CATEGORIES } from './tolerances';
 import { completeRows, rowsWithAnyAnswer } from './complete-rows';
 import { itemColumn, selectRespondents, type CorrelationMethod, type ItemMatrix, type MissingPolicy, type NumericalNotice, type SquareMatrix } from './types';
 
@@ -519,11 +519,11 @@ function fillPairwisePearson(data: ItemMatrix, columns: readonly Float64Array[],
       let r: number | null;
       if (sums.n < MIN_ROWS_FOR_CORRELATION) {
         r = null;
-      } else if (sums.accurate) {
-        const value = sums.products / Math.sqrt(sums.squaresJ * sums.squaresK);
-        r = value > 1 ? 1 : value < -1 ? -1 : value;
       } else {
-        r = pearsonOfPairComplete(columns[j], columns[k]).r;
+        const value = sums.accurate ? sums.products / Math.sqrt(sums.squaresJ * sums.squaresK) : Number.NaN;
+        // Near ±1 (a duplicated item, say) the pair loop's own arithmetic decides, so that an exact
+        // copy stays exactly 1 as it does there and the exact-dependency checks see the same matrix.
+        r = Math.abs(value) < NEAR_PERFECT_CORRELATION ? value : pearsonOfPairComplete(columns[j], columns[k]).r;
       }
       counts[j * order + k] = sums.n;
       counts[k * order + j] = sums.n;

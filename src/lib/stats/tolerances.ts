@@ -29,6 +29,12 @@ export const CONSTANT_ITEM_RELATIVE_SD = 1e-10;
  * 3 digits lost the result stays within about 1e-12 of the pair loop.
  */
 export const MASKED_PRODUCTS_CANCELLATION_LIMIT = 1e-3;
+/**
+ * Pairwise Pearson from masked cross-products: a pair whose |r| reaches this is recomputed by the
+ * two-pass pair loop, whose arithmetic keeps an exact copy at exactly 1 (the masked sums reach it
+ * only to rounding, and exact dependencies are read from such pairs).
+ */
+export const NEAR_PERFECT_CORRELATION = 1 - 1e-9;
 /** Ceiling on implicit QL iterations spent on one eigenvalue before non-convergence is declared. */
 export const EIGEN_MAX_ITERATIONS_PER_VALUE = 60;
 /**
