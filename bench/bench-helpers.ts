@@ -4,9 +4,11 @@
  * on PATH, reported as a figure rather than thrown when R fails). Figures only: nothing asserts.
  */
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, rmSync } from 'node:fs';
+import { closeSync, mkdtempSync, openSync, rmSync, writeSync } from 'node:fs';
 import { availableParallelism, loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { createSeededRandom } from '../src/lib/stats/seeded-random';
+import type { ItemMatrix } from '../src/lib/stats/types';
 
 /**
  * The load averages over 1, 5 and 15 minutes and the number of cores, for the heading of a run.
@@ -45,5 +47,64 @@ export function withRScript<T>(folderPrefix: string, prepare: (directory: string
     return parse(run.stdout);
   } finally {
     rmSync(directory, { recursive: true, force: true });
+  }
+}
+
+/**
+ * Seeded ordinal answers from a two-factor model: item j loads 0.45-0.85 on factor j mod 2, and
+ * its latent score is cut at thresholds spread over ±1.8 with a seeded jitter (every category
+ * used); each answer is missing with probability `missingShare` (NaN).
+ * @param rows respondents.
+ * @param items items.
+ * @param categories answer categories (coded 1..categories).
+ * @param seed seed of the generator.
+ * @param missingShare share of answers left out at random (0 for complete data).
+ * @returns respondents × items, column-major.
+ */
+export function ordinalFactorData(rows: number, items: number, categories: number, seed: number, missingShare = 0): ItemMatrix {
+  const random = createSeededRandom(seed);
+  const factors = [0, 1].map(() => Float64Array.from({ length: rows }, () => random.nextNormal()));
+  const data = new Float64Array(rows * items);
+  for (let j = 0; j < items; j++) {
+    const loading = 0.45 + 0.4 * random.next();
+    const cuts = Array.from({ length: categories - 1 }, (_, c) => -1.8 + (3.6 * (c + 0.5)) / (categories - 1) + 0.2 * (random.next() - 0.5));
+    const factor = factors[j % 2];
+    for (let i = 0; i < rows; i++) {
+      const latent = loading * factor[i] + Math.sqrt(1 - loading * loading) * random.nextNormal();
+      let category = 1;
+      for (const cut of cuts) if (latent > cut) category++;
+      data[j * rows + i] = missingShare > 0 && random.next() < missingShare ? Number.NaN : category;
+    }
+  }
+  return { rows, columns: items, data };
+}
+
+/**
+ * Writes a matrix as CSV with a header `q1,q2,...` (an empty cell for NaN), a block of rows at a
+ * time so that a large matrix never becomes one string.
+ * @param path the file to write.
+ * @param matrix respondents × items, column-major.
+ * @returns nothing; the file is written.
+ */
+export function writeItemsCsv(path: string, matrix: ItemMatrix): void {
+  const { rows, columns, data } = matrix;
+  const descriptor = openSync(path, 'w');
+  try {
+    writeSync(descriptor, `${Array.from({ length: columns }, (_, j) => `q${j + 1}`).join(',')}\n`);
+    const block = 2_000;
+    for (let first = 0; first < rows; first += block) {
+      const lines: string[] = [];
+      for (let i = first; i < Math.min(rows, first + block); i++) {
+        const cells: string[] = [];
+        for (let j = 0; j < columns; j++) {
+          const value = data[j * rows + i];
+          cells.push(value === value ? String(value) : '');
+        }
+        lines.push(cells.join(','));
+      }
+      writeSync(descriptor, `${lines.join('\n')}\n`);
+    }
+  } finally {
+    closeSync(descriptor);
   }
 }

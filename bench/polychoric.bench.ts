@@ -15,10 +15,9 @@
  */
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
-import { loadAverageAndCores, withRScript } from './bench-helpers';
+import { loadAverageAndCores, ordinalFactorData, withRScript } from './bench-helpers';
 import { correlationMatrix, type CorrelationMatrixResult } from '../src/lib/stats/correlation-matrix';
 import { correlationMatrixParallel } from './parallel/correlation-matrix-parallel';
-import { createSeededRandom } from '../src/lib/stats/seeded-random';
 import type { ItemMatrix, SquareMatrix } from '../src/lib/stats/types';
 
 interface BenchSize {
@@ -36,26 +35,8 @@ const SIZES: readonly BenchSize[] = [
 const SEED = 20261202;
 const WORKERS = 2;
 
-/**
- * Ordinal answers from a two-factor model: item j loads 0.45-0.85 on factor j mod 2, and its
- * latent score is cut at thresholds spread over ±1.8 with a seeded jitter (every category used).
- */
 function generate(size: BenchSize, seed: number): ItemMatrix {
-  const random = createSeededRandom(seed);
-  const factors = [0, 1].map(() => Float64Array.from({ length: size.rows }, () => random.nextNormal()));
-  const data = new Float64Array(size.rows * size.items);
-  for (let j = 0; j < size.items; j++) {
-    const loading = 0.45 + 0.4 * random.next();
-    const cuts = Array.from({ length: size.categories - 1 }, (_, c) => -1.8 + (3.6 * (c + 0.5)) / (size.categories - 1) + 0.2 * (random.next() - 0.5));
-    const factor = factors[j % 2];
-    for (let i = 0; i < size.rows; i++) {
-      const latent = loading * factor[i] + Math.sqrt(1 - loading * loading) * random.nextNormal();
-      let category = 1;
-      for (const cut of cuts) if (latent > cut) category++;
-      data[j * size.rows + i] = category;
-    }
-  }
-  return { rows: size.rows, columns: size.items, data };
+  return ordinalFactorData(size.rows, size.items, size.categories, seed);
 }
 
 function median(values: number[]): number {

@@ -19,7 +19,14 @@ import { auditInputFromSetup, auditSetupOf, AuditInputError, nothingToCompute, p
 import { runAudit } from '../lib/audit/run-audit';
 import { auditSettingsSchema } from '../lib/audit/settings-schema';
 import { AUDIT_SETTINGS, AuditSettingsError, auditSettingsProblems, requestFromFlags, resolveAuditSettings } from '../lib/audit/settings-table';
-import { acceptProposal, isWaveRefusal, readWave } from '../lib/ingest';
+import { acceptProposal, isWaveRefusal, readWave, type ReadLimits } from '../lib/ingest';
+
+/**
+ * The command line reads the user's own files on the user's own machine, so it allows larger
+ * files than an upload to the shared server (50 MB, 10 million cells): 1 GB and 60 million cells
+ * (e.g. 200,000 respondents, the row limit, × 300 items). docs/decisions/015-speed-whole-audit.md.
+ */
+const COMMAND_LINE_READ_LIMITS: Partial<ReadLimits> = { maxBytes: 1000 * 1000 * 1000, maxCells: 60_000_000 };
 
 /** The flags of the settings table, e.g. `--method pearson|spearman|polychoric`, `--bootstrap N`. */
 const settingFlags = AUDIT_SETTINGS.filter((setting) => setting.flag !== null);
@@ -119,7 +126,7 @@ async function main(argv: string[]): Promise<number> {
     codebookName: values.codebook ? basename(values.codebook) : null,
     codebookBytes: values.codebook ? await readBytes(values.codebook, 'codebook') : null,
     sheet: values.sheet ?? null,
-  });
+  }, COMMAND_LINE_READ_LIMITS);
   const outcome = settings.outcome;
   const { wave, proposal, setup, screening } = acceptProposal(read, { outcome, keepAll: values['keep-all'] === true });
   const exclusions = wave.excluded;

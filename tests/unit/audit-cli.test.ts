@@ -6,13 +6,44 @@ import { spawnSync } from 'node:child_process';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { describe, expect, it } from 'vitest';
+import { beforeAll, describe, expect, it } from 'vitest';
 import { resolveAuditSettings } from '../../src/lib/audit/settings-table';
 
+/** What `npm run audit -- ...` runs: scripts/audit.mjs, which runs the prebuilt bundle. */
 function audit(...args: string[]) {
-  const result = spawnSync(process.execPath, ['--import', 'tsx', 'src/cli/audit.ts', ...args], { encoding: 'utf8', timeout: 120_000 });
+  const result = spawnSync(process.execPath, ['scripts/audit.mjs', ...args], { encoding: 'utf8', timeout: 120_000 });
   return { code: result.status, stdout: result.stdout, stderr: result.stderr };
 }
+
+const STAMP = 'dist/cli/.paredown-cli-stamp.json';
+
+/** Builds the bundle if stale (as the first `npm run audit` would), quietly; returns whether it built. */
+function ensureBundle(): boolean {
+  const script = "import('./scripts/lib/cli-bundle.mjs').then(async (m) => console.log(JSON.stringify(await m.ensureCliBundle({ quiet: true }))))";
+  const result = spawnSync(process.execPath, ['--input-type=module', '-e', script], { encoding: 'utf8', timeout: 120_000 });
+  if (result.status !== 0) throw new Error(`building the command-line bundle failed: ${result.stderr}`);
+  return (JSON.parse(result.stdout) as { built: boolean }).built;
+}
+
+beforeAll(() => {
+  ensureBundle();
+}, 120_000);
+
+describe('the command-line bundle', () => {
+  it('holds only what the audit needs and is rebuilt when an input changes', () => {
+    const stamp = JSON.parse(readFileSync(STAMP, 'utf8')) as { inputs: Record<string, string> };
+    const inputs = Object.keys(stamp.inputs);
+    expect(inputs).toContain('src/cli/audit.ts');
+    expect(inputs).toContain('src/lib/audit/run-audit.ts');
+    // Nothing of the server, the database or the pages: the CLI loads the audit alone.
+    expect(inputs.filter((path) => /^src\/(db|pages|components|lib\/server)\//.test(path) || /node_modules\/(better-sqlite3|astro|react|drizzle-orm)\//.test(path))).toEqual([]);
+    expect(ensureBundle()).toBe(false);
+    // A changed input (its recorded hash no longer matches) makes the next run build again.
+    writeFileSync(STAMP, JSON.stringify({ ...stamp, inputs: { ...stamp.inputs, 'src/lib/stats/parallel-analysis.ts': 'changed' } }));
+    expect(ensureBundle()).toBe(true);
+    expect(ensureBundle()).toBe(false);
+  }, 240_000);
+});
 
 /** A settings file in a temporary folder. */
 function settingsFile(content: unknown): string {
@@ -41,7 +72,7 @@ describe('npm run audit', () => {
     expect(json.outcomeModel.coefficients.map((c: { term: string }) => c.term)).toEqual(['(intercept)', 'coll_2', 'coll_7', 'hours_1']);
     // The proposed cut merges coll_7 into coll_2, so the refit keeps coll_2 and hours_1.
     expect(json.outcomeModel.afterCut.coefficients.map((c: { term: string }) => c.term)).toEqual(['(intercept)', 'coll_2', 'hours_1']);
-  });
+  }, 240_000);
 
   it('audits the demo file end to end and writes the JSON', () => {
     const out = join(mkdtempSync(join(tmpdir(), 'paredown-cli-')), 'audit.json');

@@ -45,4 +45,17 @@ describe('polychoricParallelAnalysis against psych::fa.parallel(cor = "poly")', 
     expect(() => polychoricParallelAnalysis([1.5, 0.9, 0.6], 100, [[-0.5], [], [0]])).toThrow(RangeError);
     expect(() => polychoricParallelAnalysis([1.5, 0.9], 100, thresholds)).toThrow(RangeError);
   });
+
+  it('reuses the random eigenvalues of the same size, thresholds and seed, and hands out fresh results', () => {
+    const thresholds = [[-0.4, 0.6], [0.1], [-1, 0, 1]];
+    const observed = [1.6, 0.8, 0.6];
+    const first = polychoricParallelAnalysis(observed, 80, thresholds, { seed: 31, iterations: 6 });
+    (first.random95 as number[]).fill(0);
+    const again = polychoricParallelAnalysis(observed, 80, thresholds, { seed: 31, iterations: 6 });
+    expect(again.random95.every((value) => value > 0)).toBe(true);
+    // A cached answer is the answer of a fresh computation: a cache filled by another size first.
+    polychoricParallelAnalysis(observed, 81, thresholds, { seed: 31, iterations: 6 });
+    expect(polychoricParallelAnalysis(observed, 80, thresholds, { seed: 31, iterations: 6 })).toEqual(again);
+    expect(polychoricParallelAnalysis(observed, 80, [[-0.4, 1.2], [0.1], [-1, 0, 1]], { seed: 31, iterations: 6 }).random95).not.toEqual(again.random95);
+  });
 });

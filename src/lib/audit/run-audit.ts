@@ -23,7 +23,7 @@ import { polychoricParallelAnalysis } from '../stats/parallel-analysis-polychori
 import { minresOneFactor } from '../stats/minres-factor';
 import { oneFactorMl } from '../stats/one-factor-ml';
 import { symmetricEigenvalues } from '../stats/symmetric-eigen';
-import { POLYCHORIC_PARALLEL_DEFAULT_ITERATIONS } from '../stats/tolerances';
+import { EXACT_DEPENDENCY_RELATIVE_EIGENVALUE, POLYCHORIC_PARALLEL_DEFAULT_ITERATIONS } from '../stats/tolerances';
 import { completeRows } from '../stats/complete-rows';
 import { AuditInputError } from './audit-input';
 import { correlationMatrix } from '../stats/correlation-matrix';
@@ -358,7 +358,10 @@ function scaleModel(evidence: EngineEvidence, members: readonly number[], ids: r
   }
   const itemIds = positions.map((k) => ids[evidence.usable[k]]);
   const rows = (data: Float64Array) => Array.from({ length: p }, (_, i) => Array.from(data.subarray(i * p, (i + 1) * p)));
-  if (evidence.method === 'pearson' && Number.isFinite(n) && n >= 2 && symmetricEigenvalues(sub)[p - 1] > 0) {
+  // ML needs a positive definite matrix: a scale holding an exact copy of an item is singular, its
+  // smallest eigenvalue zero up to rounding, whose sign must not decide the estimator.
+  const spectrum = symmetricEigenvalues(sub);
+  if (evidence.method === 'pearson' && Number.isFinite(n) && n >= 2 && spectrum[p - 1] > EXACT_DEPENDENCY_RELATIVE_EIGENVALUE * spectrum[0]) {
     const fit = oneFactorMl(sub, n);
     return {
       estimator: 'ML', correlation: 'pearson', items: itemIds, n, loadings: fit.loadings, residuals: rows(fit.residuals.data),
@@ -462,7 +465,7 @@ function structureStatistics(
     parallel = {
       observed: [...result.observed], random95: [...result.random95], suggested: result.suggested, iterations: result.iterations, seed: result.seed,
       correlation: 'pearson',
-      note: `Random data were standard normal, correlated by Pearson r; ${result.iterations} draws.`,
+      note: `Random data were standard normal of the same size, correlated by Pearson r (each random matrix drawn from its Wishart law, Bartlett's decomposition); ${result.iterations} draws.`,
     };
   } else {
     warnings.push({ code: 'parallel-analysis-skipped', items: [], message: 'Parallel analysis needs at least three respondents with answers; it was skipped.' });

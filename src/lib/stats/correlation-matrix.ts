@@ -29,6 +29,7 @@
  * Numer. Anal. 22:329-343) on indefinite pairwise matrices.
  */
 import { centeredCrossProducts, pearsonFromCrossProducts } from './cross-products';
+import { maskedCrossProducts, pairCentredSums } from './masked-cross-products';
 import { assignMidRanks, midRanks } from './mid-ranks';
 import { pearsonOfPairComplete } from './pearson-correlation';
 import { codeOrdinalItem, type OrdinalItem } from './polychoric-coding';
@@ -36,7 +37,7 @@ import { createPolychoricPairsJob, estimatePolychoricPairs, POLYCHORIC_PAIR_FIEL
 import { repairCorrelationMatrix, type CorrelationRepairMethod } from './nearest-correlation';
 import { summarizeSpectrum } from './spectral-inverse';
 import { symmetricEigenvalues } from './symmetric-eigen';
-import { MIN_ROWS_FOR_CORRELATION, POLYCHORIC_MAX_CATEGORIES } from './tolerances';
+import { MIN_ROWS_FOR_CORRELATION, NEAR_PERFECT_CORRELATION, POLYCHORIC_MAX_CATEGORIES } from './tolerances';
 import { completeRows, rowsWithAnyAnswer } from './complete-rows';
 import { itemColumn, selectRespondents, type CorrelationMethod, type ItemMatrix, type MissingPolicy, type NumericalNotice, type SquareMatrix } from './types';
 
@@ -442,7 +443,12 @@ function fillComplete(data: ItemMatrix, method: CorrelationMethod, values: Float
   }
 }
 
-/** Pairwise deletion with missing data: every pair over its own complete rows. */
+/**
+ * Pairwise deletion with missing data: every pair over its own complete rows. Pearson goes through
+ * the masked cross-products (every pair at once); a pair they cannot give to full accuracy (an
+ * item constant over the pair, or heavy cancellation) and Spearman (re-ranked per pair) go
+ * through the two-pass pair loop.
+ */
 function fillPairwiseWithMissing(
   data: ItemMatrix,
   method: CorrelationMethod,
@@ -459,6 +465,10 @@ function fillPairwiseWithMissing(
     let observed = 0;
     for (let i = 0; i < rows; i++) if (values_j[i] === values_j[i]) observed++;
     counts[j * order + j] = observed;
+  }
+  if (method === 'pearson') {
+    fillPairwisePearson(data, columns, values, counts, undefinedPairs);
+    return;
   }
   // Spearman: each item's observed rows sorted once by value; a pair re-ranks the rows it keeps.
   const sortedRows: Int32Array[] = [];
@@ -494,6 +504,34 @@ function fillPairwiseWithMissing(
       } else {
         values[j * order + k] = result.r;
         values[k * order + j] = result.r;
+      }
+    }
+  }
+}
+
+/** Pairwise Pearson from the masked cross-products, the pair loop only where they are not accurate. */
+function fillPairwisePearson(data: ItemMatrix, columns: readonly Float64Array[], values: Float64Array, counts: Float64Array, undefinedPairs: ItemPair[]): void {
+  const order = data.columns;
+  const masked = maskedCrossProducts(data);
+  for (let j = 0; j < order; j++) {
+    for (let k = j + 1; k < order; k++) {
+      const sums = pairCentredSums(masked, j, k);
+      let r: number | null;
+      if (sums.n < MIN_ROWS_FOR_CORRELATION) {
+        r = null;
+      } else {
+        const value = sums.accurate ? sums.products / Math.sqrt(sums.squaresJ * sums.squaresK) : Number.NaN;
+        // Near ±1 (a duplicated item, say) the pair loop's own arithmetic decides, so that an exact
+        // copy stays exactly 1 as it does there and the exact-dependency checks see the same matrix.
+        r = Math.abs(value) < NEAR_PERFECT_CORRELATION ? value : pearsonOfPairComplete(columns[j], columns[k]).r;
+      }
+      counts[j * order + k] = sums.n;
+      counts[k * order + j] = sums.n;
+      if (r === null) {
+        undefinedPairs.push([j, k]);
+      } else {
+        values[j * order + k] = r;
+        values[k * order + j] = r;
       }
     }
   }

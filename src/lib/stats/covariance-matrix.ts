@@ -18,6 +18,7 @@
  */
 import { completeRows, rowsWithAnyAnswer } from './complete-rows';
 import { centeredCrossProducts } from './cross-products';
+import { maskedCrossProducts, pairCentredSums } from './masked-cross-products';
 import { MIN_ROWS_FOR_COVARIANCE } from './tolerances';
 import { selectRespondents, type ItemMatrix, type MissingPolicy, type NumericalNotice, type SquareMatrix } from './types';
 
@@ -85,37 +86,20 @@ export function covarianceMatrix(matrix: ItemMatrix, options: CovarianceMatrixOp
     }
   } else {
     rowsUsed = rowsWithAnyAnswer(matrix);
+    // Every pair at once from the masked cross-products; the two-pass pair loop only for a pair
+    // they cannot give to full accuracy (heavy cancellation, or an item constant over the pair).
+    const masked = maskedCrossProducts(matrix);
     for (let j = 0; j < order; j++) {
-      const x = data.subarray(j * rows, (j + 1) * rows);
       for (let k = j; k < order; k++) {
-        const y = data.subarray(k * rows, (k + 1) * rows);
-        let n = 0;
-        let sumX = 0;
-        let sumY = 0;
-        for (let i = 0; i < rows; i++) {
-          const a = x[i];
-          const b = y[i];
-          if (a !== a || b !== b) continue;
-          n++;
-          sumX += a;
-          sumY += b;
-        }
+        const sums = pairCentredSums(masked, j, k);
+        const n = sums.n;
         counts[j * order + k] = n;
         counts[k * order + j] = n;
         if (n < MIN_ROWS_FOR_COVARIANCE) {
           undefinedPairs.push([j, k]);
           continue;
         }
-        const meanX = sumX / n;
-        const meanY = sumY / n;
-        let sumProducts = 0;
-        for (let i = 0; i < rows; i++) {
-          const a = x[i];
-          const b = y[i];
-          if (a !== a || b !== b) continue;
-          sumProducts += (a - meanX) * (b - meanY);
-        }
-        const covariance = sumProducts / (n - 1);
+        const covariance = sums.accurate ? sums.products / (n - 1) : pairCovariance(data, rows, j, k);
         values[j * order + k] = covariance;
         values[k * order + j] = covariance;
       }
@@ -131,4 +115,31 @@ export function covarianceMatrix(matrix: ItemMatrix, options: CovarianceMatrixOp
     });
   }
   return { missing, matrix: { order, data: values }, n: { order, data: counts }, rowsUsed, undefinedPairs, notices };
+}
+
+/** The two-pass covariance of items j and k over the rows where both are answered (at least 2). */
+function pairCovariance(data: Float64Array, rows: number, j: number, k: number): number {
+  const x = data.subarray(j * rows, (j + 1) * rows);
+  const y = data.subarray(k * rows, (k + 1) * rows);
+  let n = 0;
+  let sumX = 0;
+  let sumY = 0;
+  for (let i = 0; i < rows; i++) {
+    const a = x[i];
+    const b = y[i];
+    if (a !== a || b !== b) continue;
+    n++;
+    sumX += a;
+    sumY += b;
+  }
+  const meanX = sumX / n;
+  const meanY = sumY / n;
+  let sumProducts = 0;
+  for (let i = 0; i < rows; i++) {
+    const a = x[i];
+    const b = y[i];
+    if (a !== a || b !== b) continue;
+    sumProducts += (a - meanX) * (b - meanY);
+  }
+  return sumProducts / (n - 1);
 }

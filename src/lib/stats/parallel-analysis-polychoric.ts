@@ -7,9 +7,16 @@
  * observed eigenvalue is retained while it exceeds the chosen percentile of the random ones at
  * its position. Polychoric estimation costs far more than Pearson, so callers usually ask for
  * fewer iterations than for Pearson data; the result says how many were drawn.
+ *
+ * Unlike the Pearson variant, the random matrices cannot be drawn from the Wishart law: the
+ * polychoric estimates of cut normal data have their own sampling law, which is the point of
+ * simulating the same correlation type (Garrido et al. 2013). What is reused instead: the random
+ * eigenvalues of the last few (rows, thresholds, iterations, seed) are kept in an in-process cache
+ * (least recently used first out, RANDOM_EIGENVALUE_CACHE_SIZE entries, per thread), so a second
+ * audit of the same wave (other settings, a retry) does not estimate them again.
  */
 import { correlationMatrix } from './correlation-matrix';
-import { PARALLEL_ANALYSIS_DEFAULT_SEED, summariseRandomEigenvalues, type ParallelAnalysisResult } from './parallel-analysis';
+import { PARALLEL_ANALYSIS_DEFAULT_SEED, RANDOM_EIGENVALUE_CACHE_SIZE, summariseRandomEigenvalues, type ParallelAnalysisResult } from './parallel-analysis';
 import { createSeededRandom } from './seeded-random';
 import { symmetricEigenvalues } from './symmetric-eigen';
 import { PARALLEL_ANALYSIS_PERCENTILE, POLYCHORIC_PARALLEL_DEFAULT_ITERATIONS } from './tolerances';
@@ -65,6 +72,25 @@ export function polychoricParallelAnalysis(
   if (!Number.isInteger(seed)) throw new RangeError(`polychoricParallelAnalysis: seed must be an integer, got ${seed}`);
   if (!(percentile > 0 && percentile <= 100)) throw new RangeError(`polychoricParallelAnalysis: percentile must lie in (0, 100], got ${percentile}`);
 
+  const key = `${rows}:${iterations}:${seed}:${thresholds.map((limits) => limits.join(',')).join(';')}`;
+  let randomValues = eigenvalueCache.get(key);
+  if (randomValues === undefined) {
+    randomValues = randomPolychoricEigenvalues(rows, thresholds, iterations, seed);
+    eigenvalueCache.set(key, randomValues);
+    if (eigenvalueCache.size > RANDOM_EIGENVALUE_CACHE_SIZE) eigenvalueCache.delete(eigenvalueCache.keys().next().value as string);
+  } else {
+    eigenvalueCache.delete(key);
+    eigenvalueCache.set(key, randomValues);
+  }
+  // The summary sorts its input in place: hand it a copy, never the cached array.
+  return summariseRandomEigenvalues(observed, randomValues.slice(), iterations, seed, percentile);
+}
+
+const eigenvalueCache = new Map<string, Float64Array>();
+
+/** `values[k * iterations + t]`: eigenvalue k (descending) of the polychoric matrix of random ordinal data set t. */
+function randomPolychoricEigenvalues(rows: number, thresholds: readonly (readonly number[])[], iterations: number, seed: number): Float64Array {
+  const items = thresholds.length;
   const random = createSeededRandom(seed);
   const randomValues = new Float64Array(items * iterations);
   const data = new Float64Array(rows * items);
@@ -87,5 +113,5 @@ export function polychoricParallelAnalysis(
     }
     for (let k = 0; k < items; k++) randomValues[k * iterations + t] = values[k];
   }
-  return summariseRandomEigenvalues(observed, randomValues, iterations, seed, percentile);
+  return randomValues;
 }

@@ -1,9 +1,17 @@
 /**
  * Horn's parallel analysis: how many components stand out from what random data of the same
- * size would give. Each iteration draws `rows × items` independent standard normal values from
- * the seeded generator, correlates them (Pearson) and takes the eigenvalues; an observed
- * eigenvalue is retained while it exceeds the 95th percentile of the random eigenvalues at the
- * same position (Glorfeld's refinement of Horn's mean). The same seed gives the same answer.
+ * size would give. Each iteration draws the Pearson correlation matrix of `rows × items`
+ * independent standard normal values from the seeded generator and takes its eigenvalues; an
+ * observed eigenvalue is retained while it exceeds the 95th percentile of the random eigenvalues
+ * at the same position (Glorfeld's refinement of Horn's mean). The same seed gives the same answer.
+ *
+ * The matrices are drawn directly, not through the data: the cross-products of normal data are
+ * Wishart, drawn by Bartlett's decomposition at O(items³) per draw and nothing in `rows`
+ * (wishart-correlation.ts; Odell & Feiveson 1966). The law of the random eigenvalues is the same as
+ * correlating `rows × items` normal values; only the draws differ. The random eigenvalues of the
+ * last few (rows, items, iterations, seed) are kept in an in-process cache (least recently used
+ * first out, RANDOM_EIGENVALUE_CACHE_SIZE entries, per thread), so a second audit of the same
+ * size reuses them.
  *
  * Percentiles are R's default (type 7): linear interpolation between order statistics at
  * `(N − 1)·q`.
@@ -14,10 +22,13 @@
  * Psychological Measurement 55:377-393); Hyndman & Fan 1996, "Sample quantiles in statistical
  * packages" (The American Statistician 50:361-365), definition 7.
  */
-import { centeredCrossProducts, pearsonFromCrossProducts } from './cross-products';
 import { createSeededRandom } from './seeded-random';
 import { symmetricEigenvalues } from './symmetric-eigen';
 import { PARALLEL_ANALYSIS_DEFAULT_ITERATIONS, PARALLEL_ANALYSIS_PERCENTILE } from './tolerances';
+import { wishartCorrelation } from './wishart-correlation';
+
+/** Sizes whose random eigenvalues are cached in-process (performance only). */
+export const RANDOM_EIGENVALUE_CACHE_SIZE = 8;
 
 /** Seed used when none is given (the audit's settings normally pass one). */
 export const PARALLEL_ANALYSIS_DEFAULT_SEED = 1;
@@ -78,16 +89,7 @@ export function parallelAnalysis(observed: ArrayLike<number>, rows: number, opti
   if (!Number.isInteger(seed)) throw new RangeError(`parallelAnalysis: seed must be an integer, got ${seed}`);
   if (!(percentile > 0 && percentile <= 100)) throw new RangeError(`parallelAnalysis: percentile must lie in (0, 100], got ${percentile}`);
 
-  const random = createSeededRandom(seed);
-  // randomValues[k * iterations + t]: eigenvalue k of random data set t.
-  const randomValues = new Float64Array(items * iterations);
-  const data = new Float64Array(rows * items);
-  for (let t = 0; t < iterations; t++) {
-    for (let index = 0; index < data.length; index++) data[index] = random.nextNormal();
-    const values = randomEigenvalues(data, rows, items);
-    for (let k = 0; k < items; k++) randomValues[k * iterations + t] = values[k];
-  }
-
+  const randomValues = randomCorrelationEigenvalues(rows, items, iterations, seed);
   return summariseRandomEigenvalues(observed, randomValues, iterations, seed, percentile);
 }
 
@@ -125,11 +127,37 @@ export function summariseRandomEigenvalues(
   return { observed: Array.from(observed), random95, randomMean, suggested, iterations, seed, percentile };
 }
 
-/** Eigenvalues (descending) of the Pearson matrix of one random data set. */
-function randomEigenvalues(data: Float64Array, rows: number, items: number): Float64Array {
-  if (items === 1) return Float64Array.of(1);
-  const correlation = pearsonFromCrossProducts(centeredCrossProducts({ rows, columns: items, data }));
-  return symmetricEigenvalues(correlation);
+const eigenvalueCache = new Map<string, Float64Array>();
+
+/**
+ * The eigenvalues of `iterations` random correlation matrices of `rows × items` independent
+ * standard normal values (Bartlett's decomposition of the Wishart cross-products), cached by
+ * (rows, items, iterations, seed).
+ * @param rows Respondents (at least 2).
+ * @param items Items (at least 1).
+ * @param iterations Random matrices (at least 1).
+ * @param seed Seed of the generator.
+ * @throws {RangeError} when a size is out of range (from wishartCorrelation).
+ * @returns A fresh array, `values[k * iterations + t]`: eigenvalue k (descending) of draw t.
+ * References: Odell & Feiveson 1966, "A numerical procedure to generate a sample covariance matrix".
+ */
+export function randomCorrelationEigenvalues(rows: number, items: number, iterations: number, seed: number): Float64Array {
+  const key = `${rows}:${items}:${iterations}:${seed}`;
+  const cached = eigenvalueCache.get(key);
+  if (cached !== undefined) {
+    eigenvalueCache.delete(key);
+    eigenvalueCache.set(key, cached);
+    return cached.slice();
+  }
+  const random = createSeededRandom(seed);
+  const values = new Float64Array(items * iterations);
+  for (let t = 0; t < iterations; t++) {
+    const eigenvalues = items === 1 ? Float64Array.of(1) : symmetricEigenvalues(wishartCorrelation(rows, items, random));
+    for (let k = 0; k < items; k++) values[k * iterations + t] = eigenvalues[k];
+  }
+  eigenvalueCache.set(key, values);
+  if (eigenvalueCache.size > RANDOM_EIGENVALUE_CACHE_SIZE) eigenvalueCache.delete(eigenvalueCache.keys().next().value as string);
+  return values.slice();
 }
 
 /**

@@ -21,6 +21,20 @@ export const NULL_SPACE_MEMBERSHIP = 1e-6;
  * zero) is constant: what remains after centring is rounding, not variation.
  */
 export const CONSTANT_ITEM_RELATIVE_SD = 1e-10;
+/**
+ * Pairwise-complete sums from masked cross-products (masked-cross-products.ts): when a pair's
+ * centred sum of squares is below this share of its shifted sum of squares, subtracting the
+ * pair's mean would cancel more than 3 digits (or the item is constant over the pair), so that
+ * pair is recomputed by the two-pass pair loop instead. Accuracy, not a statistic: with at most
+ * 3 digits lost the result stays within about 1e-12 of the pair loop.
+ */
+export const MASKED_PRODUCTS_CANCELLATION_LIMIT = 1e-3;
+/**
+ * Pairwise Pearson from masked cross-products: a pair whose |r| reaches this is recomputed by the
+ * two-pass pair loop, whose arithmetic keeps an exact copy at exactly 1 (the masked sums reach it
+ * only to rounding, and exact dependencies are read from such pairs).
+ */
+export const NEAR_PERFECT_CORRELATION = 1 - 1e-9;
 /** Ceiling on implicit QL iterations spent on one eigenvalue before non-convergence is declared. */
 export const EIGEN_MAX_ITERATIONS_PER_VALUE = 60;
 /**

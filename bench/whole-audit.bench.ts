@@ -1,0 +1,198 @@
+/**
+ * The whole audit from file to JSON, beside R doing less, in one run (issue 15). Each figure is the
+ * wall time of a whole command on the same generated CSV file in a temporary folder: ours is
+ * `node scripts/audit.mjs FILE --keep-all ...` (what `npm run audit` runs, without npm's own
+ * start-up), from the prebuilt bundle (built before timing); R's is `Rscript -e ...` from start to
+ * end (R's start-up and package loading included), reading the file with read.csv.
+ *
+ *   A. 1,000 × 40 seven-point items, polychoric, no bootstrap, against psych::polychoric alone
+ *      (its system.time inside R). Goal: ours <= 0.02 × R.
+ *   B. 20,000 × 300 five-point items, Pearson pairwise, 3% missing, no bootstrap, against R's
+ *      read.csv + cor(use = "pairwise") + psych::alpha + solve + eigen + psych::KMO. Goal <= 0.5 × R.
+ *   C. 2,000 × 100 five-point items, Pearson pairwise, 3% missing, 200 resamples, against R's 200
+ *      resamples of cor(pairwise) + VIF (diag(solve)) + eigen after read.csv. Goal <= 0.5 × R.
+ *   D. 100,000 × 300 five-point items, complete, Pearson, no bootstrap: <= 10 s and <= 1.5 GB peak
+ *      resident memory (our process's maxRSS), with R's whole script of B beside it.
+ *
+ * Run: `npm run bench -- whole-audit` (or `npx tsx bench/whole-audit.bench.ts`); `--quick` (or
+ * PAREDOWN_BENCH_QUICK=1) runs every case at a small size, to check the benchmark itself; `--no-r`
+ * skips R. The machine's load is printed first: on a shared machine every figure is slower.
+ * Last lines, machine-readable: {"bench":"whole-audit-A",...}. Figures only: nothing asserts.
+ */
+import { spawnSync } from 'node:child_process';
+import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { loadAverageAndCores, ordinalFactorData, withRScript, writeItemsCsv } from './bench-helpers';
+
+const root = fileURLToPath(new URL('..', import.meta.url));
+const quick = process.argv.includes('--quick') || process.env.PAREDOWN_BENCH_QUICK === '1';
+
+interface Case {
+  readonly name: string;
+  readonly what: string;
+  readonly rows: number;
+  readonly items: number;
+  readonly categories: number;
+  readonly missingShare: number;
+  readonly flags: readonly string[];
+  /** The R script's work after `x <- read.csv(FILE)`; it must print the seconds R's goal is compared with, or nothing (then R's whole wall time is used). */
+  readonly r: (file: string) => string;
+  readonly rLabel: string;
+  /** Goal: ours <= ratio × R, or absolute seconds and MB. */
+  readonly goal: { readonly ratio?: number; readonly seconds?: number; readonly megabytes?: number };
+}
+
+const R_WHOLE = (file: string): string => `
+  suppressPackageStartupMessages(library(psych))
+  x <- read.csv(${JSON.stringify(file)})
+  r <- cor(x, use = "pairwise.complete.obs")
+  a <- psych::alpha(x, check.keys = FALSE, warnings = FALSE)
+  vif <- diag(solve(r))
+  e <- eigen(r, symmetric = TRUE, only.values = TRUE)$values
+  k <- psych::KMO(r)
+`;
+
+const scale = (full: number, small: number): number => (quick ? small : full);
+const CASES: readonly Case[] = [
+  {
+    name: 'whole-audit-A',
+    what: 'polychoric, no bootstrap',
+    rows: scale(1_000, 200),
+    items: scale(40, 10),
+    categories: 7,
+    missingShare: 0,
+    flags: ['--method', 'polychoric', '--bootstrap', '0'],
+    r: (file) => `
+      suppressPackageStartupMessages(library(psych))
+      x <- as.matrix(read.csv(${JSON.stringify(file)}))
+      cat(system.time(p <- polychoric(x))[["elapsed"]], "\\n")
+    `,
+    rLabel: 'psych::polychoric alone',
+    goal: { ratio: 0.02 },
+  },
+  {
+    name: 'whole-audit-B',
+    what: 'Pearson pairwise, 3% missing, no bootstrap',
+    rows: scale(20_000, 2_000),
+    items: scale(300, 40),
+    categories: 5,
+    missingShare: 0.03,
+    flags: ['--method', 'pearson', '--missing', 'pairwise', '--bootstrap', '0'],
+    r: R_WHOLE,
+    rLabel: 'R read.csv + cor + alpha + solve + eigen + KMO',
+    goal: { ratio: 0.5 },
+  },
+  {
+    name: 'whole-audit-C',
+    what: 'Pearson pairwise, 3% missing, 200 resamples',
+    rows: scale(2_000, 300),
+    items: scale(100, 15),
+    categories: 5,
+    missingShare: 0.03,
+    flags: ['--method', 'pearson', '--missing', 'pairwise', '--bootstrap', quick ? '20' : '200'],
+    r: (file) => `
+      x <- as.matrix(read.csv(${JSON.stringify(file)}))
+      set.seed(1)
+      for (b in 1:${quick ? 20 : 200}) {
+        s <- x[sample.int(nrow(x), replace = TRUE), ]
+        r <- cor(s, use = "pairwise.complete.obs")
+        vif <- diag(solve(r))
+        e <- eigen(r, symmetric = TRUE, only.values = TRUE)$values
+      }
+    `,
+    rLabel: `R read.csv + ${quick ? 20 : 200} × (cor + VIF + eigen)`,
+    goal: { ratio: 0.5 },
+  },
+  {
+    name: 'whole-audit-D',
+    what: 'Pearson, complete, no bootstrap',
+    rows: scale(100_000, 5_000),
+    items: scale(300, 50),
+    categories: 5,
+    missingShare: 0,
+    flags: ['--method', 'pearson', '--bootstrap', '0'],
+    r: R_WHOLE,
+    rLabel: 'R read.csv + cor + alpha + solve + eigen + KMO',
+    goal: { seconds: 10, megabytes: 1536 },
+  },
+];
+
+/** Our whole command: wall seconds, peak resident MB, and whether it succeeded. */
+function runOurs(file: string, flags: readonly string[], directory: string): { seconds: number; megabytes: number; ok: boolean; note: string } {
+  const rssFile = join(directory, 'rss.txt');
+  const out = join(directory, 'audit.json');
+  const start = performance.now();
+  const run = spawnSync(process.execPath, [join(root, 'bench', 'measure-command.mjs'), rssFile, join(root, 'scripts', 'audit.mjs'), file, '--keep-all', ...flags, '--out', out], {
+    cwd: root,
+    encoding: 'utf8',
+    maxBuffer: 1 << 26,
+  });
+  const seconds = (performance.now() - start) / 1000;
+  const ok = run.status === 0;
+  let megabytes = Number.NaN;
+  try {
+    megabytes = Number(readFileSync(rssFile, 'utf8')) / 1024;
+  } catch {
+    // no figure when the command died before writing it
+  }
+  return { seconds, megabytes, ok, note: ok ? '' : (run.stderr ?? '').trim().split('\n').at(-1) ?? '' };
+}
+
+/** R's figure: the seconds it printed (when the script prints one) or its whole wall time. */
+function runR(entry: Case, file: string): number | null {
+  let wall = 0;
+  const printed = withRScript('paredown-whole-audit-', () => {
+    wall = performance.now();
+    return entry.r(file);
+  }, (stdout) => {
+    wall = (performance.now() - wall) / 1000;
+    const value = Number.parseFloat(stdout.trim());
+    return Number.isFinite(value) ? value : null;
+  });
+  if (printed === null && wall === 0) return null;
+  return printed ?? (wall > 0 ? wall : null);
+}
+
+// Build the bundle before timing anything (a first `npm run audit` would build it once).
+spawnSync(process.execPath, [join(root, 'scripts', 'audit.mjs'), '--help'], { cwd: root, encoding: 'utf8' });
+
+console.log(`whole audit, file to JSON, beside R${quick ? ' (--quick: small sizes, to check the benchmark only)' : ''}`);
+console.log(`  load average at start: ${loadAverageAndCores()} (other work on the machine slows every figure)`);
+const summary: Record<string, unknown>[] = [];
+for (const [index, entry] of CASES.entries()) {
+  const directory = mkdtempSync(join(tmpdir(), 'paredown-whole-audit-'));
+  try {
+    const file = join(directory, 'items.csv');
+    writeItemsCsv(file, ordinalFactorData(entry.rows, entry.items, entry.categories, 20261202 + index, entry.missingShare));
+    console.log(`\n${entry.name}: ${entry.rows.toLocaleString('en-GB')} × ${entry.items} ${entry.categories}-point items, ${entry.what}`);
+    const ours = runOurs(file, entry.flags, directory);
+    console.log(`  Paredown, whole command        ${ours.seconds.toFixed(2)} s, peak ${ours.megabytes.toFixed(0)} MB${ours.ok ? '' : `  FAILED: ${ours.note}`}`);
+    const rSeconds = runR(entry, file);
+    const ratio = rSeconds === null ? null : ours.seconds / rSeconds;
+    if (rSeconds !== null) console.log(`  ${entry.rLabel.padEnd(30)} ${rSeconds.toFixed(2)} s`);
+    const goals: string[] = [];
+    if (entry.goal.ratio !== undefined) goals.push(`ratio ${ratio === null ? 'n/a (no R)' : `${ratio.toFixed(3)}×`} (goal <= ${entry.goal.ratio}×: ${ratio === null ? 'not measured' : ratio <= entry.goal.ratio ? 'met' : 'MISSED'})`);
+    if (entry.goal.seconds !== undefined) goals.push(`${ours.seconds.toFixed(2)} s (goal <= ${entry.goal.seconds} s: ${ours.seconds <= entry.goal.seconds ? 'met' : 'MISSED'})`);
+    if (entry.goal.megabytes !== undefined) goals.push(`${ours.megabytes.toFixed(0)} MB (goal <= ${entry.goal.megabytes} MB: ${ours.megabytes <= entry.goal.megabytes ? 'met' : 'MISSED'})`);
+    if (entry.goal.ratio === undefined && ratio !== null) goals.push(`ratio to R ${ratio.toFixed(3)}×`);
+    console.log(`  ${goals.join('; ')}`);
+    summary.push({
+      bench: entry.name,
+      rows: entry.rows,
+      items: entry.items,
+      seconds: Number(ours.seconds.toFixed(3)),
+      peakMegabytes: Number(ours.megabytes.toFixed(0)),
+      ok: ours.ok,
+      rSeconds: rSeconds === null ? null : Number(rSeconds.toFixed(3)),
+      ratio: ratio === null ? null : Number(ratio.toFixed(4)),
+      goal: entry.goal,
+      quick,
+    });
+  } finally {
+    rmSync(directory, { recursive: true, force: true });
+  }
+}
+console.log('');
+for (const line of summary) console.log(JSON.stringify(line));

@@ -1,0 +1,68 @@
+// The command-line audit's bundle: src/cli/audit.ts and everything it imports (the reader, the
+// audit, the engine, the numerical core, zod, ml-matrix, papaparse, yauzl) in one ESM file,
+// built once by esbuild (the bundler of the audit worker, src/lib/server/audit-jobs/
+// audit-worker-build.ts) and rebuilt only when one of its inputs changes. Plain Node, like
+// prepare.mjs. docs/decisions/015-speed-whole-audit.md.
+import { createHash } from 'node:crypto';
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { root } from './prepare.mjs';
+
+/** The bundle, and the stamp beside it listing every input with its hash. */
+export const cliBundle = join(root, 'dist', 'cli', 'audit.mjs');
+const stamp = join(root, 'dist', 'cli', '.paredown-cli-stamp.json');
+/** Files that change the bundle without being among its inputs. */
+const alwaysHashed = ['package-lock.json', 'tsconfig.json', 'scripts/lib/cli-bundle.mjs'];
+
+function hashOf(relativePath) {
+  const path = join(root, relativePath);
+  if (!existsSync(path)) return null;
+  return createHash('sha256').update(readFileSync(path)).digest('hex');
+}
+
+/** True when the bundle exists and no input listed in its stamp changed since it was built. */
+function isCurrent() {
+  if (!existsSync(cliBundle) || !existsSync(stamp)) return false;
+  let recorded;
+  try {
+    recorded = JSON.parse(readFileSync(stamp, 'utf8'));
+  } catch {
+    return false;
+  }
+  if (recorded === null || typeof recorded !== 'object' || typeof recorded.inputs !== 'object') return false;
+  if (recorded.node !== process.versions.node) return false;
+  return Object.entries(recorded.inputs).every(([path, hash]) => hashOf(path) === hash);
+}
+
+/**
+ * Builds dist/cli/audit.mjs when it is missing or stale; does nothing otherwise.
+ * @param {{ force?: boolean, quiet?: boolean }} [options]
+ * @returns {Promise<{ built: boolean, file: string }>}
+ */
+export async function ensureCliBundle({ force = false, quiet = false } = {}) {
+  if (!force && isCurrent()) return { built: false, file: cliBundle };
+  if (!quiet) process.stderr.write('Building the command-line audit (once, until its sources change)...\n');
+  const { build } = await import('esbuild');
+  mkdirSync(join(root, 'dist', 'cli'), { recursive: true });
+  const result = await build({
+    absWorkingDir: root,
+    entryPoints: ['src/cli/audit.ts'],
+    outfile: cliBundle,
+    bundle: true,
+    platform: 'node',
+    format: 'esm',
+    target: 'node20',
+    // Dependencies written as CommonJS call require(); give the ESM bundle one.
+    banner: { js: "import { createRequire as __paredownCreateRequire } from 'node:module'; const require = __paredownCreateRequire(import.meta.url);" },
+    // Less to parse at every start; identifiers keep their names (error classes are told apart by them).
+    minifyWhitespace: true,
+    minifySyntax: true,
+    metafile: true,
+    logLevel: 'warning',
+    legalComments: 'none',
+  });
+  const inputs = {};
+  for (const path of [...Object.keys(result.metafile.inputs), ...alwaysHashed].sort()) inputs[path] = hashOf(path);
+  writeFileSync(stamp, `${JSON.stringify({ node: process.versions.node, inputs }, null, 1)}\n`);
+  return { built: true, file: cliBundle };
+}
