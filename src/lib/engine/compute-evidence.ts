@@ -24,7 +24,7 @@ import { itemDescriptives } from '../stats/item-descriptives';
 import { itemRestCorrelations } from '../stats/item-rest-correlation';
 import { minresOneFactor } from '../stats/minres-factor';
 import { omegaTotal } from '../stats/omega-total';
-import { symmetricEigen, symmetricEigenvalues } from '../stats/symmetric-eigen';
+import { symmetricEigen, symmetricEigenvalues, type SymmetricEigenDecomposition } from '../stats/symmetric-eigen';
 import { POLYCHORIC_MINIMUM_N, REPAIR_EIGENVALUE_FLOOR, TETRACHORIC_MINIMUM_N } from '../stats/tolerances';
 import { selectItems, type ItemMatrix, type NumericalNotice, type SquareMatrix } from '../stats/types';
 import { undefinedPairCover } from '../stats/undefined-pair-cover';
@@ -49,8 +49,23 @@ export interface ComputeEvidenceOptions {
    * `reuse` (bootstrap resamples) takes each scale's critical value and the network penalty from
    * the full sample instead of recomputing them.
    */
-  readonly localDependence?: false | { readonly detectors?: LocalDependenceDetectors; readonly reuse?: LocalDependenceReuse | null };
+  readonly localDependence?:
+    | false
+    | {
+        readonly detectors?: LocalDependenceDetectors;
+        readonly reuse?: LocalDependenceReuse | null;
+        /** False leaves the network out (a resample fits it only where it can change a decision). */
+        readonly network?: boolean;
+      };
+  /** Also return R⁻¹ as `inverse` when R is well conditioned (bootstrap resamples: VIF after removal by Schur complement). */
+  readonly inverse?: boolean;
 }
+
+/**
+ * Largest condition number (λmax / λmin) at which `inverse` is returned: the Schur-complement
+ * VIF from it then agrees with a fresh decomposition to about κ·ε ≈ 1e-10 relative. House figure.
+ */
+export const INVERSE_MAX_CONDITION = 1e6;
 
 /**
  * Turns notices of a core function (item indices local to the matrix it saw) into warnings with
@@ -309,10 +324,11 @@ export function computeEvidence(
 
   let localDependence: EngineEvidence['localDependence'] = null;
   if (options.localDependence !== false) {
+    const reuse = options.localDependence?.reuse ?? null;
     // Latent thresholds of each item (Φ⁻¹ of its cumulative answer shares), so the residual
     // bootstrap draws ordinal items like the wave's; an item with too many values for that
-    // (continuous) gets normal draws.
-    const thresholds = usable.map((_, k): number[] | null => {
+    // (continuous) gets normal draws. A resample reuses the critical values and needs none.
+    const thresholds = reuse !== null ? null : usable.map((_, k): number[] | null => {
       const column = data.data.subarray(k * data.rows, (k + 1) * data.rows);
       try {
         const coded = codeOrdinalItem(column);
@@ -338,9 +354,10 @@ export function computeEvidence(
         residualRelativeThreshold: settings.residualRelativeThreshold ?? DEFAULT_ENGINE_SETTINGS.residualRelativeThreshold,
       },
       options.localDependence?.detectors ?? coreDetectors,
-      options.localDependence?.reuse ?? null,
+      reuse,
       thresholds,
       overlap.exactDependencies,
+      options.localDependence?.network ?? true,
     );
     localDependence = local.evidence;
     warnings.push(...local.warnings);
@@ -365,6 +382,7 @@ export function computeEvidence(
     r2: overlap.r2,
     topPartner: overlap.topPartner,
     exactDependencies: overlap.exactDependencies,
+    ...(options.inverse === true ? { inverse: wellConditionedInverse(overlap.eigen) } : {}),
     eigenvalues: overlap.eigenvalues,
     conditionNumber: overlap.conditionNumber,
     collinearity,
@@ -429,6 +447,8 @@ export interface InflationAndSpectrum {
   readonly eigenvalues: number[];
   readonly conditionNumber: number | null;
   readonly warnings: EngineWarning[];
+  /** The decomposition behind them. */
+  readonly eigen: SymmetricEigenDecomposition;
 }
 
 /**
@@ -465,8 +485,27 @@ export function inflationAndSpectrum(correlation: SquareMatrix, items: readonly 
     exactDependencies: inflation.exactDependencies.map((group) => group.map((k) => usable[k])),
     eigenvalues: Array.from(eigen.values),
     conditionNumber: condition.value,
+    eigen,
     warnings: [...warningsFromNotices(inflation.notices, items, usable), ...warningsFromNotices(condition.notices, items, usable)],
   };
+}
+
+/** V diag(1/λ) Vᵀ when every eigenvalue is positive and λmax / λmin ≤ INVERSE_MAX_CONDITION, else null. */
+function wellConditionedInverse(eigen: SymmetricEigenDecomposition): SquareMatrix | null {
+  const { order, values, vectors } = eigen;
+  if (order === 0 || !(values[order - 1] > 0) || values[0] / values[order - 1] > INVERSE_MAX_CONDITION) return null;
+  const data = new Float64Array(order * order);
+  const scaled = new Float64Array(order);
+  for (let i = 0; i < order; i++) {
+    for (let k = 0; k < order; k++) scaled[k] = vectors.data[i * order + k] / values[k];
+    for (let j = i; j < order; j++) {
+      let sum = 0;
+      for (let k = 0; k < order; k++) sum += scaled[k] * vectors.data[j * order + k];
+      data[i * order + j] = sum;
+      data[j * order + i] = sum;
+    }
+  }
+  return { order, data };
 }
 
 /** For each column the earlier column it is an exact copy of (same value in every row, missing alike), else -1. */
