@@ -36,10 +36,17 @@ export function referenceResampleDecision(
 ): ResampleOutcome {
   const sample = selectRespondents(matrix, rows);
   try {
-    const evidence = computeEvidence(sample, items, settings, { detail: 'decision', localDependence: reuse === null ? false : { reuse } });
+    const evidence = computeEvidence(sample, items, settings, {
+      detail: 'decision',
+      localDependence: reuse === null ? false : { reuse },
+    });
     const { clusters } = findOverlapClusters(evidence, wording, settings);
     const cuts = recommendCuts(evidence, clusters, settings, scaleAlphaOracle(evidence, sample));
-    return { made: cuts.recommendations.map(recommendationSignature), clusters: cuts.recommendations.map((recommendation) => [...recommendation.cluster]), failed: false };
+    return {
+      made: cuts.recommendations.map(recommendationSignature),
+      clusters: cuts.recommendations.map((recommendation) => [...recommendation.cluster]),
+      failed: false,
+    };
   } catch (error) {
     if (!(error instanceof RangeError)) throw error;
     return { made: [], clusters: [], failed: true };

@@ -22,7 +22,7 @@
  * counts are sums, so the shares are the same whatever the number of threads.
  */
 import { createSeededRandom } from '../stats/seeded-random';
-import { selectRespondents, type ItemMatrix } from '../stats/types';
+import type { ItemMatrix } from '../stats/types';
 import type { EngineSettings } from './engine-settings';
 import type { Recommendation } from './recommend-cuts';
 import { recommendationSignature, resampleDecision, type ResampleContext, type ResampleOutcome } from './resample-decision';
@@ -132,7 +132,12 @@ export async function bootstrapStability(
     finished++;
     options.onProgress?.('bootstrap', finished / resamples);
   };
-  const context: ResampleContext = { items, settings, wording, reuse: options.reuse ?? null };
+  const context: ResampleContext = {
+    items,
+    settings,
+    wording,
+    reuse: options.reuse ?? null,
+  };
   // Resample b's respondents: the b-th block of draws from the one stream, drawn in order here.
   const draw = (): Int32Array => {
     const rows = new Int32Array(matrix.rows);
@@ -144,7 +149,7 @@ export async function bootstrapStability(
     let lastYield = Date.now();
     for (let b = 0; b < resamples; b++) {
       options.signal?.throwIfAborted();
-      count(resampleDecision(selectRespondents(matrix, draw()), context));
+      count(resampleDecision(matrix, draw(), context));
       if (Date.now() - lastYield >= YIELD_EVERY_MS) {
         await yieldToEventLoop();
         lastYield = Date.now();

@@ -29,6 +29,7 @@ import { POLYCHORIC_MINIMUM_N, REPAIR_EIGENVALUE_FLOOR, TETRACHORIC_MINIMUM_N } 
 import { selectItems, type ItemMatrix, type NumericalNotice, type SquareMatrix } from '../stats/types';
 import { undefinedPairCover } from '../stats/undefined-pair-cover';
 import { varianceInflation } from '../stats/variance-inflation';
+import { weightedPearson } from '../stats/weighted-pearson';
 import { DEFAULT_ENGINE_SETTINGS, MAX_EM_ITEMS, type EngineSettings } from './engine-settings';
 import { coreDetectors } from './core-detectors';
 import { localDependenceEvidence, type LocalDependenceDetectors, type LocalDependenceReuse, type LocalDependenceSettings } from './local-dependence';
@@ -59,6 +60,12 @@ export interface ComputeEvidenceOptions {
       };
   /** Also return R⁻¹ as `inverse` when R is well conditioned (bootstrap resamples: VIF after removal by Schur complement). */
   readonly inverse?: boolean;
+  /**
+   * The matrix is a bootstrap resample of `resampleOf.matrix`, drawing row i `weights[i]` times:
+   * Pearson correlations and covariances then come from the weighted original rows in one pass
+   * (weighted-pearson.ts) instead of two passes over the resample.
+   */
+  readonly resampleOf?: { readonly matrix: ItemMatrix; readonly weights: Float64Array };
 }
 
 /**
@@ -263,7 +270,11 @@ export function computeEvidence(
   }
 
   let data = usable.length === items.length ? matrix : selectItems(matrix, usable);
-  let correlation = correlationMatrix(data, { method: settings.method, missing: settings.missing });
+  const resampleOf = options.resampleOf;
+  const weightedMoments = (columns: readonly number[]) =>
+    resampleOf === undefined || settings.method !== 'pearson' ? null : weightedPearson(resampleOf.matrix, resampleOf.weights, columns, settings.missing);
+  let moments = weightedMoments(usable);
+  let correlation = moments?.correlation ?? correlationMatrix(data, { method: settings.method, missing: settings.missing });
   // An undefined correlation (two items never answered together, or no variation where they
   // were) is never entered as 0: the fewest items that leave no undefined pair are set aside.
   for (let round = 0; correlation.undefinedPairs.length > 0 && usable.length > 1 && round < items.length; round++) {
@@ -284,7 +295,8 @@ export function computeEvidence(
     const kept = usable.filter((_, k) => !gone.has(k));
     usable.splice(0, usable.length, ...kept);
     data = selectItems(matrix, usable);
-    correlation = correlationMatrix(data, { method: settings.method, missing: settings.missing });
+    moments = weightedMoments(usable);
+    correlation = moments?.correlation ?? correlationMatrix(data, { method: settings.method, missing: settings.missing });
   }
   const completeData = completeRows(data).length === data.rows;
   warnings.push(...warningsFromNotices(correlation.notices, items, usable));
@@ -312,7 +324,7 @@ export function computeEvidence(
       warnings.push(...warningsFromNotices(smoothed.notices, items, kept.map((k) => usable[k])));
     }
   }
-  const covariance = covarianceMatrix(data, { missing: settings.missing });
+  const covariance = moments?.covariance ?? covarianceMatrix(data, { missing: settings.missing });
   warnings.push(...warningsFromNotices(covariance.notices, items, usable));
 
   const overlap = inflationAndSpectrum(matrixR, items, usable);

@@ -5,7 +5,8 @@
  *
  * - the evidence at `decision` detail (no omega, no alpha if deleted, no thresholds for a
  *   residual bootstrap whose critical values are reused from the full sample), with R⁻¹ kept from
- *   the one eigen-decomposition the VIFs need;
+ *   the one eigen-decomposition the VIFs need, and Pearson correlations and covariances in one
+ *   weighted pass over the distinct respondents drawn (weighted-pearson.ts);
  * - each member's "VIF without partners" (keeper score) and `vifAfter` from that inverse by Schur
  *   complement (vif-after-removal.ts) instead of a decomposition per member;
  * - the graphical-lasso network only when its wTO can change whether some pair is linked: wTO
@@ -24,7 +25,7 @@ import { findOverlapClusters, pairLocalFigures, pairRules } from './overlap-clus
 import { recommendCuts, type Recommendation } from './recommend-cuts';
 import type { EngineEvidence, EngineItem } from './types';
 import { schurVifAfterRemoval } from './vif-after-removal';
-import type { ItemMatrix } from '../stats/types';
+import { selectRespondents, type ItemMatrix } from '../stats/types';
 
 /** What every resample of one bootstrap shares. */
 export interface ResampleContext {
@@ -93,26 +94,36 @@ export function networkCanDecide(evidence: EngineEvidence, settings: EngineSetti
 
 /**
  * The engine's decision on one resample (see the module comment for what is computed).
- * @param sample The resampled respondents × items (recoded, NaN for missing).
+ * @param matrix The audit's respondents × items (recoded, NaN for missing); not modified.
+ * @param rows The resample: row indices into `matrix`, one per draw (repeats allowed).
  * @param context Items, settings, wording similarity and the full sample's local-dependence figures.
  * @throws whatever the engine throws other than RangeError (a RangeError marks the resample failed).
  * @returns The signatures and clusters of the recommendations made.
  * References: Efron 1979, "Bootstrap methods: another look at the jackknife"; Horn & Johnson
  * 2013, §0.7.3 (Schur complement; from memory).
  */
-export function resampleDecision(sample: ItemMatrix, context: ResampleContext): ResampleOutcome {
+export function resampleDecision(matrix: ItemMatrix, rows: ArrayLike<number>, context: ResampleContext): ResampleOutcome {
   const { items, settings, wording, reuse } = context;
+  const sample = selectRespondents(matrix, rows);
+  const weights = new Float64Array(matrix.rows);
+  for (let i = 0; i < rows.length; i++) weights[rows[i]]++;
   try {
     let evidence = computeEvidence(sample, items, settings, {
       detail: 'decision',
       inverse: true,
+      resampleOf: { matrix, weights },
       localDependence: reuse === null ? false : { reuse, network: false },
     });
     if (reuse !== null && evidence.localDependence !== null && networkCanDecide(evidence, settings)) {
       const { network } = localDependenceNetwork(evidence.correlation, evidence.usable, evidence.correlationRows, settings, coreDetectors, reuse, evidence.exactDependencies);
       evidence = {
         ...evidence,
-        localDependence: { ...evidence.localDependence, partial: network?.partial ?? null, wto: network?.wto ?? null, penalty: network?.penalty ?? null },
+        localDependence: {
+          ...evidence.localDependence,
+          partial: network?.partial ?? null,
+          wto: network?.wto ?? null,
+          penalty: network?.penalty ?? null,
+        },
       };
     }
     const { clusters } = findOverlapClusters(evidence, wording, settings);

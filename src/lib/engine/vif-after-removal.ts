@@ -42,7 +42,12 @@ export function eigenVifAfterRemoval(evidence: EngineEvidence): VifAfterRemoval 
   return (removed, of) => {
     const gone = new Set(removed);
     const kept = evidence.usable.filter((item) => !gone.has(item));
-    const result = varianceInflation(principalSubmatrix(evidence.correlation, kept.map((item) => position[item]))).items;
+    const result = varianceInflation(
+      principalSubmatrix(
+        evidence.correlation,
+        kept.map((item) => position[item]),
+      ),
+    ).items;
     return of.map((item) => {
       const k = kept.indexOf(item);
       return k < 0 ? null : result[k].vif;
