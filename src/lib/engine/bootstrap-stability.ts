@@ -14,18 +14,36 @@
  *
  * Each resample runs the evidence at `decision` detail (no omega, no alpha if deleted), with the
  * local-dependence evidence recomputed (residuals, network, wTO) but each scale's residual
- * critical value and the network penalty taken from the full sample, to keep it affordable. With no
- * missing answer the core's complete-data path (one cross-product pass) computes the Pearson
- * matrix; with missing answers each pair is computed over its own complete rows.
+ * critical value and the network penalty taken from the full sample, to keep it affordable; what
+ * else a resample skips without changing its decision is in resample-decision.ts.
+ *
+ * The resamples' respondents are drawn from one seeded stream, resample after resample, on the
+ * calling thread; a `ResampleRunner` may then decide them on other threads, in any order: the
+ * counts are sums, so the shares are the same whatever the number of threads.
  */
 import { createSeededRandom } from '../stats/seeded-random';
-import { selectRespondents, type ItemMatrix } from '../stats/types';
-import { computeEvidence, scaleAlphaOracle } from './compute-evidence';
+import type { ItemMatrix } from '../stats/types';
 import type { EngineSettings } from './engine-settings';
-import { findOverlapClusters } from './overlap-clusters';
-import { recommendCuts, type Recommendation } from './recommend-cuts';
+import type { Recommendation } from './recommend-cuts';
+import { recommendationSignature, resampleDecision, type ResampleContext, type ResampleOutcome } from './resample-decision';
 import type { EngineItem } from './types';
 import type { LocalDependenceReuse } from './local-dependence';
+
+export { recommendationSignature } from './resample-decision';
+
+/**
+ * Decides resamples, possibly on other threads. `start` receives what every resample shares;
+ * `decide` one resample's respondents (row indices into the matrix, repeats allowed) and resolves
+ * to what it decided. Results must not depend on which thread decides what.
+ */
+export interface ResampleRunner {
+  /** How many resamples to keep in flight (the runner's threads, or 1). */
+  readonly parallelism: number;
+  start(matrix: ItemMatrix, context: ResampleContext): Promise<void>;
+  decide(rows: Int32Array): Promise<ResampleOutcome>;
+  /** Releases the threads; called once, also after a failure or an abort. */
+  close(): Promise<void>;
+}
 
 /** Progress callback: a stage name and the fraction of it done, in [0, 1]. */
 export type EngineProgress = (stage: string, fraction: number) => void;
@@ -36,6 +54,8 @@ export interface StabilityOptions {
   readonly onProgress?: EngineProgress;
   /** Aborts between resamples (the promise rejects with the signal's reason). */
   readonly signal?: AbortSignal;
+  /** Decides the resamples (default: on the calling thread, yielding to the event loop). */
+  readonly runner?: ResampleRunner;
   /**
    * Local-dependence figures reused from the full sample: each scale's residual critical value
    * (not re-bootstrapped inside every resample) and the EBIC-selected network penalty (each
@@ -59,21 +79,6 @@ export interface StabilityResult {
   readonly seed: number;
   /** Resamples on which the core refused the data (counted as not agreeing). */
   readonly failedResamples: number;
-}
-
-/**
- * What identifies a recommendation across resamples: the keeper and the sorted ids of the items
- * changed (dropped, merged or reworded).
- * @param recommendation A recommendation (its keeper and actions).
- * @returns `keeper|id,id,...`.
- * References: none (an identity key, not a method).
- */
-export function recommendationSignature(recommendation: Pick<Recommendation, 'keep' | 'actions'>): string {
-  const changed = recommendation.actions
-    .filter((action) => action.action !== 'keep')
-    .map((action) => action.item)
-    .sort();
-  return `${recommendation.keep}|${changed.join(',')}`;
 }
 
 /** Work between two returns to the event loop, milliseconds (lets an abort or a health check through). */
@@ -114,38 +119,63 @@ export async function bootstrapStability(
   const agreeing = new Array<number>(targets.length).fill(0);
   const overlapping = new Array<number>(targets.length).fill(0);
   const random = createSeededRandom(settings.seed);
-  const rows = new Array<number>(matrix.rows);
   let failedResamples = 0;
-  let lastYield = Date.now();
-
-  for (let b = 0; b < resamples; b++) {
-    options.signal?.throwIfAborted();
-    for (let i = 0; i < matrix.rows; i++) rows[i] = random.nextInt(matrix.rows);
-    const sample = selectRespondents(matrix, rows);
-    let made: Set<string>;
-    let clustersMade: Set<string>[] = [];
-    try {
-      const evidence = computeEvidence(sample, items, settings, {
-        detail: 'decision',
-        localDependence: options.reuse === undefined || options.reuse === null ? false : { reuse: options.reuse },
-      });
-      const { clusters } = findOverlapClusters(evidence, wording, settings);
-      const cuts = recommendCuts(evidence, clusters, settings, scaleAlphaOracle(evidence, sample));
-      made = new Set(cuts.recommendations.map(recommendationSignature));
-      clustersMade = cuts.recommendations.map((recommendation) => new Set(recommendation.cluster));
-    } catch (error) {
-      if (!(error instanceof RangeError)) throw error;
-      failedResamples++;
-      made = new Set();
-    }
+  let finished = 0;
+  const count = (outcome: ResampleOutcome): void => {
+    if (outcome.failed) failedResamples++;
+    const made = new Set(outcome.made);
+    const clustersMade = outcome.clusters.map((cluster) => new Set(cluster));
     targets.forEach((target, k) => {
       if (made.has(target)) agreeing[k]++;
       if (clustersMade.some((cluster) => recommendations[k].cluster.every((id) => cluster.has(id)))) overlapping[k]++;
     });
-    options.onProgress?.('bootstrap', (b + 1) / resamples);
-    if (Date.now() - lastYield >= YIELD_EVERY_MS) {
-      await yieldToEventLoop();
-      lastYield = Date.now();
+    finished++;
+    options.onProgress?.('bootstrap', finished / resamples);
+  };
+  const context: ResampleContext = {
+    items,
+    settings,
+    wording,
+    reuse: options.reuse ?? null,
+  };
+  // Resample b's respondents: the b-th block of draws from the one stream, drawn in order here.
+  const draw = (): Int32Array => {
+    const rows = new Int32Array(matrix.rows);
+    for (let i = 0; i < matrix.rows; i++) rows[i] = random.nextInt(matrix.rows);
+    return rows;
+  };
+
+  if (options.runner === undefined) {
+    let lastYield = Date.now();
+    for (let b = 0; b < resamples; b++) {
+      options.signal?.throwIfAborted();
+      count(resampleDecision(matrix, draw(), context));
+      if (Date.now() - lastYield >= YIELD_EVERY_MS) {
+        await yieldToEventLoop();
+        lastYield = Date.now();
+      }
+    }
+  } else {
+    const runner = options.runner;
+    try {
+      await runner.start(matrix, context);
+      const inFlight = new Set<Promise<void>>();
+      let failure: { error: unknown } | null = null;
+      for (let b = 0; b < resamples && failure === null; b++) {
+        options.signal?.throwIfAborted();
+        const pending: Promise<void> = runner
+          .decide(draw())
+          .then(count, (error: unknown) => {
+            failure ??= { error };
+          })
+          .finally(() => inFlight.delete(pending));
+        inFlight.add(pending);
+        if (inFlight.size >= Math.max(1, runner.parallelism) * 2) await Promise.race(inFlight);
+      }
+      await Promise.all(inFlight);
+      if (failure !== null) throw (failure as { error: unknown }).error;
+    } finally {
+      await runner.close();
     }
   }
   options.signal?.throwIfAborted();

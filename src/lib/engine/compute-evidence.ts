@@ -24,11 +24,12 @@ import { itemDescriptives } from '../stats/item-descriptives';
 import { itemRestCorrelations } from '../stats/item-rest-correlation';
 import { minresOneFactor } from '../stats/minres-factor';
 import { omegaTotal } from '../stats/omega-total';
-import { symmetricEigen, symmetricEigenvalues } from '../stats/symmetric-eigen';
+import { symmetricEigen, symmetricEigenvalues, type SymmetricEigenDecomposition } from '../stats/symmetric-eigen';
 import { POLYCHORIC_MINIMUM_N, REPAIR_EIGENVALUE_FLOOR, TETRACHORIC_MINIMUM_N } from '../stats/tolerances';
 import { selectItems, type ItemMatrix, type NumericalNotice, type SquareMatrix } from '../stats/types';
 import { undefinedPairCover } from '../stats/undefined-pair-cover';
 import { varianceInflation } from '../stats/variance-inflation';
+import { weightedPearson } from '../stats/weighted-pearson';
 import { DEFAULT_ENGINE_SETTINGS, MAX_EM_ITEMS, type EngineSettings } from './engine-settings';
 import { coreDetectors } from './core-detectors';
 import { localDependenceEvidence, type LocalDependenceDetectors, type LocalDependenceReuse, type LocalDependenceSettings } from './local-dependence';
@@ -49,8 +50,29 @@ export interface ComputeEvidenceOptions {
    * `reuse` (bootstrap resamples) takes each scale's critical value and the network penalty from
    * the full sample instead of recomputing them.
    */
-  readonly localDependence?: false | { readonly detectors?: LocalDependenceDetectors; readonly reuse?: LocalDependenceReuse | null };
+  readonly localDependence?:
+    | false
+    | {
+        readonly detectors?: LocalDependenceDetectors;
+        readonly reuse?: LocalDependenceReuse | null;
+        /** False leaves the network out (a resample fits it only where it can change a decision). */
+        readonly network?: boolean;
+      };
+  /** Also return R⁻¹ as `inverse` when R is well conditioned (bootstrap resamples: VIF after removal by Schur complement). */
+  readonly inverse?: boolean;
+  /**
+   * The matrix is a bootstrap resample of `resampleOf.matrix`, drawing row i `weights[i]` times:
+   * Pearson correlations and covariances then come from the weighted original rows in one pass
+   * (weighted-pearson.ts) instead of two passes over the resample.
+   */
+  readonly resampleOf?: { readonly matrix: ItemMatrix; readonly weights: Float64Array };
 }
+
+/**
+ * Largest condition number (λmax / λmin) at which `inverse` is returned: the Schur-complement
+ * VIF from it then agrees with a fresh decomposition to about κ·ε ≈ 1e-10 relative. House figure.
+ */
+export const INVERSE_MAX_CONDITION = 1e6;
 
 /**
  * Turns notices of a core function (item indices local to the matrix it saw) into warnings with
@@ -248,7 +270,11 @@ export function computeEvidence(
   }
 
   let data = usable.length === items.length ? matrix : selectItems(matrix, usable);
-  let correlation = correlationMatrix(data, { method: settings.method, missing: settings.missing });
+  const resampleOf = options.resampleOf;
+  const weightedMoments = (columns: readonly number[]) =>
+    resampleOf === undefined || settings.method !== 'pearson' ? null : weightedPearson(resampleOf.matrix, resampleOf.weights, columns, settings.missing);
+  let moments = weightedMoments(usable);
+  let correlation = moments?.correlation ?? correlationMatrix(data, { method: settings.method, missing: settings.missing });
   // An undefined correlation (two items never answered together, or no variation where they
   // were) is never entered as 0: the fewest items that leave no undefined pair are set aside.
   for (let round = 0; correlation.undefinedPairs.length > 0 && usable.length > 1 && round < items.length; round++) {
@@ -269,7 +295,8 @@ export function computeEvidence(
     const kept = usable.filter((_, k) => !gone.has(k));
     usable.splice(0, usable.length, ...kept);
     data = selectItems(matrix, usable);
-    correlation = correlationMatrix(data, { method: settings.method, missing: settings.missing });
+    moments = weightedMoments(usable);
+    correlation = moments?.correlation ?? correlationMatrix(data, { method: settings.method, missing: settings.missing });
   }
   const completeData = completeRows(data).length === data.rows;
   warnings.push(...warningsFromNotices(correlation.notices, items, usable));
@@ -297,7 +324,7 @@ export function computeEvidence(
       warnings.push(...warningsFromNotices(smoothed.notices, items, kept.map((k) => usable[k])));
     }
   }
-  const covariance = covarianceMatrix(data, { missing: settings.missing });
+  const covariance = moments?.covariance ?? covarianceMatrix(data, { missing: settings.missing });
   warnings.push(...warningsFromNotices(covariance.notices, items, usable));
 
   const overlap = inflationAndSpectrum(matrixR, items, usable);
@@ -309,10 +336,11 @@ export function computeEvidence(
 
   let localDependence: EngineEvidence['localDependence'] = null;
   if (options.localDependence !== false) {
+    const reuse = options.localDependence?.reuse ?? null;
     // Latent thresholds of each item (Φ⁻¹ of its cumulative answer shares), so the residual
     // bootstrap draws ordinal items like the wave's; an item with too many values for that
-    // (continuous) gets normal draws.
-    const thresholds = usable.map((_, k): number[] | null => {
+    // (continuous) gets normal draws. A resample reuses the critical values and needs none.
+    const thresholds = reuse !== null ? null : usable.map((_, k): number[] | null => {
       const column = data.data.subarray(k * data.rows, (k + 1) * data.rows);
       try {
         const coded = codeOrdinalItem(column);
@@ -338,9 +366,10 @@ export function computeEvidence(
         residualRelativeThreshold: settings.residualRelativeThreshold ?? DEFAULT_ENGINE_SETTINGS.residualRelativeThreshold,
       },
       options.localDependence?.detectors ?? coreDetectors,
-      options.localDependence?.reuse ?? null,
+      reuse,
       thresholds,
       overlap.exactDependencies,
+      options.localDependence?.network ?? true,
     );
     localDependence = local.evidence;
     warnings.push(...local.warnings);
@@ -365,6 +394,7 @@ export function computeEvidence(
     r2: overlap.r2,
     topPartner: overlap.topPartner,
     exactDependencies: overlap.exactDependencies,
+    ...(options.inverse === true ? { inverse: wellConditionedInverse(overlap.eigen) } : {}),
     eigenvalues: overlap.eigenvalues,
     conditionNumber: overlap.conditionNumber,
     collinearity,
@@ -429,6 +459,8 @@ export interface InflationAndSpectrum {
   readonly eigenvalues: number[];
   readonly conditionNumber: number | null;
   readonly warnings: EngineWarning[];
+  /** The decomposition behind them. */
+  readonly eigen: SymmetricEigenDecomposition;
 }
 
 /**
@@ -465,8 +497,27 @@ export function inflationAndSpectrum(correlation: SquareMatrix, items: readonly 
     exactDependencies: inflation.exactDependencies.map((group) => group.map((k) => usable[k])),
     eigenvalues: Array.from(eigen.values),
     conditionNumber: condition.value,
+    eigen,
     warnings: [...warningsFromNotices(inflation.notices, items, usable), ...warningsFromNotices(condition.notices, items, usable)],
   };
+}
+
+/** V diag(1/λ) Vᵀ when every eigenvalue is positive and λmax / λmin ≤ INVERSE_MAX_CONDITION, else null. */
+function wellConditionedInverse(eigen: SymmetricEigenDecomposition): SquareMatrix | null {
+  const { order, values, vectors } = eigen;
+  if (order === 0 || !(values[order - 1] > 0) || values[0] / values[order - 1] > INVERSE_MAX_CONDITION) return null;
+  const data = new Float64Array(order * order);
+  const scaled = new Float64Array(order);
+  for (let i = 0; i < order; i++) {
+    for (let k = 0; k < order; k++) scaled[k] = vectors.data[i * order + k] / values[k];
+    for (let j = i; j < order; j++) {
+      let sum = 0;
+      for (let k = 0; k < order; k++) sum += scaled[k] * vectors.data[j * order + k];
+      data[i * order + j] = sum;
+      data[j * order + i] = sum;
+    }
+  }
+  return { order, data };
 }
 
 /** For each column the earlier column it is an exact copy of (same value in every row, missing alike), else -1. */

@@ -90,6 +90,8 @@ export const MIN_ITEMS_FOR_RESIDUALS = 4;
  * @param exactDependencies Exactly dependent groups (indices into items[]); their later members stay out of the network.
  * @param thresholds Latent thresholds per usable item (Φ⁻¹ of its cumulative answer shares), for
  *   ordinal bootstrap draws; null entries (or null) give normal draws for the scale.
+ * @param withNetwork False leaves the network out (partial, wTO and penalty null); a bootstrap
+ *   resample then fits it with `localDependenceNetwork` only when it can change a decision.
  * @throws {RangeError} when the matrix does not match the usable items.
  * @returns The evidence and warnings for whatever could not be computed.
  * References: Yen 1984 (Q3); Christensen, Makransky & Horton 2017 (relative rule, bootstrap
@@ -105,6 +107,7 @@ export function localDependenceEvidence(
   reuse: LocalDependenceReuse | null = null,
   thresholds: readonly (readonly number[] | null)[] | null = null,
   exactDependencies: readonly (readonly number[])[] = [],
+  withNetwork = true,
 ): { evidence: LocalDependenceEvidence; warnings: EngineWarning[] } {
   if (correlation.order !== usable.length) throw new RangeError(`localDependenceEvidence: matrix of order ${correlation.order} for ${usable.length} usable items`);
   const warnings: EngineWarning[] = [];
@@ -159,6 +162,39 @@ export function localDependenceEvidence(
     scales.push({ scale, items: members, loadings: fit.loadings, residuals: fit.residuals, meanResidual: fit.meanResidual, critical });
   });
 
+  const network = withNetwork ? localDependenceNetwork(correlation, usable, sampleSize, settings, detectors, reuse, exactDependencies) : { network: null, warnings: [] };
+  warnings.push(...network.warnings);
+  return {
+    evidence: { scales, partial: network.network?.partial ?? null, wto: network.network?.wto ?? null, penalty: network.network?.penalty ?? null },
+    warnings,
+  };
+}
+
+/**
+ * The partial-correlation network of all usable items and its wTO (the second half of
+ * `localDependenceEvidence`, callable on its own so a bootstrap resample fits it only when its
+ * rules can change a decision).
+ * @param correlation Correlation matrix over `usable`.
+ * @param usable Indices into items[] of the matrix's items.
+ * @param sampleSize Respondents behind the matrix.
+ * @param settings EBIC gamma and penalty count.
+ * @param detectors The numerical detectors.
+ * @param reuse When given, the network is fitted at its penalty only.
+ * @param exactDependencies Exactly dependent groups (indices into items[]); their later members stay out.
+ * @returns The network (null when skipped or not estimable) and the warnings saying why.
+ * References: Friedman, Hastie & Tibshirani 2008; Foygel & Drton 2010; Nowick et al. 2009.
+ */
+export function localDependenceNetwork(
+  correlation: SquareMatrix,
+  usable: readonly number[],
+  sampleSize: number,
+  settings: Pick<LocalDependenceSettings, 'ebicGamma' | 'ebicPenaltyCount'>,
+  detectors: LocalDependenceDetectors,
+  reuse: LocalDependenceReuse | null,
+  exactDependencies: readonly (readonly number[])[],
+): { network: NetworkResult | null; warnings: EngineWarning[] } {
+  const warnings: EngineWarning[] = [];
+  const position = new Map(usable.map((item, k) => [item, k]));
   let network: NetworkResult | null = null;
   // An exact copy makes the matrix singular, and the network needs it positive definite: the
   // network is estimated without the later members of each exact dependency (their wTO and
@@ -185,10 +221,7 @@ export function localDependenceEvidence(
       warnings.push({ code: 'network-skipped', items: [], message: `The partial-correlation network could not be estimated (${error.message}), so weighted topological overlap was not checked.` });
     }
   }
-  return {
-    evidence: { scales, partial: network?.partial ?? null, wto: network?.wto ?? null, penalty: network?.penalty ?? null },
-    warnings,
-  };
+  return { network, warnings };
 }
 
 /** Local positions of the later member of each near-copy pair of a scale block. */

@@ -29,13 +29,12 @@
  * - Clusters are handled strongest first (largest |r|), so the cut cap spends itself on the
  *   clearest duplicates.
  */
-import { varianceInflation } from '../stats/variance-inflation';
 import type { EngineSettings } from './engine-settings';
 import { KEEPER_SCORE_TIE, KEEPER_SCORE_WEIGHTS } from './engine-settings';
 import { dependencyReport, pairReport } from './evidence-reports';
 import { emptiesFacet } from './facet-coverage';
-import { principalSubmatrix } from './principal-submatrix';
 export { dependencyReport, pairReport } from './evidence-reports';
+import { eigenVifAfterRemoval, type VifAfterRemoval } from './vif-after-removal';
 import type { DependencyEvidence, EngineEvidence, OverlapCluster, PairEvidence, PairRule } from './types';
 
 /** A change the engine can propose for an item. */
@@ -253,34 +252,27 @@ function correlationBetween(evidence: EngineEvidence, position: readonly number[
   return evidence.correlation.data[position[a] * order + position[b]];
 }
 
-/** VIF of each listed item (indices into items[]) in the correlation matrix of `kept` usable items. */
-function vifWithin(evidence: EngineEvidence, position: readonly number[], kept: readonly number[], of: readonly number[]): (number | null)[] {
-  const sub = principalSubmatrix(evidence.correlation, kept.map((item) => position[item]));
-  const result = varianceInflation(sub).items;
-  return of.map((item) => {
-    const k = kept.indexOf(item);
-    return k < 0 ? null : result[k].vif;
-  });
-}
-
 /**
  * The keeper score of every member of a cluster (see the module comment for the formula).
  * @param evidence The engine's evidence.
  * @param cluster One overlap cluster.
+ * @param vifAfterRemoval How "VIF without partners" is computed (default: a fresh decomposition
+ *   per member; bootstrap resamples pass the Schur-complement oracle, vif-after-removal.ts).
  * @throws {RangeError} when a cluster item is not in the correlation matrix.
  * @returns One score per member, in the cluster's order.
  * References: Cronbach 1951 (item-rest correlation); Marquardt 1970 (VIF); Terwee et al. 2007,
  * "Quality criteria were proposed for measurement properties of health status questionnaires"
  * (J. Clin. Epidemiol. 60:34-42; floor and ceiling effects).
  */
-export function keeperScores(evidence: EngineEvidence, cluster: OverlapCluster): KeeperScore[] {
+export function keeperScores(evidence: EngineEvidence, cluster: OverlapCluster, vifAfterRemoval: VifAfterRemoval = eigenVifAfterRemoval(evidence)): KeeperScore[] {
   const position = positions(evidence);
   for (const item of cluster.items) if (position[item] < 0) throw new RangeError(`keeperScores: item ${item} is not in the correlation matrix`);
   const inCluster = new Set(cluster.items);
   const useItemRest = cluster.items.every((item) => evidence.itemRest[item] !== null);
+  const keptCount = evidence.usable.filter((other) => !inCluster.has(other)).length + 1;
   return cluster.items.map((item) => {
-    const kept = evidence.usable.filter((other) => other === item || !inCluster.has(other));
-    const [vif] = kept.length >= 2 ? vifWithin(evidence, position, kept, [item]) : [1];
+    const partners = cluster.items.filter((other) => other !== item);
+    const [vif] = keptCount >= 2 ? vifAfterRemoval(partners, [item]) : [1];
     const descriptives = evidence.descriptives[item];
     const fit = useItemRest ? evidence.itemRest[item] : vif === null ? null : Math.sqrt(Math.max(0, 1 - 1 / vif));
     const extremeShare = Math.max(descriptives.floor ?? 0, descriptives.ceiling ?? 0);
@@ -326,6 +318,8 @@ function betterKeeper(a: { index: number; score: KeeperScore }, b: { index: numb
  * @param clusters Overlap clusters from `findOverlapClusters`.
  * @param settings Merge/reword thresholds and the designer's constraints.
  * @param scaleAlpha Reliability after a removal, computed as a fresh audit would (from `scaleAlphaOracle`).
+ * @param vifAfterRemoval VIF once items are gone, for the keeper scores and `vifAfter` (default:
+ *   a fresh decomposition per call; bootstrap resamples pass the Schur-complement oracle).
  * @throws {RangeError} when a cluster names an item outside the correlation matrix or a setting is out of range.
  * @returns One recommendation per cluster (strongest first), every removed item, and the cap.
  * References: Cronbach 1951, "Coefficient alpha and the internal structure of tests"; Nunnally
@@ -336,6 +330,7 @@ export function recommendCuts(
   clusters: readonly OverlapCluster[],
   settings: RecommendSettings,
   scaleAlpha: ScaleAlphaOracle,
+  vifAfterRemoval: VifAfterRemoval = eigenVifAfterRemoval(evidence),
 ): CutRecommendations {
   if (!(settings.maxCutShare >= 0 && settings.maxCutShare <= 1)) throw new RangeError(`recommendCuts: maxCutShare must lie in [0, 1], got ${settings.maxCutShare}`);
   if (!(Number.isInteger(settings.minItemsPerScale) && settings.minItemsPerScale >= 1)) {
@@ -346,14 +341,14 @@ export function recommendCuts(
   const removed = new Set<number>();
   const before = new Map(evidence.scales.map((scale) => [scale.id, scale.alpha]));
 
-  const contexts: ClusterContext[] = clusters.map((cluster) => ({ cluster, scores: keeperScores(evidence, cluster) }));
+  const contexts: ClusterContext[] = clusters.map((cluster) => ({ cluster, scores: keeperScores(evidence, cluster, vifAfterRemoval) }));
   const ordered = [...contexts].sort(
     (p, q) => Math.abs(q.cluster.maxR) - Math.abs(p.cluster.maxR) || p.cluster.items[0] - q.cluster.items[0],
   );
 
   const recommendations: Recommendation[] = [];
   for (const context of ordered) {
-    recommendations.push(decideCluster(evidence, position, context, settings, scaleAlpha, removed, before, cutBudget));
+    recommendations.push(decideCluster(evidence, position, context, settings, scaleAlpha, removed, before, cutBudget, vifAfterRemoval));
   }
   return { recommendations, removed: [...removed].sort((a, b) => a - b), cutBudget };
 }
@@ -368,6 +363,7 @@ function decideCluster(
   removed: Set<number>,
   alphaBefore: ReadonlyMap<string, number | null>,
   cutBudget: number,
+  vifAfterRemoval: VifAfterRemoval,
 ): Recommendation {
   const { cluster, scores } = context;
   const members = cluster.items.map((index, k) => ({ index, score: scores[k] }));
@@ -427,10 +423,7 @@ function decideCluster(
   const actions = cluster.items.filter((index) => index !== keeper).map((index) => decided.get(index) as RecommendedAction);
   const vifBefore = maxOrNull(cluster.items.map((index) => evidence.vif[index]));
   const left = cluster.items.filter((index) => !ownRemoved.includes(index));
-  const vifAfter =
-    ownRemoved.length === 0
-      ? vifBefore
-      : maxOrNull(vifWithin(evidence, position, evidence.usable.filter((index) => !ownRemoved.includes(index)), left));
+  const vifAfter = ownRemoved.length === 0 ? vifBefore : maxOrNull(vifAfterRemoval(ownRemoved, left));
   const ids = (list: readonly number[]): string[] => list.map((index) => evidence.items[index].id);
   const evidenceOut: RecommendationEvidence = {
     maxR: cluster.maxR,

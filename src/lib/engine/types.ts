@@ -111,6 +111,11 @@ export interface EngineEvidence {
   readonly topPartner: readonly ({ readonly index: number; readonly r: number } | null)[];
   /** Groups of items (indices into items[]) that are exactly linearly dependent. */
   readonly exactDependencies: readonly (readonly number[])[];
+  /**
+   * R⁻¹ over the usable items, only when asked for (`computeEvidence`'s `inverse` option, bootstrap
+   * resamples) and R is well conditioned (see `INVERSE_MAX_CONDITION`); else absent or null.
+   */
+  readonly inverse?: SquareMatrix | null;
   /** Eigenvalues of the correlation matrix, descending. */
   readonly eigenvalues: readonly number[];
   /** sqrt(largest / smallest eigenvalue); null when the smallest is not positive. */

@@ -168,12 +168,18 @@ export function graphicalLassoWarm(
     let change = 0;
     for (let j = 0; j < p; j++) {
       const row = j * p;
-      // wb = W₁₁β for the current β of column j (k ≠ j).
+      // wb = W₁₁β for the current β of column j (k ≠ j), summed over the non-zero β only, in
+      // ascending order: a zero term adds ±0, so the sum is bit for bit the full one.
+      let nonZero = 0;
+      for (let l = 0; l < p; l++) if (l !== j && beta[row + l] !== 0) active[nonZero++] = l;
       for (let k = 0; k < p; k++) {
         if (k === j) continue;
         let sum = 0;
         const wk = k * p;
-        for (let l = 0; l < p; l++) if (l !== j) sum += w[wk + l] * beta[row + l];
+        for (let t = 0; t < nonZero; t++) {
+          const l = active[t];
+          sum += w[wk + l] * beta[row + l];
+        }
         wb[k] = sum;
       }
       // Coordinate descent with an active set (Friedman, Hastie, Höfling & Tibshirani 2007): a

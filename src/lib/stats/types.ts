@@ -87,7 +87,7 @@ export function selectItems(matrix: ItemMatrix, indices: readonly number[]): Ite
 }
 
 /** Keeps only the listed respondents (by 0-based index), in the order given. */
-export function selectRespondents(matrix: ItemMatrix, indices: readonly number[]): ItemMatrix {
+export function selectRespondents(matrix: ItemMatrix, indices: ArrayLike<number>): ItemMatrix {
   const rows = indices.length;
   const data = new Float64Array(rows * matrix.columns);
   for (let j = 0; j < matrix.columns; j++) {
