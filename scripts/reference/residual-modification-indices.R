@@ -9,7 +9,7 @@
 # (ML, expected information, the likelihood with N as lavaan computes it; sample.cov.rescale =
 # FALSE so the model is fitted to R itself, not R·(n − 1)/n.)
 # Cases: psych::bfi N, A, C (five items each); lavaan::HolzingerSwineford1939 x1-x9 as one factor;
-# psychTools::sai (state anxiety, 20 items, first occasion of each respondent, complete cases) with
+# psychTools::sai (state anxiety, 20 items, each study's first occasion, complete cases) with
 # its worrying / worried pair; psychTools::epi extraversion items (24, 0/1) Pearson.
 #
 # Run from the repository root: Rscript scripts/reference/residual-modification-indices.R
@@ -41,7 +41,6 @@ data(HolzingerSwineford1939, package = "lavaan")
 data(sai, package = "psychTools")
 data(epi, package = "psychTools")
 sai_first <- sai[sai$time == 1, ]
-sai_first <- sai_first[!duplicated(sai_first$id), ]
 sai_items <- c("calm", "secure", "tense", "regretful", "at.ease", "upset", "worrying", "rested", "anxious", "comfortable",
                "confident", "nervous", "jittery", "high.strung", "relaxed", "content", "worried", "rattled", "joyful", "pleasant")
 epi_e <- c("V1", "V3", "V8", "V10", "V13", "V17", "V22", "V25", "V27", "V39", "V44", "V46", "V49", "V53", "V56",
