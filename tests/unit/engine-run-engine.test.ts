@@ -21,8 +21,14 @@ async function demoRun(settings = {}, locked: string[] = []) {
 describe('runEngine', () => {
   it('recommends on exactly the planted clusters of the demo wave, in the audit JSON shape', async () => {
     const { result } = await demoRun();
-    expect(result.recommendations.map((recommendation) => [...recommendation.cluster].sort()).sort()).toEqual(PLANTED);
-    expect(result.clusters).toHaveLength(PLANTED.length);
+    // Besides the planted clusters: space_2/space_7 ("The reading areas are clean and tidy" / "The
+    // toilets are clean and well kept"), not planted, flagged by local dependence (modification index
+    // 17.5 against its scale's critical 16.5, expected residual correlation .26): a chance doublet of
+    // the generated answers that the polychoric audit already flagged (docs/decisions/010, 015).
+    const expected = [...PLANTED, ['space_2', 'space_7']].sort();
+    expect(result.recommendations.map((recommendation) => [...recommendation.cluster].sort()).sort()).toEqual(expected);
+    expect(result.clusters).toHaveLength(expected.length);
+    expect(result.recommendations.find((recommendation) => recommendation.cluster.includes('space_7'))?.because.code).toBe('local-dependence');
     for (const recommendation of result.recommendations) {
       expect(Object.keys(recommendation)).toEqual(expect.arrayContaining(['cluster', 'keep', 'actions', 'evidence', 'stability', 'because', 'cautions']));
       expect(Object.keys(recommendation.evidence)).toEqual(expect.arrayContaining(['maxR', 'conditionIndex', 'vifBefore', 'vifAfter']));

@@ -79,6 +79,8 @@ export interface LocalDependenceEvaluationOptions {
   readonly firstSeed?: number;
   /** Engine settings; the stability bootstrap is off unless set here. */
   readonly settings?: Partial<EngineSettings>;
+  /** Respondents of every wave in place of the spec's own 150-600 (one cell of the per-cell table). */
+  readonly respondents?: number;
 }
 
 /** Offset between a wave's structure seed and its respondents' seed. */
@@ -113,7 +115,8 @@ export async function evaluateLocalDependence(options: LocalDependenceEvaluation
 
   for (const kind of LOCAL_DEPENDENCE_WAVE_KINDS) {
     for (let seed = firstSeed; seed < firstSeed + wavesPerKind; seed++) {
-      const spec = localDependenceWaveSpec(seed, kind);
+      const drawn = localDependenceWaveSpec(seed, kind);
+      const spec = options.respondents === undefined ? drawn : { ...drawn, respondents: options.respondents };
       const wave = generateWave(spec, seed + RESPONDENT_SEED_OFFSET);
       const { matrix, items } = engineInputFromSyntheticWave(wave);
       const evidence = computeEvidence(matrix, items, settings);
