@@ -46,12 +46,18 @@ describe('runEngine', () => {
     for (const recommendation of result.recommendations) expect(recommendation.evidence.rules.length).toBeGreaterThan(0);
     expect(result.pairs.length).toBeGreaterThan(0);
     for (const pair of result.pairs) {
-      expect(Object.keys(pair)).toEqual(expect.arrayContaining(['items', 'r', 'lower', 'upper', 'n', 'residual', 'residualCritical', 'wto', 'partial', 'wording', 'rules']));
+      expect(Object.keys(pair)).toEqual(expect.arrayContaining(['items', 'r', 'lower', 'upper', 'n', 'residual', 'residualCritical', 'mi', 'miCritical', 'sepc', 'wto', 'partial', 'wording', 'rules']));
       expect((pair.rules ?? []).length).toBeGreaterThan(0);
     }
     const twin = result.pairs.find((pair) => pair.items.includes('coll_2') && pair.items.includes('coll_7'))!;
-    expect(twin.rules).toEqual(expect.arrayContaining(['strong-pair', 'local-dependence-residual']));
+    // A near-copy (r .93) is set aside from its scale's modification-index model (docs/decisions/015):
+    // the strong-pair rule links it; its residual, above the critical value, stays among the figures.
+    expect(twin.rules).toEqual(['strong-pair']);
     expect(twin.residual).toBeGreaterThan(twin.residualCritical!);
+    const doublet = result.pairs.find((pair) => pair.items.includes('space_2') && pair.items.includes('space_7'))!;
+    expect(doublet.rules).toContain('local-dependence-mi');
+    expect(doublet.mi).toBeGreaterThan(doublet.miCritical!);
+    expect(doublet.sepc).toBeGreaterThanOrEqual(0.2);
   });
 
   it('reports the what-if of exactly the proposed drops and merges, at 8 seconds an item', async () => {
