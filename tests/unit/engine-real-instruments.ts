@@ -1,7 +1,9 @@
 /**
  * Loads fixtures/reference/engine-real-instruments.json (written by
  * scripts/reference/engine-real-instruments.R) as engine input: psych::bfi (reverse-keyed items
- * recoded 7 − x on its 1..6 range) and lavaan::HolzingerSwineford1939 (continuous scores).
+ * recoded 7 − x on its 1..6 range), lavaan::HolzingerSwineford1939 (continuous scores),
+ * psychTools::epi extraversion (0/1, negatively keyed items 1 − x) and psychTools::sai state anxiety
+ * (1..4, anxiety-absent items 5 − x).
  */
 import { readFileSync } from 'node:fs';
 import type { EngineItem } from '../../src/lib/engine/types';
@@ -31,6 +33,8 @@ export const realInstruments = JSON.parse(readFileSync(new URL('../../fixtures/r
   generated: Record<string, string>;
   bfi: Instrument & { largestResidualMi: MiReference[] };
   holzinger: Instrument & { largestResidualMi: MiReference };
+  epi: Instrument & { largestResidualMi: MiReference };
+  sai: Instrument & { largestResidualMi: MiReference & { worrying: { mi: number; epc: number; rank: number } } };
 };
 
 /** An instrument as the engine's input. */

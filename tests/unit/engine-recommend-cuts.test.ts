@@ -65,7 +65,7 @@ describe('recommendCuts', () => {
     expect(recommendation.actions[0].action).toBe('drop'); // r = 0.934 < 0.95 and no wording: drop
     expect(recommendation.evidence.vifBefore).toBeCloseTo(Math.max(ref.pairwise.vif[0], ref.pairwise.vif[4]), 10); // R: diag(solve(R))
     expect(recommendation.evidence.vifAfter).toBeLessThan(recommendation.evidence.vifBefore!);
-    expect(reasonSentence(recommendation.because)).toMatch(/^A1 and A5 correlate strongly \(r = 0\.93, 95% interval 0\.91 to 0\.95, n = 211\); keep A\d .* and drop A\d, which lowers the cluster's highest VIF from [\d.]+ to [\d.]+\.$/);
+    expect(reasonSentence(recommendation.because)).toMatch(/^A1 and A5 correlate strongly \(r = 0\.93, 95% interval 0\.91 to 0\.95, n = 211\), shown by [^;]*a strong correlation; keep A\d .* and drop A\d, which lowers the cluster's highest VIF from [\d.]+ to [\d.]+\.$/);
     expect(recommendation.cautions).toHaveLength(3);
     // n = 211 is not small (SMALL_PAIR_N = 200): the caution says what the figure means instead.
     expect(recommendation.cautions.map(cautionSentence).join(' ')).toMatch(/not proof.*rests on 211 respondents, so each r is precise.*validated instrument/);

@@ -56,6 +56,27 @@ describe('reasonSentence', () => {
     );
     expect(reasonSentence({ ...base, blocked: [{ item: 'A6', by: ['cut-cap'] }] })).toMatch(/; A6 stays because the cap on the share of items cut is reached\.$/);
   });
+
+  it('words a cluster formed by local dependence alone with its own sentence, its figures and the evidence that fired (not "nearly linearly dependent")', () => {
+    const local: CutReason = {
+      ...base,
+      code: 'local-dependence',
+      items: ['N1', 'N2'],
+      pair: { items: ['N1', 'N2'], r: 0.7123, n: 2757, lower: 0.6934, upper: 0.7302, wording: 0.55, mi: 407.61, miCritical: 15.14, sepc: 1.0083, wto: 0.372 },
+      keep: 'N2',
+      drop: ['N1'],
+      evidence: ['local-dependence-mi', 'local-dependence-residual', 'local-dependence-wto'],
+      vifBefore: 2.31,
+      vifAfter: 1.62,
+    };
+    expect(reasonSentence(local)).toBe(
+      "N1 and N2 share variance beyond their scale's common factor (modification index 407.6 (critical 15.1), expected residual correlation 1.01, wTO 0.37, r = 0.71, 95% interval 0.69 to 0.73, n = 2757), shown by a modification index above its scale's critical value, a residual correlation above its scale's critical value and a large topological overlap in the partial-correlation network; keep N2 (best keeper score) and drop N1, which lowers the cluster's highest VIF from 2.3 to 1.6.",
+    );
+    expect(reasonSentence({ ...local, items: ['N1', 'N2', 'N3'], evidence: ['local-dependence-mi'] })).toMatch(
+      /^N1, N2 and N3 share variance beyond their scale's common factor \(strongest pair N1-N2, modification index 407\.6 .*\), shown by a modification index above its scale's critical value; keep N2/,
+    );
+    expect(reasonSentence({ ...base, evidence: ['strong-pair', 'near-dependency'] })).toMatch(/n = 211\), shown by a strong correlation and a near-dependency among the items \(condition index\); keep A1/);
+  });
 });
 
 describe('cautionSentence', () => {

@@ -138,6 +138,10 @@ export interface AuditPairJson {
   residualCritical: number | null;
   wto: number | null;
   partial: number | null;
+  /** Modification index of the pair's residual covariance in its scale's one-factor ML model, the scale's critical value and the standardized expected change; null as for the residual. */
+  mi: number | null;
+  miCritical: number | null;
+  sepc: number | null;
   wording: number | null;
   rules: string[];
   [extra: string]: unknown;

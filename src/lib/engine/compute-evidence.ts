@@ -17,7 +17,6 @@ import { correlationMatrix, usableItems } from '../stats/correlation-matrix';
 import { completeRows } from '../stats/complete-rows';
 import { covarianceMatrix } from '../stats/covariance-matrix';
 import { cronbachAlpha } from '../stats/cronbach-alpha';
-import { codeOrdinalItem } from '../stats/polychoric-coding';
 import { smoothCorrelationMatrix } from '../stats/smooth-correlation-matrix';
 import { emCovariance } from '../stats/em-covariance';
 import { itemDescriptives } from '../stats/item-descriptives';
@@ -30,9 +29,9 @@ import { selectItems, type ItemMatrix, type NumericalNotice, type SquareMatrix }
 import { undefinedPairCover } from '../stats/undefined-pair-cover';
 import { varianceInflation } from '../stats/variance-inflation';
 import { weightedPearson } from '../stats/weighted-pearson';
-import { DEFAULT_ENGINE_SETTINGS, MAX_EM_ITEMS, type EngineSettings } from './engine-settings';
-import { coreDetectors } from './core-detectors';
-import { localDependenceEvidence, type LocalDependenceDetectors, type LocalDependenceReuse, type LocalDependenceSettings } from './local-dependence';
+import { MAX_EM_ITEMS, type EngineSettings } from './engine-settings';
+import type { LocalDependenceDetectors, LocalDependenceReuse, LocalDependenceSettings } from './local-dependence';
+import { waveLocalDependence } from './wave-local-dependence';
 import { principalSubmatrix } from './principal-submatrix';
 import type { ScaleAfterRemoval, ScaleAlphaOracle } from './recommend-cuts';
 import type { CollinearityEvidence, EngineEvidence, EngineItem, EngineWarning, ItemDescriptives, ScaleEvidence } from './types';
@@ -336,41 +335,7 @@ export function computeEvidence(
 
   let localDependence: EngineEvidence['localDependence'] = null;
   if (options.localDependence !== false) {
-    const reuse = options.localDependence?.reuse ?? null;
-    // Latent thresholds of each item (Φ⁻¹ of its cumulative answer shares), so the residual
-    // bootstrap draws ordinal items like the wave's; an item with too many values for that
-    // (continuous) gets normal draws. A resample reuses the critical values and needs none.
-    const thresholds = reuse !== null ? null : usable.map((_, k): number[] | null => {
-      const column = data.data.subarray(k * data.rows, (k + 1) * data.rows);
-      try {
-        const coded = codeOrdinalItem(column);
-        return coded.thresholds.count === 0 ? null : Array.from(coded.thresholds.limits.subarray(0, coded.thresholds.count));
-      } catch (error) {
-        if (error instanceof RangeError) return null;
-        throw error;
-      }
-    });
-    const local = localDependenceEvidence(
-      matrixR,
-      items,
-      usable,
-      correlation.rowsUsed,
-      {
-        residualBootstrapDraws: settings.residualBootstrapDraws ?? DEFAULT_ENGINE_SETTINGS.residualBootstrapDraws,
-        residualCriticalQuantile: settings.residualCriticalQuantile ?? DEFAULT_ENGINE_SETTINGS.residualCriticalQuantile,
-        residualStatistic: settings.residualStatistic ?? DEFAULT_ENGINE_SETTINGS.residualStatistic,
-        ebicGamma: settings.ebicGamma ?? DEFAULT_ENGINE_SETTINGS.ebicGamma,
-        ebicPenaltyCount: settings.ebicPenaltyCount ?? DEFAULT_ENGINE_SETTINGS.ebicPenaltyCount,
-        seed: settings.seed ?? DEFAULT_ENGINE_SETTINGS.seed,
-        strongPairThreshold: settings.strongPairThreshold ?? DEFAULT_ENGINE_SETTINGS.strongPairThreshold,
-        residualRelativeThreshold: settings.residualRelativeThreshold ?? DEFAULT_ENGINE_SETTINGS.residualRelativeThreshold,
-      },
-      options.localDependence?.detectors ?? coreDetectors,
-      reuse,
-      thresholds,
-      overlap.exactDependencies,
-      options.localDependence?.network ?? true,
-    );
+    const local = waveLocalDependence(data, matrixR, items, usable, correlation.rowsUsed, settings, options.localDependence ?? {}, overlap.exactDependencies);
     localDependence = local.evidence;
     warnings.push(...local.warnings);
   }

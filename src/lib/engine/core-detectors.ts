@@ -7,9 +7,10 @@
 import { ebicGlasso } from '../stats/ebic-glasso';
 import { graphicalLasso } from '../stats/graphical-lasso';
 import { oneFactorResiduals, residualBootstrap } from '../stats/residual-correlations';
+import { residualModificationIndices } from '../stats/residual-modification-indices';
 import type { SquareMatrix } from '../stats/types';
 import { weightedTopologicalOverlap } from '../stats/weighted-topological-overlap';
-import type { LocalDependenceDetectors, NetworkResult, ScaleResidualResult } from './local-dependence';
+import type { LocalDependenceDetectors, ModificationIndexResult, NetworkResult, ScaleResidualResult } from './local-dependence';
 
 /** Signed partial correlations −θ_ij / sqrt(θ_ii θ_jj) of a precision matrix, zero diagonal. */
 function partialFromPrecision(precision: SquareMatrix): SquareMatrix {
@@ -27,7 +28,8 @@ function partialFromPrecision(precision: SquareMatrix): SquareMatrix {
 /**
  * The core's detectors.
  * References: Harman & Jones 1966 (minres); Yen 1984 (Q3 residuals); Friedman, Hastie &
- * Tibshirani 2008 (graphical lasso); Foygel & Drton 2010 (EBIC); Nowick et al. 2009 (wTO).
+ * Tibshirani 2008 (graphical lasso); Foygel & Drton 2010 (EBIC); Nowick et al. 2009 (wTO);
+ * Sörbom 1989 and Saris, Satorra & van der Veld 2009 (modification indices, SEPC).
  */
 export const coreDetectors: LocalDependenceDetectors = Object.freeze({
   scaleResiduals(correlation: SquareMatrix, statistic: 'residual' | 'q3'): ScaleResidualResult {
@@ -62,5 +64,15 @@ export const coreDetectors: LocalDependenceDetectors = Object.freeze({
     }
     const result = ebicGlasso(correlation, Math.round(sampleSize), { gamma: options.gamma, penaltyCount: options.penaltyCount });
     return { partial: result.partialCorrelations, wto: weightedTopologicalOverlap(result.absoluteNetwork), penalty: result.penalty };
+  },
+  modificationIndices(correlation: SquareMatrix, sampleSize: number): ModificationIndexResult | null {
+    try {
+      const result = residualModificationIndices(correlation, sampleSize);
+      // A Heywood case (a uniqueness at the floor) leaves no usable score test for that item's pairs.
+      return result.fit.converged ? { mi: result.mi, sepc: result.sepc } : null;
+    } catch (error) {
+      if (error instanceof RangeError) return null;
+      throw error;
+    }
   },
 });

@@ -27,6 +27,9 @@ export function pairReport(evidence: EngineEvidence, pair: PairEvidence): PairRe
     residualCritical: pair.residualCritical ?? null,
     wto: pair.wto ?? null,
     partial: pair.partial ?? null,
+    mi: pair.mi ?? null,
+    miCritical: pair.miCritical ?? null,
+    sepc: pair.sepc ?? null,
     rules: [...(pair.rules ?? [])],
   };
 }

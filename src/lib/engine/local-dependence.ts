@@ -9,6 +9,7 @@
  * engine's rules can be tested with any implementation and the bootstrap can reuse what is too
  * costly to repeat (see `LocalDependenceReuse`).
  */
+import { normalQuantile } from '../stats/normal-distribution';
 import type { SquareMatrix } from '../stats/types';
 import { principalSubmatrix } from './principal-submatrix';
 import { MAX_NETWORK_ITEMS } from './engine-settings';
@@ -53,6 +54,18 @@ export interface LocalDependenceDetectors {
    * only (no EBIC path).
    */
   network(correlation: SquareMatrix, sampleSize: number, options: { gamma: number; penaltyCount: number; penalty: number | null }): NetworkResult | null;
+  /**
+   * Modification indices and standardized expected parameter changes of the residual covariances
+   * of the one-factor ML model of a scale's correlation block (four or more items); null when the
+   * model cannot be fitted.
+   */
+  modificationIndices(correlation: SquareMatrix, sampleSize: number): ModificationIndexResult | null;
+}
+
+/** Modification indices of one scale block (both matrices in block order, zero diagonal). */
+export interface ModificationIndexResult {
+  readonly mi: SquareMatrix;
+  readonly sepc: SquareMatrix;
 }
 
 /** What a bootstrap resample reuses from the full sample (so a resample stays affordable). */
@@ -73,6 +86,9 @@ export interface LocalDependenceSettings {
   readonly seed: number;
   readonly strongPairThreshold: number;
   readonly residualRelativeThreshold: number;
+  readonly modificationIndexAlpha: number;
+  readonly modificationIndexNetworkAlpha: number;
+  readonly modificationIndexMinSepc: number;
 }
 
 /** Smallest scale whose one-factor residuals carry information (3 items fit exactly). */
@@ -159,7 +175,8 @@ export function localDependenceEvidence(
         thresholds: scaleThresholds !== null && scaleThresholds.every((list) => list !== null && list.length > 0) ? (scaleThresholds as number[][]) : null,
       });
     }
-    scales.push({ scale, items: members, loadings: fit.loadings, residuals: fit.residuals, meanResidual: fit.meanResidual, critical });
+    const modification = sequentialModificationIndices(block, sampleSize, settings, detectors, nearCopies);
+    scales.push({ scale, items: members, loadings: fit.loadings, residuals: fit.residuals, meanResidual: fit.meanResidual, critical, ...modification });
   });
 
   const network = withNetwork ? localDependenceNetwork(correlation, usable, sampleSize, settings, detectors, reuse, exactDependencies) : { network: null, warnings: [] };
@@ -222,6 +239,80 @@ export function localDependenceNetwork(
     }
   }
   return { network, warnings };
+}
+
+/**
+ * The χ²(1) quantile a scale's largest modification index must exceed: the upper
+ * α / (number of pairs) point (Bonferroni over the scale's residual covariances).
+ * @param items Items in the scale (at least 2).
+ * @param alpha Family-wise share of false alarms per scale, in (0, 1).
+ * @returns The critical modification index.
+ * References: Sörbom 1989 (the modification index is χ²(1) under the model); Bonferroni (Dunn 1961).
+ */
+export function modificationIndexCritical(items: number, alpha: number): number {
+  const pairs = (items * (items - 1)) / 2;
+  const z = normalQuantile(1 - alpha / (2 * pairs));
+  return z * z;
+}
+
+/**
+ * Sequential modification-index test of one scale (Sörbom 1989: free one parameter at a time):
+ * the pair with the largest index among those whose standardized expected change is at least
+ * `modificationIndexMinSepc` (a residual correlation of a size that matters: with thousands of
+ * respondents trivial covariances pass any level; Saris, Satorra & van der Veld 2009) is flagged when its index
+ * exceeds the scale's critical value at the network level; the later member of the flagged pair is
+ * then set aside and the model refitted to the rest, until no index exceeds that critical value or
+ * fewer than four items remain. The flags that also pass the strict level come first (the indices
+ * at each step are the largest left), so the strict test's flags are a prefix of the sequence. A doublet tilts the one factor toward itself and gives other pairs spurious
+ * indices; setting one member aside (as a cut would) removes them. Near-copy members are set
+ * aside from the start (the strong-pair rule covers them; with them the model is a Heywood case).
+ */
+function sequentialModificationIndices(
+  block: SquareMatrix,
+  sampleSize: number,
+  settings: Pick<LocalDependenceSettings, 'modificationIndexAlpha' | 'modificationIndexNetworkAlpha' | 'modificationIndexMinSepc'>,
+  detectors: LocalDependenceDetectors,
+  setAside: ReadonlySet<number>,
+): Pick<ScaleResidualEvidence, 'modificationIndices' | 'sepc' | 'miCritical' | 'miNetworkCritical' | 'miFlagged' | 'miStrictCount'> {
+  const k = block.order;
+  const none = { modificationIndices: null, sepc: null, miCritical: null, miNetworkCritical: null, miFlagged: [], miStrictCount: 0 };
+  const strict = settings.modificationIndexAlpha;
+  const loose = Math.max(strict, settings.modificationIndexNetworkAlpha);
+  if (!(strict > 0 && strict < 1 && loose < 1) || sampleSize < 10) return none;
+  const miCritical = modificationIndexCritical(k, strict);
+  const miNetworkCritical = modificationIndexCritical(k, loose);
+  const mi: (number | null)[][] = Array.from({ length: k }, () => new Array<number | null>(k).fill(null));
+  const sepc: (number | null)[][] = Array.from({ length: k }, () => new Array<number | null>(k).fill(null));
+  const miFlagged: { a: number; b: number; mi: number }[] = [];
+  let active = Array.from({ length: k }, (_, x) => x).filter((x) => !setAside.has(x));
+  let fitted = false;
+  while (active.length >= MIN_ITEMS_FOR_RESIDUALS) {
+    const result = detectors.modificationIndices(principalSubmatrix(block, active), Math.round(sampleSize));
+    if (result === null) break;
+    fitted = true;
+    const m = active.length;
+    let best: [number, number] | null = null;
+    let bestValue = -Infinity;
+    for (let x = 0; x < m; x++) {
+      for (let y = x + 1; y < m; y++) {
+        const value = result.mi.data[x * m + y];
+        const change = result.sepc.data[x * m + y];
+        mi[active[x]][active[y]] = mi[active[y]][active[x]] = value;
+        sepc[active[x]][active[y]] = sepc[active[y]][active[x]] = change;
+        if (change >= settings.modificationIndexMinSepc && change > 0 && value > bestValue) {
+          bestValue = value;
+          best = [active[x], active[y]];
+        }
+      }
+    }
+    if (best === null || !(bestValue > miNetworkCritical)) break;
+    miFlagged.push({ a: best[0], b: best[1], mi: bestValue });
+    const later = best[1];
+    active = active.filter((x) => x !== later);
+  }
+  let miStrictCount = 0;
+  while (miStrictCount < miFlagged.length && miFlagged[miStrictCount].mi > miCritical) miStrictCount++;
+  return fitted ? { modificationIndices: mi, sepc, miCritical, miNetworkCritical, miFlagged, miStrictCount } : none;
 }
 
 /** Local positions of the later member of each near-copy pair of a scale block. */

@@ -59,7 +59,7 @@ export type OverlapThresholds = Pick<
 >;
 
 /** Rules that link a pair on the pair's own evidence (clustered by complete linkage). */
-const PAIR_EVIDENCE_RULES: readonly PairRule[] = ['strong-pair', 'local-dependence-residual', 'local-dependence-wto'];
+const PAIR_EVIDENCE_RULES: readonly PairRule[] = ['strong-pair', 'local-dependence-mi', 'local-dependence-residual', 'local-dependence-wto'];
 
 /** Union-find over item indices (path halving, union by size). */
 class DisjointSets {
@@ -214,6 +214,12 @@ export interface PairLocalFigures {
   readonly partial: number | null;
   /** r minus the mean correlation of the two items with the other items of their scale; null across scales or in a two-item scale. */
   readonly standOut: number | null;
+  /** Modification index of the pair's residual covariance (same scale of four or more items), its scale's critical value and the SEPC; null otherwise. */
+  readonly mi: number | null;
+  readonly miCritical: number | null;
+  readonly sepc: number | null;
+  /** Whether the scale's sequential modification-index test flagged the pair: at the strict level, at the network level only, or not. */
+  readonly miFlagged: 'strict' | 'network' | null;
 }
 
 /**
@@ -247,10 +253,21 @@ export function pairLocalFigures(evidence: EngineEvidence): (a: number, b: numbe
     let residual: number | null = null;
     let relativeResidual: number | null = null;
     let residualCritical: number | null = null;
+    let mi: number | null = null;
+    let miCritical: number | null = null;
+    let sepc: number | null = null;
+    let miFlagged: PairLocalFigures['miFlagged'] = null;
     if (inA !== undefined && inB !== undefined && inA.scale === inB.scale) {
-      residual = inA.scale.residuals[inA.k][inB.k];
-      relativeResidual = residual - inA.scale.meanResidual;
-      residualCritical = inA.scale.critical;
+      const scale = inA.scale;
+      residual = scale.residuals[inA.k][inB.k];
+      relativeResidual = residual - scale.meanResidual;
+      residualCritical = scale.critical;
+      mi = scale.modificationIndices?.[inA.k][inB.k] ?? null;
+      sepc = scale.sepc?.[inA.k][inB.k] ?? null;
+      miCritical = scale.miCritical;
+      const [x, y] = inA.k < inB.k ? [inA.k, inB.k] : [inB.k, inA.k];
+      const step = scale.miFlagged.findIndex((flag) => flag.a === x && flag.b === y);
+      miFlagged = step < 0 ? null : step < scale.miStrictCount ? 'strict' : 'network';
     }
     let standOut: number | null = null;
     const scale = evidence.items[a].scale;
@@ -269,38 +286,45 @@ export function pairLocalFigures(evidence: EngineEvidence): (a: number, b: numbe
       wto: local?.wto === null || local === null ? null : local.wto.data[i * order + j],
       partial: local?.partial === null || local === null ? null : local.partial.data[i * order + j],
       standOut,
+      mi,
+      miCritical,
+      sepc,
+      miFlagged,
     };
   };
 }
 
 /**
  * The rules that fire for one pair, each vetoed where its known false alarm shows (see the
- * module comment and docs/decisions/010-local-dependence-engine.md):
- * - `local-dependence-residual`: the relative residual exceeds the scale's bootstrap critical
- *   value (the fixed `residualRelativeThreshold` when there is none), and the network does not
- *   contradict it: the pair's wTO is at least the small band (0.20) or no network exists. A
- *   wording factor gives positive residuals to every pair of like-worded items; only the pairs
- *   the network also links directly count.
- * - `local-dependence-wto`: wTO at or above `wtoThreshold`, and the pair's relative residual is
- *   not about zero (at least `residualAboutZeroShare` of its critical value). wTO is high for every
- *   pair of a small, tight factor, where the residuals are about zero; across scales and in scales
- *   of three items (no informative residual) wTO does not count on its own.
+ * module comment and docs/decisions/015-engine-modification-indices.md):
+ * - `local-dependence-mi`: the scale's sequential modification-index test flags the pair at the
+ *   strict level (`modificationIndexAlpha`, Bonferroni over the scale's pairs). The score test
+ *   accounts for the loadings the pair itself pulls toward it, where the raw residual does not.
+ * - `local-dependence-wto`: wTO at or above `wtoThreshold`, and the sequential test flags the pair
+ *   at the looser network level (`modificationIndexNetworkAlpha`): wTO is high for every pair of a
+ *   small, tight factor, where the score test finds nothing. Across scales and in scales of three
+ *   items (no identified residual covariance) wTO does not count on its own.
+ * - `local-dependence-residual`: the relative residual exceeds the scale's bootstrap critical value
+ *   (the fixed `residualRelativeThreshold` without one). Reported beside the two rules above when
+ *   one of them fires; alone it does not link a pair (a wording factor gives positive residuals to
+ *   every pair of like-worded items).
  * - `strong-pair`: |r| at or above `strongPairThreshold`, unless the pair does not stand out of its
  *   scale: its r exceeds the mean correlation of its two items with the rest of their scale by
  *   less than `residualRelativeThreshold`. In a homogeneous scale every pair passes 0.80.
- *   (The residual cannot veto here: a near-copy pair that dominates a small scale becomes the
- *   one factor itself, and its residual is then about zero.)
+ *   (A near-copy pair that dominates a small scale becomes the one factor itself; it is set aside
+ *   from the residual and modification-index models, so this rule is what finds it.)
  */
 export function pairRules(r: number, figures: PairLocalFigures, thresholds: OverlapThresholds): PairRule[] {
   const rules: PairRule[] = [];
   if (Math.abs(r) >= thresholds.strongPairThreshold && !(figures.standOut !== null && figures.standOut < thresholds.residualRelativeThreshold)) rules.push('strong-pair');
-  if (figures.relativeResidual !== null) {
+  if (figures.miFlagged === 'strict') rules.push('local-dependence-mi');
+  const local: PairRule[] = [];
+  if (figures.miFlagged !== null && figures.wto !== null && figures.wto >= thresholds.wtoThreshold) local.push('local-dependence-wto');
+  if ((figures.miFlagged === 'strict' || local.length > 0) && figures.relativeResidual !== null) {
     const critical = figures.residualCritical ?? thresholds.residualRelativeThreshold;
-    const networkAgrees = figures.wto === null || figures.wto >= WTO_BANDS.small;
-    if (figures.relativeResidual > critical && networkAgrees) rules.push('local-dependence-residual');
-    const aboutZero = figures.relativeResidual < thresholds.residualAboutZeroShare * critical;
-    if (figures.wto !== null && figures.wto >= thresholds.wtoThreshold && !aboutZero) rules.push('local-dependence-wto');
+    if (figures.relativeResidual > critical) rules.push('local-dependence-residual');
   }
+  rules.push(...local);
   return rules;
 }
 
@@ -436,6 +460,9 @@ export function findOverlapClusters(
           residualCritical: figures.residualCritical,
           wto: figures.wto,
           partial: figures.partial,
+          mi: figures.mi,
+          miCritical: figures.miCritical,
+          sepc: figures.sepc,
           rules,
         };
         pairs.push(pair);

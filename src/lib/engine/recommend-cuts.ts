@@ -94,6 +94,10 @@ export interface PairReport {
   readonly residualCritical?: number | null;
   readonly wto?: number | null;
   readonly partial?: number | null;
+  /** Modification index of the pair's residual covariance, its scale's critical value (strict level) and the standardized expected change (null across scales or in scales of fewer than four items). */
+  readonly mi?: number | null;
+  readonly miCritical?: number | null;
+  readonly sepc?: number | null;
   /** Rules that fired for the pair. */
   readonly rules?: readonly PairRule[];
 }
@@ -155,13 +159,17 @@ export interface RecommendationEvidence {
 export interface CutReason {
   /**
    * `strong-pair`: a cluster of two items joined by a strong pair; `overlap`: more items around
-   * their strongest pair; `dependency`: no strong pair, a near (or exact) linear dependency.
+   * their strongest pair; `local-dependence`: no strong pair, items sharing variance beyond their
+   * scale's common factor (modification index, wTO, residual); `dependency`: no strong pair and no
+   * local dependence, a near (or exact) linear dependency.
    */
-  readonly code: 'strong-pair' | 'overlap' | 'dependency';
+  readonly code: 'strong-pair' | 'overlap' | 'local-dependence' | 'dependency';
   /** The cluster's items, in items[] order. */
   readonly items: readonly string[];
-  /** The strongest pair (null for `dependency`). */
+  /** The strongest pair; for `local-dependence` the link with the largest modification index (null for `dependency`). */
   readonly pair: PairReport | null;
+  /** Every rule that fired inside the cluster, in report order (what the sentence names as its evidence). */
+  readonly evidence?: readonly PairRule[];
   /** Coverage of the pair's interval (the settings' confidence level). */
   readonly confidenceLevel: number;
   /** The cluster's condition index; null without diagnostics or for an exact dependency. */
@@ -382,7 +390,7 @@ function decideCluster(
   // (they overlap only while all their members remain).
   const linked = new Set(
     cluster.links
-      .filter((pair) => (pair.rules ?? []).some((rule) => rule === 'strong-pair' || rule === 'local-dependence-residual' || rule === 'local-dependence-wto'))
+      .filter((pair) => (pair.rules ?? []).some((rule) => rule === 'strong-pair' || rule.startsWith('local-dependence-')))
       .map((pair) => `${pair.a},${pair.b}`),
   );
   const stillOverlaps = (item: number): boolean => {
@@ -529,7 +537,7 @@ function maxOrNull(values: readonly (number | null)[]): number | null {
 }
 
 /** Rules in the order they are reported. */
-const PAIR_RULE_ORDER: readonly PairRule[] = Object.freeze(['exact', 'near-dependency', 'strong-pair', 'local-dependence-residual', 'local-dependence-wto']);
+const PAIR_RULE_ORDER: readonly PairRule[] = Object.freeze(['exact', 'near-dependency', 'strong-pair', 'local-dependence-mi', 'local-dependence-residual', 'local-dependence-wto']);
 
 /** The structured reason of one recommendation (worded by src/lib/words/reasons.ts). */
 function cutReason(
@@ -542,10 +550,18 @@ function cutReason(
 ): CutReason {
   const strongest = cluster.strongPairs[0] ?? null;
   const changed = (kind: ChangeAction): string[] => actions.filter((action) => action.action === kind).map((action) => action.item);
+  const fired = new Set<PairRule>(cluster.links.flatMap((pair) => pair.rules ?? []));
+  if (cluster.dependencies.length > 0) fired.add('near-dependency');
+  if (cluster.exactDependencies.length > 0) fired.add('exact');
+  const localLinks = cluster.links.filter((pair) => (pair.rules ?? []).some((rule) => rule.startsWith('local-dependence-')));
+  const local = localLinks.reduce<PairEvidence | null>((best, pair) => (best === null || (pair.mi ?? -1) > (best.mi ?? -1) ? pair : best), null);
+  const code: CutReason['code'] = strongest !== null ? (cluster.items.length === 2 ? 'strong-pair' : 'overlap') : local !== null ? 'local-dependence' : 'dependency';
+  const shown = strongest ?? local;
   return {
-    code: strongest === null ? 'dependency' : cluster.items.length === 2 ? 'strong-pair' : 'overlap',
+    code,
     items: cluster.items.map((index) => evidence.items[index].id),
-    pair: strongest === null ? null : pairReport(evidence, strongest),
+    pair: shown === null ? null : pairReport(evidence, shown),
+    evidence: PAIR_RULE_ORDER.filter((rule) => fired.has(rule)),
     confidenceLevel: settings.confidenceLevel,
     conditionIndex: summary.conditionIndex,
     keep: evidence.items[keeper].id,

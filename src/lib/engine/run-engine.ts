@@ -156,6 +156,9 @@ export async function runEngine(
       residualCritical: figures.residualCritical,
       wto: figures.wto,
       partial: figures.partial,
+      mi: figures.mi,
+      miCritical: figures.miCritical,
+      sepc: figures.sepc,
       rules,
     });
   });

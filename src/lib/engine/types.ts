@@ -150,6 +150,24 @@ export interface ScaleResidualEvidence {
    * applies).
    */
   readonly critical: number | null;
+  /**
+   * Modification index of each residual covariance of the scale's one-factor ML model (same order,
+   * null where not tested), from the step of the sequential test in which the pair was last in the
+   * model; null when the model could not be fitted (docs/decisions/015-engine-modification-indices.md).
+   */
+  readonly modificationIndices: readonly (readonly (number | null)[])[] | null;
+  /** Standardized expected parameter change of each residual covariance (lavaan's sepc.all), same layout. */
+  readonly sepc: readonly (readonly (number | null)[])[] | null;
+  /** The scale's critical modification index: the χ²(1) quantile at the Bonferroni share of `modificationIndexAlpha` over its pairs. */
+  readonly miCritical: number | null;
+  /** The same at `modificationIndexNetworkAlpha`: the level a pair the network also links must pass. */
+  readonly miNetworkCritical: number | null;
+  /**
+   * Pairs (local positions, a < b) the sequential test flagged at the network level, in the order
+   * flagged, each with its index at that step; the first `miStrictCount` also pass `miCritical`.
+   */
+  readonly miFlagged: readonly { readonly a: number; readonly b: number; readonly mi: number }[];
+  readonly miStrictCount: number;
 }
 
 /** Local-dependence evidence of a wave (methods.md §3b). */
@@ -165,7 +183,7 @@ export interface LocalDependenceEvidence {
 }
 
 /** Which evidence made a pair a link of an overlap cluster. */
-export type PairRule = 'strong-pair' | 'local-dependence-residual' | 'local-dependence-wto' | 'near-dependency' | 'exact';
+export type PairRule = 'strong-pair' | 'local-dependence-mi' | 'local-dependence-residual' | 'local-dependence-wto' | 'near-dependency' | 'exact';
 
 /** A pair correlation with its Fisher-z interval. */
 export interface PairEvidence {
@@ -198,6 +216,12 @@ export interface PairEvidence {
   readonly wto?: number | null;
   /** Regularised partial correlation; null without a network. */
   readonly partial?: number | null;
+  /** Modification index of the pair's residual covariance in its scale's one-factor ML model; null as for the residual. */
+  readonly mi?: number | null;
+  /** The scale's critical modification index; null as above. */
+  readonly miCritical?: number | null;
+  /** Standardized expected parameter change of that covariance (the residual correlation it would take); null as above. */
+  readonly sepc?: number | null;
   /** Rules that fired for this pair (empty for a pair that is only listed). */
   readonly rules?: readonly PairRule[];
 }

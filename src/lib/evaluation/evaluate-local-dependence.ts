@@ -9,6 +9,7 @@
  * redundant, so a pair flagged anywhere else is a false positive. Figures are pooled over all
  * waves of all kinds (micro-averaged). A detector "flags" a pair on its own raw rule:
  * - `strong-pair`: |r| ≥ strongPairThreshold;
+ * - `mi`: the scale's sequential modification-index test at the strict level;
  * - `residual`: relative residual above the scale's critical value (the fixed rule without one);
  * - `wto`: wTO ≥ wtoThreshold;
  * and `engine` counts the pairs inside the clusters of its recommendations (after every veto
@@ -23,7 +24,7 @@ import { runEngine } from '../engine/run-engine';
 import { engineInputFromSyntheticWave } from './synthetic-wave-input';
 
 /** Detectors scored separately, and the engine. */
-export const LOCAL_DEPENDENCE_DETECTORS = Object.freeze(['strong-pair', 'residual', 'wto', 'engine'] as const);
+export const LOCAL_DEPENDENCE_DETECTORS = Object.freeze(['strong-pair', 'mi', 'residual', 'wto', 'engine'] as const);
 export type LocalDependenceDetectorName = (typeof LOCAL_DEPENDENCE_DETECTORS)[number];
 
 /** Precision and recall of one detector. */
@@ -49,7 +50,27 @@ export interface LocalDependenceEvaluation {
   readonly cleanRecommendationsPerTenWaves: number;
   /** One line per missed doublet and per false engine pair. */
   readonly misses: readonly string[];
+  /** The engine per cell: respondents band × planted residual band (recall), and per respondents band (precision). */
+  readonly cells: readonly EvaluationCell[];
 }
+
+/** The engine's figures in one cell of respondents × planted residual size. */
+export interface EvaluationCell {
+  /** Respondents band, e.g. "150-299". */
+  readonly n: string;
+  /** Planted residual band, e.g. ".15-.20"; "all" for the precision row of a respondents band. */
+  readonly residual: string;
+  readonly planted: number;
+  readonly found: number;
+  /** Engine pairs on waves of this respondents band that are not planted doublets (only in "all" rows). */
+  readonly falsePairs: number;
+}
+
+/** Bands of the per-cell table. */
+const N_BANDS: readonly [number, number][] = [[150, 299], [300, 449], [450, 600]];
+const RESIDUAL_BANDS: readonly [number, number][] = [[0.15, 0.2], [0.2, 0.25], [0.25, 0.35]];
+const bandOf = (bands: readonly [number, number][], value: number): number => Math.max(0, bands.findIndex(([, high], k) => value < high || (k === bands.length - 1 && value <= high)));
+const residualLabel = ([low, high]: readonly [number, number]): string => `${low.toFixed(2).slice(1)}-${high.toFixed(2).slice(1)}`;
 
 /** Options of `evaluateLocalDependence`. */
 export interface LocalDependenceEvaluationOptions {
@@ -58,6 +79,8 @@ export interface LocalDependenceEvaluationOptions {
   readonly firstSeed?: number;
   /** Engine settings; the stability bootstrap is off unless set here. */
   readonly settings?: Partial<EngineSettings>;
+  /** Respondents of every wave in place of the spec's own 150-600 (one cell of the per-cell table). */
+  readonly respondents?: number;
 }
 
 /** Offset between a wave's structure seed and its respondents' seed. */
@@ -85,18 +108,22 @@ export async function evaluateLocalDependence(options: LocalDependenceEvaluation
     { tp: number; fp: number; byKind: Record<LocalDependenceWaveKind, number> }
   >;
   const recommendationsByKind = zero();
+  const cellCounts = N_BANDS.map(() => RESIDUAL_BANDS.map(() => ({ planted: 0, found: 0 })));
+  const falseByN = N_BANDS.map(() => 0);
   const misses: string[] = [];
   let planted = 0;
 
   for (const kind of LOCAL_DEPENDENCE_WAVE_KINDS) {
     for (let seed = firstSeed; seed < firstSeed + wavesPerKind; seed++) {
-      const wave = generateWave(localDependenceWaveSpec(seed, kind), seed + RESPONDENT_SEED_OFFSET);
+      const drawn = localDependenceWaveSpec(seed, kind);
+      const spec = options.respondents === undefined ? drawn : { ...drawn, respondents: options.respondents };
+      const wave = generateWave(spec, seed + RESPONDENT_SEED_OFFSET);
       const { matrix, items } = engineInputFromSyntheticWave(wave);
       const evidence = computeEvidence(matrix, items, settings);
       const result = await runEngine(evidence, matrix, items, settings);
       const truth = new Set(wave.truth.doublets.map(([a, b]) => pairKey(a, b)));
       planted += truth.size;
-      const flagged: Record<LocalDependenceDetectorName, Set<string>> = { 'strong-pair': new Set(), residual: new Set(), wto: new Set(), engine: new Set() };
+      const flagged: Record<LocalDependenceDetectorName, Set<string>> = { 'strong-pair': new Set(), mi: new Set(), residual: new Set(), wto: new Set(), engine: new Set() };
       const figuresOf = pairLocalFigures(evidence);
       const order = evidence.correlation.order;
       for (let i = 0; i < order; i++) {
@@ -106,6 +133,7 @@ export async function evaluateLocalDependence(options: LocalDependenceEvaluation
           const k = pairKey(items[a].id, items[b].id);
           const figures = figuresOf(a, b);
           if (Math.abs(evidence.correlation.data[i * order + j]) >= settings.strongPairThreshold) flagged['strong-pair'].add(k);
+          if (figures.miFlagged === 'strict') flagged.mi.add(k);
           if (figures.relativeResidual !== null && figures.relativeResidual > (figures.residualCritical ?? settings.residualRelativeThreshold)) flagged.residual.add(k);
           if (figures.wto !== null && figures.wto >= settings.wtoThreshold) flagged.wto.add(k);
         }
@@ -126,6 +154,16 @@ export async function evaluateLocalDependence(options: LocalDependenceEvaluation
         }
       }
       for (const pair of truth) if (!flagged.engine.has(pair)) misses.push(`${kind} wave ${seed} (n ${matrix.rows}): missed doublet ${pair}`);
+      const nBand = bandOf(N_BANDS, matrix.rows);
+      falseByN[nBand] += [...flagged.engine].filter((pair) => !truth.has(pair)).length;
+      for (const scale of spec.scales) {
+        for (const item of scale.items) {
+          if (item.doubletOf === undefined || item.doubletResidual === undefined) continue;
+          const cell = cellCounts[nBand][bandOf(RESIDUAL_BANDS, item.doubletResidual)];
+          cell.planted++;
+          if (flagged.engine.has(pairKey(item.name, item.doubletOf))) cell.found++;
+        }
+      }
     }
   }
 
@@ -144,5 +182,12 @@ export async function evaluateLocalDependence(options: LocalDependenceEvaluation
     recommendationsByKind,
     cleanRecommendationsPerTenWaves: (10 * cleanRecommendations) / cleanWaves,
     misses,
+    cells: N_BANDS.flatMap(([low, high], x) => {
+      const n = `${low}-${high}`;
+      const rows = RESIDUAL_BANDS.map((band, y) => ({ n, residual: residualLabel(band), ...cellCounts[x][y], falsePairs: 0 }));
+      const planted = rows.reduce((sum, row) => sum + row.planted, 0);
+      const found = rows.reduce((sum, row) => sum + row.found, 0);
+      return [...rows, { n, residual: 'all', planted, found, falsePairs: falseByN[x] }];
+    }),
   };
 }

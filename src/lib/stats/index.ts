@@ -50,6 +50,7 @@ export * from './polychoric-likelihood';
 export * from './polychoric-pairs';
 export * from './relative-weights';
 export * from './residual-correlations';
+export * from './residual-modification-indices';
 export * from './seeded-random';
 export * from './smooth-correlation-matrix';
 export * from './spearman-brown';

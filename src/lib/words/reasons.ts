@@ -4,6 +4,26 @@
  * JSON, the pages, the workspace and the memo word a reason the same way.
  */
 import type { ConstraintName, CutReason, PairReport } from '../engine/recommend-cuts';
+import type { PairRule } from '../engine/types';
+
+/** Each rule of the engine as the evidence a sentence names ("shown by ..."). */
+export const evidenceWords: Readonly<Record<PairRule, string>> = Object.freeze({
+  exact: 'an exact linear dependency',
+  'near-dependency': 'a near-dependency among the items (condition index)',
+  'strong-pair': 'a strong correlation',
+  'local-dependence-mi': "a modification index above its scale's critical value",
+  'local-dependence-residual': "a residual correlation above its scale's critical value",
+  'local-dependence-wto': 'a large topological overlap in the partial-correlation network',
+});
+
+/** "modification index 42.5 (critical 16.0), expected residual correlation 0.86, wTO 0.37". */
+function describeLocal(pair: PairReport): string {
+  const parts: string[] = [];
+  if (pair.mi !== undefined && pair.mi !== null) parts.push(`modification index ${pair.mi.toFixed(1)}${pair.miCritical !== undefined && pair.miCritical !== null ? ` (critical ${pair.miCritical.toFixed(1)})` : ''}`);
+  if (pair.sepc !== undefined && pair.sepc !== null) parts.push(`expected residual correlation ${pair.sepc.toFixed(2)}`);
+  if (pair.wto !== undefined && pair.wto !== null) parts.push(`wTO ${pair.wto.toFixed(2)}`);
+  return parts.join(', ');
+}
 
 /** Why a blocked item stays, as a clause after "X stays because ...". */
 export const constraintClauses: Readonly<Record<ConstraintName, string>> = Object.freeze({
@@ -48,12 +68,21 @@ export function reasonSentence(reason: CutReason): string {
   let overlap: string;
   if (pair !== null && reason.code === 'strong-pair') {
     overlap = `${pair.items[0]} and ${pair.items[1]} correlate strongly (${describePair(pair, reason.confidenceLevel)})`;
+  } else if (pair !== null && reason.code === 'local-dependence') {
+    const local = describeLocal(pair);
+    const figures = `${local}${local.length > 0 ? ', ' : ''}${describePair(pair, reason.confidenceLevel)}`;
+    overlap =
+      reason.items.length === 2
+        ? `${pair.items[0]} and ${pair.items[1]} share variance beyond their scale's common factor (${figures})`
+        : `${listOf(reason.items)} share variance beyond their scale's common factor (strongest pair ${pair.items[0]}-${pair.items[1]}, ${figures})`;
   } else if (pair !== null) {
     overlap = `${listOf(reason.items)} overlap (strongest pair ${pair.items[0]}-${pair.items[1]}, ${describePair(pair, reason.confidenceLevel)})`;
   } else {
     const index = reason.conditionIndex === null ? 'an exact dependency' : `condition index ${reason.conditionIndex.toFixed(0)}`;
     overlap = `${listOf(reason.items)} are nearly linearly dependent (${index})`;
   }
+
+  if (reason.evidence !== undefined && reason.evidence.length > 0) overlap += `, shown by ${listOf(reason.evidence.map((rule) => evidenceWords[rule]))}`;
 
   const verbs: string[] = [];
   if (reason.merge.length > 0) verbs.push(`merge ${listOf(reason.merge)} into it`);
