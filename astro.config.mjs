@@ -27,7 +27,7 @@ export default defineConfig({
   output: 'server',
   adapter: node({ mode: 'standalone' }),
   // The worker threads (audits, what-if, wave reader) are bundled on their own into dist/server/
-  // (src/lib/workers/worker-build.ts; docs/decisions/004-audit-jobs.md, 015-workbook-worker.md).
+  // (src/lib/workers/worker-build.ts; docs/decisions/004-audit-jobs.md, 018-workbook-worker.md).
   integrations: [react(), auth(), workerBuildIntegration()],
   server: { host: '127.0.0.1', port: 4321 },
   security: {

@@ -2,7 +2,7 @@
 // audit, the engine, the numerical core, zod, ml-matrix, papaparse, yauzl) in one ESM file,
 // built once by esbuild (the bundler of the audit worker, src/lib/server/audit-jobs/
 // audit-worker-build.ts) and rebuilt only when one of its inputs changes. Plain Node, like
-// prepare.mjs. docs/decisions/015-speed-whole-audit.md.
+// prepare.mjs. docs/decisions/020-speed-whole-audit.md.
 import { createHash } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';

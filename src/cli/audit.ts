@@ -24,7 +24,7 @@ import { acceptProposal, isWaveRefusal, readWave, type ReadLimits } from '../lib
 /**
  * The command line reads the user's own files on the user's own machine, so it allows larger
  * files than an upload to the shared server (50 MB, 10 million cells): 1 GB and 60 million cells
- * (e.g. 200,000 respondents, the row limit, × 300 items). docs/decisions/015-speed-whole-audit.md.
+ * (e.g. 200,000 respondents, the row limit, × 300 items). docs/decisions/020-speed-whole-audit.md.
  */
 const COMMAND_LINE_READ_LIMITS: Partial<ReadLimits> = { maxBytes: 1000 * 1000 * 1000, maxCells: 60_000_000 };
 

@@ -20,7 +20,7 @@ describe('parseConfig: workbook limits and audit workers', () => {
     expect(config.limits.workbookMemoryMb).toBe(1024); // README configuration table
     expect(config.limits.workbookSeconds).toBe(60); // README configuration table
     expect(config.auditWorkers).toBe(Math.min(64, availableParallelism())); // docs/decisions/004: default os.availableParallelism()
-    expect([config.limits.readers, config.limits.readerQueue]).toEqual([2, 16]); // README configuration table; docs/decisions/015
+    expect([config.limits.readers, config.limits.readerQueue]).toEqual([2, 16]); // README configuration table; docs/decisions/018
   });
 
   it('reads the variables when set, and treats empty ones as unset', () => {
@@ -55,7 +55,7 @@ describe('parseConfig: fair audits (docs/decisions/016-fair-audits.md)', () => {
   it('defaults the time limit to 600 s and the per-team share to one thread fewer than the pool', () => {
     const config = parseConfig({ ...base, AUDIT_WORKERS: '4' });
     expect(config.auditMaxSeconds).toBe(600); // README configuration table
-    expect(config.auditWorkersPerTeam).toBe(3); // docs/decisions/015: AUDIT_WORKERS - 1
+    expect(config.auditWorkersPerTeam).toBe(3); // docs/decisions/016: AUDIT_WORKERS - 1
     // One worker: the one team may use it (at least 1).
     expect(parseConfig({ ...base, AUDIT_WORKERS: '1' }).auditWorkersPerTeam).toBe(1);
   });

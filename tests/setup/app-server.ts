@@ -191,7 +191,10 @@ export async function startTestServer(options: { seed: boolean; logName: string;
 }
 
 export default async function setup(project: TestProject) {
-  const server = await startTestServer({ seed: true, logName: 'app-server.log' });
+  // The shared server serves one team's many test files one after another: the per-team share of
+  // the audit threads (docs/decisions/016) is tested on its own servers (audits-fair.test.ts), so
+  // here the demo team may use every thread, as a one-team installation would.
+  const server = await startTestServer({ seed: true, logName: 'app-server.log', environment: { AUDIT_WORKERS: '2', AUDIT_WORKERS_PER_TEAM: '2' } });
   project.provide('baseUrl', server.baseUrl);
   project.provide('databasePath', server.databasePath);
   return server.stop;

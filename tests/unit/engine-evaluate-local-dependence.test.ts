@@ -4,7 +4,7 @@ import { evaluateLocalDependence } from '../../src/lib/evaluation/evaluate-local
 // Issue 9 asks for precision and recall of at least .95 on generated doublet waves and at most one
 // recommendation per ten waves with nothing redundant. Over all cells the engine does not reach the
 // .95 floors (README "Engine figures: local dependence", 60 waves per kind, and
-// docs/decisions/015); this test asserts the floors it meets, on few seeded waves with cheap
+// docs/decisions/022); this test asserts the floors it meets, on few seeded waves with cheap
 // settings (stated): the ceiling on clean, homogeneous and cross-loading waves, precision, and recall
 // in the cells where the doublet is detectable (n 450-600 with a planted residual of .20-.35).
 // Figures printed by bench/engine-local-dependence.bench.ts.

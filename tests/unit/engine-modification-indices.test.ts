@@ -1,5 +1,5 @@
 /**
- * The engine's use of modification indices (docs/decisions/015-engine-modification-indices.md): the
+ * The engine's use of modification indices (docs/decisions/022-engine-modification-indices.md): the
  * sequential test per scale, and the pair rules that combine it with wTO and the residual.
  */
 import { describe, expect, it } from 'vitest';

@@ -50,7 +50,7 @@ describe('runEngine', () => {
       expect((pair.rules ?? []).length).toBeGreaterThan(0);
     }
     const twin = result.pairs.find((pair) => pair.items.includes('coll_2') && pair.items.includes('coll_7'))!;
-    // A near-copy (r .93) is set aside from its scale's modification-index model (docs/decisions/015):
+    // A near-copy (r .93) is set aside from its scale's modification-index model (docs/decisions/022):
     // the strong-pair rule links it; its residual, above the critical value, stays among the figures.
     expect(twin.rules).toEqual(['strong-pair']);
     expect(twin.residual).toBeGreaterThan(twin.residualCritical!);

@@ -116,7 +116,7 @@ export const rules: Rule[] = [
         : within(to, 'src/lib/stats') || within(to, 'src/lib/ingest') || within(to, 'src/lib/synth') || within(to, 'src/lib/workers') ? null : 'above the pure libraries',
   },
   {
-    // The ingest reads files in a worker thread (docs/decisions/015-workbook-worker.md), so the
+    // The ingest reads files in a worker thread (docs/decisions/018-workbook-worker.md), so the
     // mechanism sits below it: it may know other layers' entry files by name, never import them.
     name: 'src/lib/workers imports only itself, Node, esbuild and the type of an Astro integration',
     covers: (from) => within(from, 'src/lib/workers'),

@@ -1,7 +1,7 @@
 /**
  * The server's bounded wave readers (src/lib/server/waves/wave-readers.ts): with every reader busy
  * and the line full, an upload or a confirmation is refused at once with 503 `readers-busy` and
- * Retry-After (docs/decisions/015-workbook-worker.md), and the place comes back when the read ends.
+ * Retry-After (docs/decisions/018-workbook-worker.md), and the place comes back when the read ends.
  */
 import { describe, expect, it } from 'vitest';
 import { HttpError } from '../../src/lib/server/errors';

@@ -68,26 +68,26 @@ export interface EngineSettings {
   readonly residualCriticalQuantile: number;
   /**
    * A relative residual below this share of its critical value is "about zero". No longer read by
-   * the rules (the modification index vetoes wTO flags since docs/decisions/015); kept so stored
+   * the rules (the modification index vetoes wTO flags since docs/decisions/022); kept so stored
    * settings resolve. Default 0.5 (house figure).
    */
   readonly residualAboutZeroShare: number;
   /**
    * Family-wise share of false alarms per scale of the sequential modification-index test: a
    * residual covariance is flagged when its modification index exceeds the χ²(1) quantile at this
-   * share over the scale's pairs (Bonferroni). Default 0.001 (house figure; docs/decisions/015).
+   * share over the scale's pairs (Bonferroni). Default 0.001 (house figure; docs/decisions/022).
    */
   readonly modificationIndexAlpha: number;
   /**
    * The looser family-wise share at which a pair's modification index counts when the network also
-   * links it (wTO at or above `wtoThreshold`). Default 0.05 (the conventional level; docs/decisions/015).
+   * links it (wTO at or above `wtoThreshold`). Default 0.05 (the conventional level; docs/decisions/022).
    */
   readonly modificationIndexNetworkAlpha: number;
   /**
    * Smallest standardized expected parameter change (the residual correlation the freed covariance
    * would take) of a flagged pair: with thousands of respondents trivial covariances pass any level,
    * so a flag needs both the test and a size that matters (Saris, Satorra & van der Veld 2009).
-   * Default 0.20 (house figure; docs/decisions/015).
+   * Default 0.20 (house figure; docs/decisions/022).
    */
   readonly modificationIndexMinSepc: number;
   /** A pair with weighted topological overlap at or above this is a wTO flag. Default 0.25 (Christensen, Garrido & Golino 2023). */
@@ -164,9 +164,9 @@ export const ENGINE_SETTING_RULES: { readonly [Key in keyof EngineSettings]: Eng
   residualBootstrapDraws: { domain: { kind: 'number', min: 0, max: 10_000, integer: true }, default: 200, source: 'house figure (the core residualBootstrap default)' },
   residualCriticalQuantile: { domain: { kind: 'number', min: 0, max: 1, minOpen: true, maxOpen: true }, default: 0.99, source: 'Christensen, Makransky & Horton 2017 (95th and 99th percentiles tabulated)' },
   residualAboutZeroShare: share(0.5, 'house figure'),
-  modificationIndexAlpha: { domain: { kind: 'number', min: 0, max: 1, minOpen: true, maxOpen: true }, default: 0.001, source: 'Sörbom 1989 (χ²(1) score test), Bonferroni over the scale\'s pairs; level a house figure (docs/decisions/015)' },
-  modificationIndexNetworkAlpha: { domain: { kind: 'number', min: 0, max: 1, minOpen: true, maxOpen: true }, default: 0.05, source: 'common practice (the conventional 5% level), Bonferroni over the scale\'s pairs (docs/decisions/015)' },
-  modificationIndexMinSepc: share(0.2, 'house figure (docs/decisions/015), after Saris, Satorra & van der Veld 2009 (judge a modification index with its EPC)'),
+  modificationIndexAlpha: { domain: { kind: 'number', min: 0, max: 1, minOpen: true, maxOpen: true }, default: 0.001, source: 'Sörbom 1989 (χ²(1) score test), Bonferroni over the scale\'s pairs; level a house figure (docs/decisions/022)' },
+  modificationIndexNetworkAlpha: { domain: { kind: 'number', min: 0, max: 1, minOpen: true, maxOpen: true }, default: 0.05, source: 'common practice (the conventional 5% level), Bonferroni over the scale\'s pairs (docs/decisions/022)' },
+  modificationIndexMinSepc: share(0.2, 'house figure (docs/decisions/022), after Saris, Satorra & van der Veld 2009 (judge a modification index with its EPC)'),
   wtoThreshold: share(0.25, 'Christensen, Garrido & Golino 2023 (Unique Variable Analysis)'),
   ebicGamma: share(0.5, 'Foygel & Drton 2010; qgraph::EBICglasso default'),
   ebicPenaltyCount: { domain: { kind: 'number', min: 2, max: 1_000, integer: true }, default: 100, source: 'qgraph::EBICglasso default (nlambda)' },

@@ -296,7 +296,7 @@ export function pairLocalFigures(evidence: EngineEvidence): (a: number, b: numbe
 
 /**
  * The rules that fire for one pair, each vetoed where its known false alarm shows (see the
- * module comment and docs/decisions/015-engine-modification-indices.md):
+ * module comment and docs/decisions/022-engine-modification-indices.md):
  * - `local-dependence-mi`: the scale's sequential modification-index test flags the pair at the
  *   strict level (`modificationIndexAlpha`, Bonferroni over the scale's pairs). The score test
  *   accounts for the loadings the pair itself pulls toward it, where the raw residual does not.

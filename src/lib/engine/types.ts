@@ -153,7 +153,7 @@ export interface ScaleResidualEvidence {
   /**
    * Modification index of each residual covariance of the scale's one-factor ML model (same order,
    * null where not tested), from the step of the sequential test in which the pair was last in the
-   * model; null when the model could not be fitted (docs/decisions/015-engine-modification-indices.md).
+   * model; null when the model could not be fitted (docs/decisions/022-engine-modification-indices.md).
    */
   readonly modificationIndices: readonly (readonly (number | null)[])[] | null;
   /** Standardized expected parameter change of each residual covariance (lavaan's sepc.all), same layout. */

@@ -3,7 +3,7 @@
  * workbook; read an upload and propose its setup with a screening preview; or read a stored
  * upload and accept it under a confirmed setup. Every cell of the file is touched here, in the
  * reader's thread, and only the results travel back (the matrices moved, not copied), so the
- * server's thread never does cell-level work (docs/decisions/015-workbook-worker.md).
+ * server's thread never does cell-level work (docs/decisions/018-workbook-worker.md).
  *
  * Answers are plain data: a failure is described (a refusal with its status and code, or a fault
  * with its name and message) and made an error again on the other side (workbook-worker.ts).

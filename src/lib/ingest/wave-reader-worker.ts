@@ -5,7 +5,7 @@
  *
  * How it starts: the build bundles this file into dist/server/wave-reader-worker.mjs
  * (src/lib/workers/worker-build.ts); under tsx, Vitest and `astro dev` it runs from source through
- * tsx. docs/decisions/015-workbook-worker.md.
+ * tsx. docs/decisions/018-workbook-worker.md.
  */
 import { isMainThread, parentPort, workerData } from 'node:worker_threads';
 import { runWaveReaderJob, type WaveReaderJob } from './wave-reader-jobs';

@@ -4,7 +4,7 @@
  * src/lib/workers/start-worker.ts) with a heap limit and a time limit, so that a damaged or crafted
  * file costs at most those limits and ends in a refusal, and the caller's thread does no cell-level
  * work. One thread per job, ended after its answer; how many run at once is the caller's bound
- * (the server's: src/lib/server/waves/wave-readers.ts). docs/decisions/015-workbook-worker.md.
+ * (the server's: src/lib/server/waves/wave-readers.ts). docs/decisions/018-workbook-worker.md.
  */
 import { runWorkerOnce, WorkerRunFailure } from '../workers/start-worker';
 import { WAVE_READER_WORKER } from '../workers/worker-entries';
@@ -104,7 +104,7 @@ export function parseWorkbookInWorker(bytes: Uint8Array, fileName: string, limit
  * @param options `unexpected`, as readWave's.
  * @throws {WaveRefusal} whatever readWave refuses; 413 `workbook-too-demanding` / `file-too-demanding` past the thread's limits.
  * @returns how the files were read, their warnings, the proposal and its screening preview.
- * References: docs/decisions/002-reading-waves.md, 007-one-way-in-for-waves.md, 015-workbook-worker.md.
+ * References: docs/decisions/002-reading-waves.md, 007-one-way-in-for-waves.md, 018-workbook-worker.md.
  */
 export function readUploadInWorker(files: WaveFiles, limits: Partial<ReadLimits> = {}, options: ReadWaveOptions = {}): Promise<UploadRead> {
   const resolved = resolveReadLimits(limits);
@@ -121,7 +121,7 @@ export function readUploadInWorker(files: WaveFiles, limits: Partial<ReadLimits>
  * @throws {WaveRefusal} whatever readWave or acceptWave refuses; 413 past the thread's limits.
  * @throws {RangeError} for screening settings out of range (as acceptWave).
  * @returns how the files were read, the accepted wave and its encoded matrix.
- * References: docs/decisions/007-one-way-in-for-waves.md, 015-workbook-worker.md.
+ * References: docs/decisions/007-one-way-in-for-waves.md, 018-workbook-worker.md.
  */
 export function acceptUploadInWorker(files: WaveFiles, choice: WaveChoice, limits: Partial<ReadLimits> = {}, options: ReadWaveOptions = {}): Promise<AcceptedRead> {
   const resolved = resolveReadLimits(limits);

@@ -60,7 +60,7 @@ export interface ServerConfig {
   };
 }
 
-/** Wave readers at once by default: two keeps a core for the web thread on a 2-core machine (docs/decisions/015-workbook-worker.md). */
+/** Wave readers at once by default: two keeps a core for the web thread on a 2-core machine (docs/decisions/018-workbook-worker.md). */
 export const DEFAULT_UPLOAD_READERS = 2;
 /** Uploads and confirmations that may wait for a reader by default. */
 export const DEFAULT_UPLOAD_READER_QUEUE = 16;

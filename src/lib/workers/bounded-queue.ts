@@ -3,7 +3,7 @@
  * than `concurrency` are running, lets it wait when fewer than `maxWaiting` are waiting, and
  * refuses it at once (QueueFullError) otherwise. Jobs start in the order they arrived. Used for
  * the wave readers (src/lib/server/waves/wave-readers.ts), so that the memory all readers may use
- * together is bounded by `concurrency` × one reader's heap limit (docs/decisions/015-workbook-worker.md).
+ * together is bounded by `concurrency` × one reader's heap limit (docs/decisions/018-workbook-worker.md).
  */
 
 /** A job refused because every place was taken. */

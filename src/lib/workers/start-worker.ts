@@ -14,7 +14,7 @@
  *   file) pays its start-up per job, and tsx's is several times a bundle's; so from source it is
  *   bundled once per process with the build's own step (esbuild) into `.tmp-workers/` under the
  *   project, and bundled again when one of its inputs changes.
- * docs/decisions/004-audit-jobs.md (the mechanism), 015-workbook-worker.md (one module for all).
+ * docs/decisions/004-audit-jobs.md (the mechanism), 018-workbook-worker.md (one module for all).
  */
 import type { Metafile } from 'esbuild';
 import { existsSync, mkdirSync, rmSync, statSync } from 'node:fs';

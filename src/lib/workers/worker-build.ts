@@ -7,7 +7,7 @@
  *
  * Why separate bundles: Vite's server build does not emit a worker file referenced with
  * `new URL(..., import.meta.url)`, and the workers are too large to ship as source text. esbuild
- * is the bundler Astro itself depends on. docs/decisions/004-audit-jobs.md, 015-workbook-worker.md.
+ * is the bundler Astro itself depends on. docs/decisions/004-audit-jobs.md, 018-workbook-worker.md.
  */
 import type { AstroIntegration } from 'astro';
 import { build } from 'esbuild';

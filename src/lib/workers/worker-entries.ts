@@ -3,7 +3,7 @@
  * the project root) and the file the build bundles it into (in the server output folder, beside
  * `entry.mjs`). The build step (worker-build.ts) bundles each of them; start-worker.ts finds and
  * starts them. Only names and paths live here: this module imports nothing, so the ingest, the
- * server and the build may all read it (docs/decisions/015-workbook-worker.md).
+ * server and the build may all read it (docs/decisions/018-workbook-worker.md).
  */
 
 /** One worker entry. */

@@ -2,7 +2,7 @@
  * The audit and what-if workers' names for the one worker mechanism (src/lib/workers/start-worker.ts):
  * where an audit worker thread starts from, and starting one. Kept so that the pool, the what-if
  * service, the benchmarks and the tests call it as before; the finding and starting live in
- * src/lib/workers/ (docs/decisions/004-audit-jobs.md, 015-workbook-worker.md).
+ * src/lib/workers/ (docs/decisions/004-audit-jobs.md, 018-workbook-worker.md).
  */
 import type { Worker } from 'node:worker_threads';
 import { locateWorker, spawnWorker, type WorkerOrigin } from '../../workers/start-worker';

@@ -4,7 +4,7 @@
  * UPLOAD_READER_QUEUE more waiting in arrival order. Past that an upload or a confirmation is
  * refused at once with 503 `readers-busy` and `Retry-After`, so the heap all readers use together
  * stays below UPLOAD_READERS × UPLOAD_MAX_WORKBOOK_MEMORY_MB, and waiting requests hold at most
- * their bodies. docs/decisions/015-workbook-worker.md (why 503 and not 429).
+ * their bodies. docs/decisions/018-workbook-worker.md (why 503 and not 429).
  */
 import {
   acceptUploadInWorker, readUploadInWorker, type AcceptedRead, type ReadLimits, type UploadRead, type WaveChoice, type WaveFiles,
