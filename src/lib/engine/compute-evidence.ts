@@ -23,6 +23,7 @@ import { itemDescriptives } from '../stats/item-descriptives';
 import { itemRestCorrelations } from '../stats/item-rest-correlation';
 import { minresOneFactor } from '../stats/minres-factor';
 import { omegaTotal } from '../stats/omega-total';
+import { spectralInverse } from '../stats/spectral-inverse';
 import { symmetricEigen, symmetricEigenvalues, type SymmetricEigenDecomposition } from '../stats/symmetric-eigen';
 import { POLYCHORIC_MINIMUM_N, REPAIR_EIGENVALUE_FLOOR, TETRACHORIC_MINIMUM_N } from '../stats/tolerances';
 import { selectItems, type ItemMatrix, type NumericalNotice, type SquareMatrix } from '../stats/types';
@@ -467,22 +468,11 @@ export function inflationAndSpectrum(correlation: SquareMatrix, items: readonly 
   };
 }
 
-/** V diag(1/λ) Vᵀ when every eigenvalue is positive and λmax / λmin ≤ INVERSE_MAX_CONDITION, else null. */
+/** R⁻¹ (the core's spectral inverse) when every eigenvalue is positive and λmax / λmin ≤ INVERSE_MAX_CONDITION, else null. */
 function wellConditionedInverse(eigen: SymmetricEigenDecomposition): SquareMatrix | null {
-  const { order, values, vectors } = eigen;
+  const { order, values } = eigen;
   if (order === 0 || !(values[order - 1] > 0) || values[0] / values[order - 1] > INVERSE_MAX_CONDITION) return null;
-  const data = new Float64Array(order * order);
-  const scaled = new Float64Array(order);
-  for (let i = 0; i < order; i++) {
-    for (let k = 0; k < order; k++) scaled[k] = vectors.data[i * order + k] / values[k];
-    for (let j = i; j < order; j++) {
-      let sum = 0;
-      for (let k = 0; k < order; k++) sum += scaled[k] * vectors.data[j * order + k];
-      data[i * order + j] = sum;
-      data[j * order + i] = sum;
-    }
-  }
-  return { order, data };
+  return spectralInverse(eigen);
 }
 
 /** For each column the earlier column it is an exact copy of (same value in every row, missing alike), else -1. */
