@@ -161,13 +161,34 @@ function integerSumsExact(values: readonly Float64Array[], total: number): boole
 }
 
 /**
+ * Stores a pair's (weighted) count in both count matrices (an item's own entry in the correlation
+ * counts is `ownCount`: its answers with missing values, all rows without) and marks the pair
+ * undefined when too few rows hold it.
+ * @returns whether the pair has enough rows for a covariance.
+ */
+function recordPairCount(out: PairTargets, order: number, a: number, b: number, n: number, ownCount: number): boolean {
+  out.covN[a * order + b] = n;
+  out.covN[b * order + a] = n;
+  if (a !== b) {
+    out.rN[a * order + b] = n;
+    out.rN[b * order + a] = n;
+  } else {
+    out.rN[a * order + a] = ownCount;
+  }
+  if (n >= MIN_ROWS_FOR_COVARIANCE) return true;
+  out.undefinedCov.push([a, b]);
+  if (a !== b) out.undefinedR.push([a, b]);
+  return false;
+}
+
+/**
  * Integer answers (rating scales): the six sums of a pair are exact integers, so one
  * branch-free pass gives them, and n·Σxy − ΣxΣy (exact) gives the centred products to one rounding.
  */
 function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissing: boolean, total: number, out: PairTargets): void {
   const order = values.length;
   const distinct = w.length;
-  const { r, rN, cov, covN, undefinedR, undefinedCov } = out;
+  const { r, cov, undefinedR } = out;
   // Per item: the answer (0 where missing), its square, the weight where answered, weight × answer, weight × square.
   const x0 = values.map((column) => column.map((x) => (x === x ? x : 0)));
   const xx = x0.map((column) => column.map((x) => x * x));
@@ -199,19 +220,7 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
         syy += wa * xxB[t];
         sxy += wxA[t] * xB[t];
       }
-      covN[a * order + b] = n;
-      covN[b * order + a] = n;
-      if (a !== b) {
-        rN[a * order + b] = n;
-        rN[b * order + a] = n;
-      } else {
-        rN[a * order + a] = hasMissing ? n : total;
-      }
-      if (n < MIN_ROWS_FOR_COVARIANCE) {
-        undefinedCov.push([a, b]);
-        if (a !== b) undefinedR.push([a, b]);
-        continue;
-      }
+      if (!recordPairCount(out, order, a, b, n, hasMissing ? n : total)) continue;
       const centredXY = n * sxy - sx * sy;
       cov[a * order + b] = centredXY / (n * (n - 1));
       cov[b * order + a] = cov[a * order + b];
@@ -233,7 +242,7 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
 function twoPassPairs(values: readonly Float64Array[], w: Float64Array, hasMissing: boolean, total: number, out: PairTargets): void {
   const order = values.length;
   const distinct = w.length;
-  const { r, rN, cov, covN, undefinedR, undefinedCov } = out;
+  const { r, cov, undefinedR } = out;
   for (let a = 0; a < order; a++) {
     const x = values[a];
     for (let b = a; b < order; b++) {
@@ -261,19 +270,7 @@ function twoPassPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
         sumX += weight * u;
         sumY += weight * v;
       }
-      covN[a * order + b] = n;
-      covN[b * order + a] = n;
-      if (a !== b) {
-        rN[a * order + b] = n;
-        rN[b * order + a] = n;
-      } else {
-        rN[a * order + a] = hasMissing ? n : total;
-      }
-      if (n < MIN_ROWS_FOR_COVARIANCE) {
-        undefinedCov.push([a, b]);
-        if (a !== b) undefinedR.push([a, b]);
-        continue;
-      }
+      if (!recordPairCount(out, order, a, b, n, hasMissing ? n : total)) continue;
       const meanX = sumX / n;
       const meanY = sumY / n;
       let sxx = 0;
