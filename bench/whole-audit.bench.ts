@@ -16,7 +16,7 @@
  *
  * Run: `npm run bench -- whole-audit` (or `npx tsx bench/whole-audit.bench.ts`); `--quick` (or
  * PAREDOWN_BENCH_QUICK=1) runs every case at a small size, to check the benchmark itself; `--no-r`
- * skips R. The machine's load is printed first: on a shared machine every figure is slower.
+ * skips R; `--case A` (or `--case A,C`) runs only the cases named. The machine's load is printed first: on a shared machine every figure is slower.
  * Last lines, machine-readable: {"bench":"whole-audit-A",...}. Figures only: nothing asserts.
  */
 import { spawnSync } from 'node:child_process';
@@ -28,6 +28,9 @@ import { loadAverageAndCores, ordinalFactorData, withRScript, writeItemsCsv } fr
 
 const root = fileURLToPath(new URL('..', import.meta.url));
 const quick = process.argv.includes('--quick') || process.env.PAREDOWN_BENCH_QUICK === '1';
+const caseFlag = process.argv.indexOf('--case');
+/** Case letters to run (all when `--case` is not given). */
+const onlyCases = caseFlag >= 0 ? new Set((process.argv[caseFlag + 1] ?? '').toUpperCase().split(',').filter(Boolean)) : null;
 
 interface Case {
   readonly name: string;
@@ -162,6 +165,7 @@ console.log(`whole audit, file to JSON, beside R${quick ? ' (--quick: small size
 console.log(`  load average at start: ${loadAverageAndCores()} (other work on the machine slows every figure)`);
 const summary: Record<string, unknown>[] = [];
 for (const [index, entry] of CASES.entries()) {
+  if (onlyCases !== null && !onlyCases.has(entry.name.slice(-1))) continue;
   const directory = mkdtempSync(join(tmpdir(), 'paredown-whole-audit-'));
   try {
     const file = join(directory, 'items.csv');
