@@ -79,4 +79,16 @@ describe('workspace views of the demo audit', async () => {
     }
     expect(map.localDependence).toBe(Array.isArray(audit.pairs) && (audit.pairs as { wto?: unknown }[]).some((pair) => typeof pair.wto === 'number'));
   });
+
+  it('map pairs carry the audit pair’s modification index, its critical value and the standardized change', () => {
+    const pairs = (audit.pairs as Record<string, unknown>[]).map((pair, k) => (k === 0 ? { ...pair, mi: 14.25, miCritical: 10.83, sepc: 0.31 } : pair));
+    const map = buildOverlapMap('demo', { ...audit, pairs });
+    const first = pairs[0].items as string[];
+    const found = map.pairs.find((pair) => [map.items[pair.a].id, map.items[pair.b].id].sort().join('+') === [...first].sort().join('+'));
+    expect(found).toMatchObject({ mi: 14.25, miCritical: 10.83, sepc: 0.31 });
+    for (const pair of map.pairs) {
+      const source = pairs.find((entry) => (entry.items as string[]).includes(map.items[pair.a].id) && (entry.items as string[]).includes(map.items[pair.b].id));
+      expect(pair.mi).toBe(source?.mi ?? null);
+    }
+  });
 });

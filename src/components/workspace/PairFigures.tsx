@@ -44,6 +44,16 @@ export function HoverCard({ data, i, j, evidence, cluster }: { data: OverlapMapD
                 </dd>
               </>
             )}
+            {evidence.mi !== null && (
+              <>
+                <dt className="text-ink-faint">Modification index</dt>
+                <dd className="num text-left" data-testid="hover-mi">
+                  {evidence.mi.toFixed(1)}
+                  {evidence.miCritical !== null && <span className="text-ink-faint"> (flag above {evidence.miCritical.toFixed(1)})</span>}
+                  {evidence.sepc !== null && <span className="text-ink-faint">; standardized change {format(evidence.sepc)}</span>}
+                </dd>
+              </>
+            )}
             {evidence.wto !== null && (
               <>
                 <dt className="text-ink-faint">wTO</dt>
@@ -68,7 +78,7 @@ export function HoverCard({ data, i, j, evidence, cluster }: { data: OverlapMapD
       {evidence ? (
         <p className="text-xs text-ink-soft" data-testid="hover-evidence">
           Flagged by the audit{evidence.rules.length > 0 ? `: ${evidence.rules.join(', ')}` : ' as a strong pair'}.
-          {!data.localDependence && ' This audit has no local-dependence figures (residual, wTO, partial r).'}
+          {!data.localDependence && ' This audit has no local-dependence figures (residual, modification index, wTO, partial r).'}
         </p>
       ) : (
         <p className="text-xs text-ink-faint">Not among the pairs the audit flagged.{interval && ' Interval from Fisher\u2019s z on the rounded r.'}</p>

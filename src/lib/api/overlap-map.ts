@@ -48,6 +48,10 @@ export const mapPairSchema = z.object({
   /** Local-dependence evidence when the audit has it (audit-json.md, `pairs`). */
   residual: nullableNumber,
   residualCritical: nullableNumber,
+  /** Modification index of the pair's residual covariance in its scale's one-factor model, its critical value and the standardized expected change. */
+  mi: nullableNumber,
+  miCritical: nullableNumber,
+  sepc: nullableNumber,
   wto: nullableNumber,
   partial: nullableNumber,
   wording: nullableNumber,
