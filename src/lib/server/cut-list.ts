@@ -26,14 +26,11 @@ import {
 } from '../api/cut-list';
 import { can, type Role } from '../permissions';
 import { logActivity } from './activity';
+import { doneAuditResult } from './audit-jobs/done-audit-results';
 import type { CurrentUser } from './current-user';
 import { getDb } from './db';
 import { fail } from './errors';
 import type { StudyRow } from './guard';
-
-/** Parsed audit JSON kept per audit id (a done audit never changes), at most this many. */
-const RESULT_CACHE_SIZE = 4;
-const resultCache = new Map<string, AuditJson>();
 
 /** The reference audit of a study, with its parsed result. */
 export interface ReferenceAudit {
@@ -61,14 +58,9 @@ export function referenceAudit(db: Db, studyId: string): ReferenceAudit | null {
     .limit(1)
     .get();
   if (!row) return null;
-  let result = resultCache.get(row.id);
-  if (!result) {
-    const text = db.select({ result: audits.result }).from(audits).where(eq(audits.id, row.id)).get()?.result;
-    if (!text) return null;
-    result = JSON.parse(text) as AuditJson;
-    resultCache.set(row.id, result);
-    while (resultCache.size > RESULT_CACHE_SIZE) resultCache.delete(resultCache.keys().next().value as string);
-  }
+  // Parsed once per process and shared, frozen (a done audit never changes).
+  const result = doneAuditResult(db, row.id);
+  if (!result) return null;
   return { ...row, settings: (row.settings ?? {}) as Record<string, unknown>, result };
 }
 
