@@ -14,17 +14,23 @@
  * Goals (issue 16): health p95 under 50 ms while the journeys run; the readers with no error and
  * p95 under 500 ms. Figures, not a test: it never fails on time.
  *
+ * The readers' figures include the server's CPU time per page (user + system of the whole
+ * process over the readers phase, divided by the pages): on a shared machine the latencies grow
+ * with other processes' load, the CPU time per page much less.
+ *
  * Run: npm run build && npx tsx bench/load.bench.ts
  * Smaller: LOAD_READERS=10 LOAD_READER_REQUESTS=200 LOAD_JOURNEYS=4 npx tsx bench/load.bench.ts
+ * The readers alone (idle, then readers; no journeys): npx tsx bench/load.bench.ts --readers-only
  */
 import { existsSync } from 'node:fs';
-import { availableParallelism } from 'node:os';
+import { availableParallelism, loadavg } from 'node:os';
 import { join } from 'node:path';
 import { startTestServer } from '../tests/setup/app-server';
 import { demoEmails, signedInAt, type HttpClient } from '../tests/setup/http-client';
 import { loadAverageAndCores } from './bench-helpers';
 import { samplesBetween, sampleHealth } from './load/health-sampler';
 import { demoFiles, runJourney, type JourneyOutcome } from './load/journeys';
+import { cpuTimeMs } from './load/cpu-time';
 import { describeLatencies, summarise } from './load/latency';
 import { currentRss, megabytes, peakRss, resetPeakRss } from './load/peak-memory';
 import { readPages, type ReaderGroup } from './load/readers';
@@ -36,7 +42,8 @@ const READER_GOAL_MS = 500;
 const READERS = Number(process.env.LOAD_READERS ?? 50);
 const READER_REQUESTS = Number(process.env.LOAD_READER_REQUESTS ?? 2_000);
 const READERS_MAX_MS = 60_000;
-const JOURNEYS = Number(process.env.LOAD_JOURNEYS ?? 20);
+const READERS_ONLY = process.argv.includes('--readers-only');
+const JOURNEYS = READERS_ONLY ? 0 : Number(process.env.LOAD_JOURNEYS ?? 20);
 const JOURNEYS_MAX_MS = 10 * 60_000;
 
 const root = process.cwd();
@@ -100,9 +107,16 @@ async function main(): Promise<void> {
 
     // 2. readers
     resetPeakRss(server.pid);
+    const readersCpuFrom = cpuTimeMs(server.pid);
     const readersFrom = performance.now();
     const readers = await readPages(server.baseUrl, groups, { timeoutSeconds: 10, maxMs: READERS_MAX_MS });
     const readersTo = performance.now();
+    const readersCpuTo = cpuTimeMs(server.pid);
+    const readersLoad = loadavg()[0];
+    // The server's CPU time per page answered (health samples included: one every 50 ms, a few per cent).
+    const cpuMsPerPage =
+      readersCpuFrom === null || readersCpuTo === null || readers.latencies.length === 0 ? null : Math.round(((readersCpuTo - readersCpuFrom) / readers.latencies.length) * 100) / 100;
+    const pagesPerSecond = Math.round((readers.latencies.length / (readers.durationMs / 1000)) * 10) / 10;
     const readersPeak = peakRss(server.pid);
     await sleep(500);
 
@@ -146,18 +160,21 @@ async function main(): Promise<void> {
     }
     console.log(`\nReaders: ${READERS} connections, ${readers.latencies.length} pages in ${(readers.durationMs / 1000).toFixed(1)} s (goal: no error, p95 under ${READER_GOAL_MS} ms)`);
     console.log(`  ${describeLatencies(readerFigures, 'pages')}`);
+    console.log(`  ${pagesPerSecond} pages/s; server CPU ${cpuMsPerPage ?? 'n/a'} ms per page; load average ${readersLoad.toFixed(2)} at the end of the phase`);
     console.log(`  statuses ${JSON.stringify(readers.statuses)}   non-2xx ${readers.non2xx}   errors ${readers.errors}   timeouts ${readers.timeouts}`);
-    console.log(`\nJourneys: ${JOURNEYS} at once (${journeys.filter((j) => j.format === 'csv').length} CSV + codebook, ${journeys.filter((j) => j.format === 'xlsx').length} XLSX), ${((journeysTo - journeysFrom) / 1000).toFixed(1)} s in all`);
-    for (const [step, figures] of Object.entries(steps)) console.log(`  ${step.padEnd(11)} ${describeLatencies(figures, 'journeys')}`);
-    console.log(`  errors ${journeyErrors.length}   429/503 waited out and retried: ${retries}`);
-    for (const journey of journeyErrors.slice(0, 5)) console.log(`    ${journey.format}: ${journey.error}`);
+    if (!READERS_ONLY) {
+      console.log(`\nJourneys: ${JOURNEYS} at once (${journeys.filter((j) => j.format === 'csv').length} CSV + codebook, ${journeys.filter((j) => j.format === 'xlsx').length} XLSX), ${((journeysTo - journeysFrom) / 1000).toFixed(1)} s in all`);
+      for (const [step, figures] of Object.entries(steps)) console.log(`  ${step.padEnd(11)} ${describeLatencies(figures, 'journeys')}`);
+      console.log(`  errors ${journeyErrors.length}   429/503 waited out and retried: ${retries}`);
+      for (const journey of journeyErrors.slice(0, 5)) console.log(`    ${journey.format}: ${journey.error}`);
+    }
     console.log(`\nServer memory: idle ${megabytes(idleRss)} resident; peak during the readers ${megabytes(readersPeak)}, during the journeys ${megabytes(journeysPeak)}`);
     console.log(
       JSON.stringify({
         bench: 'load',
         cores: availableParallelism(),
         health: healthFigures,
-        readers: { connections: READERS, ...readerFigures, non2xx: readers.non2xx, errors: readers.errors, timeouts: readers.timeouts },
+        readers: { connections: READERS, ...readerFigures, pagesPerSecond, cpuMsPerPage, loadAverage: readersLoad, non2xx: readers.non2xx, errors: readers.errors, timeouts: readers.timeouts },
         journeys: { count: JOURNEYS, steps, errors: journeyErrors.length, retries },
         peakRssMB: { readers: readersPeak === null ? null : Math.round(readersPeak / 1e6), journeys: journeysPeak === null ? null : Math.round(journeysPeak / 1e6) },
         goals: {

@@ -7,7 +7,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import type { CutReason } from '../../src/lib/engine/recommend-cuts';
-import { cautionSentence, constraintWords, formatNumber, formatShare, listOf, pageCautions, reasonSentence, settingsLine, statusWords } from '../../src/lib/words';
+import { cautionSentence, constraintWords, formatDuration, formatNumber, formatShare, listOf, pageCautions, reasonSentence, settingsLine, statusWords } from '../../src/lib/words';
 
 const pair = { items: ['A1', 'A5'] as const, r: 0.9312, n: 211, lower: 0.9104, upper: 0.9473, wording: 0.4 };
 const base: CutReason = {
@@ -106,6 +106,22 @@ describe('cautionSentence', () => {
 });
 
 describe('labels and formats', () => {
+  it('formatNumber writes what toLocaleString("en-GB") writes, for any decimals', () => {
+    // The reference is the engine's own en-GB text, with the minus sign as U+2212.
+    const values = [0, -0, 0.5, -0.5, 0.005, 0.015, 1 / 3, -2 / 3, 12.345, 999.9995, 1234.5678, -98765.4321, 1e7 + 0.25];
+    for (const digits of [0, 1, 2, 3, 4]) {
+      for (const value of values) {
+        const reference = value.toLocaleString('en-GB', { minimumFractionDigits: digits, maximumFractionDigits: digits }).replace('-', '\u2212');
+        expect(formatNumber(value, digits)).toBe(reference);
+      }
+    }
+    for (const milliseconds of [0, 49, 950, 12_345, 59_949]) {
+      const reference = `${(milliseconds / 1000).toLocaleString('en-GB', { maximumFractionDigits: 1 })} s`;
+      expect(formatDuration(milliseconds)).toBe(reference);
+    }
+    expect(formatDuration(125_000)).toBe('2 min 5 s');
+  });
+
   it('words lists, statuses, constraints, numbers and the settings line', () => {
     expect(listOf(['a'])).toBe('a');
     expect(listOf(['a', 'b', 'c'])).toBe('a, b and c');
@@ -114,6 +130,10 @@ describe('labels and formats', () => {
     expect(formatNumber(-0.5)).toBe('\u22120.50');
     expect(formatNumber(null)).toBe('—');
     expect(formatShare(0.944)).toBe('94%');
+    // The formatter is made once per count of decimals: a later call with other decimals gets its own.
+    expect(formatNumber(1234.5678, 3)).toBe('1,234.568');
+    expect(formatNumber(1234.5678, 1)).toBe('1,234.6');
+    expect(formatNumber(-0.004, 2)).toBe('\u22120.00');
     expect(settingsLine({ method: 'spearman', missing: 'listwise', bootstrap: 0, seed: 1, outcome: 'overall' })).toBe('Spearman, listwise deletion · no bootstrap · outcome overall');
   });
 });

@@ -85,7 +85,17 @@ const textFilter: FilterFn<ItemRow> = (row, _columnId, value: string) => {
   return [id, scale, text, proposal].some((field) => field?.toLowerCase().includes(needle));
 };
 
+/**
+ * The island: a thin shell on purpose. To learn whether an island is a React component, Astro's
+ * React renderer calls its function once outside the real render (`check` in @astrojs/react),
+ * which here built the whole table a second time on every page; the table is built in
+ * {@link ItemTableBody}, which that probe does not call (docs/decisions/023-page-cost.md).
+ */
 export default function ItemTable({ rows }: { rows: ItemRow[] }) {
+  return <ItemTableBody rows={rows} />;
+}
+
+function ItemTableBody({ rows }: { rows: ItemRow[] }) {
   const [sorting, setSorting] = useState<SortingState>([]);
   const [search, setSearch] = useState('');
   const [scale, setScale] = useState('');

@@ -105,14 +105,53 @@ export async function resolveCaller(request: Request): Promise<Resolution> {
     }
     return { user: null, via: null, problem: 'token-not-recognised' };
   }
-  if (!request.headers.get('cookie')) return { user: null, via: null, problem: null };
-  const config = getConfig();
-  const jwt = await getToken({ req: request, secret: config.authSecret, secureCookie: config.secureCookies, logger: silentLogger });
-  if (!jwt?.sub) return { user: null, via: null, problem: null };
+  const cookie = request.headers.get('cookie');
+  if (!cookie) return { user: null, via: null, problem: null };
+  const jwt = await sessionClaims(request, cookie);
+  if (!jwt) return { user: null, via: null, problem: null };
   const epoch = getDb().select({ sessionEpoch: users.sessionEpoch }).from(users).where(eq(users.id, jwt.sub)).get();
-  if (!epoch || epoch.sessionEpoch !== (jwt.epoch ?? 0)) return { user: null, via: null, problem: null };
+  if (!epoch || epoch.sessionEpoch !== jwt.epoch) return { user: null, via: null, problem: null };
   const user = loadUser(jwt.sub);
   return { user, via: user ? 'session' : null, problem: null };
+}
+
+/** What a session cookie says once decrypted and checked: who, their session epoch, and until when. */
+interface SessionClaims {
+  sub: string;
+  /** The session epoch the token was issued under (0 for tokens from before epochs). */
+  epoch: unknown;
+  /** Expiry, in seconds since 1970 (the JWT's `exp`). */
+  exp: number;
+}
+
+/** Decrypted session cookies kept, at most this many (the oldest out first). */
+export const SESSION_CLAIMS_KEPT = 1_000;
+const claimsByCookie = new Map<string, SessionClaims>();
+
+/**
+ * The claims of the request's session cookie. Decrypting it (Auth.js `getToken`: a key
+ * derivation and an AES decryption) was the largest part of identifying a caller, and every page
+ * of a signed-in reader sends the same cookie, so a cookie header that decrypted to a valid session
+ * is remembered with what it said: the same bytes decrypt to the same claims. Only successes are
+ * kept, and only until the token's own expiry; the session epoch is still compared with the
+ * user's on every request (resolveCaller), so a sign-out or password change ends the session at
+ * once whatever is kept here (docs/decisions/023-page-cost.md).
+ * @param request the request (its cookies).
+ * @param cookie its Cookie header, the key.
+ * @returns the claims, or null when there is no valid session cookie.
+ */
+async function sessionClaims(request: Request, cookie: string): Promise<SessionClaims | null> {
+  const config = getConfig();
+  const key = `${config.secureCookies ? 's' : 'p'}:${cookie}`;
+  const kept = claimsByCookie.get(key);
+  if (kept && Date.now() / 1000 < kept.exp) return kept;
+  if (kept) claimsByCookie.delete(key);
+  const jwt = await getToken({ req: request, secret: config.authSecret, secureCookie: config.secureCookies, logger: silentLogger });
+  if (!jwt?.sub || typeof jwt.exp !== 'number') return null;
+  const claims: SessionClaims = { sub: jwt.sub, epoch: jwt.epoch ?? 0, exp: jwt.exp };
+  claimsByCookie.set(key, claims);
+  if (claimsByCookie.size > SESSION_CLAIMS_KEPT) claimsByCookie.delete(claimsByCookie.keys().next().value as string);
+  return claims;
 }
 
 const silentLogger = { error() {}, warn() {}, debug() {}, log() {}, info() {} } as unknown as Console;

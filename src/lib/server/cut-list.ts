@@ -26,14 +26,11 @@ import {
 } from '../api/cut-list';
 import { can, type Role } from '../permissions';
 import { logActivity } from './activity';
+import { doneAuditResult } from './audit-jobs/done-audit-results';
 import type { CurrentUser } from './current-user';
 import { getDb } from './db';
 import { fail } from './errors';
 import type { StudyRow } from './guard';
-
-/** Parsed audit JSON kept per audit id (a done audit never changes), at most this many. */
-const RESULT_CACHE_SIZE = 4;
-const resultCache = new Map<string, AuditJson>();
 
 /** The reference audit of a study, with its parsed result. */
 export interface ReferenceAudit {
@@ -61,14 +58,9 @@ export function referenceAudit(db: Db, studyId: string): ReferenceAudit | null {
     .limit(1)
     .get();
   if (!row) return null;
-  let result = resultCache.get(row.id);
-  if (!result) {
-    const text = db.select({ result: audits.result }).from(audits).where(eq(audits.id, row.id)).get()?.result;
-    if (!text) return null;
-    result = JSON.parse(text) as AuditJson;
-    resultCache.set(row.id, result);
-    while (resultCache.size > RESULT_CACHE_SIZE) resultCache.delete(resultCache.keys().next().value as string);
-  }
+  // Parsed once per process and shared, frozen (a done audit never changes).
+  const result = doneAuditResult(db, row.id);
+  if (!result) return null;
   return { ...row, settings: (row.settings ?? {}) as Record<string, unknown>, result };
 }
 
@@ -139,14 +131,23 @@ function actionAsDecision(action: { action: string; into: string | null }): { de
   return { decision, into: decision === 'merge' ? action.into : null };
 }
 
+/** The items of a study's cut list with their decisions, and what they were worked out from. */
+interface DecidedItems {
+  reference: ReferenceAudit | null;
+  constraints: CutListConstraints;
+  items: CutListItem[];
+  counts: Record<DecisionKind, number>;
+  recommendations: AuditJson['recommendations'];
+}
+
 /**
- * The whole cut list of a study as the API answers it.
+ * The items of the cut list with their decisions and the counts, without the history and the
+ * recommendation views (what the study page needs, at a fraction of the cost).
+ * @param db the database.
  * @param study the study (access checked by the guard).
- * @param role the caller's role (for canDecide).
- * @returns items with decisions, recommendations, counts, constraints and the history.
+ * @returns the reference audit, constraints, items, counts and the reference audit's recommendations.
  */
-export function cutList(study: StudyRow, role: Role | null): CutListResponse {
-  const db = getDb();
+function decidedItems(db: Db, study: StudyRow): DecidedItems {
   const reference = referenceAudit(db, study.id);
   const base = baseItems(db, study.id, reference);
   const constraints = constraintsOf(study, reference);
@@ -194,7 +195,18 @@ export function cutList(study: StudyRow, role: Role | null): CutListResponse {
 
   const counts: Record<DecisionKind, number> = { keep: 0, drop: 0, merge: 0, reword: 0, undecided: 0 };
   for (const item of items) if (item.inAudit) counts[item.decision] += 1;
+  return { reference, constraints, items, counts, recommendations };
+}
 
+/**
+ * The whole cut list of a study as the API answers it.
+ * @param study the study (access checked by the guard).
+ * @param role the caller's role (for canDecide).
+ * @returns items with decisions, recommendations, counts, constraints and the history.
+ */
+export function cutList(study: StudyRow, role: Role | null): CutListResponse {
+  const db = getDb();
+  const { reference, constraints, items, counts, recommendations } = decidedItems(db, study);
   const current = new Map(items.map((item) => [item.id, item]));
   const recommendationViews: CutListRecommendation[] = recommendations.map((recommendation, index) => ({
     index,
@@ -235,13 +247,23 @@ export function cutList(study: StudyRow, role: Role | null): CutListResponse {
 }
 
 /**
+ * The items of a study's cut list with their current decisions (the cut list's `items`, without
+ * its history and recommendation views).
+ * @param study the study (access checked by the guard).
+ * @returns the items, those of the reference audit first.
+ */
+export function cutListItems(study: StudyRow): CutListItem[] {
+  return decidedItems(getDb(), study).items;
+}
+
+/**
  * The decision counts the study page shows (items of the reference audit, else of the latest
  * confirmed wave; an item with no decision counts as undecided).
  * @param study the study.
  * @returns counts per decision.
  */
 export function cutListCounts(study: StudyRow): Record<DecisionKind, number> {
-  return cutList(study, null).counts;
+  return decidedItems(getDb(), study).counts;
 }
 
 /** Names of the given users. */

@@ -11,7 +11,24 @@
  */
 export function formatNumber(value: number | null | undefined, digits = 2): string {
   if (value === null || value === undefined || !Number.isFinite(value)) return '—';
-  return value.toLocaleString('en-GB', { minimumFractionDigits: digits, maximumFractionDigits: digits }).replace('-', '\u2212');
+  return fixedDecimals(digits).format(value).replace('-', '\u2212');
+}
+
+/**
+ * One formatter per count of decimals, made once: `toLocaleString` with options builds a new
+ * `Intl.NumberFormat` on every call (tens of microseconds each), which made formatting most of
+ * the cost of an audit page with its thousands of figures (docs/decisions/023-page-cost.md).
+ * The text is the same: `toLocaleString(locale, options)` is defined as that formatter's `format`.
+ */
+const formatterByDigits = new Map<number, Intl.NumberFormat>();
+
+function fixedDecimals(digits: number): Intl.NumberFormat {
+  let formatter = formatterByDigits.get(digits);
+  if (!formatter) {
+    formatter = new Intl.NumberFormat('en-GB', { minimumFractionDigits: digits, maximumFractionDigits: digits });
+    formatterByDigits.set(digits, formatter);
+  }
+  return formatter;
 }
 
 /**
@@ -24,6 +41,9 @@ export function formatShare(value: number | null | undefined): string {
   return `${Math.round(value * 100)}%`;
 }
 
+/** Seconds with at most one decimal (made once, as for {@link formatNumber}). */
+const upToOneDecimal = new Intl.NumberFormat('en-GB', { maximumFractionDigits: 1 });
+
 /**
  * A duration in words.
  * @param milliseconds the duration.
@@ -31,7 +51,7 @@ export function formatShare(value: number | null | undefined): string {
  */
 export function formatDuration(milliseconds: number | null | undefined): string {
   if (milliseconds === null || milliseconds === undefined || !Number.isFinite(milliseconds)) return '—';
-  if (milliseconds < 60_000) return `${(milliseconds / 1000).toLocaleString('en-GB', { maximumFractionDigits: 1 })} s`;
+  if (milliseconds < 60_000) return `${upToOneDecimal.format(milliseconds / 1000)} s`;
   const minutes = Math.floor(milliseconds / 60_000);
   return `${minutes} min ${Math.round((milliseconds - minutes * 60_000) / 1000)} s`;
 }

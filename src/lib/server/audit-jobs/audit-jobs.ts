@@ -20,6 +20,8 @@ import { getDb } from '../db';
 import { fail, HttpError } from '../errors';
 import { nothingToCompute } from '../../audit/audit-input';
 import { storedWaveForJob } from './stored-job-wave';
+import { doneAuditResult } from './done-audit-results';
+import type { AuditJson } from '../../audit/audit-json';
 export { storedWaveForJob } from './stored-job-wave';
 import { decodeMatrix } from '../../ingest/matrix-blob';
 import type { StudyRow } from '../guard';
@@ -256,6 +258,16 @@ export class AuditJobs {
    */
   resultText(auditId: string): string | null {
     return this.db.select({ result: audits.result }).from(audits).where(and(eq(audits.id, auditId), eq(audits.status, 'done'))).get()?.result ?? null;
+  }
+
+  /**
+   * The parsed result of a finished audit, shared and frozen (read and parsed once per process:
+   * done-audit-results.ts).
+   * @param auditId the audit.
+   * @returns the result, or null when it has none (not done, or no such audit).
+   */
+  result(auditId: string): AuditJson | null {
+    return doneAuditResult(this.db, auditId);
   }
 
   /**

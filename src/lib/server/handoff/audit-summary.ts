@@ -5,7 +5,7 @@
  */
 import { and, desc, eq } from 'drizzle-orm';
 import { audits, waves } from '../../../db/schema';
-import type { AuditJson } from '../../audit/audit-json';
+import { doneAuditResult } from '../audit-jobs/done-audit-results';
 import { getDb } from '../db';
 
 /** One scale's reliability before and after the audit's proposed cut. */
@@ -48,14 +48,16 @@ export interface AuditSummary {
 export function auditSummary(studyId: string, preferred: string | null): AuditSummary | null {
   const db = getDb();
   const base = db
-    .select({ id: audits.id, result: audits.result, finishedAt: audits.finishedAt, label: waves.label })
+    .select({ id: audits.id, finishedAt: audits.finishedAt, label: waves.label })
     .from(audits)
     .innerJoin(waves, eq(waves.id, audits.waveId));
   const row =
     (preferred ? base.where(and(eq(waves.studyId, studyId), eq(audits.id, preferred), eq(audits.status, 'done'))).get() : undefined) ??
     base.where(and(eq(waves.studyId, studyId), eq(audits.status, 'done'))).orderBy(desc(audits.finishedAt)).limit(1).get();
-  if (!row?.result) return null;
-  const result = JSON.parse(row.result) as AuditJson;
+  if (!row) return null;
+  // Parsed once per process and shared, frozen (a done audit never changes).
+  const result = doneAuditResult(db, row.id);
+  if (!result) return null;
   const vifs = result.items.map((item) => item.vif).filter((v): v is number => typeof v === 'number' && Number.isFinite(v));
   const after = new Map((result.afterCut?.scales ?? []).map((scale) => [scale.id, scale]));
   return {

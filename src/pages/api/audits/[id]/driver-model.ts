@@ -1,6 +1,5 @@
 import type { APIRoute } from 'astro';
 import type { DriverCoefficientView, DriverModelResponse } from '../../../../lib/api/driver-model';
-import type { AuditJson } from '../../../../lib/audit/audit-json';
 import { auditJobs } from '../../../../lib/server/audit-jobs/audit-jobs';
 import { endpoint } from '../../../../lib/server/endpoint';
 import { fail } from '../../../../lib/server/errors';
@@ -17,9 +16,8 @@ export const GET: APIRoute = endpoint(({ locals, params }) => {
   const jobs = auditJobs();
   const summary = jobs.summary(id);
   if (!summary) throw fail.notFound('No such audit among your teams.', 'audit-not-found');
-  const text = jobs.resultText(id);
-  if (text === null) throw fail.conflict(`The audit is ${summary.status}; its driver model can be read once it is done.`, 'audit-not-done');
-  const audit = JSON.parse(text) as AuditJson;
+  const audit = jobs.result(id);
+  if (audit === null) throw fail.conflict(`The audit is ${summary.status}; its driver model can be read once it is done.`, 'audit-not-done');
   const model = audit.outcomeModel;
   let answer: DriverModelResponse;
   if (!model) {
