@@ -9,6 +9,7 @@
  * analysis), then the redundancy engine (clusters, constrained cut list, what-if, bootstrap
  * stability), then the optional outcome model. Pure: no file, database or framework.
  */
+import type { ResampleRunner } from '../engine/bootstrap-stability';
 import { runEngine } from '../engine/run-engine';
 import { fitOutcomeModel, outcomePredictorColumns, refitOutcomeAfterCut } from './outcome-model';
 import { computeEvidence, namePositions } from '../engine/compute-evidence';
@@ -94,6 +95,8 @@ const STAGE_SPAN = Object.freeze({ evidence: [0, 0.2], structure: [0.2, 0.3], en
  *   outcome; every unset value takes its stated default.
  * @param onProgress Called with the stage and overall fraction done.
  * @param signal Aborts between bootstrap resamples.
+ * @param resampleRunner Decides the bootstrap's resamples (the command line's worker threads,
+ *   resample-threads.ts); default: on the calling thread. The figures are the same either way.
  * @throws {RangeError} when the items do not match the matrix, a setting is out of range, or the
  *   settings name an outcome that was not supplied.
  * @returns The audit JSON; statistics that do not exist are null with a warning.
@@ -104,6 +107,7 @@ export async function runAudit(
   settings: AuditSettings = {},
   onProgress?: AuditProgress,
   signal?: AbortSignal,
+  resampleRunner?: ResampleRunner,
 ): Promise<AuditJson> {
   const lockedItems = input.items.filter((item) => item.locked).map((item) => item.id);
   // The stored shape (settings-table.ts), echoed unchanged as the JSON's `settings`. testFault is
@@ -160,6 +164,7 @@ export async function runAudit(
     engineSettings,
     (stage, fraction) => report('engine', stage === 'bootstrap' ? 0.1 + 0.9 * fraction : 0.1 * fraction),
     signal,
+    resampleRunner,
   );
   warnings.push(...engine.warnings.map(plainWarning));
 
