@@ -10,7 +10,9 @@
  * stability), then the optional outcome model. Pure: no file, database or framework.
  */
 import type { ResampleRunner } from '../engine/bootstrap-stability';
+import { attachNetwork, networkCanCount } from '../engine/network-when-it-counts';
 import { runEngine } from '../engine/run-engine';
+import { wordingSimilarity } from '../engine/wording-similarity';
 import { fitOutcomeModel, outcomePredictorColumns, refitOutcomeAfterCut } from './outcome-model';
 import { computeEvidence, namePositions } from '../engine/compute-evidence';
 import { principalSubmatrix } from '../engine/principal-submatrix';
@@ -132,7 +134,12 @@ export async function runAudit(
   if (engineSettings.missing === 'listwise') refuseListwiseWithoutRows(input);
 
   report('evidence', 0);
-  const evidence = computeEvidence(input.matrix, input.items, engineSettings);
+  // The network only where it can count (network-when-it-counts.ts): the same audit, without a
+  // 100-penalty graphical-lasso path no number of it would show.
+  const withoutNetwork = computeEvidence(input.matrix, input.items, engineSettings, { localDependence: { network: false } });
+  const evidence = networkCanCount(withoutNetwork, wordingSimilarity(input.items.map((item) => item.text)), engineSettings)
+    ? attachNetwork(withoutNetwork, engineSettings, null)
+    : withoutNetwork;
   report('evidence', 1);
 
   report('structure', 0);
