@@ -80,7 +80,7 @@ export function createResampleThreadRunner(threads: number): ResampleRunner {
       return new Promise<ResampleOutcome>((resolve, reject) => {
         chosen.pending.set(id, { resolve, reject });
         const request: ResampleRequest = { type: 'decide', id, rows };
-        chosen.worker.postMessage(request, [rows.buffer]);
+        chosen.worker.postMessage(request, [rows.buffer as ArrayBuffer]);
       });
     },
     async close(): Promise<void> {
