@@ -2,7 +2,7 @@
  * Bootstrap resamples decided on worker threads (src/lib/audit/resample-threads.ts): the same
  * stability figures, exactly, on the calling thread, on one thread and on two, for one seed; the
  * threads end when the bootstrap ends; a resample that throws on its thread fails the bootstrap
- * instead of hanging it. The threads run resample-worker.ts from source (through tsx) here.
+ * instead of hanging it. The threads run resample-worker.ts bundled from source here (locateBundledWorker).
  */
 import { describe, expect, it } from 'vitest';
 import { createResampleThreadRunner, MAX_RESAMPLE_THREADS } from '../../src/lib/audit/resample-threads';

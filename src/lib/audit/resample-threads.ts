@@ -11,7 +11,7 @@ import type { Worker } from 'node:worker_threads';
 import type { ResampleRunner } from '../engine/bootstrap-stability';
 import type { ResampleContext, ResampleOutcome } from '../engine/resample-decision';
 import type { ItemMatrix } from '../stats/types';
-import { locateWorker, spawnWorker } from '../workers/start-worker';
+import { locateBundledWorker, spawnWorker } from '../workers/start-worker';
 import { RESAMPLE_WORKER } from '../workers/worker-entries';
 import type { ResampleAnswer, ResampleRequest } from './resample-protocol';
 
@@ -48,7 +48,7 @@ export function createResampleThreadRunner(threads: number): ResampleRunner {
     parallelism: threads,
     async start(matrix: ItemMatrix, context: ResampleContext): Promise<void> {
       if (pool.length > 0) throw new Error('createResampleThreadRunner: start was called twice');
-      const origin = locateWorker(RESAMPLE_WORKER);
+      const origin = locateBundledWorker(RESAMPLE_WORKER);
       for (let index = 0; index < threads; index++) {
         const worker = spawnWorker(origin, { name: `${RESAMPLE_WORKER.name}-${index + 1}` });
         const thread: Thread = { worker, pending: new Map(), failure: null };
