@@ -11,7 +11,7 @@
 import { coreDetectors } from './core-detectors';
 import type { EngineSettings } from './engine-settings';
 import { MAX_NETWORK_ITEMS } from './engine-settings';
-import { localDependenceNetwork, type LocalDependenceReuse } from './local-dependence';
+import { localDependenceNetwork, MIN_ITEMS_FOR_RESIDUALS, type LocalDependenceReuse } from './local-dependence';
 import { findOverlapClusters } from './overlap-clusters';
 import type { EngineEvidence } from './types';
 
@@ -38,8 +38,8 @@ export function attachNetwork(evidence: EngineEvidence, settings: Pick<EngineSet
 
 /**
  * Whether the network can show anywhere in the audit (see the module comment): some scale has
- * local-dependence evidence (wTO may link its pairs, here or in a resample, and the resamples
- * reuse the penalty), or some pair is linked or some cluster or near-dependency found (their
+ * local-dependence evidence, or enough usable items for it (wTO may link its pairs, here or in a
+ * resample, and the resamples reuse the penalty), or some pair is linked or some cluster or near-dependency found (their
  * reports carry wTO and the partial correlation), or the wave has more items than the network takes (its warning says so).
  * @param evidence Evidence computed without the network.
  * @param wording Wording similarity in items[] order.
@@ -51,6 +51,14 @@ export function networkCanCount(evidence: EngineEvidence, wording: readonly (rea
   const local = evidence.localDependence;
   if (local === null) return false;
   if (local.scales.length > 0 || evidence.usable.length > MAX_NETWORK_ITEMS) return true;
+  // A scale large enough for residuals whose one-factor model failed here may fit in a resample,
+  // which then needs the full sample's penalty: such a wave keeps its network.
+  const members = new Map<string, number>();
+  for (const index of evidence.usable) {
+    const scale = evidence.items[index].scale;
+    if (scale !== null) members.set(scale, (members.get(scale) ?? 0) + 1);
+  }
+  if ([...members.values()].some((count) => count >= MIN_ITEMS_FOR_RESIDUALS)) return true;
   const found = findOverlapClusters(evidence, wording, settings);
   return found.linkedPairs.length > 0 || found.clusters.length > 0 || found.dependencies.length > 0;
 }
