@@ -13,9 +13,11 @@
  * error: what is wrong and how to fix it), 1 internal fault.
  */
 import { readFile, writeFile } from 'node:fs/promises';
+import { availableParallelism } from 'node:os';
 import { basename } from 'node:path';
 import { parseArgs } from 'node:util';
 import { auditInputFromSetup, auditSetupOf, AuditInputError, nothingToCompute, proposedCorrelationMethod } from '../lib/audit/audit-input';
+import { createResampleThreadRunner, MAX_RESAMPLE_THREADS } from '../lib/audit/resample-threads';
 import { runAudit } from '../lib/audit/run-audit';
 import { auditSettingsSchema } from '../lib/audit/settings-schema';
 import { AUDIT_SETTINGS, AuditSettingsError, auditSettingsProblems, requestFromFlags, resolveAuditSettings } from '../lib/audit/settings-table';
@@ -152,7 +154,7 @@ async function main(argv: string[]): Promise<number> {
       lastPercent = percent;
       process.stderr.write(`  ${String(percent).padStart(3)}%  ${stage}\n`);
     }
-  });
+  }, undefined, createResampleThreadRunner(Math.min(MAX_RESAMPLE_THREADS, availableParallelism())));
   const json = `${JSON.stringify(audit, null, 2)}\n`;
   if (values.out) {
     await writeFile(values.out, json);

@@ -76,6 +76,44 @@ describe('weightedPearson', () => {
     expect(covariance.rowsUsed).toBe(expectedCov.rowsUsed);
   });
 
+  // The integer path groups its exact sums differently (totals less the partner's missing rows,
+  // Σwxy four partners at a time); exact integer sums make any grouping give the same bits as the
+  // plain pair loop written out here.
+  it('gives integer answers bit for bit the exact one-pass pair sums', () => {
+    const rows = 400;
+    const columns = 11; // two blocks of four partners and a remainder
+    const matrix = randomMatrix(rows, columns, 0.15, 99);
+    const { weights } = resample(rows, 5);
+    const used = Array.from({ length: columns - 1 }, (__, j) => j);
+    const result = weightedPearson(matrix, weights, used, 'pairwise')!;
+    const order = used.length;
+    for (let a = 0; a < order; a++) {
+      for (let b = a + 1; b < order; b++) {
+        let n = 0;
+        let sx = 0;
+        let sy = 0;
+        let sxx = 0;
+        let syy = 0;
+        let sxy = 0;
+        for (let i = 0; i < rows; i++) {
+          const x = matrix.data[a * rows + i];
+          const y = matrix.data[b * rows + i];
+          if (x !== x || y !== y || weights[i] === 0) continue;
+          n += weights[i];
+          sx += weights[i] * x;
+          sy += weights[i] * y;
+          sxx += weights[i] * x * x;
+          syy += weights[i] * y * y;
+          sxy += weights[i] * x * y;
+        }
+        const centredXY = n * sxy - sx * sy;
+        expect(result.correlation.matrix.data[a * order + b]).toBe(centredXY / Math.sqrt((n * sxx - sx * sx) * (n * syy - sy * sy)));
+        expect(result.covariance.matrix.data[a * order + b]).toBe(centredXY / (n * (n - 1)));
+        expect(result.correlation.n.data[a * order + b]).toBe(n);
+      }
+    }
+  });
+
   it('declines listwise deletion when a drawn row misses an answer (the resample is computed as is then)', () => {
     const matrix = randomMatrix(100, 5, 0.1, 3);
     const { weights } = resample(100, 1);

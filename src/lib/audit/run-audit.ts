@@ -9,7 +9,10 @@
  * analysis), then the redundancy engine (clusters, constrained cut list, what-if, bootstrap
  * stability), then the optional outcome model. Pure: no file, database or framework.
  */
+import type { ResampleRunner } from '../engine/bootstrap-stability';
+import { attachNetwork, networkCanCount } from '../engine/network-when-it-counts';
 import { runEngine } from '../engine/run-engine';
+import { wordingSimilarity } from '../engine/wording-similarity';
 import { fitOutcomeModel, outcomePredictorColumns, refitOutcomeAfterCut } from './outcome-model';
 import { computeEvidence, namePositions } from '../engine/compute-evidence';
 import { principalSubmatrix } from '../engine/principal-submatrix';
@@ -94,6 +97,8 @@ const STAGE_SPAN = Object.freeze({ evidence: [0, 0.2], structure: [0.2, 0.3], en
  *   outcome; every unset value takes its stated default.
  * @param onProgress Called with the stage and overall fraction done.
  * @param signal Aborts between bootstrap resamples.
+ * @param resampleRunner Decides the bootstrap's resamples (the command line's worker threads,
+ *   resample-threads.ts); default: on the calling thread. The figures are the same either way.
  * @throws {RangeError} when the items do not match the matrix, a setting is out of range, or the
  *   settings name an outcome that was not supplied.
  * @returns The audit JSON; statistics that do not exist are null with a warning.
@@ -104,6 +109,7 @@ export async function runAudit(
   settings: AuditSettings = {},
   onProgress?: AuditProgress,
   signal?: AbortSignal,
+  resampleRunner?: ResampleRunner,
 ): Promise<AuditJson> {
   const lockedItems = input.items.filter((item) => item.locked).map((item) => item.id);
   // The stored shape (settings-table.ts), echoed unchanged as the JSON's `settings`. testFault is
@@ -128,7 +134,12 @@ export async function runAudit(
   if (engineSettings.missing === 'listwise') refuseListwiseWithoutRows(input);
 
   report('evidence', 0);
-  const evidence = computeEvidence(input.matrix, input.items, engineSettings);
+  // The network only where it can count (network-when-it-counts.ts): the same audit, without a
+  // 100-penalty graphical-lasso path no number of it would show.
+  const withoutNetwork = computeEvidence(input.matrix, input.items, engineSettings, { localDependence: { network: false } });
+  const evidence = networkCanCount(withoutNetwork, wordingSimilarity(input.items.map((item) => item.text)), engineSettings)
+    ? attachNetwork(withoutNetwork, engineSettings, null)
+    : withoutNetwork;
   report('evidence', 1);
 
   report('structure', 0);
@@ -160,6 +171,7 @@ export async function runAudit(
     engineSettings,
     (stage, fraction) => report('engine', stage === 'bootstrap' ? 0.1 + 0.9 * fraction : 0.1 * fraction),
     signal,
+    resampleRunner,
   );
   warnings.push(...engine.warnings.map(plainWarning));
 

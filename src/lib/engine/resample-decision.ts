@@ -18,9 +18,9 @@
  * with the earlier path resample by resample).
  */
 import { computeEvidence, scaleAlphaOracle } from './compute-evidence';
-import { coreDetectors } from './core-detectors';
 import type { EngineSettings } from './engine-settings';
-import { localDependenceNetwork, type LocalDependenceReuse } from './local-dependence';
+import type { LocalDependenceReuse } from './local-dependence';
+import { attachNetwork } from './network-when-it-counts';
 import { findOverlapClusters, pairLocalFigures, pairRules } from './overlap-clusters';
 import { recommendCuts, type Recommendation } from './recommend-cuts';
 import type { EngineEvidence, EngineItem } from './types';
@@ -114,18 +114,7 @@ export function resampleDecision(matrix: ItemMatrix, rows: ArrayLike<number>, co
       resampleOf: { matrix, weights },
       localDependence: reuse === null ? false : { reuse, network: false },
     });
-    if (reuse !== null && evidence.localDependence !== null && networkCanDecide(evidence, settings)) {
-      const { network } = localDependenceNetwork(evidence.correlation, evidence.usable, evidence.correlationRows, settings, coreDetectors, reuse, evidence.exactDependencies);
-      evidence = {
-        ...evidence,
-        localDependence: {
-          ...evidence.localDependence,
-          partial: network?.partial ?? null,
-          wto: network?.wto ?? null,
-          penalty: network?.penalty ?? null,
-        },
-      };
-    }
+    if (reuse !== null && evidence.localDependence !== null && networkCanDecide(evidence, settings)) evidence = attachNetwork(evidence, settings, reuse);
     const { clusters } = findOverlapClusters(evidence, wording, settings);
     const cuts = recommendCuts(evidence, clusters, settings, scaleAlphaOracle(evidence, sample), schurVifAfterRemoval(evidence));
     return {

@@ -4,7 +4,7 @@
  * cut, and the bootstrap stability of every recommendation. The lead puts `recommendations`,
  * `afterCut` and `warnings` into the audit JSON (audit-json.md); `clusters` feeds the overlap map.
  */
-import { bootstrapStability, type EngineProgress } from './bootstrap-stability';
+import { bootstrapStability, type EngineProgress, type ResampleRunner } from './bootstrap-stability';
 import { resolveEngineSettings, type EngineSettings } from './engine-settings';
 import { findOverlapClusters, pairEvidence, pairLocalFigures } from './overlap-clusters';
 import { localDependenceReuse } from './local-dependence';
@@ -53,6 +53,8 @@ export interface EngineResult {
  * @param settings Any subset of the engine settings; defaults fill the rest (see engine-settings.ts).
  * @param onProgress Called with (stage, fraction): `clusters`, `recommendations`, `what-if`, `bootstrap`.
  * @param signal Aborts the bootstrap between resamples.
+ * @param runner Decides the bootstrap's resamples (e.g. on worker threads); default: on the calling
+ *   thread. The stability figures are the same either way.
  * @throws {RangeError} when a setting is out of range, the items or matrix do not match the
  *   evidence, or the evidence was computed with another method or missing-data policy.
  * @throws the signal's reason when aborted.
@@ -67,6 +69,7 @@ export async function runEngine(
   settings: Partial<EngineSettings> = {},
   onProgress?: EngineProgress,
   signal?: AbortSignal,
+  runner?: ResampleRunner,
 ): Promise<EngineResult> {
   const resolved = resolveEngineSettings(settings);
   if (resolved.method !== evidence.method || resolved.missing !== evidence.missing) {
@@ -113,7 +116,7 @@ export async function runEngine(
   let recommendations: Recommendation[] = [...cuts.recommendations];
   if (resolved.bootstrap > 0 && recommendations.length > 0) {
     const reuse = evidence.localDependence === null ? null : localDependenceReuse(evidence.localDependence);
-    const stability = await bootstrapStability(matrix, items, resolved, wording, recommendations, { onProgress, signal, reuse });
+    const stability = await bootstrapStability(matrix, items, resolved, wording, recommendations, { onProgress, signal, reuse, ...(runner === undefined ? {} : { runner }) });
     recommendations = recommendations.map((recommendation, k) => {
       const share = stability.shares[k];
       const overlapShare = stability.overlapShares[k];

@@ -182,44 +182,111 @@ function recordPairCount(out: PairTargets, order: number, a: number, b: number, 
 }
 
 /**
- * Integer answers (rating scales): the six sums of a pair are exact integers, so one
- * branch-free pass gives them, and n·Σxy − ΣxΣy (exact) gives the centred products to one rounding.
+ * Integer answers (rating scales): the six sums of a pair are exact integers, so they may be
+ * taken in any grouping, and n·Σxy − ΣxΣy (exact) gives the centred products to one rounding.
+ * Five of the six are an item's total less its rows where the partner is missing (few: the
+ * complement, as in masked-cross-products.ts); only Σ w·x·y is a product over every distinct row,
+ * taken four partners at a time. Exact sums make this bit for bit the one-pass pair loop.
  */
 function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissing: boolean, total: number, out: PairTargets): void {
   const order = values.length;
   const distinct = w.length;
   const { r, cov, undefinedR } = out;
-  // Per item: the answer (0 where missing), its square, the weight where answered, weight × answer, weight × square.
-  const x0 = values.map((column) => column.map((x) => (x === x ? x : 0)));
-  const xx = x0.map((column) => column.map((x) => x * x));
-  const wm = values.map((column) => column.map((x, t) => (x === x ? w[t] : 0)));
-  const wx = x0.map((column) => column.map((x, t) => w[t] * x));
-  const wxx = xx.map((column) => column.map((x, t) => w[t] * x));
-  const m = values.map((column) => column.map((x) => (x === x ? 1 : 0)));
+  // Per item, one block each: the answer (0 where missing), weight × answer, and per-item totals
+  // of the weight where answered, weight × answer, weight × square; the rows where it is missing.
+  const x0 = new Float64Array(order * distinct);
+  const wx = new Float64Array(order * distinct);
+  const totalWeight = new Float64Array(order);
+  const totalX = new Float64Array(order);
+  const totalXX = new Float64Array(order);
+  const missingRows: Int32Array[] = [];
   for (let a = 0; a < order; a++) {
-    const wmA = wm[a];
-    const wxA = wx[a];
-    const wxxA = wxx[a];
-    for (let b = a; b < order; b++) {
-      const mB = m[b];
-      const xB = x0[b];
-      const xxB = xx[b];
-      let n = 0;
-      let sx = 0;
-      let sy = 0;
-      let sxx = 0;
-      let syy = 0;
-      let sxy = 0;
-      for (let t = 0; t < distinct; t++) {
-        const mb = mB[t];
-        const wa = wmA[t];
-        n += wa * mb;
-        sx += wxA[t] * mb;
-        sxx += wxxA[t] * mb;
-        sy += wa * xB[t];
-        syy += wa * xxB[t];
-        sxy += wxA[t] * xB[t];
+    const column = values[a];
+    const offset = a * distinct;
+    let countMissing = 0;
+    let sw = 0;
+    let sx = 0;
+    let sxx = 0;
+    for (let t = 0; t < distinct; t++) {
+      const x = column[t];
+      if (x !== x) {
+        countMissing++;
+        continue;
       }
+      x0[offset + t] = x;
+      wx[offset + t] = w[t] * x;
+      sw += w[t];
+      sx += w[t] * x;
+      sxx += w[t] * x * x;
+    }
+    totalWeight[a] = sw;
+    totalX[a] = sx;
+    totalXX[a] = sxx;
+    const list = new Int32Array(countMissing);
+    for (let t = 0, k = 0; t < distinct; t++) if (column[t] !== column[t]) list[k++] = t;
+    missingRows.push(list);
+  }
+  // Σ w·x·y over every distinct row (0 where either is missing), upper triangle, four partners at a time.
+  const products = new Float64Array(order * order);
+  for (let a = 0; a < order; a++) {
+    const oa = a * distinct;
+    let b = a;
+    for (; b + 3 < order; b += 4) {
+      const o0 = b * distinct;
+      const o1 = o0 + distinct;
+      const o2 = o1 + distinct;
+      const o3 = o2 + distinct;
+      let s0 = 0;
+      let s1 = 0;
+      let s2 = 0;
+      let s3 = 0;
+      for (let t = 0; t < distinct; t++) {
+        const v = wx[oa + t];
+        s0 += v * x0[o0 + t];
+        s1 += v * x0[o1 + t];
+        s2 += v * x0[o2 + t];
+        s3 += v * x0[o3 + t];
+      }
+      products[a * order + b] = s0;
+      products[a * order + b + 1] = s1;
+      products[a * order + b + 2] = s2;
+      products[a * order + b + 3] = s3;
+    }
+    for (; b < order; b++) {
+      const ob = b * distinct;
+      let sum = 0;
+      for (let t = 0; t < distinct; t++) sum += wx[oa + t] * x0[ob + t];
+      products[a * order + b] = sum;
+    }
+  }
+  for (let a = 0; a < order; a++) {
+    const oa = a * distinct;
+    const missingA = missingRows[a];
+    for (let b = a; b < order; b++) {
+      const ob = b * distinct;
+      const missingB = missingRows[b];
+      // a's sums over the rows where b is answered, and b's over those where a is.
+      let n = totalWeight[a];
+      let sx = totalX[a];
+      let sxx = totalXX[a];
+      for (let k = 0; k < missingB.length; k++) {
+        const t = missingB[k];
+        if (values[a][t] !== values[a][t]) continue; // both missing: not in a's totals
+        const x = x0[oa + t];
+        n -= w[t];
+        sx -= w[t] * x;
+        sxx -= w[t] * x * x;
+      }
+      let sy = totalX[b];
+      let syy = totalXX[b];
+      for (let k = 0; k < missingA.length; k++) {
+        const t = missingA[k];
+        if (values[b][t] !== values[b][t]) continue;
+        const y = x0[ob + t];
+        sy -= w[t] * y;
+        syy -= w[t] * y * y;
+      }
+      const sxy = products[a * order + b];
       if (!recordPairCount(out, order, a, b, n, hasMissing ? n : total)) continue;
       const centredXY = n * sxy - sx * sy;
       cov[a * order + b] = centredXY / (n * (n - 1));

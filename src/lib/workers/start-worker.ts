@@ -101,6 +101,20 @@ export function spawnWorker(origin: WorkerOrigin, options: SpawnOptions): Worker
   return new Worker(source, { ...workerOptions, eval: true });
 }
 
+/**
+ * Finds a worker that starts quickly: the bundle when the process runs built, and from source
+ * the entry bundled once per process (as runWorkerOnce does) rather than loaded through tsx,
+ * whose start-up is several times a bundle's. For threads started per task (the bootstrap's
+ * resample threads), where start-up counts.
+ * @param entry the worker (worker-entries.ts).
+ * @throws {Error} as locateWorker.
+ * @returns a bundled file's origin.
+ */
+export function locateBundledWorker(entry: WorkerEntry): WorkerOrigin {
+  const located = locateWorker(entry);
+  return located.kind === 'source' ? bundledFromSource(entry, located) : located;
+}
+
 /** A one-off worker bundled from source in this process: the file and the newest change of its inputs. */
 const sourceBundles = new Map<string, { file: string; inputs: string[]; newest: number }>();
 

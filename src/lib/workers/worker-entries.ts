@@ -37,5 +37,12 @@ export const WAVE_READER_WORKER: WorkerEntry = Object.freeze({
   built: 'wave-reader-worker.mjs',
 });
 
+/** A bootstrap resample thread: decides resamples of one audit (src/lib/audit/resample-threads.ts; docs/decisions/021). */
+export const RESAMPLE_WORKER: WorkerEntry = Object.freeze({
+  name: 'paredown-resample',
+  source: 'src/lib/audit/resample-worker.ts',
+  built: 'resample-worker.mjs',
+});
+
 /** Every entry the build bundles. */
-export const WORKER_ENTRIES: readonly WorkerEntry[] = Object.freeze([AUDIT_WORKER, WHAT_IF_WORKER, WAVE_READER_WORKER]);
+export const WORKER_ENTRIES: readonly WorkerEntry[] = Object.freeze([AUDIT_WORKER, WHAT_IF_WORKER, WAVE_READER_WORKER, RESAMPLE_WORKER]);
