@@ -39,6 +39,7 @@ import {
   type AuditWarningJson,
 } from './audit-json';
 import { exploratoryStructure } from './exploratory-structure';
+import { randomCorrelationEigenvaluesOnThreads } from './random-eigenvalue-threads';
 import { engineSettingsOf, resolveAuditSettings, type AuditSettingsRequest } from './settings-table';
 import { cautionSentence, reasonSentence } from '../words';
 
@@ -149,6 +150,13 @@ export async function runAudit(
     });
   }
   const respondentsForTests = respondentsBehind(evidence, input.matrix);
+  // Parallel analysis's random draws start now, on worker threads when they are large, and are
+  // collected when the JSON is written: the rest of the audit runs meanwhile.
+  const pearsonDraws = pearsonParallelAnalysisApplies(evidence, respondentsForTests)
+    ? randomCorrelationEigenvaluesOnThreads(respondentsForTests, evidence.eigenvalues.length, parallelIterations, engineSettings.seed)
+    : null;
+  // Collected below; this only keeps a thread's failure from counting as unhandled before then.
+  pearsonDraws?.catch(() => undefined);
   const structure = structureStatistics(evidence, respondentsForTests, engineSettings.seed, parallelIterations, ids);
   warnings.push(...structure.warnings);
   report('structure', 1);
@@ -210,6 +218,10 @@ export async function runAudit(
   warnings.push(...keyingBalanceWarnings(input.items, evidence.scales.map((scale) => ({ id: scale.id, items: scale.items })), removedIds));
 
   const collinearity = evidence.collinearity;
+  const parallel =
+    pearsonDraws === null
+      ? structure.parallel
+      : pearsonParallelJson(parallelAnalysis(evidence.eigenvalues, respondentsForTests, { seed: engineSettings.seed, iterations: parallelIterations, randomEigenvalues: await pearsonDraws }));
   return {
     schema: AUDIT_SCHEMA,
     settings: { ...resolved },
@@ -243,7 +255,7 @@ export async function runAudit(
     kmo: structure.kmo,
     kmoLabel: structure.kmoLabel,
     bartlett: structure.bartlett,
-    parallelAnalysis: structure.parallel,
+    parallelAnalysis: parallel,
     structure: { exploratory: exploratory.view },
     scales: evidence.scales.map((scale) => ({
       id: scale.id,
@@ -389,6 +401,26 @@ function scaleModel(evidence: EngineEvidence, members: readonly number[], ids: r
   };
 }
 
+/**
+ * Whether the audit runs the Pearson parallel analysis (normal random data): two or more items,
+ * three or more respondents, and not the polychoric variant (which needs every item's thresholds).
+ * structureStatistics leaves exactly these cases to runAudit.
+ */
+function pearsonParallelAnalysisApplies(evidence: EngineEvidence, respondents: number): boolean {
+  if (evidence.correlation.order < 2 || respondents < 3) return false;
+  const thresholds = evidence.thresholds ?? null;
+  return !(evidence.method === 'polychoric' && thresholds !== null && thresholds.every((limits) => limits.length > 0));
+}
+
+/** The JSON of a Pearson parallel analysis. */
+function pearsonParallelJson(result: ReturnType<typeof parallelAnalysis>): AuditJson['parallelAnalysis'] {
+  return {
+    observed: [...result.observed], random95: [...result.random95], suggested: result.suggested, iterations: result.iterations, seed: result.seed,
+    correlation: 'pearson',
+    note: `Random data were standard normal of the same size, correlated by Pearson r (each random matrix drawn from its Wishart law, Bartlett's decomposition); ${result.iterations} draws.`,
+  };
+}
+
 /** Respondents behind the structure tests: complete rows under listwise, every row under pairwise. */
 function respondentsBehind(evidence: EngineEvidence, matrix: ItemMatrix): number {
   if (evidence.missing === 'pairwise' || evidence.completeData) return matrix.rows;
@@ -461,12 +493,7 @@ function structureStatistics(
       note: `Random data were ordinal items cut at each item's observed thresholds, correlated by polychoric r like the observed matrix (Garrido, Abad & Ponsoda 2013); ${result.iterations} draws${draws < iterations ? ` instead of ${iterations}, as each draw costs a full polychoric matrix` : ''}.`,
     };
   } else if (respondents >= 3) {
-    const result = parallelAnalysis(evidence.eigenvalues, respondents, { seed, iterations });
-    parallel = {
-      observed: [...result.observed], random95: [...result.random95], suggested: result.suggested, iterations: result.iterations, seed: result.seed,
-      correlation: 'pearson',
-      note: `Random data were standard normal of the same size, correlated by Pearson r (each random matrix drawn from its Wishart law, Bartlett's decomposition); ${result.iterations} draws.`,
-    };
+    // Pearson: left null here; runAudit fills it from the draws it started (pearsonParallelAnalysisApplies).
   } else {
     warnings.push({ code: 'parallel-analysis-skipped', items: [], message: 'Parallel analysis needs at least three respondents with answers; it was skipped.' });
   }

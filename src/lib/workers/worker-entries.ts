@@ -37,5 +37,12 @@ export const WAVE_READER_WORKER: WorkerEntry = Object.freeze({
   built: 'wave-reader-worker.mjs',
 });
 
+/** Parallel analysis's random draws, a share of them per thread (src/lib/audit/random-eigenvalue-threads.ts). */
+export const RANDOM_EIGENVALUE_WORKER: WorkerEntry = Object.freeze({
+  name: 'paredown-random-eigenvalues',
+  source: 'src/lib/audit/random-eigenvalue-worker.ts',
+  built: 'random-eigenvalue-worker.mjs',
+});
+
 /** Every entry the build bundles. */
-export const WORKER_ENTRIES: readonly WorkerEntry[] = Object.freeze([AUDIT_WORKER, WHAT_IF_WORKER, WAVE_READER_WORKER]);
+export const WORKER_ENTRIES: readonly WorkerEntry[] = Object.freeze([AUDIT_WORKER, WHAT_IF_WORKER, WAVE_READER_WORKER, RANDOM_EIGENVALUE_WORKER]);
