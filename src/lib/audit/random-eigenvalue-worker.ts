@@ -16,4 +16,4 @@ if (isMainThread || !parentPort) {
 }
 const job = workerData as RandomEigenvalueJob;
 const values = randomCorrelationEigenvalueDraws(job.rows, job.items, job.seed, job.firstDraw, job.endDraw);
-parentPort.postMessage(values, [values.buffer]);
+parentPort.postMessage(values, [values.buffer as ArrayBuffer]);

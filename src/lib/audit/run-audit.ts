@@ -13,6 +13,7 @@ import { runEngine } from '../engine/run-engine';
 import { fitOutcomeModel, outcomePredictorColumns, refitOutcomeAfterCut } from './outcome-model';
 import { computeEvidence, namePositions } from '../engine/compute-evidence';
 import { principalSubmatrix } from '../engine/principal-submatrix';
+import type { EngineSettings } from '../engine/engine-settings';
 import type { EngineEvidence, EngineItem, EngineWarning } from '../engine/types';
 import type { Recommendation } from '../engine/recommend-cuts';
 import type { AfterCut } from '../engine/simulate-cut';
@@ -26,7 +27,7 @@ import { symmetricEigenvalues } from '../stats/symmetric-eigen';
 import { EXACT_DEPENDENCY_RELATIVE_EIGENVALUE, POLYCHORIC_PARALLEL_DEFAULT_ITERATIONS } from '../stats/tolerances';
 import { completeRows } from '../stats/complete-rows';
 import { AuditInputError } from './audit-input';
-import { correlationMatrix } from '../stats/correlation-matrix';
+import { correlationMatrix, usableItems } from '../stats/correlation-matrix';
 import { selectItems, selectRespondents, squareMatrixToRows, type ItemMatrix, type NumericalNotice } from '../stats/types';
 import {
   AUDIT_SCHEMA,
@@ -39,7 +40,7 @@ import {
   type AuditWarningJson,
 } from './audit-json';
 import { exploratoryStructure } from './exploratory-structure';
-import { randomCorrelationEigenvaluesOnThreads } from './random-eigenvalue-threads';
+import { parallelAnalysisThreadCount, randomCorrelationEigenvaluesOnThreads } from './random-eigenvalue-threads';
 import { engineSettingsOf, resolveAuditSettings, type AuditSettingsRequest } from './settings-table';
 import { cautionSentence, reasonSentence } from '../words';
 
@@ -128,6 +129,17 @@ export async function runAudit(
 
   if (engineSettings.missing === 'listwise') refuseListwiseWithoutRows(input);
 
+  // Parallel analysis's draws need only the matrix's order and the respondents behind it, which
+  // are known before the evidence except where pairs without a correlation take items out: large
+  // draws start on worker threads now, beside the evidence, and are used when the size matches.
+  const expected = engineSettings.method === 'polychoric' ? null : expectedParallelAnalysisSize(input.matrix, engineSettings.missing);
+  const earlyDraws =
+    expected !== null && parallelAnalysisThreadCount(expected.items, parallelIterations) > 0
+      ? { ...expected, draws: randomCorrelationEigenvaluesOnThreads(expected.rows, expected.items, parallelIterations, engineSettings.seed) }
+      : null;
+  // Collected below; this only keeps a thread's failure from counting as unhandled before then.
+  earlyDraws?.draws.catch(() => undefined);
+
   report('evidence', 0);
   const evidence = computeEvidence(input.matrix, input.items, engineSettings);
   report('evidence', 1);
@@ -152,9 +164,11 @@ export async function runAudit(
   const respondentsForTests = respondentsBehind(evidence, input.matrix);
   // Parallel analysis's random draws start now, on worker threads when they are large, and are
   // collected when the JSON is written: the rest of the audit runs meanwhile.
-  const pearsonDraws = pearsonParallelAnalysisApplies(evidence, respondentsForTests)
-    ? randomCorrelationEigenvaluesOnThreads(respondentsForTests, evidence.eigenvalues.length, parallelIterations, engineSettings.seed)
-    : null;
+  const pearsonDraws = !pearsonParallelAnalysisApplies(evidence, respondentsForTests)
+    ? null
+    : earlyDraws !== null && earlyDraws.rows === respondentsForTests && earlyDraws.items === evidence.eigenvalues.length
+      ? earlyDraws.draws
+      : randomCorrelationEigenvaluesOnThreads(respondentsForTests, evidence.eigenvalues.length, parallelIterations, engineSettings.seed);
   // Collected below; this only keeps a thread's failure from counting as unhandled before then.
   pearsonDraws?.catch(() => undefined);
   const structure = structureStatistics(evidence, respondentsForTests, engineSettings.seed, parallelIterations, ids);
@@ -419,6 +433,38 @@ function pearsonParallelJson(result: ReturnType<typeof parallelAnalysis>): Audit
     correlation: 'pearson',
     note: `Random data were standard normal of the same size, correlated by Pearson r (each random matrix drawn from its Wishart law, Bartlett's decomposition); ${result.iterations} draws.`,
   };
+}
+
+/**
+ * The size of the Pearson parallel analysis as computeEvidence and respondentsBehind will give it,
+ * read before them: the items that vary (usableItems) and, under listwise deletion, the rows
+ * complete on them. Only a guess to start the draws early: pairs without a correlation can still
+ * take items out, and then the draws of the right size are made after the evidence. Null when
+ * the matrix cannot be read (computeEvidence then says why).
+ */
+function expectedParallelAnalysisSize(matrix: ItemMatrix, missing: EngineSettings['missing']): { rows: number; items: number } | null {
+  let usable: readonly number[];
+  try {
+    usable = usableItems(matrix).usable;
+  } catch (error) {
+    if (error instanceof RangeError) return null;
+    throw error;
+  }
+  if (missing === 'pairwise') return { rows: matrix.rows, items: usable.length };
+  const { rows, data } = matrix;
+  let complete = 0;
+  for (let i = 0; i < rows; i++) {
+    let answered = true;
+    for (const j of usable) {
+      const value = data[j * rows + i];
+      if (value !== value) {
+        answered = false;
+        break;
+      }
+    }
+    if (answered) complete++;
+  }
+  return { rows: complete, items: usable.length };
 }
 
 /** Respondents behind the structure tests: complete rows under listwise, every row under pairwise. */
