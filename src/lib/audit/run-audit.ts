@@ -162,8 +162,9 @@ export async function runAudit(
     });
   }
   const respondentsForTests = respondentsBehind(evidence, input.matrix);
-  // Parallel analysis's random draws start now, on worker threads when they are large, and are
-  // collected when the JSON is written: the rest of the audit runs meanwhile.
+  // Parallel analysis's random draws: those started above when the size is the one expected,
+  // otherwise started now (on worker threads when they are large); collected when the JSON is
+  // written, the rest of the audit running meanwhile.
   const pearsonDraws = !pearsonParallelAnalysisApplies(evidence, respondentsForTests)
     ? null
     : earlyDraws !== null && earlyDraws.rows === respondentsForTests && earlyDraws.items === evidence.eigenvalues.length
