@@ -4,8 +4,9 @@
 // audit-worker-build.ts) and rebuilt only when one of its inputs changes. Plain Node, like
 // prepare.mjs. docs/decisions/020-speed-whole-audit.md. The wave reader's worker entry
 // (src/lib/workers/worker-entries.ts: wave-reader-worker.mjs) is bundled beside it, where the
-// one worker mechanism looks for it from the bundle's folder (docs/decisions/018); so is the
-// bootstrap's resample thread (resample-worker.mjs, docs/decisions/021).
+// one worker mechanism looks for it from the bundle's folder (docs/decisions/018); so are the
+// bootstrap's resample thread (resample-worker.mjs, docs/decisions/021) and parallel analysis's
+// (random-eigenvalue-worker.mjs, docs/decisions/020).
 import { createHash } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -14,6 +15,8 @@ import { root } from './prepare.mjs';
 /** The bundle, and the stamp beside it listing every input with its hash. */
 export const cliBundle = join(root, 'dist', 'cli', 'audit.mjs');
 const stamp = join(root, 'dist', 'cli', '.paredown-cli-stamp.json');
+/** Worker entries bundled beside it (their names in src/lib/workers/worker-entries.ts, without .mjs). */
+const workerBundles = ['wave-reader-worker', 'resample-worker', 'random-eigenvalue-worker'];
 /** Files that change the bundle without being among its inputs. */
 const alwaysHashed = ['package-lock.json', 'tsconfig.json', 'scripts/lib/cli-bundle.mjs'];
 
@@ -25,7 +28,7 @@ function hashOf(relativePath) {
 
 /** True when the bundle exists and no input listed in its stamp changed since it was built. */
 function isCurrent() {
-  if (!existsSync(cliBundle) || !existsSync(join(root, 'dist', 'cli', 'wave-reader-worker.mjs')) || !existsSync(join(root, 'dist', 'cli', 'resample-worker.mjs')) || !existsSync(stamp)) return false;
+  if (!existsSync(cliBundle) || !workerBundles.every((name) => existsSync(join(root, 'dist', 'cli', `${name}.mjs`))) || !existsSync(stamp)) return false;
   let recorded;
   try {
     recorded = JSON.parse(readFileSync(stamp, 'utf8'));
@@ -49,7 +52,12 @@ export async function ensureCliBundle({ force = false, quiet = false } = {}) {
   mkdirSync(join(root, 'dist', 'cli'), { recursive: true });
   const result = await build({
     absWorkingDir: root,
-    entryPoints: { audit: 'src/cli/audit.ts', 'wave-reader-worker': 'src/lib/ingest/wave-reader-worker.ts', 'resample-worker': 'src/lib/audit/resample-worker.ts' },
+    entryPoints: {
+      audit: 'src/cli/audit.ts',
+      'wave-reader-worker': 'src/lib/ingest/wave-reader-worker.ts',
+      'resample-worker': 'src/lib/audit/resample-worker.ts',
+      'random-eigenvalue-worker': 'src/lib/audit/random-eigenvalue-worker.ts',
+    },
     outdir: join(root, 'dist', 'cli'),
     outExtension: { '.js': '.mjs' },
     bundle: true,

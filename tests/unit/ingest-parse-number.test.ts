@@ -28,6 +28,21 @@ describe('parseNumber', () => {
   });
 });
 
+describe('parseNumber on plain digits (its fast path)', () => {
+  it('reads every run of digits as Number() does, up to and past the fast path\'s 15 digits', () => {
+    // ECMA-262 Number(string) (StringToNumber) is the reference the slow path uses after its check.
+    const cells = ['0', '7', '10', '007', '00', '5', '99999', '123456789012345', '999999999999999', '1234567890123456', '98765432109876543210'];
+    for (const cell of cells) {
+      for (const separator of ['.', ','] as const) expect(parseNumber(cell, separator), `${cell} (${separator})`).toBe(Number(cell));
+    }
+    // Anything but digits leaves the fast path for the checked one.
+    // Anything but ASCII digits leaves the fast path for the checked one: white space is trimmed,
+    // other digits (Arabic-Indic, full-width) are text, as the pattern \d is ASCII only.
+    const expected: [string, number][] = [['4 ', 4], [' 4', 4], ['4.', 4], ['4a', Number.NaN], ['٣', Number.NaN], ['４', Number.NaN]];
+    for (const [cell, value] of expected) expect(parseNumber(cell, '.'), cell).toBe(value);
+  });
+});
+
 describe('looksLikeFormula (OWASP "CSV Injection": cells starting with = + - @ tab CR)', () => {
   it('flags formula-looking text but not plain signed numbers', () => {
     for (const text of ['=1+2', '@SUM(A1)', '+cmd|/C calc', '-2+3', '\t=1', '-Infinity']) expect(looksLikeFormula(text, '.'), text).toBe(true);

@@ -1,5 +1,12 @@
 import { describe, expect, it } from 'vitest';
-import { parallelAnalysis } from '../../src/lib/stats/parallel-analysis';
+import {
+  cachedRandomCorrelationEigenvalues,
+  drawMajorToPositionMajor,
+  forgetRandomCorrelationEigenvalues,
+  parallelAnalysis,
+  randomCorrelationEigenvalueDraws,
+  randomCorrelationEigenvalues,
+} from '../../src/lib/stats/parallel-analysis';
 import { overlapFixture } from './overlap-fixtures';
 
 const small = overlapFixture.parallelAnalysis.small;
@@ -55,5 +62,46 @@ describe('parallelAnalysis', () => {
     expect(() => parallelAnalysis([2, 1], 10, { iterations: 0 })).toThrow(/iterations/);
     expect(() => parallelAnalysis([2, 1], 10, { percentile: 0 })).toThrow(/percentile/);
     expect(() => parallelAnalysis([2, Number.NaN], 10)).toThrow(/not finite/);
+  });
+});
+
+describe('randomCorrelationEigenvalueDraws', () => {
+  it('gives any range of draws exactly as one pass gives them, whatever the split', () => {
+    forgetRandomCorrelationEigenvalues();
+    const [rows, items, iterations, seed] = [120, 9, 10, 31];
+    const onePass = randomCorrelationEigenvalues(rows, items, iterations, seed);
+    for (const cuts of [[0, 10], [0, 3, 10], [0, 1, 2, 7, 9, 10]]) {
+      const drawMajor = new Float64Array(items * iterations);
+      for (let part = 0; part + 1 < cuts.length; part++) drawMajor.set(randomCorrelationEigenvalueDraws(rows, items, seed, cuts[part], cuts[part + 1]), cuts[part] * items);
+      // Bit for bit: toEqual on Float64Array compares every element with Object.is semantics for numbers.
+      expect(drawMajorToPositionMajor(drawMajor, items, iterations), `split at ${cuts.join(', ')}`).toEqual(onePass);
+    }
+    // Each draw is a correlation matrix's eigenvalues: descending, summing to the number of items.
+    const first = randomCorrelationEigenvalueDraws(rows, items, seed, 0, 1);
+    for (let k = 1; k < items; k++) expect(first[k]).toBeLessThanOrEqual(first[k - 1]);
+    expect(first.reduce((sum, value) => sum + value, 0)).toBeCloseTo(items, 10);
+    expect(randomCorrelationEigenvalueDraws(rows, items, seed, 4, 4)).toHaveLength(0);
+    expect(() => randomCorrelationEigenvalueDraws(rows, items, seed, 5, 4)).toThrow(/0 <= firstDraw <= endDraw/);
+  });
+
+  it('lets parallelAnalysis take draws made elsewhere, unchanged, and refuses the wrong number', () => {
+    forgetRandomCorrelationEigenvalues();
+    const observed = [3, 1.2, 1, 0.8, 0.5, 0.3, 0.2];
+    const drawn = randomCorrelationEigenvalues(80, 7, 20, 5);
+    const copy = drawn.slice(); // typed arrays cannot be frozen: a copy proves nothing was changed
+    const given = parallelAnalysis(observed, 80, { seed: 5, iterations: 20, randomEigenvalues: drawn });
+    expect(drawn).toEqual(copy);
+    forgetRandomCorrelationEigenvalues();
+    expect(given).toEqual(parallelAnalysis(observed, 80, { seed: 5, iterations: 20 }));
+    expect(() => parallelAnalysis(observed, 80, { iterations: 20, randomEigenvalues: new Float64Array(7 * 19) })).toThrow(/randomEigenvalues holds 133 values, expected items × iterations = 140/);
+  });
+
+  it('answers a second call from the cache with the same values, and a cleared cache draws them again', () => {
+    forgetRandomCorrelationEigenvalues();
+    expect(cachedRandomCorrelationEigenvalues(60, 4, 5, 2)).toBeNull();
+    const drawn = randomCorrelationEigenvalues(60, 4, 5, 2);
+    expect(cachedRandomCorrelationEigenvalues(60, 4, 5, 2)).toEqual(drawn);
+    forgetRandomCorrelationEigenvalues();
+    expect(cachedRandomCorrelationEigenvalues(60, 4, 5, 2)).toBeNull();
   });
 });

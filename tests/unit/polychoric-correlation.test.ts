@@ -130,3 +130,29 @@ describe('polychoricCorrelation', () => {
     expect(POLYCHORIC_LIMITS.correction).toBe(0.5);
   });
 });
+
+describe('codeOrdinalItem', () => {
+  it('codes answers to the ranks of their distinct values, counts them, and leaves missing answers at the category count', () => {
+    // Category c is the c-th smallest distinct answer (Olsson 1979's first step); −0 is 0.
+    const values = [3, 1, NaN, 3, -0, 7, 1, 1, 0, 3, NaN, 7];
+    const item = codeOrdinalItem(values);
+    expect(Array.from(item.categories)).toEqual([0, 1, 3, 7]);
+    expect(Object.is(item.categories[0], 0)).toBe(true);
+    expect(Array.from(item.codes)).toEqual([2, 1, 4, 2, 0, 3, 1, 1, 0, 2, 4, 3]);
+    expect(Array.from(item.counts)).toEqual([2, 3, 3, 2]);
+    expect(item.observed).toBe(10);
+    // Thresholds: Φ⁻¹ of the shares at or below each category, 2/10, 5/10, 8/10
+    // (R 4.2.2: print(qnorm(c(0.2, 0.5, 0.8)), digits = 17)).
+    [-0.84162123357291418, 0, 0.84162123357291441].forEach((expected, c) => expect(item.thresholds.limits[c]).toBeCloseTo(expected, 12));
+  });
+
+  it('codes 254 distinct values in any order, and refuses one more or an infinite value', () => {
+    const random = Array.from({ length: 2000 }, (_, i) => ((i * 7919) % 254) - 100.5);
+    const item = codeOrdinalItem(random, 254);
+    expect(item.categories).toHaveLength(254);
+    random.forEach((value, i) => expect(item.categories[item.codes[i]]).toBe(value));
+    expect(() => codeOrdinalItem([...random, 1000], 254)).toThrow(/more than 254 distinct values/);
+    expect(() => codeOrdinalItem([1, 2, Infinity])).toThrow(/value 2 is infinite/);
+    expect(() => codeOrdinalItem([1, 1, -Infinity])).toThrow(/value 2 is infinite/);
+  });
+});

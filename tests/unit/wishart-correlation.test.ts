@@ -6,7 +6,7 @@ import { chiSquareVariate, gammaVariate } from '../../src/lib/stats/gamma-variat
 import { parallelAnalysis, quantileType7, randomCorrelationEigenvalues } from '../../src/lib/stats/parallel-analysis';
 import { createSeededRandom } from '../../src/lib/stats/seeded-random';
 import { symmetricEigenvalues } from '../../src/lib/stats/symmetric-eigen';
-import { wishartCorrelation } from '../../src/lib/stats/wishart-correlation';
+import { correlationFromWishartFactor, drawWishartFactor, wishartCorrelation } from '../../src/lib/stats/wishart-correlation';
 
 interface WishartCase {
   rows: number;
@@ -190,5 +190,35 @@ describe('parallel analysis from Wishart draws', () => {
     expect(randomCorrelationEigenvalues(50, 5, 20, 10)).not.toEqual(again);
     const observed = [2, 1.5, 1, 0.3, 0.2];
     expect(parallelAnalysis(observed, 50, { iterations: 20, seed: 9 })).toEqual(parallelAnalysis(observed, 50, { iterations: 20, seed: 9 }));
+  });
+});
+
+describe('drawWishartFactor and correlationFromWishartFactor', () => {
+  it.each([
+    [500, 12, 'Bartlett'],
+    [6, 12, 'Gram (rows − 1 < items)'],
+  ])('compose to wishartCorrelation and take the same generator values (%s × %s, %s)', (rows, items) => {
+    const whole = createSeededRandom(77);
+    const split = createSeededRandom(77);
+    for (let draw = 0; draw < 3; draw++) {
+      const expected = wishartCorrelation(rows, items, whole);
+      const factor = drawWishartFactor(rows, items, split);
+      const before = factor.data.slice();
+      expect(Array.from(correlationFromWishartFactor(Object.freeze({ ...factor })).data)).toEqual(Array.from(expected.data));
+      expect(factor.data).toEqual(before); // the factor is not modified
+    }
+    // Both generators stand at the same place afterwards.
+    expect(split.next()).toBe(whole.next());
+  });
+
+  it('gives a factor of the documented shape and refuses a wrong one', () => {
+    const bartlett = drawWishartFactor(100, 5, createSeededRandom(1));
+    expect(bartlett).toMatchObject({ items: 5, columns: 5, triangular: true });
+    expect(bartlett.data[0 * 5 + 1]).toBe(0); // above the diagonal of L: never drawn
+    expect(bartlett.data[0]).toBeGreaterThan(0); // sqrt(χ²(99))
+    const gram = drawWishartFactor(4, 5, createSeededRandom(1));
+    expect(gram).toMatchObject({ items: 5, columns: 3, triangular: false });
+    expect(() => correlationFromWishartFactor({ ...gram, columns: 4 })).toThrow(/correlationFromWishartFactor: the factor holds 15 values, expected items × columns = 20/);
+    expect(() => drawWishartFactor(1, 3, createSeededRandom(1))).toThrow(/drawWishartFactor: rows must be an integer of at least 2/);
   });
 });

@@ -11,7 +11,7 @@ import { pathToFileURL } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { BoundedQueue, QueueFullError } from '../../src/lib/workers/bounded-queue';
 import { locateWorker, runWorkerOnce, WorkerRunFailure } from '../../src/lib/workers/start-worker';
-import { AUDIT_WORKER, RESAMPLE_WORKER, WAVE_READER_WORKER, WHAT_IF_WORKER, WORKER_ENTRIES } from '../../src/lib/workers/worker-entries';
+import { AUDIT_WORKER, RANDOM_EIGENVALUE_WORKER, RESAMPLE_WORKER, WAVE_READER_WORKER, WHAT_IF_WORKER, WORKER_ENTRIES } from '../../src/lib/workers/worker-entries';
 
 const folders: string[] = [];
 afterAll(() => {
@@ -68,7 +68,7 @@ describe('BoundedQueue', () => {
 
 describe('locateWorker', () => {
   it('lists every worker once, each with its source and bundle', () => {
-    expect(WORKER_ENTRIES).toEqual([AUDIT_WORKER, WHAT_IF_WORKER, WAVE_READER_WORKER, RESAMPLE_WORKER]);
+    expect(WORKER_ENTRIES).toEqual([AUDIT_WORKER, WHAT_IF_WORKER, WAVE_READER_WORKER, RESAMPLE_WORKER, RANDOM_EIGENVALUE_WORKER]);
     expect(new Set(WORKER_ENTRIES.map((entry) => entry.built)).size).toBe(WORKER_ENTRIES.length);
   });
 
@@ -132,4 +132,33 @@ describe('runWorkerOnce', () => {
     writeFileSync(file, "import { parentPort, workerData } from 'node:worker_threads'; parentPort.postMessage({ twice: workerData * 2 });\n");
     await expect(runWorkerOnce({ name: 'echo', source: 'unused', built: 'echo.mjs' }, { name: 'echo', origin: { kind: 'built', file }, workerData: 21, timeLimitMs: 60_000 })).resolves.toEqual({ twice: 42 });
   });
+});
+
+/**
+ * runWorkerOnce when the calling thread is busy: the worker's answer and its `online` event then
+ * wait in the same turn of the event loop, in either order. An `online` handled after the answer
+ * must not start the time-limit clock again: a timer left behind keeps the process alive for the
+ * whole limit (a command-line audit stayed open 30 minutes after writing its JSON).
+ */
+const timers = (): number => process.getActiveResourcesInfo().filter((kind) => kind === 'Timeout').length;
+
+describe('runWorkerOnce with a busy calling thread', () => {
+  it('leaves no timer behind once it has answered', async () => {
+    // Warm-up: the first run bundles the worker from source.
+    await runWorkerOnce(RANDOM_EIGENVALUE_WORKER, { name: 'warm-up', workerData: { rows: 50, items: 3, seed: 1, firstDraw: 0, endDraw: 1 }, timeLimitMs: 600_000 });
+    await new Promise((resolve) => setTimeout(resolve, 50));
+    const before = timers();
+    const answer = runWorkerOnce<Float64Array>(RANDOM_EIGENVALUE_WORKER, {
+      name: 'busy-caller', workerData: { rows: 50, items: 3, seed: 1, firstDraw: 0, endDraw: 1 }, timeLimitMs: 600_000,
+    });
+    // Block this thread well past the worker's start and answer, as a long computation does.
+    const until = Date.now() + 1500;
+    while (Date.now() < until) {
+      // busy
+    }
+    expect(await answer).toHaveLength(3);
+    await new Promise((resolve) => setImmediate(resolve));
+    await new Promise((resolve) => setTimeout(resolve, 50));
+    expect(timers()).toBe(before);
+  }, 60_000);
 });

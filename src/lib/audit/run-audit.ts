@@ -16,6 +16,7 @@ import { wordingSimilarity } from '../engine/wording-similarity';
 import { fitOutcomeModel, outcomePredictorColumns, refitOutcomeAfterCut } from './outcome-model';
 import { computeEvidence, namePositions } from '../engine/compute-evidence';
 import { principalSubmatrix } from '../engine/principal-submatrix';
+import type { EngineSettings } from '../engine/engine-settings';
 import type { EngineEvidence, EngineItem, EngineWarning } from '../engine/types';
 import type { Recommendation } from '../engine/recommend-cuts';
 import type { AfterCut } from '../engine/simulate-cut';
@@ -29,7 +30,7 @@ import { symmetricEigenvalues } from '../stats/symmetric-eigen';
 import { EXACT_DEPENDENCY_RELATIVE_EIGENVALUE, POLYCHORIC_PARALLEL_DEFAULT_ITERATIONS } from '../stats/tolerances';
 import { completeRows } from '../stats/complete-rows';
 import { AuditInputError } from './audit-input';
-import { correlationMatrix } from '../stats/correlation-matrix';
+import { correlationMatrix, usableItems } from '../stats/correlation-matrix';
 import { selectItems, selectRespondents, squareMatrixToRows, type ItemMatrix, type NumericalNotice } from '../stats/types';
 import {
   AUDIT_SCHEMA,
@@ -42,6 +43,7 @@ import {
   type AuditWarningJson,
 } from './audit-json';
 import { exploratoryStructure } from './exploratory-structure';
+import { parallelAnalysisThreadCount, randomCorrelationEigenvaluesOnThreads } from './random-eigenvalue-threads';
 import { engineSettingsOf, resolveAuditSettings, type AuditSettingsRequest } from './settings-table';
 import { cautionSentence, reasonSentence } from '../words';
 
@@ -133,6 +135,17 @@ export async function runAudit(
 
   if (engineSettings.missing === 'listwise') refuseListwiseWithoutRows(input);
 
+  // Parallel analysis's draws need only the matrix's order and the respondents behind it, which
+  // are known before the evidence except where pairs without a correlation take items out: large
+  // draws start on worker threads now, beside the evidence, and are used when the size matches.
+  const expected = engineSettings.method === 'polychoric' ? null : expectedParallelAnalysisSize(input.matrix, engineSettings.missing);
+  const earlyDraws =
+    expected !== null && parallelAnalysisThreadCount(expected.items, parallelIterations) > 0
+      ? { ...expected, draws: randomCorrelationEigenvaluesOnThreads(expected.rows, expected.items, parallelIterations, engineSettings.seed) }
+      : null;
+  // Collected below; this only keeps a thread's failure from counting as unhandled before then.
+  earlyDraws?.draws.catch(() => undefined);
+
   report('evidence', 0);
   // The network only where it can count (network-when-it-counts.ts): the same audit, without a
   // 100-penalty graphical-lasso path no number of it would show.
@@ -160,6 +173,16 @@ export async function runAudit(
     });
   }
   const respondentsForTests = respondentsBehind(evidence, input.matrix);
+  // Parallel analysis's random draws: those started above when the size is the one expected,
+  // otherwise started now (on worker threads when they are large); collected when the JSON is
+  // written, the rest of the audit running meanwhile.
+  const pearsonDraws = !pearsonParallelAnalysisApplies(evidence, respondentsForTests)
+    ? null
+    : earlyDraws !== null && earlyDraws.rows === respondentsForTests && earlyDraws.items === evidence.eigenvalues.length
+      ? earlyDraws.draws
+      : randomCorrelationEigenvaluesOnThreads(respondentsForTests, evidence.eigenvalues.length, parallelIterations, engineSettings.seed);
+  // Collected below; this only keeps a thread's failure from counting as unhandled before then.
+  pearsonDraws?.catch(() => undefined);
   const structure = structureStatistics(evidence, respondentsForTests, engineSettings.seed, parallelIterations, ids);
   warnings.push(...structure.warnings);
   report('structure', 1);
@@ -222,6 +245,10 @@ export async function runAudit(
   warnings.push(...keyingBalanceWarnings(input.items, evidence.scales.map((scale) => ({ id: scale.id, items: scale.items })), removedIds));
 
   const collinearity = evidence.collinearity;
+  const parallel =
+    pearsonDraws === null
+      ? structure.parallel
+      : pearsonParallelJson(parallelAnalysis(evidence.eigenvalues, respondentsForTests, { seed: engineSettings.seed, iterations: parallelIterations, randomEigenvalues: await pearsonDraws }));
   return {
     schema: AUDIT_SCHEMA,
     settings: { ...resolved },
@@ -255,7 +282,7 @@ export async function runAudit(
     kmo: structure.kmo,
     kmoLabel: structure.kmoLabel,
     bartlett: structure.bartlett,
-    parallelAnalysis: structure.parallel,
+    parallelAnalysis: parallel,
     structure: { exploratory: exploratory.view },
     scales: evidence.scales.map((scale) => ({
       id: scale.id,
@@ -401,6 +428,58 @@ function scaleModel(evidence: EngineEvidence, members: readonly number[], ids: r
   };
 }
 
+/**
+ * Whether the audit runs the Pearson parallel analysis (normal random data): two or more items,
+ * three or more respondents, and not the polychoric variant (which needs every item's thresholds).
+ * structureStatistics leaves exactly these cases to runAudit.
+ */
+function pearsonParallelAnalysisApplies(evidence: EngineEvidence, respondents: number): boolean {
+  if (evidence.correlation.order < 2 || respondents < 3) return false;
+  const thresholds = evidence.thresholds ?? null;
+  return !(evidence.method === 'polychoric' && thresholds !== null && thresholds.every((limits) => limits.length > 0));
+}
+
+/** The JSON of a Pearson parallel analysis. */
+function pearsonParallelJson(result: ReturnType<typeof parallelAnalysis>): AuditJson['parallelAnalysis'] {
+  return {
+    observed: [...result.observed], random95: [...result.random95], suggested: result.suggested, iterations: result.iterations, seed: result.seed,
+    correlation: 'pearson',
+    note: `Random data were standard normal of the same size, correlated by Pearson r (each random matrix drawn from its Wishart law, Bartlett's decomposition); ${result.iterations} draws.`,
+  };
+}
+
+/**
+ * The size of the Pearson parallel analysis as computeEvidence and respondentsBehind will give it,
+ * read before them: the items that vary (usableItems) and, under listwise deletion, the rows
+ * complete on them. Only a guess to start the draws early: pairs without a correlation can still
+ * take items out, and then the draws of the right size are made after the evidence. Null when
+ * the matrix cannot be read (computeEvidence then says why).
+ */
+function expectedParallelAnalysisSize(matrix: ItemMatrix, missing: EngineSettings['missing']): { rows: number; items: number } | null {
+  let usable: readonly number[];
+  try {
+    usable = usableItems(matrix).usable;
+  } catch (error) {
+    if (error instanceof RangeError) return null;
+    throw error;
+  }
+  if (missing === 'pairwise') return { rows: matrix.rows, items: usable.length };
+  const { rows, data } = matrix;
+  let complete = 0;
+  for (let i = 0; i < rows; i++) {
+    let answered = true;
+    for (const j of usable) {
+      const value = data[j * rows + i];
+      if (value !== value) {
+        answered = false;
+        break;
+      }
+    }
+    if (answered) complete++;
+  }
+  return { rows: complete, items: usable.length };
+}
+
 /** Respondents behind the structure tests: complete rows under listwise, every row under pairwise. */
 function respondentsBehind(evidence: EngineEvidence, matrix: ItemMatrix): number {
   if (evidence.missing === 'pairwise' || evidence.completeData) return matrix.rows;
@@ -473,12 +552,7 @@ function structureStatistics(
       note: `Random data were ordinal items cut at each item's observed thresholds, correlated by polychoric r like the observed matrix (Garrido, Abad & Ponsoda 2013); ${result.iterations} draws${draws < iterations ? ` instead of ${iterations}, as each draw costs a full polychoric matrix` : ''}.`,
     };
   } else if (respondents >= 3) {
-    const result = parallelAnalysis(evidence.eigenvalues, respondents, { seed, iterations });
-    parallel = {
-      observed: [...result.observed], random95: [...result.random95], suggested: result.suggested, iterations: result.iterations, seed: result.seed,
-      correlation: 'pearson',
-      note: `Random data were standard normal of the same size, correlated by Pearson r (each random matrix drawn from its Wishart law, Bartlett's decomposition); ${result.iterations} draws.`,
-    };
+    // Pearson: left null here; runAudit fills it from the draws it started (pearsonParallelAnalysisApplies).
   } else {
     warnings.push({ code: 'parallel-analysis-skipped', items: [], message: 'Parallel analysis needs at least three respondents with answers; it was skipped.' });
   }

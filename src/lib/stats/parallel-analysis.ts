@@ -25,7 +25,7 @@
 import { createSeededRandom } from './seeded-random';
 import { symmetricEigenvalues } from './symmetric-eigen';
 import { PARALLEL_ANALYSIS_DEFAULT_ITERATIONS, PARALLEL_ANALYSIS_PERCENTILE } from './tolerances';
-import { wishartCorrelation } from './wishart-correlation';
+import { correlationFromWishartFactor, drawWishartFactor } from './wishart-correlation';
 
 /** Sizes whose random eigenvalues are cached in-process (performance only). */
 export const RANDOM_EIGENVALUE_CACHE_SIZE = 8;
@@ -41,6 +41,12 @@ export interface ParallelAnalysisOptions {
   readonly seed?: number;
   /** Percentile of the random eigenvalues to beat, in (0, 100] (default 95). */
   readonly percentile?: number;
+  /**
+   * The random eigenvalues already drawn for these rows, items, iterations and seed (the layout of
+   * `randomCorrelationEigenvalues`, e.g. from its worker-thread twin in src/lib/audit); when given,
+   * no draws are made here. Not modified.
+   */
+  readonly randomEigenvalues?: Float64Array;
 }
 
 /** The result of `parallelAnalysis`. All arrays are by position, largest eigenvalue first. */
@@ -68,6 +74,7 @@ export interface ParallelAnalysisResult {
  * @throws {RangeError} when `rows` is not an integer of at least 2.
  * @throws {RangeError} when `iterations` is not a positive integer, `seed` not an integer, or
  *   `percentile` not in (0, 100].
+ * @throws {RangeError} when `randomEigenvalues` is given with other than items × iterations values.
  * @returns Random percentile and mean eigenvalues per position, and the suggested number of
  *   components.
  * References: Horn 1965, "A rationale and test for the number of factors in factor analysis";
@@ -89,7 +96,11 @@ export function parallelAnalysis(observed: ArrayLike<number>, rows: number, opti
   if (!Number.isInteger(seed)) throw new RangeError(`parallelAnalysis: seed must be an integer, got ${seed}`);
   if (!(percentile > 0 && percentile <= 100)) throw new RangeError(`parallelAnalysis: percentile must lie in (0, 100], got ${percentile}`);
 
-  const randomValues = randomCorrelationEigenvalues(rows, items, iterations, seed);
+  const given = options.randomEigenvalues;
+  if (given !== undefined && given.length !== items * iterations) {
+    throw new RangeError(`parallelAnalysis: randomEigenvalues holds ${given.length} values, expected items × iterations = ${items * iterations}`);
+  }
+  const randomValues = given !== undefined ? given.slice() : randomCorrelationEigenvalues(rows, items, iterations, seed);
   return summariseRandomEigenvalues(observed, randomValues, iterations, seed, percentile);
 }
 
@@ -129,6 +140,10 @@ export function summariseRandomEigenvalues(
 
 const eigenvalueCache = new Map<string, Float64Array>();
 
+function cacheKey(rows: number, items: number, iterations: number, seed: number): string {
+  return `${rows}:${items}:${iterations}:${seed}`;
+}
+
 /**
  * The eigenvalues of `iterations` random correlation matrices of `rows × items` independent
  * standard normal values (Bartlett's decomposition of the Wishart cross-products), cached by
@@ -137,27 +152,117 @@ const eigenvalueCache = new Map<string, Float64Array>();
  * @param items Items (at least 1).
  * @param iterations Random matrices (at least 1).
  * @param seed Seed of the generator.
- * @throws {RangeError} when a size is out of range (from wishartCorrelation).
+ * @throws {RangeError} when a size is out of range (from drawWishartFactor).
  * @returns A fresh array, `values[k * iterations + t]`: eigenvalue k (descending) of draw t.
  * References: Odell & Feiveson 1966, "A numerical procedure to generate a sample covariance matrix".
  */
 export function randomCorrelationEigenvalues(rows: number, items: number, iterations: number, seed: number): Float64Array {
-  const key = `${rows}:${items}:${iterations}:${seed}`;
-  const cached = eigenvalueCache.get(key);
-  if (cached !== undefined) {
-    eigenvalueCache.delete(key);
-    eigenvalueCache.set(key, cached);
-    return cached.slice();
+  const cached = cachedRandomCorrelationEigenvalues(rows, items, iterations, seed);
+  if (cached !== null) return cached;
+  const values = drawMajorToPositionMajor(randomCorrelationEigenvalueDraws(rows, items, seed, 0, iterations), items, iterations);
+  rememberRandomCorrelationEigenvalues(rows, items, iterations, seed, values);
+  return values;
+}
+
+/**
+ * The eigenvalues of draws `firstDraw` to `endDraw − 1` of the sequence `randomCorrelationEigenvalues`
+ * makes from `seed`: the draws before `firstDraw` take their generator values (their factors are
+ * drawn and dropped, O(items²) each) but no products or eigenvalues. Any split of 0..N into ranges
+ * therefore gives, draw for draw, the same values as one pass; this is what lets the draws be spread
+ * over threads without the answer depending on how many there are.
+ * @param rows Respondents (at least 2).
+ * @param items Items (at least 1).
+ * @param seed Seed of the generator.
+ * @param firstDraw First draw computed (0-based, inclusive).
+ * @param endDraw Draw after the last one computed (exclusive), at least `firstDraw`.
+ * @throws {RangeError} when the draw range is not 0 <= firstDraw <= endDraw of integers, or a size is
+ *   out of range (from drawWishartFactor).
+ * @returns `values[(t − firstDraw) * items + k]`: eigenvalue k (descending) of draw t.
+ * References: Odell & Feiveson 1966, "A numerical procedure to generate a sample covariance matrix".
+ */
+export function randomCorrelationEigenvalueDraws(rows: number, items: number, seed: number, firstDraw: number, endDraw: number): Float64Array {
+  if (!Number.isInteger(firstDraw) || !Number.isInteger(endDraw) || firstDraw < 0 || endDraw < firstDraw) {
+    throw new RangeError(`randomCorrelationEigenvalueDraws: the draws must satisfy 0 <= firstDraw <= endDraw (integers), got ${firstDraw} and ${endDraw}`);
   }
   const random = createSeededRandom(seed);
-  const values = new Float64Array(items * iterations);
-  for (let t = 0; t < iterations; t++) {
-    const eigenvalues = items === 1 ? Float64Array.of(1) : symmetricEigenvalues(wishartCorrelation(rows, items, random));
-    for (let k = 0; k < items; k++) values[k * iterations + t] = eigenvalues[k];
+  const values = new Float64Array(items * (endDraw - firstDraw));
+  for (let t = 0; t < endDraw; t++) {
+    if (items === 1) {
+      if (t >= firstDraw) values[t - firstDraw] = 1;
+      continue;
+    }
+    const factor = drawWishartFactor(rows, items, random);
+    if (t < firstDraw) continue;
+    values.set(symmetricEigenvalues(correlationFromWishartFactor(factor)), (t - firstDraw) * items);
   }
-  eigenvalueCache.set(key, values);
+  return values;
+}
+
+/**
+ * Reorders draw-major eigenvalues (`(t * items + k)`, as `randomCorrelationEigenvalueDraws` gives
+ * them) into the position-major layout of `randomCorrelationEigenvalues` (`k * iterations + t`).
+ * @param drawMajor Eigenvalues of `iterations` draws, draw after draw.
+ * @param items Eigenvalues per draw.
+ * @param iterations Draws.
+ * @throws {RangeError} when the length is not items × iterations.
+ * @returns A fresh position-major array.
+ * References: none (storage order).
+ */
+export function drawMajorToPositionMajor(drawMajor: Float64Array, items: number, iterations: number): Float64Array {
+  if (drawMajor.length !== items * iterations) {
+    throw new RangeError(`drawMajorToPositionMajor: ${drawMajor.length} values, expected items × iterations = ${items * iterations}`);
+  }
+  const values = new Float64Array(items * iterations);
+  for (let t = 0; t < iterations; t++) for (let k = 0; k < items; k++) values[k * iterations + t] = drawMajor[t * items + k];
+  return values;
+}
+
+/**
+ * The cached random eigenvalues of (rows, items, iterations, seed), if this thread has them; a hit
+ * becomes the most recently used entry.
+ * @param rows Respondents.
+ * @param items Items.
+ * @param iterations Draws.
+ * @param seed Seed.
+ * @returns A fresh copy in the layout of `randomCorrelationEigenvalues`, or null.
+ * References: none (a cache; it never changes an answer).
+ */
+export function cachedRandomCorrelationEigenvalues(rows: number, items: number, iterations: number, seed: number): Float64Array | null {
+  const key = cacheKey(rows, items, iterations, seed);
+  const cached = eigenvalueCache.get(key);
+  if (cached === undefined) return null;
+  eigenvalueCache.delete(key);
+  eigenvalueCache.set(key, cached);
+  return cached.slice();
+}
+
+/**
+ * Empties this thread's cache of random eigenvalues (tests use it to make every call draw).
+ * @returns Nothing.
+ * References: none (a cache; it never changes an answer).
+ */
+export function forgetRandomCorrelationEigenvalues(): void {
+  eigenvalueCache.clear();
+}
+
+/**
+ * Keeps random eigenvalues for (rows, items, iterations, seed) in this thread's cache (the oldest
+ * entry leaves past RANDOM_EIGENVALUE_CACHE_SIZE).
+ * @param rows Respondents.
+ * @param items Items.
+ * @param iterations Draws.
+ * @param seed Seed.
+ * @param values The layout of `randomCorrelationEigenvalues`; copied.
+ * @throws {RangeError} when `values` does not hold items × iterations values.
+ * @returns Nothing.
+ * References: none (a cache; it never changes an answer).
+ */
+export function rememberRandomCorrelationEigenvalues(rows: number, items: number, iterations: number, seed: number, values: Float64Array): void {
+  if (values.length !== items * iterations) {
+    throw new RangeError(`rememberRandomCorrelationEigenvalues: ${values.length} values, expected items × iterations = ${items * iterations}`);
+  }
+  eigenvalueCache.set(cacheKey(rows, items, iterations, seed), values.slice());
   if (eigenvalueCache.size > RANDOM_EIGENVALUE_CACHE_SIZE) eigenvalueCache.delete(eigenvalueCache.keys().next().value as string);
-  return values.slice();
 }
 
 /**

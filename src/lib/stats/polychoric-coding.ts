@@ -44,20 +44,24 @@ export function codeOrdinalItem(values: ArrayLike<number>, maxCategories: number
   if (!Number.isInteger(maxCategories) || maxCategories < 2 || maxCategories > 254) {
     throw new RangeError(`codeOrdinalItem: maxCategories must be an integer from 2 to 254, got ${maxCategories}`);
   }
-  const distinct = new Set<number>();
+  // The distinct values in a plain array scanned from the last one found: an ordinal item has a
+  // handful, so this is faster than hashing every answer (the same categories and codes).
+  const distinct: number[] = [];
+  let last = Number.NaN;
   for (let i = 0; i < values.length; i++) {
     const value = values[i];
+    if (value === last) continue;
     if (value === Infinity || value === -Infinity) throw new RangeError(`codeOrdinalItem: value ${i} is infinite; use NaN for a missing answer`);
     if (value !== value) continue;
-    distinct.add(value === 0 ? 0 : value);
-    if (distinct.size > maxCategories) {
+    last = value;
+    if (distinct.includes(value)) continue;
+    distinct.push(value === 0 ? 0 : value);
+    if (distinct.length > maxCategories) {
       throw new RangeError(`codeOrdinalItem: the item has more than ${maxCategories} distinct values; polychoric correlation needs ordinal items`);
     }
   }
   const categories = Float64Array.from(distinct).sort();
   const count = categories.length;
-  const index = new Map<number, number>();
-  categories.forEach((value, c) => index.set(value, c));
   const codes = new Uint8Array(values.length);
   const counts = new Float64Array(count);
   let observed = 0;
@@ -66,9 +70,16 @@ export function codeOrdinalItem(values: ArrayLike<number>, maxCategories: number
     if (value !== value) {
       codes[i] = count;
     } else {
-      const c = index.get(value === 0 ? 0 : value) as number;
-      codes[i] = c;
-      counts[c]++;
+      // Binary search in the ascending categories; the value is one of them (−0 equals 0).
+      let low = 0;
+      let high = count - 1;
+      while (low < high) {
+        const middle = (low + high) >>> 1;
+        if (categories[middle] < value) low = middle + 1;
+        else high = middle;
+      }
+      codes[i] = low;
+      counts[low]++;
       observed++;
     }
   }

@@ -20,6 +20,23 @@ import type { SeededRandom } from './seeded-random';
 import type { SquareMatrix } from './types';
 
 /**
+ * A draw of the Wishart cross-product matrix in factored form, W = F·Fᵀ, before any product is
+ * taken: Bartlett's lower-triangular factor (`columns === items`, `triangular`) or the `columns =
+ * rows − 1` normal vectors of a singular Wishart. Drawing the factor consumes the generator; the
+ * products and the correlation that follow from it are deterministic.
+ */
+export interface WishartFactor {
+  /** Items: the order of W. */
+  readonly items: number;
+  /** Columns of F (items for Bartlett's factor, rows − 1 for the Gram form). */
+  readonly columns: number;
+  /** True for Bartlett's factor: F[i][t] is zero for t > i and is not read. */
+  readonly triangular: boolean;
+  /** F row-major, `items × columns`: F[i][t] at `i * columns + t`. */
+  readonly data: Float64Array;
+}
+
+/**
  * One random correlation matrix of normal data of the given size, by Bartlett's decomposition.
  * @param rows Respondents of the data the matrix stands for (at least 2).
  * @param items Items (at least 1).
@@ -31,13 +48,48 @@ import type { SquareMatrix } from './types';
 export function wishartCorrelation(rows: number, items: number, random: SeededRandom): SquareMatrix {
   if (!Number.isInteger(rows) || rows < 2) throw new RangeError(`wishartCorrelation: rows must be an integer of at least 2, got ${rows}`);
   if (!Number.isInteger(items) || items < 1) throw new RangeError(`wishartCorrelation: items must be a positive integer, got ${items}`);
+  return correlationFromWishartFactor(drawWishartFactor(rows, items, random));
+}
+
+/**
+ * The random part of `wishartCorrelation` alone: the factor F of W = F·Fᵀ (Bartlett's triangle, or
+ * the Gram form's normal vectors when rows − 1 < items). It takes exactly the generator values
+ * `wishartCorrelation` takes, so a caller may skip draws by drawing their factors only (the
+ * parallel-analysis threads do, to give every draw the same values whatever the thread count).
+ * @param rows Respondents of the data the matrix stands for (at least 2).
+ * @param items Items (at least 1).
+ * @param random The seeded generator.
+ * @throws {RangeError} when `rows` is not an integer of at least 2 or `items` not a positive integer.
+ * @returns The factor.
+ * References: Odell & Feiveson 1966, "A numerical procedure to generate a sample covariance matrix";
+ * Anderson 2003, "An Introduction to Multivariate Statistical Analysis", ch. 7.
+ */
+export function drawWishartFactor(rows: number, items: number, random: SeededRandom): WishartFactor {
+  if (!Number.isInteger(rows) || rows < 2) throw new RangeError(`drawWishartFactor: rows must be an integer of at least 2, got ${rows}`);
+  if (!Number.isInteger(items) || items < 1) throw new RangeError(`drawWishartFactor: items must be a positive integer, got ${items}`);
   const degrees = rows - 1;
-  const cross = degrees >= items ? bartlettCrossProducts(degrees, items, random) : gramCrossProducts(degrees, items, random);
+  return degrees >= items ? bartlettFactor(degrees, items, random) : gramVectors(degrees, items, random);
+}
+
+/**
+ * The correlation matrix of a Wishart draw given in factored form: W = F·Fᵀ scaled to a unit
+ * diagonal. Deterministic.
+ * @param factor A factor from `drawWishartFactor`.
+ * @throws {RangeError} when the factor's data length is not items × columns.
+ * @returns The full symmetric correlation matrix, row-major, exactly 1 on the diagonal.
+ * References: Odell & Feiveson 1966, "A numerical procedure to generate a sample covariance matrix".
+ */
+export function correlationFromWishartFactor(factor: WishartFactor): SquareMatrix {
+  const { items, columns, data } = factor;
+  if (data.length !== items * columns) {
+    throw new RangeError(`correlationFromWishartFactor: the factor holds ${data.length} values, expected items × columns = ${items * columns}`);
+  }
+  const cross = factor.triangular ? bartlettCrossProducts(data, items) : gramCrossProducts(data, columns, items);
   return scaleToCorrelation(cross, items);
 }
 
-/** W = L·Lᵀ (upper triangle filled, row-major) from Bartlett's triangular factor. */
-function bartlettCrossProducts(degrees: number, items: number, random: SeededRandom): Float64Array {
+/** Bartlett's lower-triangular factor L (row i: i normal values, then sqrt(χ²(degrees − i))). */
+function bartlettFactor(degrees: number, items: number, random: SeededRandom): WishartFactor {
   // factor[i * items + t], t <= i: row i of L.
   const factor = new Float64Array(items * items);
   for (let i = 0; i < items; i++) {
@@ -45,6 +97,11 @@ function bartlettCrossProducts(degrees: number, items: number, random: SeededRan
     for (let t = 0; t < i; t++) factor[row + t] = random.nextNormal();
     factor[row + i] = Math.sqrt(chiSquareVariate(random, degrees - i));
   }
+  return { items, columns: items, triangular: true, data: factor };
+}
+
+/** W = L·Lᵀ (upper triangle filled, row-major) from Bartlett's triangular factor. */
+function bartlettCrossProducts(factor: Float64Array, items: number): Float64Array {
   const cross = new Float64Array(items * items);
   for (let j = 0; j < items; j++) {
     const rowJ = j * items;
@@ -58,10 +115,15 @@ function bartlettCrossProducts(degrees: number, items: number, random: SeededRan
   return cross;
 }
 
-/** W = Z·Zᵀ for Z of `items` rows and `degrees` independent standard normal columns (upper triangle). */
-function gramCrossProducts(degrees: number, items: number, random: SeededRandom): Float64Array {
+/** Z: `items` rows of `degrees` independent standard normal values. */
+function gramVectors(degrees: number, items: number, random: SeededRandom): WishartFactor {
   const vectors = new Float64Array(items * degrees);
   for (let index = 0; index < vectors.length; index++) vectors[index] = random.nextNormal();
+  return { items, columns: degrees, triangular: false, data: vectors };
+}
+
+/** W = Z·Zᵀ for Z of `items` rows and `degrees` independent standard normal columns (upper triangle). */
+function gramCrossProducts(vectors: Float64Array, degrees: number, items: number): Float64Array {
   const cross = new Float64Array(items * items);
   for (let j = 0; j < items; j++) {
     for (let k = j; k < items; k++) {

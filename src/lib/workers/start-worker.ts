@@ -231,6 +231,9 @@ export function runWorkerOnce<Answer>(entry: WorkerEntry, options: RunOnceOption
       outcome();
     };
     const startClock = () => {
+      // A busy calling thread may handle `online` after the answer: no clock then (a timer left
+      // behind would keep the process alive for the whole limit).
+      if (settled) return;
       clearTimeout(timer);
       timer = setTimeout(
         () => finish(() => reject(new WorkerRunFailure('time-limit', `${entry.name}: past its time limit of ${options.timeLimitMs} ms`))),

@@ -44,5 +44,12 @@ export const RESAMPLE_WORKER: WorkerEntry = Object.freeze({
   built: 'resample-worker.mjs',
 });
 
+/** Parallel analysis's random draws, a share of them per thread (src/lib/audit/random-eigenvalue-threads.ts). */
+export const RANDOM_EIGENVALUE_WORKER: WorkerEntry = Object.freeze({
+  name: 'paredown-random-eigenvalues',
+  source: 'src/lib/audit/random-eigenvalue-worker.ts',
+  built: 'random-eigenvalue-worker.mjs',
+});
+
 /** Every entry the build bundles. */
-export const WORKER_ENTRIES: readonly WorkerEntry[] = Object.freeze([AUDIT_WORKER, WHAT_IF_WORKER, WAVE_READER_WORKER, RESAMPLE_WORKER]);
+export const WORKER_ENTRIES: readonly WorkerEntry[] = Object.freeze([AUDIT_WORKER, WHAT_IF_WORKER, WAVE_READER_WORKER, RESAMPLE_WORKER, RANDOM_EIGENVALUE_WORKER]);

@@ -1,0 +1,128 @@
+/**
+ * Parallel analysis's random draws on worker threads, started early and collected late: the audit
+ * starts them as soon as it knows the size of the correlation matrix and goes on with the rest of
+ * its work on the calling thread; the percentiles are taken when the JSON is written.
+ *
+ * Each thread computes a contiguous range of the draws with `randomCorrelationEigenvalueDraws`,
+ * which replays the generator's values of the draws before its range; so every draw gets the same
+ * values, and the answer is the same to the last bit, whatever the number of threads (and the same
+ * as the core's one-thread `randomCorrelationEigenvalues`). Results are kept in the calling thread's
+ * cache of the core (same key), so a second audit of the same size starts no thread.
+ *
+ * Below PARALLEL_ANALYSIS_THREAD_MIN_WORK (draws × items³) the draws are made on the calling thread
+ * at once: a thread costs about 60 ms to start (more from source, where it is bundled once per
+ * process), more than small draws take. docs/decisions/020-speed-whole-audit.md.
+ */
+import { availableParallelism } from 'node:os';
+import {
+  cachedRandomCorrelationEigenvalues,
+  drawMajorToPositionMajor,
+  randomCorrelationEigenvalues,
+  rememberRandomCorrelationEigenvalues,
+} from '../stats/parallel-analysis';
+import { runWorkerOnce } from '../workers/start-worker';
+import { RANDOM_EIGENVALUE_WORKER } from '../workers/worker-entries';
+
+/**
+ * Work (draws × items³) from which the draws go to worker threads: 100 draws of about 100 items,
+ * roughly 0.2 s on one thread here; one 300 × 300 draw is about 2.7e7 of it (40-80 ms).
+ */
+export const PARALLEL_ANALYSIS_THREAD_MIN_WORK = 1e8;
+
+/** The most threads the draws are spread over (performance only). */
+export const PARALLEL_ANALYSIS_MAX_THREADS = 4;
+
+/** A thread's time limit: far above any draw range here, it ends only a thread that hangs. */
+const THREAD_TIME_LIMIT_MS = 30 * 60 * 1000;
+
+/** A thread's old-generation heap limit in MB: a draw holds a few items × items arrays. */
+const THREAD_HEAP_MB = 256;
+
+/** One thread's job (its `workerData`). */
+export interface RandomEigenvalueJob {
+  readonly rows: number;
+  readonly items: number;
+  readonly seed: number;
+  /** First draw computed (inclusive). */
+  readonly firstDraw: number;
+  /** Draw after the last one computed (exclusive). */
+  readonly endDraw: number;
+}
+
+/**
+ * How many worker threads the draws of this size get: none below PARALLEL_ANALYSIS_THREAD_MIN_WORK,
+ * otherwise one per core the machine reports, at most PARALLEL_ANALYSIS_MAX_THREADS and at most one
+ * per draw. The calling thread keeps working on the rest of the audit meanwhile.
+ * @param items Items (the order of the random matrices).
+ * @param iterations Draws.
+ * @param cores Cores to use (the machine's `availableParallelism()` by default).
+ * @returns 0 (draw on the calling thread) or the number of threads.
+ */
+export function parallelAnalysisThreadCount(items: number, iterations: number, cores: number = availableParallelism()): number {
+  if (iterations * items ** 3 < PARALLEL_ANALYSIS_THREAD_MIN_WORK) return 0;
+  return Math.max(1, Math.min(cores, PARALLEL_ANALYSIS_MAX_THREADS, iterations));
+}
+
+/**
+ * The random eigenvalues of parallel analysis (`randomCorrelationEigenvalues` of the core, same
+ * layout and the same values to the last bit), computed on `threads` worker threads that run while
+ * the caller goes on; with 0 threads, on the calling thread before this returns.
+ * @param rows Respondents (at least 2).
+ * @param items Items (at least 1).
+ * @param iterations Draws (at least 1).
+ * @param seed Seed of the generator.
+ * @param threads Worker threads (0: none); `parallelAnalysisThreadCount` by default.
+ * @throws {RangeError} when `threads` is not a non-negative integer (synchronously), or a size is
+ *   out of range (synchronously with 0 threads; otherwise the promise rejects).
+ * @returns A promise of a fresh array, `values[k * iterations + t]`: eigenvalue k (descending) of
+ *   draw t. It rejects with the worker mechanism's WorkerRunFailure when a thread fails.
+ * References: Horn 1965, "A rationale and test for the number of factors in factor analysis";
+ * Odell & Feiveson 1966, "A numerical procedure to generate a sample covariance matrix".
+ */
+export function randomCorrelationEigenvaluesOnThreads(
+  rows: number,
+  items: number,
+  iterations: number,
+  seed: number,
+  threads: number = parallelAnalysisThreadCount(items, iterations),
+): Promise<Float64Array> {
+  if (!Number.isInteger(threads) || threads < 0) {
+    throw new RangeError(`randomCorrelationEigenvaluesOnThreads: threads must be a non-negative integer, got ${threads}`);
+  }
+  const cached = cachedRandomCorrelationEigenvalues(rows, items, iterations, seed);
+  if (cached !== null) return Promise.resolve(cached);
+  if (threads === 0) return Promise.resolve(randomCorrelationEigenvalues(rows, items, iterations, seed));
+  if (!Number.isInteger(iterations) || iterations < 1) {
+    throw new RangeError(`randomCorrelationEigenvaluesOnThreads: iterations must be a positive integer, got ${iterations}`);
+  }
+  const used = Math.min(threads, iterations);
+  const ranges: RandomEigenvalueJob[] = [];
+  for (let thread = 0; thread < used; thread++) {
+    ranges.push({
+      rows, items, seed,
+      firstDraw: Math.floor((thread * iterations) / used),
+      endDraw: Math.floor(((thread + 1) * iterations) / used),
+    });
+  }
+  const answers = ranges.map((job) =>
+    runWorkerOnce<Float64Array>(RANDOM_EIGENVALUE_WORKER, {
+      name: RANDOM_EIGENVALUE_WORKER.name,
+      workerData: job,
+      timeLimitMs: THREAD_TIME_LIMIT_MS,
+      resourceLimits: { maxOldGenerationSizeMb: THREAD_HEAP_MB },
+    }),
+  );
+  return Promise.all(answers).then((parts) => {
+    const drawMajor = new Float64Array(items * iterations);
+    parts.forEach((part, index) => {
+      const { firstDraw, endDraw } = ranges[index];
+      if (part.length !== items * (endDraw - firstDraw)) {
+        throw new Error(`randomCorrelationEigenvaluesOnThreads: a thread answered ${part.length} values for draws ${firstDraw}-${endDraw - 1}, expected ${items * (endDraw - firstDraw)}`);
+      }
+      drawMajor.set(part, firstDraw * items);
+    });
+    const values = drawMajorToPositionMajor(drawMajor, items, iterations);
+    rememberRandomCorrelationEigenvalues(rows, items, iterations, seed, values);
+    return values;
+  });
+}

@@ -1,0 +1,19 @@
+/**
+ * A parallel-analysis thread: the random eigenvalues of one range of draws (its `workerData`, a
+ * RandomEigenvalueJob), posted back once (moved, not copied); the thread is then ended by whoever
+ * started it (random-eigenvalue-threads.ts, through src/lib/workers/start-worker.ts).
+ *
+ * How it starts: the build bundles this file into dist/server/random-eigenvalue-worker.mjs
+ * (src/lib/workers/worker-build.ts) and the command line's into dist/cli/ (scripts/lib/cli-bundle.mjs);
+ * from source it is bundled once per process. docs/decisions/020-speed-whole-audit.md.
+ */
+import { isMainThread, parentPort, workerData } from 'node:worker_threads';
+import { randomCorrelationEigenvalueDraws } from '../stats/parallel-analysis';
+import type { RandomEigenvalueJob } from './random-eigenvalue-threads';
+
+if (isMainThread || !parentPort) {
+  throw new Error('random-eigenvalue-worker: this module runs only as a worker thread started by random-eigenvalue-threads.ts');
+}
+const job = workerData as RandomEigenvalueJob;
+const values = randomCorrelationEigenvalueDraws(job.rows, job.items, job.seed, job.firstDraw, job.endDraw);
+parentPort.postMessage(values, [values.buffer as ArrayBuffer]);
