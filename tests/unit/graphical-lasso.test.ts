@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { graphicalLasso } from '../../src/lib/stats/graphical-lasso';
+import { createGraphicalLassoState, graphicalLasso, graphicalLassoWarm } from '../../src/lib/stats/graphical-lasso';
 import { squareMatrixFromRows } from '../../src/lib/stats/types';
 import { largestDifference, networkFixture } from './local-dependence-fixtures';
 
@@ -86,5 +86,54 @@ describe('graphicalLasso', () => {
     const fit = graphicalLasso(squareMatrixFromRows(reference.input), reference.rho, { maxSweeps: 1 });
     expect(fit.converged).toBe(false);
     expect(fit.notices.map((n) => n.code)).toEqual(['not-converged']);
+  });
+});
+
+describe('graphicalLasso screening and warm starts', () => {
+  // Two blocks of the bfi correlations (items 0-4 and 10-14, agreeableness and extraversion in
+  // psych::bfi), with every correlation across the blocks shrunk below the penalty: the
+  // components of {|s_ij| > ρ} are the blocks of the solution (Witten, Friedman & Simon 2011).
+  const reference = networkFixture.glasso.find((c) => c.name === 'bfi-correlation-rho-0.1')!;
+  const chosen = [0, 1, 2, 3, 4, 10, 11, 12, 13, 14];
+  const rho = 0.1;
+  const rows = chosen.map((i, a) => chosen.map((j, b) => (a < 5) === (b < 5) ? reference.input[i][j] : 0.9 * rho * Math.sign(reference.input[i][j]) * Math.min(1, Math.abs(reference.input[i][j]) * 4)));
+  const s = squareMatrixFromRows(rows);
+
+  it('fits each component of |s_ij| > rho alone: zeros across blocks, each block as its own fit', () => {
+    const whole = graphicalLasso(s, rho);
+    expect(whole.converged).toBe(true);
+    for (const [first, other] of [[0, 5], [5, 0]]) {
+      const block = graphicalLasso(squareMatrixFromRows(rows.slice(first, first + 5).map((row) => row.slice(first, first + 5))), rho);
+      for (let a = 0; a < 5; a++) {
+        for (let b = 0; b < 5; b++) {
+          expect(Math.abs(whole.precision.data[(first + a) * 10 + first + b] - block.precision.data[a * 5 + b])).toBeLessThan(1e-9);
+          expect(whole.precision.data[(first + a) * 10 + other + b]).toBe(0);
+          expect(whole.covariance.data[(first + a) * 10 + other + b]).toBe(0);
+        }
+      }
+    }
+    // Optimality across the blocks (Friedman, Hastie & Tibshirani 2008, eq. 2): |w_ij − s_ij| = |s_ij| ≤ ρ where θ_ij = 0.
+    for (let i = 0; i < 5; i++) for (let j = 5; j < 10; j++) expect(Math.abs(rows[i][j])).toBeLessThanOrEqual(rho);
+    // Identity: W Θ = I.
+    for (let i = 0; i < 10; i++) {
+      for (let j = 0; j < 10; j++) {
+        let product = 0;
+        for (let k = 0; k < 10; k++) product += whole.covariance.data[i * 10 + k] * whole.precision.data[k * 10 + j];
+        expect(Math.abs(product - (i === j ? 1 : 0))).toBeLessThan(1e-8);
+      }
+    }
+  });
+
+  it('gives the cold-start answer from a warm state of a smaller or a larger penalty', () => {
+    const input = squareMatrixFromRows(reference.input);
+    for (const from of [0.02, 0.3]) {
+      const state = createGraphicalLassoState(input, from, false);
+      graphicalLassoWarm(input, from, state);
+      const warm = graphicalLassoWarm(input, reference.rho, state);
+      expect(warm.converged).toBe(true);
+      // R 4.2.2 glasso 1.11: glasso::glasso(s, rho = 0.1, thr = 1e-12, maxit = 1e5)$wi
+      expect(largestDifference(warm.precision, reference.tight.wi)).toBeLessThan(1e-9);
+      expect(largestDifference(warm.covariance, reference.tight.w)).toBeLessThan(1e-9);
+    }
   });
 });
