@@ -177,8 +177,6 @@ export function graphicalLassoWarm(
   const s = covariance.data;
   const w = state.covariance;
   const beta = state.coefficients;
-  const wb = state.product;
-  const active = state.active;
 
   let meanAbsoluteOffDiagonal = 0;
   for (let i = 0; i < p; i++) {
@@ -204,51 +202,19 @@ export function graphicalLassoWarm(
     }
   }
 
+  const workspace: ColumnWorkspace = { factor: new Float64Array(p * p), solution: new Float64Array(p), activeSigns: new Float64Array(p), supportChanged: false };
   let sweeps = 0;
   let converged = true;
-  const members = state.members;
-  const blockStart = state.blockStart;
-  const workspace: ColumnWorkspace = { factor: new Float64Array(p * p), solution: new Float64Array(p), activeSigns: new Float64Array(p), supportChanged: false };
   for (let block = 0; block < blocks; block++) {
-    const first = blockStart[block];
-    const size = blockStart[block + 1] - first;
+    const first = state.blockStart[block];
+    const size = state.blockStart[block + 1] - first;
     if (size < 2) continue; // a lone item: θ_ii = 1 / w_ii, nothing to fit
-    const blockMembers = members.subarray(first, first + size);
-    // Glasso's criterion on this block alone: the mean absolute change of its off-diagonal. A
-    // mean over the block is at least the mean over the whole matrix, so this is no looser.
-    const pairs = size * (size - 1);
-    let blockSweeps = 0;
-    let blockConverged = false;
-    while (!blockConverged && blockSweeps < maxSweeps) {
-      blockSweeps++;
-      let change = 0;
-      for (let index = 0; index < size; index++) {
-        const j = blockMembers[index];
-        const row = j * p;
-        solveColumnLasso(j, p, penalty, threshold, s, w, beta, wb, active, blockMembers, workspace);
-        for (let t = 0; t < size; t++) {
-          const k = blockMembers[t];
-          if (k === j) continue;
-          change += Math.abs(wb[k] - w[k * p + j]);
-          w[k * p + j] = wb[k];
-          w[row + k] = wb[k];
-        }
-      }
-      if (change / pairs <= threshold) blockConverged = true;
-    }
-    if (blockSweeps > sweeps) sweeps = blockSweeps;
-    if (!blockConverged) converged = false;
+    const blockSweeps = fitBlock(state.members.subarray(first, first + size), p, penalty, threshold, maxSweeps, s, state, workspace);
+    if (Math.abs(blockSweeps) > sweeps) sweeps = Math.abs(blockSweeps);
+    if (blockSweeps < 0) converged = false;
   }
 
-  const precision = new Float64Array(p * p);
-  for (let j = 0; j < p; j++) {
-    const row = j * p;
-    let quadratic = 0;
-    for (let k = 0; k < p; k++) if (k !== j) quadratic += w[k * p + j] * beta[row + k];
-    const diagonal = 1 / (w[row + j] - quadratic);
-    precision[row + j] = diagonal;
-    for (let k = 0; k < p; k++) if (k !== j) precision[k * p + j] = -beta[row + k] * diagonal;
-  }
+  const precision = precisionFromState(w, beta, p);
   let edges = 0;
   for (let i = 0; i < p; i++) {
     for (let j = i + 1; j < p; j++) {
@@ -276,6 +242,61 @@ export function graphicalLassoWarm(
     edges,
     notices,
   };
+}
+
+/**
+ * Sweeps over the columns of one block (its members ascending) until the mean absolute change of
+ * the block's off-diagonal of W is at most the threshold (glasso's criterion on this block alone:
+ * a mean over the block is at least the mean over the whole matrix, so this is no looser).
+ * Returns the sweeps run, negative when the sweep limit was hit first.
+ */
+function fitBlock(
+  blockMembers: Int32Array,
+  p: number,
+  penalty: number,
+  threshold: number,
+  maxSweeps: number,
+  s: Float64Array,
+  state: GraphicalLassoState,
+  workspace: ColumnWorkspace,
+): number {
+  const w = state.covariance;
+  const wb = state.product;
+  const size = blockMembers.length;
+  const pairs = size * (size - 1);
+  let sweeps = 0;
+  while (sweeps < maxSweeps) {
+    sweeps++;
+    let change = 0;
+    for (let index = 0; index < size; index++) {
+      const j = blockMembers[index];
+      const row = j * p;
+      solveColumnLasso(j, p, penalty, threshold, s, w, state.coefficients, wb, state.active, blockMembers, workspace);
+      for (let t = 0; t < size; t++) {
+        const k = blockMembers[t];
+        if (k === j) continue;
+        change += Math.abs(wb[k] - w[k * p + j]);
+        w[k * p + j] = wb[k];
+        w[row + k] = wb[k];
+      }
+    }
+    if (change / pairs <= threshold) return sweeps;
+  }
+  return -sweeps;
+}
+
+/** θ_jj = 1 / (w_jj − w₁₂ᵀβ) and θ₁₂ = −β θ_jj, column by column (not yet symmetrised). */
+function precisionFromState(w: Float64Array, beta: Float64Array, p: number): Float64Array {
+  const precision = new Float64Array(p * p);
+  for (let j = 0; j < p; j++) {
+    const row = j * p;
+    let quadratic = 0;
+    for (let k = 0; k < p; k++) if (k !== j) quadratic += w[k * p + j] * beta[row + k];
+    const diagonal = 1 / (w[row + j] - quadratic);
+    precision[row + j] = diagonal;
+    for (let k = 0; k < p; k++) if (k !== j) precision[k * p + j] = -beta[row + k] * diagonal;
+  }
+  return precision;
 }
 
 const FACE_NOT_TAKEN = 0;
@@ -376,7 +397,10 @@ function lassoPass(
     const wkk = w[wk + k];
     const old = beta[row + k];
     const partial = s[wk + j] - wb[k] + wkk * old;
-    const updated = partial > penalty ? (partial - penalty) / wkk : partial < -penalty ? (partial + penalty) / wkk : 0;
+    // Soft threshold, written with the same operations for either sign (bit for bit
+    // (partial ∓ ρ) / w_kk), so that the optimised code meets no branch it has not seen.
+    const excess = Math.abs(partial) - penalty;
+    const updated = excess > 0 ? ((partial > 0 ? 1 : -1) * excess) / wkk : 0;
     if (updated !== old) {
       if (updated === 0 || old === 0) workspace.supportChanged = true;
       const delta = updated - old;
@@ -460,7 +484,7 @@ function solveOnSupport(
     wb[k] = sum;
     if (beta[row + k] === 0) {
       const partial = s[wk + j] - sum;
-      if (partial > penalty || partial < -penalty) optimal = false;
+      if (Math.abs(partial) > penalty) optimal = false;
     }
   }
   return optimal ? FACE_OPTIMAL : FACE_TAKEN;
