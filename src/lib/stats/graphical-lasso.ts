@@ -192,15 +192,7 @@ export function graphicalLassoWarm(
   // each block is fitted on its own and every pair across blocks is zero in Θ and in W. A warm
   // state from another penalty may hold values across the new blocks: they are cleared.
   const blocks = screeningBlocks(s, p, penalty, state.blockOf, state.members, state.blockStart);
-  const blockOf = state.blockOf;
-  for (let i = 0; i < p; i++) {
-    for (let k = 0; k < p; k++) {
-      if (blockOf[i] !== blockOf[k]) {
-        w[i * p + k] = 0;
-        beta[i * p + k] = 0;
-      }
-    }
-  }
+  clearAcrossBlocks(state.blockOf, w, beta, p);
 
   const workspace: ColumnWorkspace = { factor: new Float64Array(p * p), solution: new Float64Array(p), activeSigns: new Float64Array(p), supportChanged: false };
   let sweeps = 0;
@@ -215,16 +207,7 @@ export function graphicalLassoWarm(
   }
 
   const precision = precisionFromState(w, beta, p);
-  let edges = 0;
-  for (let i = 0; i < p; i++) {
-    for (let j = i + 1; j < p; j++) {
-      const sum = 0.5 * (precision[i * p + j] + precision[j * p + i]);
-      const value = sum === 0 ? 0 : sum; // no −0 from −β·θ_jj
-      precision[i * p + j] = value;
-      precision[j * p + i] = value;
-      if (value !== 0) edges++;
-    }
-  }
+  const edges = symmetrizeAndCountEdges(precision, p);
   const notices: NumericalNotice[] = [];
   if (!converged) {
     notices.push({
@@ -283,6 +266,33 @@ function fitBlock(
     if (change / pairs <= threshold) return sweeps;
   }
   return -sweeps;
+}
+
+/** Zeros W and β for every pair of items in different blocks. */
+function clearAcrossBlocks(blockOf: Int32Array, w: Float64Array, beta: Float64Array, p: number): void {
+  for (let i = 0; i < p; i++) {
+    for (let k = 0; k < p; k++) {
+      if (blockOf[i] !== blockOf[k]) {
+        w[i * p + k] = 0;
+        beta[i * p + k] = 0;
+      }
+    }
+  }
+}
+
+/** Replaces θ_ij and θ_ji by their mean (no −0) and returns the pairs i < j that are non-zero. */
+function symmetrizeAndCountEdges(precision: Float64Array, p: number): number {
+  let edges = 0;
+  for (let i = 0; i < p; i++) {
+    for (let j = i + 1; j < p; j++) {
+      const sum = 0.5 * (precision[i * p + j] + precision[j * p + i]);
+      const value = sum === 0 ? 0 : sum; // no −0 from −β·θ_jj
+      precision[i * p + j] = value;
+      precision[j * p + i] = value;
+      if (value !== 0) edges++;
+    }
+  }
+  return edges;
 }
 
 /** θ_jj = 1 / (w_jj − w₁₂ᵀβ) and θ₁₂ = −β θ_jj, column by column (not yet symmetrised). */
