@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { createGraphicalLassoState, graphicalLasso, graphicalLassoWarm } from '../../src/lib/stats/graphical-lasso';
-import { squareMatrixFromRows } from '../../src/lib/stats/types';
+import { createSeededRandom } from '../../src/lib/stats/seeded-random';
+import { squareMatrixFromRows, type SquareMatrix } from '../../src/lib/stats/types';
 import { largestDifference, networkFixture } from './local-dependence-fixtures';
 
 describe('graphicalLasso', () => {
@@ -134,6 +135,57 @@ describe('graphicalLasso screening and warm starts', () => {
       // R 4.2.2 glasso 1.11: glasso::glasso(s, rho = 0.1, thr = 1e-12, maxit = 1e5)$wi
       expect(largestDifference(warm.precision, reference.tight.wi)).toBeLessThan(1e-9);
       expect(largestDifference(warm.covariance, reference.tight.w)).toBeLessThan(1e-9);
+    }
+  });
+});
+
+describe('graphicalLasso on seeded random covariance matrices', () => {
+  it('meets the optimality conditions from cold and warm starts, with and without a penalised diagonal', () => {
+    // Identities (Friedman, Hastie & Tibshirani 2008, eq. 2): W Θ = I; w_ii = s_ii (+ ρ); w_ij − s_ij = ρ sign(θ_ij)
+    // where θ_ij ≠ 0 and |w_ij − s_ij| ≤ ρ where θ_ij = 0. Factor-model data, 2 to 16 items.
+    const random = createSeededRandom(20261203);
+    for (let trial = 0; trial < 40; trial++) {
+      const p = 2 + random.nextInt(15);
+      const n = p + 2 + random.nextInt(40);
+      const factors = 1 + random.nextInt(3);
+      const loadings = Array.from({ length: p }, () => Array.from({ length: factors }, () => (random.next() - 0.3) * 1.5));
+      const noise = Array.from({ length: p }, () => 0.2 + random.next());
+      const rows = Array.from({ length: n }, () => {
+        const f = Array.from({ length: factors }, () => random.nextNormal());
+        return loadings.map((l, j) => l.reduce((sum, v, i) => sum + v * f[i], 0) + noise[j] * random.nextNormal());
+      });
+      const data = new Float64Array(p * p);
+      for (let a = 0; a < p; a++) for (let b = a; b < p; b++) {
+        let sum = 0;
+        for (const row of rows) sum += row[a] * row[b];
+        data[a * p + b] = sum / n;
+        data[b * p + a] = sum / n;
+      }
+      const s: SquareMatrix = { order: p, data };
+      const penalizeDiagonal = trial % 3 === 0;
+      for (const share of [0.02, 0.1, 0.4]) {
+        const rho = share * data[0];
+        let fit = graphicalLasso(s, rho, { penalizeDiagonal });
+        if (trial % 2 === 1) {
+          const state = createGraphicalLassoState(s, rho * 5, penalizeDiagonal);
+          graphicalLassoWarm(s, trial % 4 === 1 ? rho * 5 : rho / 5, state, { penalizeDiagonal });
+          fit = graphicalLassoWarm(s, rho, state, { penalizeDiagonal });
+        }
+        expect(fit.converged).toBe(true);
+        const w = fit.covariance.data;
+        const theta = fit.precision.data;
+        for (let i = 0; i < p; i++) {
+          for (let j = 0; j < p; j++) {
+            let product = 0;
+            for (let k = 0; k < p; k++) product += w[i * p + k] * theta[k * p + j];
+            expect(Math.abs(product - (i === j ? 1 : 0))).toBeLessThan(1e-7);
+            const gap = w[i * p + j] - data[i * p + j];
+            if (i === j) expect(Math.abs(gap - (penalizeDiagonal ? rho : 0))).toBeLessThan(1e-12);
+            else if (theta[i * p + j] === 0) expect(Math.abs(gap)).toBeLessThanOrEqual(rho + 1e-8);
+            else expect(Math.abs(gap - rho * Math.sign(theta[i * p + j]))).toBeLessThan(1e-7);
+          }
+        }
+      }
     }
   });
 });
