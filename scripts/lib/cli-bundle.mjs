@@ -1,14 +1,15 @@
 // The command-line audit's bundle: src/cli/audit.ts and everything it imports (the reader, the
 // audit, the engine, the numerical core, zod, ml-matrix, papaparse, yauzl) in one ESM file,
 // built once by esbuild (the bundler of the audit worker, src/lib/server/audit-jobs/
-// audit-worker-build.ts) and rebuilt only when one of its inputs changes. Plain Node, like
+// audit-worker-build.ts) and rebuilt only when one of its inputs changes (an input whose size and
+// modification time are as recorded is not read again; any other is hashed). Plain Node, like
 // prepare.mjs. docs/decisions/020-speed-whole-audit.md. The wave reader's worker entry
 // (src/lib/workers/worker-entries.ts: wave-reader-worker.mjs) is bundled beside it, where the
 // one worker mechanism looks for it from the bundle's folder (docs/decisions/018); so are the
 // bootstrap's resample thread (resample-worker.mjs, docs/decisions/021) and parallel analysis's
 // (random-eigenvalue-worker.mjs, docs/decisions/020).
 import { createHash } from 'node:crypto';
-import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, mkdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { root } from './prepare.mjs';
 
@@ -26,6 +27,31 @@ function hashOf(relativePath) {
   return createHash('sha256').update(readFileSync(path)).digest('hex');
 }
 
+/** An input's size and modification time (ms), or null when it is missing. */
+function statOf(relativePath) {
+  try {
+    const stats = statSync(join(root, relativePath));
+    return { size: stats.size, mtimeMs: stats.mtimeMs };
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * True when the input is as the stamp recorded it. Its size and modification time are looked at
+ * first (one stat, no read): when both are as recorded the file is taken as unchanged; when
+ * either differs (a checkout, an edit, a touch), its SHA-256 decides, so touching a file without
+ * changing it costs a hash but never a rebuild.
+ */
+function isUnchanged(relativePath, recorded) {
+  const hash = typeof recorded === 'string' ? recorded : recorded?.hash;
+  if (typeof recorded === 'object' && recorded !== null) {
+    const stats = statOf(relativePath);
+    if (stats !== null && stats.size === recorded.size && stats.mtimeMs === recorded.mtimeMs) return true;
+  }
+  return hashOf(relativePath) === (hash ?? null);
+}
+
 /** True when the bundle exists and no input listed in its stamp changed since it was built. */
 function isCurrent() {
   if (!existsSync(cliBundle) || !workerBundles.every((name) => existsSync(join(root, 'dist', 'cli', `${name}.mjs`))) || !existsSync(stamp)) return false;
@@ -37,7 +63,7 @@ function isCurrent() {
   }
   if (recorded === null || typeof recorded !== 'object' || typeof recorded.inputs !== 'object') return false;
   if (recorded.node !== process.versions.node) return false;
-  return Object.entries(recorded.inputs).every(([path, hash]) => hashOf(path) === hash);
+  return Object.entries(recorded.inputs).every(([path, entry]) => isUnchanged(path, entry));
 }
 
 /**
@@ -74,7 +100,7 @@ export async function ensureCliBundle({ force = false, quiet = false } = {}) {
     legalComments: 'none',
   });
   const inputs = {};
-  for (const path of [...Object.keys(result.metafile.inputs), ...alwaysHashed].sort()) inputs[path] = hashOf(path);
+  for (const path of [...Object.keys(result.metafile.inputs), ...alwaysHashed].sort()) inputs[path] = { hash: hashOf(path), ...statOf(path) };
   writeFileSync(stamp, `${JSON.stringify({ node: process.versions.node, inputs }, null, 1)}\n`);
   return { built: true, file: cliBundle };
 }

@@ -31,15 +31,22 @@ beforeAll(() => {
 
 describe('the command-line bundle', () => {
   it('holds only what the audit needs and is rebuilt when an input changes', () => {
-    const stamp = JSON.parse(readFileSync(STAMP, 'utf8')) as { inputs: Record<string, string> };
+    const stamp = JSON.parse(readFileSync(STAMP, 'utf8')) as { inputs: Record<string, { hash: string; size: number; mtimeMs: number }> };
     const inputs = Object.keys(stamp.inputs);
     expect(inputs).toContain('src/cli/audit.ts');
     expect(inputs).toContain('src/lib/audit/run-audit.ts');
     // Nothing of the server, the database or the pages: the CLI loads the audit alone.
     expect(inputs.filter((path) => /^src\/(db|pages|components|lib\/server)\//.test(path) || /node_modules\/(better-sqlite3|astro|react|drizzle-orm)\//.test(path))).toEqual([]);
     expect(ensureBundle()).toBe(false);
-    // A changed input (its recorded hash no longer matches) makes the next run build again.
-    writeFileSync(STAMP, JSON.stringify({ ...stamp, inputs: { ...stamp.inputs, 'src/lib/stats/parallel-analysis.ts': 'changed' } }));
+    const entry = stamp.inputs['src/lib/stats/parallel-analysis.ts'];
+    // Size and modification time as recorded: the file is not read again (its hash is not looked at).
+    writeFileSync(STAMP, JSON.stringify({ ...stamp, inputs: { ...stamp.inputs, 'src/lib/stats/parallel-analysis.ts': { ...entry, hash: 'not-read' } } }));
+    expect(ensureBundle()).toBe(false);
+    // A touched input (another modification time) whose content is unchanged is hashed, and not rebuilt.
+    writeFileSync(STAMP, JSON.stringify({ ...stamp, inputs: { ...stamp.inputs, 'src/lib/stats/parallel-analysis.ts': { ...entry, mtimeMs: entry.mtimeMs - 1000 } } }));
+    expect(ensureBundle()).toBe(false);
+    // A changed input (its time differs and its recorded hash no longer matches) makes the next run build again.
+    writeFileSync(STAMP, JSON.stringify({ ...stamp, inputs: { ...stamp.inputs, 'src/lib/stats/parallel-analysis.ts': { ...entry, mtimeMs: entry.mtimeMs - 1000, hash: 'changed' } } }));
     expect(ensureBundle()).toBe(true);
     expect(ensureBundle()).toBe(false);
   }, 240_000);

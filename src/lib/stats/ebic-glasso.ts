@@ -12,8 +12,8 @@
  *   partial-correlation matrix of that Θ: −θ_ij / sqrt(θ_ii θ_jj), zero diagonal. No refit and
  *   no thresholding (EBICglasso's defaults refit = FALSE, threshold = FALSE).
  * The path is walked from the largest penalty down with warm starts at EBIC_PATH_TOLERANCE (1e-7,
- * against glasso's default 1e-4), and the selected penalty is then refitted from a cold start to
- * GRAPHICAL_LASSO_TOLERANCE, so the network returned is the optimum itself: it matches
+ * against glasso's default 1e-4), and the selected penalty is then refitted, from its own fit on
+ * the path, to GRAPHICAL_LASSO_TOLERANCE, so the network returned is the optimum itself: it matches
  * EBICglasso with thr = 1e-12 to about 1e-11, and EBICglasso's default call to glasso's
  * stopping error there (about 1e-5 on the partial correlations).
  *
@@ -23,7 +23,7 @@
  * (Biostatistics 9:432-441); Epskamp & Fried 2018, "A tutorial on regularized partial
  * correlation networks" (Psychological Methods 23:617-634), which describes EBICglasso.
  */
-import { createGraphicalLassoState, graphicalLasso, graphicalLassoWarm } from './graphical-lasso';
+import { createGraphicalLassoState, graphicalLassoWarm } from './graphical-lasso';
 import { checkCovarianceMatrix } from './covariance-input';
 import { symmetricEigenvalues } from './symmetric-eigen';
 import {
@@ -150,6 +150,9 @@ export function ebicGlasso(matrix: SquareMatrix, sampleSize: number, options: Eb
   let bestIndex = -1;
   let converged = true;
   const state = createGraphicalLassoState(correlation, penalties[count - 1], false);
+  // The fit of the best penalty so far (R's which.min: the lowest index on ties, and the path runs
+  // downward), kept to start the final refit from.
+  const best = createGraphicalLassoState(correlation, penalties[count - 1], false);
   for (let k = count - 1; k >= 0; k--) {
     const fit = graphicalLassoWarm(correlation, penalties[k], state, { tolerance: pathTolerance });
     if (!fit.converged) converged = false;
@@ -157,13 +160,15 @@ export function ebicGlasso(matrix: SquareMatrix, sampleSize: number, options: Eb
     const logLikelihood = (sampleSize / 2) * (logDeterminantPositiveDefinite(theta, p) - traceOfProduct(theta, s, p));
     edges[k] = fit.edges;
     ebic[k] = -2 * logLikelihood + fit.edges * logN + 4 * fit.edges * gamma * logP;
-  }
-  for (let k = 0; k < count; k++) {
     if (Number.isNaN(ebic[k])) ebic[k] = Number.POSITIVE_INFINITY; // Θ not positive definite: never selected
-    if (bestIndex < 0 || ebic[k] < ebic[bestIndex]) bestIndex = k;
+    if (bestIndex < 0 || ebic[k] <= ebic[bestIndex]) {
+      bestIndex = k;
+      best.covariance.set(state.covariance);
+      best.coefficients.set(state.coefficients);
+    }
   }
-  // The selected penalty refitted from a cold start to the tight tolerance.
-  const refit = graphicalLasso(correlation, penalties[bestIndex], { tolerance });
+  // The selected penalty refitted to the tight tolerance, from its own fit on the path.
+  const refit = graphicalLassoWarm(correlation, penalties[bestIndex], best, { tolerance });
   if (!refit.converged) converged = false;
   const bestPrecision = refit.precision.data;
   edges[bestIndex] = refit.edges;

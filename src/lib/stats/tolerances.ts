@@ -182,6 +182,13 @@ export const RELATIVE_WEIGHTS_EIGENVALUE_TOLERANCE = 1e-12;
 export const GRAPHICAL_LASSO_TOLERANCE = 1e-10;
 /** Ceiling on graphical-lasso sweeps over all columns before non-convergence is reported. */
 export const GRAPHICAL_LASSO_MAX_SWEEPS = 10_000;
+/**
+ * Graphical lasso: when two sweeps in a row shrink the change of W by ratios within `agreement`
+ * of each other and between `lowest` and `highest`, the remaining geometric tail r / (1 − r) of
+ * the last step is added at once (Aitken's extrapolation); slow linear convergence (ratios near
+ * 0.85 where two blocks of items have just joined) then takes a few sweeps instead of dozens.
+ */
+export const GRAPHICAL_LASSO_EXTRAPOLATION_RATIOS = Object.freeze({ lowest: 0.5, highest: 0.95, agreement: 0.02 } as const);
 /** Ceiling on coordinate-descent passes of one column's inner lasso within one sweep. */
 export const GRAPHICAL_LASSO_MAX_INNER_PASSES = 1_000;
 /**
