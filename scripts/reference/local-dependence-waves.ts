@@ -46,7 +46,7 @@ for (const kind of LOCAL_DEPENDENCE_WAVE_KINDS) {
     const doublets = spec.scales.flatMap((scale) =>
       scale.items.filter((item) => item.doubletOf !== undefined).map((item) => ({ a: item.doubletOf as string, b: item.name, residual: item.doubletResidual as number })),
     );
-    manifest.push({ kind, seed, file, respondents: matrix.rows, items: items.map((item) => ({ id: item.id, scale: item.scale, points: item.max - item.min + 1 })), doublets });
+    manifest.push({ kind, seed, file, respondents: matrix.rows, items: items.map((item) => ({ id: item.id, scale: item.scale, points: item.max === null || item.min === null ? null : item.max - item.min + 1 })), doublets });
   }
 }
 writeFileSync(join(directory, 'manifest.json'), JSON.stringify(manifest));
