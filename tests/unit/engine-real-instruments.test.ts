@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { computeEvidence } from '../../src/lib/engine/compute-evidence';
 import { runEngine, type EngineResult } from '../../src/lib/engine/run-engine';
-import { instrumentInput, realInstruments } from './engine-real-instruments';
+import { instrumentInput, msqInstrument, realInstruments } from './engine-real-instruments';
 
 // The confirmatory models' verdicts come from scripts/reference/engine-real-instruments.R
 // (lavaan 0.6.14, psych 2.2.9, psychTools 2.2.9): per scale, the residual covariance with the
@@ -9,8 +9,8 @@ import { instrumentInput, realInstruments } from './engine-real-instruments';
 // bootstrap at 50 draws to keep the file affordable (an audit: 200).
 const cheap = { bootstrap: 0, residualBootstrapDraws: 50 };
 
-async function audit(name: 'bfi' | 'holzinger' | 'epi' | 'sai'): Promise<EngineResult> {
-  const { matrix, items } = instrumentInput(realInstruments[name]);
+async function audit(name: 'bfi' | 'holzinger' | 'epi' | 'sai' | 'msq'): Promise<EngineResult> {
+  const { matrix, items } = instrumentInput(name === 'msq' ? msqInstrument : realInstruments[name]);
   const evidence = computeEvidence(matrix, items, { method: 'pearson', missing: 'pairwise', ...cheap });
   return runEngine(evidence, matrix, items, cheap);
 }
@@ -62,5 +62,26 @@ describe('the engine on real open instruments, against the largest modification 
     const recommendation = result.recommendations.find((entry) => entry.cluster.includes('worried'))!;
     expect([...recommendation.cluster].sort()).toEqual(['worried', 'worrying']);
     expect(recommendation.actions.map((action) => action.action)).toEqual(['drop']); // the keeper is not listed among the actions
+  });
+
+  it('psychTools::msq energetic and tense arousal: flags the synonym pairs lavaan\'s sequential modification indices point to, as pairs, not chains', async () => {
+    const result = await audit('msq');
+    const { EA, TA } = msqInstrument.scales;
+    // R (scripts/reference/engine-msq.R): modindices(cfa("f =~ active + ... + drowsy", msq, missing = "ml")): largest "~~" sleepy/drowsy, mi 2410.4
+    expect(EA.largest[0].pair).toEqual(['sleepy', 'drowsy']);
+    // ...and of the tense-arousal model quiet/still, mi 810.4; then calm/at.rest, 592.3
+    expect(TA.largest[0].pair).toEqual(['quiet', 'still']);
+    expect(TA.largest[1].pair).toEqual(['calm', 'at.rest']);
+    // Sequential use with the engine's levels (Bonferroni .001, SEPC .20): EA frees sleepy/drowsy, then wakeful/wide.awake (401.2)
+    expect(EA.sequential.slice(0, 2).map((step) => step.pair)).toEqual([['sleepy', 'drowsy'], ['wakeful', 'wide.awake']]);
+    // sleepy/drowsy correlate .85 and stand out of their scale: a strong pair (set aside from the index model).
+    expect(flagged(result, ['sleepy', 'drowsy'])).toContain('strong-pair');
+    for (const pair of [['quiet', 'still'], ['calm', 'at.rest'], ['wakeful', 'wide.awake']] as const) expect(flagged(result, pair)).toContain('local-dependence-mi');
+    // full.of.pep/lively: R's fifth largest EA index (314.8); r .81 here, a strong pair standing out of its scale.
+    expect(EA.largest.map((entry) => entry.pair.join('/'))).toContain('full.of.pep/lively');
+    // Complete linkage keeps each recommendation to its pair: no seven-adjective chain of energetic-arousal markers.
+    expect(clusters(result)).toEqual(['at.rest/calm', 'drowsy/sleepy', 'full.of.pep/lively', 'quiet/still', 'wakeful/wide.awake']);
+    // Synonyms of one scale are proposed for dropping, never for rewording.
+    expect(result.recommendations.flatMap((entry) => entry.actions.map((action) => action.action))).toEqual(['drop', 'drop', 'drop', 'drop', 'drop']);
   });
 });
