@@ -15,7 +15,7 @@ import { localDependenceWaveSpec, type LocalDependenceWaveKind } from '../../src
 // The published detectors on the same files: scripts/reference/local-dependence-recall.R (lavaan
 // 0.6-14, psych 2.2.9) on the waves scripts/reference/local-dependence-waves.ts writes, every wave's
 // flagged pairs in fixtures/reference/local-dependence-recall.json. None of them reaches .95 recall
-// with .95 precision either (README, docs/decisions/023).
+// with .95 precision either (README, docs/decisions/024-doublet-recall-against-r.md).
 const reference = JSON.parse(readFileSync(new URL('../../fixtures/reference/local-dependence-recall.json', import.meta.url), 'utf8')) as {
   waves: { kind: LocalDependenceWaveKind; seed: number; respondents: number; flags: Record<string, string | string[]> }[];
 };
