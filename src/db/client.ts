@@ -1,6 +1,7 @@
 /**
  * The SQLite connection: one per process, opened on first use with WAL, foreign keys and a busy
- * timeout, and migrated to the latest schema before anything reads it.
+ * timeout, keeping the statements it compiles, and migrated to the latest schema before anything
+ * reads it.
  */
 import Database from 'better-sqlite3';
 import { drizzle, type BetterSQLite3Database } from 'drizzle-orm/better-sqlite3';
@@ -8,6 +9,7 @@ import { mkdirSync } from 'node:fs';
 import { dirname } from 'node:path';
 import * as schema from './schema';
 import { applyMigrations } from './migrate';
+import { keepPreparedStatements } from './statement-cache';
 
 export type Db = BetterSQLite3Database<typeof schema> & { $client: Database.Database };
 
@@ -23,6 +25,7 @@ export function openDatabase(path: string): Db {
   sqlite.pragma('foreign_keys = ON');
   sqlite.pragma('busy_timeout = 5000');
   sqlite.pragma('synchronous = NORMAL');
+  keepPreparedStatements(sqlite);
   const db = drizzle(sqlite, { schema }) as Db;
   applyMigrations(db);
   return db;
