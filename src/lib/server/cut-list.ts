@@ -247,16 +247,6 @@ export function cutList(study: StudyRow, role: Role | null): CutListResponse {
 }
 
 /**
- * The items of a study's cut list with their current decisions (the cut list's `items`, without
- * its history and recommendation views).
- * @param study the study (access checked by the guard).
- * @returns the items, those of the reference audit first.
- */
-export function cutListItems(study: StudyRow): CutListItem[] {
-  return decidedItems(getDb(), study).items;
-}
-
-/**
  * The decision counts the study page shows (items of the reference audit, else of the latest
  * confirmed wave; an item with no decision counts as undecided).
  * @param study the study.
@@ -264,6 +254,16 @@ export function cutListItems(study: StudyRow): CutListItem[] {
  */
 export function cutListCounts(study: StudyRow): Record<DecisionKind, number> {
   return decidedItems(getDb(), study).counts;
+}
+
+/**
+ * The cut list's items and its counts from one pass (the study page shows both).
+ * @param study the study (access checked by the guard).
+ * @returns the items (those of the reference audit first) and the counts, as {@link cutListCounts}.
+ */
+export function cutListItemsAndCounts(study: StudyRow): { items: CutListItem[]; counts: Record<DecisionKind, number> } {
+  const { items, counts } = decidedItems(getDb(), study);
+  return { items, counts };
 }
 
 /** Names of the given users. */

@@ -62,9 +62,10 @@ export function listStudies(user: CurrentUser): StudySummary[] {
 /**
  * Reads a study with what lies under it (no respondent-level data).
  * @param study the study row (already checked by the guard).
+ * @param cutListCountsOfStudy the cut list's counts when the caller has them already.
  * @returns the detail.
  */
-export function studyDetail(study: StudyRow): StudyDetail {
+export function studyDetail(study: StudyRow, cutListCountsOfStudy?: Record<string, number>): StudyDetail {
   const db = getDb();
   const team = db.select({ id: teams.id, name: teams.name }).from(teams).where(eq(teams.id, study.teamId)).get();
   const waveRows = db
@@ -81,7 +82,7 @@ export function studyDetail(study: StudyRow): StudyDetail {
     .orderBy(desc(audits.createdAt))
     .all();
   // Items of the latest finished audit (else of the latest confirmed wave) with no decision count as undecided.
-  const counts: Record<string, number> = cutListCounts(study);
+  const counts: Record<string, number> = cutListCountsOfStudy ?? cutListCounts(study);
   const latest = db
     .select({ number: cutListVersions.number, publishedAt: cutListVersions.publishedAt, programmedAt: cutListVersions.programmedAt })
     .from(cutListVersions)
