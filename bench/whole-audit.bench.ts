@@ -13,6 +13,10 @@
  *      resamples of cor(pairwise) + VIF (diag(solve)) + eigen after read.csv. Goal <= 0.5 × R.
  *   D. 100,000 × 300 five-point items, complete, Pearson, no bootstrap: <= 10 s and <= 1.5 GB peak
  *      resident memory (our process's maxRSS), with R's whole script of B beside it.
+ *   E. C on a questionnaire: 2,000 respondents, ten scales of ten five-point items with four planted
+ *      near-copies and a missing-answer code, with its codebook, so the audit has recommendations
+ *      and the 200 resamples decide them (C's file has no scales: its audit has nothing to resample).
+ *      R as in C on the same items. Goal <= 0.5 × R.
  *
  * Run: `npm run bench -- whole-audit` (or `npx tsx bench/whole-audit.bench.ts`); `--quick` (or
  * PAREDOWN_BENCH_QUICK=1) runs every case at a small size, to check the benchmark itself; `--no-r`
@@ -20,10 +24,12 @@
  * Last lines, machine-readable: {"bench":"whole-audit-A",...}. Figures only: nothing asserts.
  */
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import { generateWave } from '../src/lib/synth/generate-wave';
+import { codebookToCsv, toCsv } from '../src/lib/synth/wave-csv';
 import { loadAverageAndCores, ordinalFactorData, withRScript, writeItemsCsv } from './bench-helpers';
 
 const root = fileURLToPath(new URL('..', import.meta.url));
@@ -45,6 +51,37 @@ interface Case {
   readonly rLabel: string;
   /** Goal: ours <= ratio × R, or absolute seconds and MB. */
   readonly goal: { readonly ratio?: number; readonly seconds?: number; readonly megabytes?: number };
+  /** Writes the wave another way than `ordinalFactorData` (a generated questionnaire with its codebook); returns flags to add. */
+  readonly write?: (file: string, directory: string) => string[];
+}
+
+/**
+ * A questionnaire the bootstrap has work on: `SCALES` scales of ten five-point items, the last item
+ * of four scales a planted near-copy of the first (the generator, as in bench/bootstrap.bench.ts),
+ * with a missing-answer code and a codebook. Without scales and recommendations an audit has no
+ * decision to resample, so case C alone never times the bootstrap.
+ */
+function writeQuestionnaire(rows: number, scales: number) {
+  return (file: string, directory: string): string[] => {
+    const wave = generateWave(
+      {
+        respondents: rows,
+        scales: Array.from({ length: scales }, (_, s) => ({
+          name: `scale_${s + 1}`,
+          points: 5 as const,
+          items: Array.from({ length: 10 }, (_, q) => ({ name: `b${s + 1}_${q + 1}`, text: `Bench scale ${s + 1}, statement ${q + 1}`, ...(q === 9 && s < 4 ? { twinOf: `b${s + 1}_1` } : {}) })),
+        })),
+        factorCorrelation: 0.3, loadingRange: [0.5, 0.78], twinNoise: 0.18, skew: 0.3,
+        missingCodes: [{ code: 9, label: 'prefer not to say', rate: 0.01 }], blankRate: 0.005, constantItems: [], duplicateColumns: [], straightliners: 0, speeders: 0,
+        medianDurationSeconds: 300, idColumn: 'respondent_id', durationColumn: 'duration_sec', firstRespondentId: 1, outcome: null,
+      },
+      20261203,
+    );
+    writeFileSync(file, toCsv(wave));
+    const codebook = join(directory, 'codebook.csv');
+    writeFileSync(codebook, codebookToCsv(wave.codebook));
+    return ['--codebook', codebook];
+  };
 }
 
 const R_WHOLE = (file: string): string => `
@@ -97,6 +134,30 @@ const CASES: readonly Case[] = [
     flags: ['--method', 'pearson', '--missing', 'pairwise', '--bootstrap', quick ? '20' : '200'],
     r: (file) => `
       x <- as.matrix(read.csv(${JSON.stringify(file)}))
+      set.seed(1)
+      for (b in 1:${quick ? 20 : 200}) {
+        s <- x[sample.int(nrow(x), replace = TRUE), ]
+        r <- cor(s, use = "pairwise.complete.obs")
+        vif <- diag(solve(r))
+        e <- eigen(r, symmetric = TRUE, only.values = TRUE)$values
+      }
+    `,
+    rLabel: `R read.csv + ${quick ? 20 : 200} × (cor + VIF + eigen)`,
+    goal: { ratio: 0.5 },
+  },
+  {
+    name: 'whole-audit-E',
+    what: 'C on a questionnaire: ten scales, four planted near-copies, a codebook',
+    rows: scale(2_000, 300),
+    items: scale(100, 40),
+    categories: 5,
+    missingShare: 0,
+    flags: ['--method', 'pearson', '--missing', 'pairwise', '--bootstrap', quick ? '20' : '200'],
+    write: writeQuestionnaire(scale(2_000, 300), scale(10, 4)),
+    r: (file) => `
+      x <- read.csv(${JSON.stringify(file)})
+      x <- as.matrix(x[, grepl("^b", names(x))])
+      x[x == 9] <- NA
       set.seed(1)
       for (b in 1:${quick ? 20 : 200}) {
         s <- x[sample.int(nrow(x), replace = TRUE), ]
@@ -169,9 +230,9 @@ for (const [index, entry] of CASES.entries()) {
   const directory = mkdtempSync(join(tmpdir(), 'paredown-whole-audit-'));
   try {
     const file = join(directory, 'items.csv');
-    writeItemsCsv(file, ordinalFactorData(entry.rows, entry.items, entry.categories, 20261202 + index, entry.missingShare));
+    const extraFlags = entry.write ? entry.write(file, directory) : (writeItemsCsv(file, ordinalFactorData(entry.rows, entry.items, entry.categories, 20261202 + index, entry.missingShare)), []);
     console.log(`\n${entry.name}: ${entry.rows.toLocaleString('en-GB')} × ${entry.items} ${entry.categories}-point items, ${entry.what}`);
-    const ours = runOurs(file, entry.flags, directory);
+    const ours = runOurs(file, [...entry.flags, ...extraFlags], directory);
     console.log(`  Paredown, whole command        ${ours.seconds.toFixed(2)} s, peak ${ours.megabytes.toFixed(0)} MB${ours.ok ? '' : `  FAILED: ${ours.note}`}`);
     const rSeconds = runR(entry, file);
     const ratio = rSeconds === null ? null : ours.seconds / rSeconds;
