@@ -9,6 +9,7 @@ import { availableParallelism, loadavg, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { createSeededRandom } from '../src/lib/stats/seeded-random';
 import type { ItemMatrix } from '../src/lib/stats/types';
+import type { WaveSpec } from '../src/lib/synth/types';
 
 /**
  * The load averages over 1, 5 and 15 minutes and the number of cores, for the heading of a run.
@@ -107,4 +108,38 @@ export function writeItemsCsv(path: string, matrix: ItemMatrix): void {
   } finally {
     closeSync(descriptor);
   }
+}
+
+/**
+ * A questionnaire for the bootstrap benchmarks: `scales` scales of ten five-point items, the last
+ * item of the first four scales a planted near-copy of the scale's first, a missing-answer code
+ * (9) and a few blanks; the wave's id and duration columns come with it.
+ * @param rows respondents.
+ * @param scales scales of ten items.
+ * @returns the generator's spec.
+ */
+export function questionnaireSpec(rows: number, scales: number): WaveSpec {
+  return {
+    respondents: rows,
+    scales: Array.from({ length: scales }, (_, s) => ({
+      name: `scale_${s + 1}`,
+      points: 5 as const,
+      items: Array.from({ length: 10 }, (_, q) => ({ name: `b${s + 1}_${q + 1}`, text: `Bench scale ${s + 1}, statement ${q + 1}`, ...(q === 9 && s < 4 ? { twinOf: `b${s + 1}_1` } : {}) })),
+    })),
+    factorCorrelation: 0.3,
+    loadingRange: [0.5, 0.78],
+    twinNoise: 0.18,
+    skew: 0.3,
+    missingCodes: [{ code: 9, label: 'prefer not to say', rate: 0.01 }],
+    blankRate: 0.005,
+    constantItems: [],
+    duplicateColumns: [],
+    straightliners: 0,
+    speeders: 0,
+    medianDurationSeconds: 300,
+    idColumn: 'respondent_id',
+    durationColumn: 'duration_sec',
+    firstRespondentId: 1,
+    outcome: null,
+  };
 }

@@ -26,7 +26,7 @@ import { generateWave } from '../src/lib/synth/generate-wave';
 import type { WaveSpec } from '../src/lib/synth/types';
 import type { ItemMatrix } from '../src/lib/stats/types';
 import { referenceResampleDecision, referenceResampleRows } from '../tests/unit/bootstrap-reference';
-import { loadAverageAndCores, withRScript } from './bench-helpers';
+import { loadAverageAndCores, questionnaireSpec, withRScript } from './bench-helpers';
 
 const quick = process.argv.includes('--quick');
 const ROWS = quick ? 500 : 2_000;
@@ -36,16 +36,7 @@ const RESAMPLES = quick ? 20 : 200;
 const REFERENCE_RESAMPLES = quick ? 3 : 6;
 
 function spec(): WaveSpec {
-  const scales = Array.from({ length: SCALES }, (_, s) => ({
-    name: `scale_${s + 1}`,
-    points: 5 as const,
-    items: Array.from({ length: 10 }, (_, q) => ({ name: `b${s + 1}_${q + 1}`, text: `Bench scale ${s + 1}, statement ${q + 1}`, ...(q === 9 && s < 4 ? { twinOf: `b${s + 1}_1` } : {}) })),
-  }));
-  return {
-    respondents: ROWS, scales, factorCorrelation: 0.3, loadingRange: [0.5, 0.78], twinNoise: 0.18, skew: 0.3,
-    missingCodes: [{ code: 9, label: 'prefer not to say', rate: 0.01 }], blankRate: 0.005, constantItems: [], duplicateColumns: [], straightliners: 0, speeders: 0,
-    medianDurationSeconds: 300, idColumn: 'respondent_id', durationColumn: 'duration_sec', firstRespondentId: 1, outcome: null,
-  };
+  return questionnaireSpec(ROWS, SCALES);
 }
 
 const seconds = (start: bigint): number => Number(process.hrtime.bigint() - start) / 1e9;

@@ -30,7 +30,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { generateWave } from '../src/lib/synth/generate-wave';
 import { codebookToCsv, toCsv } from '../src/lib/synth/wave-csv';
-import { loadAverageAndCores, ordinalFactorData, withRScript, writeItemsCsv } from './bench-helpers';
+import { loadAverageAndCores, ordinalFactorData, questionnaireSpec, withRScript, writeItemsCsv } from './bench-helpers';
 
 const root = fileURLToPath(new URL('..', import.meta.url));
 const quick = process.argv.includes('--quick') || process.env.PAREDOWN_BENCH_QUICK === '1';
@@ -57,26 +57,13 @@ interface Case {
 
 /**
  * A questionnaire the bootstrap has work on: `SCALES` scales of ten five-point items, the last item
- * of four scales a planted near-copy of the first (the generator, as in bench/bootstrap.bench.ts),
- * with a missing-answer code and a codebook. Without scales and recommendations an audit has no
+ * of four scales a planted near-copy of the first ({@link questionnaireSpec}, as bench/bootstrap.bench.ts
+ * uses), with a missing-answer code and a codebook. Without scales and recommendations an audit has no
  * decision to resample, so case C alone never times the bootstrap.
  */
 function writeQuestionnaire(rows: number, scales: number) {
   return (file: string, directory: string): string[] => {
-    const wave = generateWave(
-      {
-        respondents: rows,
-        scales: Array.from({ length: scales }, (_, s) => ({
-          name: `scale_${s + 1}`,
-          points: 5 as const,
-          items: Array.from({ length: 10 }, (_, q) => ({ name: `b${s + 1}_${q + 1}`, text: `Bench scale ${s + 1}, statement ${q + 1}`, ...(q === 9 && s < 4 ? { twinOf: `b${s + 1}_1` } : {}) })),
-        })),
-        factorCorrelation: 0.3, loadingRange: [0.5, 0.78], twinNoise: 0.18, skew: 0.3,
-        missingCodes: [{ code: 9, label: 'prefer not to say', rate: 0.01 }], blankRate: 0.005, constantItems: [], duplicateColumns: [], straightliners: 0, speeders: 0,
-        medianDurationSeconds: 300, idColumn: 'respondent_id', durationColumn: 'duration_sec', firstRespondentId: 1, outcome: null,
-      },
-      20261203,
-    );
+    const wave = generateWave(questionnaireSpec(rows, scales), 20261203);
     writeFileSync(file, toCsv(wave));
     const codebook = join(directory, 'codebook.csv');
     writeFileSync(codebook, codebookToCsv(wave.codebook));
@@ -95,6 +82,18 @@ const R_WHOLE = (file: string): string => `
 `;
 
 const scale = (full: number, small: number): number => (quick ? small : full);
+
+/** R's resamples of cases C and E after `read` has made the item matrix `x`: cor(pairwise), VIF and eigenvalues per resample. */
+const R_RESAMPLES = (read: string): string => `
+  ${read}
+  set.seed(1)
+  for (b in 1:${quick ? 20 : 200}) {
+    s <- x[sample.int(nrow(x), replace = TRUE), ]
+    r <- cor(s, use = "pairwise.complete.obs")
+    vif <- diag(solve(r))
+    e <- eigen(r, symmetric = TRUE, only.values = TRUE)$values
+  }
+`;
 const CASES: readonly Case[] = [
   {
     name: 'whole-audit-A',
@@ -132,16 +131,7 @@ const CASES: readonly Case[] = [
     categories: 5,
     missingShare: 0.03,
     flags: ['--method', 'pearson', '--missing', 'pairwise', '--bootstrap', quick ? '20' : '200'],
-    r: (file) => `
-      x <- as.matrix(read.csv(${JSON.stringify(file)}))
-      set.seed(1)
-      for (b in 1:${quick ? 20 : 200}) {
-        s <- x[sample.int(nrow(x), replace = TRUE), ]
-        r <- cor(s, use = "pairwise.complete.obs")
-        vif <- diag(solve(r))
-        e <- eigen(r, symmetric = TRUE, only.values = TRUE)$values
-      }
-    `,
+    r: (file) => R_RESAMPLES(`x <- as.matrix(read.csv(${JSON.stringify(file)}))`),
     rLabel: `R read.csv + ${quick ? 20 : 200} × (cor + VIF + eigen)`,
     goal: { ratio: 0.5 },
   },
@@ -154,18 +144,7 @@ const CASES: readonly Case[] = [
     missingShare: 0,
     flags: ['--method', 'pearson', '--missing', 'pairwise', '--bootstrap', quick ? '20' : '200'],
     write: writeQuestionnaire(scale(2_000, 300), scale(10, 4)),
-    r: (file) => `
-      x <- read.csv(${JSON.stringify(file)})
-      x <- as.matrix(x[, grepl("^b", names(x))])
-      x[x == 9] <- NA
-      set.seed(1)
-      for (b in 1:${quick ? 20 : 200}) {
-        s <- x[sample.int(nrow(x), replace = TRUE), ]
-        r <- cor(s, use = "pairwise.complete.obs")
-        vif <- diag(solve(r))
-        e <- eigen(r, symmetric = TRUE, only.values = TRUE)$values
-      }
-    `,
+    r: (file) => R_RESAMPLES(`x <- read.csv(${JSON.stringify(file)}); x <- as.matrix(x[, grepl("^b", names(x))]); x[x == 9] <- NA`),
     rLabel: `R read.csv + ${quick ? 20 : 200} × (cor + VIF + eigen)`,
     goal: { ratio: 0.5 },
   },
