@@ -4,7 +4,8 @@
  * request, so a role change takes effect at once.
  */
 import { getToken } from '@auth/core/jwt';
-import { and, eq, isNull, lt, or } from 'drizzle-orm';
+import { and, eq, isNull, lt, or, sql } from 'drizzle-orm';
+import { preparedQuery } from '../../db/prepared-query';
 import { apiTokens, memberships, teams, users } from '../../db/schema';
 import type { Role } from '../permissions';
 import { getConfig } from './config';
@@ -52,17 +53,35 @@ export const apiTokenPrefix = 'pd_';
  */
 export function loadUser(userId: string): CurrentUser | null {
   const db = getDb();
-  const user = db.select({ id: users.id, email: users.email, name: users.name }).from(users).where(eq(users.id, userId)).get();
+  const user = userById(db).get({ userId });
   if (!user) return null;
-  const rows = db
+  return { ...user, memberships: membershipsOf(db).all({ userId }) };
+}
+
+// Read on every request of a signed-in caller: built once (src/db/prepared-query.ts).
+const userById = preparedQuery((db) =>
+  db
+    .select({ id: users.id, email: users.email, name: users.name })
+    .from(users)
+    .where(eq(users.id, sql.placeholder('userId')))
+    .prepare(),
+);
+const membershipsOf = preparedQuery((db) =>
+  db
     .select({ teamId: memberships.teamId, teamName: teams.name, role: memberships.role })
     .from(memberships)
     .innerJoin(teams, eq(teams.id, memberships.teamId))
-    .where(eq(memberships.userId, userId))
+    .where(eq(memberships.userId, sql.placeholder('userId')))
     .orderBy(teams.name)
-    .all();
-  return { ...user, memberships: rows };
-}
+    .prepare(),
+);
+const sessionEpochOf = preparedQuery((db) =>
+  db
+    .select({ sessionEpoch: users.sessionEpoch })
+    .from(users)
+    .where(eq(users.id, sql.placeholder('userId')))
+    .prepare(),
+);
 
 function userFromApiToken(token: string): { user: CurrentUser; tokenId: string } | null {
   const row = getDb()
@@ -109,7 +128,7 @@ export async function resolveCaller(request: Request): Promise<Resolution> {
   if (!cookie) return { user: null, via: null, problem: null };
   const jwt = await sessionClaims(request, cookie);
   if (!jwt) return { user: null, via: null, problem: null };
-  const epoch = getDb().select({ sessionEpoch: users.sessionEpoch }).from(users).where(eq(users.id, jwt.sub)).get();
+  const epoch = sessionEpochOf(getDb()).get({ userId: jwt.sub });
   if (!epoch || epoch.sessionEpoch !== jwt.epoch) return { user: null, via: null, problem: null };
   const user = loadUser(jwt.sub);
   return { user, via: user ? 'session' : null, problem: null };

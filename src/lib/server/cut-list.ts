@@ -9,7 +9,8 @@
  * the items come from the latest confirmed wave, with no recommendation. Every decision records
  * the reference audit it was made under. docs/decisions/011-decisions-and-what-if.md.
  */
-import { and, desc, eq, inArray } from 'drizzle-orm';
+import { and, desc, eq, inArray, sql } from 'drizzle-orm';
+import { preparedQuery } from '../../db/prepared-query';
 import { audits, decisionHistory, decisions, users, waveItems, waves } from '../../db/schema';
 import type { Db } from '../../db/client';
 import type { AuditJson } from '../audit/audit-json';
@@ -42,6 +43,19 @@ export interface ReferenceAudit {
   result: AuditJson;
 }
 
+// Read on every study page: built once (src/db/prepared-query.ts).
+const latestDoneAudit = preparedQuery((db) =>
+  db
+    .select({ id: audits.id, waveId: audits.waveId, waveLabel: waves.label, finishedAt: audits.finishedAt, settings: audits.settings })
+    .from(audits)
+    .innerJoin(waves, eq(waves.id, audits.waveId))
+    .where(and(eq(waves.studyId, sql.placeholder('studyId')), eq(audits.status, 'done')))
+    .orderBy(desc(audits.finishedAt), desc(audits.createdAt))
+    .limit(1)
+    .prepare(),
+);
+const decisionsOfStudy = preparedQuery((db) => db.select().from(decisions).where(eq(decisions.studyId, sql.placeholder('studyId'))).prepare());
+
 /**
  * The study's latest finished audit.
  * @param db the database.
@@ -49,14 +63,7 @@ export interface ReferenceAudit {
  * @returns the audit with its parsed JSON, or null when none has finished.
  */
 export function referenceAudit(db: Db, studyId: string): ReferenceAudit | null {
-  const row = db
-    .select({ id: audits.id, waveId: audits.waveId, waveLabel: waves.label, finishedAt: audits.finishedAt, settings: audits.settings })
-    .from(audits)
-    .innerJoin(waves, eq(waves.id, audits.waveId))
-    .where(and(eq(waves.studyId, studyId), eq(audits.status, 'done')))
-    .orderBy(desc(audits.finishedAt), desc(audits.createdAt))
-    .limit(1)
-    .get();
+  const row = latestDoneAudit(db).get({ studyId });
   if (!row) return null;
   // Parsed once per process and shared, frozen (a done audit never changes).
   const result = doneAuditResult(db, row.id);
@@ -152,7 +159,7 @@ function decidedItems(db: Db, study: StudyRow): DecidedItems {
   const base = baseItems(db, study.id, reference);
   const constraints = constraintsOf(study, reference);
   const locked = new Set(constraints.lockedItems);
-  const rows = db.select().from(decisions).where(eq(decisions.studyId, study.id)).all();
+  const rows = decisionsOfStudy(db).all({ studyId: study.id });
   const byItem = new Map(rows.map((row) => [row.itemId, row]));
   const people = peopleNamed(db, [...rows.map((row) => row.decidedBy)]);
 

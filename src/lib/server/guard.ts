@@ -14,7 +14,8 @@
  *
  * Guards only read: they never write, stamp or recover anything (docs/decisions/008).
  */
-import { eq } from 'drizzle-orm';
+import { eq, sql } from 'drizzle-orm';
+import { preparedQuery } from '../../db/prepared-query';
 import { audits, studies, waves } from '../../db/schema';
 import { can, roleLabels, rolesAllowed, type Action, type Role } from '../permissions';
 import { tokenNotRecognisedMessage, type CurrentUser, type Membership } from './current-user';
@@ -53,6 +54,21 @@ export interface ObjectKind<Found> {
   locate(id: string): Located<Found> | null;
 }
 
+// The guard runs on every request that names an object: its lookups are built once (src/db/prepared-query.ts).
+const studyById = preparedQuery((db) => db.select().from(studies).where(eq(studies.id, sql.placeholder('id'))).prepare());
+const waveWithStudy = preparedQuery((db) =>
+  db.select({ wave: waves, study: studies }).from(waves).innerJoin(studies, eq(studies.id, waves.studyId)).where(eq(waves.id, sql.placeholder('id'))).prepare(),
+);
+const auditWithStudy = preparedQuery((db) =>
+  db
+    .select({ waveId: audits.waveId, study: studies })
+    .from(audits)
+    .innerJoin(waves, eq(waves.id, audits.waveId))
+    .innerJoin(studies, eq(studies.id, waves.studyId))
+    .where(eq(audits.id, sql.placeholder('id')))
+    .prepare(),
+);
+
 function kind<Found>(definition: ObjectKind<Found>): ObjectKind<Found> {
   return definition;
 }
@@ -71,7 +87,7 @@ export const objectKinds = {
     notFoundCode: 'study-not-found',
     notFoundMessage: 'No such study among your teams.',
     locate: (id: string) => {
-      const study = getDb().select().from(studies).where(eq(studies.id, id)).get();
+      const study = studyById(getDb()).get({ id });
       return study ? { teamId: study.teamId, found: { study } } : null;
     },
   }),
@@ -79,7 +95,7 @@ export const objectKinds = {
     notFoundCode: 'wave-not-found',
     notFoundMessage: 'No such wave among your teams.',
     locate: (id: string) => {
-      const row = getDb().select({ wave: waves, study: studies }).from(waves).innerJoin(studies, eq(studies.id, waves.studyId)).where(eq(waves.id, id)).get();
+      const row = waveWithStudy(getDb()).get({ id });
       return row ? { teamId: row.study.teamId, found: { study: row.study, wave: row.wave } } : null;
     },
   }),
@@ -87,13 +103,7 @@ export const objectKinds = {
     notFoundCode: 'audit-not-found',
     notFoundMessage: 'No such audit among your teams.',
     locate: (id: string) => {
-      const row = getDb()
-        .select({ waveId: audits.waveId, study: studies })
-        .from(audits)
-        .innerJoin(waves, eq(waves.id, audits.waveId))
-        .innerJoin(studies, eq(studies.id, waves.studyId))
-        .where(eq(audits.id, id))
-        .get();
+      const row = auditWithStudy(getDb()).get({ id });
       return row ? { teamId: row.study.teamId, found: { study: row.study, waveId: row.waveId } } : null;
     },
   }),

@@ -1,6 +1,6 @@
 /**
- * Two fixes to the Node adapter's request handling, applied to its code while Vite bundles it
- * into dist/server (the files in node_modules are never changed):
+ * Fixes to the Node adapter's request handling and Astro's page rendering, applied to their code
+ * while Vite bundles it into dist/server (the files in node_modules are never changed):
  *
  * 1. The client address. Astro's NodeApp takes the first `X-Forwarded-For` value as the client
  *    address whatever the configuration, so anyone could pick the address the sign-in limit
@@ -8,6 +8,13 @@
  *    {@link socketAddressSymbol}; the middleware uses forwarded headers only with TRUST_PROXY=1.
  * 2. Methods the Fetch API refuses (TRACE, TRACK, CONNECT): `new Request()` throws for them and
  *    the adapter answered 500. They get 405 with the security headers.
+ * 3. The static-file check. The adapter looked for a file in dist/client before every page
+ *    (a synchronous `lstat`, then `send`'s asynchronous `stat` and its not-found error): every
+ *    file there has an extension (`/_astro/…`, `/favicon.svg`, `/robots.txt`) and no page path
+ *    does, so only paths with an extension are looked up (docs/decisions/025-reader-latency.md).
+ * 4. The content-security-policy hashes of the page head's inline script and style. Astro hashed
+ *    the same few build-time texts with WebCrypto on every page (a thread-pool job each); the
+ *    hash of a text is kept by the text (docs/decisions/025-reader-latency.md).
  *
  * Each edit must find the text it replaces: an upgrade of astro or @astrojs/node that changes
  * it fails the build here, so the fix is never silently lost (docs/decisions/014-hardening.md).
@@ -52,6 +59,31 @@ export const nodeAdapterEdits: readonly Edit[] = [
       res.statusCode = 500;
       res.end("Internal Server Error");`,
     replace: refusedMethodAnswer,
+  },
+  {
+    file: '/@astrojs/node/dist/serve-static.js',
+    find: `  return (req, res, ssr) => {
+    if (req.url) {`,
+    replace: `  return (req, res, ssr) => {
+    if (req.url && hasFileExtension(req.url.split("#")[0].split("?")[0])) {`,
+  },
+  {
+    file: '/astro/dist/core/render-context.js',
+    find: 'import { generateCspDigest } from "./encryption.js";',
+    replace: `import { generateCspDigest as hashForCsp } from "./encryption.js";
+const keptCspDigests = new Map();
+function generateCspDigest(data, algorithm) {
+  const key = algorithm + "\u0000" + data;
+  let digest = keptCspDigests.get(key);
+  if (digest === undefined) {
+    digest = hashForCsp(data, algorithm);
+    if (keptCspDigests.size < 256) {
+      keptCspDigests.set(key, digest);
+      digest.catch(() => keptCspDigests.delete(key));
+    }
+  }
+  return digest;
+}`,
   },
 ];
 

@@ -1,5 +1,6 @@
 /** Studies: listing, reading with what lies under them, creating and deleting. */
-import { and, count, desc, eq, inArray } from 'drizzle-orm';
+import { and, count, desc, eq, inArray, sql } from 'drizzle-orm';
+import { preparedQuery } from '../../db/prepared-query';
 import type { z } from 'zod';
 import { audits, cutListVersions, decisions, studies, teams, waveItems, waves, type StudySettings } from '../../db/schema';
 import type { studySettingsRequestSchema } from '../api/cut-list';
@@ -59,6 +60,35 @@ export function listStudies(user: CurrentUser): StudySummary[] {
   }));
 }
 
+// The study page's reads, built once (src/db/prepared-query.ts).
+const teamById = preparedQuery((db) => db.select({ id: teams.id, name: teams.name }).from(teams).where(eq(teams.id, sql.placeholder('teamId'))).prepare());
+const wavesOfStudy = preparedQuery((db) =>
+  db
+    .select({ id: waves.id, label: waves.label, status: waves.status, format: waves.format, rows: waves.rowCount, items: waves.itemCount, exclusions: waves.exclusions, createdAt: waves.createdAt, confirmedAt: waves.confirmedAt })
+    .from(waves)
+    .where(eq(waves.studyId, sql.placeholder('studyId')))
+    .orderBy(waves.createdAt)
+    .prepare(),
+);
+const auditsOfStudy = preparedQuery((db) =>
+  db
+    .select({ id: audits.id, waveId: audits.waveId, status: audits.status, stage: audits.stage, progress: audits.progress, createdAt: audits.createdAt, finishedAt: audits.finishedAt, error: audits.error })
+    .from(audits)
+    .innerJoin(waves, eq(waves.id, audits.waveId))
+    .where(eq(waves.studyId, sql.placeholder('studyId')))
+    .orderBy(desc(audits.createdAt))
+    .prepare(),
+);
+const latestVersionOf = preparedQuery((db) =>
+  db
+    .select({ number: cutListVersions.number, publishedAt: cutListVersions.publishedAt, programmedAt: cutListVersions.programmedAt })
+    .from(cutListVersions)
+    .where(eq(cutListVersions.studyId, sql.placeholder('studyId')))
+    .orderBy(desc(cutListVersions.number))
+    .limit(1)
+    .prepare(),
+);
+
 /**
  * Reads a study with what lies under it (no respondent-level data).
  * @param study the study row (already checked by the guard).
@@ -67,29 +97,12 @@ export function listStudies(user: CurrentUser): StudySummary[] {
  */
 export function studyDetail(study: StudyRow, cutListCountsOfStudy?: Record<string, number>): StudyDetail {
   const db = getDb();
-  const team = db.select({ id: teams.id, name: teams.name }).from(teams).where(eq(teams.id, study.teamId)).get();
-  const waveRows = db
-    .select({ id: waves.id, label: waves.label, status: waves.status, format: waves.format, rows: waves.rowCount, items: waves.itemCount, exclusions: waves.exclusions, createdAt: waves.createdAt, confirmedAt: waves.confirmedAt })
-    .from(waves)
-    .where(eq(waves.studyId, study.id))
-    .orderBy(waves.createdAt)
-    .all();
-  const auditRows = db
-    .select({ id: audits.id, waveId: audits.waveId, status: audits.status, stage: audits.stage, progress: audits.progress, createdAt: audits.createdAt, finishedAt: audits.finishedAt, error: audits.error })
-    .from(audits)
-    .innerJoin(waves, eq(waves.id, audits.waveId))
-    .where(eq(waves.studyId, study.id))
-    .orderBy(desc(audits.createdAt))
-    .all();
+  const team = teamById(db).get({ teamId: study.teamId });
+  const waveRows = wavesOfStudy(db).all({ studyId: study.id });
+  const auditRows = auditsOfStudy(db).all({ studyId: study.id });
   // Items of the latest finished audit (else of the latest confirmed wave) with no decision count as undecided.
   const counts: Record<string, number> = cutListCountsOfStudy ?? cutListCounts(study);
-  const latest = db
-    .select({ number: cutListVersions.number, publishedAt: cutListVersions.publishedAt, programmedAt: cutListVersions.programmedAt })
-    .from(cutListVersions)
-    .where(eq(cutListVersions.studyId, study.id))
-    .orderBy(desc(cutListVersions.number))
-    .limit(1)
-    .get();
+  const latest = latestVersionOf(db).get({ studyId: study.id });
   const iso = (d: Date | null) => (d ? d.toISOString() : null);
   return {
     id: study.id,

@@ -3,7 +3,8 @@
  * outcome columns, and the settings an audit takes when nothing is changed. Aggregates only: no
  * respondent-level data.
  */
-import { and, eq } from 'drizzle-orm';
+import { and, eq, sql } from 'drizzle-orm';
+import { preparedQuery } from '../../../db/prepared-query';
 import { waveItems, waves } from '../../../db/schema';
 import { getDb } from '../db';
 import type { StudyRow } from '../guard';
@@ -15,6 +16,24 @@ export type { AuditFormWave } from '../../api/audits';
 /** The columns of a wave row the form needs (no matrix). */
 export type FormWaveRow = Pick<WaveRow, 'id' | 'label' | 'status' | 'setup' | 'rowCount' | 'exclusions'>;
 
+// Read on every designer's study page: built once (src/db/prepared-query.ts).
+const itemsOfWave = preparedQuery((db) =>
+  db
+    .select({ id: waveItems.itemId, scale: waveItems.scale, text: waveItems.text })
+    .from(waveItems)
+    .where(eq(waveItems.waveId, sql.placeholder('waveId')))
+    .orderBy(waveItems.position)
+    .prepare(),
+);
+const confirmedWavesOf = preparedQuery((db) =>
+  db
+    .select({ id: waves.id, label: waves.label, status: waves.status, setup: waves.setup, rowCount: waves.rowCount, exclusions: waves.exclusions })
+    .from(waves)
+    .where(and(eq(waves.studyId, sql.placeholder('studyId')), eq(waves.status, 'confirmed')))
+    .orderBy(waves.createdAt)
+    .prepare(),
+);
+
 /**
  * The form data of a wave.
  * @param study the wave's study (its constraints and locked items are the defaults).
@@ -22,12 +41,7 @@ export type FormWaveRow = Pick<WaveRow, 'id' | 'label' | 'status' | 'setup' | 'r
  * @returns items, outcomes and default settings.
  */
 export function auditFormWave(study: StudyRow, wave: FormWaveRow): AuditFormWave {
-  const items = getDb()
-    .select({ id: waveItems.itemId, scale: waveItems.scale, text: waveItems.text })
-    .from(waveItems)
-    .where(eq(waveItems.waveId, wave.id))
-    .orderBy(waveItems.position)
-    .all();
+  const items = itemsOfWave(getDb()).all({ waveId: wave.id });
   const outcomes = (parseStoredSetup(wave.setup, wave.rowCount).outcomes ?? []).map(({ id, header }) => ({ id, header }));
   const defaults = defaultAuditSettings(study.settings);
   const itemIds = new Set(items.map((item) => item.id));
@@ -49,12 +63,8 @@ export function auditFormWave(study: StudyRow, wave: FormWaveRow): AuditFormWave
  * @returns one entry per confirmed wave.
  */
 export function confirmedFormWaves(study: StudyRow): AuditFormWave[] {
-  return getDb()
-    .select({ id: waves.id, label: waves.label, status: waves.status, setup: waves.setup, rowCount: waves.rowCount, exclusions: waves.exclusions })
-    .from(waves)
-    .where(and(eq(waves.studyId, study.id), eq(waves.status, 'confirmed')))
-    .orderBy(waves.createdAt)
-    .all()
+  return confirmedWavesOf(getDb())
+    .all({ studyId: study.id })
     .map((wave) => auditFormWave(study, wave));
 }
 

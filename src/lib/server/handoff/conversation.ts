@@ -3,7 +3,8 @@
  * the client's review of the latest published version; and the activity view (who did what,
  * when). Writes are one transaction with their activity entry; e-mails go out after it.
  */
-import { and, asc, desc, eq, inArray } from 'drizzle-orm';
+import { and, asc, desc, eq, inArray, sql } from 'drizzle-orm';
+import { preparedQuery } from '../../../db/prepared-query';
 import { activityLog, audits, comments, cutListVersions, reviews, users, waveItems, waves } from '../../../db/schema';
 import type { ActivityView, CommentRequest, CommentTargetKind, CommentView, ReviewRequest, ReviewResponse, ReviewState } from '../../api/handoff';
 import { activitySentence, handoffWords, reviewedMail } from '../../words/handoff';
@@ -129,13 +130,18 @@ export function addComment(user: CurrentUser, study: StudyRow, request: { target
   return threadsOf([row], new Map([[user.id, user.name]]), row.targetKind === 'audit' ? auditWords(study.id) : new Map())[0];
 }
 
+// Read on every study and review page: built once (src/db/prepared-query.ts).
+const latestVersionNumber = preparedQuery((db) =>
+  db.select({ number: cutListVersions.number }).from(cutListVersions).where(eq(cutListVersions.studyId, sql.placeholder('studyId'))).orderBy(desc(cutListVersions.number)).limit(1).prepare(),
+);
+
 /**
  * The review state of the study's latest published version, with every review.
  * @param studyId the study.
  */
 export function reviewState(studyId: string): ReviewResponse {
   const db = getDb();
-  const latest = db.select({ number: cutListVersions.number }).from(cutListVersions).where(eq(cutListVersions.studyId, studyId)).orderBy(desc(cutListVersions.number)).limit(1).get();
+  const latest = latestVersionNumber(db).get({ studyId });
   const history = reviewViews(db, studyId);
   const current = latest ? (history.find((r) => r.version === latest.number) ?? null) : null;
   const state: ReviewState = !latest ? 'none-published' : current ? current.verdict : 'awaiting';
