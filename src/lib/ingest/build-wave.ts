@@ -8,6 +8,7 @@ import { MIN_RESPONDENTS_FOR_AUDIT } from './ingest-thresholds';
 import { parseDuration } from './parse-duration';
 import { parseNumber } from './parse-number';
 import { recodeItem } from './recode-item';
+import { tableColumn } from './table-columns';
 import type { BuiltWave, ColumnSetup, ItemCounts, WaveItem, WaveOutcome, WaveTable, WaveWarning } from './types';
 import type { CheckedSetup } from './validate-setup';
 import { WaveRefusal } from './wave-refusal';
@@ -202,7 +203,7 @@ export function buildWave(table: WaveTable, setup: CheckedSetup, exclusions: rea
   const confirmed = setup;
   const decimalSeparator = table.source.decimalSeparator;
   const setupOf = new Map<string, ColumnSetup>(confirmed.columns.map((entry) => [entry.column, entry]));
-  const column = (j: number) => table.rows.map((row) => row[j]);
+  const column = (j: number) => tableColumn(table, j);
 
   const itemColumns: number[] = [];
   table.headers.forEach((header, j) => {
@@ -234,7 +235,7 @@ export function buildWave(table: WaveTable, setup: CheckedSetup, exclusions: rea
   const outcomes: WaveOutcome[] = [];
   table.headers.forEach((header, j) => {
     const entry = setupOf.get(header);
-    if (!entry) return;
+    if (!entry || entry.role === 'item' || entry.role === 'ignore') return;
     const cells = column(j);
     if (entry.role === 'respondent-id') {
       respondentIds = cells.map((cell) => cell.trim());

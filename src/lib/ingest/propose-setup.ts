@@ -10,7 +10,7 @@ import { guessAnswerRange } from './guess-answer-range';
 import { MAX_ANSWER_LABELS, MODAL_RANGE_SHARE, NUMERIC_MAJORITY, PATTERN_SHARE, RATING_MAX_SPAN } from './ingest-thresholds';
 import { looksLikeTimeText, parseDuration } from './parse-duration';
 import { findPersonalData, sampleCells } from './personal-data';
-import { recodeItem } from './recode-item';
+import { recodeCounts } from './recode-item';
 import type {
   Codebook, CodebookEntry, ColumnProposal, ColumnRole, DurationUnit, ItemSetup, ItemType, LabelSource, ProposedSetup, ValueLabel, WaveSetup, WaveTable, WaveWarning,
 } from './types';
@@ -112,7 +112,8 @@ function guessItem(draft: Draft): void {
   const substantiveTexts = data.texts.filter((text) => !isMissingAnswerText(text));
   const missingTexts = data.texts.filter(isMissingAnswerText);
   const missingSet = new Set(missingTexts);
-  const numericShare = share(data.numbers.length, data.filled.filter((cell) => !missingSet.has(cell)).length);
+  const answeredCells = missingSet.size === 0 ? data.filled.length : data.filled.filter((cell) => !missingSet.has(cell)).length;
+  const numericShare = share(data.numbers.length, answeredCells);
   if (substantiveTexts.length > 0 && numericShare < NUMERIC_MAJORITY) {
     const matches = matchAnswerScales(data.texts);
     if (matches.length > 0) {
@@ -133,12 +134,12 @@ function guessItem(draft: Draft): void {
     draft.reason = 'Only no-answer texts, no answers.';
     return;
   }
-  const whole = data.numbers.filter((value) => Number.isInteger(value));
-  if (share(whole.length, data.numbers.length) < PATTERN_SHARE) {
+  // The whole numbers are counted in the profile; their range is guessed from the distinct ones.
+  if (share(data.profile.wholeNumbers, data.numbers.length) < PATTERN_SHARE) {
     draft.reason = `Numbers with decimals (${data.profile.minimum} to ${data.profile.maximum}), not a rating item.`;
     return;
   }
-  const guess = guessAnswerRange(whole);
+  const guess = guessAnswerRange(data.distinctNumbers.filter((value) => Number.isInteger(value)));
   if (guess === null) return;
   const item = blankItem(data.header);
   item.min = guess.min;
@@ -363,7 +364,7 @@ function settleCommonMissingCodes(drafts: readonly Draft[]): void {
   if (common.size === 0) return;
   for (const draft of guessed) {
     const item = draft.item as MutableItem;
-    const values = [...new Set(draft.data.numbers.filter((value) => Number.isInteger(value)))].sort((a, b) => a - b);
+    const values = draft.data.distinctNumbers.filter((value) => Number.isInteger(value)).sort((a, b) => a - b);
     const answers = values.filter((value) => !common.has(value) && !item.missingCodes.includes(value));
     if (answers.length < 2) continue;
     const low = answers[0];
@@ -548,7 +549,7 @@ export function proposeSetup(table: WaveTable, codebook: Codebook | null = null)
       durationUnit: draft.role === 'duration' ? draft.durationUnit : null,
       reason: draft.reason,
       profile: draft.data.profile,
-      counts: item === null ? null : recodeItem(draft.data.cells, item, decimalSeparator).counts,
+      counts: item === null ? null : recodeCounts(draft.data.cells, item, decimalSeparator),
       labelSource: item === null ? null : draft.labelSource ?? (item.labels.length > 0 ? 'codebook' : 'none'),
       answerScale: item === null ? null : draft.answerScale,
     };
