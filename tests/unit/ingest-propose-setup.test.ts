@@ -1,4 +1,6 @@
 import { describe, expect, it } from 'vitest';
+import { SAMPLE_CELLS } from '../../src/lib/ingest/ingest-thresholds';
+import { sampleCells } from '../../src/lib/ingest/personal-data';
 import { columnData, columnsLeftOut, headerWords, parseNumber, proposeSetup, readCodebook, readTable, WaveRefusal, type ColumnProposal, type ProposedSetup } from '../../src/lib/ingest';
 
 const table = (csv: string, name = 'w.csv') => readTable(new TextEncoder().encode(csv), name);
@@ -42,6 +44,9 @@ describe('columnData', () => {
     expect(data.filled).toEqual(filled);
     expect(data.numbers).toEqual(numbers);
     expect(data.distinctNumbers).toEqual([...new Set(numbers)]);
+    expect(filled.length).toBeGreaterThan(SAMPLE_CELLS);
+    expect(data.filledSample).toEqual(sampleCells(filled));
+    expect(data.filledSample.length).toBe(SAMPLE_CELLS);
     expect(data.texts).toEqual(distinct.filter((text) => Number.isNaN(parseNumber(text, '.'))));
     expect(data.profile).toEqual({
       nonBlank: filled.length, blank: cells.length - filled.length, numeric: numbers.length, wholeNumbers: numbers.filter(Number.isInteger).length,

@@ -3,6 +3,7 @@
  * setup guesser and the setup form.
  */
 import { parseNumber } from './parse-number';
+import { samplePositions } from './personal-data';
 import { tableColumn } from './table-columns';
 import type { ColumnProfile, WaveTable } from './types';
 
@@ -12,12 +13,14 @@ export interface ColumnData {
   readonly index: number;
   /** Every cell, one per respondent. */
   readonly cells: readonly string[];
-  /** Non-blank cells, trimmed. */
+  /** Non-blank cells, trimmed (made afresh from `cells` at each reading: a large column is not kept twice). */
   readonly filled: readonly string[];
-  /** The numbers among the filled cells. */
+  /** The numbers among the filled cells (made afresh from `cells` at each reading). */
   readonly numbers: readonly number[];
   /** The distinct values of `numbers`, in order of first appearance. */
   readonly distinctNumbers: readonly number[];
+  /** `sampleCells(filled)`: at most SAMPLE_CELLS filled cells, evenly spaced, in order. */
+  readonly filledSample: readonly string[];
   /** Distinct filled cells that are not numbers, in order of first appearance. */
   readonly texts: readonly string[];
   readonly profile: ColumnProfile;
@@ -36,9 +39,53 @@ interface CellReading {
 }
 
 /**
+ * Reads cell texts, each distinct text once (a rating column holds a handful): after `read(cell)`,
+ * `text` is the trimmed text ('' when blank), `value` its number (NaN when none) and `first`
+ * whether the text was read for the first time.
+ */
+class CellReader {
+  text = '';
+  value = Number.NaN;
+  first = false;
+  private readonly single: (CellReading | undefined)[] = new Array(SINGLE_CHARACTER_CODES).fill(undefined);
+  private readonly readings = new Map<string, CellReading>();
+
+  constructor(private readonly decimalSeparator: '.' | ',') {}
+
+  read(cell: string): void {
+    const code = cell.length === 1 ? cell.charCodeAt(0) : SINGLE_CHARACTER_CODES;
+    let reading = code < SINGLE_CHARACTER_CODES ? this.single[code] : this.readings.get(cell);
+    this.first = reading === undefined;
+    if (reading === undefined) {
+      const text = cell.trim();
+      reading = { text, value: text === '' ? Number.NaN : parseNumber(text, this.decimalSeparator) };
+      if (code < SINGLE_CHARACTER_CODES) this.single[code] = reading;
+      else if (this.readings.size < MEMO_CELL_TEXTS) this.readings.set(cell, reading);
+    }
+    this.text = reading.text;
+    this.value = reading.value;
+  }
+}
+
+/** The trimmed non-blank cells and their numbers, in order. */
+function filledAndNumbers(cells: readonly string[], decimalSeparator: '.' | ','): { filled: string[]; numbers: number[] } {
+  const reader = new CellReader(decimalSeparator);
+  const filled: string[] = [];
+  const numbers: number[] = [];
+  for (const cell of cells) {
+    reader.read(cell);
+    const { text, value } = reader;
+    if (text === '') continue;
+    filled.push(text);
+    if (!Number.isNaN(value)) numbers.push(value);
+  }
+  return { filled, numbers };
+}
+
+/**
  * The cells of column `j` with a profile. Each distinct cell text is trimmed and read as a number
  * once (a rating column holds a handful of texts), which gives the same results as reading every
- * cell.
+ * cell; the filled cells and the numbers are made again when asked for instead of being kept.
  * @param table the table.
  * @param j 0-based column index.
  * @throws {RangeError} when `j` is not a column of the table.
@@ -49,49 +96,65 @@ export function columnData(table: WaveTable, j: number): ColumnData {
   if (!Number.isInteger(j) || j < 0 || j >= table.headers.length) throw new RangeError(`columnData: column ${j} does not exist`);
   const cells = tableColumn(table, j);
   const decimalSeparator = table.source.decimalSeparator;
-  const filled: string[] = [];
-  const numbers: number[] = [];
   const texts = new Set<string>();
   const distinct = new Set<string>();
   const distinctNumbers = new Set<number>();
-  // One-character cells (answer codes 0-9) by their character code, longer ones by their text.
-  const single: (CellReading | undefined)[] = new Array(SINGLE_CHARACTER_CODES).fill(undefined);
-  const readings = new Map<string, CellReading>();
+  const reader = new CellReader(decimalSeparator);
+  let nonBlank = 0;
+  let numeric = 0;
   let wholeNumbers = 0;
   let minimum = Number.POSITIVE_INFINITY;
   let maximum = Number.NEGATIVE_INFINITY;
   for (const cell of cells) {
-    const code = cell.length === 1 ? cell.charCodeAt(0) : SINGLE_CHARACTER_CODES;
-    let reading = code < SINGLE_CHARACTER_CODES ? single[code] : readings.get(cell);
-    if (reading === undefined) {
-      const text = cell.trim();
-      reading = { text, value: text === '' ? Number.NaN : parseNumber(text, decimalSeparator) };
-      if (text !== '') {
-        distinct.add(text);
-        if (Number.isNaN(reading.value)) texts.add(text);
-        else distinctNumbers.add(reading.value);
-      }
-      if (code < SINGLE_CHARACTER_CODES) single[code] = reading;
-      else if (readings.size < MEMO_CELL_TEXTS) readings.set(cell, reading);
-    }
-    const { text, value } = reading;
+    reader.read(cell);
+    const { text, value, first } = reader;
     if (text === '') continue;
-    filled.push(text);
+    nonBlank++;
+    if (first) {
+      distinct.add(text);
+      if (Number.isNaN(value)) texts.add(text);
+      else distinctNumbers.add(value);
+    }
     if (Number.isNaN(value)) continue;
-    numbers.push(value);
+    numeric++;
     if (Number.isInteger(value)) wholeNumbers++;
     if (value < minimum) minimum = value;
     if (value > maximum) maximum = value;
   }
+  // The sample of the filled cells, found by counting them again (no copy of the column).
+  const positions = samplePositions(nonBlank);
+  const filledSample: string[] = [];
+  let position = 0;
+  for (let i = 0; i < cells.length && filledSample.length < positions.length; i++) {
+    reader.read(cells[i]);
+    const text = reader.text;
+    if (text === '') continue;
+    if (position === positions[filledSample.length]) filledSample.push(text);
+    position++;
+  }
   const profile: ColumnProfile = {
-    nonBlank: filled.length,
-    blank: cells.length - filled.length,
-    numeric: numbers.length,
+    nonBlank,
+    blank: cells.length - nonBlank,
+    numeric,
     wholeNumbers,
     distinct: distinct.size,
-    minimum: numbers.length > 0 ? minimum : null,
-    maximum: numbers.length > 0 ? maximum : null,
+    minimum: numeric > 0 ? minimum : null,
+    maximum: numeric > 0 ? maximum : null,
     examples: [...distinct].slice(0, 5),
   };
-  return { header: table.headers[j], index: j, cells, filled, numbers, distinctNumbers: [...distinctNumbers], texts: [...texts], profile };
+  return {
+    header: table.headers[j],
+    index: j,
+    cells,
+    get filled() {
+      return filledAndNumbers(cells, decimalSeparator).filled;
+    },
+    get numbers() {
+      return filledAndNumbers(cells, decimalSeparator).numbers;
+    },
+    distinctNumbers: [...distinctNumbers],
+    filledSample,
+    texts: [...texts],
+    profile,
+  };
 }
