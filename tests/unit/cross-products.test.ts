@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { centeredCrossProducts, crossProductsOfItems, pearsonFromCrossProducts } from '../../src/lib/stats/cross-products';
+import { CROSS_PRODUCT_BLOCK_ROWS, centeredCrossProducts, crossProductsOfItems, pearsonFromCrossProducts } from '../../src/lib/stats/cross-products';
 import { centeredCrossProductsParallel } from '../../bench/parallel/cross-products-parallel';
 import { crossProductsWorkerSource } from '../../bench/parallel/cross-products-worker';
 import { itemMatrixFromColumns, selectItems } from '../../src/lib/stats/types';
@@ -151,5 +151,32 @@ describe('crossProductsOfItems', () => {
     expect(() => crossProductsOfItems(whole, [2, 2])).toThrow(/given twice/);
     crossProductsOfItems(whole, [3, 1]);
     expect(Array.from(whole.centered.data)).toEqual(Array.from(before));
+  });
+});
+
+describe('centeredCrossProducts: the blocked kernel sums every pair in a fixed order', () => {
+  it('equals, bit for bit, each pair summed tile by tile of 512 respondents, whatever the number of items', () => {
+    // Second opinion: the pair's sum over each tile of CROSS_PRODUCT_BLOCK_ROWS respondents, in
+    // order, added to its total; the kernel's tiling of items (register blocking, padding) must not
+    // change a single bit of it. Orders 1-13 cover every remainder of the item strips.
+    for (let columns = 1; columns <= 13; columns++) {
+      const matrix = correlatedData(1300, columns, 40 + columns, 2, true);
+      const { rows, data } = matrix;
+      const result = centeredCrossProducts(matrix);
+      for (let j = 0; j < columns; j++) {
+        for (let k = j; k < columns; k++) {
+          let total = 0;
+          for (let first = 0; first < rows; first += CROSS_PRODUCT_BLOCK_ROWS) {
+            let tile = 0;
+            for (let i = first; i < Math.min(rows, first + CROSS_PRODUCT_BLOCK_ROWS); i++) {
+              tile += (data[j * rows + i] - result.means[j]) * (data[k * rows + i] - result.means[k]);
+            }
+            total += tile;
+          }
+          expect(Object.is(result.centered.data[j * columns + k], total), `${columns} items, pair (${j}, ${k})`).toBe(true);
+          expect(result.centered.data[k * columns + j]).toBe(result.centered.data[j * columns + k]);
+        }
+      }
+    }
   });
 });

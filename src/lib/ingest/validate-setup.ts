@@ -4,7 +4,7 @@
  */
 import { z } from 'zod';
 import { trimCell } from './parse-number';
-import { findPersonalData } from './personal-data';
+import { findPersonalData, samplePositions } from './personal-data';
 import { tableColumn } from './table-columns';
 import type { WaveSetup, WaveTable } from './types';
 import { WaveRefusal } from './wave-refusal';
@@ -45,12 +45,20 @@ declare const checkedSetup: unique symbol;
 export type CheckedSetup = WaveSetup & { readonly [checkedSetup]: true };
 
 function personalValues(header: string, cells: readonly string[], decimalSeparator: '.' | ','): string | null {
-  const filled: string[] = [];
-  for (const cell of cells) {
-    const text = trimCell(cell);
-    if (text !== '') filled.push(text);
+  // findPersonalData reads sampleCells(filled) only: count the filled cells, then take the
+  // sample's positions, instead of making the filled column.
+  let nonBlank = 0;
+  for (const cell of cells) if (trimCell(cell) !== '') nonBlank++;
+  const positions = samplePositions(nonBlank);
+  const sample: string[] = [];
+  let position = 0;
+  for (let i = 0; i < cells.length && sample.length < positions.length; i++) {
+    const text = trimCell(cells[i]);
+    if (text === '') continue;
+    if (position === positions[sample.length]) sample.push(text);
+    position++;
   }
-  const finding = findPersonalData(header, filled, decimalSeparator);
+  const finding = findPersonalData(header, sample, decimalSeparator);
   return finding !== null && finding.fromValues ? finding.what : null;
 }
 

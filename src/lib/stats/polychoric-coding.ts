@@ -29,6 +29,9 @@ export interface OrdinalItem {
   readonly thresholds: BivariateGridMargin;
 }
 
+/** Widest range of whole-number answers coded through a lookup table (performance only). */
+const CODE_TABLE_SPAN = 1024;
+
 /**
  * Codes one item for polychoric work: its distinct observed values become categories
  * 0, 1, ..., and its thresholds come from all of its observed answers.
@@ -65,22 +68,42 @@ export function codeOrdinalItem(values: ArrayLike<number>, maxCategories: number
   const codes = new Uint8Array(values.length);
   const counts = new Float64Array(count);
   let observed = 0;
-  for (let i = 0; i < values.length; i++) {
-    const value = values[i];
-    if (value !== value) {
-      codes[i] = count;
-    } else {
-      // Binary search in the ascending categories; the value is one of them (−0 equals 0).
-      let low = 0;
-      let high = count - 1;
-      while (low < high) {
-        const middle = (low + high) >>> 1;
-        if (categories[middle] < value) low = middle + 1;
-        else high = middle;
+  // Whole-number answers in a short range (a rating item's 1-5, 0-10) are coded by a table
+  // indexed by the answer instead of a search: the same codes.
+  const lowest = count > 0 ? categories[0] : 0;
+  const span = count > 0 ? categories[count - 1] - lowest : 0;
+  if (count > 0 && categories.every((category) => Number.isInteger(category)) && span <= CODE_TABLE_SPAN) {
+    const codeOf = new Uint8Array(span + 1);
+    for (let c = 0; c < count; c++) codeOf[categories[c] - lowest] = c;
+    for (let i = 0; i < values.length; i++) {
+      const value = values[i];
+      if (value !== value) {
+        codes[i] = count;
+      } else {
+        const code = codeOf[value - lowest];
+        codes[i] = code;
+        counts[code]++;
+        observed++;
       }
-      codes[i] = low;
-      counts[low]++;
-      observed++;
+    }
+  } else {
+    for (let i = 0; i < values.length; i++) {
+      const value = values[i];
+      if (value !== value) {
+        codes[i] = count;
+      } else {
+        // Binary search in the ascending categories; the value is one of them (−0 equals 0).
+        let low = 0;
+        let high = count - 1;
+        while (low < high) {
+          const middle = (low + high) >>> 1;
+          if (categories[middle] < value) low = middle + 1;
+          else high = middle;
+        }
+        codes[i] = low;
+        counts[low]++;
+        observed++;
+      }
     }
   }
   const limitCount = Math.max(0, count - 1);
