@@ -169,6 +169,7 @@ describe('codeOrdinalItem: whole-number answers by table, others by search', () 
       [0, 1025, 512, 0],
       [7, 7, NaN, 7],
       [NaN, NaN],
+      [300, 2, 300, 2.5, 255, 256, 2, 255],
     ];
     for (const values of cases) {
       const item = codeOrdinalItem(Float64Array.from(values));
@@ -178,5 +179,12 @@ describe('codeOrdinalItem: whole-number answers by table, others by search', () 
       expect(Array.from(item.counts)).toEqual(sorted.map((category) => values.filter((value) => value === category).length));
       expect(item.observed).toBe(values.filter((value) => !Number.isNaN(value)).length);
     }
+  });
+
+  it('refuses more distinct answers than maxCategories and an infinite answer, small whole numbers or not', () => {
+    expect(() => codeOrdinalItem(Float64Array.from([1, 2, 3, 1, 2]), 2)).toThrow(/more than 2 distinct values/);
+    expect(() => codeOrdinalItem(Float64Array.from([1.5, 2.5, 3.5]), 2)).toThrow(/more than 2 distinct values/);
+    expect(() => codeOrdinalItem(Float64Array.from([1, 2, 1, 2]), 2)).not.toThrow();
+    expect(() => codeOrdinalItem(Float64Array.from([1, Infinity]))).toThrow(/value 1 is infinite/);
   });
 });

@@ -16,12 +16,13 @@ const TRANSPOSE_BLOCK_COLUMNS = 64;
 
 function transpose(rows: readonly (readonly string[])[], width: number): string[][] {
   const n = rows.length;
-  const columns: string[][] = Array.from({ length: width }, () => new Array<string>(n));
+  // Appended in row order, so every column is a packed array (no holes for the reader to check).
+  const columns: string[][] = Array.from({ length: width }, () => []);
   for (let first = 0; first < width; first += TRANSPOSE_BLOCK_COLUMNS) {
     const last = Math.min(width, first + TRANSPOSE_BLOCK_COLUMNS);
     for (let i = 0; i < n; i++) {
       const row = rows[i];
-      for (let j = first; j < last; j++) columns[j][i] = row[j];
+      for (let j = first; j < last; j++) columns[j].push(row[j]);
     }
   }
   return columns;

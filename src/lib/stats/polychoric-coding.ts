@@ -32,6 +32,9 @@ export interface OrdinalItem {
 /** Widest range of whole-number answers coded through a lookup table (performance only). */
 const CODE_TABLE_SPAN = 1024;
 
+/** Whole-number answers from 0 to this (exclusive) are found distinct through a table (performance only). */
+const SEEN_TABLE_SIZE = 256;
+
 /**
  * Codes one item for polychoric work: its distinct observed values become categories
  * 0, 1, ..., and its thresholds come from all of its observed answers.
@@ -49,7 +52,9 @@ export function codeOrdinalItem(values: ArrayLike<number>, maxCategories: number
   }
   // The distinct values in a plain array scanned from the last one found: an ordinal item has a
   // handful, so this is faster than hashing every answer (the same categories and codes).
+  // Small whole numbers (a rating item's answers) are marked in a table instead of searched for.
   const distinct: number[] = [];
+  const seen = new Uint8Array(SEEN_TABLE_SIZE);
   let last = Number.NaN;
   for (let i = 0; i < values.length; i++) {
     const value = values[i];
@@ -57,7 +62,10 @@ export function codeOrdinalItem(values: ArrayLike<number>, maxCategories: number
     if (value === Infinity || value === -Infinity) throw new RangeError(`codeOrdinalItem: value ${i} is infinite; use NaN for a missing answer`);
     if (value !== value) continue;
     last = value;
-    if (distinct.includes(value)) continue;
+    if (value >= 0 && value < SEEN_TABLE_SIZE && (value | 0) === value) {
+      if (seen[value] === 1) continue;
+      seen[value] = 1;
+    } else if (distinct.includes(value)) continue;
     distinct.push(value === 0 ? 0 : value);
     if (distinct.length > maxCategories) {
       throw new RangeError(`codeOrdinalItem: the item has more than ${maxCategories} distinct values; polychoric correlation needs ordinal items`);
