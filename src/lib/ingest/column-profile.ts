@@ -32,38 +32,36 @@ const MEMO_CELL_TEXTS = 4096;
 /** One-character cells below this character code are remembered by their code (ASCII). */
 const SINGLE_CHARACTER_CODES = 128;
 
-/** What one cell text reads as: its trimmed text ('' when blank) and its number (NaN when none). */
+/** What one cell text reads as: its trimmed text ('' when blank), its number (NaN when none), and how many cells read so. */
 interface CellReading {
   readonly text: string;
   readonly value: number;
+  count: number;
 }
 
 /**
- * Reads cell texts, each distinct text once (a rating column holds a handful): after `read(cell)`,
- * `text` is the trimmed text ('' when blank), `value` its number (NaN when none) and `first`
- * whether the text was read for the first time.
+ * Reads cell texts, each distinct text once (a rating column holds a handful): `readingOf(cell)`
+ * gives the cell's reading, the same object for every cell of the same text (up to
+ * MEMO_CELL_TEXTS texts; past them each cell gets its own), and `order` lists the readings in the
+ * order they were first made.
  */
 class CellReader {
-  text = '';
-  value = Number.NaN;
-  first = false;
+  readonly order: CellReading[] = [];
   private readonly single: (CellReading | undefined)[] = new Array(SINGLE_CHARACTER_CODES).fill(undefined);
   private readonly readings = new Map<string, CellReading>();
 
   constructor(private readonly decimalSeparator: '.' | ',') {}
 
-  read(cell: string): void {
+  readingOf(cell: string): CellReading {
     const code = cell.length === 1 ? cell.charCodeAt(0) : SINGLE_CHARACTER_CODES;
-    let reading = code < SINGLE_CHARACTER_CODES ? this.single[code] : this.readings.get(cell);
-    this.first = reading === undefined;
-    if (reading === undefined) {
-      const text = cell.trim();
-      reading = { text, value: text === '' ? Number.NaN : parseNumber(text, this.decimalSeparator) };
-      if (code < SINGLE_CHARACTER_CODES) this.single[code] = reading;
-      else if (this.readings.size < MEMO_CELL_TEXTS) this.readings.set(cell, reading);
-    }
-    this.text = reading.text;
-    this.value = reading.value;
+    const known = code < SINGLE_CHARACTER_CODES ? this.single[code] : this.readings.get(cell);
+    if (known !== undefined) return known;
+    const text = cell.trim();
+    const reading: CellReading = { text, value: text === '' ? Number.NaN : parseNumber(text, this.decimalSeparator), count: 0 };
+    if (code < SINGLE_CHARACTER_CODES) this.single[code] = reading;
+    else if (this.readings.size < MEMO_CELL_TEXTS) this.readings.set(cell, reading);
+    this.order.push(reading);
+    return reading;
   }
 }
 
@@ -73,8 +71,7 @@ function filledAndNumbers(cells: readonly string[], decimalSeparator: '.' | ',')
   const filled: string[] = [];
   const numbers: number[] = [];
   for (const cell of cells) {
-    reader.read(cell);
-    const { text, value } = reader;
+    const { text, value } = reader.readingOf(cell);
     if (text === '') continue;
     filled.push(text);
     if (!Number.isNaN(value)) numbers.push(value);
@@ -84,8 +81,9 @@ function filledAndNumbers(cells: readonly string[], decimalSeparator: '.' | ',')
 
 /**
  * The cells of column `j` with a profile. Each distinct cell text is trimmed and read as a number
- * once (a rating column holds a handful of texts), which gives the same results as reading every
- * cell; the filled cells and the numbers are made again when asked for instead of being kept.
+ * once and its cells counted (a rating column holds a handful of texts); the counts and the
+ * distinct texts in order of first appearance give the same profile as reading every cell. The
+ * filled cells and the numbers are made again when asked for instead of being kept.
  * @param table the table.
  * @param j 0-based column index.
  * @throws {RangeError} when `j` is not a column of the table.
@@ -96,28 +94,27 @@ export function columnData(table: WaveTable, j: number): ColumnData {
   if (!Number.isInteger(j) || j < 0 || j >= table.headers.length) throw new RangeError(`columnData: column ${j} does not exist`);
   const cells = tableColumn(table, j);
   const decimalSeparator = table.source.decimalSeparator;
+  const reader = new CellReader(decimalSeparator);
+  for (let i = 0; i < cells.length; i++) reader.readingOf(cells[i]).count++;
   const texts = new Set<string>();
   const distinct = new Set<string>();
   const distinctNumbers = new Set<number>();
-  const reader = new CellReader(decimalSeparator);
   let nonBlank = 0;
   let numeric = 0;
   let wholeNumbers = 0;
   let minimum = Number.POSITIVE_INFINITY;
   let maximum = Number.NEGATIVE_INFINITY;
-  for (const cell of cells) {
-    reader.read(cell);
-    const { text, value, first } = reader;
+  for (const { text, value, count } of reader.order) {
     if (text === '') continue;
-    nonBlank++;
-    if (first) {
-      distinct.add(text);
-      if (Number.isNaN(value)) texts.add(text);
-      else distinctNumbers.add(value);
+    nonBlank += count;
+    distinct.add(text);
+    if (Number.isNaN(value)) {
+      texts.add(text);
+      continue;
     }
-    if (Number.isNaN(value)) continue;
-    numeric++;
-    if (Number.isInteger(value)) wholeNumbers++;
+    distinctNumbers.add(value);
+    numeric += count;
+    if (Number.isInteger(value)) wholeNumbers += count;
     if (value < minimum) minimum = value;
     if (value > maximum) maximum = value;
   }
@@ -126,8 +123,7 @@ export function columnData(table: WaveTable, j: number): ColumnData {
   const filledSample: string[] = [];
   let position = 0;
   for (let i = 0; i < cells.length && filledSample.length < positions.length; i++) {
-    reader.read(cells[i]);
-    const text = reader.text;
+    const text = reader.readingOf(cells[i]).text;
     if (text === '') continue;
     if (position === positions[filledSample.length]) filledSample.push(text);
     position++;

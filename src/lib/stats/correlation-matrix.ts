@@ -128,12 +128,15 @@ export function usableItems(matrix: ItemMatrix): UsableItems {
     let observed = 0;
     let first = NaN;
     let varies = false;
+    const offset = j * rows;
     for (let i = 0; i < rows; i++) {
-      const value = data[j * rows + i];
+      const value = data[offset + i];
       if (value !== value) continue;
       if (observed === 0) first = value;
       else if (value !== first) varies = true;
       observed++;
+      // Two answers that differ settle it: the rest of the column cannot change the verdict.
+      if (varies) break;
     }
     if (observed < 2) {
       refused.push(j);
