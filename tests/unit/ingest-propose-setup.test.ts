@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { SAMPLE_CELLS } from '../../src/lib/ingest/ingest-thresholds';
+import { MEMO_CELL_TEXTS, SAMPLE_CELLS } from '../../src/lib/ingest/ingest-thresholds';
 import { sampleCells } from '../../src/lib/ingest/personal-data';
 import { columnData, columnsLeftOut, headerWords, parseNumber, proposeSetup, readCodebook, readTable, WaveRefusal, type ColumnProposal, type ProposedSetup } from '../../src/lib/ingest';
 
@@ -31,7 +31,7 @@ describe('columnData', () => {
   it('reads each distinct text once to the results of reading every cell, awkward cells and many distinct texts included', () => {
     // Second opinion: the cell-by-cell profile columnData computed before it remembered texts.
     const cells = ['3', ' 3', '3 ', '\u00a03', '3.0', '', ' ', '\t', '9', '1e0', '-1', 'x', ' x', 'Agree', '4', '2.5', '10', '7', '3',
-      ...Array.from({ length: 6_000 }, (_, k) => (k % 5 === 0 ? `R${k}` : String(k % 4)))];
+      ...Array.from({ length: 3 * MEMO_CELL_TEXTS }, (_, k) => (k % 2 === 0 ? `R${k}` : String(k % 4)))];
     const headers = ['q'];
     const rows = cells.map((cell) => [cell]);
     const read = { source: { fileName: 'w.csv', format: 'csv' as const, encoding: 'utf-8', delimiter: ',' as const, decimalSeparator: '.' as const, sheet: null, sheets: [] },

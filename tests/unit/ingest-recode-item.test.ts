@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { parseNumber, recodeCounts, recodeItem, reverseScore, type ItemSetup } from '../../src/lib/ingest';
 import { labelKey } from '../../src/lib/ingest/value-labels';
+import { MEMO_CELL_TEXTS } from '../../src/lib/ingest/ingest-thresholds';
 
 const base: ItemSetup = Object.freeze({
   id: 'Q1', scale: null, reverse: false, min: 1, max: 5, missingCodes: Object.freeze([8, 9]), text: null,
@@ -70,11 +71,11 @@ function recodeCellByCell(cells: readonly string[], item: ItemSetup, decimalSepa
 describe('recodeItem and recodeCounts on awkward cells', () => {
   // Awkward cells: one-character codes, white space, a no-break space, decimals, decimal commas,
   // labels in other case, missing labels, a missing code that is a label's code, unmapped text, and
-  // more distinct texts (5,000 ids) than the per-item memory of distinct texts keeps.
+  // more distinct texts (ids) than the per-item memory of distinct texts keeps.
   const awkward = Object.freeze([
     '3', '3', ' 3', '3 ', '\u00a03', '3.0', '3,0', '', ' ', '\t', '9', '8', '09', '1e0', '+2', '-1', '5', 'AGREE', 'agree', ' Agree ',
     "Don't know", 'don’t know', 'x', '=1+2', '4', '4', '2', '\r', '10', '1',
-    ...Array.from({ length: 5_000 }, (_, k) => String(k % 7 === 0 ? `id${k}` : k % 6)),
+    ...Array.from({ length: 3 * MEMO_CELL_TEXTS }, (_, k) => String(k % 2 === 0 ? `id${k}` : k % 6)),
   ]);
   const labelled: ItemSetup = { ...base, labels: [{ code: 1, label: 'Disagree' }, { code: 9, label: 'Agree' }] };
   const setups: readonly ItemSetup[] = [base, { ...base, reverse: true }, { ...base, labels: [], missingLabels: [] }, labelled, { ...base, min: 0, max: 10, missingCodes: [] }];

@@ -2,6 +2,7 @@
  * Describes what one column holds (blank, numbers, whole numbers, distinct texts), for the
  * setup guesser and the setup form.
  */
+import { MEMO_CELL_TEXTS, SINGLE_CHARACTER_CODES } from './ingest-thresholds';
 import { parseNumber } from './parse-number';
 import { samplePositions } from './personal-data';
 import { tableColumn } from './table-columns';
@@ -25,12 +26,6 @@ export interface ColumnData {
   readonly texts: readonly string[];
   readonly profile: ColumnProfile;
 }
-
-/** Distinct cell texts remembered per column; a column with more (ids, free text) reads the rest afresh. */
-const MEMO_CELL_TEXTS = 4096;
-
-/** One-character cells below this character code are remembered by their code (ASCII). */
-const SINGLE_CHARACTER_CODES = 128;
 
 /** What one cell text reads as: its trimmed text ('' when blank), its number (NaN when none), and how many cells read so. */
 interface CellReading {

@@ -3,6 +3,7 @@
  * codes, missing codes and labels become missing, numbers outside the valid range become
  * missing, and reverse-keyed items are flipped, `x' = (min + max) − x`.
  */
+import { MEMO_CELL_TEXTS, SINGLE_CHARACTER_CODES } from './ingest-thresholds';
 import { parseNumber } from './parse-number';
 import type { ItemCounts, ItemSetup } from './types';
 import { labelKey } from './value-labels';
@@ -28,12 +29,6 @@ export function reverseScore(value: number, min: number, max: number): number {
   const flipped = min + max - value;
   return flipped === 0 ? 0 : flipped;
 }
-
-/** Distinct cell texts remembered per item; an item with more reads the rest afresh. */
-const MEMO_CELL_TEXTS = 4096;
-
-/** One-character cells below this character code are remembered by their code (ASCII). */
-const SINGLE_CHARACTER_CODES = 128;
 
 /** Which count a cell adds to (the order of {@link ItemCounts}' first five fields, then unmapped labels). */
 const ANSWERED = 0;
