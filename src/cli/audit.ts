@@ -18,7 +18,7 @@ import { basename } from 'node:path';
 import { parseArgs } from 'node:util';
 import { auditInputFromSetup, auditSetupOf, AuditInputError, nothingToCompute, proposedCorrelationMethod } from '../lib/audit/audit-input';
 import { createResampleThreadRunner, MAX_RESAMPLE_THREADS } from '../lib/audit/resample-threads';
-import { runAudit } from '../lib/audit/run-audit';
+import { runAudit, type AuditInput } from '../lib/audit/run-audit';
 import { auditSettingsSchema } from '../lib/audit/settings-schema';
 import { AUDIT_SETTINGS, AuditSettingsError, auditSettingsProblems, requestFromFlags, resolveAuditSettings } from '../lib/audit/settings-table';
 import { acceptProposal, isWaveRefusal, readWave, type ReadLimits } from '../lib/ingest';
@@ -71,10 +71,48 @@ async function readSettingsFile(path: string | undefined): Promise<Record<string
 
 async function readBytes(path: string, what: string): Promise<Uint8Array> {
   try {
-    return new Uint8Array(await readFile(path));
+    const buffer = await readFile(path);
+    // A view of the Buffer's own memory, not a second copy of the file (a copy when the Buffer
+    // shares its memory with others).
+    const own = buffer.byteOffset === 0 && buffer.byteLength === buffer.buffer.byteLength;
+    return own ? new Uint8Array(buffer.buffer, 0, buffer.byteLength) : new Uint8Array(buffer);
   } catch {
     refuse(`Cannot read the ${what} "${path}"; check that the file exists and is readable.`);
   }
+}
+
+/**
+ * Reads the data file (and codebook) and accepts the proposal: the one reader and the one way to
+ * accept a proposal (src/lib/ingest: readWave, acceptProposal), as the upload route and the demo
+ * seed use them. Only the audit input leaves this function, so the file's bytes, its table of
+ * text cells and the wave's raw answers can be collected before the audit runs (on a large file
+ * they are several hundred megabytes).
+ */
+async function readAuditInput(
+  dataPath: string,
+  values: { readonly codebook?: string; readonly sheet?: string; readonly 'keep-all'?: boolean },
+  settings: { readonly outcome: string | null; readonly locked: readonly string[] },
+): Promise<{ input: AuditInput; proposedMethod: 'pearson' | 'polychoric' }> {
+  const read = await readWave({
+    fileName: basename(dataPath),
+    bytes: await readBytes(dataPath, 'data file'),
+    codebookName: values.codebook ? basename(values.codebook) : null,
+    codebookBytes: values.codebook ? await readBytes(values.codebook, 'codebook') : null,
+    sheet: values.sheet ?? null,
+  }, COMMAND_LINE_READ_LIMITS);
+  const outcome = settings.outcome;
+  const { wave, proposal, setup, screening } = acceptProposal(read, { outcome, keepAll: values['keep-all'] === true });
+  const exclusions = wave.excluded;
+  process.stderr.write(
+    `Read ${wave.respondents} respondents and ${wave.items.length} items from ${basename(dataPath)}` +
+      (exclusions.length > 0 ? `; left out ${exclusions.length} flagged by screening (--keep-all keeps them).\n` : '.\n'),
+  );
+
+  // The same function as the server's audit jobs: columns left out, screening rules, item types and facets.
+  const input = auditInputFromSetup(wave, auditSetupOf(proposal.columns, setup.columns, screening), { outcome, locked: settings.locked });
+  const nothing = nothingToCompute(input.matrix, { setAside: wave.excluded.length });
+  if (nothing) refuse(nothing);
+  return { input, proposedMethod: proposedCorrelationMethod(wave.items).method };
 }
 
 async function main(argv: string[]): Promise<number> {
@@ -119,31 +157,10 @@ async function main(argv: string[]): Promise<number> {
     throw error;
   }
 
-  const dataPath = positionals[0];
-  // The one reader and the one way to accept a proposal (src/lib/ingest: readWave, acceptProposal),
-  // as the upload route and the demo seed use them; the reader's default limits.
-  const read = await readWave({
-    fileName: basename(dataPath),
-    bytes: await readBytes(dataPath, 'data file'),
-    codebookName: values.codebook ? basename(values.codebook) : null,
-    codebookBytes: values.codebook ? await readBytes(values.codebook, 'codebook') : null,
-    sheet: values.sheet ?? null,
-  }, COMMAND_LINE_READ_LIMITS);
-  const outcome = settings.outcome;
-  const { wave, proposal, setup, screening } = acceptProposal(read, { outcome, keepAll: values['keep-all'] === true });
-  const exclusions = wave.excluded;
-  process.stderr.write(
-    `Read ${wave.respondents} respondents and ${wave.items.length} items from ${basename(dataPath)}` +
-      (exclusions.length > 0 ? `; left out ${exclusions.length} flagged by screening (--keep-all keeps them).\n` : '.\n'),
-  );
-
-  // The same function as the server's audit jobs: columns left out, screening rules, item types and facets.
-  const input = auditInputFromSetup(wave, auditSetupOf(proposal.columns, setup.columns, screening), { outcome, locked: settings.locked });
-  const nothing = nothingToCompute(input.matrix, { setAside: wave.excluded.length });
-  if (nothing) refuse(nothing);
+  const { input, proposedMethod } = await readAuditInput(positionals[0], values, settings);
   // No method asked for: 0/1 items get the tetrachoric correlation (polychoric on 0/1), since phi,
   // the Pearson r of 0/1 items, is bounded by their margins; rating items keep the default.
-  if (fromFlags.method === undefined && fromFile.method === undefined && proposedCorrelationMethod(wave.items).method === 'polychoric') {
+  if (fromFlags.method === undefined && fromFile.method === undefined && proposedMethod === 'polychoric') {
     settings = { ...settings, method: 'polychoric' as const };
     process.stderr.write('Every item is scored 0/1, so the tetrachoric correlation (--method polychoric) is used; give --method pearson to override.\n');
   }

@@ -1,5 +1,8 @@
 import { describe, expect, it } from 'vitest';
 import { correlationMatrix, usableItems } from '../../src/lib/stats/correlation-matrix';
+import { centeredCrossProducts } from '../../src/lib/stats/cross-products';
+import { selectRespondents } from '../../src/lib/stats/types';
+import { completeRows } from '../../src/lib/stats/complete-rows';
 import { symmetricEigenvalues } from '../../src/lib/stats/symmetric-eigen';
 import { itemMatrixFromColumns, selectItems, type ItemMatrix } from '../../src/lib/stats/types';
 import { correlationDataset, correlationDatasets, datasetMatrix, hasNaN, largestDifference } from './correlation-fixtures';
@@ -207,5 +210,56 @@ describe('usableItems', () => {
       ['too-few-values', 3],
     ]);
     expect(matrix.data).toEqual(before);
+  });
+});
+
+describe('correlationMatrix with cross-products from the caller', () => {
+  it('gives bit for bit the same result as its own pass, for complete data and under listwise deletion', () => {
+    // Identity: the cross-products handed in are those the function would compute itself.
+    for (const dataset of correlationDatasets()) {
+      const matrix = datasetMatrix(dataset);
+      const complete = completeRows(matrix);
+      if (complete.length < 3) continue;
+      const rows = selectRespondents(matrix, complete);
+      const crossProducts = centeredCrossProducts(rows);
+      const own = correlationMatrix(matrix, { method: 'pearson', missing: 'listwise' });
+      const given = correlationMatrix(matrix, { method: 'pearson', missing: 'listwise', crossProducts });
+      expect(Array.from(given.matrix.data), dataset.name).toEqual(Array.from(own.matrix.data));
+      expect(Array.from(given.n.data)).toEqual(Array.from(own.n.data));
+      expect(given.rowsUsed).toBe(own.rowsUsed);
+      expect(given.undefinedPairs).toEqual(own.undefinedPairs);
+      const pairwiseOwn = correlationMatrix(rows, { method: 'pearson', missing: 'pairwise' });
+      const pairwiseGiven = correlationMatrix(rows, { method: 'pearson', missing: 'pairwise', crossProducts });
+      expect(Array.from(pairwiseGiven.matrix.data)).toEqual(Array.from(pairwiseOwn.matrix.data));
+    }
+  });
+
+  it('takes the rows and columns of the varying items when an item is constant over the complete rows', () => {
+    const matrix = itemMatrixFromColumns([[1, 2, 3, 4, 5, 6], [2, 2, 2, 2, 2, 2], [6, 4, 5, 1, 3, 2], [1, 1, 2, 3, 5, 8]]);
+    const own = correlationMatrix(matrix, { method: 'pearson', missing: 'pairwise' });
+    const given = correlationMatrix(matrix, { method: 'pearson', missing: 'pairwise', crossProducts: centeredCrossProducts(matrix) });
+    expect(Array.from(given.matrix.data)).toEqual(Array.from(own.matrix.data));
+    expect(given.undefinedPairs).toEqual(own.undefinedPairs);
+    expect(own.undefinedPairs.length).toBe(3);
+  });
+
+  it('uses the cross-products it is given rather than passing over the data again', () => {
+    const matrix = itemMatrixFromColumns([[1, 2, 3, 4, 5], [2, 1, 4, 3, 5]]);
+    const own = centeredCrossProducts(matrix);
+    // Hand-worked: Σ(x − 3)(y − 3) = 8, Σ(x − 3)² = Σ(y − 3)² = 10, r = 0.8; halving the
+    // off-diagonal sum gives 0.4, which only the given cross-products can produce.
+    const halved = { ...own, centered: { order: 2, data: Float64Array.from([10, 4, 4, 10]) } };
+    expect(correlationMatrix(matrix, { method: 'pearson', missing: 'pairwise' }).matrix.data[1]).toBeCloseTo(0.8, 15);
+    expect(correlationMatrix(matrix, { method: 'pearson', missing: 'pairwise', crossProducts: halved }).matrix.data[1]).toBeCloseTo(0.4, 15);
+  });
+
+  it('refuses cross-products for Spearman, for pairwise deletion with missing answers, or of other rows', () => {
+    const matrix = itemMatrixFromColumns([[1, 2, 3, 4, 5], [2, 1, 4, 3, 5], [5, 3, NaN, 1, 2]]);
+    const complete = selectRespondents(matrix, completeRows(matrix));
+    const crossProducts = centeredCrossProducts(complete);
+    expect(() => correlationMatrix(complete, { method: 'spearman', missing: 'pairwise', crossProducts })).toThrow(/Pearson only/);
+    expect(() => correlationMatrix(matrix, { method: 'pearson', missing: 'pairwise', crossProducts })).toThrow(/pairwise deletion with missing/);
+    expect(() => correlationMatrix(matrix, { method: 'pearson', missing: 'listwise', crossProducts: centeredCrossProducts(complete) })).not.toThrow();
+    expect(() => correlationMatrix(complete, { method: 'pearson', missing: 'listwise', crossProducts: centeredCrossProducts(selectRespondents(complete, [0, 1, 2])) })).toThrow(/cover 3 rows/);
   });
 });

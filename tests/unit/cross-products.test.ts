@@ -1,8 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { centeredCrossProducts, pearsonFromCrossProducts } from '../../src/lib/stats/cross-products';
+import { CROSS_PRODUCT_BLOCK_ROWS, centeredCrossProducts, crossProductsOfItems, pearsonFromCrossProducts } from '../../src/lib/stats/cross-products';
 import { centeredCrossProductsParallel } from '../../bench/parallel/cross-products-parallel';
 import { crossProductsWorkerSource } from '../../bench/parallel/cross-products-worker';
-import { itemMatrixFromColumns } from '../../src/lib/stats/types';
+import { itemMatrixFromColumns, selectItems } from '../../src/lib/stats/types';
 import {
   completeCases,
   correlatedData,
@@ -124,5 +124,59 @@ describe('centeredCrossProductsParallel', () => {
     expect(source).toMatch(/require\(["']node:worker_threads["']\)/);
     expect(source).not.toMatch(/\bimport\b/);
     expect(() => new Function(source)).not.toThrow();
+  });
+});
+
+describe('crossProductsOfItems', () => {
+  it('gives bit for bit the cross-products of the selected items, in the order asked', () => {
+    // Identity: each centred sum depends on its own two items only, so selecting items before or
+    // after the pass must agree exactly (orders 1-9, rows not a multiple of the 512-row tile).
+    const matrix = correlatedData(1031, 9, 17, 2, true);
+    const whole = centeredCrossProducts(matrix);
+    for (const positions of [[0, 1, 2, 3, 4, 5, 6, 7, 8], [8, 2, 5], [3], [1, 2, 4, 6, 7]]) {
+      const picked = crossProductsOfItems(whole, positions);
+      const direct = centeredCrossProducts(selectItems(matrix, positions));
+      expect(picked.rows).toBe(direct.rows);
+      expect(Array.from(picked.means)).toEqual(Array.from(direct.means));
+      expect(picked.centered.order).toBe(positions.length);
+      expect(Array.from(picked.centered.data)).toEqual(Array.from(direct.centered.data));
+    }
+  });
+
+  it('refuses a position outside the items or given twice, and leaves its input untouched', () => {
+    const whole = centeredCrossProducts(correlatedData(40, 4, 3));
+    const before = Float64Array.from(whole.centered.data);
+    expect(() => crossProductsOfItems(whole, [0, 4])).toThrow(/crossProductsOfItems: position 4/);
+    expect(() => crossProductsOfItems(whole, [1.5])).toThrow(/position 1.5/);
+    expect(() => crossProductsOfItems(whole, [2, 2])).toThrow(/given twice/);
+    crossProductsOfItems(whole, [3, 1]);
+    expect(Array.from(whole.centered.data)).toEqual(Array.from(before));
+  });
+});
+
+describe('centeredCrossProducts: the blocked kernel sums every pair in a fixed order', () => {
+  it('equals, bit for bit, each pair summed tile by tile of 512 respondents, whatever the number of items', () => {
+    // Second opinion: the pair's sum over each tile of CROSS_PRODUCT_BLOCK_ROWS respondents, in
+    // order, added to its total; the kernel's tiling of items (register blocking, padding) must not
+    // change a single bit of it. Orders 1-13 cover every remainder of the item strips.
+    for (let columns = 1; columns <= 13; columns++) {
+      const matrix = correlatedData(1300, columns, 40 + columns, 2, true);
+      const { rows, data } = matrix;
+      const result = centeredCrossProducts(matrix);
+      for (let j = 0; j < columns; j++) {
+        for (let k = j; k < columns; k++) {
+          let total = 0;
+          for (let first = 0; first < rows; first += CROSS_PRODUCT_BLOCK_ROWS) {
+            let tile = 0;
+            for (let i = first; i < Math.min(rows, first + CROSS_PRODUCT_BLOCK_ROWS); i++) {
+              tile += (data[j * rows + i] - result.means[j]) * (data[k * rows + i] - result.means[k]);
+            }
+            total += tile;
+          }
+          expect(Object.is(result.centered.data[j * columns + k], total), `${columns} items, pair (${j}, ${k})`).toBe(true);
+          expect(result.centered.data[k * columns + j]).toBe(result.centered.data[j * columns + k]);
+        }
+      }
+    }
   });
 });

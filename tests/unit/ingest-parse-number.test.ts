@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { isBlankCell, looksLikeFormula, parseNumber } from '../../src/lib/ingest';
+import { trimCell } from '../../src/lib/ingest/parse-number';
 
 describe('parseNumber', () => {
   it('reads plain decimal notation with a point (ISO 80000-1: decimal sign)', () => {
@@ -55,5 +56,26 @@ describe('isBlankCell', () => {
     expect(isBlankCell('')).toBe(true);
     expect(isBlankCell(' \t')).toBe(true);
     expect(isBlankCell('0')).toBe(false);
+  });
+});
+
+describe('trimCell', () => {
+  it('equals String.prototype.trim on every kind of edge (ECMA-262 white space and line terminators)', () => {
+    const edges = ['', ' ', '\t', '\n', '\r', '\v', '\f', '\u00a0', '\u1680', '\u2000', '\u2028', '\u2029', '\u202f', '\u205f', '\u3000', '\ufeff', '\u0085', '\u007f', '\u0000'];
+    const cores = ['', '3', '10', 'a b', 'Agree', '-1', '~', '!', 'é'];
+    for (const before of edges) {
+      for (const core of cores) {
+        for (const after of edges) {
+          const cell = `${before}${core}${after}`;
+          expect(trimCell(cell), JSON.stringify(cell)).toBe(cell.trim());
+        }
+      }
+    }
+  });
+
+  it('returns a cell with visible ASCII ends as it is', () => {
+    const cell = '4';
+    expect(trimCell(cell)).toBe(cell);
+    expect(trimCell('a  b')).toBe('a  b');
   });
 });

@@ -1,5 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { findPersonalData, looksLikeEmail, looksLikePhoneNumber } from '../../src/lib/ingest';
+import { SAMPLE_CELLS } from '../../src/lib/ingest/ingest-thresholds';
+import { sampleCells, samplePositions } from '../../src/lib/ingest/personal-data';
 
 describe('looksLikeEmail (RFC 5321 §4.1.2: local-part@domain)', () => {
   it('recognises addresses and not other text', () => {
@@ -34,5 +36,19 @@ describe('findPersonalData', () => {
     expect(findPersonalData('remarks', cells('The reading room should open earlier', 'More new novels would be welcome'), '.')?.what).toBe('free text');
     expect(findPersonalData('Q1', cells('Neither agree nor disagree', 'Strongly Agree', 'Strongly Disagree'), '.')).toBeNull();
     expect(findPersonalData('Q1', cells('1', '2', '5'), '.')).toBeNull();
+  });
+});
+
+describe('samplePositions', () => {
+  it('are the positions sampleCells takes: all of up to SAMPLE_CELLS cells, else SAMPLE_CELLS evenly spaced ones', () => {
+    for (const length of [0, 1, 7, SAMPLE_CELLS, SAMPLE_CELLS + 1, 4_999, 100_000]) {
+      const cells = Array.from({ length }, (_, k) => `c${k}`);
+      const positions = samplePositions(length);
+      expect(positions.map((position) => cells[position])).toEqual([...sampleCells(cells)]);
+      expect(positions.length).toBe(Math.min(length, SAMPLE_CELLS));
+      for (let k = 1; k < positions.length; k++) expect(positions[k]).toBeGreaterThan(positions[k - 1]);
+    }
+    // Hand-worked: 4,000 cells give every second one, 0, 2, 4, ...
+    expect(samplePositions(2 * SAMPLE_CELLS).slice(0, 3)).toEqual([0, 2, 4]);
   });
 });

@@ -1,5 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { columnData, columnsLeftOut, headerWords, proposeSetup, readCodebook, readTable, WaveRefusal, type ColumnProposal, type ProposedSetup } from '../../src/lib/ingest';
+import { MEMO_CELL_TEXTS, SAMPLE_CELLS } from '../../src/lib/ingest/ingest-thresholds';
+import { sampleCells } from '../../src/lib/ingest/personal-data';
+import { columnData, columnsLeftOut, headerWords, parseNumber, proposeSetup, readCodebook, readTable, WaveRefusal, type ColumnProposal, type ProposedSetup } from '../../src/lib/ingest';
 
 const table = (csv: string, name = 'w.csv') => readTable(new TextEncoder().encode(csv), name);
 const column = (setup: ProposedSetup, name: string): ColumnProposal => {
@@ -23,6 +25,32 @@ describe('columnData', () => {
       expect(data.profile).toEqual({ nonBlank: 4, blank: 1, numeric: 3, wholeNumbers: 2, distinct: 3, minimum: 1, maximum: 2.5, examples: ['1', '2.5', 'x'] });
       expect(data.texts).toEqual(['x']);
       expect(() => columnData(read, 2)).toThrow(RangeError);
+    });
+  });
+
+  it('reads each distinct text once to the results of reading every cell, awkward cells and many distinct texts included', () => {
+    // Second opinion: the cell-by-cell profile columnData computed before it remembered texts.
+    const cells = ['3', ' 3', '3 ', '\u00a03', '3.0', '', ' ', '\t', '9', '1e0', '-1', 'x', ' x', 'Agree', '4', '2.5', '10', '7', '3',
+      ...Array.from({ length: 3 * MEMO_CELL_TEXTS }, (_, k) => (k % 2 === 0 ? `R${k}` : String(k % 4)))];
+    const headers = ['q'];
+    const rows = cells.map((cell) => [cell]);
+    const read = { source: { fileName: 'w.csv', format: 'csv' as const, encoding: 'utf-8', delimiter: ',' as const, decimalSeparator: '.' as const, sheet: null, sheets: [] },
+      headers, originalHeaders: headers, rows, fileRows: rows.map((_, i) => i + 2), warnings: [], codebookTable: null };
+    const filled = cells.map((cell) => cell.trim()).filter((text) => text !== '');
+    const numbers = filled.map((text) => parseNumber(text, '.')).filter((value) => !Number.isNaN(value));
+    const distinct = [...new Set(filled)];
+    const data = columnData(read, 0);
+    expect(data.cells).toEqual(cells);
+    expect(data.filled).toEqual(filled);
+    expect(data.numbers).toEqual(numbers);
+    expect(data.distinctNumbers).toEqual([...new Set(numbers)]);
+    expect(filled.length).toBeGreaterThan(SAMPLE_CELLS);
+    expect(data.filledSample).toEqual(sampleCells(filled));
+    expect(data.filledSample.length).toBe(SAMPLE_CELLS);
+    expect(data.texts).toEqual(distinct.filter((text) => Number.isNaN(parseNumber(text, '.'))));
+    expect(data.profile).toEqual({
+      nonBlank: filled.length, blank: cells.length - filled.length, numeric: numbers.length, wholeNumbers: numbers.filter(Number.isInteger).length,
+      distinct: distinct.length, minimum: Math.min(...numbers), maximum: Math.max(...numbers), examples: distinct.slice(0, 5),
     });
   });
 });

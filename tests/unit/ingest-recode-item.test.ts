@@ -1,5 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { recodeItem, reverseScore, type ItemSetup } from '../../src/lib/ingest';
+import { parseNumber, recodeCounts, recodeItem, reverseScore, type ItemSetup } from '../../src/lib/ingest';
+import { labelKey } from '../../src/lib/ingest/value-labels';
+import { MEMO_CELL_TEXTS } from '../../src/lib/ingest/ingest-thresholds';
 
 const base: ItemSetup = Object.freeze({
   id: 'Q1', scale: null, reverse: false, min: 1, max: 5, missingCodes: Object.freeze([8, 9]), text: null,
@@ -35,5 +37,59 @@ describe('recodeItem', () => {
 
   it('reads decimal commas where the file uses them', () => {
     expect(Array.from(recodeItem(['2,5', '3.5'], { ...base, labels: [] }, ',').recoded)).toEqual([2.5, NaN]);
+  });
+});
+
+/** The cell-by-cell reading recodeItem had before it read each distinct text once (methods.md §1), as a second opinion. */
+function recodeCellByCell(cells: readonly string[], item: ItemSetup, decimalSeparator: '.' | ','): { raw: number[]; recoded: number[]; counts: Record<string, number> } {
+  const codeOfLabel = new Map<string, number>();
+  for (const label of item.labels) if (!codeOfLabel.has(labelKey(label.label))) codeOfLabel.set(labelKey(label.label), label.code);
+  const missingLabel = new Set(item.missingLabels.map(labelKey));
+  const counts = { answered: 0, blank: 0, declaredMissing: 0, outOfRange: 0, nonNumeric: 0, unmappedLabel: 0, mappedLabel: 0 };
+  const raw: number[] = [];
+  const recoded: number[] = [];
+  for (const cell of cells) {
+    raw.push(NaN);
+    recoded.push(NaN);
+    if (cell.trim() === '') { counts.blank++; continue; }
+    let value = parseNumber(cell, decimalSeparator);
+    if (Number.isNaN(value)) {
+      const code = codeOfLabel.get(labelKey(cell));
+      if (code !== undefined) { value = code; counts.mappedLabel++; }
+      else if (missingLabel.has(labelKey(cell))) { counts.declaredMissing++; continue; }
+      else { if (item.labels.length > 0) counts.unmappedLabel++; else counts.nonNumeric++; continue; }
+    }
+    raw[raw.length - 1] = value;
+    if (item.missingCodes.includes(value)) { counts.declaredMissing++; continue; }
+    if (value < item.min || value > item.max) { counts.outOfRange++; continue; }
+    recoded[recoded.length - 1] = item.reverse ? reverseScore(value, item.min, item.max) : value;
+    counts.answered++;
+  }
+  return { raw, recoded, counts };
+}
+
+describe('recodeItem and recodeCounts on awkward cells', () => {
+  // Awkward cells: one-character codes, white space, a no-break space, decimals, decimal commas,
+  // labels in other case, missing labels, a missing code that is a label's code, unmapped text, and
+  // more distinct texts (ids) than the per-item memory of distinct texts keeps.
+  const awkward = Object.freeze([
+    '3', '3', ' 3', '3 ', '\u00a03', '3.0', '3,0', '', ' ', '\t', '9', '8', '09', '1e0', '+2', '-1', '5', 'AGREE', 'agree', ' Agree ',
+    "Don't know", 'don’t know', 'x', '=1+2', '4', '4', '2', '\r', '10', '1',
+    ...Array.from({ length: 3 * MEMO_CELL_TEXTS }, (_, k) => String(k % 2 === 0 ? `id${k}` : k % 6)),
+  ]);
+  const labelled: ItemSetup = { ...base, labels: [{ code: 1, label: 'Disagree' }, { code: 9, label: 'Agree' }] };
+  const setups: readonly ItemSetup[] = [base, { ...base, reverse: true }, { ...base, labels: [], missingLabels: [] }, labelled, { ...base, min: 0, max: 10, missingCodes: [] }];
+
+  it('gives the values and counts of the cell-by-cell reading, and recodeCounts the same counts', () => {
+    for (const setup of setups) {
+      for (const separator of ['.', ','] as const) {
+        const read = recodeItem(awkward, setup, separator);
+        const expected = recodeCellByCell(awkward, setup, separator);
+        expect(Array.from(read.raw)).toEqual(expected.raw);
+        expect(Array.from(read.recoded)).toEqual(expected.recoded);
+        expect(read.counts).toEqual(expected.counts);
+        expect(recodeCounts(awkward, setup, separator)).toEqual(read.counts);
+      }
+    }
   });
 });

@@ -145,3 +145,39 @@ describe('screenRespondents on a scored test (psych::lsat6, LSAT section 6, Bock
     expect(result.flags[0].threshold).toBe(5);
   });
 });
+
+describe('screening indices on more respondents than one block of rows', () => {
+  it('give the figures of reading each respondent across the items, one after another', () => {
+    // Second opinion: the row-by-row loops the indices had before they read rows in blocks.
+    const rows = 2_500;
+    const columns = 13;
+    let seed = 7;
+    const next = () => ((seed = (seed * 1103515245 + 12345) >>> 0) >>> 8) / 2 ** 24;
+    const data = Float64Array.from({ length: rows * columns }, (_, t) => (t % 97 === 0 || next() < 0.05 ? NaN : t % rows < 40 ? 3 : 1 + Math.floor(next() * 5)));
+    const answers = { rows, columns, data };
+    const longest: number[] = [];
+    const sd: (number | null)[] = [];
+    const missing: number[] = [];
+    for (let i = 0; i < rows; i++) {
+      let best = 0, run = 0, previous = NaN, count = 0, mean = 0, squares = 0, absent = 0;
+      for (let j = 0; j < columns; j++) {
+        const value = data[j * rows + i];
+        if (Number.isNaN(value)) { absent++; continue; }
+        run = value === previous ? run + 1 : 1;
+        previous = value;
+        best = Math.max(best, run);
+        count++;
+        const delta = value - mean;
+        mean += delta / count;
+        squares += delta * (value - mean);
+      }
+      longest.push(best);
+      sd.push(count >= 2 ? Math.sqrt(squares / (count - 1)) : null);
+      missing.push(absent / columns);
+    }
+    expect(longStringIndex(answers)).toEqual(longest);
+    expect(withinPersonSd(answers)).toEqual(sd);
+    expect(missingShare(answers)).toEqual(missing);
+    expect(longest.slice(0, 40).every((run) => run >= 10)).toBe(true);
+  });
+});

@@ -156,3 +156,35 @@ describe('codeOrdinalItem', () => {
     expect(() => codeOrdinalItem([1, 1, -Infinity])).toThrow(/value 2 is infinite/);
   });
 });
+
+describe('codeOrdinalItem: whole-number answers by table, others by search', () => {
+  it('gives each answer the index of its category in ascending order, NaN the category count, whatever the values', () => {
+    // Second opinion: the code of an answer is its rank among the sorted distinct answers.
+    const cases: number[][] = [
+      [3, 1, 5, 5, NaN, 2, 4, 1, 3],
+      [0, -0, 10, 7, NaN, 0, 10],
+      [-9, -3, -9, 2, NaN],
+      [1.5, 2.5, 1.5, 3.25, NaN],
+      [0, 1024, 512, 0],
+      [0, 1025, 512, 0],
+      [7, 7, NaN, 7],
+      [NaN, NaN],
+      [300, 2, 300, 2.5, 255, 256, 2, 255],
+    ];
+    for (const values of cases) {
+      const item = codeOrdinalItem(Float64Array.from(values));
+      const sorted = [...new Set(values.filter((value) => !Number.isNaN(value)).map((value) => value + 0))].sort((a, b) => a - b);
+      expect(Array.from(item.categories)).toEqual(sorted);
+      expect(Array.from(item.codes)).toEqual(values.map((value) => (Number.isNaN(value) ? sorted.length : sorted.indexOf(value + 0))));
+      expect(Array.from(item.counts)).toEqual(sorted.map((category) => values.filter((value) => value === category).length));
+      expect(item.observed).toBe(values.filter((value) => !Number.isNaN(value)).length);
+    }
+  });
+
+  it('refuses more distinct answers than maxCategories and an infinite answer, small whole numbers or not', () => {
+    expect(() => codeOrdinalItem(Float64Array.from([1, 2, 3, 1, 2]), 2)).toThrow(/more than 2 distinct values/);
+    expect(() => codeOrdinalItem(Float64Array.from([1.5, 2.5, 3.5]), 2)).toThrow(/more than 2 distinct values/);
+    expect(() => codeOrdinalItem(Float64Array.from([1, 2, 1, 2]), 2)).not.toThrow();
+    expect(() => codeOrdinalItem(Float64Array.from([1, Infinity]))).toThrow(/value 1 is infinite/);
+  });
+});

@@ -16,6 +16,7 @@ import { conditionNumber } from '../stats/condition-number';
 import { correlationMatrix, usableItems } from '../stats/correlation-matrix';
 import { completeRows } from '../stats/complete-rows';
 import { covarianceMatrix } from '../stats/covariance-matrix';
+import { centeredCrossProducts, crossProductsOfItems, type CenteredCrossProducts } from '../stats/cross-products';
 import { cronbachAlpha } from '../stats/cronbach-alpha';
 import { smoothCorrelationMatrix } from '../stats/smooth-correlation-matrix';
 import { emCovariance } from '../stats/em-covariance';
@@ -26,7 +27,7 @@ import { omegaTotal } from '../stats/omega-total';
 import { spectralInverse } from '../stats/spectral-inverse';
 import { symmetricEigen, symmetricEigenvalues, type SymmetricEigenDecomposition } from '../stats/symmetric-eigen';
 import { POLYCHORIC_MINIMUM_N, REPAIR_EIGENVALUE_FLOOR, TETRACHORIC_MINIMUM_N } from '../stats/tolerances';
-import { selectItems, type ItemMatrix, type NumericalNotice, type SquareMatrix } from '../stats/types';
+import { selectItems, selectRespondents, type ItemMatrix, type NumericalNotice, type SquareMatrix } from '../stats/types';
 import { undefinedPairCover } from '../stats/undefined-pair-cover';
 import { varianceInflation } from '../stats/variance-inflation';
 import { weightedPearson } from '../stats/weighted-pearson';
@@ -274,7 +275,12 @@ export function computeEvidence(
   const weightedMoments = (columns: readonly number[]) =>
     resampleOf === undefined || settings.method !== 'pearson' ? null : weightedPearson(resampleOf.matrix, resampleOf.weights, columns, settings.missing);
   let moments = weightedMoments(usable);
-  let correlation = moments?.correlation ?? correlationMatrix(data, { method: settings.method, missing: settings.missing });
+  // Pearson over complete rows (complete data, or listwise deletion): the centred cross-products
+  // XᵀX of the complete rows are taken once and serve the correlation matrix, the covariance
+  // matrix and the Belsley-Kuh-Welsch Gram matrix alike (each would otherwise pass over the data
+  // again; the figures are bit for bit the same).
+  let crossProducts = moments === null ? sharedCrossProducts(data, settings) : undefined;
+  let correlation = moments?.correlation ?? correlationMatrix(data, { method: settings.method, missing: settings.missing, ...(crossProducts ? { crossProducts } : {}) });
   // An undefined correlation (two items never answered together, or no variation where they
   // were) is never entered as 0: the fewest items that leave no undefined pair are set aside.
   for (let round = 0; correlation.undefinedPairs.length > 0 && usable.length > 1 && round < items.length; round++) {
@@ -292,13 +298,19 @@ export function computeEvidence(
         'The items were chosen greedily (each time the item in the most undefined pairs) so that as few as possible leave; an undefined correlation is never entered as 0.',
     });
     const gone = new Set(cover.leftOut);
-    const kept = usable.filter((_, k) => !gone.has(k));
+    const keptPositions = usable.map((_, k) => k).filter((k) => !gone.has(k));
+    const kept = keptPositions.map((k) => usable[k]);
     usable.splice(0, usable.length, ...kept);
     data = selectItems(matrix, usable);
     moments = weightedMoments(usable);
-    correlation = moments?.correlation ?? correlationMatrix(data, { method: settings.method, missing: settings.missing });
+    // Under listwise deletion fewer items can leave more complete rows: the cross-products are
+    // taken again then; otherwise the kept items' rows and columns are theirs.
+    if (crossProducts !== undefined) {
+      crossProducts = settings.missing === 'listwise' ? sharedCrossProducts(data, settings) : crossProductsOfItems(crossProducts, keptPositions);
+    }
+    correlation = moments?.correlation ?? correlationMatrix(data, { method: settings.method, missing: settings.missing, ...(crossProducts ? { crossProducts } : {}) });
   }
-  const completeData = completeRows(data).length === data.rows;
+  const completeData = crossProducts !== undefined ? crossProducts.rows === data.rows : completeRows(data).length === data.rows;
   warnings.push(...warningsFromNotices(correlation.notices, items, usable));
   if (settings.method === 'polychoric') warnings.push(...polychoricSampleWarnings(correlation, items, usable));
   // An indefinite matrix (pairwise or polychoric) is smoothed by Bentler & Yuan's (2011) scaling
@@ -324,13 +336,13 @@ export function computeEvidence(
       warnings.push(...warningsFromNotices(smoothed.notices, items, kept.map((k) => usable[k])));
     }
   }
-  const covariance = moments?.covariance ?? covarianceMatrix(data, { missing: settings.missing });
+  const covariance = moments?.covariance ?? covarianceMatrix(data, { missing: settings.missing, ...(crossProducts ? { crossProducts } : {}) });
   warnings.push(...warningsFromNotices(covariance.notices, items, usable));
 
   const overlap = inflationAndSpectrum(matrixR, items, usable);
   warnings.push(...overlap.warnings);
 
-  const collinearity = collinearityEvidence(data, items, usable, warnings, detail);
+  const collinearity = collinearityEvidence(data, items, usable, warnings, detail, crossProducts);
   const reliability = scaleReliability({ items, usable, covariance: covariance.matrix, correlation: matrixR, detail });
   warnings.push(...reliability.warnings);
 
@@ -475,6 +487,19 @@ function wellConditionedInverse(eigen: SymmetricEigenDecomposition): SquareMatri
   return spectralInverse(eigen);
 }
 
+/**
+ * The centred cross-products of the complete rows of `data` when Pearson correlations come from
+ * complete rows only (no missing answer, or listwise deletion) and there are at least two such
+ * rows; undefined otherwise (pairwise deletion with missing answers, Spearman, polychoric).
+ */
+function sharedCrossProducts(data: ItemMatrix, settings: Pick<EngineSettings, 'method' | 'missing'>): CenteredCrossProducts | undefined {
+  if (settings.method !== 'pearson') return undefined;
+  const complete = completeRows(data);
+  if (complete.length < 2) return undefined;
+  if (complete.length === data.rows) return centeredCrossProducts(data);
+  return settings.missing === 'listwise' ? centeredCrossProducts(selectRespondents(data, complete)) : undefined;
+}
+
 /** For each column the earlier column it is an exact copy of (same value in every row, missing alike), else -1. */
 function exactCopies(data: ItemMatrix): number[] {
   const rows = data.rows;
@@ -520,10 +545,11 @@ function collinearityEvidence(
   usable: readonly number[],
   warnings: EngineWarning[],
   detail: 'full' | 'decision',
+  crossProducts: CenteredCrossProducts | undefined,
 ): CollinearityEvidence | null {
   // Bootstrap resamples take the Gram-matrix path (one cross-product pass and a small
   // eigen-decomposition): its relative error, about ε·η², is harmless below η = 1e4.
-  let result = belsleyCollinearity(data, { path: detail === 'decision' ? 'gram' : 'auto' });
+  let result = belsleyCollinearity(data, { path: detail === 'decision' ? 'gram' : 'auto', ...(crossProducts ? { crossProducts } : {}) });
   const width = usable.length + 1;
   let fromEm = false;
   // With scattered missing answers the complete rows can be too few (a 54-item wave with 3%

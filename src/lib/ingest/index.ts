@@ -38,7 +38,7 @@ export { findPersonalData, looksLikeEmail, looksLikePhoneNumber, sampleCells, ty
 export { guessAnswerRange, type AnswerRangeGuess } from './guess-answer-range';
 export { columnData, type ColumnData } from './column-profile';
 export { proposeSetup, headerWords, columnsLeftOut, itemTypeOf, type ColumnLeftOut } from './propose-setup';
-export { recodeItem, reverseScore, type RecodedItem } from './recode-item';
+export { recodeCounts, recodeItem, reverseScore, type RecodedItem } from './recode-item';
 export { validateSetup, waveSetupSchema, itemSetupSchema, type CheckedSetup } from './validate-setup';
 export {
   buildWave, includedRows, checkExclusions, applyExclusions, identicalGroups, EXCLUSION_WARNING_CODES, type ExcludableWave, type WaveExclusions,

@@ -52,3 +52,10 @@ export const MODAL_RANGE_SHARE = 0.95;
 
 /** Fewest respondents for an audit to say anything: a correlation from two respondents is always ±1. */
 export const MIN_RESPONDENTS_FOR_AUDIT = 3;
+
+// ── Reading cells (performance only: results are the same for any value) ─────────────────────
+
+/** Distinct cell texts remembered per column or item while reading it; past them each cell is read afresh. */
+export const MEMO_CELL_TEXTS = 4096;
+/** One-character cells below this character code (ASCII) are remembered by their code rather than their text. */
+export const SINGLE_CHARACTER_CODES = 128;

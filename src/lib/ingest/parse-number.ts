@@ -21,6 +21,24 @@ export function isBlankCell(cell: string): boolean {
 }
 
 /**
+ * A cell's text without surrounding white space, as `cell.trim()` gives it; a cell that begins and
+ * ends with a visible ASCII character (the usual answer code) is returned as it is, without the
+ * call.
+ * @param cell cell text.
+ * @returns the trimmed text ('' for a blank cell).
+ * References: ECMA-262 (2024), "String.prototype.trim" (white space and line terminators removed).
+ */
+export function trimCell(cell: string): string {
+  const length = cell.length;
+  if (length > 0) {
+    const first = cell.charCodeAt(0);
+    const last = cell.charCodeAt(length - 1);
+    if (first > 0x20 && first < 0x7f && last > 0x20 && last < 0x7f) return cell;
+  }
+  return cell.trim();
+}
+
+/**
  * The number a cell holds, or NaN when it holds none.
  * @param cell cell text (surrounding white space is ignored).
  * @param decimalSeparator `.` (thousands separators not read) or `,` (a `.` may group thousands: `1.234,5`).

@@ -77,8 +77,20 @@ function headerWords(header: string): string {
  */
 export function sampleCells<T>(cells: readonly T[]): readonly T[] {
   if (cells.length <= SAMPLE_CELLS) return cells;
-  const step = cells.length / SAMPLE_CELLS;
-  return Array.from({ length: SAMPLE_CELLS }, (_, k) => cells[Math.floor(k * step)]);
+  return samplePositions(cells.length).map((position) => cells[position]);
+}
+
+/**
+ * The positions {@link sampleCells} takes from `length` cells: every position when there are at
+ * most {@link SAMPLE_CELLS}, else SAMPLE_CELLS evenly spaced ones, ascending.
+ * @param length how many cells there are (a whole number >= 0).
+ * @returns 0-based positions, ascending.
+ * References: none published; systematic sampling with a fixed step (Cochran 1977, "Sampling Techniques", ch. 8).
+ */
+export function samplePositions(length: number): number[] {
+  if (length <= SAMPLE_CELLS) return Array.from({ length }, (_, k) => k);
+  const step = length / SAMPLE_CELLS;
+  return Array.from({ length: SAMPLE_CELLS }, (_, k) => Math.floor(k * step));
 }
 
 /** What kind of personal data or free text a column holds, if any. */

@@ -9,8 +9,8 @@ import { columnData, type ColumnData } from './column-profile';
 import { guessAnswerRange } from './guess-answer-range';
 import { MAX_ANSWER_LABELS, MODAL_RANGE_SHARE, NUMERIC_MAJORITY, PATTERN_SHARE, RATING_MAX_SPAN } from './ingest-thresholds';
 import { looksLikeTimeText, parseDuration } from './parse-duration';
-import { findPersonalData, sampleCells } from './personal-data';
-import { recodeItem } from './recode-item';
+import { findPersonalData } from './personal-data';
+import { recodeCounts } from './recode-item';
 import type {
   Codebook, CodebookEntry, ColumnProposal, ColumnRole, DurationUnit, ItemSetup, ItemType, LabelSource, ProposedSetup, ValueLabel, WaveSetup, WaveTable, WaveWarning,
 } from './types';
@@ -112,7 +112,8 @@ function guessItem(draft: Draft): void {
   const substantiveTexts = data.texts.filter((text) => !isMissingAnswerText(text));
   const missingTexts = data.texts.filter(isMissingAnswerText);
   const missingSet = new Set(missingTexts);
-  const numericShare = share(data.numbers.length, data.filled.filter((cell) => !missingSet.has(cell)).length);
+  const answeredCells = missingSet.size === 0 ? data.profile.nonBlank : data.filled.filter((cell) => !missingSet.has(cell)).length;
+  const numericShare = share(data.profile.numeric, answeredCells);
   if (substantiveTexts.length > 0 && numericShare < NUMERIC_MAJORITY) {
     const matches = matchAnswerScales(data.texts);
     if (matches.length > 0) {
@@ -129,16 +130,16 @@ function guessItem(draft: Draft): void {
     }
     return;
   }
-  if (data.numbers.length === 0) {
+  if (data.profile.numeric === 0) {
     draft.reason = 'Only no-answer texts, no answers.';
     return;
   }
-  const whole = data.numbers.filter((value) => Number.isInteger(value));
-  if (share(whole.length, data.numbers.length) < PATTERN_SHARE) {
+  // The whole numbers are counted in the profile; their range is guessed from the distinct ones.
+  if (share(data.profile.wholeNumbers, data.profile.numeric) < PATTERN_SHARE) {
     draft.reason = `Numbers with decimals (${data.profile.minimum} to ${data.profile.maximum}), not a rating item.`;
     return;
   }
-  const guess = guessAnswerRange(whole);
+  const guess = guessAnswerRange(data.distinctNumbers.filter((value) => Number.isInteger(value)));
   if (guess === null) return;
   const item = blankItem(data.header);
   item.min = guess.min;
@@ -189,8 +190,7 @@ function itemFromCodebook(draft: Draft, entry: CodebookEntry): void {
     }
   }
   item.missingLabels = unlabelledTexts.filter(isMissingAnswerText);
-  const whole = data.numbers.filter((value) => Number.isInteger(value));
-  const dataGuess = guessAnswerRange(whole);
+  const dataGuess = guessAnswerRange(data.distinctNumbers.filter((value) => Number.isInteger(value)));
   if (entry.missingCodes !== null) item.missingCodes = [...entry.missingCodes];
   else if (dataGuess && dataGuess.missingCodes.length > 0 && entry.min === null && entry.max === null && item.labels.length === 0) {
     item.missingCodes = [...dataGuess.missingCodes];
@@ -209,7 +209,8 @@ function itemFromCodebook(draft: Draft, entry: CodebookEntry): void {
   if (min === null || max === null) {
     // Every number counts here, decimals too: a codebook item may hold scale scores or slider
     // values such as 3.3333333 (the codebook's word wins over the whole-number guess).
-    const answers = data.numbers.filter((value) => !item.missingCodes.includes(value));
+    // The distinct numbers have the smallest and largest of all the numbers.
+    const answers = data.distinctNumbers.filter((value) => !item.missingCodes.includes(value));
     if (answers.length > 0) {
       min ??= Math.min(...answers);
       max ??= Math.max(...answers);
@@ -236,7 +237,8 @@ function classify(draft: Draft, entry: CodebookEntry | undefined, decimalSeparat
     draft.reason = entry ? 'Listed in the codebook but empty.' : 'The column is empty.';
     return;
   }
-  const personal = findPersonalData(data.header, data.filled, decimalSeparator);
+  // findPersonalData looks at sampleCells(filled) only, which is the sample the column keeps.
+  const personal = findPersonalData(data.header, data.filledSample, decimalSeparator);
   if (personal && (personal.fromValues || !entry)) {
     // A codebook's word wins over every guess but this one: e-mail addresses, phone numbers and
     // network addresses are never stored as items (buildWave refuses them), so say so loudly.
@@ -255,8 +257,9 @@ function classify(draft: Draft, entry: CodebookEntry | undefined, decimalSeparat
     return;
   }
   if (ID_HEADER.test(words)) {
-    const distinct = new Set(data.filled).size;
-    if (!taken.has('respondent-id') && data.profile.blank === 0 && distinct === data.filled.length) {
+    const filled = data.filled;
+    const distinct = new Set(filled).size;
+    if (!taken.has('respondent-id') && data.profile.blank === 0 && distinct === filled.length) {
       draft.role = 'respondent-id';
       taken.add('respondent-id');
       draft.reason = 'Named like an identifier, and every row has a different value.';
@@ -267,7 +270,7 @@ function classify(draft: Draft, entry: CodebookEntry | undefined, decimalSeparat
     }
     return;
   }
-  const sample = sampleCells(data.filled);
+  const sample = data.filledSample;
   const durationShare = share(sample.filter((cell) => !Number.isNaN(parseDuration(cell, 'seconds', decimalSeparator))).length, sample.length);
   const timeTextShare = data.texts.length === 0 ? 0 : share(sample.filter(looksLikeTimeText).length, sample.length);
   if (DURATION_HEADER.test(words) && durationShare >= PATTERN_SHARE && !taken.has('duration')) {
@@ -290,7 +293,7 @@ function classify(draft: Draft, entry: CodebookEntry | undefined, decimalSeparat
     draft.reason = 'Written as times (mm:ss or hh:mm:ss), so read as a completion time.';
     return;
   }
-  const numericShare = share(data.numbers.length, data.filled.length);
+  const numericShare = share(data.profile.numeric, data.profile.nonBlank);
   if (WEIGHT_HEADER.test(words) && numericShare >= PATTERN_SHARE && data.numbers.every((value) => value >= 0) && !taken.has('weight')) {
     draft.role = 'weight';
     taken.add('weight');
@@ -363,7 +366,7 @@ function settleCommonMissingCodes(drafts: readonly Draft[]): void {
   if (common.size === 0) return;
   for (const draft of guessed) {
     const item = draft.item as MutableItem;
-    const values = [...new Set(draft.data.numbers.filter((value) => Number.isInteger(value)))].sort((a, b) => a - b);
+    const values = draft.data.distinctNumbers.filter((value) => Number.isInteger(value)).sort((a, b) => a - b);
     const answers = values.filter((value) => !common.has(value) && !item.missingCodes.includes(value));
     if (answers.length < 2) continue;
     const low = answers[0];
@@ -548,7 +551,7 @@ export function proposeSetup(table: WaveTable, codebook: Codebook | null = null)
       durationUnit: draft.role === 'duration' ? draft.durationUnit : null,
       reason: draft.reason,
       profile: draft.data.profile,
-      counts: item === null ? null : recodeItem(draft.data.cells, item, decimalSeparator).counts,
+      counts: item === null ? null : recodeCounts(draft.data.cells, item, decimalSeparator),
       labelSource: item === null ? null : draft.labelSource ?? (item.labels.length > 0 ? 'codebook' : 'none'),
       answerScale: item === null ? null : draft.answerScale,
     };

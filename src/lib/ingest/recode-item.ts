@@ -3,6 +3,7 @@
  * codes, missing codes and labels become missing, numbers outside the valid range become
  * missing, and reverse-keyed items are flipped, `x' = (min + max) − x`.
  */
+import { MEMO_CELL_TEXTS, SINGLE_CHARACTER_CODES } from './ingest-thresholds';
 import { parseNumber } from './parse-number';
 import type { ItemCounts, ItemSetup } from './types';
 import { labelKey } from './value-labels';
@@ -29,8 +30,27 @@ export function reverseScore(value: number, min: number, max: number): number {
   return flipped === 0 ? 0 : flipped;
 }
 
+/** Which count a cell adds to (the order of {@link ItemCounts}' first five fields, then unmapped labels). */
+const ANSWERED = 0;
+const BLANK = 1;
+const DECLARED_MISSING = 2;
+const OUT_OF_RANGE = 3;
+const NON_NUMERIC = 4;
+const UNMAPPED_LABEL = 5;
+
+/** What one cell text becomes under an item's setup. */
+interface CellRecode {
+  readonly raw: number;
+  readonly recoded: number;
+  /** One of ANSWERED ... UNMAPPED_LABEL. */
+  readonly tally: number;
+  /** 1 when the text was read through a value label. */
+  readonly mapped: number;
+}
+
 /**
- * Reads and recodes the cells of one item.
+ * Reads and recodes the cells of one item. Each distinct cell text is read once (an item holds a
+ * handful of answer texts), which gives the same values and counts as reading every cell.
  * @param cells the column's cells, one per respondent.
  * @param item the item's setup (range, missing codes, labels, reverse).
  * @param decimalSeparator the table's decimal separator.
@@ -41,6 +61,26 @@ export function recodeItem(cells: readonly string[], item: ItemSetup, decimalSep
   const n = cells.length;
   const raw = new Float64Array(n);
   const recoded = new Float64Array(n);
+  const counts = readItemCells(cells, item, decimalSeparator, raw, recoded);
+  return { raw, recoded, counts };
+}
+
+/**
+ * What happens to the cells of one item when recoded, without the values: the counts of
+ * {@link recodeItem} (the setup form and the proposal show them before any wave is built).
+ * @param cells the column's cells, one per respondent.
+ * @param item the item's setup (range, missing codes, labels, reverse).
+ * @param decimalSeparator the table's decimal separator.
+ * @returns the counts, equal to `recodeItem(cells, item, decimalSeparator).counts`.
+ * References: Paredown methods.md §1 "Preparing the response matrix".
+ */
+export function recodeCounts(cells: readonly string[], item: ItemSetup, decimalSeparator: '.' | ','): ItemCounts {
+  return readItemCells(cells, item, decimalSeparator, null, null);
+}
+
+/** The loop of recodeItem and recodeCounts: counts, and the values into `raw` and `recoded` when given. */
+function readItemCells(cells: readonly string[], item: ItemSetup, decimalSeparator: '.' | ',', raw: Float64Array | null, recoded: Float64Array | null): ItemCounts {
+  const n = cells.length;
   const codeOfLabel = new Map<string, number>();
   for (const label of item.labels) {
     const key = labelKey(label.label);
@@ -48,48 +88,54 @@ export function recodeItem(cells: readonly string[], item: ItemSetup, decimalSep
   }
   const missingLabel = new Set(item.missingLabels.map(labelKey));
   const missingCodes = new Set(item.missingCodes);
-  let answered = 0;
-  let blank = 0;
-  let declaredMissing = 0;
-  let outOfRange = 0;
-  let nonNumeric = 0;
-  let unmappedLabel = 0;
-  let mappedLabel = 0;
-  for (let i = 0; i < n; i++) {
-    const cell = cells[i];
-    raw[i] = Number.NaN;
-    recoded[i] = Number.NaN;
-    if (cell.trim() === '') {
-      blank++;
-      continue;
-    }
+  const recodeCell = (cell: string): CellRecode => {
+    if (cell.trim() === '') return { raw: Number.NaN, recoded: Number.NaN, tally: BLANK, mapped: 0 };
     let value = parseNumber(cell, decimalSeparator);
+    let mapped = 0;
     if (Number.isNaN(value)) {
       const key = labelKey(cell);
       const code = codeOfLabel.get(key);
       if (code !== undefined) {
         value = code;
-        mappedLabel++;
+        mapped = 1;
       } else if (missingLabel.has(key)) {
-        declaredMissing++;
-        continue;
+        return { raw: Number.NaN, recoded: Number.NaN, tally: DECLARED_MISSING, mapped: 0 };
       } else {
-        if (item.labels.length > 0) unmappedLabel++;
-        else nonNumeric++;
-        continue;
+        return { raw: Number.NaN, recoded: Number.NaN, tally: item.labels.length > 0 ? UNMAPPED_LABEL : NON_NUMERIC, mapped: 0 };
       }
     }
-    raw[i] = value;
-    if (missingCodes.has(value)) {
-      declaredMissing++;
-      continue;
+    if (missingCodes.has(value)) return { raw: value, recoded: Number.NaN, tally: DECLARED_MISSING, mapped };
+    if (value < item.min || value > item.max) return { raw: value, recoded: Number.NaN, tally: OUT_OF_RANGE, mapped };
+    return { raw: value, recoded: item.reverse ? reverseScore(value, item.min, item.max) : value, tally: ANSWERED, mapped };
+  };
+  const tallies = [0, 0, 0, 0, 0, 0];
+  let mappedLabel = 0;
+  // One-character cells (answer codes 0-9) by their character code, longer ones by their text.
+  const single: (CellRecode | undefined)[] = new Array(SINGLE_CHARACTER_CODES).fill(undefined);
+  const memo = new Map<string, CellRecode>();
+  for (let i = 0; i < n; i++) {
+    const cell = cells[i];
+    const code = cell.length === 1 ? cell.charCodeAt(0) : SINGLE_CHARACTER_CODES;
+    let result = code < SINGLE_CHARACTER_CODES ? single[code] : memo.get(cell);
+    if (result === undefined) {
+      result = recodeCell(cell);
+      if (code < SINGLE_CHARACTER_CODES) single[code] = result;
+      else if (memo.size < MEMO_CELL_TEXTS) memo.set(cell, result);
     }
-    if (value < item.min || value > item.max) {
-      outOfRange++;
-      continue;
+    if (raw !== null && recoded !== null) {
+      raw[i] = result.raw;
+      recoded[i] = result.recoded;
     }
-    recoded[i] = item.reverse ? reverseScore(value, item.min, item.max) : value;
-    answered++;
+    tallies[result.tally]++;
+    mappedLabel += result.mapped;
   }
-  return { raw, recoded, counts: { answered, blank, declaredMissing, outOfRange, nonNumeric, unmappedLabel, mappedLabel } };
+  return {
+    answered: tallies[ANSWERED],
+    blank: tallies[BLANK],
+    declaredMissing: tallies[DECLARED_MISSING],
+    outOfRange: tallies[OUT_OF_RANGE],
+    nonNumeric: tallies[NON_NUMERIC],
+    unmappedLabel: tallies[UNMAPPED_LABEL],
+    mappedLabel,
+  };
 }

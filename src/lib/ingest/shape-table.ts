@@ -149,16 +149,21 @@ export function shapeTable(
       if (row.length < headerRow.length) shortRows++;
       else if (row.length > headerRow.length && significantLength(row) > headerRow.length) longRows++;
     }
-    const cells = new Array<string>(width);
+    // A row of exactly the table's width with every cell present is kept as it is (the table's
+    // rows are read-only, and the grid is the reader's own); any other is padded or cut into a
+    // new array, so a large file is not held twice.
+    let cells: string[] | null = row.length === width ? null : new Array<string>(width);
     for (let j = 0; j < width; j++) {
-      const cell = row[j] ?? '';
-      cells[j] = cell;
+      const given = row[j];
+      const cell = given ?? '';
+      if (cells === null && (given === undefined || given === null)) cells = row.slice(0, width);
+      if (cells !== null) cells[j] = cell;
       if (looksLikeFormula(cell, source.decimalSeparator)) {
         formulaCells++;
         formulaColumns.add(j);
       }
     }
-    rows.push(cells);
+    rows.push(cells ?? (row as string[]));
     fileRows.push(grid.fileRows[index]);
   }
   if (shortRows + longRows > 0) {

@@ -28,7 +28,7 @@
  * correlation coefficient"; Higham 2002, "Computing the nearest correlation matrix" (IMA J.
  * Numer. Anal. 22:329-343) on indefinite pairwise matrices.
  */
-import { centeredCrossProducts, pearsonFromCrossProducts } from './cross-products';
+import { centeredCrossProducts, crossProductsOfItems, pearsonFromCrossProducts, type CenteredCrossProducts } from './cross-products';
 import { maskedCrossProducts, pairCentredSums } from './masked-cross-products';
 import { assignMidRanks, midRanks } from './mid-ranks';
 import { pearsonOfPairComplete } from './pearson-correlation';
@@ -50,6 +50,14 @@ export interface CorrelationMatrixOptions {
    * `clip` (eigenvalue clipping), or `none` (detect and report only).
    */
   readonly repair?: CorrelationRepairMethod | 'none';
+  /**
+   * Pearson over complete rows only (complete data, or listwise deletion): the centred
+   * cross-products of the same matrix's complete rows, already computed by the caller (e.g. for
+   * the covariance matrix and the collinearity diagnostics), used instead of another pass over
+   * the data. The result is bit for bit the same. Its `rows` must equal the number of complete
+   * rows and its order the number of items.
+   */
+  readonly crossProducts?: CenteredCrossProducts;
 }
 
 /** Two item indices (0-based), the smaller first. */
@@ -120,12 +128,15 @@ export function usableItems(matrix: ItemMatrix): UsableItems {
     let observed = 0;
     let first = NaN;
     let varies = false;
+    const offset = j * rows;
     for (let i = 0; i < rows; i++) {
-      const value = data[j * rows + i];
+      const value = data[offset + i];
       if (value !== value) continue;
       if (observed === 0) first = value;
       else if (value !== first) varies = true;
       observed++;
+      // Two answers that differ settle it: the rest of the column cannot change the verdict.
+      if (varies) break;
     }
     if (observed < 2) {
       refused.push(j);
@@ -159,6 +170,8 @@ export function usableItems(matrix: ItemMatrix): UsableItems {
  * @param options `method`: pearson, spearman or polychoric; `missing`: pairwise or listwise.
  * @throws {RangeError} when the matrix shape is inconsistent, a value is ±Infinity, an option is
  *   unknown, or (polychoric) an item has more than POLYCHORIC_MAX_CATEGORIES distinct values.
+ * @throws {RangeError} when `options.crossProducts` is given for another method than Pearson, for
+ *   pairwise deletion with missing answers, or does not match the complete rows and items.
  * @returns The matrix, the n of every cell, the rows used, undefined and corrected pairs, the
  *   indefiniteness check and notices. Never NaN.
  * References: Pearson 1896; Spearman 1904; Olsson 1979 (see the module notes).
@@ -219,6 +232,14 @@ export function prepareCorrelationMatrix(matrix: ItemMatrix, options: Correlatio
   const undefinedPairs: ItemPair[] = [];
 
   const complete = completeRows(matrix);
+  const given = options?.crossProducts;
+  if (given !== undefined) {
+    if (method !== 'pearson') throw new RangeError(`${caller}: crossProducts are used for Pearson only, not ${method}`);
+    if (missing === 'pairwise' && complete.length < matrix.rows) throw new RangeError(`${caller}: crossProducts cannot serve pairwise deletion with missing answers`);
+    if (given.rows !== complete.length || given.centered.order !== order || given.means.length !== order) {
+      throw new RangeError(`${caller}: the crossProducts cover ${given.rows} rows and ${given.centered.order} items, the complete data ${complete.length} rows and ${order} items`);
+    }
+  }
   const hasMissing = complete.length < matrix.rows;
   let data = matrix;
   let rowsUsed: number;
@@ -226,7 +247,8 @@ export function prepareCorrelationMatrix(matrix: ItemMatrix, options: Correlatio
     if (hasMissing) data = selectRespondents(matrix, complete);
     rowsUsed = complete.length;
   } else {
-    rowsUsed = rowsWithAnyAnswer(matrix);
+    // Without a missing answer every row answered an item: no pass needed to count them.
+    rowsUsed = hasMissing ? rowsWithAnyAnswer(matrix) : matrix.rows;
   }
   const pairwiseWithMissing = missing === 'pairwise' && hasMissing;
 
@@ -246,7 +268,7 @@ export function prepareCorrelationMatrix(matrix: ItemMatrix, options: Correlatio
   } else if (pairwiseWithMissing) {
     fillPairwiseWithMissing(data, method, values, counts, undefinedPairs);
   } else {
-    fillComplete(data, method, values, counts, undefinedPairs);
+    fillComplete(data, method, values, counts, undefinedPairs, given);
   }
   return { method, missing, repair, order, rowsUsed, pairwiseWithMissing, values, counts, undefinedPairs, polychoricItems, polychoricJob };
 }
@@ -414,7 +436,14 @@ function isConstant(values: Float64Array): boolean {
 }
 
 /** Complete data (listwise rows, or pairwise without any missing value): one Pearson pass. */
-function fillComplete(data: ItemMatrix, method: CorrelationMethod, values: Float64Array, counts: Float64Array, undefinedPairs: ItemPair[]): void {
+function fillComplete(
+  data: ItemMatrix,
+  method: CorrelationMethod,
+  values: Float64Array,
+  counts: Float64Array,
+  undefinedPairs: ItemPair[],
+  given: CenteredCrossProducts | undefined,
+): void {
   const order = data.columns;
   const rows = data.rows;
   counts.fill(rows);
@@ -425,12 +454,18 @@ function fillComplete(data: ItemMatrix, method: CorrelationMethod, values: Float
   const varying: number[] = [];
   for (let j = 0; j < order; j++) if (!isConstant(itemColumn(data, j))) varying.push(j);
   if (varying.length > 0) {
-    const working = new Float64Array(rows * varying.length);
-    varying.forEach((j, position) => {
-      const source = itemColumn(data, j);
-      working.set(method === 'spearman' ? midRanks(source) : source, position * rows);
-    });
-    const correlations = pearsonFromCrossProducts(centeredCrossProducts({ rows, columns: varying.length, data: working }));
+    let products: CenteredCrossProducts;
+    if (given !== undefined) {
+      products = varying.length === order ? given : crossProductsOfItems(given, varying);
+    } else {
+      const working = new Float64Array(rows * varying.length);
+      varying.forEach((j, position) => {
+        const source = itemColumn(data, j);
+        working.set(method === 'spearman' ? midRanks(source) : source, position * rows);
+      });
+      products = centeredCrossProducts({ rows, columns: varying.length, data: working });
+    }
+    const correlations = pearsonFromCrossProducts(products);
     const size = varying.length;
     for (let a = 0; a < size; a++) {
       for (let b = 0; b < size; b++) values[varying[a] * order + varying[b]] = correlations.data[a * size + b];

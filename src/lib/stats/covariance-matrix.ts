@@ -17,7 +17,7 @@
  * the internal structure of tests" (the use made of it).
  */
 import { completeRows, rowsWithAnyAnswer } from './complete-rows';
-import { centeredCrossProducts } from './cross-products';
+import { centeredCrossProducts, type CenteredCrossProducts } from './cross-products';
 import { maskedCrossProducts, pairCentredSums } from './masked-cross-products';
 import { MIN_ROWS_FOR_COVARIANCE } from './tolerances';
 import { selectRespondents, type ItemMatrix, type MissingPolicy, type NumericalNotice, type SquareMatrix } from './types';
@@ -25,6 +25,13 @@ import { selectRespondents, type ItemMatrix, type MissingPolicy, type NumericalN
 /** Options of `covarianceMatrix`. */
 export interface CovarianceMatrixOptions {
   readonly missing: MissingPolicy;
+  /**
+   * Complete data or listwise deletion only: the centred cross-products of the same matrix's
+   * complete rows, already computed by the caller (e.g. for the Pearson matrix), used instead of
+   * another pass over the data. The result is bit for bit the same. Its `rows` must equal the
+   * number of complete rows and its order the number of items.
+   */
+  readonly crossProducts?: CenteredCrossProducts;
 }
 
 /** A covariance matrix with the respondents behind each cell. */
@@ -47,6 +54,8 @@ export interface CovarianceMatrixResult {
  * @param matrix Respondents × items, column-major, NaN for missing.
  * @param options `missing`: pairwise or listwise.
  * @throws {RangeError} when the shape is inconsistent, a value is ±Infinity, or the policy is unknown.
+ * @throws {RangeError} when `options.crossProducts` is given for pairwise deletion with missing
+ *   answers, or does not match the complete rows and items.
  * @returns The covariance matrix, the n of every cell, the rows used, undefined cells and notices.
  * References: Chan, Golub & LeVeque 1983, "Algorithms for computing the sample variance:
  * analysis and recommendations".
@@ -73,16 +82,24 @@ export function covarianceMatrix(matrix: ItemMatrix, options: CovarianceMatrixOp
   const undefinedPairs: [number, number][] = [];
   const complete = completeRows(matrix);
   const hasMissing = complete.length < rows;
+  const given = options.crossProducts;
+  if (given !== undefined) {
+    if (missing === 'pairwise' && hasMissing) throw new RangeError(`${caller}: crossProducts cannot serve pairwise deletion with missing answers`);
+    if (given.rows !== complete.length || given.centered.order !== order || given.means.length !== order) {
+      throw new RangeError(`${caller}: the crossProducts cover ${given.rows} rows and ${given.centered.order} items, the complete data ${complete.length} rows and ${order} items`);
+    }
+  }
   let rowsUsed: number;
   if (missing === 'listwise' || !hasMissing) {
-    const used = hasMissing ? selectRespondents(matrix, complete) : matrix;
-    rowsUsed = missing === 'listwise' ? complete.length : rowsWithAnyAnswer(matrix);
-    counts.fill(used.rows);
-    if (used.rows < MIN_ROWS_FOR_COVARIANCE) {
+    const usedRows = complete.length;
+    // Without a missing answer every row answered an item: no pass needed to count them.
+    rowsUsed = missing === 'listwise' || !hasMissing ? complete.length : rowsWithAnyAnswer(matrix);
+    counts.fill(usedRows);
+    if (usedRows < MIN_ROWS_FOR_COVARIANCE) {
       for (let j = 0; j < order; j++) for (let k = j; k < order; k++) undefinedPairs.push([j, k]);
     } else {
-      const products = centeredCrossProducts(used);
-      for (let t = 0; t < order * order; t++) values[t] = products.centered.data[t] / (used.rows - 1);
+      const products = given ?? centeredCrossProducts(hasMissing ? selectRespondents(matrix, complete) : matrix);
+      for (let t = 0; t < order * order; t++) values[t] = products.centered.data[t] / (usedRows - 1);
     }
   } else {
     rowsUsed = rowsWithAnyAnswer(matrix);

@@ -110,6 +110,38 @@ export function centeredCrossProducts(matrix: ItemMatrix): CenteredCrossProducts
 }
 
 /**
+ * The centred cross-products of some of the items, taken from those of every item: the rows and
+ * columns of `positions` (a principal submatrix) and their means. Each sum depends on its own two
+ * items only (the kernel sums every pair over the rows in the same order whatever the other
+ * columns), so the result is bit for bit what `centeredCrossProducts` gives on the selected items.
+ * @param crossProducts Cross-products of every item (from `centeredCrossProducts`).
+ * @param positions 0-based item indices to keep, in the order wanted, without repeats.
+ * @throws {RangeError} when a position is not an item of `crossProducts` or appears twice.
+ * @returns The cross-products of the selected items over the same rows.
+ * References: none (a principal submatrix of a symmetric matrix).
+ */
+export function crossProductsOfItems(crossProducts: CenteredCrossProducts, positions: readonly number[]): CenteredCrossProducts {
+  const { order, data } = crossProducts.centered;
+  const seen = new Uint8Array(order);
+  for (const position of positions) {
+    if (!Number.isInteger(position) || position < 0 || position >= order) {
+      throw new RangeError(`crossProductsOfItems: position ${position} is not an item of cross-products of order ${order}`);
+    }
+    if (seen[position] === 1) throw new RangeError(`crossProductsOfItems: position ${position} is given twice`);
+    seen[position] = 1;
+  }
+  const size = positions.length;
+  const centered = new Float64Array(size * size);
+  const means = new Float64Array(size);
+  for (let a = 0; a < size; a++) {
+    means[a] = crossProducts.means[positions[a]];
+    const row = positions[a] * order;
+    for (let b = 0; b < size; b++) centered[a * size + b] = data[row + positions[b]];
+  }
+  return { rows: crossProducts.rows, means, centered: { order: size, data: centered } };
+}
+
+/**
  * Pearson correlation matrix from centred cross-products:
  * `r_jk = C_jk / sqrt(C_jj · C_kk)`, with exactly 1 on the diagonal and every value clamped
  * to [−1, 1] against rounding.

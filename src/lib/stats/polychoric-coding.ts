@@ -29,6 +29,12 @@ export interface OrdinalItem {
   readonly thresholds: BivariateGridMargin;
 }
 
+/** Widest range of whole-number answers coded through a lookup table (performance only). */
+const CODE_TABLE_SPAN = 1024;
+
+/** Whole-number answers from 0 to this (exclusive) are found distinct through a table (performance only). */
+const SEEN_TABLE_SIZE = 256;
+
 /**
  * Codes one item for polychoric work: its distinct observed values become categories
  * 0, 1, ..., and its thresholds come from all of its observed answers.
@@ -46,7 +52,9 @@ export function codeOrdinalItem(values: ArrayLike<number>, maxCategories: number
   }
   // The distinct values in a plain array scanned from the last one found: an ordinal item has a
   // handful, so this is faster than hashing every answer (the same categories and codes).
+  // Small whole numbers (a rating item's answers) are marked in a table instead of searched for.
   const distinct: number[] = [];
+  const seen = new Uint8Array(SEEN_TABLE_SIZE);
   let last = Number.NaN;
   for (let i = 0; i < values.length; i++) {
     const value = values[i];
@@ -54,7 +62,10 @@ export function codeOrdinalItem(values: ArrayLike<number>, maxCategories: number
     if (value === Infinity || value === -Infinity) throw new RangeError(`codeOrdinalItem: value ${i} is infinite; use NaN for a missing answer`);
     if (value !== value) continue;
     last = value;
-    if (distinct.includes(value)) continue;
+    if (value >= 0 && value < SEEN_TABLE_SIZE && (value | 0) === value) {
+      if (seen[value] === 1) continue;
+      seen[value] = 1;
+    } else if (distinct.includes(value)) continue;
     distinct.push(value === 0 ? 0 : value);
     if (distinct.length > maxCategories) {
       throw new RangeError(`codeOrdinalItem: the item has more than ${maxCategories} distinct values; polychoric correlation needs ordinal items`);
@@ -65,22 +76,42 @@ export function codeOrdinalItem(values: ArrayLike<number>, maxCategories: number
   const codes = new Uint8Array(values.length);
   const counts = new Float64Array(count);
   let observed = 0;
-  for (let i = 0; i < values.length; i++) {
-    const value = values[i];
-    if (value !== value) {
-      codes[i] = count;
-    } else {
-      // Binary search in the ascending categories; the value is one of them (−0 equals 0).
-      let low = 0;
-      let high = count - 1;
-      while (low < high) {
-        const middle = (low + high) >>> 1;
-        if (categories[middle] < value) low = middle + 1;
-        else high = middle;
+  // Whole-number answers in a short range (a rating item's 1-5, 0-10) are coded by a table
+  // indexed by the answer instead of a search: the same codes.
+  const lowest = count > 0 ? categories[0] : 0;
+  const span = count > 0 ? categories[count - 1] - lowest : 0;
+  if (count > 0 && categories.every((category) => Number.isInteger(category)) && span <= CODE_TABLE_SPAN) {
+    const codeOf = new Uint8Array(span + 1);
+    for (let c = 0; c < count; c++) codeOf[categories[c] - lowest] = c;
+    for (let i = 0; i < values.length; i++) {
+      const value = values[i];
+      if (value !== value) {
+        codes[i] = count;
+      } else {
+        const code = codeOf[value - lowest];
+        codes[i] = code;
+        counts[code]++;
+        observed++;
       }
-      codes[i] = low;
-      counts[low]++;
-      observed++;
+    }
+  } else {
+    for (let i = 0; i < values.length; i++) {
+      const value = values[i];
+      if (value !== value) {
+        codes[i] = count;
+      } else {
+        // Binary search in the ascending categories; the value is one of them (−0 equals 0).
+        let low = 0;
+        let high = count - 1;
+        while (low < high) {
+          const middle = (low + high) >>> 1;
+          if (categories[middle] < value) low = middle + 1;
+          else high = middle;
+        }
+        codes[i] = low;
+        counts[low]++;
+        observed++;
+      }
     }
   }
   const limitCount = Math.max(0, count - 1);

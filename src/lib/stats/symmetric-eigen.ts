@@ -151,7 +151,35 @@ function tridiagonalize(w: Float64Array, n: number, d: Float64Array, e: Float64A
       d[i - 1] = f - g;
       for (let j = 0; j < i; j++) e[j] = 0;
 
-      for (let j = 0; j < i; j++) {
+      // e = A·u over the stored triangle, two rows j and j + 1 per pass over k (each e[k] still
+      // gains row j's term before row j + 1's, so every sum is formed in the same order as one
+      // row at a time; only the loads of e and d are shared).
+      let j = 0;
+      for (; j + 1 < i; j += 2) {
+        const j1 = j + 1;
+        const f0 = d[j];
+        const f1 = d[j1];
+        const column0 = j * n;
+        const column1 = j1 * n;
+        w[i * n + j] = f0;
+        w[i * n + j1] = f1;
+        let g0 = e[j] + w[column0 + j] * f0;
+        const between = w[column0 + j1];
+        g0 += between * d[j1];
+        e[j1] += between * f0;
+        let g1 = e[j1] + w[column1 + j1] * f1;
+        for (let k = j1 + 1; k <= i - 1; k++) {
+          const value0 = w[column0 + k];
+          const value1 = w[column1 + k];
+          const dk = d[k];
+          g0 += value0 * dk;
+          g1 += value1 * dk;
+          e[k] = e[k] + value0 * f0 + value1 * f1;
+        }
+        e[j] = g0;
+        e[j1] = g1;
+      }
+      for (; j < i; j++) {
         f = d[j];
         const column = j * n;
         w[i * n + j] = f;
@@ -164,13 +192,36 @@ function tridiagonalize(w: Float64Array, n: number, d: Float64Array, e: Float64A
         e[j] = g;
       }
       f = 0;
-      for (let j = 0; j < i; j++) {
-        e[j] /= h;
-        f += e[j] * d[j];
+      for (let m = 0; m < i; m++) {
+        e[m] /= h;
+        f += e[m] * d[m];
       }
       const hh = f / (h + h);
-      for (let j = 0; j < i; j++) e[j] -= hh * d[j];
-      for (let j = 0; j < i; j++) {
+      for (let m = 0; m < i; m++) e[m] -= hh * d[m];
+      // The rank-two update A −= u·pᵀ + p·uᵀ, two rows per pass over k (rows are independent; d[j]
+      // and d[j + 1] are replaced only after both rows have read them, as one row at a time does).
+      j = 0;
+      for (; j + 1 < i; j += 2) {
+        const j1 = j + 1;
+        const f0 = d[j];
+        const g0 = e[j];
+        const f1 = d[j1];
+        const g1 = e[j1];
+        const column0 = j * n;
+        const column1 = j1 * n;
+        w[column0 + j] -= f0 * e[j] + g0 * d[j];
+        for (let k = j1; k <= i - 1; k++) {
+          const ek = e[k];
+          const dk = d[k];
+          w[column0 + k] -= f0 * ek + g0 * dk;
+          w[column1 + k] -= f1 * ek + g1 * dk;
+        }
+        d[j] = w[column0 + i - 1];
+        w[column0 + i] = 0;
+        d[j1] = w[column1 + i - 1];
+        w[column1 + i] = 0;
+      }
+      for (; j < i; j++) {
         f = d[j];
         g = e[j];
         const column = j * n;

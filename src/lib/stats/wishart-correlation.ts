@@ -105,7 +105,30 @@ function bartlettCrossProducts(factor: Float64Array, items: number): Float64Arra
   const cross = new Float64Array(items * items);
   for (let j = 0; j < items; j++) {
     const rowJ = j * items;
-    for (let k = j; k < items; k++) {
+    // Four partners k at a time share the loads of row j; each sum still runs over t in order.
+    let k = j;
+    for (; k + 3 < items; k += 4) {
+      const row0 = k * items;
+      const row1 = row0 + items;
+      const row2 = row1 + items;
+      const row3 = row2 + items;
+      let sum0 = 0;
+      let sum1 = 0;
+      let sum2 = 0;
+      let sum3 = 0;
+      for (let t = 0; t <= j; t++) {
+        const value = factor[rowJ + t];
+        sum0 += value * factor[row0 + t];
+        sum1 += value * factor[row1 + t];
+        sum2 += value * factor[row2 + t];
+        sum3 += value * factor[row3 + t];
+      }
+      cross[rowJ + k] = sum0;
+      cross[rowJ + k + 1] = sum1;
+      cross[rowJ + k + 2] = sum2;
+      cross[rowJ + k + 3] = sum3;
+    }
+    for (; k < items; k++) {
       const rowK = k * items;
       let sum = 0;
       for (let t = 0; t <= j; t++) sum += factor[rowJ + t] * factor[rowK + t];

@@ -1,4 +1,5 @@
 import type { ItemMatrix } from '../../stats/types';
+import { ROW_BLOCK } from './row-block';
 
 /**
  * Long-string index: for each respondent, the longest run of identical consecutive answers
@@ -12,18 +13,28 @@ import type { ItemMatrix } from '../../stats/types';
 export function longStringIndex(answers: ItemMatrix): number[] {
   const { rows, columns, data } = answers;
   const result = new Array<number>(rows).fill(0);
-  for (let i = 0; i < rows; i++) {
-    let longest = 0;
-    let run = 0;
-    let previous = Number.NaN;
+  // Rows a block at a time, items in order within each row: the same runs as one row after
+  // another, read down the column-major data instead of across it.
+  const longest = new Float64Array(ROW_BLOCK);
+  const run = new Float64Array(ROW_BLOCK);
+  const previous = new Float64Array(ROW_BLOCK);
+  for (let first = 0; first < rows; first += ROW_BLOCK) {
+    const length = Math.min(ROW_BLOCK, rows - first);
+    longest.fill(0);
+    run.fill(0);
+    previous.fill(Number.NaN);
     for (let j = 0; j < columns; j++) {
-      const value = data[j * rows + i];
-      if (Number.isNaN(value)) continue;
-      run = value === previous ? run + 1 : 1;
-      previous = value;
-      if (run > longest) longest = run;
+      const offset = j * rows + first;
+      for (let b = 0; b < length; b++) {
+        const value = data[offset + b];
+        if (Number.isNaN(value)) continue;
+        const current = value === previous[b] ? run[b] + 1 : 1;
+        run[b] = current;
+        previous[b] = value;
+        if (current > longest[b]) longest[b] = current;
+      }
     }
-    result[i] = longest;
+    for (let b = 0; b < length; b++) result[first + b] = longest[b];
   }
   return result;
 }

@@ -125,7 +125,9 @@ export function answersAsGiven(wave: Pick<BuiltWave, 'matrix' | 'items'>): ItemM
 export function screenRespondents(wave: Pick<BuiltWave, 'matrix' | 'items' | 'duration' | 'respondents'>, options: Partial<ScreeningOptions> = {}): ScreeningResult {
   const settings: ScreeningOptions = { ...DEFAULT_SCREENING_OPTIONS, ...options };
   checkOptions(settings);
-  const allAnswers = answersAsGiven(wave);
+  // Without a reverse-keyed item the answers as given are the recoded matrix itself, read only
+  // here: no copy of it is made (on a large wave it is hundreds of megabytes).
+  const allAnswers = wave.items.some((item) => item.reverse) ? answersAsGiven(wave) : wave.matrix;
   const types = wave.items.map(itemTypeOf);
   const itemTypes: Record<ItemType, number> = { rating: 0, scored: 0, dichotomous: 0 };
   for (const type of types) itemTypes[type]++;

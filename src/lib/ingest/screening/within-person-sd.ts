@@ -1,4 +1,5 @@
 import type { ItemMatrix } from '../../stats/types';
+import { ROW_BLOCK } from './row-block';
 
 /**
  * Within-person standard deviation (intra-individual response variability): for each
@@ -12,19 +13,30 @@ import type { ItemMatrix } from '../../stats/types';
 export function withinPersonSd(answers: ItemMatrix): (number | null)[] {
   const { rows, columns, data } = answers;
   const result = new Array<number | null>(rows).fill(null);
-  for (let i = 0; i < rows; i++) {
-    let count = 0;
-    let mean = 0;
-    let sumOfSquaredDeviations = 0;
+  // Rows a block at a time, items in order within each row (Welford's updates in the same order
+  // as one row after another), read down the column-major data instead of across it.
+  const count = new Float64Array(ROW_BLOCK);
+  const mean = new Float64Array(ROW_BLOCK);
+  const sumOfSquaredDeviations = new Float64Array(ROW_BLOCK);
+  for (let first = 0; first < rows; first += ROW_BLOCK) {
+    const length = Math.min(ROW_BLOCK, rows - first);
+    count.fill(0);
+    mean.fill(0);
+    sumOfSquaredDeviations.fill(0);
     for (let j = 0; j < columns; j++) {
-      const value = data[j * rows + i];
-      if (Number.isNaN(value)) continue;
-      count++;
-      const delta = value - mean;
-      mean += delta / count;
-      sumOfSquaredDeviations += delta * (value - mean);
+      const offset = j * rows + first;
+      for (let b = 0; b < length; b++) {
+        const value = data[offset + b];
+        if (Number.isNaN(value)) continue;
+        const n = count[b] + 1;
+        count[b] = n;
+        const delta = value - mean[b];
+        const updated = mean[b] + delta / n;
+        mean[b] = updated;
+        sumOfSquaredDeviations[b] += delta * (value - updated);
+      }
     }
-    if (count >= 2) result[i] = Math.sqrt(sumOfSquaredDeviations / (count - 1));
+    for (let b = 0; b < length; b++) if (count[b] >= 2) result[first + b] = Math.sqrt(sumOfSquaredDeviations[b] / (count[b] - 1));
   }
   return result;
 }
