@@ -28,7 +28,9 @@ export default defineConfig({
   adapter: node({ mode: 'standalone' }),
   // The worker threads (audits, what-if, wave reader) are bundled on their own into dist/server/
   // (src/lib/workers/worker-build.ts; docs/decisions/004-audit-jobs.md, 018-workbook-worker.md).
-  integrations: [react(), auth(), workerBuildIntegration()],
+  // React islands render in one go (renderToString), not through a stream read across turns of the
+  // event loop: a page then finishes in the turn that started it (docs/decisions/025-reader-latency.md).
+  integrations: [react({ experimentalDisableStreaming: true }), auth(), workerBuildIntegration()],
   server: { host: '127.0.0.1', port: 4321 },
   security: {
     // Cross-site requests are refused by our own origin check in src/middleware.ts (it exempts

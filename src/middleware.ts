@@ -28,6 +28,7 @@ import { hasAnyUser } from './lib/server/first-run';
 import { socketAddressSymbol } from './lib/server/node-adapter-hardening';
 import { cancelQuietly, readBodyCapped } from './lib/server/read-body';
 import { withSecurityHeaders } from './lib/server/security-headers';
+import { REQUESTS_PER_TURN, TurnAdmission } from './lib/server/turn-admission';
 import { recordSignIn, signInAllowance, signInClientAddress, signInEmailFromBody } from './lib/server/sign-in-limit';
 
 const unsafeMethods = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
@@ -44,6 +45,18 @@ const publicPages = ['/signin', '/setup', '/invite/'];
 function isAsset(pathname: string): boolean {
   return pathname.startsWith('/_astro/') || pathname === '/favicon.svg' || pathname === '/robots.txt';
 }
+
+/**
+ * Requests start a few per turn of the event loop, in arrival order (src/lib/server/turn-admission.ts).
+ * Health answers at once: it is how a supervisor sees that the server is alive.
+ */
+const requestTurns = new TurnAdmission(REQUESTS_PER_TURN);
+const takeTurns = defineMiddleware(async (context, next) => {
+  if (context.url.pathname === '/api/health' || isAsset(context.url.pathname)) return next();
+  const turn = requestTurns.admit();
+  if (turn) await turn;
+  return next();
+});
 
 const securityHeaders = defineMiddleware(async (context, next) => {
   const response = await next();
@@ -211,4 +224,4 @@ const gatePages = defineMiddleware((context, next) => {
   return next();
 });
 
-export const onRequest = sequence(securityHeaders, knownMethods, startUp, originCheck, identify, authFront, gatePages);
+export const onRequest = sequence(takeTurns, securityHeaders, knownMethods, startUp, originCheck, identify, authFront, gatePages);

@@ -15,6 +15,9 @@
  * 4. The content-security-policy hashes of the page head's inline script and style. Astro hashed
  *    the same few build-time texts with WebCrypto on every page (a thread-pool job each); the
  *    hash of a text is kept by the text (docs/decisions/025-reader-latency.md).
+ * 5. React islands rendered in one go (`experimentalDisableStreaming` in astro.config.mjs) keep
+ *    the island's id prefix, as the streaming renderer did and as the browser hydrates with
+ *    (`useId` answers the same on both sides).
  *
  * Each edit must find the text it replaces: an upgrade of astro or @astrojs/node that changes
  * it fails the build here, so the fix is never silently lost (docs/decisions/014-hardening.md).
@@ -59,6 +62,11 @@ export const nodeAdapterEdits: readonly Edit[] = [
       res.statusCode = 500;
       res.end("Internal Server Error");`,
     replace: refusedMethodAnswer,
+  },
+  {
+    file: '/@astrojs/react/dist/server.js',
+    find: 'html = ReactDOM.renderToString(vnode);',
+    replace: 'html = ReactDOM.renderToString(vnode, { identifierPrefix: prefix });',
   },
   {
     file: '/@astrojs/node/dist/serve-static.js',
