@@ -28,7 +28,7 @@ import { hasAnyUser } from './lib/server/first-run';
 import { socketAddressSymbol } from './lib/server/node-adapter-hardening';
 import { cancelQuietly, readBodyCapped } from './lib/server/read-body';
 import { withSecurityHeaders } from './lib/server/security-headers';
-import { REQUESTS_PER_TURN, TurnAdmission } from './lib/server/turn-admission';
+import { TurnAdmission } from './lib/server/turn-admission';
 import { recordSignIn, signInAllowance, signInClientAddress, signInEmailFromBody } from './lib/server/sign-in-limit';
 
 const unsafeMethods = new Set(['POST', 'PUT', 'PATCH', 'DELETE']);
@@ -50,9 +50,10 @@ function isAsset(pathname: string): boolean {
  * Requests start a few per turn of the event loop, in arrival order (src/lib/server/turn-admission.ts).
  * Health answers at once: it is how a supervisor sees that the server is alive.
  */
-const requestTurns = new TurnAdmission(REQUESTS_PER_TURN);
+let requestTurns: TurnAdmission | null = null;
 const takeTurns = defineMiddleware(async (context, next) => {
   if (context.url.pathname === '/api/health' || isAsset(context.url.pathname)) return next();
+  requestTurns ??= new TurnAdmission(getConfig().requestsPerTurn);
   const turn = requestTurns.admit();
   if (turn) await turn;
   return next();

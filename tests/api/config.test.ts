@@ -77,6 +77,17 @@ describe('parseConfig: fair audits (docs/decisions/016-fair-audits.md)', () => {
   });
 });
 
+describe('parseConfig: requests per turn (docs/decisions/025-reader-latency.md)', () => {
+  it('defaults to 4 and reads the variable when set', () => {
+    expect(parseConfig(base).requestsPerTurn).toBe(4); // README configuration table
+    expect(parseConfig({ ...base, REQUESTS_PER_TURN: '8' }).requestsPerTurn).toBe(8);
+  });
+
+  it.each([['0'], ['1001'], ['2.5'], ['many']])('refuses REQUESTS_PER_TURN=%s, naming the variable (a bad value would stop every page)', (value) => {
+    expect(() => parseConfig({ ...base, REQUESTS_PER_TURN: value })).toThrow(/^parseConfig: invalid configuration \(.*REQUESTS_PER_TURN/);
+  });
+});
+
 describe('serverReadLimits', () => {
   it('passes every configured upload limit to the reader', () => {
     const config = parseConfig({

@@ -51,6 +51,8 @@ export interface ServerConfig {
   readonly auditWorkersPerTeam: number;
   /** Seconds an audit may run in its thread before it is stopped and fails. */
   readonly auditMaxSeconds: number;
+  /** Requests the web thread starts per turn of its event loop, the others waiting in order (docs/decisions/025-reader-latency.md). */
+  readonly requestsPerTurn: number;
   readonly signIn: {
     /** Failed attempts per e-mail address within the window before 429. */
     readonly maxFailuresPerEmail: number;
@@ -62,6 +64,8 @@ export interface ServerConfig {
 
 /** Wave readers at once by default: two keeps a core for the web thread on a 2-core machine (docs/decisions/018-workbook-worker.md). */
 export const DEFAULT_UPLOAD_READERS = 2;
+/** Requests started per turn of the event loop by default: 2 lost throughput, 4 and 8 were alike, 4 kept health faster (docs/decisions/025-reader-latency.md). */
+export const DEFAULT_REQUESTS_PER_TURN = 4;
 /** Uploads and confirmations that may wait for a reader by default. */
 export const DEFAULT_UPLOAD_READER_QUEUE = 16;
 
@@ -96,6 +100,7 @@ const environmentSchema = z.object({
   AUDIT_WORKERS_PER_TEAM: z.coerce.number().int().min(1).max(64).optional(),
   // A day at most: beyond that a limit protects nothing (and setTimeout holds up to 24.8 days).
   AUDIT_MAX_SECONDS: z.coerce.number().int().min(1).max(86_400).default(600),
+  REQUESTS_PER_TURN: z.coerce.number().int().min(1).max(1000).default(DEFAULT_REQUESTS_PER_TURN),
   SIGNIN_MAX_FAILURES_PER_EMAIL: positiveInteger.default(5),
   SIGNIN_MAX_FAILURES_PER_ADDRESS: positiveInteger.default(30),
   SIGNIN_WINDOW_MINUTES: positiveInteger.default(15),
@@ -177,6 +182,7 @@ export function parseConfig(environment: NodeJS.ProcessEnv = process.env): Serve
     // More per team than in the whole pool means no per-team limit: the pool's size bounds it.
     auditWorkersPerTeam: Math.min(auditWorkers, env.AUDIT_WORKERS_PER_TEAM ?? Math.max(1, auditWorkers - 1)),
     auditMaxSeconds: env.AUDIT_MAX_SECONDS,
+    requestsPerTurn: env.REQUESTS_PER_TURN,
     signIn: {
       maxFailuresPerEmail: env.SIGNIN_MAX_FAILURES_PER_EMAIL,
       maxFailuresPerAddress: env.SIGNIN_MAX_FAILURES_PER_ADDRESS,

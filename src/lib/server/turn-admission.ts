@@ -9,9 +9,6 @@
  * served in the order they arrived: the wait is the work ahead, not the luck of a turn's edge.
  */
 
-/** Requests the web server starts per turn (measured: docs/decisions/025-reader-latency.md). */
-export const REQUESTS_PER_TURN = Number(process.env.PAREDOWN_REQUESTS_PER_TURN ?? 4);
-
 /** Starts at most `perTurn` requests per turn of the event loop. */
 export class TurnAdmission {
   private startedThisTurn = 0;
