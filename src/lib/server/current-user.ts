@@ -52,16 +52,26 @@ export const apiTokenPrefix = 'pd_';
  * @returns the user, or null when there is no such user.
  */
 export function loadUser(userId: string): CurrentUser | null {
+  return loadUserOfEpoch(userId, null);
+}
+
+/**
+ * Loads a user with their memberships, when their session epoch is the one given.
+ * @param userId the user's id.
+ * @param epoch the session epoch a session was issued under, or null to accept any.
+ * @returns the user, or null when there is no such user or the epoch has moved on.
+ */
+function loadUserOfEpoch(userId: string, epoch: unknown): CurrentUser | null {
   const db = getDb();
-  const user = userById(db).get({ userId });
-  if (!user) return null;
-  return { ...user, memberships: membershipsOf(db).all({ userId }) };
+  const row = userById(db).get({ userId });
+  if (!row || (epoch !== null && row.sessionEpoch !== epoch)) return null;
+  return { id: row.id, email: row.email, name: row.name, memberships: membershipsOf(db).all({ userId }) };
 }
 
 // Read on every request of a signed-in caller: built once (src/db/prepared-query.ts).
 const userById = preparedQuery((db) =>
   db
-    .select({ id: users.id, email: users.email, name: users.name })
+    .select({ id: users.id, email: users.email, name: users.name, sessionEpoch: users.sessionEpoch })
     .from(users)
     .where(eq(users.id, sql.placeholder('userId')))
     .prepare(),
@@ -73,13 +83,6 @@ const membershipsOf = preparedQuery((db) =>
     .innerJoin(teams, eq(teams.id, memberships.teamId))
     .where(eq(memberships.userId, sql.placeholder('userId')))
     .orderBy(teams.name)
-    .prepare(),
-);
-const sessionEpochOf = preparedQuery((db) =>
-  db
-    .select({ sessionEpoch: users.sessionEpoch })
-    .from(users)
-    .where(eq(users.id, sql.placeholder('userId')))
     .prepare(),
 );
 
@@ -128,9 +131,8 @@ export async function resolveCaller(request: Request): Promise<Resolution> {
   if (!cookie) return { user: null, via: null, problem: null };
   const jwt = await sessionClaims(request, cookie);
   if (!jwt) return { user: null, via: null, problem: null };
-  const epoch = sessionEpochOf(getDb()).get({ userId: jwt.sub });
-  if (!epoch || epoch.sessionEpoch !== jwt.epoch) return { user: null, via: null, problem: null };
-  const user = loadUser(jwt.sub);
+  // The session epoch is compared with the user's on every request: sign-out and password change end sessions at once.
+  const user = loadUserOfEpoch(jwt.sub, jwt.epoch);
   return { user, via: user ? 'session' : null, problem: null };
 }
 
