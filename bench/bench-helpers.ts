@@ -110,21 +110,39 @@ export function writeItemsCsv(path: string, matrix: ItemMatrix): void {
   }
 }
 
+/** How {@link questionnaireSpec} names and plants its items. */
+export interface QuestionnaireShape {
+  /** Items per scale (10). */
+  itemsPerScale: number;
+  /** Scales whose last item is a planted near-copy of their first (the first 4). */
+  twinnedScales: number;
+  /** Item names are `${prefix}${scale}_${item}` ('b'). */
+  prefix: string;
+  /** Item texts are `${label} scale ${scale}, statement ${item}` ('Bench'). */
+  label: string;
+}
+
 /**
- * A questionnaire for the bootstrap benchmarks: `scales` scales of ten five-point items, the last
- * item of the first four scales a planted near-copy of the scale's first, a missing-answer code
- * (9) and a few blanks; the wave's id and duration columns come with it.
+ * A questionnaire for the benchmarks: `scales` scales of five-point items (ten by default), the
+ * last item of the first scales (four by default) a planted near-copy of the scale's first, a
+ * missing-answer code (9) and a few blanks; the wave's id and duration columns come with it.
  * @param rows respondents.
- * @param scales scales of ten items.
+ * @param scales scales.
+ * @param shape items per scale, planted scales and names, when not the defaults.
  * @returns the generator's spec.
  */
-export function questionnaireSpec(rows: number, scales: number): WaveSpec {
+export function questionnaireSpec(rows: number, scales: number, shape: Partial<QuestionnaireShape> = {}): WaveSpec {
+  const { itemsPerScale = 10, twinnedScales = 4, prefix = 'b', label = 'Bench' } = shape;
   return {
     respondents: rows,
     scales: Array.from({ length: scales }, (_, s) => ({
       name: `scale_${s + 1}`,
       points: 5 as const,
-      items: Array.from({ length: 10 }, (_, q) => ({ name: `b${s + 1}_${q + 1}`, text: `Bench scale ${s + 1}, statement ${q + 1}`, ...(q === 9 && s < 4 ? { twinOf: `b${s + 1}_1` } : {}) })),
+      items: Array.from({ length: itemsPerScale }, (_, q) => ({
+        name: `${prefix}${s + 1}_${q + 1}`,
+        text: `${label} scale ${s + 1}, statement ${q + 1}`,
+        ...(q === itemsPerScale - 1 && s < twinnedScales ? { twinOf: `${prefix}${s + 1}_1` } : {}),
+      })),
     })),
     factorCorrelation: 0.3,
     loadingRange: [0.5, 0.78],

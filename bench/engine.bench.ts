@@ -19,6 +19,7 @@ import { runEngine } from '../src/lib/engine/run-engine';
 import { engineInputFromSyntheticWave } from '../src/lib/evaluation/synthetic-wave-input';
 import { generateWave } from '../src/lib/synth/generate-wave';
 import type { WaveSpec } from '../src/lib/synth/types';
+import { questionnaireSpec } from './bench-helpers';
 
 const PLANTED_WAVES = 60;
 const CLEAN_WAVES = 60;
@@ -29,34 +30,7 @@ function milliseconds(start: bigint): number {
 
 /** A 400 × 40 wave: 5 scales of 8 five-point items, two planted twins, a little missing data. */
 function timingSpec(): WaveSpec {
-  const scales = Array.from({ length: 5 }, (_, s) => ({
-    name: `scale_${s + 1}`,
-    points: 5 as const,
-    items: Array.from({ length: 8 }, (_, q) => ({
-      name: `t${s + 1}_${q + 1}`,
-      text: `Timing scale ${s + 1}, statement ${q + 1}`,
-      ...(q === 7 && s < 2 ? { twinOf: `t${s + 1}_1` } : {}),
-    })),
-  }));
-  return {
-    respondents: 400,
-    scales,
-    factorCorrelation: 0.3,
-    loadingRange: [0.5, 0.78],
-    twinNoise: 0.18,
-    skew: 0.3,
-    missingCodes: [{ code: 9, label: 'prefer not to say', rate: 0.01 }],
-    blankRate: 0.005,
-    constantItems: [],
-    duplicateColumns: [],
-    straightliners: 0,
-    speeders: 0,
-    medianDurationSeconds: 300,
-    idColumn: 'respondent_id',
-    durationColumn: 'duration_sec',
-    firstRespondentId: 1,
-    outcome: null,
-  };
+  return questionnaireSpec(400, 5, { itemsPerScale: 8, twinnedScales: 2, prefix: 't', label: 'Timing' });
 }
 
 async function timeBootstrap(label: string, missingFree: boolean): Promise<{ label: string; evidenceMs: number; engineMs: number; bootstrapMs: number; recommendations: number }> {
