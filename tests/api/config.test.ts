@@ -6,6 +6,7 @@
  */
 import { availableParallelism } from 'node:os';
 import { describe, expect, it } from 'vitest';
+import { MAX_RESAMPLE_THREADS } from '../../src/lib/audit/resample-threads';
 import { DEFAULT_READ_LIMITS } from '../../src/lib/ingest/read-limits';
 import { parseConfig } from '../../src/lib/server/config';
 import { serverReadLimits } from '../../src/lib/server/waves/read-wave-files';
@@ -85,6 +86,18 @@ describe('parseConfig: requests per turn (docs/decisions/025-reader-latency.md)'
 
   it.each([['0'], ['1001'], ['2.5'], ['many']])('refuses REQUESTS_PER_TURN=%s, naming the variable (a bad value would stop every page)', (value) => {
     expect(() => parseConfig({ ...base, REQUESTS_PER_TURN: value })).toThrow(/^parseConfig: invalid configuration \(.*REQUESTS_PER_TURN/);
+  });
+});
+
+describe('parseConfig: resample threads (docs/decisions/021, addendum)', () => {
+  it('defaults to the machine\'s cores up to MAX_RESAMPLE_THREADS and reads the variable when set', () => {
+    expect(parseConfig(base).resampleThreads).toBe(Math.min(MAX_RESAMPLE_THREADS, availableParallelism())); // README configuration table
+    expect(parseConfig({ ...base, RESAMPLE_THREADS: '0' }).resampleThreads).toBe(0);
+    expect(parseConfig({ ...base, RESAMPLE_THREADS: '1' }).resampleThreads).toBe(1);
+  });
+
+  it.each([['-1'], [String(MAX_RESAMPLE_THREADS + 1)], ['1.5'], ['all']])('refuses RESAMPLE_THREADS=%s, naming the variable', (value) => {
+    expect(() => parseConfig({ ...base, RESAMPLE_THREADS: value })).toThrow(/^parseConfig: invalid configuration \(.*RESAMPLE_THREADS/);
   });
 });
 

@@ -79,6 +79,19 @@ describe('AuditWorkerPool with source workers', () => {
     for (const key of ['loadingMs', 'evidenceMs', 'structureMs', 'engineMs', 'outcomeMs', 'savingMs', 'runMs']) expect(result!.timings[key], key).toBeGreaterThanOrEqual(0);
   });
 
+  it('decides the bootstrap on resample threads started inside the audit thread, with exactly the text of one thread', async () => {
+    // RESAMPLE_THREADS: the worker's audit hands its resamples to two threads of its own; the counts are sums, so the text is the same.
+    const withThreads: AuditWorkerJob = { ...job('threads', { bootstrap: 12, seed: 5 }), resampleThreads: 2 };
+    const result = await pool(1).run({ prepare: () => withThreads, onStart: () => {}, onProgress: () => {} });
+    const local = await executeAuditJob(job('threads', { bootstrap: 12, seed: 5 }), () => {});
+    expect(result).not.toBeNull();
+    expect(result!.resultText).toBe(local.resultText);
+    const audit = JSON.parse(result!.resultText) as { recommendations: { stability: number | null }[] };
+    // The demo wave has recommendations, so the resamples really ran (tests/unit/execute-audit-job-threads.test.ts checks the threads are asked for).
+    expect(audit.recommendations.length).toBeGreaterThan(0);
+    expect(audit.recommendations.every((entry) => typeof entry.stability === 'number')).toBe(true);
+  });
+
   it('runs no more jobs at once than its size, first in first out', async () => {
     const starts: { name: string; busy: number; lastStageOfPrevious: string | null }[] = [];
     const lastStage = new Map<string, string>();

@@ -8,6 +8,7 @@ import { randomBytes } from 'node:crypto';
 import { availableParallelism } from 'node:os';
 import { z } from 'zod';
 import { DEFAULT_READ_LIMITS } from '../ingest/read-limits';
+import { MAX_RESAMPLE_THREADS } from '../audit/resample-threads';
 
 /** How outgoing e-mail leaves the server. */
 export type MailTransportKind = 'outbox' | 'smtp';
@@ -53,6 +54,11 @@ export interface ServerConfig {
   readonly auditMaxSeconds: number;
   /** Requests the web thread starts per turn of its event loop, the others waiting in order (docs/decisions/025-reader-latency.md). */
   readonly requestsPerTurn: number;
+  /**
+   * Threads that decide one audit's bootstrap resamples (0 to MAX_RESAMPLE_THREADS): 0 keeps them
+   * on the audit's own thread. The audit's thread waits meanwhile. docs/decisions/021, addendum.
+   */
+  readonly resampleThreads: number;
   readonly signIn: {
     /** Failed attempts per e-mail address within the window before 429. */
     readonly maxFailuresPerEmail: number;
@@ -101,6 +107,7 @@ const environmentSchema = z.object({
   // A day at most: beyond that a limit protects nothing (and setTimeout holds up to 24.8 days).
   AUDIT_MAX_SECONDS: z.coerce.number().int().min(1).max(86_400).default(600),
   REQUESTS_PER_TURN: z.coerce.number().int().min(1).max(1000).default(DEFAULT_REQUESTS_PER_TURN),
+  RESAMPLE_THREADS: z.coerce.number().int().min(0).max(MAX_RESAMPLE_THREADS).optional(),
   SIGNIN_MAX_FAILURES_PER_EMAIL: positiveInteger.default(5),
   SIGNIN_MAX_FAILURES_PER_ADDRESS: positiveInteger.default(30),
   SIGNIN_WINDOW_MINUTES: positiveInteger.default(15),
@@ -183,6 +190,7 @@ export function parseConfig(environment: NodeJS.ProcessEnv = process.env): Serve
     auditWorkersPerTeam: Math.min(auditWorkers, env.AUDIT_WORKERS_PER_TEAM ?? Math.max(1, auditWorkers - 1)),
     auditMaxSeconds: env.AUDIT_MAX_SECONDS,
     requestsPerTurn: env.REQUESTS_PER_TURN,
+    resampleThreads: env.RESAMPLE_THREADS ?? Math.min(MAX_RESAMPLE_THREADS, availableParallelism()),
     signIn: {
       maxFailuresPerEmail: env.SIGNIN_MAX_FAILURES_PER_EMAIL,
       maxFailuresPerAddress: env.SIGNIN_MAX_FAILURES_PER_ADDRESS,

@@ -6,6 +6,8 @@
  * smaller bootstrap than the default so that a fresh start stays quick, and stores it as done.
  * Self-contained: it needs only the seeded study and wave rows.
  */
+import { availableParallelism } from 'node:os';
+import { MAX_RESAMPLE_THREADS } from '../audit/resample-threads';
 import { eq } from 'drizzle-orm';
 import { audits, studies, users, waves } from '../../db/schema';
 import type { Db } from '../../db/client';
@@ -39,6 +41,8 @@ export async function seedDemoAudit(db: Db, ids: { study: string; wave: string; 
       jobId: DEMO_AUDIT_ID,
       wave: storedWaveForJob(db, wave, wave.matrix, null),
       settings,
+      // The seed runs before the server reads its configuration: as many threads as the server's default.
+      resampleThreads: Math.min(MAX_RESAMPLE_THREADS, availableParallelism()),
     },
     () => {},
   );

@@ -404,7 +404,7 @@ export class AuditJobs {
     if (auditSettingsHash(settings, wave.exclusions) !== audit.settingsHash) {
       throw new AuditJobFailure("The wave's excluded respondents changed after this audit was queued; start the audit again.");
     }
-    return { jobId: auditId, wave: storedWaveForJob(this.db, wave, wave.matrix, settings.outcome), settings };
+    return { jobId: auditId, wave: storedWaveForJob(this.db, wave, wave.matrix, settings.outcome), settings, resampleThreads: getConfig().resampleThreads };
   }
 }
 

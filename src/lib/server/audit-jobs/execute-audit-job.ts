@@ -5,6 +5,7 @@
  * so the main thread alone writes the audits table.
  */
 import type { AuditJson } from '../../audit/audit-json';
+import { createResampleThreadRunner } from '../../audit/resample-threads';
 import { runAudit } from '../../audit/run-audit';
 import { auditInputFromJobWave } from './job-input';
 import type { AuditWorkerJob, StageTimings } from './worker-protocol';
@@ -105,6 +106,8 @@ export async function executeAuditJob(job: AuditWorkerJob, onProgress: JobProgre
       onProgress(runStage, LOADING_SHARE + RUN_SHARE * fraction);
     },
     signal,
+    // Threads only when there are resamples to decide; each audit gets its own, ended with it.
+    (job.resampleThreads ?? 0) > 0 && settings.bootstrap > 0 ? createResampleThreadRunner(job.resampleThreads as number) : undefined,
   );
 
   enter('saving');

@@ -42,6 +42,8 @@ export interface AuditWorkerJob {
     readonly setup: AuditSetup;
   };
   readonly settings: ResolvedAuditSettings;
+  /** Threads that decide the bootstrap's resamples (the configuration's RESAMPLE_THREADS); 0 or absent: the audit's own thread. */
+  readonly resampleThreads?: number;
 }
 
 /** Milliseconds spent in each stage of one audit. */
