@@ -1,7 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { accumulateCenteredProducts } from '../../src/lib/stats/centered-products-kernel';
 import { createSeededRandom } from '../../src/lib/stats/seeded-random';
-// @ts-expect-error -- a plain .mjs script without type declarations
 import { crossProductsWasmBytes } from '../../scripts/make-cross-products-wasm.mjs';
 
 /** Column-major random values on different scales and signs, so that every rounding shows. */
@@ -122,7 +121,7 @@ describe('accumulateCenteredProducts', () => {
     const literal = /Uint8Array\.of\(([\d,\s]+)\)/.exec(source);
     expect(literal).not.toBeNull();
     const embedded = (literal?.[1] ?? '').split(',').map((text) => text.trim()).filter((text) => text !== '').map(Number);
-    expect(embedded).toEqual(Array.from(crossProductsWasmBytes() as Uint8Array));
+    expect(embedded).toEqual(Array.from(crossProductsWasmBytes()));
     expect(WebAssembly.validate(Uint8Array.from(embedded))).toBe(true);
   });
 });
