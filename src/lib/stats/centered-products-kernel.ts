@@ -1,22 +1,28 @@
 /**
- * The inner loop of the centred cross-products, shared by the single-threaded path and the
- * worker threads.
+ * The inner loop of the centred cross-products, shared by the complete-data path
+ * (cross-products.ts), the masked pairwise path (masked-cross-products.ts) and the worker-thread
+ * benchmark (bench/parallel/cross-products-worker.ts).
  *
  * SELF-CONTAINED ON PURPOSE: this function must not refer to anything outside its own body
- * (no imports, no module constants, no helper functions). The worker thread is started from
- * its source text (`accumulateCenteredProducts.toString()`), which is the one way that works
- * alike under tsx, under Vitest and from Astro's bundled server (the bundle does not carry a
- * separate worker file; see cross-products-worker.ts).
+ * (no imports, no module constants, no helper functions). The benchmark's worker thread is
+ * started from its source text (`accumulateCenteredProducts.toString()`); the WebAssembly
+ * bytes below are therefore a literal inside the function.
  *
  * Speed comes from two kinds of blocking:
  * - row tiling: `blockRows` respondents at a time are copied, centred, into a small scratch
- *   buffer (column-major, about 1 MB for 300 items), which stays in the L2 cache while every
- *   pair of items is accumulated over it;
- * - register blocking: each pass of the innermost loop reads 3 + 4 item values and updates
- *   12 running sums (a 3 × 4 tile of item pairs), so each value loaded feeds several products.
- * The order is padded to a multiple of 4 with zero columns; the last strip of a tile row may hold
- * one or two items. Every pair's sum runs over the respondents of a tile in order and is then
- * added to its total, whatever the tile shape, so the sums do not depend on it.
+ *   buffer (row-major, `padded` values per respondent, about 1.2 MB for 300 items), which stays
+ *   in the L2 cache while every pair of items is accumulated over it;
+ * - register blocking in WebAssembly SIMD: for each 4 × 4 tile of item pairs, each pass of the
+ *   innermost loop reads one respondent's 4 + 4 values and updates 16 running sums held in 8
+ *   two-lane (f64x2) registers. Every lane is an ordinary double sum, multiplied and added with
+ *   IEEE-754 operations one at a time (no fused multiply-add), so nothing is reassociated.
+ * The order is padded to a multiple of 4 with zero columns. Every pair's sum starts from 0 for a
+ * tile of respondents, runs over them in order and is then added to the pair's total, tile after
+ * tile, whatever the shape of the register tile: the results are bit for bit those of the plain
+ * loop in the unit test (tests/unit/centered-products-kernel.test.ts), and of the JavaScript
+ * 3 × 4 kernel this replaced (docs/decisions/020-speed-whole-audit.md, "Addendum: kernel").
+ * The WebAssembly function is assembled from a readable listing by
+ * scripts/make-cross-products-wasm.mjs (the test checks that the bytes here are its output).
  *
  * @param data Column-major values (item j of respondent i at `j * rows + i`), all finite.
  * @param rows Respondents in `data` (the column stride).
@@ -27,9 +33,12 @@
  * @param sums Row-major `columns × columns` array; the centred products over the rows are ADDED
  *   into its upper triangle (j <= k). The lower triangle is left untouched.
  * @param blockRows Respondents per tile (performance only; 512 suits a 2 MB L2 cache).
+ * @throws {RangeError} when the scratch memory (`blockRows` respondents and a padded
+ *   `columns × columns` array of doubles) would exceed the 4 GiB a WebAssembly memory can hold.
  * References: Golub & Van Loan 2013, "Matrix Computations", 4th ed., §1.5 (blocking for the
  * memory hierarchy); Chan, Golub & LeVeque 1983, "Algorithms for computing the sample
- * variance: analysis and recommendations" (centring before squaring).
+ * variance: analysis and recommendations" (centring before squaring); WebAssembly Core
+ * Specification 2.0 (2022) (f64x2 arithmetic is IEEE-754 per lane).
  */
 export function accumulateCenteredProducts(
   data: Float64Array,
@@ -41,86 +50,51 @@ export function accumulateCenteredProducts(
   sums: Float64Array,
   blockRows: number,
 ): void {
+  // The tile function of scripts/make-cross-products-wasm.mjs:
+  // tile(blockByteOffset, respondents, padded, tilesByteOffset), importing env.memory.
+  const wasm = Uint8Array.of(
+    0, 97, 115, 109, 1, 0, 0, 0, 1, 8, 1, 96, 4, 127, 127, 127, 127, 0, 2, 15, 1, 3, 101, 110, 118, 6, 109, 101, 109, 111, 114, 121,
+    2, 0, 1, 3, 2, 1, 0, 7, 8, 1, 4, 116, 105, 108, 101, 0, 0, 10, 216, 4, 1, 213, 4, 2, 7, 127, 11, 123, 32, 2, 65, 3,
+    116, 33, 4, 3, 64, 32, 5, 33, 6, 3, 64, 253, 12, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 33, 11, 253,
+    12, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 33, 12, 253, 12, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0,
+    0, 0, 0, 0, 0, 33, 13, 253, 12, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 33, 14, 253, 12, 0, 0, 0,
+    0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 33, 15, 253, 12, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0,
+    0, 33, 16, 253, 12, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 0, 33, 17, 253, 12, 0, 0, 0, 0, 0, 0, 0,
+    0, 0, 0, 0, 0, 0, 0, 0, 0, 33, 18, 32, 0, 32, 5, 65, 3, 116, 106, 33, 7, 32, 0, 32, 6, 65, 3, 116, 106, 34, 8, 32,
+    1, 32, 4, 108, 106, 33, 9, 3, 64, 32, 8, 253, 0, 3, 0, 33, 19, 32, 8, 253, 0, 3, 16, 33, 20, 32, 7, 253, 10, 3, 0, 33,
+    21, 32, 11, 32, 21, 32, 19, 253, 242, 1, 253, 240, 1, 33, 11, 32, 12, 32, 21, 32, 20, 253, 242, 1, 253, 240, 1, 33, 12, 32, 7, 253,
+    10, 3, 8, 33, 21, 32, 13, 32, 21, 32, 19, 253, 242, 1, 253, 240, 1, 33, 13, 32, 14, 32, 21, 32, 20, 253, 242, 1, 253, 240, 1, 33,
+    14, 32, 7, 253, 10, 3, 16, 33, 21, 32, 15, 32, 21, 32, 19, 253, 242, 1, 253, 240, 1, 33, 15, 32, 16, 32, 21, 32, 20, 253, 242, 1,
+    253, 240, 1, 33, 16, 32, 7, 253, 10, 3, 24, 33, 21, 32, 17, 32, 21, 32, 19, 253, 242, 1, 253, 240, 1, 33, 17, 32, 18, 32, 21, 32,
+    20, 253, 242, 1, 253, 240, 1, 33, 18, 32, 7, 32, 4, 106, 33, 7, 32, 8, 32, 4, 106, 34, 8, 32, 9, 73, 13, 0, 11, 32, 3, 32,
+    5, 32, 2, 108, 32, 6, 106, 65, 3, 116, 106, 33, 10, 32, 10, 32, 10, 253, 0, 3, 0, 32, 11, 253, 240, 1, 253, 11, 3, 0, 32, 10,
+    32, 10, 253, 0, 3, 16, 32, 12, 253, 240, 1, 253, 11, 3, 16, 32, 10, 32, 4, 106, 33, 10, 32, 10, 32, 10, 253, 0, 3, 0, 32, 13,
+    253, 240, 1, 253, 11, 3, 0, 32, 10, 32, 10, 253, 0, 3, 16, 32, 14, 253, 240, 1, 253, 11, 3, 16, 32, 10, 32, 4, 106, 33, 10, 32,
+    10, 32, 10, 253, 0, 3, 0, 32, 15, 253, 240, 1, 253, 11, 3, 0, 32, 10, 32, 10, 253, 0, 3, 16, 32, 16, 253, 240, 1, 253, 11, 3,
+    16, 32, 10, 32, 4, 106, 33, 10, 32, 10, 32, 10, 253, 0, 3, 0, 32, 17, 253, 240, 1, 253, 11, 3, 0, 32, 10, 32, 10, 253, 0, 3,
+    16, 32, 18, 253, 240, 1, 253, 11, 3, 16, 32, 10, 32, 4, 106, 33, 10, 32, 6, 65, 4, 106, 34, 6, 32, 2, 73, 13, 0, 11, 32, 5,
+    65, 4, 106, 34, 5, 32, 2, 73, 13, 0, 11, 11,
+  );
   const padded = Math.ceil(columns / 4) * 4;
-  const block = new Float64Array(padded * blockRows);
-  const tiles = new Float64Array(padded * padded);
+  const blockBytes = padded * blockRows * 8;
+  const pages = Math.ceil((blockBytes + padded * padded * 8) / 65536);
+  if (pages > 65536) {
+    throw new RangeError(`accumulateCenteredProducts: ${columns} items and ${blockRows} respondents per tile need more than the 4 GiB of a WebAssembly memory`);
+  }
+  const memory = new WebAssembly.Memory({ initial: pages });
+  const instance = new WebAssembly.Instance(new WebAssembly.Module(wasm), { env: { memory } });
+  const tile = instance.exports.tile as (block: number, respondents: number, padded: number, tiles: number) => void;
+  // Fresh memory is zeroed: the padding columns stay 0 and the tile sums start at 0.
+  const block = new Float64Array(memory.buffer, 0, padded * blockRows);
+  const tiles = new Float64Array(memory.buffer, blockBytes, padded * padded);
   for (let first = rowStart; first < rowEnd; first += blockRows) {
     const length = Math.min(blockRows, rowEnd - first);
     for (let j = 0; j < columns; j++) {
       const source = j * rows + first;
-      const target = j * blockRows;
       const mean = means[j];
-      for (let i = 0; i < length; i++) block[target + i] = data[source + i] - mean;
+      for (let i = 0; i < length; i++) block[i * padded + j] = data[source + i] - mean;
     }
-    for (let j = 0; j < padded; j += 3) {
-      const a0 = j * blockRows;
-      const a1 = a0 + blockRows;
-      const a2 = a1 + blockRows;
-      const strip = Math.min(3, padded - j);
-      for (let k = j - (j % 4); k < padded; k += 4) {
-        const b0 = k * blockRows;
-        const b1 = b0 + blockRows;
-        const b2 = b1 + blockRows;
-        const b3 = b2 + blockRows;
-        const t0 = j * padded + k;
-        const t1 = t0 + padded;
-        const t2 = t1 + padded;
-        if (strip === 3) {
-          let s00 = 0, s01 = 0, s02 = 0, s03 = 0, s10 = 0, s11 = 0, s12 = 0, s13 = 0, s20 = 0, s21 = 0, s22 = 0, s23 = 0;
-          for (let i = 0; i < length; i++) {
-            const y0 = block[b0 + i];
-            const y1 = block[b1 + i];
-            const y2 = block[b2 + i];
-            const y3 = block[b3 + i];
-            const x0 = block[a0 + i];
-            s00 += x0 * y0;
-            s01 += x0 * y1;
-            s02 += x0 * y2;
-            s03 += x0 * y3;
-            const x1 = block[a1 + i];
-            s10 += x1 * y0;
-            s11 += x1 * y1;
-            s12 += x1 * y2;
-            s13 += x1 * y3;
-            const x2 = block[a2 + i];
-            s20 += x2 * y0;
-            s21 += x2 * y1;
-            s22 += x2 * y2;
-            s23 += x2 * y3;
-          }
-          tiles[t0] += s00;
-          tiles[t0 + 1] += s01;
-          tiles[t0 + 2] += s02;
-          tiles[t0 + 3] += s03;
-          tiles[t1] += s10;
-          tiles[t1 + 1] += s11;
-          tiles[t1 + 2] += s12;
-          tiles[t1 + 3] += s13;
-          tiles[t2] += s20;
-          tiles[t2 + 1] += s21;
-          tiles[t2 + 2] += s22;
-          tiles[t2 + 3] += s23;
-        } else {
-          // The last strip of one or two items (the padded order is a multiple of 4, not of 3).
-          for (let r = 0; r < strip; r++) {
-            const a = a0 + r * blockRows;
-            let s0 = 0, s1 = 0, s2 = 0, s3 = 0;
-            for (let i = 0; i < length; i++) {
-              const x = block[a + i];
-              s0 += x * block[b0 + i];
-              s1 += x * block[b1 + i];
-              s2 += x * block[b2 + i];
-              s3 += x * block[b3 + i];
-            }
-            const t = t0 + r * padded;
-            tiles[t] += s0;
-            tiles[t + 1] += s1;
-            tiles[t + 2] += s2;
-            tiles[t + 3] += s3;
-          }
-        }
-      }
-    }
+    tile(0, length, padded, blockBytes);
   }
   for (let j = 0; j < columns; j++) {
     for (let k = j; k < columns; k++) sums[j * columns + k] += tiles[j * padded + k];

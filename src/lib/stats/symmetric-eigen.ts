@@ -50,7 +50,7 @@ export function symmetricEigen(matrix: SquareMatrix): SymmetricEigenDecompositio
   const w = transposeCopy(matrix);
   const d = new Float64Array(n);
   const e = new Float64Array(n);
-  tridiagonalize(w, n, d, e, true);
+  tridiagonalize(w, n, d, e);
   tridiagonalQl(d, e, n, w, 'symmetricEigen');
 
   const order = descendingOrder(d);
@@ -90,7 +90,7 @@ export function symmetricEigenvalues(matrix: SquareMatrix): Float64Array {
   const w = transposeCopy(matrix);
   const d = new Float64Array(n);
   const e = new Float64Array(n);
-  tridiagonalize(w, n, d, e, false);
+  tridiagonalizeValuesOnly(w, n, d, e);
   tridiagonalQl(d, e, n, null, 'symmetricEigenvalues');
   return d.sort().reverse();
 }
@@ -121,10 +121,9 @@ function hypotenuse(a: number, b: number): number {
 
 /**
  * EISPACK tred2 with V stored transposed: `w[b * n + a]` is V[a][b] of the listing. On return
- * d holds the diagonal and e the subdiagonal (e[0] = 0); with `accumulate`, w holds Qᵀ.
- * Without it, only d and e are meaningful.
+ * d holds the diagonal and e the subdiagonal (e[0] = 0), and w holds Qᵀ.
  */
-function tridiagonalize(w: Float64Array, n: number, d: Float64Array, e: Float64Array, accumulate: boolean): void {
+function tridiagonalize(w: Float64Array, n: number, d: Float64Array, e: Float64Array): void {
   for (let j = 0; j < n; j++) d[j] = w[j * n + n - 1];
 
   for (let i = n - 1; i > 0; i--) {
@@ -233,13 +232,6 @@ function tridiagonalize(w: Float64Array, n: number, d: Float64Array, e: Float64A
     d[i] = h;
   }
 
-  if (!accumulate) {
-    // The reduction leaves the tridiagonal's diagonal on the diagonal of w (tred1's result).
-    for (let j = 0; j < n; j++) d[j] = w[j * n + j];
-    e[0] = 0;
-    return;
-  }
-
   for (let i = 0; i < n - 1; i++) {
     w[i * n + n - 1] = w[i * n + i];
     w[i * n + i] = 1;
@@ -261,6 +253,178 @@ function tridiagonalize(w: Float64Array, n: number, d: Float64Array, e: Float64A
     w[j * n + n - 1] = 0;
   }
   w[(n - 1) * n + n - 1] = 1;
+  e[0] = 0;
+}
+
+/**
+ * The reduction of `tridiagonalize` without the transformation (EISPACK tred1): on return d holds
+ * the diagonal and e the subdiagonal (e[0] = 0); w is overwritten. Four rows j .. j + 3 share each
+ * pass over k (the loads of d and e, and of e's stores) where `tridiagonalize` takes two, and every
+ * sum is still formed in the order of one row at a time: row j's terms reach e[k] before row
+ * j + 1's, each g runs over k in increasing order, and the corner of the four rows (k < j + 4) is
+ * written out so that e[j + 1] .. e[j + 3] have their earlier rows' terms before they start a sum.
+ * So d and e are bit for bit those of `tridiagonalize` (checked against symmetricEigen's values in
+ * tests/unit/symmetric-eigen.test.ts); only the speed differs (docs/decisions/020-speed-whole-audit.md,
+ * "Addendum: kernel").
+ */
+function tridiagonalizeValuesOnly(w: Float64Array, n: number, d: Float64Array, e: Float64Array): void {
+  for (let j = 0; j < n; j++) d[j] = w[j * n + n - 1];
+  for (let i = n - 1; i > 0; i--) {
+    let scale = 0;
+    let h = 0;
+    for (let k = 0; k < i; k++) scale += Math.abs(d[k]);
+    if (scale === 0) {
+      e[i] = d[i - 1];
+      for (let j = 0; j < i; j++) {
+        d[j] = w[j * n + i - 1];
+        w[j * n + i] = 0;
+        w[i * n + j] = 0;
+      }
+    } else {
+      for (let k = 0; k < i; k++) {
+        d[k] /= scale;
+        h += d[k] * d[k];
+      }
+      let f = d[i - 1];
+      let g = Math.sqrt(h);
+      if (f > 0) g = -g;
+      e[i] = scale * g;
+      h -= f * g;
+      d[i - 1] = f - g;
+      for (let j = 0; j < i; j++) e[j] = 0;
+      // e = A·u over the stored triangle, four rows j .. j + 3 per pass over k.
+      let j = 0;
+      for (; j + 3 < i; j += 4) {
+        const j1 = j + 1;
+        const j2 = j + 2;
+        const j3 = j + 3;
+        const f0 = d[j];
+        const f1 = d[j1];
+        const f2 = d[j2];
+        const f3 = d[j3];
+        const column0 = j * n;
+        const column1 = j1 * n;
+        const column2 = j2 * n;
+        const column3 = j3 * n;
+        w[i * n + j] = f0;
+        w[i * n + j1] = f1;
+        w[i * n + j2] = f2;
+        w[i * n + j3] = f3;
+        // The corner k < j + 4, one row after the other.
+        let g0 = e[j] + w[column0 + j] * f0;
+        let value = w[column0 + j1];
+        g0 += value * d[j1];
+        e[j1] += value * f0;
+        value = w[column0 + j2];
+        g0 += value * d[j2];
+        e[j2] += value * f0;
+        value = w[column0 + j3];
+        g0 += value * d[j3];
+        e[j3] += value * f0;
+        let g1 = e[j1] + w[column1 + j1] * f1;
+        value = w[column1 + j2];
+        g1 += value * d[j2];
+        e[j2] += value * f1;
+        value = w[column1 + j3];
+        g1 += value * d[j3];
+        e[j3] += value * f1;
+        let g2 = e[j2] + w[column2 + j2] * f2;
+        value = w[column2 + j3];
+        g2 += value * d[j3];
+        e[j3] += value * f2;
+        let g3 = e[j3] + w[column3 + j3] * f3;
+        for (let k = j3 + 1; k < i; k++) {
+          const dk = d[k];
+          const value0 = w[column0 + k];
+          const value1 = w[column1 + k];
+          const value2 = w[column2 + k];
+          const value3 = w[column3 + k];
+          g0 += value0 * dk;
+          g1 += value1 * dk;
+          g2 += value2 * dk;
+          g3 += value3 * dk;
+          e[k] = e[k] + value0 * f0 + value1 * f1 + value2 * f2 + value3 * f3;
+        }
+        e[j] = g0;
+        e[j1] = g1;
+        e[j2] = g2;
+        e[j3] = g3;
+      }
+      for (; j < i; j++) {
+        f = d[j];
+        const column = j * n;
+        w[i * n + j] = f;
+        g = e[j] + w[column + j] * f;
+        for (let k = j + 1; k <= i - 1; k++) {
+          const value = w[column + k];
+          g += value * d[k];
+          e[k] += value * f;
+        }
+        e[j] = g;
+      }
+      f = 0;
+      for (let m = 0; m < i; m++) {
+        e[m] /= h;
+        f += e[m] * d[m];
+      }
+      const hh = f / (h + h);
+      for (let m = 0; m < i; m++) e[m] -= hh * d[m];
+      // The rank-two update A −= u·pᵀ + p·uᵀ, four rows per pass over k (rows are independent; d[j]
+      // .. d[j + 3] are replaced only after all four rows have read them).
+      j = 0;
+      for (; j + 3 < i; j += 4) {
+        const j1 = j + 1;
+        const j2 = j + 2;
+        const j3 = j + 3;
+        const f0 = d[j];
+        const f1 = d[j1];
+        const f2 = d[j2];
+        const f3 = d[j3];
+        const g0 = e[j];
+        const g1 = e[j1];
+        const g2 = e[j2];
+        const g3 = e[j3];
+        const column0 = j * n;
+        const column1 = j1 * n;
+        const column2 = j2 * n;
+        const column3 = j3 * n;
+        // The corner k < j + 3 (row j + r starts at k = j + r).
+        w[column0 + j] -= f0 * e[j] + g0 * d[j];
+        w[column0 + j1] -= f0 * e[j1] + g0 * d[j1];
+        w[column1 + j1] -= f1 * e[j1] + g1 * d[j1];
+        w[column0 + j2] -= f0 * e[j2] + g0 * d[j2];
+        w[column1 + j2] -= f1 * e[j2] + g1 * d[j2];
+        w[column2 + j2] -= f2 * e[j2] + g2 * d[j2];
+        for (let k = j3; k < i; k++) {
+          const ek = e[k];
+          const dk = d[k];
+          w[column0 + k] -= f0 * ek + g0 * dk;
+          w[column1 + k] -= f1 * ek + g1 * dk;
+          w[column2 + k] -= f2 * ek + g2 * dk;
+          w[column3 + k] -= f3 * ek + g3 * dk;
+        }
+        d[j] = w[column0 + i - 1];
+        w[column0 + i] = 0;
+        d[j1] = w[column1 + i - 1];
+        w[column1 + i] = 0;
+        d[j2] = w[column2 + i - 1];
+        w[column2 + i] = 0;
+        d[j3] = w[column3 + i - 1];
+        w[column3 + i] = 0;
+      }
+      for (; j < i; j++) {
+        f = d[j];
+        g = e[j];
+        const column = j * n;
+        for (let k = j; k <= i - 1; k++) w[column + k] -= f * e[k] + g * d[k];
+        d[j] = w[column + i - 1];
+        w[column + i] = 0;
+      }
+    }
+    d[i] = h;
+  }
+  // The reduction leaves the tridiagonal's diagonal on the diagonal of w (tred1's result).
+  for (let j = 0; j < n; j++) d[j] = w[j * n + j];
   e[0] = 0;
 }
 
