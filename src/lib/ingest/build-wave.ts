@@ -7,8 +7,8 @@ import type { ItemMatrix } from '../stats/types';
 import { MIN_RESPONDENTS_FOR_AUDIT } from './ingest-thresholds';
 import { parseDuration } from './parse-duration';
 import { parseNumber } from './parse-number';
-import { recodeItem } from './recode-item';
-import { tableColumn } from './table-columns';
+import { recodeCodedItem } from './recode-item';
+import { tableColumn, tableColumnCodes } from './table-columns';
 import type { BuiltWave, ColumnSetup, ItemCounts, WaveItem, WaveOutcome, WaveTable, WaveWarning } from './types';
 import type { CheckedSetup } from './validate-setup';
 import { WaveRefusal } from './wave-refusal';
@@ -217,7 +217,7 @@ export function buildWave(table: WaveTable, setup: CheckedSetup, exclusions: rea
   const items: WaveItem[] = itemColumns.map((j, k) => {
     const header = table.headers[j];
     const item = (setupOf.get(header) as ColumnSetup).item!;
-    const read = recodeItem(column(j), item, decimalSeparator);
+    const read = recodeCodedItem(tableColumnCodes(table, j), item, decimalSeparator);
     rawData.set(read.raw, k * n);
     recodedData.set(read.recoded, k * n);
     return {
@@ -268,7 +268,7 @@ export function buildWave(table: WaveTable, setup: CheckedSetup, exclusions: rea
       }
     } else if (entry.role === 'outcome') {
       if (entry.item) {
-        const read = recodeItem(cells, entry.item, decimalSeparator);
+        const read = recodeCodedItem(tableColumnCodes(table, j), entry.item, decimalSeparator);
         outcomes.push({ id: entry.item.id, header, values: read.recoded, counts: read.counts });
       } else {
         const values = Float64Array.from(cells, (cell) => parseNumber(cell, decimalSeparator));

@@ -2,18 +2,19 @@
  * Describes what one column holds (blank, numbers, whole numbers, distinct texts), for the
  * setup guesser and the setup form.
  */
-import { MEMO_CELL_TEXTS, SINGLE_CHARACTER_CODES } from './ingest-thresholds';
 import { parseNumber } from './parse-number';
 import { samplePositions } from './personal-data';
-import { tableColumn } from './table-columns';
+import { tableColumn, tableColumnCodes, type CodedColumn } from './table-columns';
 import type { ColumnProfile, WaveTable } from './types';
 
 /** A column's cells with their numbers, as the guesser needs them. */
 export interface ColumnData {
   readonly header: string;
   readonly index: number;
-  /** Every cell, one per respondent. */
+  /** Every cell, one per respondent (made from `column` when first asked for). */
   readonly cells: readonly string[];
+  /** The column coded: its distinct cell texts and each cell's index into them. */
+  readonly column: CodedColumn;
   /** Non-blank cells, trimmed (made afresh from `cells` at each reading: a large column is not kept twice). */
   readonly filled: readonly string[];
   /** The numbers among the filled cells (made afresh from `cells` at each reading). */
@@ -27,48 +28,28 @@ export interface ColumnData {
   readonly profile: ColumnProfile;
 }
 
-/** What one cell text reads as: its trimmed text ('' when blank), its number (NaN when none), and how many cells read so. */
-interface CellReading {
-  readonly text: string;
-  readonly value: number;
-  count: number;
-}
-
-/**
- * Reads cell texts, each distinct text once (a rating column holds a handful): `readingOf(cell)`
- * gives the cell's reading, the same object for every cell of the same text (up to
- * MEMO_CELL_TEXTS texts; past them each cell gets its own), and `order` lists the readings in the
- * order they were first made.
- */
-class CellReader {
-  readonly order: CellReading[] = [];
-  private readonly single: (CellReading | undefined)[] = new Array(SINGLE_CHARACTER_CODES).fill(undefined);
-  private readonly readings = new Map<string, CellReading>();
-
-  constructor(private readonly decimalSeparator: '.' | ',') {}
-
-  readingOf(cell: string): CellReading {
-    const code = cell.length === 1 ? cell.charCodeAt(0) : SINGLE_CHARACTER_CODES;
-    const known = code < SINGLE_CHARACTER_CODES ? this.single[code] : this.readings.get(cell);
-    if (known !== undefined) return known;
-    const text = cell.trim();
-    const reading: CellReading = { text, value: text === '' ? Number.NaN : parseNumber(text, this.decimalSeparator), count: 0 };
-    if (code < SINGLE_CHARACTER_CODES) this.single[code] = reading;
-    else if (this.readings.size < MEMO_CELL_TEXTS) this.readings.set(cell, reading);
-    this.order.push(reading);
-    return reading;
+/** What each distinct text of a coded column reads as: trimmed ('' when blank) and as a number (NaN when none). */
+function readTexts(texts: readonly string[], decimalSeparator: '.' | ','): { trimmed: string[]; values: Float64Array } {
+  const trimmed = new Array<string>(texts.length);
+  const values = new Float64Array(texts.length);
+  for (let k = 0; k < texts.length; k++) {
+    const text = texts[k].trim();
+    trimmed[k] = text;
+    values[k] = text === '' ? Number.NaN : parseNumber(text, decimalSeparator);
   }
+  return { trimmed, values };
 }
 
 /** The trimmed non-blank cells and their numbers, in order. */
-function filledAndNumbers(cells: readonly string[], decimalSeparator: '.' | ','): { filled: string[]; numbers: number[] } {
-  const reader = new CellReader(decimalSeparator);
+function filledAndNumbers(column: CodedColumn, decimalSeparator: '.' | ','): { filled: string[]; numbers: number[] } {
+  const { trimmed, values } = readTexts(column.texts, decimalSeparator);
   const filled: string[] = [];
   const numbers: number[] = [];
-  for (const cell of cells) {
-    const { text, value } = reader.readingOf(cell);
+  for (const code of column.codes) {
+    const text = trimmed[code];
     if (text === '') continue;
     filled.push(text);
+    const value = values[code];
     if (!Number.isNaN(value)) numbers.push(value);
   }
   return { filled, numbers };
@@ -87,10 +68,12 @@ function filledAndNumbers(cells: readonly string[], decimalSeparator: '.' | ',')
  */
 export function columnData(table: WaveTable, j: number): ColumnData {
   if (!Number.isInteger(j) || j < 0 || j >= table.headers.length) throw new RangeError(`columnData: column ${j} does not exist`);
-  const cells = tableColumn(table, j);
+  const column = tableColumnCodes(table, j);
+  const { texts: cellTexts, codes } = column;
   const decimalSeparator = table.source.decimalSeparator;
-  const reader = new CellReader(decimalSeparator);
-  for (let i = 0; i < cells.length; i++) reader.readingOf(cells[i]).count++;
+  const { trimmed, values } = readTexts(cellTexts, decimalSeparator);
+  const occurrences = new Uint32Array(cellTexts.length);
+  for (let i = 0; i < codes.length; i++) occurrences[codes[i]]++;
   const texts = new Set<string>();
   const distinct = new Set<string>();
   const distinctNumbers = new Set<number>();
@@ -99,7 +82,12 @@ export function columnData(table: WaveTable, j: number): ColumnData {
   let wholeNumbers = 0;
   let minimum = Number.POSITIVE_INFINITY;
   let maximum = Number.NEGATIVE_INFINITY;
-  for (const { text, value, count } of reader.order) {
+  // The distinct cell texts in order of first appearance give the trimmed texts and the numbers
+  // in order of first appearance too.
+  for (let k = 0; k < cellTexts.length; k++) {
+    const text = trimmed[k];
+    const value = values[k];
+    const count = occurrences[k];
     if (text === '') continue;
     nonBlank += count;
     distinct.add(text);
@@ -117,15 +105,15 @@ export function columnData(table: WaveTable, j: number): ColumnData {
   const positions = samplePositions(nonBlank);
   const filledSample: string[] = [];
   let position = 0;
-  for (let i = 0; i < cells.length && filledSample.length < positions.length; i++) {
-    const text = reader.readingOf(cells[i]).text;
+  for (let i = 0; i < codes.length && filledSample.length < positions.length; i++) {
+    const text = trimmed[codes[i]];
     if (text === '') continue;
     if (position === positions[filledSample.length]) filledSample.push(text);
     position++;
   }
   const profile: ColumnProfile = {
     nonBlank,
-    blank: cells.length - nonBlank,
+    blank: codes.length - nonBlank,
     numeric,
     wholeNumbers,
     distinct: distinct.size,
@@ -136,12 +124,15 @@ export function columnData(table: WaveTable, j: number): ColumnData {
   return {
     header: table.headers[j],
     index: j,
-    cells,
+    column,
+    get cells() {
+      return tableColumn(table, j);
+    },
     get filled() {
-      return filledAndNumbers(cells, decimalSeparator).filled;
+      return filledAndNumbers(column, decimalSeparator).filled;
     },
     get numbers() {
-      return filledAndNumbers(cells, decimalSeparator).numbers;
+      return filledAndNumbers(column, decimalSeparator).numbers;
     },
     distinctNumbers: [...distinctNumbers],
     filledSample,

@@ -10,7 +10,7 @@ import { guessAnswerRange } from './guess-answer-range';
 import { MAX_ANSWER_LABELS, MODAL_RANGE_SHARE, NUMERIC_MAJORITY, PATTERN_SHARE, RATING_MAX_SPAN } from './ingest-thresholds';
 import { looksLikeTimeText, parseDuration } from './parse-duration';
 import { findPersonalData } from './personal-data';
-import { recodeCounts } from './recode-item';
+import { recodeCodedCounts } from './recode-item';
 import type {
   Codebook, CodebookEntry, ColumnProposal, ColumnRole, DurationUnit, ItemSetup, ItemType, LabelSource, ProposedSetup, ValueLabel, WaveSetup, WaveTable, WaveWarning,
 } from './types';
@@ -551,7 +551,7 @@ export function proposeSetup(table: WaveTable, codebook: Codebook | null = null)
       durationUnit: draft.role === 'duration' ? draft.durationUnit : null,
       reason: draft.reason,
       profile: draft.data.profile,
-      counts: item === null ? null : recodeCounts(draft.data.cells, item, decimalSeparator),
+      counts: item === null ? null : recodeCodedCounts(draft.data.column, item, decimalSeparator),
       labelSource: item === null ? null : draft.labelSource ?? (item.labels.length > 0 ? 'codebook' : 'none'),
       answerScale: item === null ? null : draft.answerScale,
     };

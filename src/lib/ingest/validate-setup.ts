@@ -5,7 +5,7 @@
 import { z } from 'zod';
 import { trimCell } from './parse-number';
 import { findPersonalData, samplePositions } from './personal-data';
-import { tableColumn } from './table-columns';
+import { tableColumnCodes, type CodedColumn } from './table-columns';
 import type { WaveSetup, WaveTable } from './types';
 import { WaveRefusal } from './wave-refusal';
 
@@ -44,16 +44,20 @@ declare const checkedSetup: unique symbol;
  */
 export type CheckedSetup = WaveSetup & { readonly [checkedSetup]: true };
 
-function personalValues(header: string, cells: readonly string[], decimalSeparator: '.' | ','): string | null {
+function personalValues(header: string, column: CodedColumn, decimalSeparator: '.' | ','): string | null {
   // findPersonalData reads sampleCells(filled) only: count the filled cells, then take the
-  // sample's positions, instead of making the filled column.
+  // sample's positions, instead of making the filled column. Each distinct text is trimmed once.
+  const { texts, codes } = column;
+  const trimmed = texts.map(trimCell);
+  const occurrences = new Uint32Array(texts.length);
+  for (let i = 0; i < codes.length; i++) occurrences[codes[i]]++;
   let nonBlank = 0;
-  for (const cell of cells) if (trimCell(cell) !== '') nonBlank++;
+  for (let k = 0; k < texts.length; k++) if (trimmed[k] !== '') nonBlank += occurrences[k];
   const positions = samplePositions(nonBlank);
   const sample: string[] = [];
   let position = 0;
-  for (let i = 0; i < cells.length && sample.length < positions.length; i++) {
-    const text = trimCell(cells[i]);
+  for (let i = 0; i < codes.length && sample.length < positions.length; i++) {
+    const text = trimmed[codes[i]];
     if (text === '') continue;
     if (position === positions[sample.length]) sample.push(text);
     position++;
@@ -105,7 +109,7 @@ export function validateSetup(table: WaveTable, setup: unknown): CheckedSetup {
       single[entry.role] = entry.column;
     }
     if (entry.role === 'ignore') continue;
-    const personal = personalValues(entry.column, tableColumn(table, j), table.source.decimalSeparator);
+    const personal = personalValues(entry.column, tableColumnCodes(table, j), table.source.decimalSeparator);
     if (personal !== null) {
       const code = entry.role === 'respondent-id' ? 'personal-data-as-id' : 'personal-data-as-item';
       throw new WaveRefusal(400, code, `The column "${entry.column}" holds ${personal}, which are personal data and are never stored as ${entry.role === 'respondent-id' ? 'respondent ids' : 'answers'}; set it to ignore.`);
