@@ -7,7 +7,7 @@ import type { ItemMatrix } from '../stats/types';
 import { MIN_RESPONDENTS_FOR_AUDIT } from './ingest-thresholds';
 import { parseDuration } from './parse-duration';
 import { parseNumber } from './parse-number';
-import { recodeCodedItem } from './recode-item';
+import { recodeCodedItem, recodeCodedItemInto } from './recode-item';
 import { tableColumn, tableColumnCodes } from './table-columns';
 import type { BuiltWave, ColumnSetup, ItemCounts, WaveItem, WaveOutcome, WaveTable, WaveWarning } from './types';
 import type { CheckedSetup } from './validate-setup';
@@ -217,15 +217,13 @@ export function buildWave(table: WaveTable, setup: CheckedSetup, exclusions: rea
   const items: WaveItem[] = itemColumns.map((j, k) => {
     const header = table.headers[j];
     const item = (setupOf.get(header) as ColumnSetup).item!;
-    const read = recodeCodedItem(tableColumnCodes(table, j), item, decimalSeparator);
-    rawData.set(read.raw, k * n);
-    recodedData.set(read.recoded, k * n);
+    const counts = recodeCodedItemInto(tableColumnCodes(table, j), item, decimalSeparator, rawData.subarray(k * n, (k + 1) * n), recodedData.subarray(k * n, (k + 1) * n));
     return {
       id: item.id, header, scale: item.scale, reverse: item.reverse, min: item.min, max: item.max,
       missingCodes: [...item.missingCodes], text: item.text, labels: [...item.labels], missingLabels: [...item.missingLabels],
       ...(item.type ? { type: item.type } : {}),
       ...(item.facet ? { facet: item.facet } : {}),
-      counts: read.counts,
+      counts,
     };
   });
   const matrix: ItemMatrix = { rows: n, columns: items.length, data: recodedData };

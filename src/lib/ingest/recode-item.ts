@@ -79,6 +79,24 @@ export function recodeCodedItem(column: CodedColumn, item: ItemSetup, decimalSep
 }
 
 /**
+ * {@link recodeCodedItem} writing the values into the caller's arrays (a wave's matrices, one
+ * column at a time), so no column is made and copied.
+ * @param column the column's distinct texts and each cell's code.
+ * @param item the item's setup (range, missing codes, labels, reverse).
+ * @param decimalSeparator the table's decimal separator.
+ * @param raw where the raw values go, one per cell (e.g. a subarray of the raw matrix).
+ * @param recoded where the recoded values go, one per cell.
+ * @throws {RangeError} when `raw` or `recoded` does not have one element per cell.
+ * @returns the counts, as recodeCodedItem gives them.
+ * References: Paredown methods.md §1 "Preparing the response matrix".
+ */
+export function recodeCodedItemInto(column: CodedColumn, item: ItemSetup, decimalSeparator: '.' | ',', raw: Float64Array, recoded: Float64Array): ItemCounts {
+  const n = column.codes.length;
+  if (raw.length !== n || recoded.length !== n) throw new RangeError(`recodeCodedItemInto: ${n} cells need arrays of ${n} values, not ${raw.length} and ${recoded.length}`);
+  return readItemCells(column, item, decimalSeparator, raw, recoded);
+}
+
+/**
  * What happens to the cells of one item when recoded, without the values: the counts of
  * {@link recodeItem} (the setup form and the proposal show them before any wave is built).
  * @param cells the column's cells, one per respondent.

@@ -71,6 +71,47 @@ class ColumnCoder {
   }
 }
 
+/**
+ * Codes a table's columns while its rows are gathered (shapeTable codes each cell as it places
+ * it, so the table is not read a second time), then keeps them beside the rows.
+ */
+export class TableColumnCoder {
+  private readonly coders: ColumnCoder[];
+
+  /**
+   * @param width the table's columns.
+   * @param rows the table's respondent rows.
+   */
+  constructor(readonly width: number, readonly rows: number) {
+    this.coders = Array.from({ length: width }, () => new ColumnCoder(rows));
+  }
+
+  /**
+   * Codes the cell of row `i` in column `j`.
+   * @param i 0-based row.
+   * @param j 0-based column.
+   * @param cell the cell's text.
+   */
+  code(i: number, j: number, cell: string): void {
+    const coder = this.coders[j];
+    const code = coder.codeOf(cell);
+    coder.codes[i] = code;
+  }
+
+  /**
+   * The coded columns, kept for `tableColumnCodes` and `tableColumn` of a table with these rows.
+   * @param tableRows the table's rows, every cell of which was coded.
+   * @throws {RangeError} when the rows are not as many as the coder was made for.
+   * @returns the coded columns.
+   */
+  finish(tableRows: readonly (readonly string[])[]): readonly CodedColumn[] {
+    if (tableRows.length !== this.rows) throw new RangeError(`TableColumnCoder: ${this.rows} rows were coded, the table has ${tableRows.length}`);
+    const coded = this.coders.map((coder) => ({ texts: coder.texts, codes: coder.codes }));
+    if (this.width > 0) columnsOfRows.set(tableRows, { coded, strings: new Array(this.width).fill(undefined) });
+    return coded;
+  }
+}
+
 function codeColumns(rows: readonly (readonly string[])[], width: number): CodedColumn[] {
   const n = rows.length;
   const coded: CodedColumn[] = new Array(width);
