@@ -28,6 +28,52 @@ export interface ColumnData {
   readonly profile: ColumnProfile;
 }
 
+/** What a coded column's cells are, apart from any number: the same for every reader, so worked out once per column. */
+export interface ColumnCells {
+  /** Each distinct text trimmed ('' when blank), by code. */
+  readonly trimmed: readonly string[];
+  /** How many cells hold each distinct text, by code. */
+  readonly occurrences: Uint32Array;
+  /** Cells that are not blank. */
+  readonly nonBlank: number;
+  /** `sampleCells(filled)`: at most SAMPLE_CELLS trimmed non-blank cells, evenly spaced, in order. */
+  readonly filledSample: readonly string[];
+}
+
+const cellsOfColumn = new WeakMap<CodedColumn, ColumnCells>();
+
+/**
+ * The trimmed texts, their occurrences, the non-blank count and the sample of the filled cells of
+ * a coded column: made at the first call for a column (the proposal's profile) and kept beside it,
+ * so the setup check and the wave builder do not count the cells again.
+ * @param column a coded column (`tableColumnCodes`).
+ * @returns the column's cells as counted (read-only; shared by every caller).
+ * References: none published; descriptive counts for the setup form.
+ */
+export function columnCells(column: CodedColumn): ColumnCells {
+  const known = cellsOfColumn.get(column);
+  if (known !== undefined) return known;
+  const { texts, codes } = column;
+  const trimmed = texts.map((text) => text.trim());
+  const occurrences = new Uint32Array(texts.length);
+  for (let i = 0; i < codes.length; i++) occurrences[codes[i]]++;
+  let nonBlank = 0;
+  for (let k = 0; k < texts.length; k++) if (trimmed[k] !== '') nonBlank += occurrences[k];
+  // The sample of the filled cells, found by counting them again (no copy of the column).
+  const positions = samplePositions(nonBlank);
+  const filledSample: string[] = [];
+  let position = 0;
+  for (let i = 0; i < codes.length && filledSample.length < positions.length; i++) {
+    const text = trimmed[codes[i]];
+    if (text === '') continue;
+    if (position === positions[filledSample.length]) filledSample.push(text);
+    position++;
+  }
+  const cells: ColumnCells = { trimmed, occurrences, nonBlank, filledSample };
+  cellsOfColumn.set(column, cells);
+  return cells;
+}
+
 /** What each distinct text of a coded column reads as: trimmed ('' when blank) and as a number (NaN when none). */
 function readTexts(texts: readonly string[], decimalSeparator: '.' | ','): { trimmed: string[]; values: Float64Array } {
   const trimmed = new Array<string>(texts.length);
@@ -71,13 +117,12 @@ export function columnData(table: WaveTable, j: number): ColumnData {
   const column = tableColumnCodes(table, j);
   const { texts: cellTexts, codes } = column;
   const decimalSeparator = table.source.decimalSeparator;
-  const { trimmed, values } = readTexts(cellTexts, decimalSeparator);
-  const occurrences = new Uint32Array(cellTexts.length);
-  for (let i = 0; i < codes.length; i++) occurrences[codes[i]]++;
+  const { trimmed, occurrences, nonBlank, filledSample } = columnCells(column);
+  const values = new Float64Array(cellTexts.length);
+  for (let k = 0; k < cellTexts.length; k++) values[k] = trimmed[k] === '' ? Number.NaN : parseNumber(trimmed[k], decimalSeparator);
   const texts = new Set<string>();
   const distinct = new Set<string>();
   const distinctNumbers = new Set<number>();
-  let nonBlank = 0;
   let numeric = 0;
   let wholeNumbers = 0;
   let minimum = Number.POSITIVE_INFINITY;
@@ -89,7 +134,6 @@ export function columnData(table: WaveTable, j: number): ColumnData {
     const value = values[k];
     const count = occurrences[k];
     if (text === '') continue;
-    nonBlank += count;
     distinct.add(text);
     if (Number.isNaN(value)) {
       texts.add(text);
@@ -100,16 +144,6 @@ export function columnData(table: WaveTable, j: number): ColumnData {
     if (Number.isInteger(value)) wholeNumbers += count;
     if (value < minimum) minimum = value;
     if (value > maximum) maximum = value;
-  }
-  // The sample of the filled cells, found by counting them again (no copy of the column).
-  const positions = samplePositions(nonBlank);
-  const filledSample: string[] = [];
-  let position = 0;
-  for (let i = 0; i < codes.length && filledSample.length < positions.length; i++) {
-    const text = trimmed[codes[i]];
-    if (text === '') continue;
-    if (position === positions[filledSample.length]) filledSample.push(text);
-    position++;
   }
   const profile: ColumnProfile = {
     nonBlank,

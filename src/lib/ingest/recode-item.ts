@@ -6,6 +6,7 @@
 import { parseNumber } from './parse-number';
 import type { ItemCounts, ItemSetup } from './types';
 import { labelKey } from './value-labels';
+import { columnCells } from './column-profile';
 import { codeCells, type CodedColumn } from './table-columns';
 
 /** One item read and recoded. */
@@ -163,17 +164,14 @@ function readItemCells(column: CodedColumn, item: ItemSetup, decimalSeparator: '
     rawOf[k] = result.raw;
     recodedOf[k] = result.recoded;
   }
-  const occurrences = new Uint32Array(m);
   if (raw !== null && recoded !== null) {
     for (let i = 0; i < n; i++) {
       const code = codes[i];
       raw[i] = rawOf[code];
       recoded[i] = recodedOf[code];
-      occurrences[code]++;
     }
-  } else {
-    for (let i = 0; i < n; i++) occurrences[codes[i]]++;
   }
+  const { occurrences } = columnCells(column);
   const tallies = [0, 0, 0, 0, 0, 0];
   let mappedLabel = 0;
   for (let k = 0; k < m; k++) {

@@ -3,8 +3,8 @@
  * built. The setup is untrusted JSON: its shape is checked with zod, then its meaning.
  */
 import { z } from 'zod';
-import { trimCell } from './parse-number';
-import { findPersonalData, samplePositions } from './personal-data';
+import { columnCells } from './column-profile';
+import { findPersonalData } from './personal-data';
 import { tableColumnCodes, type CodedColumn } from './table-columns';
 import type { WaveSetup, WaveTable } from './types';
 import { WaveRefusal } from './wave-refusal';
@@ -45,24 +45,8 @@ declare const checkedSetup: unique symbol;
 export type CheckedSetup = WaveSetup & { readonly [checkedSetup]: true };
 
 function personalValues(header: string, column: CodedColumn, decimalSeparator: '.' | ','): string | null {
-  // findPersonalData reads sampleCells(filled) only: count the filled cells, then take the
-  // sample's positions, instead of making the filled column. Each distinct text is trimmed once.
-  const { texts, codes } = column;
-  const trimmed = texts.map(trimCell);
-  const occurrences = new Uint32Array(texts.length);
-  for (let i = 0; i < codes.length; i++) occurrences[codes[i]]++;
-  let nonBlank = 0;
-  for (let k = 0; k < texts.length; k++) if (trimmed[k] !== '') nonBlank += occurrences[k];
-  const positions = samplePositions(nonBlank);
-  const sample: string[] = [];
-  let position = 0;
-  for (let i = 0; i < codes.length && sample.length < positions.length; i++) {
-    const text = trimmed[codes[i]];
-    if (text === '') continue;
-    if (position === positions[sample.length]) sample.push(text);
-    position++;
-  }
-  const finding = findPersonalData(header, sample, decimalSeparator);
+  // findPersonalData reads sampleCells(filled) only: the sample the proposal's profile took (and kept).
+  const finding = findPersonalData(header, columnCells(column).filledSample, decimalSeparator);
   return finding !== null && finding.fromValues ? finding.what : null;
 }
 
