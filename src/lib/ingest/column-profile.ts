@@ -3,7 +3,7 @@
  * setup guesser and the setup form.
  */
 import { parseNumber } from './parse-number';
-import { samplePositions } from './personal-data';
+import { findPersonalData, samplePositions, type PersonalDataFinding } from './personal-data';
 import { tableColumn, tableColumnCodes, type CodedColumn } from './table-columns';
 import type { ColumnProfile, WaveTable } from './types';
 
@@ -72,6 +72,30 @@ export function columnCells(column: CodedColumn): ColumnCells {
   const cells: ColumnCells = { trimmed, occurrences, nonBlank, filledSample };
   cellsOfColumn.set(column, cells);
   return cells;
+}
+
+const personalDataOfColumn = new WeakMap<CodedColumn, Map<string, PersonalDataFinding | null>>();
+
+/**
+ * `findPersonalData` of a coded column's filled cells (it reads their sample only), worked out
+ * once per column, header and decimal separator: the proposal and the setup check both ask.
+ * @param header the column header.
+ * @param column a coded column (`tableColumnCodes`).
+ * @param decimalSeparator the table's decimal separator.
+ * @returns what findPersonalData finds, or null.
+ * References: Regulation (EU) 2016/679 (GDPR), Art. 4(1) "personal data" (any information relating to an identifiable person).
+ */
+export function columnPersonalData(header: string, column: CodedColumn, decimalSeparator: '.' | ','): PersonalDataFinding | null {
+  let known = personalDataOfColumn.get(column);
+  if (known === undefined) {
+    known = new Map();
+    personalDataOfColumn.set(column, known);
+  }
+  const key = `${decimalSeparator}${header}`;
+  if (known.has(key)) return known.get(key) ?? null;
+  const finding = findPersonalData(header, columnCells(column).filledSample, decimalSeparator);
+  known.set(key, finding);
+  return finding;
 }
 
 /** What each distinct text of a coded column reads as: trimmed ('' when blank) and as a number (NaN when none). */

@@ -5,11 +5,10 @@
  * Personal data and free text are proposed as ignored and never as items.
  */
 import { matchAnswerScales, isMissingAnswerText, type AnswerScaleMatch } from './answer-scales';
-import { columnData, type ColumnData } from './column-profile';
+import { columnData, columnPersonalData, type ColumnData } from './column-profile';
 import { guessAnswerRange } from './guess-answer-range';
 import { MAX_ANSWER_LABELS, MODAL_RANGE_SHARE, NUMERIC_MAJORITY, PATTERN_SHARE, RATING_MAX_SPAN } from './ingest-thresholds';
 import { looksLikeTimeText, parseDuration } from './parse-duration';
-import { findPersonalData } from './personal-data';
 import { recodeCodedCounts } from './recode-item';
 import type {
   Codebook, CodebookEntry, ColumnProposal, ColumnRole, DurationUnit, ItemSetup, ItemType, LabelSource, ProposedSetup, ValueLabel, WaveSetup, WaveTable, WaveWarning,
@@ -238,7 +237,7 @@ function classify(draft: Draft, entry: CodebookEntry | undefined, decimalSeparat
     return;
   }
   // findPersonalData looks at sampleCells(filled) only, which is the sample the column keeps.
-  const personal = findPersonalData(data.header, data.filledSample, decimalSeparator);
+  const personal = columnPersonalData(data.header, data.column, decimalSeparator);
   if (personal && (personal.fromValues || !entry)) {
     // A codebook's word wins over every guess but this one: e-mail addresses, phone numbers and
     // network addresses are never stored as items (buildWave refuses them), so say so loudly.

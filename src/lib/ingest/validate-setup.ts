@@ -3,8 +3,7 @@
  * built. The setup is untrusted JSON: its shape is checked with zod, then its meaning.
  */
 import { z } from 'zod';
-import { columnCells } from './column-profile';
-import { findPersonalData } from './personal-data';
+import { columnPersonalData } from './column-profile';
 import { tableColumnCodes, type CodedColumn } from './table-columns';
 import type { WaveSetup, WaveTable } from './types';
 import { WaveRefusal } from './wave-refusal';
@@ -45,8 +44,8 @@ declare const checkedSetup: unique symbol;
 export type CheckedSetup = WaveSetup & { readonly [checkedSetup]: true };
 
 function personalValues(header: string, column: CodedColumn, decimalSeparator: '.' | ','): string | null {
-  // findPersonalData reads sampleCells(filled) only: the sample the proposal's profile took (and kept).
-  const finding = findPersonalData(header, columnCells(column).filledSample, decimalSeparator);
+  // findPersonalData reads sampleCells(filled) only: the proposal's finding on the same sample is kept.
+  const finding = columnPersonalData(header, column, decimalSeparator);
   return finding !== null && finding.fromValues ? finding.what : null;
 }
 
