@@ -27,19 +27,43 @@ function withoutTrailingEndOfFile(text: string): string {
   return end === text.length ? text : text.slice(0, end);
 }
 
-/** Line breaks (CRLF, CR or LF, CRLF counted once) in `text` from `start` to `end`, as `text.slice(start, end).match(/\r\n|\r|\n/g).length` counts them. */
-function lineBreaksBetween(text: string, start: number, end: number): number {
-  let count = 0;
-  for (let p = start; p < end; p++) {
-    const code = text.charCodeAt(p);
-    if (code === 0x0d) {
-      count++;
-      if (p + 1 < end && text.charCodeAt(p + 1) === 0x0a) p++;
-    } else if (code === 0x0a) {
-      count++;
-    }
+/**
+ * Counts the line breaks (CRLF, CR or LF; CRLF once) between two positions of a text, as
+ * `text.slice(start, end).match(/\r\n|\r|\n/g).length` counts them. A text with one kind of line
+ * end (the usual export) is searched with indexOf for that character alone; one with both CR and
+ * LF is counted character by character.
+ */
+class LineBreakCounter {
+  private readonly only: string | null;
+  private readonly none: boolean;
+
+  constructor(private readonly text: string) {
+    const hasReturn = text.indexOf('\r') !== -1;
+    const hasFeed = text.indexOf('\n') !== -1;
+    this.none = !hasReturn && !hasFeed;
+    this.only = hasReturn && hasFeed ? null : hasReturn ? '\r' : '\n';
   }
-  return count;
+
+  between(start: number, end: number): number {
+    if (this.none || start >= end) return 0;
+    const text = this.text;
+    if (this.only !== null) {
+      let count = 0;
+      for (let p = text.indexOf(this.only, start); p !== -1 && p < end; p = text.indexOf(this.only, p + 1)) count++;
+      return count;
+    }
+    let count = 0;
+    for (let p = start; p < end; p++) {
+      const code = text.charCodeAt(p);
+      if (code === 0x0d) {
+        count++;
+        if (p + 1 < end && text.charCodeAt(p + 1) === 0x0a) p++;
+      } else if (code === 0x0a) {
+        count++;
+      }
+    }
+    return count;
+  }
 }
 
 /**
@@ -75,6 +99,7 @@ export function readDelimitedText(text: string, fileName: string, limits: ReadLi
   let malformedQuotes = 0;
   // papaparse's own test for its fast mode (no quote character anywhere in the input).
   const quoteFree = body.indexOf('"') === -1;
+  const lineBreaks = new LineBreakCounter(body);
   Papa.parse<string[]>(body, {
     delimiter,
     skipEmptyLines: false,
@@ -86,7 +111,7 @@ export function readDelimitedText(text: string, fileName: string, limits: ReadLi
       const cursor = result.meta.cursor;
       rows.push(row);
       fileRows.push(line);
-      line += lineBreaksBetween(body, lastCursor, cursor);
+      line += lineBreaks.between(lastCursor, cursor);
       lastCursor = cursor;
       for (const error of result.errors) {
         if (error.code === 'MissingQuotes') unterminatedAt = fileRows[fileRows.length - 1];
