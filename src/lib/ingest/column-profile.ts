@@ -59,15 +59,20 @@ export function columnCells(column: CodedColumn): ColumnCells {
   for (let i = 0; i < codes.length; i++) occurrences[codes[i]]++;
   let nonBlank = 0;
   for (let k = 0; k < texts.length; k++) if (trimmed[k] !== '') nonBlank += occurrences[k];
-  // The sample of the filled cells, found by counting them again (no copy of the column).
+  // The sample of the filled cells: taken by position when no cell is blank, else found by
+  // counting the filled cells again (no copy of the column either way).
   const positions = samplePositions(nonBlank);
   const filledSample: string[] = [];
-  let position = 0;
-  for (let i = 0; i < codes.length && filledSample.length < positions.length; i++) {
-    const text = trimmed[codes[i]];
-    if (text === '') continue;
-    if (position === positions[filledSample.length]) filledSample.push(text);
-    position++;
+  if (nonBlank === codes.length) {
+    for (const position of positions) filledSample.push(trimmed[codes[position]]);
+  } else {
+    let position = 0;
+    for (let i = 0; i < codes.length && filledSample.length < positions.length; i++) {
+      const text = trimmed[codes[i]];
+      if (text === '') continue;
+      if (position === positions[filledSample.length]) filledSample.push(text);
+      position++;
+    }
   }
   const cells: ColumnCells = { trimmed, occurrences, nonBlank, filledSample };
   cellsOfColumn.set(column, cells);
