@@ -55,6 +55,21 @@ describe('columnData', () => {
   });
 });
 
+describe('columnData of a column without blanks', () => {
+  it('takes the same sample of the filled cells as sampleCells, by position', () => {
+    // Second opinion: sampleCells over the trimmed cells (every cell is filled here).
+    const cells = Array.from({ length: 5 * SAMPLE_CELLS + 3 }, (_, k) => (k % 7 === 0 ? ` ${k % 5} ` : String(k % 11)));
+    const headers = ['q'];
+    const rows = cells.map((cell) => [cell]);
+    const read = { source: { fileName: 'w.csv', format: 'csv' as const, encoding: 'utf-8', delimiter: ',' as const, decimalSeparator: '.' as const, sheet: null, sheets: [] },
+      headers, originalHeaders: headers, rows, fileRows: rows.map((_, i) => i + 2), warnings: [], codebookTable: null };
+    const data = columnData(read, 0);
+    expect(data.profile.blank).toBe(0);
+    expect(data.filledSample).toEqual(sampleCells(cells.map((cell) => cell.trim())));
+    expect(data.filledSample.length).toBe(SAMPLE_CELLS);
+  });
+});
+
 describe('proposeSetup', () => {
   it('gives every column a role and a reason: id, duration, weight, outcome, items, ignore', async () => {
     const setup = proposeSetup(await table([

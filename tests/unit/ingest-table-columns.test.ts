@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { readTable } from '../../src/lib/ingest';
-import { tableColumn } from '../../src/lib/ingest/table-columns';
+import { codeCells, tableColumn, tableColumnCodes } from '../../src/lib/ingest/table-columns';
 
 const encoder = new TextEncoder();
 
@@ -38,5 +38,29 @@ describe('tableColumn', () => {
     expect(() => tableColumn({ headers, rows }, width)).toThrow(/tableColumn: column 150 does not exist/);
     expect(() => tableColumn({ headers, rows }, -1)).toThrow(RangeError);
     expect(() => tableColumn({ headers, rows }, 0.5)).toThrow(RangeError);
+  });
+
+  it('codes a column as its distinct texts in order of first appearance, widening the codes past 8 and 16 bits', () => {
+    // Second opinion: the distinct texts by a Set (insertion order), each cell's code by indexOf.
+    const width = 3;
+    const n = 70_000;
+    const headers = ['rating', 'ids', 'mixed'];
+    const rows = Array.from({ length: n }, (_, i) => [String(i % 5 + 1), `R${i}`, i % 3 === 0 ? ` ${i % 900} ` : i % 3 === 1 ? '' : 'x']);
+    for (let j = 0; j < width; j++) {
+      const cells = rows.map((row) => row[j]);
+      const { texts, codes } = tableColumnCodes({ headers, rows }, j);
+      expect(texts).toEqual([...new Set(cells)]);
+      expect(codes.length).toBe(n);
+      const index = new Map(texts.map((text, k) => [text, k]));
+      for (let i = 0; i < n; i++) if (codes[i] !== index.get(cells[i])) expect.fail(`column ${j}, cell ${i}: code ${codes[i]}`);
+      expect(tableColumn({ headers, rows }, j)).toEqual(cells);
+      const alone = codeCells(cells);
+      expect(alone.texts).toEqual(texts);
+      expect([...alone.codes]).toEqual([...codes]);
+    }
+    expect(tableColumnCodes({ headers, rows }, 0).codes).toBeInstanceOf(Uint8Array);
+    expect(tableColumnCodes({ headers, rows }, 1).codes).toBeInstanceOf(Uint32Array);
+    expect(tableColumnCodes({ headers, rows }, 2).codes).toBeInstanceOf(Uint16Array);
+    expect(() => tableColumnCodes({ headers, rows }, width)).toThrow(/tableColumnCodes: column 3 does not exist/);
   });
 });

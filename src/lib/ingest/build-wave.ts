@@ -7,8 +7,8 @@ import type { ItemMatrix } from '../stats/types';
 import { MIN_RESPONDENTS_FOR_AUDIT } from './ingest-thresholds';
 import { parseDuration } from './parse-duration';
 import { parseNumber } from './parse-number';
-import { recodeItem } from './recode-item';
-import { tableColumn } from './table-columns';
+import { recodeCodedItem, recodeCodedItemInto } from './recode-item';
+import { tableColumn, tableColumnCodes } from './table-columns';
 import type { BuiltWave, ColumnSetup, ItemCounts, WaveItem, WaveOutcome, WaveTable, WaveWarning } from './types';
 import type { CheckedSetup } from './validate-setup';
 import { WaveRefusal } from './wave-refusal';
@@ -27,13 +27,15 @@ function sameValues(a: Float64Array, b: Float64Array): boolean {
 }
 
 /**
- * FNV-1a over the 32-bit words of one column (NaN is canonical here, so equal columns hash alike;
- * words rather than bytes: a quarter of the steps, and the hash only groups candidates).
+ * FNV-1a over one 32-bit word of each value of one column: the word holding the sign, exponent
+ * and leading mantissa bits on a little-endian machine, which tells answer codes and NaN apart
+ * (NaN is canonical here, so equal columns hash alike; the hash only groups candidates, equality
+ * is then checked value by value, so the groups do not depend on which word is taken).
  */
 function columnHash(values: Float64Array): number {
   const words = new Uint32Array(values.buffer, values.byteOffset, values.length * 2);
   let hash = 0x811c9dc5;
-  for (let i = 0; i < words.length; i++) hash = Math.imul(hash ^ words[i], 0x01000193);
+  for (let i = 1; i < words.length; i += 2) hash = Math.imul(hash ^ words[i], 0x01000193);
   return hash >>> 0;
 }
 
@@ -217,15 +219,13 @@ export function buildWave(table: WaveTable, setup: CheckedSetup, exclusions: rea
   const items: WaveItem[] = itemColumns.map((j, k) => {
     const header = table.headers[j];
     const item = (setupOf.get(header) as ColumnSetup).item!;
-    const read = recodeItem(column(j), item, decimalSeparator);
-    rawData.set(read.raw, k * n);
-    recodedData.set(read.recoded, k * n);
+    const counts = recodeCodedItemInto(tableColumnCodes(table, j), item, decimalSeparator, rawData.subarray(k * n, (k + 1) * n), recodedData.subarray(k * n, (k + 1) * n));
     return {
       id: item.id, header, scale: item.scale, reverse: item.reverse, min: item.min, max: item.max,
       missingCodes: [...item.missingCodes], text: item.text, labels: [...item.labels], missingLabels: [...item.missingLabels],
       ...(item.type ? { type: item.type } : {}),
       ...(item.facet ? { facet: item.facet } : {}),
-      counts: read.counts,
+      counts,
     };
   });
   const matrix: ItemMatrix = { rows: n, columns: items.length, data: recodedData };
@@ -268,7 +268,7 @@ export function buildWave(table: WaveTable, setup: CheckedSetup, exclusions: rea
       }
     } else if (entry.role === 'outcome') {
       if (entry.item) {
-        const read = recodeItem(cells, entry.item, decimalSeparator);
+        const read = recodeCodedItem(tableColumnCodes(table, j), entry.item, decimalSeparator);
         outcomes.push({ id: entry.item.id, header, values: read.recoded, counts: read.counts });
       } else {
         const values = Float64Array.from(cells, (cell) => parseNumber(cell, decimalSeparator));

@@ -55,7 +55,10 @@ export const MIN_RESPONDENTS_FOR_AUDIT = 3;
 
 // ── Reading cells (performance only: results are the same for any value) ─────────────────────
 
-/** Distinct cell texts remembered per column or item while reading it; past them each cell is read afresh. */
+/**
+ * Distinct cell texts past which a column is no answer scale but ids or free text (columns are
+ * coded with every distinct text, so this changes no result; the tests build columns past it).
+ */
 export const MEMO_CELL_TEXTS = 4096;
 /** One-character cells below this character code (ASCII) are remembered by their code rather than their text. */
 export const SINGLE_CHARACTER_CODES = 128;

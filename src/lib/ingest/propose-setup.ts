@@ -5,12 +5,11 @@
  * Personal data and free text are proposed as ignored and never as items.
  */
 import { matchAnswerScales, isMissingAnswerText, type AnswerScaleMatch } from './answer-scales';
-import { columnData, type ColumnData } from './column-profile';
+import { columnData, columnPersonalData, type ColumnData } from './column-profile';
 import { guessAnswerRange } from './guess-answer-range';
 import { MAX_ANSWER_LABELS, MODAL_RANGE_SHARE, NUMERIC_MAJORITY, PATTERN_SHARE, RATING_MAX_SPAN } from './ingest-thresholds';
 import { looksLikeTimeText, parseDuration } from './parse-duration';
-import { findPersonalData } from './personal-data';
-import { recodeCounts } from './recode-item';
+import { recodeCodedCounts } from './recode-item';
 import type {
   Codebook, CodebookEntry, ColumnProposal, ColumnRole, DurationUnit, ItemSetup, ItemType, LabelSource, ProposedSetup, ValueLabel, WaveSetup, WaveTable, WaveWarning,
 } from './types';
@@ -238,7 +237,7 @@ function classify(draft: Draft, entry: CodebookEntry | undefined, decimalSeparat
     return;
   }
   // findPersonalData looks at sampleCells(filled) only, which is the sample the column keeps.
-  const personal = findPersonalData(data.header, data.filledSample, decimalSeparator);
+  const personal = columnPersonalData(data.header, data.column, decimalSeparator);
   if (personal && (personal.fromValues || !entry)) {
     // A codebook's word wins over every guess but this one: e-mail addresses, phone numbers and
     // network addresses are never stored as items (buildWave refuses them), so say so loudly.
@@ -551,7 +550,7 @@ export function proposeSetup(table: WaveTable, codebook: Codebook | null = null)
       durationUnit: draft.role === 'duration' ? draft.durationUnit : null,
       reason: draft.reason,
       profile: draft.data.profile,
-      counts: item === null ? null : recodeCounts(draft.data.cells, item, decimalSeparator),
+      counts: item === null ? null : recodeCodedCounts(draft.data.column, item, decimalSeparator),
       labelSource: item === null ? null : draft.labelSource ?? (item.labels.length > 0 ? 'codebook' : 'none'),
       answerScale: item === null ? null : draft.answerScale,
     };

@@ -3,10 +3,11 @@
  * codes, missing codes and labels become missing, numbers outside the valid range become
  * missing, and reverse-keyed items are flipped, `x' = (min + max) − x`.
  */
-import { MEMO_CELL_TEXTS, SINGLE_CHARACTER_CODES } from './ingest-thresholds';
 import { parseNumber } from './parse-number';
 import type { ItemCounts, ItemSetup } from './types';
 import { labelKey } from './value-labels';
+import { columnCells } from './column-profile';
+import { codeCells, type CodedColumn } from './table-columns';
 
 /** One item read and recoded. */
 export interface RecodedItem {
@@ -58,11 +59,42 @@ interface CellRecode {
  * References: Paredown methods.md §1 "Preparing the response matrix".
  */
 export function recodeItem(cells: readonly string[], item: ItemSetup, decimalSeparator: '.' | ','): RecodedItem {
-  const n = cells.length;
+  return recodeCodedItem(codeCells(cells), item, decimalSeparator);
+}
+
+/**
+ * {@link recodeItem} for a coded column (`tableColumnCodes`): each distinct text is read and
+ * recoded once, and the cells take their values by code.
+ * @param column the column's distinct texts and each cell's code.
+ * @param item the item's setup (range, missing codes, labels, reverse).
+ * @param decimalSeparator the table's decimal separator.
+ * @returns raw and recoded values and what happened to the cells, as recodeItem gives them.
+ * References: Paredown methods.md §1 "Preparing the response matrix".
+ */
+export function recodeCodedItem(column: CodedColumn, item: ItemSetup, decimalSeparator: '.' | ','): RecodedItem {
+  const n = column.codes.length;
   const raw = new Float64Array(n);
   const recoded = new Float64Array(n);
-  const counts = readItemCells(cells, item, decimalSeparator, raw, recoded);
+  const counts = readItemCells(column, item, decimalSeparator, raw, recoded);
   return { raw, recoded, counts };
+}
+
+/**
+ * {@link recodeCodedItem} writing the values into the caller's arrays (a wave's matrices, one
+ * column at a time), so no column is made and copied.
+ * @param column the column's distinct texts and each cell's code.
+ * @param item the item's setup (range, missing codes, labels, reverse).
+ * @param decimalSeparator the table's decimal separator.
+ * @param raw where the raw values go, one per cell (e.g. a subarray of the raw matrix).
+ * @param recoded where the recoded values go, one per cell.
+ * @throws {RangeError} when `raw` or `recoded` does not have one element per cell.
+ * @returns the counts, as recodeCodedItem gives them.
+ * References: Paredown methods.md §1 "Preparing the response matrix".
+ */
+export function recodeCodedItemInto(column: CodedColumn, item: ItemSetup, decimalSeparator: '.' | ',', raw: Float64Array, recoded: Float64Array): ItemCounts {
+  const n = column.codes.length;
+  if (raw.length !== n || recoded.length !== n) throw new RangeError(`recodeCodedItemInto: ${n} cells need arrays of ${n} values, not ${raw.length} and ${recoded.length}`);
+  return readItemCells(column, item, decimalSeparator, raw, recoded);
 }
 
 /**
@@ -75,12 +107,25 @@ export function recodeItem(cells: readonly string[], item: ItemSetup, decimalSep
  * References: Paredown methods.md §1 "Preparing the response matrix".
  */
 export function recodeCounts(cells: readonly string[], item: ItemSetup, decimalSeparator: '.' | ','): ItemCounts {
-  return readItemCells(cells, item, decimalSeparator, null, null);
+  return readItemCells(codeCells(cells), item, decimalSeparator, null, null);
+}
+
+/**
+ * {@link recodeCounts} for a coded column (`tableColumnCodes`).
+ * @param column the column's distinct texts and each cell's code.
+ * @param item the item's setup (range, missing codes, labels, reverse).
+ * @param decimalSeparator the table's decimal separator.
+ * @returns the counts, equal to `recodeCodedItem(column, item, decimalSeparator).counts`.
+ * References: Paredown methods.md §1 "Preparing the response matrix".
+ */
+export function recodeCodedCounts(column: CodedColumn, item: ItemSetup, decimalSeparator: '.' | ','): ItemCounts {
+  return readItemCells(column, item, decimalSeparator, null, null);
 }
 
 /** The loop of recodeItem and recodeCounts: counts, and the values into `raw` and `recoded` when given. */
-function readItemCells(cells: readonly string[], item: ItemSetup, decimalSeparator: '.' | ',', raw: Float64Array | null, recoded: Float64Array | null): ItemCounts {
-  const n = cells.length;
+function readItemCells(column: CodedColumn, item: ItemSetup, decimalSeparator: '.' | ',', raw: Float64Array | null, recoded: Float64Array | null): ItemCounts {
+  const { texts, codes } = column;
+  const n = codes.length;
   const codeOfLabel = new Map<string, number>();
   for (const label of item.labels) {
     const key = labelKey(label.label);
@@ -108,26 +153,30 @@ function readItemCells(cells: readonly string[], item: ItemSetup, decimalSeparat
     if (value < item.min || value > item.max) return { raw: value, recoded: Number.NaN, tally: OUT_OF_RANGE, mapped };
     return { raw: value, recoded: item.reverse ? reverseScore(value, item.min, item.max) : value, tally: ANSWERED, mapped };
   };
+  // Each distinct text once; the cells then take their values and counts by code.
+  const m = texts.length;
+  const rawOf = new Float64Array(m);
+  const recodedOf = new Float64Array(m);
+  const results: CellRecode[] = new Array(m);
+  for (let k = 0; k < m; k++) {
+    const result = recodeCell(texts[k]);
+    results[k] = result;
+    rawOf[k] = result.raw;
+    recodedOf[k] = result.recoded;
+  }
+  if (raw !== null && recoded !== null) {
+    for (let i = 0; i < n; i++) {
+      const code = codes[i];
+      raw[i] = rawOf[code];
+      recoded[i] = recodedOf[code];
+    }
+  }
+  const { occurrences } = columnCells(column);
   const tallies = [0, 0, 0, 0, 0, 0];
   let mappedLabel = 0;
-  // One-character cells (answer codes 0-9) by their character code, longer ones by their text.
-  const single: (CellRecode | undefined)[] = new Array(SINGLE_CHARACTER_CODES).fill(undefined);
-  const memo = new Map<string, CellRecode>();
-  for (let i = 0; i < n; i++) {
-    const cell = cells[i];
-    const code = cell.length === 1 ? cell.charCodeAt(0) : SINGLE_CHARACTER_CODES;
-    let result = code < SINGLE_CHARACTER_CODES ? single[code] : memo.get(cell);
-    if (result === undefined) {
-      result = recodeCell(cell);
-      if (code < SINGLE_CHARACTER_CODES) single[code] = result;
-      else if (memo.size < MEMO_CELL_TEXTS) memo.set(cell, result);
-    }
-    if (raw !== null && recoded !== null) {
-      raw[i] = result.raw;
-      recoded[i] = result.recoded;
-    }
-    tallies[result.tally]++;
-    mappedLabel += result.mapped;
+  for (let k = 0; k < m; k++) {
+    tallies[results[k].tally] += occurrences[k];
+    mappedLabel += results[k].mapped * occurrences[k];
   }
   return {
     answered: tallies[ANSWERED],

@@ -5,6 +5,7 @@
  */
 import { looksLikeFormula, parseNumber } from './parse-number';
 import type { ReadLimits } from './read-limits';
+import { TableColumnCoder, type CodedColumn } from './table-columns';
 import type { TableSource, WaveTable, WaveWarning } from './types';
 import { WaveRefusal } from './wave-refusal';
 
@@ -83,6 +84,28 @@ export function uniqueHeaders(original: readonly string[]): { headers: string[];
 }
 
 /**
+ * The cells that look like a spreadsheet formula, each distinct text judged once: how many, and
+ * their columns in the order a row-by-row reading meets them first.
+ */
+function formulaLikeCells(columns: readonly CodedColumn[], decimalSeparator: '.' | ','): { formulaCells: number; formulaColumns: number[] } {
+  let formulaCells = 0;
+  const firstRowOf: { column: number; row: number }[] = [];
+  columns.forEach(({ texts, codes }, j) => {
+    const formula = texts.map((text) => looksLikeFormula(text, decimalSeparator));
+    if (!formula.includes(true)) return;
+    let first = -1;
+    for (let i = 0; i < codes.length; i++) {
+      if (!formula[codes[i]]) continue;
+      formulaCells++;
+      if (first < 0) first = i;
+    }
+    firstRowOf.push({ column: j, row: first });
+  });
+  firstRowOf.sort((a, b) => a.row - b.row || a.column - b.column);
+  return { formulaCells, formulaColumns: firstRowOf.map((entry) => entry.column) };
+}
+
+/**
  * Shapes a grid into a table.
  * @param grid the rows as read.
  * @param source how the file was read.
@@ -139,11 +162,12 @@ export function shapeTable(
 
   let shortRows = 0;
   let longRows = 0;
-  let formulaCells = 0;
-  const formulaColumns = new Set<number>();
   const rows: string[][] = [];
   const fileRows: number[] = [];
-  for (const index of dataIndices) {
+  // The columns are coded as the cells are placed (tableColumnCodes then finds them).
+  const coder = new TableColumnCoder(width, dataIndices.length);
+  for (let r = 0; r < dataIndices.length; r++) {
+    const index = dataIndices[r];
     const row = grid.rows[index];
     if (grid.countRaggedRows) {
       if (row.length < headerRow.length) shortRows++;
@@ -158,14 +182,12 @@ export function shapeTable(
       const cell = given ?? '';
       if (cells === null && (given === undefined || given === null)) cells = row.slice(0, width);
       if (cells !== null) cells[j] = cell;
-      if (looksLikeFormula(cell, source.decimalSeparator)) {
-        formulaCells++;
-        formulaColumns.add(j);
-      }
+      coder.code(r, j, cell);
     }
     rows.push(cells ?? (row as string[]));
     fileRows.push(grid.fileRows[index]);
   }
+  const { formulaCells, formulaColumns } = formulaLikeCells(coder.finish(rows), source.decimalSeparator);
   if (shortRows + longRows > 0) {
     const parts = [shortRows > 0 ? `${shortRows} with fewer fields (padded with blanks)` : '', longRows > 0 ? `${longRows} with more fields (extra columns added)` : ''].filter(Boolean);
     tableWarnings.push({
@@ -180,7 +202,7 @@ export function shapeTable(
   if (formulaCells > 0) {
     tableWarnings.push({
       code: 'formula-like-cells',
-      columns: [...formulaColumns].map((j) => named.headers[j]),
+      columns: formulaColumns.map((j) => named.headers[j]),
       message: `${formulaCells} ${formulaCells === 1 ? 'cell starts' : 'cells start'} with =, +, - or @ like a spreadsheet formula; ${formulaCells === 1 ? 'it is' : 'they are'} kept as text, never evaluated, and counted as non-numeric.`,
     });
   }

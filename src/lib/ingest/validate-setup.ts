@@ -3,9 +3,8 @@
  * built. The setup is untrusted JSON: its shape is checked with zod, then its meaning.
  */
 import { z } from 'zod';
-import { trimCell } from './parse-number';
-import { findPersonalData, samplePositions } from './personal-data';
-import { tableColumn } from './table-columns';
+import { columnPersonalData } from './column-profile';
+import { tableColumnCodes, type CodedColumn } from './table-columns';
 import type { WaveSetup, WaveTable } from './types';
 import { WaveRefusal } from './wave-refusal';
 
@@ -44,21 +43,9 @@ declare const checkedSetup: unique symbol;
  */
 export type CheckedSetup = WaveSetup & { readonly [checkedSetup]: true };
 
-function personalValues(header: string, cells: readonly string[], decimalSeparator: '.' | ','): string | null {
-  // findPersonalData reads sampleCells(filled) only: count the filled cells, then take the
-  // sample's positions, instead of making the filled column.
-  let nonBlank = 0;
-  for (const cell of cells) if (trimCell(cell) !== '') nonBlank++;
-  const positions = samplePositions(nonBlank);
-  const sample: string[] = [];
-  let position = 0;
-  for (let i = 0; i < cells.length && sample.length < positions.length; i++) {
-    const text = trimCell(cells[i]);
-    if (text === '') continue;
-    if (position === positions[sample.length]) sample.push(text);
-    position++;
-  }
-  const finding = findPersonalData(header, sample, decimalSeparator);
+function personalValues(header: string, column: CodedColumn, decimalSeparator: '.' | ','): string | null {
+  // findPersonalData reads sampleCells(filled) only: the proposal's finding on the same sample is kept.
+  const finding = columnPersonalData(header, column, decimalSeparator);
   return finding !== null && finding.fromValues ? finding.what : null;
 }
 
@@ -105,7 +92,7 @@ export function validateSetup(table: WaveTable, setup: unknown): CheckedSetup {
       single[entry.role] = entry.column;
     }
     if (entry.role === 'ignore') continue;
-    const personal = personalValues(entry.column, tableColumn(table, j), table.source.decimalSeparator);
+    const personal = personalValues(entry.column, tableColumnCodes(table, j), table.source.decimalSeparator);
     if (personal !== null) {
       const code = entry.role === 'respondent-id' ? 'personal-data-as-id' : 'personal-data-as-item';
       throw new WaveRefusal(400, code, `The column "${entry.column}" holds ${personal}, which are personal data and are never stored as ${entry.role === 'respondent-id' ? 'respondent ids' : 'answers'}; set it to ignore.`);
