@@ -7,7 +7,8 @@
 // (src/lib/workers/worker-entries.ts: wave-reader-worker.mjs) is bundled beside it, where the
 // one worker mechanism looks for it from the bundle's folder (docs/decisions/018); so are the
 // bootstrap's resample thread (resample-worker.mjs, docs/decisions/021) and parallel analysis's
-// (random-eigenvalue-worker.mjs, docs/decisions/020).
+// (random-eigenvalue-worker.mjs, docs/decisions/020) and the residual bootstrap's
+// (residual-bootstrap-worker.mjs, docs/decisions/020).
 import { createHash } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, statSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -17,7 +18,7 @@ import { root } from './prepare.mjs';
 export const cliBundle = join(root, 'dist', 'cli', 'audit.mjs');
 const stamp = join(root, 'dist', 'cli', '.paredown-cli-stamp.json');
 /** Worker entries bundled beside it (their names in src/lib/workers/worker-entries.ts, without .mjs). */
-const workerBundles = ['wave-reader-worker', 'resample-worker', 'random-eigenvalue-worker'];
+const workerBundles = ['wave-reader-worker', 'resample-worker', 'random-eigenvalue-worker', 'residual-bootstrap-worker'];
 /** Files that change the bundle without being among its inputs. */
 const alwaysHashed = ['package-lock.json', 'tsconfig.json', 'scripts/lib/cli-bundle.mjs'];
 
@@ -83,6 +84,7 @@ export async function ensureCliBundle({ force = false, quiet = false } = {}) {
       'wave-reader-worker': 'src/lib/ingest/wave-reader-worker.ts',
       'resample-worker': 'src/lib/audit/resample-worker.ts',
       'random-eigenvalue-worker': 'src/lib/audit/random-eigenvalue-worker.ts',
+      'residual-bootstrap-worker': 'src/lib/audit/residual-bootstrap-worker.ts',
     },
     outdir: join(root, 'dist', 'cli'),
     outExtension: { '.js': '.mjs' },

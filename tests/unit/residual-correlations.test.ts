@@ -1,5 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { oneFactorResiduals, residualBootstrap } from '../../src/lib/stats/residual-correlations';
+import { centeredCrossProducts, pearsonFromCrossProducts } from '../../src/lib/stats/cross-products';
+import { createSeededRandom } from '../../src/lib/stats/seeded-random';
 import { squareMatrixFromRows } from '../../src/lib/stats/types';
 import { kolmogorovSmirnovDistance, largestDifference, residualFixture } from './local-dependence-fixtures';
 
@@ -98,6 +100,42 @@ describe('residualBootstrap', () => {
     const c = residualBootstrap(loadings, 200, { draws: 50, seed: 12 });
     expect(Array.from(a.maxRelative)).toEqual(Array.from(b.maxRelative));
     expect(Array.from(a.maxRelative)).not.toEqual(Array.from(c.maxRelative));
+  });
+
+  it('draws exactly the data sets of the plain generation: one nextNormal per value, then the cut', () => {
+    // The reference is the bootstrap as first written (commit e25babf): per respondent the common
+    // factor and then each item's unique variate from nextNormal, the values cut at the thresholds
+    // afterwards, each draw correlated and refitted. The core now fills the variates in one call
+    // and cuts as it goes; the largest relative residuals must be the same to the last bit.
+    const loadings = [0.72, 0.64, 0.58, 0.5, 0.45, 0.66];
+    const thresholds = [[-1.2, 0.1, 0.9], [-0.5, 0.6], [-1.6, -0.7, 0.2, 1.1], [0], [-0.9, 0.4, 1.4], [-0.3, 0.8]];
+    const [n, draws, seed] = [120, 25, 77];
+    for (const cut of [false, true]) {
+      const random = createSeededRandom(seed);
+      const k = loadings.length;
+      const expected: number[] = [];
+      for (let draw = 0; draw < draws; draw++) {
+        const data = new Float64Array(n * k);
+        for (let i = 0; i < n; i++) {
+          const common = random.nextNormal();
+          for (let j = 0; j < k; j++) data[j * n + i] = loadings[j] * common + Math.sqrt(1 - loadings[j] * loadings[j]) * random.nextNormal();
+        }
+        if (cut) {
+          for (let j = 0; j < k; j++) {
+            for (let i = 0; i < n; i++) {
+              let category = 0;
+              while (category < thresholds[j].length && data[j * n + i] > thresholds[j][category]) category++;
+              data[j * n + i] = category;
+            }
+          }
+        }
+        const correlation = pearsonFromCrossProducts(centeredCrossProducts({ rows: n, columns: k, data }));
+        expected.push(oneFactorResiduals(correlation).largestRelative);
+      }
+      const result = residualBootstrap(loadings, n, { draws, seed, ...(cut ? { thresholds } : {}) });
+      expect(result.usableDraws).toBe(draws);
+      expect(Array.from(result.maxRelative), cut ? 'ordinal draws' : 'normal draws').toEqual(expected.sort((a, b) => a - b));
+    }
   });
 
   it('gives a larger critical value with fewer respondents and with more items', () => {

@@ -11,7 +11,7 @@ import { pathToFileURL } from 'node:url';
 import { afterAll, describe, expect, it } from 'vitest';
 import { BoundedQueue, QueueFullError } from '../../src/lib/workers/bounded-queue';
 import { locateWorker, runWorkerOnce, WorkerRunFailure } from '../../src/lib/workers/start-worker';
-import { AUDIT_WORKER, RANDOM_EIGENVALUE_WORKER, RESAMPLE_WORKER, WAVE_READER_WORKER, WHAT_IF_WORKER, WORKER_ENTRIES } from '../../src/lib/workers/worker-entries';
+import { AUDIT_WORKER, RANDOM_EIGENVALUE_WORKER, RESAMPLE_WORKER, RESIDUAL_BOOTSTRAP_WORKER, WAVE_READER_WORKER, WHAT_IF_WORKER, WORKER_ENTRIES } from '../../src/lib/workers/worker-entries';
 
 const folders: string[] = [];
 afterAll(() => {
@@ -68,7 +68,7 @@ describe('BoundedQueue', () => {
 
 describe('locateWorker', () => {
   it('lists every worker once, each with its source and bundle', () => {
-    expect(WORKER_ENTRIES).toEqual([AUDIT_WORKER, WHAT_IF_WORKER, WAVE_READER_WORKER, RESAMPLE_WORKER, RANDOM_EIGENVALUE_WORKER]);
+    expect(WORKER_ENTRIES).toEqual([AUDIT_WORKER, WHAT_IF_WORKER, WAVE_READER_WORKER, RESAMPLE_WORKER, RANDOM_EIGENVALUE_WORKER, RESIDUAL_BOOTSTRAP_WORKER]);
     expect(new Set(WORKER_ENTRIES.map((entry) => entry.built)).size).toBe(WORKER_ENTRIES.length);
   });
 

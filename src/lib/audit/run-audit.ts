@@ -44,6 +44,7 @@ import {
 } from './audit-json';
 import { exploratoryStructure } from './exploratory-structure';
 import { parallelAnalysisThreadCount, randomCorrelationEigenvaluesOnThreads } from './random-eigenvalue-threads';
+import { deferredResidualCriticals, residualBootstrapThreadCount, residualCriticalsOnThreads, withResidualCriticals } from './residual-bootstrap-threads';
 import { engineSettingsOf, resolveAuditSettings, type AuditSettingsRequest } from './settings-table';
 import { cautionSentence, reasonSentence } from '../words';
 
@@ -149,10 +150,21 @@ export async function runAudit(
   report('evidence', 0);
   // The network only where it can count (network-when-it-counts.ts): the same audit, without a
   // 100-penalty graphical-lasso path no number of it would show.
-  const withoutNetwork = computeEvidence(input.matrix, input.items, engineSettings, { localDependence: { network: false } });
-  const evidence = networkCanCount(withoutNetwork, wordingSimilarity(input.items.map((item) => item.text)), engineSettings)
+  // Each scale's residual bootstrap is its own (own seed): when they are large, the evidence only
+  // writes them down, they run on worker threads while this thread fits the network, and their
+  // critical values are put in after (residual-bootstrap-threads.ts; the same numbers).
+  const bootstrapThreads = residualBootstrapThreadCount(input.items.map((item) => item.scale), input.matrix.rows, engineSettings.residualBootstrapDraws);
+  const deferred = bootstrapThreads > 0 ? deferredResidualCriticals() : null;
+  const withoutNetwork = computeEvidence(input.matrix, input.items, engineSettings, { localDependence: { network: false, ...(deferred ? { detectors: deferred.detectors } : {}) } });
+  const criticals = deferred === null ? null : residualCriticalsOnThreads(deferred.jobs, bootstrapThreads);
+  // Collected below; this only keeps a thread's failure from counting as unhandled before then.
+  criticals?.catch(() => undefined);
+  // networkCanCount reads no critical value while they are pending: with scales it answers true
+  // before it looks at the pair rules (and without scales there is no critical value to wait for).
+  const withNetwork = networkCanCount(withoutNetwork, wordingSimilarity(input.items.map((item) => item.text)), engineSettings)
     ? attachNetwork(withoutNetwork, engineSettings, null)
     : withoutNetwork;
+  const evidence = criticals === null ? withNetwork : withResidualCriticals(withNetwork, await criticals);
   report('evidence', 1);
 
   report('structure', 0);

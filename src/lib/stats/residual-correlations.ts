@@ -215,24 +215,24 @@ export function residualBootstrap(loadings: ArrayLike<number>, sampleSize: numbe
   const residuals = new Float64Array(k * k);
   const relative = new Float64Array(k * k);
   const maxima = new Float64Array(draws);
+  // One draw's normal variates in the order the generator gives them: per respondent the common
+  // factor, then one unique variate per item.
+  const stride = k + 1;
+  const normals = new Float64Array(n * stride);
+  // The thresholds flat: item j's cuts are cuts[cutStart[j]] to cuts[cutStart[j + 1] - 1].
+  const cutStart = new Int32Array(k + 1);
+  const cuts = new Float64Array(thresholds === undefined ? 0 : thresholds.reduce((total, list) => total + list.length, 0));
+  if (thresholds !== undefined) {
+    for (let j = 0; j < k; j++) {
+      cuts.set(thresholds[j], cutStart[j]);
+      cutStart[j + 1] = cutStart[j] + thresholds[j].length;
+    }
+  }
   let usable = 0;
   for (let draw = 0; draw < draws; draw++) {
-    for (let i = 0; i < n; i++) {
-      const common = random.nextNormal();
-      for (let j = 0; j < k; j++) data[j * n + i] = weight[j] * common + unique[j] * random.nextNormal();
-    }
-    if (thresholds !== undefined) {
-      for (let j = 0; j < k; j++) {
-        const cuts = thresholds[j];
-        const offset = j * n;
-        for (let i = 0; i < n; i++) {
-          const value = data[offset + i];
-          let category = 0;
-          while (category < cuts.length && value > cuts[category]) category++;
-          data[offset + i] = category;
-        }
-      }
-    }
+    random.fillNormal(normals, 0, n * stride);
+    if (thresholds === undefined) combineDraw(normals, weight, unique, data, n, k);
+    else combineAndCutDraw(normals, weight, unique, cuts, cutStart, data, n, k);
     const simulated = correlateDraw(matrix, method);
     if (simulated === null) continue;
     const fit = minresOneFactor(simulated);
@@ -260,6 +260,52 @@ export function residualBootstrap(loadings: ArrayLike<number>, sampleSize: numbe
     usableDraws: usable,
     notices,
   };
+}
+
+/**
+ * One draw's values x_j = λ_j f + u_j e_j, item-major (`data[j * n + i]`), from the draw's normal
+ * variates (`normals[i * (k + 1)]` is respondent i's f, `normals[i * (k + 1) + 1 + j]` its e_j).
+ */
+function combineDraw(normals: Float64Array, weight: Float64Array, unique: Float64Array, data: Float64Array, n: number, k: number): void {
+  const stride = k + 1;
+  for (let j = 0; j < k; j++) {
+    const loading = weight[j];
+    const uniqueness = unique[j];
+    const offset = j * n;
+    for (let i = 0, at = 0; i < n; i++, at += stride) data[offset + i] = loading * normals[at] + uniqueness * normals[at + 1 + j];
+  }
+}
+
+/**
+ * As combineDraw, each value cut into its category as it is made: the number of item j's cuts
+ * (`cuts[cutStart[j]]` to `cuts[cutStart[j + 1] - 1]`, ascending) below it.
+ */
+function combineAndCutDraw(
+  normals: Float64Array,
+  weight: Float64Array,
+  unique: Float64Array,
+  cuts: Float64Array,
+  cutStart: Int32Array,
+  data: Float64Array,
+  n: number,
+  k: number,
+): void {
+  const stride = k + 1;
+  for (let j = 0; j < k; j++) {
+    const loading = weight[j];
+    const uniqueness = unique[j];
+    const offset = j * n;
+    const first = cutStart[j];
+    const last = cutStart[j + 1];
+    for (let i = 0, at = 0; i < n; i++, at += stride) {
+      const value = loading * normals[at] + uniqueness * normals[at + 1 + j];
+      // Counted without a branch per cut (the cuts ascend, so this is the index of the first cut
+      // at or above the value): a data-dependent exit mispredicts on random values.
+      let category = 0;
+      for (let cut = first; cut < last; cut++) category += ((value > cuts[cut]) as unknown as number) | 0;
+      data[offset + i] = category;
+    }
+  }
 }
 
 /** The correlation matrix of one draw, or null when an item came out constant. */

@@ -39,67 +39,171 @@ function splitMix32(state: number): () => number {
  * @returns A generator; two generators with the same seed give the same sequence.
  * References: Blackman & Vigna 2021, "Scrambled linear pseudorandom number generators".
  */
-export function createSeededRandom(seed: number): SeededRandom {
+export function createSeededRandom(seed: number): SeededRandomGenerator {
   if (!Number.isInteger(seed)) throw new RangeError(`createSeededRandom: seed must be a finite integer, got ${seed}`);
-  const mix = splitMix32(seed);
-  let a = mix();
-  let b = mix();
-  let c = mix();
-  let d = mix();
-  if ((a | b | c | d) === 0) a = 1;
+  return new SeededRandomGenerator(seed);
+}
 
-  const nextUint32 = (): number => {
+/**
+ * The generator behind `createSeededRandom`: its state in fields (four 32-bit words, and the
+ * polar method's second variate with a flag), so that hot loops such as a parametric bootstrap's
+ * draws run without closure calls. `fillNormal` gives exactly the values of as many `nextNormal`
+ * calls, in the same order, and leaves the same state behind.
+ * References: Blackman & Vigna 2021 (xoshiro128**); Marsaglia & Bray 1964 (polar method).
+ */
+export class SeededRandomGenerator implements SeededRandom {
+  readonly seed: number;
+  private a: number;
+  private b: number;
+  private c: number;
+  private d: number;
+  /** The second variate of the last polar pair, valid while `hasSpare`. */
+  private spare = 0;
+  private hasSpare = false;
+
+  /**
+   * @param seed Any finite integer (taken modulo 2^32); checked by `createSeededRandom`.
+   */
+  constructor(seed: number) {
+    this.seed = seed;
+    const mix = splitMix32(seed);
+    this.a = mix();
+    this.b = mix();
+    this.c = mix();
+    this.d = mix();
+    if ((this.a | this.b | this.c | this.d) === 0) this.a = 1;
+  }
+
+  /** Next 32-bit output of xoshiro128**, as an unsigned integer. */
+  nextUint32(): number {
+    const b = this.b;
     const result = Math.imul(rotl(Math.imul(b, 5), 7), 9) >>> 0;
     const t = b << 9;
+    let a = this.a;
+    let c = this.c;
+    let d = this.d;
     c ^= a;
     d ^= b;
-    b ^= c;
+    const nextB = b ^ c;
     a ^= d;
     c ^= t;
-    d = rotl(d, 11);
+    this.a = a;
+    this.b = nextB;
+    this.c = c;
+    this.d = rotl(d, 11);
     return result;
-  };
+  }
 
-  let spareNormal: number | null = null;
-
-  const next = (): number => {
-    const high = nextUint32() >>> 5; // 27 bits
-    const low = nextUint32() >>> 6; // 26 bits
+  /** Uniform double in [0, 1) with 53 random bits. */
+  next(): number {
+    const high = this.nextUint32() >>> 5; // 27 bits
+    const low = this.nextUint32() >>> 6; // 26 bits
     return (high * 67108864 + low) / 9007199254740992;
-  };
+  }
 
-  return {
-    seed,
-    next,
-    nextInt(bound: number): number {
-      if (!Number.isInteger(bound) || bound < 1 || bound > 4294967296) {
-        throw new RangeError(`nextInt: bound must be an integer from 1 to 2^32, got ${bound}`);
-      }
-      const limit = 4294967296 - (4294967296 % bound);
-      let value = nextUint32();
-      while (value >= limit) value = nextUint32();
-      return value % bound;
-    },
-    nextNormal(): number {
-      if (spareNormal !== null) {
-        const value = spareNormal;
-        spareNormal = null;
-        return value;
-      }
+  /** Uniform integer in [0, bound) without modulo bias. @throws RangeError unless 1 <= bound <= 2^32. */
+  nextInt(bound: number): number {
+    if (!Number.isInteger(bound) || bound < 1 || bound > 4294967296) {
+      throw new RangeError(`nextInt: bound must be an integer from 1 to 2^32, got ${bound}`);
+    }
+    const limit = 4294967296 - (4294967296 % bound);
+    let value = this.nextUint32();
+    while (value >= limit) value = this.nextUint32();
+    return value % bound;
+  }
+
+  /** Standard normal variate (mean 0, SD 1), Marsaglia's polar method. */
+  nextNormal(): number {
+    if (this.hasSpare) {
+      this.hasSpare = false;
+      return this.spare;
+    }
+    let u = 0;
+    let v = 0;
+    let s = 0;
+    do {
+      u = 2 * this.next() - 1;
+      v = 2 * this.next() - 1;
+      s = u * u + v * v;
+    } while (s >= 1 || s === 0);
+    const factor = Math.sqrt((-2 * Math.log(s)) / s);
+    this.spare = v * factor;
+    this.hasSpare = true;
+    return u * factor;
+  }
+
+  /**
+   * Writes `count` standard normal variates into `target` from `offset` on: the values of as many
+   * `nextNormal` calls, in order, with the generator left as they would leave it. The state is
+   * kept in locals for the loop (the whole stream in one function, no calls per value).
+   * @param target Where the values go.
+   * @param offset First index written.
+   * @param count How many values.
+   * @throws {RangeError} when the range does not fit in `target`.
+   * References: Marsaglia & Bray 1964, "A convenient method for generating normal variables".
+   */
+  fillNormal(target: Float64Array, offset: number, count: number): void {
+    if (!Number.isInteger(offset) || !Number.isInteger(count) || offset < 0 || count < 0 || offset + count > target.length) {
+      throw new RangeError(`fillNormal: ${count} values from ${offset} do not fit in ${target.length}`);
+    }
+    let index = offset;
+    const end = offset + count;
+    if (index < end && this.hasSpare) {
+      this.hasSpare = false;
+      target[index++] = this.spare;
+    }
+    let a = this.a;
+    let b = this.b;
+    let c = this.c;
+    let d = this.d;
+    while (index < end) {
       let u = 0;
       let v = 0;
       let s = 0;
       do {
-        u = 2 * next() - 1;
-        v = 2 * next() - 1;
+        // Four outputs of xoshiro128** (two doubles of 53 bits), as nextUint32 and next make them;
+        // the words stay signed 32-bit integers here (the same bits; `>>>` reads them unsigned).
+        let x = Math.imul(b, 5);
+        let result = Math.imul((x << 7) | (x >>> 25), 9);
+        let t = b << 9;
+        c ^= a; d ^= b; b ^= c; a ^= d; c ^= t; d = (d << 11) | (d >>> 21);
+        let high = result >>> 5;
+        x = Math.imul(b, 5);
+        result = Math.imul((x << 7) | (x >>> 25), 9);
+        t = b << 9;
+        c ^= a; d ^= b; b ^= c; a ^= d; c ^= t; d = (d << 11) | (d >>> 21);
+        let low = result >>> 6;
+        u = 2 * ((high * 67108864 + low) * UNIT_53) - 1;
+        x = Math.imul(b, 5);
+        result = Math.imul((x << 7) | (x >>> 25), 9);
+        t = b << 9;
+        c ^= a; d ^= b; b ^= c; a ^= d; c ^= t; d = (d << 11) | (d >>> 21);
+        high = result >>> 5;
+        x = Math.imul(b, 5);
+        result = Math.imul((x << 7) | (x >>> 25), 9);
+        t = b << 9;
+        c ^= a; d ^= b; b ^= c; a ^= d; c ^= t; d = (d << 11) | (d >>> 21);
+        low = result >>> 6;
+        v = 2 * ((high * 67108864 + low) * UNIT_53) - 1;
         s = u * u + v * v;
       } while (s >= 1 || s === 0);
       const factor = Math.sqrt((-2 * Math.log(s)) / s);
-      spareNormal = v * factor;
-      return u * factor;
-    },
-  };
+      target[index++] = u * factor;
+      if (index < end) target[index++] = v * factor;
+      else {
+        this.spare = v * factor;
+        this.hasSpare = true;
+      }
+    }
+    this.a = a;
+    this.b = b;
+    this.c = c;
+    this.d = d;
+  }
 }
+
+/** 2^−53: dividing by 2^53 and multiplying by this give the same double (a power of two). */
+const UNIT_53 = 1 / 9007199254740992;
 
 function rotl(x: number, k: number): number {
   return ((x << k) | (x >>> (32 - k))) >>> 0;

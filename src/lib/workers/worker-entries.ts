@@ -51,5 +51,12 @@ export const RANDOM_EIGENVALUE_WORKER: WorkerEntry = Object.freeze({
   built: 'random-eigenvalue-worker.mjs',
 });
 
+/** The local-dependence residual bootstrap of the full sample, some scales per thread (src/lib/audit/residual-bootstrap-threads.ts). */
+export const RESIDUAL_BOOTSTRAP_WORKER: WorkerEntry = Object.freeze({
+  name: 'paredown-residual-bootstrap',
+  source: 'src/lib/audit/residual-bootstrap-worker.ts',
+  built: 'residual-bootstrap-worker.mjs',
+});
+
 /** Every entry the build bundles. */
-export const WORKER_ENTRIES: readonly WorkerEntry[] = Object.freeze([AUDIT_WORKER, WHAT_IF_WORKER, WAVE_READER_WORKER, RESAMPLE_WORKER, RANDOM_EIGENVALUE_WORKER]);
+export const WORKER_ENTRIES: readonly WorkerEntry[] = Object.freeze([AUDIT_WORKER, WHAT_IF_WORKER, WAVE_READER_WORKER, RESAMPLE_WORKER, RANDOM_EIGENVALUE_WORKER, RESIDUAL_BOOTSTRAP_WORKER]);
