@@ -51,17 +51,28 @@ export function weightedPearson(matrix: ItemMatrix, weights: Float64Array, colum
       w[t++] = weights[i];
     }
   }
-  // The drawn rows of each item, and which of them answer any item.
+  // The drawn rows of each item, which of them answer any item, and whether every answer is an
+  // integer (and any negative) with the largest |answer|.
   const answersAny = new Uint8Array(distinct);
   let hasMissing = false;
+  let integral = true;
+  let negative = false;
+  let largest = 0;
   const values: Float64Array[] = columns.map((j) => {
     const column = new Float64Array(distinct);
     const source = j * rows;
     for (let t = 0; t < distinct; t++) {
       const x = matrix.data[source + drawn[t]];
       column[t] = x;
-      if (x === x) answersAny[t] = 1;
-      else hasMissing = true;
+      if (x === x) {
+        answersAny[t] = 1;
+        if (integral && !Number.isInteger(x)) integral = false;
+        const magnitude = x < 0 ? -x : x;
+        if (magnitude > largest) largest = magnitude;
+        if (x < 0) negative = true;
+      } else {
+        hasMissing = true;
+      }
     }
     return column;
   });
@@ -79,9 +90,8 @@ export function weightedPearson(matrix: ItemMatrix, weights: Float64Array, colum
   const covN = new Float64Array(order * order);
   const undefinedR: ItemPair[] = [];
   const undefinedCov: [number, number][] = [];
-  const largest = exactIntegerScale(values, total);
-  if (largest >= 0) {
-    integerPairs(values, w, hasMissing, total, largest, {
+  if (integral && total * Math.max(1, largest) < EXACT_INTEGER_SCALE) {
+    integerPairs(values, w, hasMissing, total, negative ? -1 : largest, {
       r,
       rN,
       cov,
@@ -147,26 +157,11 @@ interface PairTargets {
   readonly undefinedCov: [number, number][];
 }
 
-/** Largest n · max|x| for which every sum of the integer path stays an exact integer (n² max² < 2^53). */
-const EXACT_INTEGER_SCALE = 2 ** 26;
-
 /**
- * The largest |x| when every observed value is an integer and n · max|x| is small enough for
- * exact sums; -1 otherwise.
+ * Largest n · max|x| for which every sum of the integer path stays an exact integer (n² max² <
+ * 2^53): the integer path is taken when every observed answer is an integer and n · max|x| is below it.
  */
-function exactIntegerScale(values: readonly Float64Array[], total: number): number {
-  let largest = 0;
-  for (const column of values) {
-    for (let t = 0; t < column.length; t++) {
-      const x = column[t];
-      if (x !== x) continue;
-      if (!Number.isInteger(x)) return -1;
-      const magnitude = x < 0 ? -x : x;
-      if (magnitude > largest) largest = magnitude;
-    }
-  }
-  return total * Math.max(1, largest) < EXACT_INTEGER_SCALE ? largest : -1;
-}
+const EXACT_INTEGER_SCALE = 2 ** 26;
 
 /**
  * Stores a pair's (weighted) count in both count matrices (an item's own entry in the correlation
@@ -203,17 +198,8 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
   const order = values.length;
   const distinct = w.length;
   const { r, cov, undefinedR } = out;
-  // Non-negative answers may share a double in the products (packedLanes).
-  let negative = false;
-  for (let a = 0; a < order && !negative; a++) {
-    const column = values[a];
-    for (let t = 0; t < distinct; t++) {
-      if (column[t] < 0) {
-        negative = true;
-        break;
-      }
-    }
-  }
+  // Non-negative answers may share a double in the products (packedLanes); `largest` is -1 with a negative answer.
+  const negative = largest < 0;
   const lanes = negative ? 1 : packedLanes(total * largest * largest);
   // Per item, one block each: weight × answer (0 where missing; blocks padded with zero items to
   // the kernel's tiles of three), the answers packed `lanes` to a double, and the item's totals
@@ -226,7 +212,9 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
   const totalWeight = new Float64Array(order);
   const totalX = new Float64Array(order);
   const totalXX = new Float64Array(order);
-  const rowMisses = new Uint8Array(distinct);
+  const missingOf: Int32Array[] = [];
+  const scratch = new Int32Array(distinct);
+  const missesInRow = new Int32Array(distinct + 1);
   for (let a = 0; a < order; a++) {
     const column = values[a];
     const offset = a * distinct;
@@ -235,10 +223,12 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
     let sw = 0;
     let sx = 0;
     let sxx = 0;
+    let countMissing = 0;
     for (let t = 0; t < distinct; t++) {
       const x = column[t];
       if (x !== x) {
-        rowMisses[t] = 1;
+        scratch[countMissing++] = t;
+        missesInRow[t]++;
         continue;
       }
       wx[offset + t] = w[t] * x;
@@ -250,43 +240,51 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
     totalWeight[a] = sw;
     totalX[a] = sx;
     totalXX[a] = sxx;
+    missingOf.push(scratch.slice(0, countMissing));
   }
   // Σ w·x·y over every distinct row (0 where either is missing): (w∘X₀)ᵀX₀ by the blocked kernel.
   const products = new Float64Array(order * order);
   weightedIntegerProducts(wx, packed, order, distinct, lanes, products);
-  // What the rows missing item b hold of item a (row-major [b · order + a]): weight where a is
-  // answered, weight × answer, weight × square.
+  // What item a holds in the rows where item b is missing (row-major [a · order + b]): weight where
+  // a is answered, weight × answer, weight × square. The rows missing some item, each with the
+  // items it misses (compressed rows), are read item by item.
   const lessWeight = new Float64Array(order * order);
   const lessX = new Float64Array(order * order);
   const lessXX = new Float64Array(order * order);
   if (hasMissing) {
-    const rowWeight = new Float64Array(order);
-    const rowX = new Float64Array(order);
-    const rowXX = new Float64Array(order);
-    const missed: number[] = [];
-    for (let t = 0; t < distinct; t++) {
-      if (rowMisses[t] === 0) continue;
-      missed.length = 0;
-      const weight = w[t];
-      for (let a = 0; a < order; a++) {
-        const x = values[a][t];
-        if (x !== x) {
-          missed.push(a);
-          rowWeight[a] = 0;
-          rowX[a] = 0;
-          rowXX[a] = 0;
-        } else {
-          rowWeight[a] = weight;
-          rowX[a] = weight * x;
-          rowXX[a] = weight * x * x;
-        }
-      }
-      for (const b of missed) {
-        const offset = b * order;
-        for (let a = 0; a < order; a++) {
-          lessWeight[offset + a] += rowWeight[a];
-          lessX[offset + a] += rowX[a];
-          lessXX[offset + a] += rowXX[a];
+    let rowsMissing = 0;
+    for (let t = 0; t < distinct; t++) if (missesInRow[t] > 0) rowsMissing++;
+    const missingRows = new Int32Array(rowsMissing);
+    const start = new Int32Array(rowsMissing + 1);
+    const position = new Int32Array(distinct);
+    for (let t = 0, m = 0; t < distinct; t++) {
+      if (missesInRow[t] === 0) continue;
+      missingRows[m] = t;
+      position[t] = m;
+      start[m + 1] = start[m] + missesInRow[t];
+      m++;
+    }
+    const missedItems = new Int32Array(start[rowsMissing]);
+    const filled = start.slice(0, rowsMissing);
+    for (let b = 0; b < order; b++) {
+      const list = missingOf[b];
+      for (let k = 0; k < list.length; k++) missedItems[filled[position[list[k]]]++] = b;
+    }
+    for (let a = 0; a < order; a++) {
+      const column = values[a];
+      const offset = a * order;
+      for (let m = 0; m < rowsMissing; m++) {
+        const t = missingRows[m];
+        const x = column[t];
+        if (x !== x) continue;
+        const weight = w[t];
+        const weightX = weight * x;
+        const weightXX = weightX * x;
+        for (let k = start[m]; k < start[m + 1]; k++) {
+          const target = offset + missedItems[k];
+          lessWeight[target] += weight;
+          lessX[target] += weightX;
+          lessXX[target] += weightXX;
         }
       }
     }
@@ -294,11 +292,11 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
   for (let a = 0; a < order; a++) {
     for (let b = a; b < order; b++) {
       // a's sums over the rows where b is answered, and b's over those where a is.
-      const n = totalWeight[a] - lessWeight[b * order + a];
-      const sx = totalX[a] - lessX[b * order + a];
-      const sxx = totalXX[a] - lessXX[b * order + a];
-      const sy = totalX[b] - lessX[a * order + b];
-      const syy = totalXX[b] - lessXX[a * order + b];
+      const n = totalWeight[a] - lessWeight[a * order + b];
+      const sx = totalX[a] - lessX[a * order + b];
+      const sxx = totalXX[a] - lessXX[a * order + b];
+      const sy = totalX[b] - lessX[b * order + a];
+      const syy = totalXX[b] - lessXX[b * order + a];
       const sxy = products[a * order + b];
       if (!recordPairCount(out, order, a, b, n, hasMissing ? n : total)) continue;
       const centredXY = n * sxy - sx * sy;
