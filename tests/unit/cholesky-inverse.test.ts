@@ -11,7 +11,7 @@ import { choleskyInverse } from '../../src/lib/stats/cholesky-inverse';
 import { correlationMatrix } from '../../src/lib/stats/correlation-matrix';
 import { createSeededRandom } from '../../src/lib/stats/seeded-random';
 import { spectralInverse } from '../../src/lib/stats/spectral-inverse';
-import { symmetricEigen } from '../../src/lib/stats/symmetric-eigen';
+import { symmetricEigen, symmetricEigenvalues } from '../../src/lib/stats/symmetric-eigen';
 import type { SquareMatrix } from '../../src/lib/stats/types';
 import { varianceInflation, varianceInflationFromInverse } from '../../src/lib/stats/variance-inflation';
 
@@ -118,5 +118,25 @@ describe('varianceInflationFromInverse and inflationWithInverse', () => {
     expect(after.exactDependencies).toEqual(before.exactDependencies);
     expect(after.exactDependencies.length).toBe(1);
     expect(after.vif).toEqual(before.vif);
+  });
+
+  it('reuses the eigenvalues of the correlation check (pairwise with missing answers): the same values, the same figures', () => {
+    const random = createSeededRandom(77);
+    const rows = 300;
+    const columns = 9;
+    const data = new Float64Array(rows * columns);
+    for (let i = 0; i < rows; i++) {
+      const common = random.nextNormal();
+      for (let j = 0; j < columns; j++) data[j * rows + i] = random.next() < 0.1 ? Number.NaN : Math.round(3 + common + random.nextNormal());
+    }
+    const correlation = correlationMatrix({ rows, columns, data }, { method: 'pearson', missing: 'pairwise' });
+    expect(correlation.repaired).toBe(false);
+    expect(Array.from(correlation.eigenvalues!)).toEqual(Array.from(symmetricEigenvalues(correlation.matrix)));
+    const items = Array.from({ length: columns }, (__, j) => engineItem(`q${j}`));
+    const usable = items.map((__, j) => j);
+    const reused = inflationWithInverse(correlation.matrix, items, usable, correlation.eigenvalues);
+    const computed = inflationWithInverse(correlation.matrix, items, usable);
+    expect(reused).toEqual(computed);
+    expect(() => inflationWithInverse(correlation.matrix, items, usable, new Float64Array(3))).toThrow(/3 eigenvalues/);
   });
 });

@@ -340,7 +340,10 @@ export function computeEvidence(
   const covariance = moments?.covariance ?? covarianceMatrix(data, { missing: settings.missing, ...(crossProducts ? { crossProducts } : {}) });
   warnings.push(...warningsFromNotices(covariance.notices, items, usable));
 
-  const overlap = options.inverse === true ? inflationWithInverse(matrixR, items, usable) : inflationAndSpectrum(matrixR, items, usable);
+  const overlap =
+    options.inverse === true
+      ? inflationWithInverse(matrixR, items, usable, matrixR === correlation.matrix ? correlation.eigenvalues : undefined)
+      : inflationAndSpectrum(matrixR, items, usable);
   warnings.push(...overlap.warnings);
 
   const collinearity = collinearityEvidence(data, items, usable, warnings, detail, crossProducts);
@@ -471,7 +474,9 @@ export function inflationAndSpectrum(correlation: SquareMatrix, items: readonly 
  * @param correlation Correlation matrix over `usable` (positive semi-definite).
  * @param items All items.
  * @param usable Indices into items[] of the matrix's items.
- * @throws {RangeError} as `inflationAndSpectrum`.
+ * @param eigenvalues The matrix's eigenvalues (descending, `symmetricEigenvalues`) when already
+ *   at hand (the correlation's indefiniteness check), else computed here.
+ * @throws {RangeError} as `inflationAndSpectrum`, or when the eigenvalues do not match the order.
  * @returns The figures of `inflationAndSpectrum` (without the decomposition) and `inverse`.
  * References: Marquardt 1970 (VIF); Golub & Van Loan 2013, §4.2 (Cholesky).
  */
@@ -479,9 +484,11 @@ export function inflationWithInverse(
   correlation: SquareMatrix,
   items: readonly EngineItem[],
   usable: readonly number[],
+  eigenvalues?: Float64Array,
 ): Omit<InflationAndSpectrum, 'eigen'> & { readonly inverse: SquareMatrix | null } {
   if (correlation.order !== usable.length) throw new RangeError(`inflationWithInverse: matrix of order ${correlation.order} for ${usable.length} usable items`);
-  const values = symmetricEigenvalues(correlation);
+  if (eigenvalues !== undefined && eigenvalues.length !== correlation.order) throw new RangeError(`inflationWithInverse: ${eigenvalues.length} eigenvalues for a matrix of order ${correlation.order}`);
+  const values = eigenvalues ?? symmetricEigenvalues(correlation);
   const order = values.length;
   if (order > 0 && !summarizeSpectrum(values).singular && values[order - 1] > 0 && values[0] / values[order - 1] <= INVERSE_MAX_CONDITION) {
     const inverse = choleskyInverse(correlation);
