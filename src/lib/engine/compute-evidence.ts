@@ -311,7 +311,10 @@ export function computeEvidence(
     }
     correlation = moments?.correlation ?? correlationMatrix(data, { method: settings.method, missing: settings.missing, ...(crossProducts ? { crossProducts } : {}) });
   }
-  const completeData = crossProducts !== undefined ? crossProducts.rows === data.rows : completeRows(data).length === data.rows;
+  // The complete rows, found once for the completeness flag and the Belsley-Kuh-Welsch diagnostics
+  // (infinite values refused as the diagnostics refuse them).
+  const complete = crossProducts !== undefined ? undefined : completeRows(data, 'belsleyCollinearity');
+  const completeData = complete === undefined ? (crossProducts as CenteredCrossProducts).rows === data.rows : complete.length === data.rows;
   warnings.push(...warningsFromNotices(correlation.notices, items, usable));
   if (settings.method === 'polychoric') warnings.push(...polychoricSampleWarnings(correlation, items, usable));
   // An indefinite matrix (pairwise or polychoric) is smoothed by Bentler & Yuan's (2011) scaling
@@ -346,7 +349,7 @@ export function computeEvidence(
       : inflationAndSpectrum(matrixR, items, usable);
   warnings.push(...overlap.warnings);
 
-  const collinearity = collinearityEvidence(data, items, usable, warnings, detail, crossProducts);
+  const collinearity = collinearityEvidence(data, items, usable, warnings, detail, crossProducts, complete);
   const reliability = scaleReliability({ items, usable, covariance: covariance.matrix, correlation: matrixR, detail });
   warnings.push(...reliability.warnings);
 
@@ -595,10 +598,11 @@ function collinearityEvidence(
   warnings: EngineWarning[],
   detail: 'full' | 'decision',
   crossProducts: CenteredCrossProducts | undefined,
+  complete: readonly number[] | undefined,
 ): CollinearityEvidence | null {
   // Bootstrap resamples take the Gram-matrix path (one cross-product pass and a small
   // eigen-decomposition): its relative error, about ε·η², is harmless below η = 1e4.
-  let result = belsleyCollinearity(data, { path: detail === 'decision' ? 'gram' : 'auto', ...(crossProducts ? { crossProducts } : {}) });
+  let result = belsleyCollinearity(data, { path: detail === 'decision' ? 'gram' : 'auto', ...(crossProducts ? { crossProducts } : {}), ...(complete ? { completeRows: complete } : {}) });
   const width = usable.length + 1;
   let fromEm = false;
   // With scattered missing answers the complete rows can be too few (a 54-item wave with 3%

@@ -191,7 +191,7 @@ function recordPairCount(out: PairTargets, order: number, a: number, b: number, 
  * sums over the rows where both answered are masked cross-products: Σ w·x·y = (w∘X₀)ᵀX₀, and the
  * weight, Σ w·x and Σ w·x² of an item where its partner answered are its totals less
  * (w∘M)ᵀ(1 − M), (w∘X₀)ᵀ(1 − M) and (w∘X₀∘X₀)ᵀ(1 − M), the complement of the mask being sparse
- * (as in masked-cross-products.ts), taken row by row over the rows that miss an answer. Exact sums
+ * (as in masked-cross-products.ts), taken item by item over the rows that miss an answer. Exact sums
  * make this bit for bit the one-pass pair loop.
  */
 function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissing: boolean, total: number, largest: number, out: PairTargets): void {
