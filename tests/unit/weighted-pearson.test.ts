@@ -11,6 +11,7 @@ import { covarianceMatrix } from '../../src/lib/stats/covariance-matrix';
 import { createSeededRandom } from '../../src/lib/stats/seeded-random';
 import { selectItems, selectRespondents, type ItemMatrix } from '../../src/lib/stats/types';
 import { weightedPearson } from '../../src/lib/stats/weighted-pearson';
+import { weightedPearsonReference } from './weighted-pearson-reference';
 
 function randomMatrix(rows: number, columns: number, missingShare: number, seed: number): ItemMatrix {
   const random = createSeededRandom(seed);
@@ -111,6 +112,67 @@ describe('weightedPearson', () => {
         expect(result.covariance.matrix.data[a * order + b]).toBe(centredXY / (n * (n - 1)));
         expect(result.correlation.n.data[a * order + b]).toBe(n);
       }
+    }
+  });
+
+  // The masked products through the blocked kernel (three items of w∘X₀ by four doubles of X₀,
+  // up to three items packed to a double, rows 256 at a time, the missing rows' complement row by
+  // row) against the earlier pair loop, bit for bit: odd orders (tile remainders), more distinct
+  // rows than one row tile, every packing (3 lanes: n·max² < 2^17; 2: < 2^26; 1: larger, or a
+  // negative answer) and several missing patterns.
+  function integerMatrix(rows: number, columns: number, seed: number, pattern: 'none' | 'scattered' | 'blocks' | 'item-gone', spread: { low: number; high: number }): ItemMatrix {
+    const random = createSeededRandom(seed);
+    const data = new Float64Array(rows * columns);
+    const span = spread.high - spread.low;
+    for (let i = 0; i < rows; i++) {
+      const common = random.nextNormal();
+      for (let j = 0; j < columns; j++) {
+        const centred = 0.5 + (common * 0.6 + random.nextNormal() * 0.8) / 4;
+        let value = Math.round(spread.low + span * Math.min(1, Math.max(0, centred)));
+        if (pattern === 'scattered' && random.next() < 0.07) value = Number.NaN;
+        if (pattern === 'blocks' && i % 17 < 3 && j % 5 < 2) value = Number.NaN;
+        if (pattern === 'item-gone' && j === 1 && i % 3 !== 0) value = Number.NaN;
+        data[j * rows + i] = value;
+      }
+    }
+    return { rows, columns, data };
+  }
+
+  function expectSameBits(actual: Float64Array, expected: Float64Array): void {
+    expect(actual.length).toBe(expected.length);
+    let differing = 0;
+    for (let t = 0; t < actual.length; t++) if (!Object.is(actual[t], expected[t])) differing++;
+    expect(differing).toBe(0);
+  }
+
+  it.each([
+    ['1 item, scattered missing, 3 lanes', 40, 1, 'scattered', 1, 5],
+    ['2 items, complete, 3 lanes', 31, 2, 'none', 1, 5],
+    ['5 items, scattered missing, 3 lanes', 157, 5, 'scattered', 1, 5],
+    ['7 items, blocks missing, 700 rows (row tiles), 3 lanes', 700, 7, 'blocks', 1, 7],
+    ['13 items, one item mostly missing, 3 lanes', 333, 13, 'item-gone', 0, 4],
+    ['26 items, scattered missing, 2 lanes', 611, 26, 'scattered', 1, 30],
+    ['11 items, complete, 2 lanes', 900, 11, 'none', 0, 100],
+    ['10 items, scattered missing, 1 lane (large answers)', 301, 10, 'scattered', 0, 5000],
+    ['9 items, blocks missing, 1 lane (negative answers)', 263, 9, 'blocks', -3, 3],
+  ] as const)('equals the earlier pair loop bit for bit: %s', (_, rows, columns, pattern, low, high) => {
+    const matrix = integerMatrix(rows, columns, rows * 31 + columns, pattern, { low, high });
+    for (const seed of [3, 8]) {
+      const { weights } = resample(rows, seed);
+      const used = Array.from({ length: columns }, (__, j) => j);
+      const expected = weightedPearsonReference(matrix, weights, used, 'pairwise')!;
+      const actual = weightedPearson(matrix, weights, used, 'pairwise')!;
+      expectSameBits(actual.correlation.matrix.data, expected.correlation.matrix.data);
+      expectSameBits(actual.correlation.n.data, expected.correlation.n.data);
+      expectSameBits(actual.covariance.matrix.data, expected.covariance.matrix.data);
+      expectSameBits(actual.covariance.n.data, expected.covariance.n.data);
+      expect(actual.correlation.undefinedPairs).toEqual(expected.correlation.undefinedPairs);
+      expect(actual.covariance.undefinedPairs).toEqual(expected.covariance.undefinedPairs);
+      expect([actual.correlation.rowsUsed, actual.correlation.indefinite, actual.correlation.repaired]).toEqual([
+        expected.correlation.rowsUsed,
+        expected.correlation.indefinite,
+        expected.correlation.repaired,
+      ]);
     }
   });
 

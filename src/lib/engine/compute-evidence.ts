@@ -11,6 +11,7 @@
  * of every matrix and reported in `warnings`; their per-item statistics are null.
  */
 import { alphaIfItemDeleted } from '../stats/alpha-if-item-deleted';
+import { choleskyInverse } from '../stats/cholesky-inverse';
 import { belsleyCollinearity, belsleyCollinearityFromMoments } from '../stats/belsley-collinearity';
 import { conditionNumber } from '../stats/condition-number';
 import { correlationMatrix, usableItems } from '../stats/correlation-matrix';
@@ -24,12 +25,12 @@ import { itemDescriptives } from '../stats/item-descriptives';
 import { itemRestCorrelations } from '../stats/item-rest-correlation';
 import { minresOneFactor } from '../stats/minres-factor';
 import { omegaTotal } from '../stats/omega-total';
-import { spectralInverse } from '../stats/spectral-inverse';
+import { spectralInverse, summarizeSpectrum } from '../stats/spectral-inverse';
 import { symmetricEigen, symmetricEigenvalues, type SymmetricEigenDecomposition } from '../stats/symmetric-eigen';
 import { POLYCHORIC_MINIMUM_N, REPAIR_EIGENVALUE_FLOOR, TETRACHORIC_MINIMUM_N } from '../stats/tolerances';
 import { selectItems, selectRespondents, type ItemMatrix, type NumericalNotice, type SquareMatrix } from '../stats/types';
 import { undefinedPairCover } from '../stats/undefined-pair-cover';
-import { varianceInflation } from '../stats/variance-inflation';
+import { varianceInflation, varianceInflationFromInverse, type VarianceInflationResult } from '../stats/variance-inflation';
 import { weightedPearson } from '../stats/weighted-pearson';
 import { MAX_EM_ITEMS, type EngineSettings } from './engine-settings';
 import type { LocalDependenceDetectors, LocalDependenceReuse, LocalDependenceSettings } from './local-dependence';
@@ -310,7 +311,10 @@ export function computeEvidence(
     }
     correlation = moments?.correlation ?? correlationMatrix(data, { method: settings.method, missing: settings.missing, ...(crossProducts ? { crossProducts } : {}) });
   }
-  const completeData = crossProducts !== undefined ? crossProducts.rows === data.rows : completeRows(data).length === data.rows;
+  // The complete rows, found once for the completeness flag and the Belsley-Kuh-Welsch diagnostics
+  // (infinite values refused as the diagnostics refuse them).
+  const complete = crossProducts !== undefined ? undefined : completeRows(data, 'belsleyCollinearity');
+  const completeData = complete === undefined ? (crossProducts as CenteredCrossProducts).rows === data.rows : complete.length === data.rows;
   warnings.push(...warningsFromNotices(correlation.notices, items, usable));
   if (settings.method === 'polychoric') warnings.push(...polychoricSampleWarnings(correlation, items, usable));
   // An indefinite matrix (pairwise or polychoric) is smoothed by Bentler & Yuan's (2011) scaling
@@ -339,10 +343,13 @@ export function computeEvidence(
   const covariance = moments?.covariance ?? covarianceMatrix(data, { missing: settings.missing, ...(crossProducts ? { crossProducts } : {}) });
   warnings.push(...warningsFromNotices(covariance.notices, items, usable));
 
-  const overlap = inflationAndSpectrum(matrixR, items, usable);
+  const overlap =
+    options.inverse === true
+      ? inflationWithInverse(matrixR, items, usable, matrixR === correlation.matrix ? correlation.eigenvalues : undefined)
+      : inflationAndSpectrum(matrixR, items, usable);
   warnings.push(...overlap.warnings);
 
-  const collinearity = collinearityEvidence(data, items, usable, warnings, detail, crossProducts);
+  const collinearity = collinearityEvidence(data, items, usable, warnings, detail, crossProducts, complete);
   const reliability = scaleReliability({ items, usable, covariance: covariance.matrix, correlation: matrixR, detail });
   warnings.push(...reliability.warnings);
 
@@ -372,7 +379,7 @@ export function computeEvidence(
     r2: overlap.r2,
     topPartner: overlap.topPartner,
     exactDependencies: overlap.exactDependencies,
-    ...(options.inverse === true ? { inverse: wellConditionedInverse(overlap.eigen) } : {}),
+    ...('inverse' in overlap ? { inverse: overlap.inverse } : {}),
     eigenvalues: overlap.eigenvalues,
     conditionNumber: overlap.conditionNumber,
     collinearity,
@@ -456,7 +463,53 @@ export function inflationAndSpectrum(correlation: SquareMatrix, items: readonly 
   if (correlation.order !== usable.length) throw new RangeError(`inflationAndSpectrum: matrix of order ${correlation.order} for ${usable.length} usable items`);
   const eigen = symmetricEigen(correlation);
   const inflation = varianceInflation(correlation, { eigen });
-  const condition = conditionNumber(correlation, { eigenvalues: eigen.values });
+  return { ...inflationFigures(correlation, items, usable, inflation, eigen.values), eigen };
+}
+
+/**
+ * As `inflationAndSpectrum`, with R⁻¹ when R is well conditioned (bootstrap resamples, for the
+ * VIF after removal by Schur complement), computed without eigenvectors where it can be: the
+ * eigenvalues alone (the same values, bit for bit, as the decomposition's) give the spectrum,
+ * the condition number and the check; when every eigenvalue is positive and λmax / λmin ≤
+ * INVERSE_MAX_CONDITION (so no exact dependency), R⁻¹ comes from the Cholesky factor and the VIFs
+ * are its diagonal (equal to the eigen path's up to rounding, order κ·ε). Otherwise the eigen
+ * path runs as before and R⁻¹ is null.
+ * @param correlation Correlation matrix over `usable` (positive semi-definite).
+ * @param items All items.
+ * @param usable Indices into items[] of the matrix's items.
+ * @param eigenvalues The matrix's eigenvalues (descending, `symmetricEigenvalues`) when already
+ *   at hand (the correlation's indefiniteness check), else computed here.
+ * @throws {RangeError} as `inflationAndSpectrum`, or when the eigenvalues do not match the order.
+ * @returns The figures of `inflationAndSpectrum` (without the decomposition) and `inverse`.
+ * References: Marquardt 1970 (VIF); Golub & Van Loan 2013, §4.2 (Cholesky).
+ */
+export function inflationWithInverse(
+  correlation: SquareMatrix,
+  items: readonly EngineItem[],
+  usable: readonly number[],
+  eigenvalues?: Float64Array,
+): Omit<InflationAndSpectrum, 'eigen'> & { readonly inverse: SquareMatrix | null } {
+  if (correlation.order !== usable.length) throw new RangeError(`inflationWithInverse: matrix of order ${correlation.order} for ${usable.length} usable items`);
+  if (eigenvalues !== undefined && eigenvalues.length !== correlation.order) throw new RangeError(`inflationWithInverse: ${eigenvalues.length} eigenvalues for a matrix of order ${correlation.order}`);
+  const values = eigenvalues ?? symmetricEigenvalues(correlation);
+  const order = values.length;
+  if (order > 0 && !summarizeSpectrum(values).singular && values[order - 1] > 0 && values[0] / values[order - 1] <= INVERSE_MAX_CONDITION) {
+    const inverse = choleskyInverse(correlation);
+    if (inverse !== null) return { ...inflationFigures(correlation, items, usable, varianceInflationFromInverse(correlation, inverse), values), inverse };
+  }
+  const { eigen, ...figures } = inflationAndSpectrum(correlation, items, usable);
+  return { ...figures, inverse: wellConditionedInverse(eigen) };
+}
+
+/** The per-item arrays (items[] order), spectrum, condition number and warnings of `inflationAndSpectrum`. */
+function inflationFigures(
+  correlation: SquareMatrix,
+  items: readonly EngineItem[],
+  usable: readonly number[],
+  inflation: VarianceInflationResult,
+  eigenvalues: Float64Array,
+): Omit<InflationAndSpectrum, 'eigen'> {
+  const condition = conditionNumber(correlation, { eigenvalues });
   const vif = new Array<number | null>(items.length).fill(null);
   const tolerance = new Array<number | null>(items.length).fill(null);
   const r2 = new Array<number | null>(items.length).fill(null);
@@ -473,9 +526,8 @@ export function inflationAndSpectrum(correlation: SquareMatrix, items: readonly 
     r2,
     topPartner,
     exactDependencies: inflation.exactDependencies.map((group) => group.map((k) => usable[k])),
-    eigenvalues: Array.from(eigen.values),
+    eigenvalues: Array.from(eigenvalues),
     conditionNumber: condition.value,
-    eigen,
     warnings: [...warningsFromNotices(inflation.notices, items, usable), ...warningsFromNotices(condition.notices, items, usable)],
   };
 }
@@ -546,10 +598,11 @@ function collinearityEvidence(
   warnings: EngineWarning[],
   detail: 'full' | 'decision',
   crossProducts: CenteredCrossProducts | undefined,
+  complete: readonly number[] | undefined,
 ): CollinearityEvidence | null {
   // Bootstrap resamples take the Gram-matrix path (one cross-product pass and a small
   // eigen-decomposition): its relative error, about ε·η², is harmless below η = 1e4.
-  let result = belsleyCollinearity(data, { path: detail === 'decision' ? 'gram' : 'auto', ...(crossProducts ? { crossProducts } : {}) });
+  let result = belsleyCollinearity(data, { path: detail === 'decision' ? 'gram' : 'auto', ...(crossProducts ? { crossProducts } : {}), ...(complete ? { completeRows: complete } : {}) });
   const width = usable.length + 1;
   let fromEm = false;
   // With scattered missing answers the complete rows can be too few (a 54-item wave with 3%

@@ -81,6 +81,11 @@ export interface BelsleyCollinearityOptions {
    * `rows` must equal the number of complete rows and its order the number of items.
    */
   readonly crossProducts?: CenteredCrossProducts;
+  /**
+   * The complete rows of the same matrix (ascending, as `completeRows(matrix, caller)` gives them,
+   * infinite values already refused), when the caller has them; otherwise they are found here.
+   */
+  readonly completeRows?: readonly number[];
 }
 
 /**
@@ -103,7 +108,7 @@ export function belsleyCollinearity(matrix: ItemMatrix, options: BelsleyCollinea
   if (!Number.isInteger(rows) || rows < 0 || data.length !== rows * columns) {
     throw new RangeError(`belsleyCollinearity: data holds ${data.length} values, expected rows × columns = ${rows * columns}`);
   }
-  const kept = completeRows(matrix, 'belsleyCollinearity');
+  const kept = options.completeRows ?? completeRows(matrix, 'belsleyCollinearity');
   const complete = kept.length === rows ? null : kept;
   const rowsUsed = kept.length;
   const width = columns + 1;

@@ -84,6 +84,12 @@ export interface CorrelationMatrixResult {
   readonly thresholds: readonly (readonly number[])[] | null;
   /** Smallest eigenvalue (before any repair) when it was checked (pairwise with missing data, or polychoric), else null. */
   readonly smallestEigenvalue: number | null;
+  /**
+   * The eigenvalues (descending) of the returned `matrix` when the check computed them and left
+   * the matrix as it was (not repaired); absent otherwise. Callers that need the spectrum of the
+   * same matrix may reuse them (the same values `symmetricEigenvalues` gives).
+   */
+  readonly eigenvalues?: Float64Array;
   /** True when the matrix was found indefinite (see the module notes). */
   readonly indefinite: boolean;
   /** True when `matrix` was repaired to the nearest correlation matrix (the raw one is `unrepaired`). */
@@ -349,12 +355,14 @@ export function finishCorrelationMatrix(prepared: PreparedCorrelationMatrix, pol
 
   let matrix: SquareMatrix = { order, data: values };
   let smallestEigenvalue: number | null = null;
+  let eigenvalues: Float64Array | undefined;
   let indefinite = false;
   let repaired = false;
   let unrepaired: SquareMatrix | null = null;
   if ((prepared.pairwiseWithMissing || method === 'polychoric') && order > 1) {
     if (prepared.repair === 'none') {
-      const spectrum = summarizeSpectrum(symmetricEigenvalues(matrix));
+      eigenvalues = symmetricEigenvalues(matrix);
+      const spectrum = summarizeSpectrum(eigenvalues);
       smallestEigenvalue = spectrum.smallest;
       indefinite = spectrum.indefinite;
     } else {
@@ -366,6 +374,8 @@ export function finishCorrelationMatrix(prepared: PreparedCorrelationMatrix, pol
         unrepaired = matrix;
         matrix = repair.matrix;
         notices.push(...repair.notices);
+      } else {
+        eigenvalues = repair.eigenvaluesBefore;
       }
     }
     if (indefinite && !repaired) {
@@ -387,6 +397,7 @@ export function finishCorrelationMatrix(prepared: PreparedCorrelationMatrix, pol
     correctedPairs,
     thresholds,
     smallestEigenvalue,
+    ...(eigenvalues === undefined ? {} : { eigenvalues }),
     indefinite,
     repaired,
     unrepaired,

@@ -50,6 +50,8 @@ export interface CorrelationRepairResult {
   readonly method: CorrelationRepairMethod | null;
   /** Smallest eigenvalue of the input. */
   readonly smallestEigenvalueBefore: number;
+  /** All eigenvalues of the input (descending), as `symmetricEigenvalues` gives them. */
+  readonly eigenvaluesBefore: Float64Array;
   /** Smallest eigenvalue of the returned matrix. */
   readonly smallestEigenvalueAfter: number;
   /** Frobenius norm of (returned − input): how much was changed overall. */
@@ -88,13 +90,15 @@ export function repairCorrelationMatrix(correlation: SquareMatrix, options: Corr
   if (!(tolerance > 0)) throw new RangeError(`repairCorrelationMatrix: tolerance must be positive, got ${tolerance}`);
 
   const { order } = correlation;
-  const before = summarizeSpectrum(symmetricEigenvalues(correlation));
+  const eigenvaluesBefore = symmetricEigenvalues(correlation);
+  const before = summarizeSpectrum(eigenvaluesBefore);
   if (!before.indefinite) {
     return {
       matrix: { order, data: Float64Array.from(correlation.data) },
       repaired: false,
       method: null,
       smallestEigenvalueBefore: before.smallest,
+      eigenvaluesBefore,
       smallestEigenvalueAfter: before.smallest,
       frobeniusChange: 0,
       largestChange: 0,
@@ -147,6 +151,7 @@ export function repairCorrelationMatrix(correlation: SquareMatrix, options: Corr
     repaired: true,
     method,
     smallestEigenvalueBefore: before.smallest,
+    eigenvaluesBefore,
     smallestEigenvalueAfter: after[order - 1],
     frobeniusChange,
     largestChange,

@@ -113,6 +113,30 @@ export function varianceInflation(correlation: SquareMatrix, options: VarianceIn
   return { items, exactDependencies: groups, notices };
 }
 
+/**
+ * VIF, tolerance and R² of every item from R⁻¹ already at hand (the diagonal), for a matrix known
+ * to be positive definite and well conditioned (no exact dependency); top partners as
+ * `varianceInflation` finds them. Equal to `varianceInflation` up to the inverse's rounding
+ * (tests/unit/cholesky-inverse.test.ts).
+ * @param correlation Correlation matrix (positive definite).
+ * @param inverse Its inverse, of the same order.
+ * @throws {RangeError} when the orders differ or the matrix is not a correlation matrix.
+ * @returns As `varianceInflation`, with no exact dependency and no notice.
+ * References: Marquardt 1970 (VIF_j = [R⁻¹]_jj).
+ */
+export function varianceInflationFromInverse(correlation: SquareMatrix, inverse: SquareMatrix): VarianceInflationResult {
+  checkCorrelationMatrix(correlation, 'varianceInflationFromInverse');
+  const order = correlation.order;
+  if (inverse.order !== order) throw new RangeError(`varianceInflationFromInverse: the inverse has order ${inverse.order}, the matrix ${order}`);
+  const partners = strongestPartners(correlation);
+  const items: ItemVarianceInflation[] = partners.map((topPartner, j) => {
+    // Mathematically VIF >= 1; a rounding shortfall (1 − 1e-16) is not a negative R².
+    const vif = Math.max(1, inverse.data[j * order + j]);
+    return { vif, tolerance: 1 / vif, r2: 1 - 1 / vif, topPartner };
+  });
+  return { items, exactDependencies: [], notices: [] };
+}
+
 /** For each item, the other item with the largest |r| (lower index on ties). */
 function strongestPartners(correlation: SquareMatrix): (TopPartner | null)[] {
   const { order, data } = correlation;

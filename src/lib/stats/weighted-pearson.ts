@@ -51,22 +51,36 @@ export function weightedPearson(matrix: ItemMatrix, weights: Float64Array, colum
       w[t++] = weights[i];
     }
   }
+  // The drawn rows of each item, which of them answer any item, and whether every answer is an
+  // integer (and any negative) with the largest |answer|.
+  const answersAny = new Uint8Array(distinct);
+  let hasMissing = false;
+  let integral = true;
+  let negative = false;
+  let largest = 0;
   const values: Float64Array[] = columns.map((j) => {
     const column = new Float64Array(distinct);
-    for (let t = 0; t < distinct; t++) column[t] = matrix.data[j * rows + drawn[t]];
+    const source = j * rows;
+    for (let t = 0; t < distinct; t++) {
+      const x = matrix.data[source + drawn[t]];
+      column[t] = x;
+      if (x === x) {
+        answersAny[t] = 1;
+        if (integral && !Number.isInteger(x)) integral = false;
+        const magnitude = x < 0 ? -x : x;
+        if (magnitude > largest) largest = magnitude;
+        if (x < 0) negative = true;
+      } else {
+        hasMissing = true;
+      }
+    }
     return column;
   });
   let total = 0;
   let withAnswer = 0;
-  let hasMissing = false;
   for (let t = 0; t < distinct; t++) {
-    let any = false;
-    for (let k = 0; k < order; k++) {
-      if (values[k][t] === values[k][t]) any = true;
-      else hasMissing = true;
-    }
     total += w[t];
-    if (any) withAnswer += w[t];
+    if (answersAny[t] === 1) withAnswer += w[t];
   }
   if (missing === 'listwise' && hasMissing) return null;
 
@@ -76,8 +90,8 @@ export function weightedPearson(matrix: ItemMatrix, weights: Float64Array, colum
   const covN = new Float64Array(order * order);
   const undefinedR: ItemPair[] = [];
   const undefinedCov: [number, number][] = [];
-  if (integerSumsExact(values, total)) {
-    integerPairs(values, w, hasMissing, total, {
+  if (integral && total * Math.max(1, largest) < EXACT_INTEGER_SCALE) {
+    integerPairs(values, w, hasMissing, total, negative ? -1 : largest, {
       r,
       rN,
       cov,
@@ -143,22 +157,11 @@ interface PairTargets {
   readonly undefinedCov: [number, number][];
 }
 
-/** Largest n · max|x| for which every sum of the integer path stays an exact integer (n² max² < 2^53). */
+/**
+ * Largest n · max|x| for which every sum of the integer path stays an exact integer (n² max² <
+ * 2^53): the integer path is taken when every observed answer is an integer and n · max|x| is below it.
+ */
 const EXACT_INTEGER_SCALE = 2 ** 26;
-
-/** True when every observed value is an integer and n · max|x| is small enough for exact sums. */
-function integerSumsExact(values: readonly Float64Array[], total: number): boolean {
-  let largest = 0;
-  for (const column of values) {
-    for (let t = 0; t < column.length; t++) {
-      const x = column[t];
-      if (x !== x) continue;
-      if (!Number.isInteger(x)) return false;
-      largest = Math.max(largest, Math.abs(x));
-    }
-  }
-  return total * Math.max(1, largest) < EXACT_INTEGER_SCALE;
-}
 
 /**
  * Stores a pair's (weighted) count in both count matrices (an item's own entry in the correlation
@@ -184,37 +187,52 @@ function recordPairCount(out: PairTargets, order: number, a: number, b: number, 
 /**
  * Integer answers (rating scales): the six sums of a pair are exact integers, so they may be
  * taken in any grouping, and n·Σxy − ΣxΣy (exact) gives the centred products to one rounding.
- * Five of the six are an item's total less its rows where the partner is missing (few: the
- * complement, as in masked-cross-products.ts); only Σ w·x·y is a product over every distinct row,
- * taken four partners at a time. Exact sums make this bit for bit the one-pass pair loop.
+ * With the mask M (1 where answered), X₀ (answers, 0 where missing) and the weights w, the pair
+ * sums over the rows where both answered are masked cross-products: Σ w·x·y = (w∘X₀)ᵀX₀, and the
+ * weight, Σ w·x and Σ w·x² of an item where its partner answered are its totals less
+ * (w∘M)ᵀ(1 − M), (w∘X₀)ᵀ(1 − M) and (w∘X₀∘X₀)ᵀ(1 − M), the complement of the mask being sparse
+ * (as in masked-cross-products.ts), taken item by item over the rows that miss an answer. Exact sums
+ * make this bit for bit the one-pass pair loop.
  */
-function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissing: boolean, total: number, out: PairTargets): void {
+function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissing: boolean, total: number, largest: number, out: PairTargets): void {
   const order = values.length;
   const distinct = w.length;
   const { r, cov, undefinedR } = out;
-  // Per item, one block each: the answer (0 where missing), weight × answer, and per-item totals
-  // of the weight where answered, weight × answer, weight × square; the rows where it is missing.
-  const x0 = new Float64Array(order * distinct);
-  const wx = new Float64Array(order * distinct);
+  // Non-negative answers may share a double in the products (packedLanes); `largest` is -1 with a negative answer.
+  const negative = largest < 0;
+  const lanes = negative ? 1 : packedLanes(total * largest * largest);
+  // Per item, one block each: weight × answer (0 where missing; blocks padded with zero items to
+  // the kernel's tiles of three), the answers packed `lanes` to a double, and the item's totals
+  // where answered of the weight, weight × answer and weight × square; the rows missing any item.
+  const rowsPadded = Math.ceil(order / 3) * 3;
+  const groups = Math.ceil(order / lanes);
+  const groupsPadded = groups + 3;
+  const wx = new Float64Array(rowsPadded * distinct);
+  const packed = new Float64Array(groupsPadded * distinct);
   const totalWeight = new Float64Array(order);
   const totalX = new Float64Array(order);
   const totalXX = new Float64Array(order);
-  const missingRows: Int32Array[] = [];
+  const missingOf: Int32Array[] = [];
+  const scratch = new Int32Array(distinct);
+  const missesInRow = new Int32Array(distinct + 1);
   for (let a = 0; a < order; a++) {
     const column = values[a];
     const offset = a * distinct;
-    let countMissing = 0;
+    const lane = (Math.floor(a / lanes) * distinct) | 0;
+    const shift = 2 ** ((lanes === 2 ? PACKED_PAIR_BITS : PACKED_LANE_BITS) * (a % lanes));
     let sw = 0;
     let sx = 0;
     let sxx = 0;
+    let countMissing = 0;
     for (let t = 0; t < distinct; t++) {
       const x = column[t];
       if (x !== x) {
-        countMissing++;
+        scratch[countMissing++] = t;
+        missesInRow[t]++;
         continue;
       }
-      x0[offset + t] = x;
       wx[offset + t] = w[t] * x;
+      packed[lane + t] += x * shift;
       sw += w[t];
       sx += w[t] * x;
       sxx += w[t] * x * x;
@@ -222,70 +240,63 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
     totalWeight[a] = sw;
     totalX[a] = sx;
     totalXX[a] = sxx;
-    const list = new Int32Array(countMissing);
-    for (let t = 0, k = 0; t < distinct; t++) if (column[t] !== column[t]) list[k++] = t;
-    missingRows.push(list);
+    missingOf.push(scratch.slice(0, countMissing));
   }
-  // Σ w·x·y over every distinct row (0 where either is missing), upper triangle, four partners at a time.
+  // Σ w·x·y over every distinct row (0 where either is missing): (w∘X₀)ᵀX₀ by the blocked kernel.
   const products = new Float64Array(order * order);
-  for (let a = 0; a < order; a++) {
-    const oa = a * distinct;
-    let b = a;
-    for (; b + 3 < order; b += 4) {
-      const o0 = b * distinct;
-      const o1 = o0 + distinct;
-      const o2 = o1 + distinct;
-      const o3 = o2 + distinct;
-      let s0 = 0;
-      let s1 = 0;
-      let s2 = 0;
-      let s3 = 0;
-      for (let t = 0; t < distinct; t++) {
-        const v = wx[oa + t];
-        s0 += v * x0[o0 + t];
-        s1 += v * x0[o1 + t];
-        s2 += v * x0[o2 + t];
-        s3 += v * x0[o3 + t];
-      }
-      products[a * order + b] = s0;
-      products[a * order + b + 1] = s1;
-      products[a * order + b + 2] = s2;
-      products[a * order + b + 3] = s3;
+  weightedIntegerProducts(wx, packed, order, distinct, lanes, products);
+  // What item a holds in the rows where item b is missing (row-major [a · order + b]): weight where
+  // a is answered, weight × answer, weight × square. The rows missing some item, each with the
+  // items it misses (compressed rows), are read item by item.
+  const lessWeight = new Float64Array(order * order);
+  const lessX = new Float64Array(order * order);
+  const lessXX = new Float64Array(order * order);
+  if (hasMissing) {
+    let rowsMissing = 0;
+    for (let t = 0; t < distinct; t++) if (missesInRow[t] > 0) rowsMissing++;
+    const missingRows = new Int32Array(rowsMissing);
+    const start = new Int32Array(rowsMissing + 1);
+    const position = new Int32Array(distinct);
+    for (let t = 0, m = 0; t < distinct; t++) {
+      if (missesInRow[t] === 0) continue;
+      missingRows[m] = t;
+      position[t] = m;
+      start[m + 1] = start[m] + missesInRow[t];
+      m++;
     }
-    for (; b < order; b++) {
-      const ob = b * distinct;
-      let sum = 0;
-      for (let t = 0; t < distinct; t++) sum += wx[oa + t] * x0[ob + t];
-      products[a * order + b] = sum;
+    const missedItems = new Int32Array(start[rowsMissing]);
+    const filled = start.slice(0, rowsMissing);
+    for (let b = 0; b < order; b++) {
+      const list = missingOf[b];
+      for (let k = 0; k < list.length; k++) missedItems[filled[position[list[k]]]++] = b;
+    }
+    for (let a = 0; a < order; a++) {
+      const column = values[a];
+      const offset = a * order;
+      for (let m = 0; m < rowsMissing; m++) {
+        const t = missingRows[m];
+        const x = column[t];
+        if (x !== x) continue;
+        const weight = w[t];
+        const weightX = weight * x;
+        const weightXX = weightX * x;
+        for (let k = start[m]; k < start[m + 1]; k++) {
+          const target = offset + missedItems[k];
+          lessWeight[target] += weight;
+          lessX[target] += weightX;
+          lessXX[target] += weightXX;
+        }
+      }
     }
   }
   for (let a = 0; a < order; a++) {
-    const oa = a * distinct;
-    const missingA = missingRows[a];
     for (let b = a; b < order; b++) {
-      const ob = b * distinct;
-      const missingB = missingRows[b];
       // a's sums over the rows where b is answered, and b's over those where a is.
-      let n = totalWeight[a];
-      let sx = totalX[a];
-      let sxx = totalXX[a];
-      for (let k = 0; k < missingB.length; k++) {
-        const t = missingB[k];
-        if (values[a][t] !== values[a][t]) continue; // both missing: not in a's totals
-        const x = x0[oa + t];
-        n -= w[t];
-        sx -= w[t] * x;
-        sxx -= w[t] * x * x;
-      }
-      let sy = totalX[b];
-      let syy = totalXX[b];
-      for (let k = 0; k < missingA.length; k++) {
-        const t = missingA[k];
-        if (values[b][t] !== values[b][t]) continue;
-        const y = x0[ob + t];
-        sy -= w[t] * y;
-        syy -= w[t] * y * y;
-      }
+      const n = totalWeight[a] - lessWeight[a * order + b];
+      const sx = totalX[a] - lessX[a * order + b];
+      const sxx = totalXX[a] - lessXX[a * order + b];
+      const sy = totalX[b] - lessX[b * order + a];
+      const syy = totalXX[b] - lessXX[b * order + a];
       const sxy = products[a * order + b];
       if (!recordPairCount(out, order, a, b, n, hasMissing ? n : total)) continue;
       const centredXY = n * sxy - sx * sy;
@@ -301,6 +312,106 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
       const value = centredXY / Math.sqrt(centredXX * centredYY);
       r[a * order + b] = value > 1 ? 1 : value < -1 ? -1 : value;
       r[b * order + a] = r[a * order + b];
+    }
+  }
+}
+
+/**
+ * Bits per lane when several items share one double in the weighted products: a pair's Σ w·x·y
+ * of non-negative integer answers is at most n · max², so with n · max² < 2^17 three items
+ * packed as x₀ + 2^17·x₁ + 2^34·x₂ give, in one product with w·x, three sums that stay apart and
+ * whose total stays below 2^51 (every partial sum an exact integer). With n · max² < 2^26, two.
+ */
+const PACKED_LANE_BITS = 17;
+const PACKED_PAIR_BITS = 26;
+
+/** Items per double in the weighted products: 3, 2 or 1 (see PACKED_LANE_BITS). */
+function packedLanes(largestSum: number): 1 | 2 | 3 {
+  if (largestSum < 2 ** PACKED_LANE_BITS) return 3;
+  if (largestSum < 2 ** PACKED_PAIR_BITS) return 2;
+  return 1;
+}
+
+/** Rows per tile of the weighted products (a tile of every item's rows stays in the L2 cache). */
+const PRODUCT_BLOCK_ROWS = 256;
+
+/**
+ * `products[a · order + b] = Σ_t wx[a, t] · x[b, t]` for every a ≤ b < order: the complete-data
+ * kernel's blocking (centered-products-kernel.ts) for a product of two different matrices. Rows
+ * are taken PRODUCT_BLOCK_ROWS at a time, and each pass of the innermost loop reads three items of
+ * `wx` and four doubles of `packed` for twelve running sums. `packed` holds `lanes` items per
+ * double (item b in lane b mod lanes of double ⌊b / lanes⌋, scaled by 2^(17·lane), at most 26 bits
+ * per lane with two), zero beyond the last item. The sums are exact integers (integer answers and
+ * weights below the bounds of PACKED_LANE_BITS), so the grouping does not change a bit and each
+ * lane is read back exactly.
+ */
+function weightedIntegerProducts(wx: Float64Array, packed: Float64Array, order: number, distinct: number, lanes: 1 | 2 | 3, products: Float64Array): void {
+  const groups = Math.ceil(order / lanes);
+  const sums = new Float64Array(Math.ceil(order / 3) * 3 * (groups + 3));
+  const stride = groups + 3;
+  for (let first = 0; first < distinct; first += PRODUCT_BLOCK_ROWS) {
+    const last = Math.min(distinct, first + PRODUCT_BLOCK_ROWS);
+    for (let j = 0; j < order; j += 3) {
+      const a0 = j * distinct;
+      const a1 = a0 + distinct;
+      const a2 = a1 + distinct;
+      const t0 = j * stride;
+      const t1 = t0 + stride;
+      const t2 = t1 + stride;
+      for (let g = Math.floor(j / lanes); g < groups; g += 4) {
+        const b0 = g * distinct;
+        const b1 = b0 + distinct;
+        const b2 = b1 + distinct;
+        const b3 = b2 + distinct;
+        let s00 = 0, s01 = 0, s02 = 0, s03 = 0, s10 = 0, s11 = 0, s12 = 0, s13 = 0, s20 = 0, s21 = 0, s22 = 0, s23 = 0;
+        for (let t = first; t < last; t++) {
+          const y0 = packed[b0 + t];
+          const y1 = packed[b1 + t];
+          const y2 = packed[b2 + t];
+          const y3 = packed[b3 + t];
+          const v0 = wx[a0 + t];
+          s00 += v0 * y0;
+          s01 += v0 * y1;
+          s02 += v0 * y2;
+          s03 += v0 * y3;
+          const v1 = wx[a1 + t];
+          s10 += v1 * y0;
+          s11 += v1 * y1;
+          s12 += v1 * y2;
+          s13 += v1 * y3;
+          const v2 = wx[a2 + t];
+          s20 += v2 * y0;
+          s21 += v2 * y1;
+          s22 += v2 * y2;
+          s23 += v2 * y3;
+        }
+        sums[t0 + g] += s00;
+        sums[t0 + g + 1] += s01;
+        sums[t0 + g + 2] += s02;
+        sums[t0 + g + 3] += s03;
+        sums[t1 + g] += s10;
+        sums[t1 + g + 1] += s11;
+        sums[t1 + g + 2] += s12;
+        sums[t1 + g + 3] += s13;
+        sums[t2 + g] += s20;
+        sums[t2 + g + 1] += s21;
+        sums[t2 + g + 2] += s22;
+        sums[t2 + g + 3] += s23;
+      }
+    }
+  }
+  // Each lane back out of its double (exact: integers below 2^53).
+  const laneScale = lanes === 2 ? 2 ** PACKED_PAIR_BITS : 2 ** PACKED_LANE_BITS;
+  for (let a = 0; a < order; a++) {
+    for (let g = Math.floor(a / lanes); g < groups; g++) {
+      let rest = sums[a * stride + g];
+      for (let lane = lanes - 1; lane >= 0; lane--) {
+        const scale = laneScale ** lane;
+        const part = Math.floor(rest / scale);
+        rest -= part * scale;
+        const b = g * lanes + lane;
+        if (b >= a && b < order) products[a * order + b] = part;
+      }
     }
   }
 }
