@@ -16,12 +16,15 @@ import type { EngineItem, EngineWarning, LocalDependenceEvidence } from './types
  * bootstrap draws ordinal items like the wave's; a column with too many values for that
  * (continuous) gets null, and normal draws.
  * @param data The usable columns, recoded (missing as NaN).
+ * @param needed Which columns the bootstrap can draw (items in a scale); the others get null
+ *   without being read (default all).
  * @returns One list of thresholds (or null) per column.
  * References: Olsson 1979, "Maximum likelihood estimation of the polychoric correlation
  * coefficient" (thresholds from the marginal shares).
  */
-export function latentThresholds(data: ItemMatrix): (number[] | null)[] {
+export function latentThresholds(data: ItemMatrix, needed: (column: number) => boolean = () => true): (number[] | null)[] {
   return Array.from({ length: data.columns }, (_, k): number[] | null => {
+    if (!needed(k)) return null;
     const column = data.data.subarray(k * data.rows, (k + 1) * data.rows);
     try {
       const coded = codeOrdinalItem(column);
@@ -90,7 +93,8 @@ export function waveLocalDependence(
     options.detectors ?? coreDetectors,
     options.reuse ?? null,
     // A resample reuses the critical values and needs no thresholds for the residual bootstrap.
-    options.reuse ? null : latentThresholds(data),
+    // Only items in a scale are ever drawn: a wave without scales reads no column for them.
+    options.reuse ? null : latentThresholds(data, (k) => items[usable[k]].scale !== null),
     exactDependencies,
     options.network ?? true,
   );
