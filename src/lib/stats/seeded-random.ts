@@ -53,12 +53,13 @@ export function createSeededRandom(seed: number): SeededRandomGenerator {
  */
 export class SeededRandomGenerator implements SeededRandom {
   readonly seed: number;
-  private a: number;
-  private b: number;
-  private c: number;
-  private d: number;
-  /** The second variate of the last polar pair, valid while `hasSpare`. */
-  private spare = 0;
+  /**
+   * The four 32-bit words a, b, c, d, in a typed array: as number fields, words above 2³⁰ would be
+   * boxed heap numbers and every step would allocate (the bits are the same either way).
+   */
+  private readonly state = new Int32Array(4);
+  /** The second variate of the last polar pair, valid while `hasSpare` (unboxed, as the state). */
+  private readonly spareValue = new Float64Array(1);
   private hasSpare = false;
 
   /**
@@ -67,30 +68,30 @@ export class SeededRandomGenerator implements SeededRandom {
   constructor(seed: number) {
     this.seed = seed;
     const mix = splitMix32(seed);
-    this.a = mix();
-    this.b = mix();
-    this.c = mix();
-    this.d = mix();
-    if ((this.a | this.b | this.c | this.d) === 0) this.a = 1;
+    this.state[0] = mix();
+    this.state[1] = mix();
+    this.state[2] = mix();
+    this.state[3] = mix();
+    if ((this.state[0] | this.state[1] | this.state[2] | this.state[3]) === 0) this.state[0] = 1;
   }
 
   /** Next 32-bit output of xoshiro128**, as an unsigned integer. */
   nextUint32(): number {
-    const b = this.b;
+    const b = this.state[1];
     const result = Math.imul(rotl(Math.imul(b, 5), 7), 9) >>> 0;
     const t = b << 9;
-    let a = this.a;
-    let c = this.c;
-    let d = this.d;
+    let a = this.state[0];
+    let c = this.state[2];
+    let d = this.state[3];
     c ^= a;
     d ^= b;
     const nextB = b ^ c;
     a ^= d;
     c ^= t;
-    this.a = a;
-    this.b = nextB;
-    this.c = c;
-    this.d = rotl(d, 11);
+    this.state[0] = a;
+    this.state[1] = nextB;
+    this.state[2] = c;
+    this.state[3] = rotl(d, 11);
     return result;
   }
 
@@ -116,7 +117,7 @@ export class SeededRandomGenerator implements SeededRandom {
   nextNormal(): number {
     if (this.hasSpare) {
       this.hasSpare = false;
-      return this.spare;
+      return this.spareValue[0];
     }
     let u = 0;
     let v = 0;
@@ -127,7 +128,7 @@ export class SeededRandomGenerator implements SeededRandom {
       s = u * u + v * v;
     } while (s >= 1 || s === 0);
     const factor = Math.sqrt((-2 * Math.log(s)) / s);
-    this.spare = v * factor;
+    this.spareValue[0] = v * factor;
     this.hasSpare = true;
     return u * factor;
   }
@@ -150,12 +151,12 @@ export class SeededRandomGenerator implements SeededRandom {
     const end = offset + count;
     if (index < end && this.hasSpare) {
       this.hasSpare = false;
-      target[index++] = this.spare;
+      target[index++] = this.spareValue[0];
     }
-    let a = this.a;
-    let b = this.b;
-    let c = this.c;
-    let d = this.d;
+    let a = this.state[0];
+    let b = this.state[1];
+    let c = this.state[2];
+    let d = this.state[3];
     while (index < end) {
       let u = 0;
       let v = 0;
@@ -191,14 +192,14 @@ export class SeededRandomGenerator implements SeededRandom {
       target[index++] = u * factor;
       if (index < end) target[index++] = v * factor;
       else {
-        this.spare = v * factor;
+        this.spareValue[0] = v * factor;
         this.hasSpare = true;
       }
     }
-    this.a = a;
-    this.b = b;
-    this.c = c;
-    this.d = d;
+    this.state[0] = a;
+    this.state[1] = b;
+    this.state[2] = c;
+    this.state[3] = d;
   }
 }
 
