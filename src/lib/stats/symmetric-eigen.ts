@@ -124,113 +124,7 @@ function hypotenuse(a: number, b: number): number {
  * d holds the diagonal and e the subdiagonal (e[0] = 0), and w holds Qᵀ.
  */
 function tridiagonalize(w: Float64Array, n: number, d: Float64Array, e: Float64Array): void {
-  for (let j = 0; j < n; j++) d[j] = w[j * n + n - 1];
-
-  for (let i = n - 1; i > 0; i--) {
-    let scale = 0;
-    let h = 0;
-    for (let k = 0; k < i; k++) scale += Math.abs(d[k]);
-    if (scale === 0) {
-      e[i] = d[i - 1];
-      for (let j = 0; j < i; j++) {
-        d[j] = w[j * n + i - 1];
-        w[j * n + i] = 0;
-        w[i * n + j] = 0;
-      }
-    } else {
-      for (let k = 0; k < i; k++) {
-        d[k] /= scale;
-        h += d[k] * d[k];
-      }
-      let f = d[i - 1];
-      let g = Math.sqrt(h);
-      if (f > 0) g = -g;
-      e[i] = scale * g;
-      h -= f * g;
-      d[i - 1] = f - g;
-      for (let j = 0; j < i; j++) e[j] = 0;
-
-      // e = A·u over the stored triangle, two rows j and j + 1 per pass over k (each e[k] still
-      // gains row j's term before row j + 1's, so every sum is formed in the same order as one
-      // row at a time; only the loads of e and d are shared).
-      let j = 0;
-      for (; j + 1 < i; j += 2) {
-        const j1 = j + 1;
-        const f0 = d[j];
-        const f1 = d[j1];
-        const column0 = j * n;
-        const column1 = j1 * n;
-        w[i * n + j] = f0;
-        w[i * n + j1] = f1;
-        let g0 = e[j] + w[column0 + j] * f0;
-        const between = w[column0 + j1];
-        g0 += between * d[j1];
-        e[j1] += between * f0;
-        let g1 = e[j1] + w[column1 + j1] * f1;
-        for (let k = j1 + 1; k <= i - 1; k++) {
-          const value0 = w[column0 + k];
-          const value1 = w[column1 + k];
-          const dk = d[k];
-          g0 += value0 * dk;
-          g1 += value1 * dk;
-          e[k] = e[k] + value0 * f0 + value1 * f1;
-        }
-        e[j] = g0;
-        e[j1] = g1;
-      }
-      for (; j < i; j++) {
-        f = d[j];
-        const column = j * n;
-        w[i * n + j] = f;
-        g = e[j] + w[column + j] * f;
-        for (let k = j + 1; k <= i - 1; k++) {
-          const value = w[column + k];
-          g += value * d[k];
-          e[k] += value * f;
-        }
-        e[j] = g;
-      }
-      f = 0;
-      for (let m = 0; m < i; m++) {
-        e[m] /= h;
-        f += e[m] * d[m];
-      }
-      const hh = f / (h + h);
-      for (let m = 0; m < i; m++) e[m] -= hh * d[m];
-      // The rank-two update A −= u·pᵀ + p·uᵀ, two rows per pass over k (rows are independent; d[j]
-      // and d[j + 1] are replaced only after both rows have read them, as one row at a time does).
-      j = 0;
-      for (; j + 1 < i; j += 2) {
-        const j1 = j + 1;
-        const f0 = d[j];
-        const g0 = e[j];
-        const f1 = d[j1];
-        const g1 = e[j1];
-        const column0 = j * n;
-        const column1 = j1 * n;
-        w[column0 + j] -= f0 * e[j] + g0 * d[j];
-        for (let k = j1; k <= i - 1; k++) {
-          const ek = e[k];
-          const dk = d[k];
-          w[column0 + k] -= f0 * ek + g0 * dk;
-          w[column1 + k] -= f1 * ek + g1 * dk;
-        }
-        d[j] = w[column0 + i - 1];
-        w[column0 + i] = 0;
-        d[j1] = w[column1 + i - 1];
-        w[column1 + i] = 0;
-      }
-      for (; j < i; j++) {
-        f = d[j];
-        g = e[j];
-        const column = j * n;
-        for (let k = j; k <= i - 1; k++) w[column + k] -= f * e[k] + g * d[k];
-        d[j] = w[column + i - 1];
-        w[column + i] = 0;
-      }
-    }
-    d[i] = h;
-  }
+  householderReduction(w, n, d, e);
 
   for (let i = 0; i < n - 1; i++) {
     w[i * n + n - 1] = w[i * n + i];
@@ -257,17 +151,28 @@ function tridiagonalize(w: Float64Array, n: number, d: Float64Array, e: Float64A
 }
 
 /**
- * The reduction of `tridiagonalize` without the transformation (EISPACK tred1): on return d holds
- * the diagonal and e the subdiagonal (e[0] = 0); w is overwritten. Four rows j .. j + 3 share each
- * pass over k (the loads of d and e, and of e's stores) where `tridiagonalize` takes two, and every
+ * EISPACK tred1 without the transformation (for eigenvalues only): on return d holds the
+ * diagonal and e the subdiagonal (e[0] = 0); w is overwritten.
+ */
+function tridiagonalizeValuesOnly(w: Float64Array, n: number, d: Float64Array, e: Float64Array): void {
+  householderReduction(w, n, d, e);
+  // The reduction leaves the tridiagonal's diagonal on the diagonal of w (tred1's result).
+  for (let j = 0; j < n; j++) d[j] = w[j * n + j];
+  e[0] = 0;
+}
+
+/**
+ * The Householder reduction shared by tred2 (`tridiagonalize`) and tred1
+ * (`tridiagonalizeValuesOnly`): on return e[1..n-1] holds the subdiagonal, d[i] the h of step i,
+ * and w the stored Householder vectors (rows) with the reduced matrix's diagonal on its diagonal.
+ * Four rows j .. j + 3 share each pass over k (the loads of d and e, and of e's stores), and every
  * sum is still formed in the order of one row at a time: row j's terms reach e[k] before row
  * j + 1's, each g runs over k in increasing order, and the corner of the four rows (k < j + 4) is
  * written out so that e[j + 1] .. e[j + 3] have their earlier rows' terms before they start a sum.
- * So d and e are bit for bit those of `tridiagonalize` (checked against symmetricEigen's values in
- * tests/unit/symmetric-eigen.test.ts); only the speed differs (docs/decisions/020-speed-whole-audit.md,
- * "Addendum: kernel").
+ * So d, e and w are bit for bit those of the listing's one-row loops; only the speed differs
+ * (docs/decisions/020-speed-whole-audit.md, "Addendum: kernel").
  */
-function tridiagonalizeValuesOnly(w: Float64Array, n: number, d: Float64Array, e: Float64Array): void {
+function householderReduction(w: Float64Array, n: number, d: Float64Array, e: Float64Array): void {
   for (let j = 0; j < n; j++) d[j] = w[j * n + n - 1];
   for (let i = n - 1; i > 0; i--) {
     let scale = 0;
@@ -423,9 +328,6 @@ function tridiagonalizeValuesOnly(w: Float64Array, n: number, d: Float64Array, e
     }
     d[i] = h;
   }
-  // The reduction leaves the tridiagonal's diagonal on the diagonal of w (tred1's result).
-  for (let j = 0; j < n; j++) d[j] = w[j * n + j];
-  e[0] = 0;
 }
 
 /**
