@@ -20,49 +20,57 @@ import type { SquareMatrix } from './types';
  */
 export function choleskyInverse(matrix: SquareMatrix): SquareMatrix | null {
   const n = matrix.order;
-  const a = matrix.data;
-  // L, row-major lower triangle, row by row (each row reads only earlier rows).
-  const factor = new Float64Array(n * n);
-  for (let i = 0; i < n; i++) {
-    const rowI = i * n;
-    for (let j = 0; j <= i; j++) {
-      const rowJ = j * n;
-      let value = a[rowI + j];
-      for (let k = 0; k < j; k++) value -= factor[rowI + k] * factor[rowJ + k];
-      if (j < i) {
-        factor[rowI + j] = value / factor[rowJ + j];
-      } else {
-        if (!(value > 0)) return null;
-        factor[rowI + i] = Math.sqrt(value);
-      }
-    }
-  }
-  // M = L⁻¹ (lower triangular), row by row: M[i][c] = (δ_ic − Σ_{c ≤ k < i} L[i][k]·M[k][c]) / L[i][i].
-  const lowerInverse = new Float64Array(n * n);
-  for (let i = 0; i < n; i++) {
-    const rowI = i * n;
-    const target = lowerInverse.subarray(rowI, rowI + i + 1);
-    target[i] = 1;
-    for (let k = 0; k < i; k++) {
-      const coefficient = factor[rowI + k];
-      if (coefficient === 0) continue;
-      const rowK = k * n;
-      for (let c = 0; c <= k; c++) target[c] -= coefficient * lowerInverse[rowK + c];
-    }
-    const pivot = factor[rowI + i];
-    for (let c = 0; c <= i; c++) target[c] /= pivot;
-  }
-  // A⁻¹ = Mᵀ·M: entry (i, j) = Σ_{k ≥ max(i, j)} M[k][i]·M[k][j], accumulated row k by row k.
   const inverse = new Float64Array(n * n);
-  for (let k = 0; k < n; k++) {
-    const rowK = k * n;
-    for (let i = 0; i <= k; i++) {
-      const value = lowerInverse[rowK + i];
-      if (value === 0) continue;
-      const rowI = i * n;
-      for (let j = 0; j <= i; j++) inverse[rowI + j] += value * lowerInverse[rowK + j];
+  return invertPositiveDefiniteInto(matrix.data, n, inverse, new Float64Array(n * n)) ? { order: n, data: inverse } : null;
+}
+
+/**
+ * The inverse of the leading `order × order` block (row-major, stride `order`) of a symmetric
+ * positive definite matrix, into caller-owned buffers (for loops that invert many small matrices,
+ * such as the EM algorithm's conditional covariances). Only the lower triangle of `a` is read.
+ * @param a The matrix; not modified.
+ * @param order Its order n.
+ * @param out Receives A⁻¹ (symmetric), at least n² long.
+ * @param work Scratch, at least n² long (holds the factor, then the product).
+ * @returns false when a pivot of the factor is not positive (not numerically positive definite);
+ *   `out` is then meaningless.
+ * References: Golub & Van Loan 2013, §4.2 and §3.1.
+ */
+export function invertPositiveDefiniteInto(a: Float64Array, order: number, out: Float64Array, work: Float64Array): boolean {
+  for (let index = 0; index < order * order; index++) work[index] = a[index];
+  for (let j = 0; j < order; j++) {
+    let diagonal = work[j * order + j];
+    for (let k = 0; k < j; k++) diagonal -= work[j * order + k] * work[j * order + k];
+    if (!(diagonal > 0)) return false;
+    const root = Math.sqrt(diagonal);
+    work[j * order + j] = root;
+    for (let i = j + 1; i < order; i++) {
+      let value = work[i * order + j];
+      for (let k = 0; k < j; k++) value -= work[i * order + k] * work[j * order + k];
+      work[i * order + j] = value / root;
     }
   }
-  for (let i = 0; i < n; i++) for (let j = 0; j < i; j++) inverse[j * n + i] = inverse[i * n + j];
-  return { order: n, data: inverse };
+  // L⁻¹ in the lower triangle of out, then (L⁻¹)ᵀ L⁻¹.
+  for (let index = 0; index < order * order; index++) out[index] = 0;
+  for (let c = 0; c < order; c++) {
+    for (let i = c; i < order; i++) {
+      let value = i === c ? 1 : 0;
+      for (let k = c; k < i; k++) value -= work[i * order + k] * out[k * order + c];
+      out[i * order + c] = value / work[i * order + i];
+    }
+  }
+  for (let i = 0; i < order; i++) {
+    for (let j = 0; j <= i; j++) {
+      let value = 0;
+      for (let k = i; k < order; k++) value += out[k * order + i] * out[k * order + j];
+      work[i * order + j] = value;
+    }
+  }
+  for (let i = 0; i < order; i++) {
+    for (let j = 0; j <= i; j++) {
+      out[i * order + j] = work[i * order + j];
+      out[j * order + i] = work[i * order + j];
+    }
+  }
+  return true;
 }

@@ -19,6 +19,7 @@
  * "Statistical Analysis with Missing Data", 2nd ed., §11.2 (the normal model); Schafer 1997,
  * "Analysis of Incomplete Multivariate Data", ch. 5.
  */
+import { invertPositiveDefiniteInto } from './cholesky-inverse';
 import { checkItemMatrixShape } from './cross-products';
 import { EM_MAX_ITERATIONS, EM_TOLERANCE, ZERO_VARIANCE_RELATIVE_TOLERANCE } from './tolerances';
 import type { ItemMatrix, NumericalNotice, SquareMatrix } from './types';
@@ -154,7 +155,7 @@ export function emCovariance(matrix: ItemMatrix, options: EmCovarianceOptions = 
   let converged = false;
   while (iterations < maxIterations) {
     iterations++;
-    if (!invertSymmetricPositiveDefinite(sigma, p, precision, work)) {
+    if (!invertPositiveDefiniteInto(sigma, p, precision, work)) {
       throw new RangeError(
         'emCovariance: the covariance estimate is singular (an exact linear dependency among the items, or too few respondents); use complete rows and report the dependency',
       );
@@ -180,7 +181,7 @@ export function emCovariance(matrix: ItemMatrix, options: EmCovarianceOptions = 
         shift[a] = b;
         for (let c = 0; c < m; c++) small[a * m + c] = precision[offset + missing[c]];
       }
-      if (!invertSymmetricPositiveDefinite(small, m, smallInverse, work)) {
+      if (!invertPositiveDefiniteInto(small, m, smallInverse, work)) {
         throw new RangeError('emCovariance: a conditional covariance is singular; the covariance estimate has an exact dependency');
       }
       // x̂_M = μ_M − (Θ_MM)⁻¹ b
@@ -240,47 +241,4 @@ export function emCovariance(matrix: ItemMatrix, options: EmCovarianceOptions = 
     converged,
     notices,
   };
-}
-
-/**
- * Inverse of the leading `order × order` block (row-major, stride `order`) of a symmetric
- * positive-definite matrix by Cholesky; false when a pivot is not positive.
- */
-function invertSymmetricPositiveDefinite(a: Float64Array, order: number, out: Float64Array, work: Float64Array): boolean {
-  for (let index = 0; index < order * order; index++) work[index] = a[index];
-  for (let j = 0; j < order; j++) {
-    let diagonal = work[j * order + j];
-    for (let k = 0; k < j; k++) diagonal -= work[j * order + k] * work[j * order + k];
-    if (!(diagonal > 0)) return false;
-    const root = Math.sqrt(diagonal);
-    work[j * order + j] = root;
-    for (let i = j + 1; i < order; i++) {
-      let value = work[i * order + j];
-      for (let k = 0; k < j; k++) value -= work[i * order + k] * work[j * order + k];
-      work[i * order + j] = value / root;
-    }
-  }
-  // L⁻¹ in the lower triangle of out, then (L⁻¹)ᵀ L⁻¹.
-  for (let index = 0; index < order * order; index++) out[index] = 0;
-  for (let c = 0; c < order; c++) {
-    for (let i = c; i < order; i++) {
-      let value = i === c ? 1 : 0;
-      for (let k = c; k < i; k++) value -= work[i * order + k] * out[k * order + c];
-      out[i * order + c] = value / work[i * order + i];
-    }
-  }
-  for (let i = 0; i < order; i++) {
-    for (let j = 0; j <= i; j++) {
-      let value = 0;
-      for (let k = i; k < order; k++) value += out[k * order + i] * out[k * order + j];
-      work[i * order + j] = value;
-    }
-  }
-  for (let i = 0; i < order; i++) {
-    for (let j = 0; j <= i; j++) {
-      out[i * order + j] = work[i * order + j];
-      out[j * order + i] = work[i * order + j];
-    }
-  }
-  return true;
 }
