@@ -14,8 +14,9 @@ import { alphaIfItemDeleted } from '../stats/alpha-if-item-deleted';
 import { choleskyInverse } from '../stats/cholesky-inverse';
 import { belsleyCollinearity, belsleyCollinearityFromMoments } from '../stats/belsley-collinearity';
 import { conditionNumber } from '../stats/condition-number';
-import { correlationMatrix, usableItems } from '../stats/correlation-matrix';
+import { correlationMatrix, usableItems, type CorrelationMatrixResult } from '../stats/correlation-matrix';
 import { completeRows } from '../stats/complete-rows';
+import { repairCorrelationMatrix } from '../stats/nearest-correlation';
 import { covarianceMatrix } from '../stats/covariance-matrix';
 import { centeredCrossProducts, crossProductsOfItems, type CenteredCrossProducts } from '../stats/cross-products';
 import { cronbachAlpha } from '../stats/cronbach-alpha';
@@ -274,14 +275,14 @@ export function computeEvidence(
   let data = usable.length === items.length ? matrix : selectItems(matrix, usable);
   const resampleOf = options.resampleOf;
   const weightedMoments = (columns: readonly number[]) =>
-    resampleOf === undefined || settings.method !== 'pearson' ? null : weightedPearson(resampleOf.matrix, resampleOf.weights, columns, settings.missing);
+    resampleOf === undefined || settings.method !== 'pearson' ? null : weightedPearson(resampleOf.matrix, resampleOf.weights, columns, settings.missing, 'none');
   let moments = weightedMoments(usable);
   // Pearson over complete rows (complete data, or listwise deletion): the centred cross-products
   // XᵀX of the complete rows are taken once and serve the correlation matrix, the covariance
   // matrix and the Belsley-Kuh-Welsch Gram matrix alike (each would otherwise pass over the data
   // again; the figures are bit for bit the same).
   let crossProducts = moments === null ? sharedCrossProducts(data, settings) : undefined;
-  let correlation = moments?.correlation ?? correlationMatrix(data, { method: settings.method, missing: settings.missing, ...(crossProducts ? { crossProducts } : {}) });
+  let correlation = moments?.correlation ?? correlationMatrix(data, { method: settings.method, missing: settings.missing, repair: 'none', ...(crossProducts ? { crossProducts } : {}) });
   // An undefined correlation (two items never answered together, or no variation where they
   // were) is never entered as 0: the fewest items that leave no undefined pair are set aside.
   for (let round = 0; correlation.undefinedPairs.length > 0 && usable.length > 1 && round < items.length; round++) {
@@ -309,37 +310,24 @@ export function computeEvidence(
     if (crossProducts !== undefined) {
       crossProducts = settings.missing === 'listwise' ? sharedCrossProducts(data, settings) : crossProductsOfItems(crossProducts, keptPositions);
     }
-    correlation = moments?.correlation ?? correlationMatrix(data, { method: settings.method, missing: settings.missing, ...(crossProducts ? { crossProducts } : {}) });
+    correlation = moments?.correlation ?? correlationMatrix(data, { method: settings.method, missing: settings.missing, repair: 'none', ...(crossProducts ? { crossProducts } : {}) });
   }
   // The complete rows, found once for the completeness flag and the Belsley-Kuh-Welsch diagnostics
   // (infinite values refused as the diagnostics refuse them).
   const complete = crossProducts !== undefined ? undefined : completeRows(data, 'belsleyCollinearity');
   const completeData = complete === undefined ? (crossProducts as CenteredCrossProducts).rows === data.rows : complete.length === data.rows;
-  warnings.push(...warningsFromNotices(correlation.notices, items, usable));
-  if (settings.method === 'polychoric') warnings.push(...polychoricSampleWarnings(correlation, items, usable));
   // An indefinite matrix (pairwise or polychoric) is smoothed by Bentler & Yuan's (2011) scaling
   // with minimum-trace communalities (Debelak & Tran 2016), which leaves a floor under the
   // smallest eigenvalue, instead of Higham's projection, which leaves it nearly singular and makes
   // every VIF, KMO and condition number explode. A matrix with an exact dependency only is left
-  // as it is, so exact copies keep their infinite VIF.
-  let matrixR = correlation.matrix;
-  let repaired = correlation.repaired;
-  if (correlation.indefinite) {
-    // Exact copies (identical recoded columns) are taken out before smoothing and put back as
-    // copies of their source, so they stay an exact dependency (infinite VIF, null, with its
-    // warning) instead of being scaled to r = .98 (docs/decisions/009).
-    const raw = correlation.unrepaired ?? correlation.matrix;
-    const copyOf = exactCopies(data);
-    const kept = copyOf.map((source, k) => (source < 0 ? k : -1)).filter((k) => k >= 0);
-    const smoothed = smoothCorrelationMatrix(kept.length === raw.order ? raw : principalSubmatrix(raw, kept));
-    if (smoothed.smoothed) {
-      matrixR = kept.length === raw.order ? smoothed.matrix : withCopies(smoothed.matrix, kept, copyOf);
-      repaired = true;
-      // The smoothing replaces the core's Higham repair: its notice no longer describes the matrix.
-      for (let w = warnings.length - 1; w >= 0; w--) if (warnings[w].code === 'matrix-repaired') warnings.splice(w, 1);
-      warnings.push(...warningsFromNotices(smoothed.notices, items, kept.map((k) => usable[k])));
-    }
-  }
+  // as it is, so exact copies keep their infinite VIF. The correlations come unrepaired
+  // (`repair: 'none'`): Higham's projection runs only when the smoothing declines.
+  const settled = settleIndefinite(correlation, data);
+  warnings.push(...warningsFromNotices(settled.notices, items, usable));
+  if (settings.method === 'polychoric') warnings.push(...polychoricSampleWarnings(correlation, items, usable));
+  const matrixR = settled.matrix;
+  const repaired = settled.repaired;
+  if (settled.smoothed !== null) warnings.push(...warningsFromNotices(settled.smoothed.notices, items, settled.smoothed.kept.map((k) => usable[k])));
   const covariance = moments?.covariance ?? covarianceMatrix(data, { missing: settings.missing, ...(crossProducts ? { crossProducts } : {}) });
   warnings.push(...warningsFromNotices(covariance.notices, items, usable));
 
@@ -422,7 +410,8 @@ export function polychoricSampleWarnings(correlation: ReturnType<typeof correlat
     });
   }
   const raw = correlation.unrepaired ?? correlation.matrix;
-  const negative = Array.from(symmetricEigenvalues(raw)).filter((value) => value < -REPAIR_EIGENVALUE_FLOOR).length;
+  const spectrum = correlation.unrepaired === null && correlation.eigenvalues !== undefined ? correlation.eigenvalues : symmetricEigenvalues(raw);
+  const negative = Array.from(spectrum).filter((value) => value < -REPAIR_EIGENVALUE_FLOOR).length;
   if (negative > 0) {
     warnings.push({
       code: 'polychoric-indefinite',
@@ -537,6 +526,47 @@ function wellConditionedInverse(eigen: SymmetricEigenDecomposition): SquareMatri
   const { order, values } = eigen;
   if (order === 0 || !(values[order - 1] > 0) || values[0] / values[order - 1] > INVERSE_MAX_CONDITION) return null;
   return spectralInverse(eigen);
+}
+
+/** What `settleIndefinite` made of a correlation result. */
+interface SettledCorrelation {
+  /** The matrix the engine uses: as computed, smoothed, or (when the smoothing declines) Higham's repair. */
+  readonly matrix: SquareMatrix;
+  readonly repaired: boolean;
+  /** The correlation's notices, with `matrix-indefinite` replaced by the repair's notices when it was repaired, or dropped when smoothed. */
+  readonly notices: readonly NumericalNotice[];
+  /** The smoothing's notices and the positions (in `data`) of the items it saw, when it smoothed. */
+  readonly smoothed: { readonly notices: readonly NumericalNotice[]; readonly kept: readonly number[] } | null;
+}
+
+/**
+ * The matrix the engine uses for an unrepaired correlation result (`repair: 'none'`). An
+ * indefinite one is smoothed by Bentler & Yuan's scaling; exact copies (identical recoded columns)
+ * are taken out before smoothing and put back as copies of their source, so they stay an exact
+ * dependency (infinite VIF, null, with its warning) instead of being scaled to r = .98
+ * (docs/decisions/009). When the smoothing declines (the matrix without its copies is not
+ * indefinite), Higham's nearest correlation matrix is taken, with the options and notices
+ * `correlationMatrix` would have used. The result is the one of repairing first and smoothing
+ * after, without the repair's projections when the smoothing replaces them.
+ * @param correlation A `correlationMatrix` or `weightedPearson` result computed with `repair: 'none'`.
+ * @param data The respondents × items the correlations were computed from.
+ * @returns The matrix, whether it was changed, and the notices to report.
+ * References: Bentler & Yuan 2011 (smoothing); Higham 2002 (nearest correlation matrix).
+ */
+function settleIndefinite(correlation: CorrelationMatrixResult, data: ItemMatrix): SettledCorrelation {
+  if (!correlation.indefinite) return { matrix: correlation.matrix, repaired: correlation.repaired, notices: correlation.notices, smoothed: null };
+  const raw = correlation.unrepaired ?? correlation.matrix;
+  const copyOf = exactCopies(data);
+  const kept = copyOf.map((source, k) => (source < 0 ? k : -1)).filter((k) => k >= 0);
+  const smoothed = smoothCorrelationMatrix(kept.length === raw.order ? raw : principalSubmatrix(raw, kept));
+  const others = correlation.notices.filter((notice) => notice.code !== 'matrix-indefinite' && notice.code !== 'matrix-repaired');
+  if (smoothed.smoothed) {
+    const matrix = kept.length === raw.order ? smoothed.matrix : withCopies(smoothed.matrix, kept, copyOf);
+    return { matrix, repaired: true, notices: others, smoothed: { notices: smoothed.notices, kept } };
+  }
+  if (correlation.repaired) return { matrix: correlation.matrix, repaired: true, notices: correlation.notices, smoothed: null };
+  const repair = repairCorrelationMatrix(raw, { method: 'higham' });
+  return { matrix: repair.matrix, repaired: repair.repaired, notices: [...others, ...repair.notices], smoothed: null };
 }
 
 /**

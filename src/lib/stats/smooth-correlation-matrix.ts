@@ -329,23 +329,42 @@ function solvePositiveDefinite(a: Float64Array, b: Float64Array, p: number, x: F
   return true;
 }
 
-/** Inverse of a positive-definite matrix (not modified) into `out`, by Cholesky in `work`. */
+/**
+ * Inverse of a positive-definite matrix (not modified) into `out`, by Cholesky in `work`: L y = e_c
+ * forward, then Lᵀ x = y backward, for every column c at once. Row by row, each step subtracts
+ * one multiple of an earlier row from a running row (`sums`), so the products of each element are
+ * subtracted in the order of the column-by-column substitutions (k ascending), giving the same
+ * bits with contiguous inner loops. In the forward solve y_kc = 0 for k < c: those terms (±0,
+ * which leave a sum unchanged) are skipped.
+ */
 function invertPositiveDefinite(a: Float64Array, p: number, out: Float64Array, work: Float64Array): boolean {
   work.set(a.subarray(0, p * p));
   if (!choleskyInPlace(work, p)) return false;
-  const column = new Float64Array(p);
-  for (let c = 0; c < p; c++) {
-    for (let i = 0; i < p; i++) {
-      let sum = i === c ? 1 : 0;
-      for (let k = 0; k < i; k++) sum -= work[i * p + k] * column[k];
-      column[i] = sum / work[i * p + i];
+  const sums = new Float64Array(p);
+  // Forward: row i of Y = L⁻¹ (lower triangular) into out.
+  for (let i = 0; i < p; i++) {
+    sums.fill(0, 0, i + 1);
+    sums[i] = 1;
+    for (let k = 0; k < i; k++) {
+      const factor = work[i * p + k];
+      const row = k * p;
+      for (let c = 0; c <= k; c++) sums[c] -= factor * out[row + c];
     }
-    for (let i = p - 1; i >= 0; i--) {
-      let sum = column[i];
-      for (let k = i + 1; k < p; k++) sum -= work[k * p + i] * column[k];
-      column[i] = sum / work[i * p + i];
+    const diagonal = work[i * p + i];
+    for (let c = 0; c <= i; c++) out[i * p + c] = sums[c] / diagonal;
+    for (let c = i + 1; c < p; c++) out[i * p + c] = 0;
+  }
+  // Backward: row i of X = L⁻ᵀ Y, from the last row up, over rows of Y already replaced by X.
+  for (let i = p - 1; i >= 0; i--) {
+    const row = i * p;
+    for (let c = 0; c < p; c++) sums[c] = out[row + c];
+    for (let k = i + 1; k < p; k++) {
+      const factor = work[k * p + i];
+      const later = k * p;
+      for (let c = 0; c < p; c++) sums[c] -= factor * out[later + c];
     }
-    for (let i = 0; i < p; i++) out[i * p + c] = column[i];
+    const diagonal = work[row + i];
+    for (let c = 0; c < p; c++) out[row + c] = sums[c] / diagonal;
   }
   return true;
 }

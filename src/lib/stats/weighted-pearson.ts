@@ -12,6 +12,7 @@
  */
 import { finishCorrelationMatrix, type CorrelationMatrixResult, type ItemPair } from './correlation-matrix';
 import type { CovarianceMatrixResult } from './covariance-matrix';
+import type { CorrelationRepairMethod } from './nearest-correlation';
 import { MIN_ROWS_FOR_CORRELATION, MIN_ROWS_FOR_COVARIANCE } from './tolerances';
 import type { ItemMatrix, NumericalNotice } from './types';
 
@@ -27,6 +28,8 @@ export interface WeightedPearsonResult {
  * @param weights How often each respondent is drawn (non-negative integers), one per row.
  * @param columns The items to correlate (0-based, ascending or not), at least one.
  * @param missing The missing-data policy.
+ * @param repair How an indefinite matrix is repaired, as in `correlationMatrix` (default `higham`;
+ *   `none` leaves it as computed, with a `matrix-indefinite` notice).
  * @throws {RangeError} when the weights do not match the rows or an item is out of range.
  * @returns The correlation result (finished as `correlationMatrix` finishes it: diagonal,
  *   undefined pairs, indefiniteness and repair) and the covariance result; null under listwise
@@ -34,7 +37,13 @@ export interface WeightedPearsonResult {
  * References: Efron & Tibshirani 1993, "An Introduction to the Bootstrap", ch. 6 (the resample
  *   as weights on the observed rows); Chan, Golub & LeVeque 1983 (two-pass sums).
  */
-export function weightedPearson(matrix: ItemMatrix, weights: Float64Array, columns: readonly number[], missing: 'pairwise' | 'listwise'): WeightedPearsonResult | null {
+export function weightedPearson(
+  matrix: ItemMatrix,
+  weights: Float64Array,
+  columns: readonly number[],
+  missing: 'pairwise' | 'listwise',
+  repair: CorrelationRepairMethod | 'none' = 'higham',
+): WeightedPearsonResult | null {
   const rows = matrix.rows;
   if (weights.length !== rows) throw new RangeError(`weightedPearson: ${weights.length} weights for ${rows} rows`);
   const order = columns.length;
@@ -114,7 +123,7 @@ export function weightedPearson(matrix: ItemMatrix, weights: Float64Array, colum
     {
       method: 'pearson',
       missing,
-      repair: 'higham',
+      repair,
       order,
       rowsUsed,
       pairwiseWithMissing: missing === 'pairwise' && hasMissing,
