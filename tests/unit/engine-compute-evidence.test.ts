@@ -1,6 +1,11 @@
 import { describe, expect, it } from 'vitest';
 import { computeEvidence, scaleAlphaOracle, warningsFromNotices } from '../../src/lib/engine/compute-evidence';
 import { engineReference as ref, referenceInput, type PolicyReference } from './engine-fixture';
+import type { EngineItem } from '../../src/lib/engine/types';
+import { correlationMatrix } from '../../src/lib/stats/correlation-matrix';
+import { createSeededRandom } from '../../src/lib/stats/seeded-random';
+import { smoothCorrelationMatrix } from '../../src/lib/stats/smooth-correlation-matrix';
+import type { ItemMatrix } from '../../src/lib/stats/types';
 
 // Every expected value below comes from R 4.2.2 (psych 2.2.9) via
 // scripts/reference/engine-evidence.R -> fixtures/reference/engine-evidence.json.
@@ -121,5 +126,47 @@ describe('warningsFromNotices', () => {
     const [warning] = warningsFromNotices([{ code: 'exact-dependency', items: [0, 1], message: 'Items at columns 0, 1 ...' }], items, [1, 2, 0]);
     expect(warning.items).toEqual(['Q2', 'Q3']);
     expect(warning.message).toMatch(/^Q2, Q3 are exactly linearly dependent/);
+  });
+});
+
+describe('computeEvidence on an indefinite pairwise matrix', () => {
+  // Three groups of respondents each answer two of the items A, B, C (and all answer D, E), so
+  // each pair's correlation comes from other people: r(A,B) and r(B,C) near +.9 and r(A,C) near
+  // -.9 cannot hold together, and the pairwise matrix has a negative eigenvalue.
+  function indefiniteWave(): { matrix: ItemMatrix; items: EngineItem[] } {
+    const random = createSeededRandom(11);
+    const rows = 180;
+    const columns = 5;
+    const data = new Float64Array(rows * columns).fill(Number.NaN);
+    const put = (i: number, j: number, value: number) => (data[j * rows + i] = Math.min(5, Math.max(1, Math.round(3 + value))));
+    for (let i = 0; i < rows; i++) {
+      const f = random.nextNormal();
+      const g = random.nextNormal();
+      const group = i % 3;
+      const [first, second, sign] = group === 0 ? [0, 1, 1] : group === 1 ? [1, 2, 1] : [0, 2, -1];
+      put(i, first, f + 0.3 * random.nextNormal());
+      put(i, second, sign * f + 0.3 * random.nextNormal());
+      put(i, 3, g + 0.6 * random.nextNormal());
+      put(i, 4, g + 0.6 * random.nextNormal());
+    }
+    const items: EngineItem[] = ['A', 'B', 'C', 'D', 'E'].map((id, j) => ({ id, scale: j < 3 ? 'S1' : 'S2', text: `Item ${id}`, locked: false, min: 1, max: 5 }));
+    return { matrix: { rows, columns, data }, items };
+  }
+
+  it('smooths the unrepaired correlations (no Higham projection first) and reports the smoothing alone', () => {
+    const { matrix, items } = indefiniteWave();
+    const raw = correlationMatrix(matrix, { method: 'pearson', missing: 'pairwise', repair: 'none' });
+    expect(raw.indefinite).toBe(true);
+    // What the engine did before: the core repaired by Higham's projection, and the engine smoothed the matrix it kept as `unrepaired`.
+    const repairedFirst = correlationMatrix(matrix, { method: 'pearson', missing: 'pairwise' });
+    expect(repairedFirst.repaired).toBe(true);
+    const expected = smoothCorrelationMatrix(repairedFirst.unrepaired!);
+    const evidence = computeEvidence(matrix, items, { method: 'pearson', missing: 'pairwise' });
+    expect(evidence.repaired).toBe(true);
+    expect(Array.from(evidence.correlation.data).every((value, k) => Object.is(value, expected.matrix.data[k]))).toBe(true);
+    const codes = evidence.warnings.map((warning) => warning.code);
+    expect(codes).toContain('matrix-smoothed');
+    expect(codes).not.toContain('matrix-repaired');
+    expect(codes).not.toContain('matrix-indefinite');
   });
 });
