@@ -200,7 +200,7 @@ function recordPairCount(out: PairTargets, order: number, a: number, b: number, 
  * sums over the rows where both answered are masked cross-products: Σ w·x·y = (w∘X₀)ᵀX₀, and the
  * weight, Σ w·x and Σ w·x² of an item where its partner answered are its totals less
  * (w∘M)ᵀ(1 − M), (w∘X₀)ᵀ(1 − M) and (w∘X₀∘X₀)ᵀ(1 − M), the complement of the mask being sparse
- * (as in masked-cross-products.ts), taken item by item over the rows that miss an answer. Exact sums
+ * (as in masked-cross-products.ts), taken row by row over the rows that miss an answer. Exact sums
  * make this bit for bit the one-pass pair loop.
  */
 function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissing: boolean, total: number, largest: number, out: PairTargets): void {
@@ -212,7 +212,7 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
   const lanes = negative ? 1 : packedLanes(total * largest * largest);
   // Per item, one block each: weight × answer (0 where missing; blocks padded with zero items to
   // the kernel's tiles of three), the answers packed `lanes` to a double, and the item's totals
-  // where answered of the weight, weight × answer and weight × square; the rows missing any item.
+  // where answered of the weight, weight × answer and weight × square; how many items each row misses.
   const rowsPadded = Math.ceil(order / 3) * 3;
   const groups = Math.ceil(order / lanes);
   const groupsPadded = groups + 3;
@@ -221,9 +221,7 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
   const totalWeight = new Float64Array(order);
   const totalX = new Float64Array(order);
   const totalXX = new Float64Array(order);
-  const missingOf: Int32Array[] = [];
-  const scratch = new Int32Array(distinct);
-  const missesInRow = new Int32Array(distinct + 1);
+  const missesInRow = new Int32Array(distinct);
   for (let a = 0; a < order; a++) {
     const column = values[a];
     const offset = a * distinct;
@@ -232,11 +230,9 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
     let sw = 0;
     let sx = 0;
     let sxx = 0;
-    let countMissing = 0;
     for (let t = 0; t < distinct; t++) {
       const x = column[t];
       if (x !== x) {
-        scratch[countMissing++] = t;
         missesInRow[t]++;
         continue;
       }
@@ -249,51 +245,46 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
     totalWeight[a] = sw;
     totalX[a] = sx;
     totalXX[a] = sxx;
-    missingOf.push(scratch.slice(0, countMissing));
   }
   // Σ w·x·y over every distinct row (0 where either is missing): (w∘X₀)ᵀX₀ by the blocked kernel.
   const products = new Float64Array(order * order);
   weightedIntegerProducts(wx, packed, order, distinct, lanes, products);
-  // What item a holds in the rows where item b is missing (row-major [a · order + b]): weight where
-  // a is answered, weight × answer, weight × square. The rows missing some item, each with the
-  // items it misses (compressed rows), are read item by item.
+  // What item a holds in the rows where item b is missing, stored by b (row-major [b · order + a]):
+  // weight where a is answered, weight × answer, weight × square. Each row that misses some item
+  // is laid out once across the items (0 where unanswered) and added, whole, to the sums of every
+  // item it misses: contiguous runs of exact integer sums (adding 0 changes none).
   const lessWeight = new Float64Array(order * order);
   const lessX = new Float64Array(order * order);
   const lessXX = new Float64Array(order * order);
   if (hasMissing) {
-    let rowsMissing = 0;
-    for (let t = 0; t < distinct; t++) if (missesInRow[t] > 0) rowsMissing++;
-    const missingRows = new Int32Array(rowsMissing);
-    const start = new Int32Array(rowsMissing + 1);
-    const position = new Int32Array(distinct);
-    for (let t = 0, m = 0; t < distinct; t++) {
+    const rowWeight = new Float64Array(order);
+    const rowX = new Float64Array(order);
+    const rowXX = new Float64Array(order);
+    const missed = new Int32Array(order);
+    for (let t = 0; t < distinct; t++) {
       if (missesInRow[t] === 0) continue;
-      missingRows[m] = t;
-      position[t] = m;
-      start[m + 1] = start[m] + missesInRow[t];
-      m++;
-    }
-    const missedItems = new Int32Array(start[rowsMissing]);
-    const filled = start.slice(0, rowsMissing);
-    for (let b = 0; b < order; b++) {
-      const list = missingOf[b];
-      for (let k = 0; k < list.length; k++) missedItems[filled[position[list[k]]]++] = b;
-    }
-    for (let a = 0; a < order; a++) {
-      const column = values[a];
-      const offset = a * order;
-      for (let m = 0; m < rowsMissing; m++) {
-        const t = missingRows[m];
-        const x = column[t];
-        if (x !== x) continue;
-        const weight = w[t];
-        const weightX = weight * x;
-        const weightXX = weightX * x;
-        for (let k = start[m]; k < start[m + 1]; k++) {
-          const target = offset + missedItems[k];
-          lessWeight[target] += weight;
-          lessX[target] += weightX;
-          lessXX[target] += weightXX;
+      const weight = w[t];
+      let count = 0;
+      for (let a = 0; a < order; a++) {
+        const x = values[a][t];
+        if (x !== x) {
+          missed[count++] = a;
+          rowWeight[a] = 0;
+          rowX[a] = 0;
+          rowXX[a] = 0;
+        } else {
+          const weightX = weight * x;
+          rowWeight[a] = weight;
+          rowX[a] = weightX;
+          rowXX[a] = weightX * x;
+        }
+      }
+      for (let k = 0; k < count; k++) {
+        const offset = missed[k] * order;
+        for (let a = 0; a < order; a++) {
+          lessWeight[offset + a] += rowWeight[a];
+          lessX[offset + a] += rowX[a];
+          lessXX[offset + a] += rowXX[a];
         }
       }
     }
@@ -301,11 +292,11 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
   for (let a = 0; a < order; a++) {
     for (let b = a; b < order; b++) {
       // a's sums over the rows where b is answered, and b's over those where a is.
-      const n = totalWeight[a] - lessWeight[a * order + b];
-      const sx = totalX[a] - lessX[a * order + b];
-      const sxx = totalXX[a] - lessXX[a * order + b];
-      const sy = totalX[b] - lessX[b * order + a];
-      const syy = totalXX[b] - lessXX[b * order + a];
+      const n = totalWeight[a] - lessWeight[b * order + a];
+      const sx = totalX[a] - lessX[b * order + a];
+      const sxx = totalXX[a] - lessXX[b * order + a];
+      const sy = totalX[b] - lessX[a * order + b];
+      const syy = totalXX[b] - lessXX[a * order + b];
       const sxy = products[a * order + b];
       if (!recordPairCount(out, order, a, b, n, hasMissing ? n : total)) continue;
       const centredXY = n * sxy - sx * sy;
