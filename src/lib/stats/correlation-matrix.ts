@@ -28,6 +28,7 @@
  * correlation coefficient"; Higham 2002, "Computing the nearest correlation matrix" (IMA J.
  * Numer. Anal. 22:329-343) on indefinite pairwise matrices.
  */
+import { checkItemMatrix } from './item-matrix-input';
 import { centeredCrossProducts, crossProductsOfItems, pearsonFromCrossProducts, type CenteredCrossProducts } from './cross-products';
 import { maskedCrossProducts, pairCentredSums } from './masked-cross-products';
 import { assignMidRanks, midRanks } from './mid-ranks';
@@ -125,7 +126,7 @@ export interface UsableItems {
  * References: methods.md §1 (constant items cannot enter a correlation matrix).
  */
 export function usableItems(matrix: ItemMatrix): UsableItems {
-  checkMatrix(matrix, 'usableItems');
+  checkItemMatrix(matrix, 'usableItems');
   const { rows, columns, data } = matrix;
   const usable: number[] = [];
   const refused: number[] = [];
@@ -221,7 +222,7 @@ export interface PreparedCorrelationMatrix {
  * References: Pearson 1896; Spearman 1904; Olsson 1979 (see the module notes).
  */
 export function prepareCorrelationMatrix(matrix: ItemMatrix, options: CorrelationMatrixOptions, caller: string): PreparedCorrelationMatrix {
-  checkMatrix(matrix, caller);
+  checkItemMatrix(matrix, caller);
   const { method, missing, repair = 'higham' } = options ?? ({} as CorrelationMatrixOptions);
   if (method !== 'pearson' && method !== 'spearman' && method !== 'polychoric') {
     throw new RangeError(`${caller}: method must be pearson, spearman or polychoric, got ${String(method)}`);
@@ -406,19 +407,6 @@ export function finishCorrelationMatrix(prepared: PreparedCorrelationMatrix, pol
   };
 }
 
-function checkMatrix(matrix: ItemMatrix, caller: string): void {
-  const { rows, columns, data } = matrix ?? ({} as ItemMatrix);
-  if (!Number.isInteger(rows) || rows < 0) throw new RangeError(`${caller}: rows must be a non-negative integer, got ${rows}`);
-  if (!Number.isInteger(columns) || columns < 1) throw new RangeError(`${caller}: at least one item is required, got ${columns}`);
-  if (!(data instanceof Float64Array) || data.length !== rows * columns) {
-    throw new RangeError(`${caller}: data must be a Float64Array of rows × columns = ${rows * columns} values`);
-  }
-  for (let t = 0; t < data.length; t++) {
-    if (data[t] === Infinity || data[t] === -Infinity) {
-      throw new RangeError(`${caller}: item ${Math.floor(t / rows)} has an infinite value at respondent ${t % rows}; use NaN for a missing answer`);
-    }
-  }
-}
 
 function allPairs(order: number): Int32Array {
   const pairs = new Int32Array(order * (order - 1));

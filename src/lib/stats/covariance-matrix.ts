@@ -16,6 +16,7 @@
  * analysis and recommendations" (two-pass centred sums); Cronbach 1951, "Coefficient alpha and
  * the internal structure of tests" (the use made of it).
  */
+import { checkItemMatrix } from './item-matrix-input';
 import { completeRows, rowsWithAnyAnswer } from './complete-rows';
 import { centeredCrossProducts, type CenteredCrossProducts } from './cross-products';
 import { maskedCrossProducts, pairCentredSums } from './masked-cross-products';
@@ -62,17 +63,8 @@ export interface CovarianceMatrixResult {
  */
 export function covarianceMatrix(matrix: ItemMatrix, options: CovarianceMatrixOptions): CovarianceMatrixResult {
   const caller = 'covarianceMatrix';
-  const { rows, columns, data } = matrix ?? ({} as ItemMatrix);
-  if (!Number.isInteger(rows) || rows < 0) throw new RangeError(`${caller}: rows must be a non-negative integer, got ${rows}`);
-  if (!Number.isInteger(columns) || columns < 1) throw new RangeError(`${caller}: at least one item is required, got ${columns}`);
-  if (!(data instanceof Float64Array) || data.length !== rows * columns) {
-    throw new RangeError(`${caller}: data must be a Float64Array of rows × columns = ${rows * columns} values`);
-  }
-  for (let t = 0; t < data.length; t++) {
-    if (data[t] === Infinity || data[t] === -Infinity) {
-      throw new RangeError(`${caller}: item ${Math.floor(t / rows)} has an infinite value at respondent ${t % rows}; use NaN for a missing answer`);
-    }
-  }
+  checkItemMatrix(matrix, caller);
+  const { rows, columns, data } = matrix;
   const missing = options?.missing;
   if (missing !== 'pairwise' && missing !== 'listwise') throw new RangeError(`${caller}: missing must be pairwise or listwise, got ${String(missing)}`);
 

@@ -9,6 +9,7 @@
  * health status questionnaires" (J. Clin. Epidemiol. 60:34-42); Chan, Golub & LeVeque 1983,
  * "Algorithms for computing the sample variance: analysis and recommendations".
  */
+import { checkItemMatrix } from './item-matrix-input';
 import { FLOOR_CEILING_SHARE } from './tolerances';
 import type { ItemMatrix } from './types';
 
@@ -64,12 +65,9 @@ export interface ItemDescriptivesOptions {
  */
 export function itemDescriptives(matrix: ItemMatrix, options: ItemDescriptivesOptions = {}): ItemDescriptive[] {
   const caller = 'itemDescriptives';
-  const { rows, columns, data } = matrix ?? ({} as ItemMatrix);
-  if (!Number.isInteger(rows) || rows < 0) throw new RangeError(`${caller}: rows must be a non-negative integer, got ${rows}`);
-  if (!Number.isInteger(columns) || columns < 1) throw new RangeError(`${caller}: at least one item is required, got ${columns}`);
-  if (!(data instanceof Float64Array) || data.length !== rows * columns) {
-    throw new RangeError(`${caller}: data must be a Float64Array of rows × columns = ${rows * columns} values`);
-  }
+  // Infinite answers are found in the pass below.
+  checkItemMatrix(matrix, caller, false);
+  const { rows, columns, data } = matrix;
   const ranges = options.ranges;
   if (ranges !== undefined && ranges.length !== columns) {
     throw new RangeError(`${caller}: ranges must have one entry per item (${columns}), got ${ranges.length}`);
@@ -89,13 +87,16 @@ export function itemDescriptives(matrix: ItemMatrix, options: ItemDescriptivesOp
     for (let i = 0; i < rows; i++) {
       const value = values[i];
       if (value !== value) continue;
-      if (value === Infinity || value === -Infinity) {
-        throw new RangeError(`${caller}: item ${j} has an infinite value at respondent ${i}; use NaN for a missing answer`);
-      }
       n++;
       sum += value;
       if (value < minimum) minimum = value;
       if (value > maximum) maximum = value;
+    }
+    // An infinite answer makes the sum infinite or NaN: only then is the item searched for it (a
+    // test per answer in the loop above costs more than the loop).
+    if (sum - sum !== 0) {
+      const at = values.findIndex((value) => value === Infinity || value === -Infinity);
+      if (at >= 0) throw new RangeError(`${caller}: item ${j} has an infinite value at respondent ${at}; use NaN for a missing answer`);
     }
     const range = ranges?.[j] ?? null;
     const missing = rows - n;
@@ -115,13 +116,16 @@ export function itemDescriptives(matrix: ItemMatrix, options: ItemDescriptivesOp
     let atFloor = 0;
     let atCeiling = 0;
     let outOfRange = 0;
+    // Without a range nothing is out of it: the bounds that no answer passes.
+    const low = range === null ? -Infinity : range.min;
+    const high = range === null ? Infinity : range.max;
     for (let i = 0; i < rows; i++) {
       const value = values[i];
       if (value !== value) continue;
       squares += (value - mean) * (value - mean);
       if (value === floorValue) atFloor++;
       if (value === ceilingValue) atCeiling++;
-      if (range !== null && (value < range.min || value > range.max)) outOfRange++;
+      if (value < low || value > high) outOfRange++;
     }
     const floorShare = atFloor / n;
     const ceilingShare = atCeiling / n;

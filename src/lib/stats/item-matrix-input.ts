@@ -1,0 +1,42 @@
+/**
+ * The check every core function that takes respondents × items makes of its input: the shape,
+ * and (unless the caller finds them in a pass of its own) no infinite value, since a missing
+ * answer is NaN.
+ */
+import type { ItemMatrix } from './types';
+
+/**
+ * Checks a respondents × items matrix.
+ * @param matrix The matrix (column-major Float64Array, NaN for missing).
+ * @param caller Name of the public function, for the messages.
+ * @param infinities Whether to refuse infinite values here (default true); a caller that passes
+ *   over the data anyway may find them there instead.
+ * @returns Nothing; returns only when every check passes.
+ * @throws {RangeError} naming `caller` when rows is not a non-negative integer, there is no item,
+ *   the data is not a Float64Array of rows × columns values, or (with `infinities`) a value is
+ *   infinite (the first in column order, by item and respondent).
+ * References: none (input validation).
+ */
+export function checkItemMatrix(matrix: ItemMatrix, caller: string, infinities = true): void {
+  const { rows, columns, data } = matrix ?? ({} as ItemMatrix);
+  if (!Number.isInteger(rows) || rows < 0) throw new RangeError(`${caller}: rows must be a non-negative integer, got ${rows}`);
+  if (!Number.isInteger(columns) || columns < 1) throw new RangeError(`${caller}: at least one item is required, got ${columns}`);
+  if (!(data instanceof Float64Array) || data.length !== rows * columns) {
+    throw new RangeError(`${caller}: data must be a Float64Array of rows × columns = ${rows * columns} values`);
+  }
+  if (!infinities) return;
+  for (let j = 0; j < columns; j++) {
+    const offset = j * rows;
+    // A finite column sum rules out NaN and infinity at once (the common, complete case); only
+    // otherwise is each value looked at: x − x is NaN exactly for an infinite x (a NaN is skipped).
+    let sum = 0;
+    for (let i = 0; i < rows; i++) sum += data[offset + i];
+    if (sum - sum === 0) continue;
+    for (let i = 0; i < rows; i++) {
+      const value = data[offset + i];
+      if (value === value && value - value !== 0) {
+        throw new RangeError(`${caller}: item ${j} has an infinite value at respondent ${i}; use NaN for a missing answer`);
+      }
+    }
+  }
+}
