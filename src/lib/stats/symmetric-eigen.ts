@@ -13,6 +13,7 @@
  * and QL algorithms for symmetric matrices" (Numer. Math. 11:293-306, tql2); Smith et al. 1976,
  * "Matrix Eigensystem Routines - EISPACK Guide".
  */
+import { PlaneRotationBatch } from './plane-rotations-kernel';
 import { checkSymmetricMatrix } from './symmetric-input';
 import { EIGEN_MAX_ITERATIONS_PER_VALUE } from './tolerances';
 import type { SquareMatrix } from './types';
@@ -34,6 +35,13 @@ export interface SymmetricEigenDecomposition {
 }
 
 /**
+ * Below this order `symmetricEigen` applies the QL rotations in JavaScript: copying the rows into
+ * WebAssembly memory and back costs more than the kernel saves there (measured in
+ * docs/decisions/020-speed-whole-audit.md, "Addendum: the QL rotations in WebAssembly").
+ */
+export const WEBASSEMBLY_ROTATIONS_MIN_ORDER = 8;
+
+/**
  * Eigenvalues and unit eigenvectors of a real symmetric matrix.
  * @param matrix Symmetric matrix (both triangles stored; only symmetry within SYMMETRY_TOLERANCE
  *   is accepted), finite values. It is not modified.
@@ -45,13 +53,39 @@ export interface SymmetricEigenDecomposition {
  */
 export function symmetricEigen(matrix: SquareMatrix): SymmetricEigenDecomposition {
   checkSymmetricMatrix(matrix, 'symmetricEigen', 'matrix');
+  return decompose(matrix, matrix.order >= WEBASSEMBLY_ROTATIONS_MIN_ORDER, 'symmetricEigen');
+}
+
+/**
+ * The same decomposition as `symmetricEigen`, with the QL rotations applied by the JavaScript
+ * loop at every order: the reference that the WebAssembly rotations must match bit for bit
+ * (tests/unit/symmetric-eigen.test.ts) and the benchmark's baseline.
+ * @param matrix Symmetric matrix with finite values; not modified.
+ * @throws {RangeError} when the matrix is empty, not square, not finite or not symmetric.
+ * @throws {Error} when the QL iteration does not converge.
+ * @returns Eigenvalues in descending order and the matching orthonormal eigenvectors (columns),
+ *   as `symmetricEigen`.
+ * References: as `symmetricEigen`.
+ */
+export function symmetricEigenInJavaScript(matrix: SquareMatrix): SymmetricEigenDecomposition {
+  checkSymmetricMatrix(matrix, 'symmetricEigenInJavaScript', 'matrix');
+  return decompose(matrix, false, 'symmetricEigenInJavaScript');
+}
+
+function decompose(matrix: SquareMatrix, rotationsInWebAssembly: boolean, caller: string): SymmetricEigenDecomposition {
   const n = matrix.order;
   // w holds Vᵀ: row j of w is column j of the transformation V of the EISPACK listing.
   const w = transposeCopy(matrix);
   const d = new Float64Array(n);
   const e = new Float64Array(n);
   tridiagonalize(w, n, d, e);
-  tridiagonalQl(d, e, n, w, 'symmetricEigen');
+  if (rotationsInWebAssembly && n >= 2) {
+    const rotations = new PlaneRotationBatch(w, n);
+    tridiagonalQl(d, e, n, null, rotations, caller);
+    rotations.finish();
+  } else {
+    tridiagonalQl(d, e, n, w, null, caller);
+  }
 
   const order = descendingOrder(d);
   const values = new Float64Array(n);
@@ -91,7 +125,7 @@ export function symmetricEigenvalues(matrix: SquareMatrix): Float64Array {
   const d = new Float64Array(n);
   const e = new Float64Array(n);
   tridiagonalizeValuesOnly(w, n, d, e);
-  tridiagonalQl(d, e, n, null, 'symmetricEigenvalues');
+  tridiagonalQl(d, e, n, null, null, 'symmetricEigenvalues');
   return d.sort().reverse();
 }
 
@@ -331,10 +365,19 @@ function householderReduction(w: Float64Array, n: number, d: Float64Array, e: Fl
 }
 
 /**
- * EISPACK tql2 (tql1 when `w` is null): eigenvalues of the tridiagonal (d, e) into d, and the
- * rotations applied to the rows of w (the transposed eigenvector matrix). Unsorted on return.
+ * EISPACK tql2 (tql1 when `w` and `rotations` are null): eigenvalues of the tridiagonal (d, e)
+ * into d, and the rotations applied to the rows of w (the transposed eigenvector matrix) here in
+ * JavaScript, or recorded into `rotations` to be applied in WebAssembly, in the same order (they
+ * depend on d and e only). Unsorted on return.
  */
-function tridiagonalQl(d: Float64Array, e: Float64Array, n: number, w: Float64Array | null, caller: string): void {
+function tridiagonalQl(
+  d: Float64Array,
+  e: Float64Array,
+  n: number,
+  w: Float64Array | null,
+  rotations: PlaneRotationBatch | null,
+  caller: string,
+): void {
   for (let i = 1; i < n; i++) e[i - 1] = e[i];
   e[n - 1] = 0;
 
@@ -371,6 +414,7 @@ function tridiagonalQl(d: Float64Array, e: Float64Array, n: number, w: Float64Ar
         const el1 = e[l + 1];
         let s = 0;
         let s2 = 0;
+        if (rotations !== null) rotations.startSweep(m - 1, m - l);
         for (let i = m - 1; i >= l; i--) {
           c3 = c2;
           c2 = c;
@@ -383,7 +427,9 @@ function tridiagonalQl(d: Float64Array, e: Float64Array, n: number, w: Float64Ar
           c = p / r;
           p = c * d[i] - s * g;
           d[i + 1] = h + s * (c * g + s * d[i]);
-          if (w !== null) {
+          if (rotations !== null) {
+            rotations.add(c, s);
+          } else if (w !== null) {
             const upper = (i + 1) * n;
             const lower = i * n;
             for (let k = 0; k < n; k++) {
