@@ -1,6 +1,7 @@
 /**
- * symmetricEigen per call: the QL rotations in WebAssembly (`symmetricEigen`) against the
- * JavaScript loop (`symmetricEigenInJavaScript`), on seeded random correlation matrices of the
+ * symmetricEigen per call (tred2's accumulation four rows per pass, the QL rotations in
+ * WebAssembly) against the listing's loops (`symmetricEigenUnblocked`: one row at a time, the
+ * rotations in JavaScript), on seeded random correlation matrices of the
  * orders the audit meets (40 items; 101 for Belsley's scaled Gram matrix of case E) and small
  * ones around the cut-off `WEBASSEMBLY_ROTATIONS_MIN_ORDER`.
  *
@@ -11,7 +12,7 @@
  */
 import { loadAverageAndCores } from './bench-helpers';
 import { createSeededRandom } from '../src/lib/stats/seeded-random';
-import { symmetricEigen, symmetricEigenInJavaScript } from '../src/lib/stats/symmetric-eigen';
+import { symmetricEigen, symmetricEigenUnblocked } from '../src/lib/stats/symmetric-eigen';
 import type { SquareMatrix } from '../src/lib/stats/types';
 
 const ROUNDS = 15;
@@ -62,15 +63,15 @@ for (const order of orders.length > 0 ? orders : [4, 6, 8, 12, 16, 40, 101]) {
   const calls = Math.max(20, Math.round(2e7 / (order * order * order + 2000)));
   for (let warm = 0; warm < 3; warm++) {
     microsecondsPerCall(symmetricEigen, matrices, calls);
-    microsecondsPerCall(symmetricEigenInJavaScript, matrices, calls);
+    microsecondsPerCall(symmetricEigenUnblocked, matrices, calls);
   }
   const kernel: number[] = [];
   const loop: number[] = [];
   for (let round = 0; round < ROUNDS; round++) {
     kernel.push(microsecondsPerCall(symmetricEigen, matrices, calls));
-    loop.push(microsecondsPerCall(symmetricEigenInJavaScript, matrices, calls));
+    loop.push(microsecondsPerCall(symmetricEigenUnblocked, matrices, calls));
   }
   const [k, j] = [median(kernel), median(loop)];
-  console.log(`order ${order}: JavaScript rotations ${j.toFixed(1)} µs, WebAssembly rotations ${k.toFixed(1)} µs per call (ratio ${(j / k).toFixed(2)}), ${calls} calls × ${ROUNDS} rounds`);
+  console.log(`order ${order}: unblocked ${j.toFixed(1)} µs, symmetricEigen ${k.toFixed(1)} µs per call (ratio ${(j / k).toFixed(2)}), ${calls} calls × ${ROUNDS} rounds`);
 }
 console.log(loadAverageAndCores());

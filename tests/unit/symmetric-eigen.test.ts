@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { symmetricEigen, symmetricEigenInJavaScript, symmetricEigenvalues, WEBASSEMBLY_ROTATIONS_MIN_ORDER } from '../../src/lib/stats/symmetric-eigen';
+import { symmetricEigen, symmetricEigenUnblocked, symmetricEigenvalues, WEBASSEMBLY_ROTATIONS_MIN_ORDER } from '../../src/lib/stats/symmetric-eigen';
 import { squareMatrixFromRows, type SquareMatrix } from '../../src/lib/stats/types';
 import { createSeededRandom } from '../../src/lib/stats/seeded-random';
 import { overlapFixture, referenceCorrelation, relativeError } from './overlap-fixtures';
@@ -161,12 +161,12 @@ function withRepeatedValues(order: number, seed: number): SquareMatrix {
   return { order, data };
 }
 
-describe('symmetricEigen: the QL rotations in WebAssembly', () => {
-  it('gives bit for bit the values and vectors of the JavaScript rotations for orders 1 to 130', () => {
-    // The reference is the same decomposition with tql2's rotation loop in JavaScript (Object.is:
-    // the sign of zero and every last bit count). Random, rank-deficient, exactly dependent and
-    // repeated-eigenvalue matrices at every order; below WEBASSEMBLY_ROTATIONS_MIN_ORDER both
-    // paths are the loop.
+describe('symmetricEigen: four-row accumulation and the QL rotations in WebAssembly', () => {
+  it('gives bit for bit the values and vectors of the listing\'s loops for orders 1 to 130', () => {
+    // The reference is the same decomposition with tred2's accumulation one row at a time and
+    // tql2's rotation loop in JavaScript (Object.is: the sign of zero and every last bit count).
+    // Random, rank-deficient, exactly dependent and repeated-eigenvalue matrices at every order;
+    // below WEBASSEMBLY_ROTATIONS_MIN_ORDER only the accumulation differs.
     const mismatches: string[] = [];
     let changedByRotations = 0;
     for (let order = 1; order <= 130; order++) {
@@ -180,7 +180,7 @@ describe('symmetricEigen: the QL rotations in WebAssembly', () => {
       }
       for (const [kind, matrix] of matrices) {
         const kernel = symmetricEigen(matrix);
-        const loop = symmetricEigenInJavaScript(matrix);
+        const loop = symmetricEigenUnblocked(matrix);
         for (let k = 0; k < order; k++) {
           if (!Object.is(kernel.values[k], loop.values[k])) mismatches.push(`${kind} ${order}: λ${k}`);
         }

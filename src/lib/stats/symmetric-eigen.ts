@@ -53,13 +53,14 @@ export const WEBASSEMBLY_ROTATIONS_MIN_ORDER = 8;
  */
 export function symmetricEigen(matrix: SquareMatrix): SymmetricEigenDecomposition {
   checkSymmetricMatrix(matrix, 'symmetricEigen', 'matrix');
-  return decompose(matrix, matrix.order >= WEBASSEMBLY_ROTATIONS_MIN_ORDER, 'symmetricEigen');
+  return decompose(matrix, true, 'symmetricEigen');
 }
 
 /**
- * The same decomposition as `symmetricEigen`, with the QL rotations applied by the JavaScript
- * loop at every order: the reference that the WebAssembly rotations must match bit for bit
- * (tests/unit/symmetric-eigen.test.ts) and the benchmark's baseline.
+ * The same decomposition as `symmetricEigen` computed with the listing's loops: tred2's
+ * accumulation of the transformation one row at a time and tql2's rotations in JavaScript at
+ * every order. It is the reference that the four-row accumulation and the WebAssembly rotations
+ * must match bit for bit (tests/unit/symmetric-eigen.test.ts) and the benchmark's baseline.
  * @param matrix Symmetric matrix with finite values; not modified.
  * @throws {RangeError} when the matrix is empty, not square, not finite or not symmetric.
  * @throws {Error} when the QL iteration does not converge.
@@ -67,19 +68,20 @@ export function symmetricEigen(matrix: SquareMatrix): SymmetricEigenDecompositio
  *   as `symmetricEigen`.
  * References: as `symmetricEigen`.
  */
-export function symmetricEigenInJavaScript(matrix: SquareMatrix): SymmetricEigenDecomposition {
-  checkSymmetricMatrix(matrix, 'symmetricEigenInJavaScript', 'matrix');
-  return decompose(matrix, false, 'symmetricEigenInJavaScript');
+export function symmetricEigenUnblocked(matrix: SquareMatrix): SymmetricEigenDecomposition {
+  checkSymmetricMatrix(matrix, 'symmetricEigenUnblocked', 'matrix');
+  return decompose(matrix, false, 'symmetricEigenUnblocked');
 }
 
-function decompose(matrix: SquareMatrix, rotationsInWebAssembly: boolean, caller: string): SymmetricEigenDecomposition {
+/** tred2 then tql2; `blocked` takes the four-row accumulation and (from order 8) the kernel. */
+function decompose(matrix: SquareMatrix, blocked: boolean, caller: string): SymmetricEigenDecomposition {
   const n = matrix.order;
   // w holds Vᵀ: row j of w is column j of the transformation V of the EISPACK listing.
   const w = transposeCopy(matrix);
   const d = new Float64Array(n);
   const e = new Float64Array(n);
-  tridiagonalize(w, n, d, e);
-  if (rotationsInWebAssembly && n >= 2) {
+  tridiagonalize(w, n, d, e, blocked);
+  if (blocked && n >= WEBASSEMBLY_ROTATIONS_MIN_ORDER && n >= 2) {
     const rotations = new PlaneRotationBatch(w, n);
     tridiagonalQl(d, e, n, null, rotations, caller);
     rotations.finish();
@@ -155,9 +157,11 @@ function hypotenuse(a: number, b: number): number {
 
 /**
  * EISPACK tred2 with V stored transposed: `w[b * n + a]` is V[a][b] of the listing. On return
- * d holds the diagonal and e the subdiagonal (e[0] = 0), and w holds Qᵀ.
+ * d holds the diagonal and e the subdiagonal (e[0] = 0), and w holds Qᵀ. With `fourRows` the
+ * accumulation of Q takes four rows per pass over k (the same sums in the same order, so the
+ * same bits as the listing's one row at a time, which is taken otherwise).
  */
-function tridiagonalize(w: Float64Array, n: number, d: Float64Array, e: Float64Array): void {
+function tridiagonalize(w: Float64Array, n: number, d: Float64Array, e: Float64Array, fourRows: boolean): void {
   householderReduction(w, n, d, e);
 
   for (let i = 0; i < n - 1; i++) {
@@ -167,7 +171,34 @@ function tridiagonalize(w: Float64Array, n: number, d: Float64Array, e: Float64A
     const next = (i + 1) * n;
     if (h !== 0) {
       for (let k = 0; k <= i; k++) d[k] = w[next + k] / h;
-      for (let j = 0; j <= i; j++) {
+      // Rows j are independent (each reads only itself, row i + 1 and d): four rows share each
+      // pass over k, and every g still sums its terms from 0 in increasing k.
+      let j = 0;
+      for (; fourRows && j + 3 <= i; j += 4) {
+        const column0 = j * n;
+        const column1 = column0 + n;
+        const column2 = column1 + n;
+        const column3 = column2 + n;
+        let g0 = 0;
+        let g1 = 0;
+        let g2 = 0;
+        let g3 = 0;
+        for (let k = 0; k <= i; k++) {
+          const value = w[next + k];
+          g0 += value * w[column0 + k];
+          g1 += value * w[column1 + k];
+          g2 += value * w[column2 + k];
+          g3 += value * w[column3 + k];
+        }
+        for (let k = 0; k <= i; k++) {
+          const dk = d[k];
+          w[column0 + k] -= g0 * dk;
+          w[column1 + k] -= g1 * dk;
+          w[column2 + k] -= g2 * dk;
+          w[column3 + k] -= g3 * dk;
+        }
+      }
+      for (; j <= i; j++) {
         const column = j * n;
         let g = 0;
         for (let k = 0; k <= i; k++) g += w[next + k] * w[column + k];
