@@ -223,16 +223,30 @@ export function minimumTraceCommunalities(correlation: SquareMatrix, smallestEig
   const [m, inverse, hessian] = workspace.matrices;
   const [gradient, step] = workspace.vectors;
 
-  const objective = (values: Float64Array, mu: number): number => {
-    for (let i = 0; i < p; i++) {
-      if (!(values[i] > 0 && values[i] < upper)) return Number.POSITIVE_INFINITY;
-    }
-    buildM(transposed, values, p, m);
-    if (!workspace.factorInPlace(m)) return Number.POSITIVE_INFINITY;
-    const logDet = workspace.logDeterminantFromFactor(m);
+  // `m` holds the factor of M(h) while `factorOfH` is true. Factoring the same M again gives the
+  // same bits, so the objective at h reuses the factor of the step's inverse, and the factor of
+  // the accepted trial point becomes the next step's.
+  let factorOfH = false;
+  let trialFactored = false;
+  const barrier = (values: Float64Array, mu: number, logDet: number): number => {
     let sum = 0;
     for (let i = 0; i < p; i++) sum += values[i] - mu * (Math.log(values[i]) + Math.log(upper - values[i]));
     return sum - mu * logDet;
+  };
+  const inBounds = (values: Float64Array): boolean => {
+    for (let i = 0; i < p; i++) {
+      if (!(values[i] > 0 && values[i] < upper)) return false;
+    }
+    return true;
+  };
+  /** The barrier objective at a trial point, factoring M there into `m`. */
+  const objective = (values: Float64Array, mu: number): number => {
+    trialFactored = false;
+    if (!inBounds(values)) return Number.POSITIVE_INFINITY;
+    buildM(transposed, values, p, m);
+    if (!workspace.factorInPlace(m)) return Number.POSITIVE_INFINITY;
+    trialFactored = true;
+    return barrier(values, mu, workspace.logDeterminantFromFactor(m));
   };
 
   // Barrier method settings (Boyd & Vandenberghe 2004, §11.3: any start μ > 0 and reduction
@@ -246,8 +260,11 @@ export function minimumTraceCommunalities(correlation: SquareMatrix, smallestEig
     // Centre for this μ by damped Newton steps.
     for (;;) {
       if (newtonSteps >= MTFA_MAX_NEWTON_STEPS) break outer;
-      buildM(transposed, h, p, m);
-      if (!workspace.factorInPlace(m)) break outer; // cannot happen from a feasible point
+      if (!factorOfH) {
+        buildM(transposed, h, p, m);
+        if (!workspace.factorInPlace(m)) break outer; // cannot happen from a feasible point
+        factorOfH = true;
+      }
       workspace.inverseFromFactor(m, inverse);
       // Hessian element (i, j), j ≤ i, at (j, i): the upper triangle the factor reads.
       for (let i = 0; i < p; i++) {
@@ -267,7 +284,7 @@ export function minimumTraceCommunalities(correlation: SquareMatrix, smallestEig
       }
       newtonSteps++;
       if (decrement / 2 <= MTFA_NEWTON_DECREMENT_TOLERANCE) break;
-      const current = objective(h, mu);
+      const current = inBounds(h) ? barrier(h, mu, workspace.logDeterminantFromFactor(m)) : Number.POSITIVE_INFINITY;
       let t = 1;
       for (let halving = 0; halving < 60; halving++) {
         for (let i = 0; i < p; i++) trial[i] = h[i] + t * step[i];
@@ -275,6 +292,7 @@ export function minimumTraceCommunalities(correlation: SquareMatrix, smallestEig
         t /= 2;
       }
       h.set(trial);
+      factorOfH = trialFactored;
       if (t * t * decrement <= MTFA_NEWTON_DECREMENT_TOLERANCE) break;
     }
     if (gapFactor * mu <= MTFA_GAP_TOLERANCE) {
