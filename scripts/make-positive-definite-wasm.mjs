@@ -28,14 +28,19 @@
  *     x = A⁻¹b from the factor: x_i = (b_i − Σ_{k<i} R[k][i]·x_k) / R[i][i] for i ascending, then
  *     x_i = (x_i − Σ_{k>i} R[i][k]·x_k) / R[i][i] for i descending, k ascending in both sums.
  *     `x` may be `b`.
- * All three are built on one internal function:
+ *   (func $scaledSquares (param $source i32) (param $target i32) (param $n i32) (param $scale f64))
+ *     target[j][i] = (scale · source[i][j]) · source[i][j] for j ≤ i: the scaled squares of the
+ *     lower triangle into the upper one (with source = M⁻¹, the Hessian of −scale·log det M in
+ *     M's diagonal, where $cholesky reads it).
+ * The first three are built on one internal function:
  *   (func $subtractProducts (param $target i32) (param $rows i32) (param $rowStride i32)
  *         (param $scalars i32) (param $scalarStride i32) (param $count i32) (param $width i32)
  *         (param $triangular i32))
  *     For each column c < width, target[c] −= scalars[t]·rows[t][c] for t = 0, 1, ..., count − 1
  *     in that order (rows[t] at rows + t·rowStride, scalars[t] at scalars + t·scalarStride).
- *     Columns are taken eight at a time in four f64x2 running sums held in registers, then two at
- *     a time, then one; with `triangular` = 1 a chunk starting at column c0 begins at t = c0.
+ *     Columns are taken eight at a time in four f64x2 running sums held in registers, then the
+ *     remaining 1-7 in one more pass (f64x2 pairs and, for an odd remainder, one f64); with
+ *     `triangular` = 1 a chunk starting at column c0 begins at t = c0.
  * Every operation is one IEEE-754 double multiply, subtract, divide or square root (f64x2 lanes
  * are independent IEEE doubles; WebAssembly has no fused multiply-add), so each element is bit
  * for bit the one of the scalar loops.
@@ -124,6 +129,7 @@ function functionBuilder(parameters, locals) {
     return: [0x0f],
     drop: [0x1a],
     i32Eqz: [0x45],
+    i32Eq: [0x46],
     i32GeU: [0x4f],
     i32GtU: [0x4b],
     i32LtU: [0x49],
@@ -134,6 +140,8 @@ function functionBuilder(parameters, locals) {
     i32Shl: [0x74],
     f64Gt: [0x64],
     f64Load: [0x2b, 3, 0],
+    f64LoadAt: (offset) => [0x2b, 3, ...unsigned(offset)],
+    f64StoreAt: (offset) => [0x39, 3, ...unsigned(offset)],
     f64Store: [0x39, 3, 0],
     f64Sqrt: [0x9f],
     f64Sub: [0xa1],
@@ -167,6 +175,7 @@ const DIVIDE_ROW = 1;
 const CHOLESKY = 2;
 const INVERT = 3;
 const SOLVE = 4;
+const SCALED_SQUARES = 5;
 
 /** Columns per register chunk of $subtractProducts: CHUNK_PAIRS f64x2 running sums. */
 const CHUNK_PAIRS = 4;
@@ -176,57 +185,55 @@ function subtractProducts() {
   const sums = Array.from({ length: CHUNK_PAIRS }, (_, q) => [`sum${q}`, V128]);
   const f = functionBuilder(
     [['target', I32], ['rows', I32], ['rowStride', I32], ['scalars', I32], ['scalarStride', I32], ['count', I32], ['width', I32], ['triangular', I32]],
-    [['column', I32], ['first', I32], ['scalar', I32], ['end', I32], ['row', I32], ['place', I32], ['factor', V128], ['single', F64], ...sums],
+    [['column', I32], ['remainder', I32], ['first', I32], ['scalar', I32], ['end', I32], ['row', I32], ['place', I32], ['factor', V128], ['single', F64], ...sums],
   );
   const { op, emit } = f;
   // end = scalars + count · scalarStride (one past the last scalar)
   emit(op.get('scalars'), op.get('count'), op.get('scalarStride'), op.i32Mul, op.i32Add, op.set('end'));
 
   /**
-   * One pass over a chunk of `pairs` f64x2 columns (pairs = 0: one scalar column) starting at
-   * `column`: load the running sums from the target, subtract every row's products in order,
-   * store them back, and advance `column`.
+   * One pass over a chunk of `pairs` f64x2 columns and `single` (0 or 1) scalar column after
+   * them, starting at `column`: load the running sums from the target, subtract every row's
+   * products in order, store them back, and advance `column`.
    */
-  const chunk = (pairs) => {
-    const columns = pairs === 0 ? 1 : 2 * pairs;
+  const chunk = (pairs, single) => {
+    const columns = 2 * pairs + single;
     // place = target + 8·column; first = triangular · column
     emit(op.get('target'), op.get('column'), op.i32(3), op.i32Shl, op.i32Add, op.set('place'));
     emit(op.get('triangular'), op.get('column'), op.i32Mul, op.set('first'));
-    if (pairs === 0) emit(op.get('place'), op.f64Load, op.set('single'));
     for (let q = 0; q < pairs; q++) emit(op.get('place'), op.v128Load(16 * q), op.set(`sum${q}`));
+    if (single) emit(op.get('place'), op.f64LoadAt(16 * pairs), op.set('single'));
     // scalar = scalars + first · scalarStride; row = rows + first · rowStride + 8 · column
     emit(op.get('scalars'), op.get('first'), op.get('scalarStride'), op.i32Mul, op.i32Add, op.set('scalar'));
     emit(op.get('rows'), op.get('first'), op.get('rowStride'), op.i32Mul, op.i32Add, op.get('column'), op.i32(3), op.i32Shl, op.i32Add, op.set('row'));
     // while (scalar < end) { sums −= scalars[t] · rows[t][column ..]; scalar += scalarStride; row += rowStride }
     emit(op.block, op.loop);
     emit(op.get('scalar'), op.get('end'), op.i32GeU, op.brIf(1));
-    if (pairs === 0) {
-      emit(op.get('single'), op.get('scalar'), op.f64Load, op.get('row'), op.f64Load, op.f64Mul, op.f64Sub, op.set('single'));
-    } else {
-      emit(op.get('scalar'), op.loadSplat, op.set('factor'));
-      for (let q = 0; q < pairs; q++) {
-        emit(op.get(`sum${q}`), op.get('factor'), op.get('row'), op.v128Load(16 * q), op.f64x2Mul, op.f64x2Sub, op.set(`sum${q}`));
-      }
+    if (pairs > 0) emit(op.get('scalar'), op.loadSplat, op.set('factor'));
+    for (let q = 0; q < pairs; q++) {
+      emit(op.get(`sum${q}`), op.get('factor'), op.get('row'), op.v128Load(16 * q), op.f64x2Mul, op.f64x2Sub, op.set(`sum${q}`));
     }
+    if (single) emit(op.get('single'), op.get('scalar'), op.f64LoadAt(0), op.get('row'), op.f64LoadAt(16 * pairs), op.f64Mul, op.f64Sub, op.set('single'));
     emit(op.get('scalar'), op.get('scalarStride'), op.i32Add, op.set('scalar'));
     emit(op.get('row'), op.get('rowStride'), op.i32Add, op.set('row'));
     emit(op.br(0), op.end, op.end);
-    if (pairs === 0) emit(op.get('place'), op.get('single'), op.f64Store);
     for (let q = 0; q < pairs; q++) emit(op.get('place'), op.get(`sum${q}`), op.v128Store(16 * q));
+    if (single) emit(op.get('place'), op.get('single'), op.f64StoreAt(16 * pairs));
     emit(op.get('column'), op.i32(columns), op.i32Add, op.set('column'));
-    return columns;
   };
 
-  // while (column + width of chunk ≤ width) chunk; for the chunk, then pairs, then one column.
-  for (const pairs of [CHUNK_PAIRS, 1]) {
-    emit(op.block, op.loop);
-    emit(op.get('column'), op.i32(2 * pairs), op.i32Add, op.get('width'), op.i32GtU, op.brIf(1));
-    chunk(pairs);
-    emit(op.br(0), op.end, op.end);
+  // while (column + 2·CHUNK_PAIRS ≤ width) a full chunk
+  emit(op.block, op.loop);
+  emit(op.get('column'), op.i32(2 * CHUNK_PAIRS), op.i32Add, op.get('width'), op.i32GtU, op.brIf(1));
+  chunk(CHUNK_PAIRS, 0);
+  emit(op.br(0), op.end, op.end);
+  // the remaining 1 .. 2·CHUNK_PAIRS − 1 columns in one pass: pairs, then a single column if odd
+  emit(op.get('width'), op.get('column'), op.i32Sub, op.set('remainder'));
+  for (let remainder = 1; remainder < 2 * CHUNK_PAIRS; remainder++) {
+    emit(op.get('remainder'), op.i32(remainder), op.i32Eq, op.if);
+    chunk(remainder >> 1, remainder & 1);
+    emit(op.end);
   }
-  emit(op.get('column'), op.get('width'), op.i32LtU, op.if);
-  chunk(0);
-  emit(op.end);
   return f;
 }
 
@@ -340,8 +347,33 @@ function solve() {
   return f;
 }
 
+/** $scaledSquares(source, target, n, scale): target[j][i] = (scale · source[i][j]) · source[i][j] for j ≤ i. */
+function scaledSquares() {
+  const f = functionBuilder(
+    [['source', I32], ['target', I32], ['n', I32], ['scale', F64]],
+    [['stride', I32], ['i', I32], ['from', I32], ['to', I32], ['end', I32], ['value', F64]],
+  );
+  const { op, emit } = f;
+  emit(op.get('n'), op.i32(3), op.i32Shl, op.set('stride'));
+  emit(op.block, op.loop);
+  emit(op.get('i'), op.get('n'), op.i32GeU, op.brIf(1));
+  // from = source + i · stride (row i, j = 0); end = from + 8 (i + 1); to = target + 8i (column i, j = 0)
+  emit(op.get('source'), op.get('i'), op.get('stride'), op.i32Mul, op.i32Add, op.tee('from'));
+  emit(op.get('i'), op.i32(1), op.i32Add, op.i32(3), op.i32Shl, op.i32Add, op.set('end'));
+  emit(op.get('target'), op.get('i'), op.i32(3), op.i32Shl, op.i32Add, op.set('to'));
+  emit(op.block, op.loop);
+  emit(op.get('from'), op.get('end'), op.i32GeU, op.brIf(1));
+  emit(op.get('to'), op.get('scale'), op.get('from'), op.f64Load, op.tee('value'), op.f64Mul, op.get('value'), op.f64Mul, op.f64Store);
+  emit(op.get('from'), op.i32(8), op.i32Add, op.set('from'));
+  emit(op.get('to'), op.get('stride'), op.i32Add, op.set('to'));
+  emit(op.br(0), op.end, op.end);
+  emit(op.get('i'), op.i32(1), op.i32Add, op.set('i'));
+  emit(op.br(0), op.end, op.end);
+  return f;
+}
+
 /**
- * The module: imports `env.memory`, exports `cholesky`, `invert` and `solve`.
+ * The module: imports `env.memory`, exports `cholesky`, `invert`, `solve` and `scaledSquares`.
  * @returns {Uint8Array} The WebAssembly binary.
  */
 export function positiveDefiniteWasmBytes() {
@@ -351,6 +383,7 @@ export function positiveDefiniteWasmBytes() {
     [cholesky(), [I32]],
     [invert(), []],
     [solve(), []],
+    [scaledSquares(), []],
   ];
   const type = section(1, vector(functions.map(([f, results]) => f.type(results))));
   const imports = section(2, vector([[...name('env'), ...name('memory'), 0x02, 0x00, 1]]));
@@ -359,6 +392,7 @@ export function positiveDefiniteWasmBytes() {
     ['cholesky', CHOLESKY],
     ['invert', INVERT],
     ['solve', SOLVE],
+    ['scaledSquares', SCALED_SQUARES],
   ];
   const exports = section(7, vector(exported.map(([exportName, position]) => [...name(exportName), 0x00, ...unsigned(position)])));
   const code = section(10, vector(functions.map(([f]) => f.body())));

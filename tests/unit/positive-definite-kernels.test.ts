@@ -104,7 +104,7 @@ function differing(actual: Float64Array, expected: Float64Array): number[] {
 const orders = [...Array.from({ length: 40 }, (_, index) => index + 1), 41, 47, 53, 64, 77, 90, 101, 117, 128, 129, 130];
 
 describe('positive-definite kernels', () => {
-  it('give bit for bit the factor, inverse, solve and log-determinant of the plain loops (Object.is), well and nearly singular', () => {
+  it('give bit for bit the factor, inverse, solve, log-determinant and scaled squares of the plain loops (Object.is), well and nearly singular', () => {
     const random = createSeededRandom(20261203);
     let compared = 0;
     for (const order of orders) {
@@ -120,8 +120,8 @@ describe('positive-definite kernels', () => {
         expect(choleskyInPlace(lower, order)).toBe(true);
         const label = `order ${order}, ${columns} columns, ridge ${ridge}`;
 
-        const workspace = positiveDefiniteWorkspace(order, 2, 2);
-        const [factor, inverse] = workspace.matrices;
+        const workspace = positiveDefiniteWorkspace(order, 3, 2);
+        const [factor, inverse, squares] = workspace.matrices;
         const [rightHandSide, solution] = workspace.vectors;
         // The kernel reads the upper triangle: A enters transposed, so it sees the lower one.
         factor.set(transpose(a, order));
@@ -136,6 +136,18 @@ describe('positive-definite kernels', () => {
         }
         workspace.inverseFromFactor(factor, inverse);
         expect(differing(inverse, inverseFromLowerFactor(lower, order)), label).toEqual([]);
+        // scale·inverse[i][j]² (as `scale * value * value`) at (j, i); the strict lower triangle kept
+        const scale = 10 ** (random.nextInt(7) - 3) * (1 + random.next());
+        squares.fill(-1);
+        workspace.scaledSquaresIntoUpper(inverse, squares, scale);
+        const expectedSquares = new Float64Array(order * order).fill(-1);
+        for (let i = 0; i < order; i++) {
+          for (let j = 0; j <= i; j++) {
+            const value = inverse[i * order + j];
+            expectedSquares[j * order + i] = scale * value * value;
+          }
+        }
+        expect(differing(squares, expectedSquares), label).toEqual([]);
         for (let i = 0; i < order; i++) rightHandSide[i] = random.nextNormal() * 10 ** (random.nextInt(5) - 2);
         const b = Float64Array.from(rightHandSide);
         workspace.solveFromFactor(factor, rightHandSide, solution);

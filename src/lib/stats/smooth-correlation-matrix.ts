@@ -266,13 +266,11 @@ export function minimumTraceCommunalities(correlation: SquareMatrix, smallestEig
         factorOfH = true;
       }
       workspace.inverseFromFactor(m, inverse);
-      // Hessian element (i, j), j ≤ i, at (j, i): the upper triangle the factor reads.
+      // Hessian element (i, j) = μ·inverse[i][j]² for j ≤ i, at (j, i): the upper triangle the
+      // factor reads.
+      workspace.scaledSquaresIntoUpper(inverse, hessian, mu);
       for (let i = 0; i < p; i++) {
         gradient[i] = 1 - mu * inverse[i * p + i] - mu / h[i] + mu / (upper - h[i]);
-        for (let j = 0; j <= i; j++) {
-          const value = inverse[i * p + j];
-          hessian[j * p + i] = mu * value * value;
-        }
         hessian[i * p + i] += mu / (h[i] * h[i]) + mu / ((upper - h[i]) * (upper - h[i]));
       }
       if (!workspace.factorInPlace(hessian)) break outer;
