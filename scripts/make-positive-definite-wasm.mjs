@@ -15,11 +15,14 @@
  *     divided by it. Element by element these are the operations, in the same order, of the
  *     left-looking loop `s = A[i][j]; for (k < j) s -= L[i][k]·L[j][k]; L[i][j] = s / L[j][j]`
  *     with L = Rᵀ (a product of two doubles does not depend on the order of its operands).
- *   (func $invert (param $r i32) (param $out i32) (param $n i32))
+ *   (func $invert (param $r i32) (param $out i32) (param $n i32) (param $lowerOnly i32))
  *     A⁻¹ = R⁻¹R⁻ᵀ from the factor: Y = L⁻¹ row by row (row i is e_i minus R[k][i] times row k
  *     of Y for k = 0 .. i − 1, then divided by R[i][i]), then X = L⁻ᵀY from the last row up
  *     (row i is row i of Y minus R[i][k] times row k of X for k = i + 1 .. n − 1, then divided by
- *     R[i][i]). Each element keeps its own subtractions in that order; the rows are done for all
+ *     R[i][i]). With `lowerOnly` = 1 the backward pass does only the columns c ≤ i of row i: they
+ *     need only the columns c ≤ i < k of the rows below, so the lower triangle (diagonal
+ *     included) is the same as in the full inverse, in a third of the backward products; the
+ *     strict upper triangle is left with the zeros of Y. Each element keeps its own subtractions in that order; the rows are done for all
  *     columns at once. In the forward pass, a chunk of columns starting at c0 skips the rows
  *     k < c0, whose entries there are zeros of Y; the rows c0 ≤ k < c inside a chunk add the
  *     product of a finite factor and a stored +0, which leaves a running sum unchanged (a sum here
@@ -128,6 +131,7 @@ function functionBuilder(parameters, locals) {
     brIf: (depth) => [0x0d, ...unsigned(depth)],
     return: [0x0f],
     drop: [0x1a],
+    select: [0x1b],
     i32Eqz: [0x45],
     i32Eq: [0x46],
     i32GeU: [0x4f],
@@ -281,7 +285,7 @@ function cholesky() {
 
 /** $invert(r, out, n): out = A⁻¹ from the upper factor R at r. */
 function invert() {
-  const f = functionBuilder([['r', I32], ['out', I32], ['n', I32]], [['stride', I32], ['i', I32], ['row', I32], ['place', I32], ['end', I32]]);
+  const f = functionBuilder([['r', I32], ['out', I32], ['n', I32], ['lowerOnly', I32]], [['stride', I32], ['i', I32], ['row', I32], ['place', I32], ['end', I32], ['width', I32]]);
   const { op, emit } = f;
   const diagonal = () => [...op.get('r'), ...op.get('i'), ...op.get('stride'), ...op.i32Mul, ...op.get('i'), ...op.i32(3), ...op.i32Shl, ...op.i32Add, ...op.i32Add, ...op.f64Load];
   emit(op.get('n'), op.i32(3), op.i32Shl, op.set('stride'));
@@ -309,11 +313,13 @@ function invert() {
   emit(op.get('i'), op.i32Eqz, op.brIf(1));
   emit(op.get('i'), op.i32(1), op.i32Sub, op.set('i'));
   emit(op.get('out'), op.get('i'), op.get('stride'), op.i32Mul, op.i32Add, op.set('row'));
-  //   X[i][c] −= Σ_{k>i} R[i][k] · X[k][c] for every c
+  //   width = lowerOnly ? i + 1 : n (the lower triangle of X needs only the lower triangle of the rows below)
+  emit(op.get('i'), op.i32(1), op.i32Add, op.get('n'), op.get('lowerOnly'), op.select, op.set('width'));
+  //   X[i][c] −= Σ_{k>i} R[i][k] · X[k][c] for c < width
   emit(op.get('row'), op.get('row'), op.get('stride'), op.i32Add, op.get('stride'));
   emit(op.get('r'), op.get('i'), op.get('stride'), op.i32Mul, op.i32Add, op.get('i'), op.i32(1), op.i32Add, op.i32(3), op.i32Shl, op.i32Add, op.i32(8));
-  emit(op.get('n'), op.get('i'), op.i32Sub, op.i32(1), op.i32Sub, op.get('n'), op.i32(0), op.call(SUBTRACT_PRODUCTS));
-  emit(op.get('row'), op.get('n'), diagonal(), op.call(DIVIDE_ROW));
+  emit(op.get('n'), op.get('i'), op.i32Sub, op.i32(1), op.i32Sub, op.get('width'), op.i32(0), op.call(SUBTRACT_PRODUCTS));
+  emit(op.get('row'), op.get('width'), diagonal(), op.call(DIVIDE_ROW));
   emit(op.br(0), op.end, op.end);
   return f;
 }

@@ -104,7 +104,7 @@ function differing(actual: Float64Array, expected: Float64Array): number[] {
 const orders = [...Array.from({ length: 40 }, (_, index) => index + 1), 41, 47, 53, 64, 77, 90, 101, 117, 128, 129, 130];
 
 describe('positive-definite kernels', () => {
-  it('give bit for bit the factor, inverse, solve, log-determinant and scaled squares of the plain loops (Object.is), well and nearly singular', () => {
+  it('give bit for bit the factor, inverse (full and lower triangle), solve, log-determinant and scaled squares of the plain loops (Object.is), well and nearly singular', () => {
     const random = createSeededRandom(20261203);
     let compared = 0;
     for (const order of orders) {
@@ -120,8 +120,8 @@ describe('positive-definite kernels', () => {
         expect(choleskyInPlace(lower, order)).toBe(true);
         const label = `order ${order}, ${columns} columns, ridge ${ridge}`;
 
-        const workspace = positiveDefiniteWorkspace(order, 3, 2);
-        const [factor, inverse, squares] = workspace.matrices;
+        const workspace = positiveDefiniteWorkspace(order, 4, 2);
+        const [factor, inverse, squares, lowerInverse] = workspace.matrices;
         const [rightHandSide, solution] = workspace.vectors;
         // The kernel reads the upper triangle: A enters transposed, so it sees the lower one.
         factor.set(transpose(a, order));
@@ -136,6 +136,11 @@ describe('positive-definite kernels', () => {
         }
         workspace.inverseFromFactor(factor, inverse);
         expect(differing(inverse, inverseFromLowerFactor(lower, order)), label).toEqual([]);
+        // The lower triangle alone: the same bits there, zeros above
+        lowerInverse.fill(-1);
+        workspace.lowerInverseFromFactor(factor, lowerInverse);
+        const expectedLower = inverse.map((value, index) => (index % order <= Math.floor(index / order) ? value : 0));
+        expect(differing(lowerInverse, expectedLower), label).toEqual([]);
         // scale·inverse[i][j]² (as `scale * value * value`) at (j, i); the strict lower triangle kept
         const scale = 10 ** (random.nextInt(7) - 3) * (1 + random.next());
         squares.fill(-1);
@@ -239,6 +244,7 @@ describe('positive-definite kernels', () => {
     expect(() => small.factorInPlace(small.matrices[0])).toThrow(/replaced/);
     expect(() => large.factorInPlace(new Float64Array(130 * 130))).toThrow(/not one of this workspace's arrays/);
     expect(() => large.inverseFromFactor(large.matrices[0], large.matrices[0])).toThrow(/cannot overwrite/);
+    expect(() => large.lowerInverseFromFactor(large.matrices[1], large.matrices[1])).toThrow(/cannot overwrite/);
     expect(() => positiveDefiniteWorkspace(0, 1, 1)).toThrow(RangeError);
     expect(() => positiveDefiniteWorkspace(30_000, 10, 0)).toThrow(/4 GiB/);
   });

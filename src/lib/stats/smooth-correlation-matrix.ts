@@ -265,7 +265,8 @@ export function minimumTraceCommunalities(correlation: SquareMatrix, smallestEig
         if (!workspace.factorInPlace(m)) break outer; // cannot happen from a feasible point
         factorOfH = true;
       }
-      workspace.inverseFromFactor(m, inverse);
+      // Only the lower triangle of M⁻¹ is used (its diagonal for the gradient, its squares for the Hessian).
+      workspace.lowerInverseFromFactor(m, inverse);
       // Hessian element (i, j) = μ·inverse[i][j]² for j ≤ i, at (j, i): the upper triangle the
       // factor reads.
       workspace.scaledSquaresIntoUpper(inverse, hessian, mu);
