@@ -257,5 +257,7 @@ describe('positive-definite kernels', () => {
     const embedded = (literal?.[1] ?? '').split(',').map((text) => text.trim()).filter((text) => text !== '').map(Number);
     expect(embedded).toEqual(Array.from(positiveDefiniteWasmBytes()));
     expect(WebAssembly.validate(Uint8Array.from(embedded))).toBe(true);
+    // Under the 4 KB that Chromium compiles synchronously (new WebAssembly.Module) on a page's main thread
+    expect(embedded.length).toBeLessThanOrEqual(4096);
   });
 });

@@ -23,6 +23,9 @@
  * checks that the bytes here are its output and compares every kernel with the plain loops by
  * `Object.is` (tests/unit/positive-definite-kernels.test.ts).
  *
+ * The module is compiled synchronously, so it stays under the 4 KB that Chromium allows for
+ * that on a page's main thread (the unit test checks its size).
+ *
  * One module instance and one memory per thread, made on first use and grown when a larger
  * workspace is asked for. A workspace's matrices and vectors are views into that memory: taking
  * a new workspace reuses the same memory, so the previous workspace stops working (its methods
