@@ -5,7 +5,11 @@ import { minimumTraceCommunalities, smoothCorrelationMatrix } from '../../src/li
 import { symmetricEigenvalues } from '../../src/lib/stats/symmetric-eigen';
 import { squareMatrixFromRows } from '../../src/lib/stats/types';
 import { varianceInflation } from '../../src/lib/stats/variance-inflation';
+import { correlationMatrix } from '../../src/lib/stats/correlation-matrix';
+import { createSeededRandom, type SeededRandom } from '../../src/lib/stats/seeded-random';
+import type { SquareMatrix } from '../../src/lib/stats/types';
 import { largestDifference, smoothFixture } from './local-dependence-fixtures';
+import { minimumTraceCommunalitiesPlain, smoothCorrelationMatrixPlain } from './smooth-correlation-reference';
 
 function largestVif(matrix: ReturnType<typeof squareMatrixFromRows>): number {
   return Math.max(...varianceInflation(matrix).items.map((item) => item.vif ?? Number.POSITIVE_INFINITY));
@@ -100,4 +104,92 @@ describe('smoothCorrelationMatrix', () => {
     expect(() => smoothCorrelationMatrix(squareMatrixFromRows([[1, 0.5], [0.5, 1]]), { scalingConstant: 1 })).toThrow(/scalingConstant/);
     expect(() => smoothCorrelationMatrix(squareMatrixFromRows([[1, 0.5], [0.4, 1]]))).toThrow(/not symmetric/);
   });
+});
+
+describe('the smoothing on the WebAssembly positive-definite kernels', () => {
+  /**
+   * An indefinite correlation matrix of the kind pairwise and polychoric estimates give: a
+   * one-factor structure with loadings in [.3, .9], noise of `noise` on every correlation and a
+   * near-duplicate pair (r = .97) whose correlations with the rest disagree. Moved by up to 5e-11
+   * off symmetry (checkCorrelationMatrix allows 1e-10), so reading the wrong triangle shows.
+   */
+  function noisyCorrelation(random: SeededRandom, order: number, noise: number): SquareMatrix {
+    const loadings = Array.from({ length: order }, () => 0.3 + 0.6 * random.next());
+    const data = new Float64Array(order * order);
+    for (let i = 0; i < order; i++) {
+      data[i * order + i] = 1;
+      for (let j = 0; j < i; j++) {
+        const value = Math.max(-0.99, Math.min(0.99, loadings[i] * loadings[j] + noise * random.nextNormal()));
+        data[i * order + j] = value;
+        data[j * order + i] = value + 5e-11 * (random.next() - 0.5);
+      }
+    }
+    if (order >= 3) {
+      data[1] = 0.97;
+      data[order] = 0.97;
+      for (let j = 2; j < order; j++) {
+        data[j * order] = data[j] = Math.max(-0.99, data[j] - 0.3);
+        data[j * order + 1] = data[order + j] = Math.min(0.99, data[order + j] + 0.2);
+      }
+    }
+    return { order, data };
+  }
+
+  /** Pairwise polychoric correlations of simulated 5-point answers with near-duplicate items and missing answers. */
+  function pairwisePolychoric(random: SeededRandom, rows: number, columns: number): SquareMatrix {
+    const data = new Float64Array(rows * columns);
+    for (let i = 0; i < rows; i++) {
+      const f = random.nextNormal();
+      let previous = 0;
+      for (let j = 0; j < columns; j++) {
+        // every third item nearly copies the one before it
+        const latent = j % 3 === 2 ? previous + 0.15 * random.nextNormal() : (0.4 + 0.05 * j) * f + random.nextNormal();
+        previous = latent;
+        const answer = Math.min(5, Math.max(1, Math.round(3 + 1.1 * latent)));
+        data[j * rows + i] = random.next() < 0.15 ? Number.NaN : answer;
+      }
+    }
+    return correlationMatrix({ rows, columns, data }, { method: 'polychoric', missing: 'pairwise', repair: 'none' }).matrix;
+  }
+
+  function expectSameBits(actual: ArrayLike<number>, expected: ArrayLike<number>, label: string): void {
+    expect(actual.length, label).toBe(expected.length);
+    for (let index = 0; index < expected.length; index++) {
+      if (!Object.is(actual[index], expected[index])) expect.fail(`${label}: element ${index} is ${actual[index]}, the plain loops give ${expected[index]}`);
+    }
+  }
+
+  const random = createSeededRandom(41);
+  const matrices: { label: string; matrix: SquareMatrix }[] = [
+    ...smoothFixture.cases.map((reference) => ({ label: reference.name, matrix: squareMatrixFromRows(reference.correlation) })),
+    ...[3, 4, 5, 7, 8, 9, 12, 16, 17, 23, 31, 41, 48, 57, 64, 83].map((order) => ({ label: `noisy one-factor, order ${order}`, matrix: noisyCorrelation(random, order, 0.08) })),
+    ...[
+      { rows: 150, columns: 12 },
+      { rows: 220, columns: 21 },
+    ].map(({ rows, columns }) => ({ label: `pairwise polychoric ${rows} x ${columns}`, matrix: pairwisePolychoric(random, rows, columns) })),
+  ].filter(({ matrix }) => symmetricEigenvalues(matrix)[matrix.order - 1] < 0);
+
+  it('has indefinite matrices of many orders to compare on', () => {
+    expect(matrices.length).toBeGreaterThanOrEqual(18);
+  });
+
+  it.each(matrices.map((entry) => [entry.label, entry.matrix] as const))(
+    'gives bit for bit the communalities and Newton steps of the plain loops on %s',
+    (label, matrix) => {
+      const fast = minimumTraceCommunalities(matrix);
+      const plain = minimumTraceCommunalitiesPlain(matrix);
+      expectSameBits(fast.communalities, plain.communalities, label);
+      expect(Object.is(fast.trace, plain.trace), label).toBe(true);
+      expect(fast.newtonSteps, label).toBe(plain.newtonSteps);
+      expect(fast.converged, label).toBe(plain.converged);
+      const smoothed = smoothCorrelationMatrix(matrix);
+      const smoothedPlain = smoothCorrelationMatrixPlain(matrix);
+      expectSameBits(smoothed.matrix.data, smoothedPlain.matrix.data, label);
+      expect(smoothed.scaledItems, label).toEqual(smoothedPlain.scaledItems);
+      expect(Object.is(smoothed.guaranteedFloor, smoothedPlain.guaranteedFloor), label).toBe(true);
+      expect(Object.is(smoothed.largestChange, smoothedPlain.largestChange), label).toBe(true);
+      expect(Object.is(smoothed.smallestEigenvalueAfter, smoothedPlain.smallestEigenvalueAfter), label).toBe(true);
+      expect(smoothed.notices, label).toEqual(smoothedPlain.notices);
+    },
+  );
 });

@@ -40,6 +40,7 @@
  * 1:343-357); Boyd & Vandenberghe 2004, Convex Optimization, ch. 11.
  */
 import { checkCorrelationMatrix } from './correlation-input';
+import { positiveDefiniteWorkspace } from './positive-definite-kernels';
 import { summarizeSpectrum } from './spectral-inverse';
 import { symmetricEigenvalues } from './symmetric-eigen';
 import {
@@ -211,24 +212,41 @@ export function minimumTraceCommunalities(correlation: SquareMatrix, smallestEig
   }
   // Strictly feasible start: every h_i halfway between the feasibility edge and the bound.
   const h = new Float64Array(p).fill((Math.max(needed, 0) + upper) / 2);
-  const m = new Float64Array(p * p);
-  const inverse = new Float64Array(p * p);
-  const hessian = new Float64Array(p * p);
-  const gradient = new Float64Array(p);
-  const step = new Float64Array(p);
   const trial = new Float64Array(p);
-  const work = new Float64Array(p * p);
+  // The factorisations, the inverse and the solve run in the positive-definite kernels
+  // (WebAssembly SIMD, bit for bit the plain loops); they read the upper triangle, so R enters as
+  // its transpose (R is symmetric only within SYMMETRY_TOLERANCE) and the Hessian is written
+  // transposed: the elements used are those of the lower triangles, as before.
+  const transposed = new Float64Array(p * p);
+  for (let i = 0; i < p; i++) for (let j = 0; j < p; j++) transposed[j * p + i] = r[i * p + j];
+  const workspace = positiveDefiniteWorkspace(p, 3, 2);
+  const [m, inverse, hessian] = workspace.matrices;
+  const [gradient, step] = workspace.vectors;
 
-  const objective = (values: Float64Array, mu: number): number => {
-    for (let i = 0; i < p; i++) {
-      if (!(values[i] > 0 && values[i] < upper)) return Number.POSITIVE_INFINITY;
-    }
-    buildM(r, values, p, work);
-    const logDet = choleskyLogDet(work, p);
-    if (Number.isNaN(logDet)) return Number.POSITIVE_INFINITY;
+  // `m` holds the factor of M(h) while `factorOfH` is true. Factoring the same M again gives the
+  // same bits, so the objective at h reuses the factor of the step's inverse, and the factor of
+  // the accepted trial point becomes the next step's.
+  let factorOfH = false;
+  let trialFactored = false;
+  const barrier = (values: Float64Array, mu: number, logDet: number): number => {
     let sum = 0;
     for (let i = 0; i < p; i++) sum += values[i] - mu * (Math.log(values[i]) + Math.log(upper - values[i]));
     return sum - mu * logDet;
+  };
+  const inBounds = (values: Float64Array): boolean => {
+    for (let i = 0; i < p; i++) {
+      if (!(values[i] > 0 && values[i] < upper)) return false;
+    }
+    return true;
+  };
+  /** The barrier objective at a trial point, factoring M there into `m`. */
+  const objective = (values: Float64Array, mu: number): number => {
+    trialFactored = false;
+    if (!inBounds(values)) return Number.POSITIVE_INFINITY;
+    buildM(transposed, values, p, m);
+    if (!workspace.factorInPlace(m)) return Number.POSITIVE_INFINITY;
+    trialFactored = true;
+    return barrier(values, mu, workspace.logDeterminantFromFactor(m));
   };
 
   // Barrier method settings (Boyd & Vandenberghe 2004, §11.3: any start μ > 0 and reduction
@@ -242,17 +260,22 @@ export function minimumTraceCommunalities(correlation: SquareMatrix, smallestEig
     // Centre for this μ by damped Newton steps.
     for (;;) {
       if (newtonSteps >= MTFA_MAX_NEWTON_STEPS) break outer;
-      buildM(r, h, p, m);
-      if (!invertPositiveDefinite(m, p, inverse, work)) break outer; // cannot happen from a feasible point
+      if (!factorOfH) {
+        buildM(transposed, h, p, m);
+        if (!workspace.factorInPlace(m)) break outer; // cannot happen from a feasible point
+        factorOfH = true;
+      }
+      // Only the lower triangle of M⁻¹ is used (its diagonal for the gradient, its squares for the Hessian).
+      workspace.lowerInverseFromFactor(m, inverse);
+      // Hessian element (i, j) = μ·inverse[i][j]² for j ≤ i, at (j, i): the upper triangle the
+      // factor reads.
+      workspace.scaledSquaresIntoUpper(inverse, hessian, mu);
       for (let i = 0; i < p; i++) {
         gradient[i] = 1 - mu * inverse[i * p + i] - mu / h[i] + mu / (upper - h[i]);
-        for (let j = 0; j < p; j++) {
-          const value = inverse[i * p + j];
-          hessian[i * p + j] = mu * value * value;
-        }
         hessian[i * p + i] += mu / (h[i] * h[i]) + mu / ((upper - h[i]) * (upper - h[i]));
       }
-      if (!solvePositiveDefinite(hessian, gradient, p, step, work)) break outer;
+      if (!workspace.factorInPlace(hessian)) break outer;
+      workspace.solveFromFactor(hessian, gradient, step);
       let decrement = 0;
       for (let i = 0; i < p; i++) {
         step[i] = -step[i];
@@ -260,7 +283,7 @@ export function minimumTraceCommunalities(correlation: SquareMatrix, smallestEig
       }
       newtonSteps++;
       if (decrement / 2 <= MTFA_NEWTON_DECREMENT_TOLERANCE) break;
-      const current = objective(h, mu);
+      const current = inBounds(h) ? barrier(h, mu, workspace.logDeterminantFromFactor(m)) : Number.POSITIVE_INFINITY;
       let t = 1;
       for (let halving = 0; halving < 60; halving++) {
         for (let i = 0; i < p; i++) trial[i] = h[i] + t * step[i];
@@ -268,6 +291,7 @@ export function minimumTraceCommunalities(correlation: SquareMatrix, smallestEig
         t /= 2;
       }
       h.set(trial);
+      factorOfH = trialFactored;
       if (t * t * decrement <= MTFA_NEWTON_DECREMENT_TOLERANCE) break;
     }
     if (gapFactor * mu <= MTFA_GAP_TOLERANCE) {
@@ -281,90 +305,8 @@ export function minimumTraceCommunalities(correlation: SquareMatrix, smallestEig
   return { communalities: h, trace, newtonSteps, converged };
 }
 
-/** M = R − I + diag(h). */
+/** M = R − I + diag(h), from R (or its transpose: the diagonal is the same). */
 function buildM(r: Float64Array, h: Float64Array, p: number, out: Float64Array): void {
   out.set(r.subarray(0, p * p));
   for (let i = 0; i < p; i++) out[i * p + i] = r[i * p + i] - 1 + h[i];
-}
-
-/** In-place lower Cholesky factor of a (row-major, full) matrix; false when not positive definite. */
-function choleskyInPlace(a: Float64Array, p: number): boolean {
-  for (let j = 0; j < p; j++) {
-    let diagonal = a[j * p + j];
-    for (let k = 0; k < j; k++) diagonal -= a[j * p + k] * a[j * p + k];
-    if (!(diagonal > 0)) return false;
-    const root = Math.sqrt(diagonal);
-    a[j * p + j] = root;
-    for (let i = j + 1; i < p; i++) {
-      let sum = a[i * p + j];
-      for (let k = 0; k < j; k++) sum -= a[i * p + k] * a[j * p + k];
-      a[i * p + j] = sum / root;
-    }
-  }
-  return true;
-}
-
-/** log det by Cholesky of `a` (overwritten); NaN when not positive definite. */
-function choleskyLogDet(a: Float64Array, p: number): number {
-  if (!choleskyInPlace(a, p)) return Number.NaN;
-  let sum = 0;
-  for (let i = 0; i < p; i++) sum += 2 * Math.log(a[i * p + i]);
-  return sum;
-}
-
-/** Solves A x = b for positive-definite A (not modified) through its Cholesky factor in `work`. */
-function solvePositiveDefinite(a: Float64Array, b: Float64Array, p: number, x: Float64Array, work: Float64Array): boolean {
-  work.set(a.subarray(0, p * p));
-  if (!choleskyInPlace(work, p)) return false;
-  for (let i = 0; i < p; i++) {
-    let sum = b[i];
-    for (let k = 0; k < i; k++) sum -= work[i * p + k] * x[k];
-    x[i] = sum / work[i * p + i];
-  }
-  for (let i = p - 1; i >= 0; i--) {
-    let sum = x[i];
-    for (let k = i + 1; k < p; k++) sum -= work[k * p + i] * x[k];
-    x[i] = sum / work[i * p + i];
-  }
-  return true;
-}
-
-/**
- * Inverse of a positive-definite matrix (not modified) into `out`, by Cholesky in `work`: L y = e_c
- * forward, then Lᵀ x = y backward, for every column c at once. Row by row, each step subtracts
- * one multiple of an earlier row from a running row (`sums`), so the products of each element are
- * subtracted in the order of the column-by-column substitutions (k ascending), giving the same
- * bits with contiguous inner loops. In the forward solve y_kc = 0 for k < c: those terms (±0,
- * which leave a sum unchanged) are skipped.
- */
-function invertPositiveDefinite(a: Float64Array, p: number, out: Float64Array, work: Float64Array): boolean {
-  work.set(a.subarray(0, p * p));
-  if (!choleskyInPlace(work, p)) return false;
-  const sums = new Float64Array(p);
-  // Forward: row i of Y = L⁻¹ (lower triangular) into out.
-  for (let i = 0; i < p; i++) {
-    sums.fill(0, 0, i + 1);
-    sums[i] = 1;
-    for (let k = 0; k < i; k++) {
-      const factor = work[i * p + k];
-      const row = k * p;
-      for (let c = 0; c <= k; c++) sums[c] -= factor * out[row + c];
-    }
-    const diagonal = work[i * p + i];
-    for (let c = 0; c <= i; c++) out[i * p + c] = sums[c] / diagonal;
-    for (let c = i + 1; c < p; c++) out[i * p + c] = 0;
-  }
-  // Backward: row i of X = L⁻ᵀ Y, from the last row up, over rows of Y already replaced by X.
-  for (let i = p - 1; i >= 0; i--) {
-    const row = i * p;
-    for (let c = 0; c < p; c++) sums[c] = out[row + c];
-    for (let k = i + 1; k < p; k++) {
-      const factor = work[k * p + i];
-      const later = k * p;
-      for (let c = 0; c < p; c++) sums[c] -= factor * out[later + c];
-    }
-    const diagonal = work[row + i];
-    for (let c = 0; c < p; c++) out[row + c] = sums[c] / diagonal;
-  }
-  return true;
 }
