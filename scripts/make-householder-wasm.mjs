@@ -19,8 +19,11 @@
  * odd column is done alone. The sums g are then stored into e[j .. j + 3].
  *
  *   (func $update (param $w i32) (param $n i32) (param $i i32) (param $d i32) (param $e i32))
- * The rank-two update w[j][k] −= d[j]·e[k] + e[j]·d[k] for 0 <= j <= k < i, two columns k per
- * f64x2 (every element is its own result), a last odd column alone.
+ * The rank-two update w[j][k] −= d[j]·e[k] + e[j]·d[k] for 0 <= j <= k < i: four rows per pass
+ * (sharing the loads of e and d; the corner, row j + r at the columns j + r .. j + 2, in scalar
+ * f64), two columns k per f64x2 (every element is its own result), a last odd column alone; the
+ * last i mod 4 rows one at a time. It only reads d and e, so the order of the elements is free;
+ * each is the JavaScript's w − (f·e[k] + g·d[k]).
  *
  * Every operation is one IEEE-754 double multiply, add or subtract per lane (no fused
  * multiply-add, no reassociation), in the order of the JavaScript loop, so d, e and w come out
@@ -28,8 +31,8 @@
  *
  * Usage: node scripts/make-householder-wasm.mjs
  * References: WebAssembly Core Specification 2.0 (2022), §5 "Binary format" (the encoding),
- * and the fixed-width SIMD proposal's opcode table (v128.load 0x00, v128.load64_splat 0x0a,
- * v128.store 0x0b, i8x16.shuffle 0x0d, f64x2.splat 0x14, f64x2.replace_lane 0x22, f64x2.add 0xf0,
+ * and the fixed-width SIMD proposal's opcode table (v128.load 0x00, v128.store 0x0b,
+ * i8x16.shuffle 0x0d, f64x2.splat 0x14, f64x2.replace_lane 0x22, f64x2.add 0xf0,
  * f64x2.sub 0xf1, f64x2.mul 0xf2).
  */
 
@@ -98,7 +101,6 @@ const op = {
   f64Mul: [0xa2],
   // SIMD (prefix 0xFD).
   load: (offset) => [0xfd, ...unsigned(0x00), 3, ...unsigned(offset)],
-  loadSplat: (offset) => [0xfd, ...unsigned(0x0a), 3, ...unsigned(offset)],
   store: (offset) => [0xfd, ...unsigned(0x0b), 3, ...unsigned(offset)],
   shuffle: (lanes) => [0xfd, ...unsigned(0x0d), ...lanes],
   splat: [0xfd, ...unsigned(0x14)],
@@ -127,68 +129,65 @@ const V128 = 0x7b;
 // Parameters of both functions.
 const W = 0, N = 1, I = 2, D = 3, E = 4;
 
-/** $multiply: the pass e = A·u, blocks of four rows. */
+/** $multiply: the pass e = A·u, blocks of four rows (eight per block were slower: too many live registers). */
 function multiplyBody() {
-  // i32 locals 5-15, f64 locals 16-25, v128 locals 26-39.
-  const STRIDE = 5, J = 6, DJ = 7, EJ = 8, ROW = 9; // ROW .. ROW + 3: row j + r at column j, then k
-  const PD = 13, PE = 14, END = 15;
-  const F = 16; // F .. F + 3: d[j + r]
-  const G = 20; // G .. G + 3: the corner's sums g_{j+r}
-  const VALUE = 24, DK = 25;
-  const SF = 26; // SF .. SF + 3: f64x2.splat(d[j + r])
-  const G01 = 30, G23 = 31;
-  const WV = 32; // WV .. WV + 3: w[j + r][k], w[j + r][k + 1]
-  const DV = 36, EV = 37, P = 38, Q = 39;
-  return body([[11, I32], [10, F64], [14, V128]], (emit) => {
-    // stride = 8n; end = d + 8(i − 1) (the pairs run while k + 1 < i)
-    emit(op.get(N), op.const(3), op.shl, op.set(STRIDE));
-    emit(op.get(D), op.get(I), op.const(3), op.shl, op.add, op.const(8), op.sub, op.set(END));
-    // for (j = 0; j + 3 < i; j += 4)   (j starts at 0: locals are zeroed; i < 4 runs nothing)
+  const ROWS = 4;
+  // i32 locals from 5, then f64 locals from F, then v128 locals from SF.
+  const STRIDE = 5, J = 6, DJ = 7, EJ = 8, PD = 9, PE = 10, END = 11;
+  const ROW = 12; // ROW + r: row j + r at column j, then at column k
+  const F = ROW + ROWS; // F + r: d[j + r]
+  const G = F + ROWS; // G + r: the corner's sum g_{j+r}
+  const VALUE = G + ROWS, DK = VALUE + 1;
+  const SF = DK + 1; // SF + r: f64x2.splat(d[j + r])
+  const GV = SF + ROWS; // GV + p: (g_{j+2p}, g_{j+2p+1})
+  const WV = GV + ROWS / 2; // WV + r: w[j + r][k], w[j + r][k + 1]
+  const DV = WV + ROWS, EV = DV + 1, P = EV + 1, Q = P + 1;
+  /** for (; j + rows <= i; j += rows): the rows j .. j + rows − 1. */
+  const rowGroup = (emit, rows) => {
     emit(op.block, op.loop);
-    emit(op.get(J), op.const(4), op.add, op.get(I), op.gtU, op.brIf(1));
+    emit(op.get(J), op.const(rows), op.add, op.get(I), op.gtU, op.brIf(1));
     emit(op.get(D), op.get(J), op.const(3), op.shl, op.add, op.set(DJ));
     emit(op.get(E), op.get(J), op.const(3), op.shl, op.add, op.set(EJ));
     // row r at column j: w + (j + r)·stride + 8j
     emit(op.get(W), op.get(J), op.get(STRIDE), op.mul, op.add, op.get(J), op.const(3), op.shl, op.add, op.set(ROW));
-    for (let r = 1; r < 4; r++) emit(op.get(ROW + r - 1), op.get(STRIDE), op.add, op.set(ROW + r));
-    for (let r = 0; r < 4; r++) {
+    for (let r = 1; r < rows; r++) emit(op.get(ROW + r - 1), op.get(STRIDE), op.add, op.set(ROW + r));
+    for (let r = 0; r < rows; r++) {
       emit(op.get(DJ), op.f64Load(8 * r), op.tee(F + r), op.splat, op.set(SF + r));
     }
-    // The corner (k < j + 4), one row after the other:
+    // The corner (k < j + rows), one row after the other:
     //   g_r = e[j + r] + w[j + r][j + r]·f_r; then for c > r: g_r += w[j + r][j + c]·d[j + c],
     //   e[j + c] += w[j + r][j + c]·f_r.
-    for (let r = 0; r < 4; r++) {
+    for (let r = 0; r < rows; r++) {
       emit(op.get(EJ), op.f64Load(8 * r), op.get(ROW + r), op.f64Load(8 * r), op.get(F + r), op.f64Mul, op.f64Add, op.set(G + r));
-      for (let c = r + 1; c < 4; c++) {
+      for (let c = r + 1; c < rows; c++) {
         emit(op.get(ROW + r), op.f64Load(8 * c), op.set(VALUE));
         emit(op.get(G + r), op.get(VALUE), op.get(DJ), op.f64Load(8 * c), op.f64Mul, op.f64Add, op.set(G + r));
         emit(op.get(EJ), op.get(EJ), op.f64Load(8 * c), op.get(VALUE), op.get(F + r), op.f64Mul, op.f64Add, op.f64Store(8 * c));
       }
     }
-    // (g_j, g_{j+1}) and (g_{j+2}, g_{j+3}) as two f64x2
-    emit(op.get(G), op.splat, op.get(G + 1), op.replaceLane(1), op.set(G01));
-    emit(op.get(G + 2), op.splat, op.get(G + 3), op.replaceLane(1), op.set(G23));
-    // k = j + 4
-    for (let r = 0; r < 4; r++) emit(op.get(ROW + r), op.const(32), op.add, op.set(ROW + r));
-    emit(op.get(DJ), op.const(32), op.add, op.set(PD));
-    emit(op.get(EJ), op.const(32), op.add, op.set(PE));
+    // (g_{j+2p}, g_{j+2p+1}) as one f64x2
+    for (let p = 0; p < rows / 2; p++) emit(op.get(G + 2 * p), op.splat, op.get(G + 2 * p + 1), op.replaceLane(1), op.set(GV + p));
+    // k = j + rows
+    for (let r = 0; r < rows; r++) emit(op.get(ROW + r), op.const(8 * rows), op.add, op.set(ROW + r));
+    emit(op.get(DJ), op.const(8 * rows), op.add, op.set(PD));
+    emit(op.get(EJ), op.const(8 * rows), op.add, op.set(PE));
     // while (k + 1 < i): columns k, k + 1
     emit(op.block, op.loop);
     emit(op.get(PD), op.get(END), op.geU, op.brIf(1));
     emit(op.get(PD), op.load(0), op.set(DV));
-    for (let r = 0; r < 4; r++) emit(op.get(ROW + r), op.load(0), op.set(WV + r));
-    //   (e[k], e[k + 1]) = (((e + w_j·f_j) + w_{j+1}·f_{j+1}) + w_{j+2}·f_{j+2}) + w_{j+3}·f_{j+3}
+    for (let r = 0; r < rows; r++) emit(op.get(ROW + r), op.load(0), op.set(WV + r));
+    //   (e[k], e[k + 1]) = (((e + w_j·f_j) + w_{j+1}·f_{j+1}) + ...) + w_{j+rows−1}·f_{j+rows−1}
     emit(op.get(PE), op.load(0), op.set(EV));
-    for (let r = 0; r < 4; r++) emit(op.get(EV), op.get(WV + r), op.get(SF + r), op.f64x2Mul, op.f64x2Add, op.set(EV));
+    for (let r = 0; r < rows; r++) emit(op.get(EV), op.get(WV + r), op.get(SF + r), op.f64x2Mul, op.f64x2Add, op.set(EV));
     emit(op.get(PE), op.get(EV), op.store(0));
-    //   rows (j, j + 1), then (j + 2, j + 3): g += w[·][k]·d[k], then g += w[·][k + 1]·d[k + 1]
-    for (const [pair, first] of [[G01, 0], [G23, 2]]) {
-      emit(op.get(WV + first), op.get(DV), op.f64x2Mul, op.set(P));
-      emit(op.get(WV + first + 1), op.get(DV), op.f64x2Mul, op.set(Q));
-      emit(op.get(pair), op.get(P), op.get(Q), op.shuffle(LOW_LANES), op.f64x2Add, op.set(pair));
-      emit(op.get(pair), op.get(P), op.get(Q), op.shuffle(HIGH_LANES), op.f64x2Add, op.set(pair));
+    //   rows (j + 2p, j + 2p + 1): g += w[·][k]·d[k], then g += w[·][k + 1]·d[k + 1]
+    for (let p = 0; p < rows / 2; p++) {
+      emit(op.get(WV + 2 * p), op.get(DV), op.f64x2Mul, op.set(P));
+      emit(op.get(WV + 2 * p + 1), op.get(DV), op.f64x2Mul, op.set(Q));
+      emit(op.get(GV + p), op.get(P), op.get(Q), op.shuffle(LOW_LANES), op.f64x2Add, op.set(GV + p));
+      emit(op.get(GV + p), op.get(P), op.get(Q), op.shuffle(HIGH_LANES), op.f64x2Add, op.set(GV + p));
     }
-    for (let r = 0; r < 4; r++) emit(op.get(ROW + r), op.const(16), op.add, op.set(ROW + r));
+    for (let r = 0; r < rows; r++) emit(op.get(ROW + r), op.const(16), op.add, op.set(ROW + r));
     emit(op.get(PD), op.const(16), op.add, op.set(PD));
     emit(op.get(PE), op.const(16), op.add, op.set(PE));
     emit(op.br(0), op.end, op.end);
@@ -196,57 +195,87 @@ function multiplyBody() {
     emit(op.get(PD), op.get(END), op.eq, op.if);
     emit(op.get(PD), op.f64Load(0), op.set(DK));
     emit(op.get(PE), op.get(PE), op.f64Load(0));
-    for (let r = 0; r < 4; r++) emit(op.get(ROW + r), op.f64Load(0), op.get(F + r), op.f64Mul, op.f64Add);
+    for (let r = 0; r < rows; r++) emit(op.get(ROW + r), op.f64Load(0), op.get(F + r), op.f64Mul, op.f64Add);
     emit(op.f64Store(0));
-    for (const [pair, first] of [[G01, 0], [G23, 2]]) {
-      emit(op.get(pair));
-      emit(op.get(ROW + first), op.f64Load(0), op.splat, op.get(ROW + first + 1), op.f64Load(0), op.replaceLane(1));
-      emit(op.get(DK), op.splat, op.f64x2Mul, op.f64x2Add, op.set(pair));
+    for (let p = 0; p < rows / 2; p++) {
+      emit(op.get(GV + p));
+      emit(op.get(ROW + 2 * p), op.f64Load(0), op.splat, op.get(ROW + 2 * p + 1), op.f64Load(0), op.replaceLane(1));
+      emit(op.get(DK), op.splat, op.f64x2Mul, op.f64x2Add, op.set(GV + p));
     }
     emit(op.end);
-    // e[j .. j + 3] = g
-    emit(op.get(EJ), op.get(G01), op.store(0));
-    emit(op.get(EJ), op.get(G23), op.store(16));
-    emit(op.get(J), op.const(4), op.add, op.set(J));
+    // e[j .. j + rows − 1] = g
+    for (let p = 0; p < rows / 2; p++) emit(op.get(EJ), op.get(GV + p), op.store(16 * p));
+    emit(op.get(J), op.const(rows), op.add, op.set(J));
     emit(op.br(0), op.end, op.end);
+  };
+  return body([[F - 5, I32], [SF - F, F64], [Q + 1 - SF, V128]], (emit) => {
+    // stride = 8n; end = d + 8(i − 1) (the pairs run while k + 1 < i); j starts at 0 (locals are zeroed)
+    emit(op.get(N), op.const(3), op.shl, op.set(STRIDE));
+    emit(op.get(D), op.get(I), op.const(3), op.shl, op.add, op.const(8), op.sub, op.set(END));
+    rowGroup(emit, ROWS);
   });
 }
 
-/** $update: the rank-two update, one row at a time, two columns per f64x2. */
+/** $update: the rank-two update, four rows per pass (they share the loads of e and d), then single rows; two columns per f64x2. */
 function updateBody() {
-  // i32 locals 5-11, f64 locals 12-13, v128 locals 14-15.
-  const STRIDE = 5, J = 6, PW = 7, PD = 8, PE = 9, END = 10, ROW = 11;
-  const F = 12, G = 13;
-  const SF = 14, SG = 15;
-  return body([[7, I32], [2, F64], [2, V128]], (emit) => {
-    emit(op.get(N), op.const(3), op.shl, op.set(STRIDE));
-    emit(op.get(D), op.get(I), op.const(3), op.shl, op.add, op.const(8), op.sub, op.set(END));
-    // for (j = 0; j < i; j++); row j starts at column j
-    emit(op.get(W), op.set(ROW));
+  // i32 locals 5-14, f64 locals 15-22, v128 locals 23-32.
+  const STRIDE = 5, J = 6, PD = 7, PE = 8, END = 9, ROW = 10, PW = 11; // PW + r: row j + r
+  const F = 15, G = 19; // F + r = d[j + r], G + r = e[j + r]
+  const SF = 23, SG = 27; // their splats
+  const EV = 31, DV = 32;
+  /** Element (j + r, column at `pointer` + offset) −= f_r·e + g_r·d, in scalar f64. */
+  const scalar = (emit, r, offset) => {
+    emit(op.get(PW + r), op.get(PW + r), op.f64Load(offset));
+    emit(op.get(F + r), op.get(PE), op.f64Load(offset), op.f64Mul, op.get(G + r), op.get(PD), op.f64Load(offset), op.f64Mul, op.f64Add);
+    emit(op.f64Sub, op.f64Store(offset));
+  };
+  /** for (; j + rows <= i; j += rows): the rows j .. j + rows − 1, which start at columns j .. j + rows − 1. */
+  const rowGroup = (emit, rows) => {
     emit(op.block, op.loop);
-    emit(op.get(J), op.get(I), op.geU, op.brIf(1));
+    emit(op.get(J), op.const(rows), op.add, op.get(I), op.gtU, op.brIf(1));
+    // pointers at column j
+    emit(op.get(D), op.get(J), op.const(3), op.shl, op.add, op.set(PD));
+    emit(op.get(E), op.get(J), op.const(3), op.shl, op.add, op.set(PE));
     emit(op.get(ROW), op.get(J), op.const(3), op.shl, op.add, op.set(PW));
-    emit(op.get(D), op.get(J), op.const(3), op.shl, op.add, op.tee(PD), op.f64Load(0), op.tee(F), op.splat, op.set(SF));
-    emit(op.get(E), op.get(J), op.const(3), op.shl, op.add, op.tee(PE), op.f64Load(0), op.tee(G), op.splat, op.set(SG));
-    // while (k + 1 < i): w[j][k .. k + 1] −= f·e[k .. k + 1] + g·d[k .. k + 1]
+    for (let r = 1; r < rows; r++) emit(op.get(PW + r - 1), op.get(STRIDE), op.add, op.set(PW + r));
+    for (let r = 0; r < rows; r++) {
+      emit(op.get(PD), op.f64Load(8 * r), op.tee(F + r), op.splat, op.set(SF + r));
+      emit(op.get(PE), op.f64Load(8 * r), op.tee(G + r), op.splat, op.set(SG + r));
+    }
+    // The corner: row j + r alone at the columns j + r .. j + rows − 2.
+    for (let r = 0; r + 1 < rows; r++) for (let c = r; c + 1 < rows; c++) scalar(emit, r, 8 * c);
+    for (let r = 0; r < rows; r++) emit(op.get(PW + r), op.const(8 * (rows - 1)), op.add, op.set(PW + r));
+    emit(op.get(PD), op.const(8 * (rows - 1)), op.add, op.set(PD));
+    emit(op.get(PE), op.const(8 * (rows - 1)), op.add, op.set(PE));
+    // while (k + 1 < i): w[j + r][k .. k + 1] −= f_r·e[k .. k + 1] + g_r·d[k .. k + 1]
     emit(op.block, op.loop);
     emit(op.get(PD), op.get(END), op.geU, op.brIf(1));
-    emit(op.get(PW), op.get(PW), op.load(0));
-    emit(op.get(SF), op.get(PE), op.load(0), op.f64x2Mul, op.get(SG), op.get(PD), op.load(0), op.f64x2Mul, op.f64x2Add);
-    emit(op.f64x2Sub, op.store(0));
-    emit(op.get(PW), op.const(16), op.add, op.set(PW));
+    emit(op.get(PE), op.load(0), op.set(EV));
+    emit(op.get(PD), op.load(0), op.set(DV));
+    for (let r = 0; r < rows; r++) {
+      emit(op.get(PW + r), op.get(PW + r), op.load(0));
+      emit(op.get(SF + r), op.get(EV), op.f64x2Mul, op.get(SG + r), op.get(DV), op.f64x2Mul, op.f64x2Add);
+      emit(op.f64x2Sub, op.store(0));
+      emit(op.get(PW + r), op.const(16), op.add, op.set(PW + r));
+    }
     emit(op.get(PD), op.const(16), op.add, op.set(PD));
     emit(op.get(PE), op.const(16), op.add, op.set(PE));
     emit(op.br(0), op.end, op.end);
     // if (k === i − 1): the last column alone
     emit(op.get(PD), op.get(END), op.eq, op.if);
-    emit(op.get(PW), op.get(PW), op.f64Load(0));
-    emit(op.get(F), op.get(PE), op.f64Load(0), op.f64Mul, op.get(G), op.get(PD), op.f64Load(0), op.f64Mul, op.f64Add);
-    emit(op.f64Sub, op.f64Store(0));
+    for (let r = 0; r < rows; r++) scalar(emit, r, 0);
     emit(op.end);
-    emit(op.get(ROW), op.get(STRIDE), op.add, op.set(ROW));
-    emit(op.get(J), op.const(1), op.add, op.set(J));
+    emit(op.get(ROW), op.get(STRIDE), op.const(rows), op.mul, op.add, op.set(ROW));
+    emit(op.get(J), op.const(rows), op.add, op.set(J));
     emit(op.br(0), op.end, op.end);
+  };
+  return body([[10, I32], [8, F64], [10, V128]], (emit) => {
+    emit(op.get(N), op.const(3), op.shl, op.set(STRIDE));
+    emit(op.get(D), op.get(I), op.const(3), op.shl, op.add, op.const(8), op.sub, op.set(END));
+    // row j's pointer at column 0 (j starts at 0: locals are zeroed)
+    emit(op.get(W), op.set(ROW));
+    rowGroup(emit, 4);
+    rowGroup(emit, 1);
   });
 }
 
