@@ -23,7 +23,9 @@
  * (sharing the loads of e and d; the corner, row j + r at the columns j + r .. j + 2, in scalar
  * f64), two columns k per f64x2 (every element is its own result), a last odd column alone; the
  * last i mod 4 rows one at a time. It only reads d and e, so the order of the elements is free;
- * each is the JavaScript's w − (f·e[k] + g·d[k]).
+ * each is the JavaScript's w − (f·e[k] + g·d[k]). After each group of rows, as the JavaScript
+ * does after each row, d[j] = w[j][i − 1] and w[j][i] = 0 (later rows read d from their own
+ * column on).
  *
  * Every operation is one IEEE-754 double multiply, add or subtract per lane (no fused
  * multiply-add, no reassociation), in the order of the JavaScript loop, so d, e and w come out
@@ -99,6 +101,7 @@ const op = {
   f64Add: [0xa0],
   f64Sub: [0xa1],
   f64Mul: [0xa2],
+  f64Zero: [0x44, 0, 0, 0, 0, 0, 0, 0, 0],
   // SIMD (prefix 0xFD).
   load: (offset) => [0xfd, ...unsigned(0x00), 3, ...unsigned(offset)],
   store: (offset) => [0xfd, ...unsigned(0x0b), 3, ...unsigned(offset)],
@@ -265,6 +268,14 @@ function updateBody() {
     emit(op.get(PD), op.get(END), op.eq, op.if);
     for (let r = 0; r < rows; r++) scalar(emit, r, 0);
     emit(op.end);
+    // d[j + r] = w[j + r][i − 1]; w[j + r][i] = 0 (later rows read d only from their own column on)
+    emit(op.get(D), op.get(J), op.const(3), op.shl, op.add, op.set(PD));
+    emit(op.get(ROW), op.get(END), op.add, op.get(D), op.sub, op.set(PW));
+    for (let r = 1; r < rows; r++) emit(op.get(PW + r - 1), op.get(STRIDE), op.add, op.set(PW + r));
+    for (let r = 0; r < rows; r++) {
+      emit(op.get(PD), op.get(PW + r), op.f64Load(0), op.f64Store(8 * r));
+      emit(op.get(PW + r), op.f64Zero, op.f64Store(8));
+    }
     emit(op.get(ROW), op.get(STRIDE), op.const(rows), op.mul, op.add, op.set(ROW));
     emit(op.get(J), op.const(rows), op.add, op.set(J));
     emit(op.br(0), op.end, op.end);
