@@ -25,10 +25,11 @@
  */
 
 /**
- * From this order up `householderReduction` runs here; below it the JavaScript loop is as fast
- * (the copies in and out and the calls cost more than the SIMD saves). Measured with
- * bench/householder-reduction.bench.ts (docs/decisions/020-speed-whole-audit.md, "Addendum: the
- * Householder reduction in WebAssembly").
+ * From this order up `householderReduction` runs here; below it the JavaScript loop is as fast or
+ * faster (the copies in and out and the calls cost more than the SIMD saves: at order 8 the
+ * kernel takes about 1.4 times the JavaScript's time, at 12-16 they are even, at 32 it takes
+ * half). Measured with bench/householder-reduction.bench.ts (docs/decisions/020-speed-whole-
+ * audit.md, "Addendum: the Householder reduction in WebAssembly").
  */
 export const HOUSEHOLDER_WASM_MIN_ORDER = 16;
 
