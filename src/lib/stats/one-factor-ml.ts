@@ -109,7 +109,8 @@ export function oneFactorMl(correlation: SquareMatrix, n: number): OneFactorMlFi
     if (Math.abs(correlation.data[i * p + i] - 1) > 1e-12) throw new RangeError(`oneFactorMl: the diagonal must be 1 (a correlation matrix); entry ${i} is ${correlation.data[i * p + i]}`);
   }
   if (!Number.isInteger(n) || n < 2) throw new RangeError(`oneFactorMl: n must be an integer of at least 2, got ${n}`);
-  const spectrum = symmetricEigen(correlation).values;
+  const eigen = symmetricEigen(correlation);
+  const spectrum = eigen.values;
   if (!(spectrum[p - 1] > 0)) throw new RangeError(`oneFactorMl: the correlation matrix is not positive definite (smallest eigenvalue ${spectrum[p - 1]}); repair it first`);
   let logDeterminant = 0;
   for (let m = 0; m < p; m++) logDeterminant += Math.log(spectrum[m]);
@@ -117,13 +118,10 @@ export function oneFactorMl(correlation: SquareMatrix, n: number): OneFactorMlFi
   const floor = Math.log(ONE_FACTOR_ML_UNIQUENESS_FLOOR);
   // Start (Jöreskog 1967): ψ_j = (1 − 1/(2p)) / [R⁻¹]_jj.
   const inverseDiagonal = new Float64Array(p);
-  {
-    const eigen = symmetricEigen(correlation);
-    for (let i = 0; i < p; i++) {
-      let sum = 0;
-      for (let m = 0; m < p; m++) sum += (eigen.vectors.data[i * p + m] ** 2) / eigen.values[m];
-      inverseDiagonal[i] = sum;
-    }
+  for (let i = 0; i < p; i++) {
+    let sum = 0;
+    for (let m = 0; m < p; m++) sum += (eigen.vectors.data[i * p + m] ** 2) / eigen.values[m];
+    inverseDiagonal[i] = sum;
   }
   let x = Float64Array.from(inverseDiagonal, (value) => Math.max(floor, Math.log(Math.min(0.995, (1 - 0.5 / p) / value))));
   let current = concentrated(correlation, x);

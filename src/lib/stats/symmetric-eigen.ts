@@ -14,6 +14,7 @@
  * "Matrix Eigensystem Routines - EISPACK Guide".
  */
 import { HOUSEHOLDER_WASM_MIN_ORDER, householderReductionWasm } from './householder-reduction-kernel';
+import { PlaneRotationBatch } from './plane-rotations-kernel';
 import { checkSymmetricMatrix } from './symmetric-input';
 import { EIGEN_MAX_ITERATIONS_PER_VALUE } from './tolerances';
 import type { SquareMatrix } from './types';
@@ -35,6 +36,13 @@ export interface SymmetricEigenDecomposition {
 }
 
 /**
+ * Below this order `symmetricEigen` applies the QL rotations in JavaScript: copying the rows into
+ * WebAssembly memory and back costs more than the kernel saves there (measured in
+ * docs/decisions/020-speed-whole-audit.md, "Addendum: the QL rotations in WebAssembly").
+ */
+export const WEBASSEMBLY_ROTATIONS_MIN_ORDER = 8;
+
+/**
  * Eigenvalues and unit eigenvectors of a real symmetric matrix.
  * @param matrix Symmetric matrix (both triangles stored; only symmetry within SYMMETRY_TOLERANCE
  *   is accepted), finite values. It is not modified.
@@ -46,13 +54,42 @@ export interface SymmetricEigenDecomposition {
  */
 export function symmetricEigen(matrix: SquareMatrix): SymmetricEigenDecomposition {
   checkSymmetricMatrix(matrix, 'symmetricEigen', 'matrix');
+  return decompose(matrix, true, 'symmetricEigen');
+}
+
+/**
+ * The same decomposition as `symmetricEigen` computed with the listing's loops: the Householder
+ * reduction in JavaScript, tred2's accumulation of the transformation one row at a time and tql2's
+ * rotations in JavaScript at every order. It is the reference that the WebAssembly reduction, the
+ * four-row accumulation and the WebAssembly rotations must match bit for bit
+ * (tests/unit/symmetric-eigen.test.ts) and the benchmark's baseline.
+ * @param matrix Symmetric matrix with finite values; not modified.
+ * @throws {RangeError} when the matrix is empty, not square, not finite or not symmetric.
+ * @throws {Error} when the QL iteration does not converge.
+ * @returns Eigenvalues in descending order and the matching orthonormal eigenvectors (columns),
+ *   as `symmetricEigen`.
+ * References: as `symmetricEigen`.
+ */
+export function symmetricEigenUnblocked(matrix: SquareMatrix): SymmetricEigenDecomposition {
+  checkSymmetricMatrix(matrix, 'symmetricEigenUnblocked', 'matrix');
+  return decompose(matrix, false, 'symmetricEigenUnblocked');
+}
+
+/** tred2 then tql2; `blocked` takes the four-row accumulation and (from order 8) the kernel. */
+function decompose(matrix: SquareMatrix, blocked: boolean, caller: string): SymmetricEigenDecomposition {
   const n = matrix.order;
   // w holds Vᵀ: row j of w is column j of the transformation V of the EISPACK listing.
   const w = transposeCopy(matrix);
   const d = new Float64Array(n);
   const e = new Float64Array(n);
-  tridiagonalize(w, n, d, e);
-  tridiagonalQl(d, e, n, w, 'symmetricEigen');
+  tridiagonalize(w, n, d, e, blocked);
+  if (blocked && n >= WEBASSEMBLY_ROTATIONS_MIN_ORDER && n >= 2) {
+    const rotations = new PlaneRotationBatch(w, n);
+    tridiagonalQl(d, e, n, null, rotations, caller);
+    rotations.finish();
+  } else {
+    tridiagonalQl(d, e, n, w, null, caller);
+  }
 
   const order = descendingOrder(d);
   const values = new Float64Array(n);
@@ -92,7 +129,7 @@ export function symmetricEigenvalues(matrix: SquareMatrix): Float64Array {
   const d = new Float64Array(n);
   const e = new Float64Array(n);
   tridiagonalizeValuesOnly(w, n, d, e);
-  tridiagonalQl(d, e, n, null, 'symmetricEigenvalues');
+  tridiagonalQl(d, e, n, null, null, 'symmetricEigenvalues');
   return d.sort().reverse();
 }
 
@@ -122,10 +159,14 @@ function hypotenuse(a: number, b: number): number {
 
 /**
  * EISPACK tred2 with V stored transposed: `w[b * n + a]` is V[a][b] of the listing. On return
- * d holds the diagonal and e the subdiagonal (e[0] = 0), and w holds Qᵀ.
+ * d holds the diagonal and e the subdiagonal (e[0] = 0), and w holds Qᵀ. With `fourRows` the
+ * accumulation of Q takes four rows per pass over k (the same sums in the same order, so the
+ * same bits as the listing's one row at a time, which is taken otherwise) and the reduction may
+ * run in WebAssembly; without it the reduction is the JavaScript `householderReductionScript`.
  */
-function tridiagonalize(w: Float64Array, n: number, d: Float64Array, e: Float64Array): void {
-  householderReduction(w, n, d, e);
+function tridiagonalize(w: Float64Array, n: number, d: Float64Array, e: Float64Array, fourRows: boolean): void {
+  if (fourRows) householderReduction(w, n, d, e);
+  else householderReductionScript(w, n, d, e);
 
   for (let i = 0; i < n - 1; i++) {
     w[i * n + n - 1] = w[i * n + i];
@@ -134,7 +175,34 @@ function tridiagonalize(w: Float64Array, n: number, d: Float64Array, e: Float64A
     const next = (i + 1) * n;
     if (h !== 0) {
       for (let k = 0; k <= i; k++) d[k] = w[next + k] / h;
-      for (let j = 0; j <= i; j++) {
+      // Rows j are independent (each reads only itself, row i + 1 and d): four rows share each
+      // pass over k, and every g still sums its terms from 0 in increasing k.
+      let j = 0;
+      for (; fourRows && j + 3 <= i; j += 4) {
+        const column0 = j * n;
+        const column1 = column0 + n;
+        const column2 = column1 + n;
+        const column3 = column2 + n;
+        let g0 = 0;
+        let g1 = 0;
+        let g2 = 0;
+        let g3 = 0;
+        for (let k = 0; k <= i; k++) {
+          const value = w[next + k];
+          g0 += value * w[column0 + k];
+          g1 += value * w[column1 + k];
+          g2 += value * w[column2 + k];
+          g3 += value * w[column3 + k];
+        }
+        for (let k = 0; k <= i; k++) {
+          const dk = d[k];
+          w[column0 + k] -= g0 * dk;
+          w[column1 + k] -= g1 * dk;
+          w[column2 + k] -= g2 * dk;
+          w[column3 + k] -= g3 * dk;
+        }
+      }
+      for (; j <= i; j++) {
         const column = j * n;
         let g = 0;
         for (let k = 0; k <= i; k++) g += w[next + k] * w[column + k];
@@ -351,10 +419,19 @@ export function householderReductionScript(w: Float64Array, n: number, d: Float6
 }
 
 /**
- * EISPACK tql2 (tql1 when `w` is null): eigenvalues of the tridiagonal (d, e) into d, and the
- * rotations applied to the rows of w (the transposed eigenvector matrix). Unsorted on return.
+ * EISPACK tql2 (tql1 when `w` and `rotations` are null): eigenvalues of the tridiagonal (d, e)
+ * into d, and the rotations applied to the rows of w (the transposed eigenvector matrix) here in
+ * JavaScript, or recorded into `rotations` to be applied in WebAssembly, in the same order (they
+ * depend on d and e only). Unsorted on return.
  */
-function tridiagonalQl(d: Float64Array, e: Float64Array, n: number, w: Float64Array | null, caller: string): void {
+function tridiagonalQl(
+  d: Float64Array,
+  e: Float64Array,
+  n: number,
+  w: Float64Array | null,
+  rotations: PlaneRotationBatch | null,
+  caller: string,
+): void {
   for (let i = 1; i < n; i++) e[i - 1] = e[i];
   e[n - 1] = 0;
 
@@ -391,6 +468,7 @@ function tridiagonalQl(d: Float64Array, e: Float64Array, n: number, w: Float64Ar
         const el1 = e[l + 1];
         let s = 0;
         let s2 = 0;
+        if (rotations !== null) rotations.startSweep(m - 1, m - l);
         for (let i = m - 1; i >= l; i--) {
           c3 = c2;
           c2 = c;
@@ -403,7 +481,9 @@ function tridiagonalQl(d: Float64Array, e: Float64Array, n: number, w: Float64Ar
           c = p / r;
           p = c * d[i] - s * g;
           d[i + 1] = h + s * (c * g + s * d[i]);
-          if (w !== null) {
+          if (rotations !== null) {
+            rotations.add(c, s);
+          } else if (w !== null) {
             const upper = (i + 1) * n;
             const lower = i * n;
             for (let k = 0; k < n; k++) {
