@@ -13,6 +13,7 @@
  * and QL algorithms for symmetric matrices" (Numer. Math. 11:293-306, tql2); Smith et al. 1976,
  * "Matrix Eigensystem Routines - EISPACK Guide".
  */
+import { HOUSEHOLDER_WASM_MIN_ORDER, householderReductionWasm } from './householder-reduction-kernel';
 import { PlaneRotationBatch } from './plane-rotations-kernel';
 import { checkSymmetricMatrix } from './symmetric-input';
 import { EIGEN_MAX_ITERATIONS_PER_VALUE } from './tolerances';
@@ -57,10 +58,11 @@ export function symmetricEigen(matrix: SquareMatrix): SymmetricEigenDecompositio
 }
 
 /**
- * The same decomposition as `symmetricEigen` computed with the listing's loops: tred2's
- * accumulation of the transformation one row at a time and tql2's rotations in JavaScript at
- * every order. It is the reference that the four-row accumulation and the WebAssembly rotations
- * must match bit for bit (tests/unit/symmetric-eigen.test.ts) and the benchmark's baseline.
+ * The same decomposition as `symmetricEigen` computed with the listing's loops: the Householder
+ * reduction in JavaScript, tred2's accumulation of the transformation one row at a time and tql2's
+ * rotations in JavaScript at every order. It is the reference that the WebAssembly reduction, the
+ * four-row accumulation and the WebAssembly rotations must match bit for bit
+ * (tests/unit/symmetric-eigen.test.ts) and the benchmark's baseline.
  * @param matrix Symmetric matrix with finite values; not modified.
  * @throws {RangeError} when the matrix is empty, not square, not finite or not symmetric.
  * @throws {Error} when the QL iteration does not converge.
@@ -159,10 +161,12 @@ function hypotenuse(a: number, b: number): number {
  * EISPACK tred2 with V stored transposed: `w[b * n + a]` is V[a][b] of the listing. On return
  * d holds the diagonal and e the subdiagonal (e[0] = 0), and w holds Qᵀ. With `fourRows` the
  * accumulation of Q takes four rows per pass over k (the same sums in the same order, so the
- * same bits as the listing's one row at a time, which is taken otherwise).
+ * same bits as the listing's one row at a time, which is taken otherwise) and the reduction may
+ * run in WebAssembly; without it the reduction is the JavaScript `householderReductionScript`.
  */
 function tridiagonalize(w: Float64Array, n: number, d: Float64Array, e: Float64Array, fourRows: boolean): void {
-  householderReduction(w, n, d, e);
+  if (fourRows) householderReduction(w, n, d, e);
+  else householderReductionScript(w, n, d, e);
 
   for (let i = 0; i < n - 1; i++) {
     w[i * n + n - 1] = w[i * n + i];
@@ -228,16 +232,35 @@ function tridiagonalizeValuesOnly(w: Float64Array, n: number, d: Float64Array, e
 
 /**
  * The Householder reduction shared by tred2 (`tridiagonalize`) and tred1
- * (`tridiagonalizeValuesOnly`): on return e[1..n-1] holds the subdiagonal, d[i] the h of step i,
- * and w the stored Householder vectors (rows) with the reduced matrix's diagonal on its diagonal.
+ * (`tridiagonalizeValuesOnly`): from order HOUSEHOLDER_WASM_MIN_ORDER up in WebAssembly SIMD
+ * (householder-reduction-kernel.ts, bit for bit `householderReductionScript`), below it in
+ * JavaScript.
+ */
+function householderReduction(w: Float64Array, n: number, d: Float64Array, e: Float64Array): void {
+  if (n >= HOUSEHOLDER_WASM_MIN_ORDER) householderReductionWasm(w, n, d, e);
+  else householderReductionScript(w, n, d, e);
+}
+
+/**
+ * The Householder reduction in JavaScript (EISPACK tred1/tred2's first part), exported as the
+ * reference of the WebAssembly kernel's test (tests/unit/householder-reduction-kernel.test.ts):
+ * on return e[1..n-1] holds the subdiagonal, d[i] the h of step i, and w the stored Householder
+ * vectors (rows) with the reduced matrix's diagonal on its diagonal.
  * Four rows j .. j + 3 share each pass over k (the loads of d and e, and of e's stores), and every
  * sum is still formed in the order of one row at a time: row j's terms reach e[k] before row
  * j + 1's, each g runs over k in increasing order, and the corner of the four rows (k < j + 4) is
  * written out so that e[j + 1] .. e[j + 3] have their earlier rows' terms before they start a sum.
  * So d, e and w are bit for bit those of the listing's one-row loops; only the speed differs
  * (docs/decisions/020-speed-whole-audit.md, "Addendum: kernel").
+ * @param w Row-major n × n working matrix (the symmetric matrix, stored transposed); overwritten.
+ * @param n Order (at least 1).
+ * @param d Length n; overwritten.
+ * @param e Length n; overwritten.
+ * @returns Nothing; w, d and e are written.
+ * References: Martin, Reinsch & Wilkinson 1968, "Householder's tridiagonalization of a symmetric
+ * matrix" (Numer. Math. 11:181-195).
  */
-function householderReduction(w: Float64Array, n: number, d: Float64Array, e: Float64Array): void {
+export function householderReductionScript(w: Float64Array, n: number, d: Float64Array, e: Float64Array): void {
   for (let j = 0; j < n; j++) d[j] = w[j * n + n - 1];
   for (let i = n - 1; i > 0; i--) {
     let scale = 0;
