@@ -1,0 +1,313 @@
+/**
+ * Assembles the WebAssembly kernel of the graphical lasso's active-set solve
+ * (src/lib/stats/glasso-support-kernel.ts) from the readable listing below, and prints the bytes
+ * to paste into that file. A unit test (tests/unit/glasso-support-kernel.test.ts) checks that
+ * the bytes in the kernel are the ones this listing gives.
+ *
+ * The function, in WebAssembly text (WAT) terms:
+ *   (func $support (param $j i32) (param $p i32) (param $penalty f64) (param $size i32)
+ *     (param $members i32) (param $s i32) (param $w i32) (param $beta i32) (param $wb i32)
+ *     (param $active i32) (param $factor i32) (param $solution i32) (param $signs i32)
+ *     (param $others i32) (result i32))
+ * Every pointer is a byte offset into the imported memory: `s`, `w` and `beta` are row-major
+ * p × p f64 arrays (S, W and the coefficients, row j holding column j's β), `members` the
+ * `size` items of j's block (i32, ascending), `wb` a length-p f64 vector, and `active`,
+ * `factor`, `solution`, `signs`, `others` scratch (p i32, p × p f64, p f64, p f64, p i32).
+ * It is `solveOnSupport` of graphical-lasso.ts, operation for operation:
+ *   1. A = the members k ≠ j with β_jk ≠ 0, in order (none: return 0);
+ *   2. the Cholesky factor L of W_AA, stored column-major (L[a, c] at a + c·n). It is the
+ *      right-looking (outer-product) form: for c = 0, 1, …: the pivot (0 returned unless > 0),
+ *      its square root, the column below it divided by it, and L[a, b] −= L[a, c] · L[b, c] for
+ *      c < b ≤ a. Each element thus receives its subtractions in the order c = 0, 1, …, b − 1, as
+ *      in the row-by-row (left-looking) loop of the JavaScript, and then the same division: the
+ *      same rounded values. The update of a column runs two rows at a time (f64x2);
+ *   3. the right-hand side s_kj − ρ·sign(β_jk), the forward solve L y = r column by column
+ *      (y_a −= L[a, c] · y_c for c = 0, 1, … and then ÷ L[a, a]: per element the JavaScript's
+ *      order, two rows at a time), and the back solve Lᵀ x = y one scalar dot product at a time
+ *      (c ascending from a + 1, as in the JavaScript);
+ *   4. 0 returned unless every x_a · sign_a > 0; else β written, wb_k = Σ_a w_{k, A_a} x_a for
+ *      every member k ≠ j (a sum from 0, a ascending, two outputs k at a time in one f64x2),
+ *      and 2 returned when |s_kj − wb_k| ≤ ρ for every k off the support, 1 otherwise.
+ * Every operation is one IEEE-754 double multiply, add, subtract, divide or square root (no
+ * fused multiply-add; f64x2 lanes are IEEE-754 doubles), so every value is bit for bit the
+ * JavaScript's.
+ *
+ * Usage: node scripts/make-glasso-support-wasm.mjs
+ * References: WebAssembly Core Specification 2.0 (2022), §5 "Binary format" (the encoding), and
+ * the fixed-width SIMD opcode table (v128.load 0x00, v128.load64_splat 0x0A, v128.store 0x0B,
+ * f64x2.splat 0x14, f64x2.extract_lane 0x21, v128.load64_lane 0x57, f64x2.add/sub/mul/div
+ * 0xF0-0xF3); Golub & Van Loan 2013, "Matrix Computations", 4th ed., §4.2 (the outer-product
+ * Cholesky and its equivalence to the other orderings).
+ */
+
+/** Unsigned LEB128. */
+function unsigned(value) {
+  const bytes = [];
+  do {
+    let byte = value & 0x7f;
+    value >>>= 7;
+    if (value !== 0) byte |= 0x80;
+    bytes.push(byte);
+  } while (value !== 0);
+  return bytes;
+}
+
+/** Signed LEB128 (small constants only). */
+function signed(value) {
+  const bytes = [];
+  for (;;) {
+    const byte = value & 0x7f;
+    value >>= 7;
+    if ((value === 0 && (byte & 0x40) === 0) || (value === -1 && (byte & 0x40) !== 0)) {
+      bytes.push(byte);
+      return bytes;
+    }
+    bytes.push(byte | 0x80);
+  }
+}
+
+function name(text) {
+  const bytes = [...Buffer.from(text, 'utf8')];
+  return [...unsigned(bytes.length), ...bytes];
+}
+
+function section(id, content) {
+  return [id, ...unsigned(content.length), ...content];
+}
+
+// Parameters 0-13 (2 is f64, the rest i32), then i32 locals 14-27, f64 28-30, v128 31-32.
+const J = 0, P = 1, PENALTY = 2, SIZE = 3, MEMBERS = 4, S = 5, W = 6, BETA = 7, WB = 8, ACTIVE = 9, FACTOR = 10, SOLUTION = 11, SIGNS = 12, OTHERS = 13;
+const ROW = 14, N = 15, M = 16, T = 17, K = 18, A = 19, B = 20, C = 21, COLC = 22, COLB = 23, ADDR = 24, ROW1 = 25, ROW2 = 26, OPTIMAL = 27;
+const X = 28, SUM = 29, SIGN = 30;
+const VX = 31, ACC = 32;
+const I32_LOCALS = 14, F64_LOCALS = 3, V128_LOCALS = 2;
+
+const f64Bytes = (value) => [...new Uint8Array(Float64Array.of(value).buffer)];
+
+const op = {
+  get: (index) => [0x20, ...unsigned(index)],
+  set: (index) => [0x21, ...unsigned(index)],
+  tee: (index) => [0x22, ...unsigned(index)],
+  i32: (value) => [0x41, ...signed(value)],
+  f64: (value) => [0x44, ...f64Bytes(value)],
+  block: [0x02, 0x40],
+  loop: [0x03, 0x40],
+  if: [0x04, 0x40],
+  end: [0x0b],
+  br: (depth) => [0x0c, ...unsigned(depth)],
+  brIf: (depth) => [0x0d, ...unsigned(depth)],
+  return: [0x0f],
+  select: [0x1b],
+  i32Load: [0x28, 2, 0],
+  f64Load: [0x2b, 3, 0],
+  i32Store: [0x36, 2, 0],
+  f64Store: [0x39, 3, 0],
+  i32Eqz: [0x45],
+  i32Ne: [0x47],
+  i32LtS: [0x48],
+  i32GeS: [0x4e],
+  f64Eq: [0x61],
+  f64Ne: [0x62],
+  f64Gt: [0x64],
+  i32Add: [0x6a],
+  i32Sub: [0x6b],
+  i32Mul: [0x6c],
+  i32Shl: [0x74],
+  f64Abs: [0x99],
+  f64Sqrt: [0x9f],
+  f64Add: [0xa0],
+  f64Sub: [0xa1],
+  f64Mul: [0xa2],
+  f64Div: [0xa3],
+  // SIMD (prefix 0xFD); memarg = alignment exponent, offset.
+  v128Load: [0xfd, ...unsigned(0x00), 3, 0],
+  load64Splat: [0xfd, ...unsigned(0x0a), 3, 0],
+  v128Store: [0xfd, ...unsigned(0x0b), 3, 0],
+  zero: [0xfd, ...unsigned(0x0c), ...new Array(16).fill(0)],
+  f64x2Splat: [0xfd, ...unsigned(0x14)],
+  extractLane: (lane) => [0xfd, ...unsigned(0x21), lane],
+  load64Lane: (lane) => [0xfd, ...unsigned(0x57), 3, 0, lane],
+  f64x2Add: [0xfd, ...unsigned(0xf0)],
+  f64x2Sub: [0xfd, ...unsigned(0xf1)],
+  f64x2Mul: [0xfd, ...unsigned(0xf2)],
+  f64x2Div: [0xfd, ...unsigned(0xf3)],
+};
+
+const flat = (...parts) => parts.flat(Infinity);
+
+/** Byte address base + (index << shift), with `index` the code of an i32. */
+const address = (base, index, shift = 3) => flat(op.get(base), index, op.i32(shift), op.i32Shl, op.i32Add);
+
+/** for (v = start; v < limit; v += step) body, with start and limit given as code of an i32. */
+function forLoop(variable, start, limit, step, body) {
+  return flat(
+    start, op.set(variable),
+    op.block, op.loop,
+    op.get(variable), limit, op.i32GeS, op.brIf(1),
+    body,
+    op.get(variable), op.i32(step), op.i32Add, op.set(variable),
+    op.br(0),
+    op.end, op.end,
+  );
+}
+
+/**
+ * Rows a = start, start + 1, … < n of two columns, two at a time and then the odd one:
+ * column[a] = column[a] − source[a] · x (source = 0 for a division column[a] / x instead).
+ */
+function columnUpdate(target, source, start, vector, scalar) {
+  const pair = source === undefined
+    ? flat(op.get(ADDR), op.get(ADDR), op.v128Load, op.get(vector), op.f64x2Div, op.v128Store)
+    : flat(op.get(ADDR), op.get(ADDR), op.v128Load, address(source, op.get(A)), op.v128Load, op.get(vector), op.f64x2Mul, op.f64x2Sub, op.v128Store);
+  const single = source === undefined
+    ? flat(op.get(ADDR), op.get(ADDR), op.f64Load, op.get(scalar), op.f64Div, op.f64Store)
+    : flat(op.get(ADDR), op.get(ADDR), op.f64Load, address(source, op.get(A)), op.f64Load, op.get(scalar), op.f64Mul, op.f64Sub, op.f64Store);
+  return flat(
+    forLoop(A, start, flat(op.get(N), op.i32(1), op.i32Sub), 2, flat(address(target, op.get(A)), op.set(ADDR), pair)),
+    op.get(A), op.get(N), op.i32LtS, op.if,
+    address(target, op.get(A)), op.set(ADDR), single,
+    op.end,
+  );
+}
+
+/** The body of $support. */
+function supportBody() {
+  const code = flat(
+    // row = beta + 8 j p (the coefficients of column j)
+    op.get(J), op.get(P), op.i32Mul, op.i32(3), op.i32Shl, op.get(BETA), op.i32Add, op.set(ROW),
+    // The active set and the other members, in the members' order.
+    forLoop(T, op.i32(0), op.get(SIZE), 1, flat(
+      address(MEMBERS, op.get(T), 2), op.i32Load, op.tee(K), op.get(J), op.i32Ne, op.if,
+      address(OTHERS, op.get(M), 2), op.get(K), op.i32Store,
+      op.get(M), op.i32(1), op.i32Add, op.set(M),
+      address(ROW, op.get(K)), op.f64Load, op.f64(0), op.f64Ne, op.if,
+      address(ACTIVE, op.get(N), 2), op.get(K), op.i32Store,
+      op.get(N), op.i32(1), op.i32Add, op.set(N),
+      op.end,
+      op.end,
+    )),
+    op.get(N), op.i32Eqz, op.if, op.i32(0), op.return, op.end,
+    // W_AA's lower triangle, column-major: factor[a + b n] = w[active[a] p + active[b]] (a ≥ b).
+    forLoop(B, op.i32(0), op.get(N), 1, flat(
+      address(FACTOR, flat(op.get(B), op.get(N), op.i32Mul)), op.set(COLB),
+      forLoop(A, op.get(B), op.get(N), 1, flat(
+        address(COLB, op.get(A)),
+        address(W, flat(address(ACTIVE, op.get(A), 2), op.i32Load, op.get(P), op.i32Mul, address(ACTIVE, op.get(B), 2), op.i32Load, op.i32Add)),
+        op.f64Load, op.f64Store,
+      )),
+    )),
+    // The right-hand side s_kj − ρ sign(β_jk) and the signs.
+    forLoop(A, op.i32(0), op.get(N), 1, flat(
+      address(ACTIVE, op.get(A), 2), op.i32Load, op.set(K),
+      op.f64(1), op.f64(-1), address(ROW, op.get(K)), op.f64Load, op.f64(0), op.f64Gt, op.select, op.set(SIGN),
+      address(SIGNS, op.get(A)), op.get(SIGN), op.f64Store,
+      address(SOLUTION, op.get(A)),
+      address(S, flat(op.get(K), op.get(P), op.i32Mul, op.get(J), op.i32Add)), op.f64Load,
+      op.get(PENALTY), op.get(SIGN), op.f64Mul, op.f64Sub, op.f64Store,
+    )),
+    // Right-looking Cholesky.
+    forLoop(C, op.i32(0), op.get(N), 1, flat(
+      address(FACTOR, flat(op.get(C), op.get(N), op.i32Mul)), op.set(COLC),
+      address(COLC, op.get(C)), op.tee(ADDR), op.f64Load, op.tee(X),
+      op.f64(0), op.f64Gt, op.i32Eqz, op.if, op.i32(0), op.return, op.end,
+      op.get(ADDR), op.get(X), op.f64Sqrt, op.tee(X), op.f64Store,
+      op.get(X), op.f64x2Splat, op.set(VX),
+      columnUpdate(COLC, undefined, flat(op.get(C), op.i32(1), op.i32Add), VX, X),
+      forLoop(B, flat(op.get(C), op.i32(1), op.i32Add), op.get(N), 1, flat(
+        address(FACTOR, flat(op.get(B), op.get(N), op.i32Mul)), op.set(COLB),
+        address(COLC, op.get(B)), op.f64Load, op.tee(X), op.f64x2Splat, op.set(VX),
+        columnUpdate(COLB, COLC, op.get(B), VX, X),
+      )),
+    )),
+    // Forward solve L y = r, column by column.
+    forLoop(C, op.i32(0), op.get(N), 1, flat(
+      address(FACTOR, flat(op.get(C), op.get(N), op.i32Mul)), op.set(COLC),
+      address(SOLUTION, op.get(C)), op.tee(ADDR), op.f64Load, address(COLC, op.get(C)), op.f64Load, op.f64Div, op.set(X),
+      op.get(ADDR), op.get(X), op.f64Store,
+      op.get(X), op.f64x2Splat, op.set(VX),
+      columnUpdate(SOLUTION, COLC, flat(op.get(C), op.i32(1), op.i32Add), VX, X),
+    )),
+    // Back solve Lᵀ x = y: for a = n − 1 … 0, a dot product over c = a + 1 … n − 1 in order.
+    op.get(N), op.set(A),
+    op.block, op.loop,
+    op.get(A), op.i32Eqz, op.brIf(1),
+    op.get(A), op.i32(1), op.i32Sub, op.set(A),
+    address(FACTOR, flat(op.get(A), op.get(N), op.i32Mul)), op.set(COLC),
+    address(SOLUTION, op.get(A)), op.f64Load, op.set(SUM),
+    forLoop(C, flat(op.get(A), op.i32(1), op.i32Add), op.get(N), 1, flat(
+      op.get(SUM), address(COLC, op.get(C)), op.f64Load, address(SOLUTION, op.get(C)), op.f64Load, op.f64Mul, op.f64Sub, op.set(SUM),
+    )),
+    address(SOLUTION, op.get(A)), op.get(SUM), address(COLC, op.get(A)), op.f64Load, op.f64Div, op.f64Store,
+    op.br(0),
+    op.end, op.end,
+    // Every sign must agree.
+    forLoop(A, op.i32(0), op.get(N), 1, flat(
+      address(SOLUTION, op.get(A)), op.f64Load, address(SIGNS, op.get(A)), op.f64Load, op.f64Mul, op.f64(0), op.f64Gt,
+      op.i32Eqz, op.if, op.i32(0), op.return, op.end,
+    )),
+    // β_j,active[a] = x_a.
+    forLoop(A, op.i32(0), op.get(N), 1, flat(
+      address(ROW, flat(address(ACTIVE, op.get(A), 2), op.i32Load)), address(SOLUTION, op.get(A)), op.f64Load, op.f64Store,
+    )),
+    // wb_k = Σ_a w[k p + active[a]] x_a for the other members, two at a time.
+    forLoop(T, op.i32(0), flat(op.get(M), op.i32(1), op.i32Sub), 2, flat(
+      address(W, flat(address(OTHERS, op.get(T), 2), op.i32Load, op.get(P), op.i32Mul)), op.set(ROW1),
+      address(W, flat(address(OTHERS, flat(op.get(T), op.i32(1), op.i32Add), 2), op.i32Load, op.get(P), op.i32Mul)), op.set(ROW2),
+      op.zero, op.set(ACC),
+      forLoop(A, op.i32(0), op.get(N), 1, flat(
+        address(ACTIVE, op.get(A), 2), op.i32Load, op.i32(3), op.i32Shl, op.set(ADDR),
+        op.get(ACC),
+        op.get(ROW1), op.get(ADDR), op.i32Add, op.load64Splat,
+        op.get(ROW2), op.get(ADDR), op.i32Add, op.set(ADDR), op.set(VX), op.get(ADDR), op.get(VX), op.load64Lane(1),
+        address(SOLUTION, op.get(A)), op.load64Splat,
+        op.f64x2Mul, op.f64x2Add, op.set(ACC),
+      )),
+      address(WB, flat(address(OTHERS, op.get(T), 2), op.i32Load)), op.get(ACC), op.extractLane(0), op.f64Store,
+      address(WB, flat(address(OTHERS, flat(op.get(T), op.i32(1), op.i32Add), 2), op.i32Load)), op.get(ACC), op.extractLane(1), op.f64Store,
+    )),
+    op.get(T), op.get(M), op.i32LtS, op.if,
+    address(W, flat(address(OTHERS, op.get(T), 2), op.i32Load, op.get(P), op.i32Mul)), op.set(ROW1),
+    op.f64(0), op.set(SUM),
+    forLoop(A, op.i32(0), op.get(N), 1, flat(
+      op.get(SUM), address(ROW1, flat(address(ACTIVE, op.get(A), 2), op.i32Load)), op.f64Load, address(SOLUTION, op.get(A)), op.f64Load, op.f64Mul, op.f64Add, op.set(SUM),
+    )),
+    address(WB, flat(address(OTHERS, op.get(T), 2), op.i32Load)), op.get(SUM), op.f64Store,
+    op.end,
+    // Optimal unless a coordinate off the support has |s_kj − wb_k| > ρ.
+    op.i32(2), op.set(OPTIMAL),
+    forLoop(T, op.i32(0), op.get(M), 1, flat(
+      address(OTHERS, op.get(T), 2), op.i32Load, op.set(K),
+      address(ROW, op.get(K)), op.f64Load, op.f64(0), op.f64Eq, op.if,
+      address(S, flat(op.get(K), op.get(P), op.i32Mul, op.get(J), op.i32Add)), op.f64Load, address(WB, op.get(K)), op.f64Load, op.f64Sub, op.f64Abs,
+      op.get(PENALTY), op.f64Gt, op.if, op.i32(1), op.set(OPTIMAL), op.end,
+      op.end,
+    )),
+    op.get(OPTIMAL),
+    op.end,
+  );
+  const locals = [3, I32_LOCALS, 0x7f, F64_LOCALS, 0x7c, V128_LOCALS, 0x7b];
+  return [...unsigned(locals.length + code.length), ...locals, ...code];
+}
+
+/**
+ * The module: imports `env.memory`, exports `support`.
+ * @returns {Uint8Array} The WebAssembly binary.
+ */
+export function glassoSupportWasmBytes() {
+  const i32 = 0x7f;
+  const f64 = 0x7c;
+  const params = [i32, i32, f64, i32, i32, i32, i32, i32, i32, i32, i32, i32, i32, i32];
+  const type = section(1, [1, 0x60, params.length, ...params, 1, i32]);
+  const imports = section(2, [1, ...name('env'), ...name('memory'), 0x02, 0x00, 1]);
+  const functions = section(3, [1, 0]);
+  const exports = section(7, [1, ...name('support'), 0x00, 0]);
+  const code = section(10, [1, ...supportBody()]);
+  return Uint8Array.from([0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00, ...type, ...imports, ...functions, ...exports, ...code]);
+}
+
+if (import.meta.url === `file://${process.argv[1]}`) {
+  const bytes = glassoSupportWasmBytes();
+  const lines = [];
+  for (let start = 0; start < bytes.length; start += 32) lines.push(`    ${Array.from(bytes.subarray(start, start + 32)).join(', ')},`);
+  console.log(`// ${bytes.length} bytes from scripts/make-glasso-support-wasm.mjs\n${lines.join('\n')}`);
+}
