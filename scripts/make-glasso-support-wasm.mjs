@@ -20,13 +20,15 @@
  *      its square root, the column below it divided by it, and L[a, b] −= L[a, c] · L[b, c] for
  *      c < b ≤ a. Each element thus receives its subtractions in the order c = 0, 1, …, b − 1, as
  *      in the row-by-row (left-looking) loop of the JavaScript, and then the same division: the
- *      same rounded values. The update of a column runs two rows at a time (f64x2);
+ *      same rounded values. The update of a column runs two rows at a time (f64x2), and the
+ *      pivots are taken two at a time (c, then c + 1 after column c + 1's update by c), so that
+ *      each later element is loaded once for its two subtractions, done in the order c, c + 1;
  *   3. the right-hand side s_kj − ρ·sign(β_jk), the forward solve L y = r column by column
  *      (y_a −= L[a, c] · y_c for c = 0, 1, … and then ÷ L[a, a]: per element the JavaScript's
  *      order, two rows at a time), and the back solve Lᵀ x = y one scalar dot product at a time
  *      (c ascending from a + 1, as in the JavaScript);
  *   4. 0 returned unless every x_a · sign_a > 0; else β written, wb_k = Σ_a w_{k, A_a} x_a for
- *      every member k ≠ j (a sum from 0, a ascending, two outputs k at a time in one f64x2),
+ *      every member k ≠ j (a sum from 0, a ascending; four outputs k at a time in two f64x2),
  *      and 2 returned when |s_kj − wb_k| ≤ ρ for every k off the support, 1 otherwise.
  * Every operation is one IEEE-754 double multiply, add, subtract, divide or square root (no
  * fused multiply-add; f64x2 lanes are IEEE-754 doubles), so every value is bit for bit the
@@ -75,12 +77,14 @@ function section(id, content) {
   return [id, ...unsigned(content.length), ...content];
 }
 
-// Parameters 0-13 (2 is f64, the rest i32), then i32 locals 14-27, f64 28-30, v128 31-32.
+// Parameters 0-13 (2 is f64, the rest i32), then i32 locals 14-29, f64 30-32, v128 33-36.
 const J = 0, P = 1, PENALTY = 2, SIZE = 3, MEMBERS = 4, S = 5, W = 6, BETA = 7, WB = 8, ACTIVE = 9, FACTOR = 10, SOLUTION = 11, SIGNS = 12, OTHERS = 13;
-const ROW = 14, N = 15, M = 16, T = 17, K = 18, A = 19, B = 20, C = 21, COLC = 22, COLB = 23, ADDR = 24, ROW1 = 25, ROW2 = 26, OPTIMAL = 27;
-const X = 28, SUM = 29, SIGN = 30;
-const VX = 31, ACC = 32;
-const I32_LOCALS = 14, F64_LOCALS = 3, V128_LOCALS = 2;
+const ROW = 14, N = 15, M = 16, T = 17, K = 18, A = 19, B = 20, C = 21, COLC = 22, COLB = 23, ADDR = 24, OPTIMAL = 25;
+const ROWS = [26, 27, 28, 29]; // rows of W of up to four outputs wb_k
+const COLD = 30;
+const X = 31, Y = 32, SUM = 33, SIGN = 34;
+const VX = 35, VY = 36, ACC = [37, 38];
+const I32_LOCALS = 17, F64_LOCALS = 4, V128_LOCALS = 4;
 
 const f64Bytes = (value) => [...new Uint8Array(Float64Array.of(value).buffer)];
 
@@ -152,22 +156,73 @@ function forLoop(variable, start, limit, step, body) {
 }
 
 /**
- * Rows a = start, start + 1, … < n of two columns, two at a time and then the odd one:
- * column[a] = column[a] − source[a] · x (source = 0 for a division column[a] / x instead).
+ * Rows a = start, start + 1, … < n of a column, two at a time and then the odd one:
+ * column[a] = column[a] / x.
  */
-function columnUpdate(target, source, start, vector, scalar) {
-  const pair = source === undefined
-    ? flat(op.get(ADDR), op.get(ADDR), op.v128Load, op.get(vector), op.f64x2Div, op.v128Store)
-    : flat(op.get(ADDR), op.get(ADDR), op.v128Load, address(source, op.get(A)), op.v128Load, op.get(vector), op.f64x2Mul, op.f64x2Sub, op.v128Store);
-  const single = source === undefined
-    ? flat(op.get(ADDR), op.get(ADDR), op.f64Load, op.get(scalar), op.f64Div, op.f64Store)
-    : flat(op.get(ADDR), op.get(ADDR), op.f64Load, address(source, op.get(A)), op.f64Load, op.get(scalar), op.f64Mul, op.f64Sub, op.f64Store);
+function columnDivide(target, start, vector, scalar) {
   return flat(
-    forLoop(A, start, flat(op.get(N), op.i32(1), op.i32Sub), 2, flat(address(target, op.get(A)), op.set(ADDR), pair)),
+    forLoop(A, start, flat(op.get(N), op.i32(1), op.i32Sub), 2, flat(
+      address(target, op.get(A)), op.tee(ADDR), op.get(ADDR), op.v128Load, op.get(vector), op.f64x2Div, op.v128Store,
+    )),
     op.get(A), op.get(N), op.i32LtS, op.if,
-    address(target, op.get(A)), op.set(ADDR), single,
+    address(target, op.get(A)), op.tee(ADDR), op.get(ADDR), op.f64Load, op.get(scalar), op.f64Div, op.f64Store,
     op.end,
   );
+}
+
+/**
+ * Rows a = start, start + 1, … < n of a column, two at a time and then the odd one:
+ * column[a] = (column[a] − source₁[a] · x₁) − source₂[a] · x₂ … for the terms in order, each
+ * product rounded and subtracted on its own. A term is [source column, x as f64x2, x as f64].
+ */
+function columnSubtract(target, terms, start) {
+  const pair = [address(target, op.get(A)), op.tee(ADDR), op.get(ADDR), op.v128Load];
+  const single = [address(target, op.get(A)), op.tee(ADDR), op.get(ADDR), op.f64Load];
+  for (const [source, vector, scalar] of terms) {
+    pair.push(address(source, op.get(A)), op.v128Load, op.get(vector), op.f64x2Mul, op.f64x2Sub);
+    single.push(address(source, op.get(A)), op.f64Load, op.get(scalar), op.f64Mul, op.f64Sub);
+  }
+  return flat(
+    forLoop(A, start, flat(op.get(N), op.i32(1), op.i32Sub), 2, flat(pair, op.v128Store)),
+    op.get(A), op.get(N), op.i32LtS, op.if, single, op.f64Store, op.end,
+  );
+}
+
+/**
+ * Pivot `index` of the column at byte address `column`: 0 returned unless it is > 0; else its
+ * square root stored and the rows below divided by it.
+ */
+function pivot(column, index) {
+  return flat(
+    address(column, index), op.tee(ADDR), op.f64Load, op.tee(X),
+    op.f64(0), op.f64Gt, op.i32Eqz, op.if, op.i32(0), op.return, op.end,
+    op.get(ADDR), op.get(X), op.f64Sqrt, op.tee(X), op.f64Store,
+    op.get(X), op.f64x2Splat, op.set(VX),
+    columnDivide(column, flat(index, op.i32(1), op.i32Add), VX, X),
+  );
+}
+
+/**
+ * wb_k for the `count` (2 or 4) other members others[t], others[t + 1], …: each a sum from 0 over
+ * a = 0, 1, … of w[k p + active[a]] · x_a, in its own f64x2 lane.
+ */
+function outputs(count) {
+  const code = [];
+  for (let r = 0; r < count; r++) code.push(address(W, flat(address(OTHERS, flat(op.get(T), op.i32(r), op.i32Add), 2), op.i32Load, op.get(P), op.i32Mul)), op.set(ROWS[r]));
+  for (let h = 0; h < count / 2; h++) code.push(op.zero, op.set(ACC[h]));
+  const step = [address(ACTIVE, op.get(A), 2), op.i32Load, op.i32(3), op.i32Shl, op.set(ADDR), address(SOLUTION, op.get(A)), op.load64Splat, op.set(VX)];
+  for (let h = 0; h < count / 2; h++) {
+    // [address of row 2h + 1, row 2h's element in both lanes] → lane 1 replaced by row 2h + 1's.
+    step.push(
+      op.get(ACC[h]),
+      op.get(ROWS[2 * h + 1]), op.get(ADDR), op.i32Add,
+      op.get(ROWS[2 * h]), op.get(ADDR), op.i32Add, op.load64Splat,
+      op.load64Lane(1), op.get(VX), op.f64x2Mul, op.f64x2Add, op.set(ACC[h]),
+    );
+  }
+  code.push(forLoop(A, op.i32(0), op.get(N), 1, flat(step)));
+  for (let r = 0; r < count; r++) code.push(address(WB, flat(address(OTHERS, flat(op.get(T), op.i32(r), op.i32Add), 2), op.i32Load)), op.get(ACC[r >> 1]), op.extractLane(r & 1), op.f64Store);
+  return flat(code);
 }
 
 /** The body of $support. */
@@ -205,19 +260,24 @@ function supportBody() {
       address(S, flat(op.get(K), op.get(P), op.i32Mul, op.get(J), op.i32Add)), op.f64Load,
       op.get(PENALTY), op.get(SIGN), op.f64Mul, op.f64Sub, op.f64Store,
     )),
-    // Right-looking Cholesky.
-    forLoop(C, op.i32(0), op.get(N), 1, flat(
+    // Right-looking Cholesky, two columns c, c + 1 per step: column c's pivot and division, column
+    // c + 1's update by column c, its pivot and division, then every later column b updated by
+    // c and then by c + 1 (L[a, b] − L[a, c] L[b, c] − L[a, c+1] L[b, c+1], left to right).
+    forLoop(C, op.i32(0), op.get(N), 2, flat(
       address(FACTOR, flat(op.get(C), op.get(N), op.i32Mul)), op.set(COLC),
-      address(COLC, op.get(C)), op.tee(ADDR), op.f64Load, op.tee(X),
-      op.f64(0), op.f64Gt, op.i32Eqz, op.if, op.i32(0), op.return, op.end,
-      op.get(ADDR), op.get(X), op.f64Sqrt, op.tee(X), op.f64Store,
-      op.get(X), op.f64x2Splat, op.set(VX),
-      columnUpdate(COLC, undefined, flat(op.get(C), op.i32(1), op.i32Add), VX, X),
-      forLoop(B, flat(op.get(C), op.i32(1), op.i32Add), op.get(N), 1, flat(
-        address(FACTOR, flat(op.get(B), op.get(N), op.i32Mul)), op.set(COLB),
+      pivot(COLC, op.get(C)),
+      op.get(C), op.i32(1), op.i32Add, op.get(N), op.i32LtS, op.if,
+      op.get(COLC), op.get(N), op.i32(3), op.i32Shl, op.i32Add, op.set(COLB),
+      address(COLC, flat(op.get(C), op.i32(1), op.i32Add)), op.f64Load, op.tee(X), op.f64x2Splat, op.set(VX),
+      columnSubtract(COLB, [[COLC, VX, X]], flat(op.get(C), op.i32(1), op.i32Add)),
+      pivot(COLB, flat(op.get(C), op.i32(1), op.i32Add)),
+      forLoop(B, flat(op.get(C), op.i32(2), op.i32Add), op.get(N), 1, flat(
+        address(FACTOR, flat(op.get(B), op.get(N), op.i32Mul)), op.set(COLD),
         address(COLC, op.get(B)), op.f64Load, op.tee(X), op.f64x2Splat, op.set(VX),
-        columnUpdate(COLB, COLC, op.get(B), VX, X),
+        address(COLB, op.get(B)), op.f64Load, op.tee(Y), op.f64x2Splat, op.set(VY),
+        columnSubtract(COLD, [[COLC, VX, X], [COLB, VY, Y]], op.get(B)),
       )),
+      op.end,
     )),
     // Forward solve L y = r, column by column.
     forLoop(C, op.i32(0), op.get(N), 1, flat(
@@ -225,7 +285,7 @@ function supportBody() {
       address(SOLUTION, op.get(C)), op.tee(ADDR), op.f64Load, address(COLC, op.get(C)), op.f64Load, op.f64Div, op.set(X),
       op.get(ADDR), op.get(X), op.f64Store,
       op.get(X), op.f64x2Splat, op.set(VX),
-      columnUpdate(SOLUTION, COLC, flat(op.get(C), op.i32(1), op.i32Add), VX, X),
+      columnSubtract(SOLUTION, [[COLC, VX, X]], flat(op.get(C), op.i32(1), op.i32Add)),
     )),
     // Back solve Lᵀ x = y: for a = n − 1 … 0, a dot product over c = a + 1 … n − 1 in order.
     op.get(N), op.set(A),
@@ -249,27 +309,15 @@ function supportBody() {
     forLoop(A, op.i32(0), op.get(N), 1, flat(
       address(ROW, flat(address(ACTIVE, op.get(A), 2), op.i32Load)), address(SOLUTION, op.get(A)), op.f64Load, op.f64Store,
     )),
-    // wb_k = Σ_a w[k p + active[a]] x_a for the other members, two at a time.
-    forLoop(T, op.i32(0), flat(op.get(M), op.i32(1), op.i32Sub), 2, flat(
-      address(W, flat(address(OTHERS, op.get(T), 2), op.i32Load, op.get(P), op.i32Mul)), op.set(ROW1),
-      address(W, flat(address(OTHERS, flat(op.get(T), op.i32(1), op.i32Add), 2), op.i32Load, op.get(P), op.i32Mul)), op.set(ROW2),
-      op.zero, op.set(ACC),
-      forLoop(A, op.i32(0), op.get(N), 1, flat(
-        address(ACTIVE, op.get(A), 2), op.i32Load, op.i32(3), op.i32Shl, op.set(ADDR),
-        op.get(ACC),
-        op.get(ROW1), op.get(ADDR), op.i32Add, op.load64Splat,
-        op.get(ROW2), op.get(ADDR), op.i32Add, op.set(ADDR), op.set(VX), op.get(ADDR), op.get(VX), op.load64Lane(1),
-        address(SOLUTION, op.get(A)), op.load64Splat,
-        op.f64x2Mul, op.f64x2Add, op.set(ACC),
-      )),
-      address(WB, flat(address(OTHERS, op.get(T), 2), op.i32Load)), op.get(ACC), op.extractLane(0), op.f64Store,
-      address(WB, flat(address(OTHERS, flat(op.get(T), op.i32(1), op.i32Add), 2), op.i32Load)), op.get(ACC), op.extractLane(1), op.f64Store,
-    )),
+    // wb_k = Σ_a w[k p + active[a]] x_a for the other members: four at a time (two f64x2
+    // sums, one output per lane), then two, then one.
+    forLoop(T, op.i32(0), flat(op.get(M), op.i32(3), op.i32Sub), 4, outputs(4)),
+    op.get(T), flat(op.get(M), op.i32(1), op.i32Sub), op.i32LtS, op.if, outputs(2), op.get(T), op.i32(2), op.i32Add, op.set(T), op.end,
     op.get(T), op.get(M), op.i32LtS, op.if,
-    address(W, flat(address(OTHERS, op.get(T), 2), op.i32Load, op.get(P), op.i32Mul)), op.set(ROW1),
+    address(W, flat(address(OTHERS, op.get(T), 2), op.i32Load, op.get(P), op.i32Mul)), op.set(ROWS[0]),
     op.f64(0), op.set(SUM),
     forLoop(A, op.i32(0), op.get(N), 1, flat(
-      op.get(SUM), address(ROW1, flat(address(ACTIVE, op.get(A), 2), op.i32Load)), op.f64Load, address(SOLUTION, op.get(A)), op.f64Load, op.f64Mul, op.f64Add, op.set(SUM),
+      op.get(SUM), address(ROWS[0], flat(address(ACTIVE, op.get(A), 2), op.i32Load)), op.f64Load, address(SOLUTION, op.get(A)), op.f64Load, op.f64Mul, op.f64Add, op.set(SUM),
     )),
     address(WB, flat(address(OTHERS, op.get(T), 2), op.i32Load)), op.get(SUM), op.f64Store,
     op.end,
