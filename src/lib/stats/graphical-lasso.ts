@@ -31,7 +31,10 @@
  * sweeps; `graphicalLassoWarm` continues from a previous solution, which is how a penalty path
  * is walked cheaply (qgraph's EBICglasso walks the path through glasso::glassopath, which does
  * the same). Along a path the support of most columns is already right, so most column solves
- * are one Cholesky of the active set, with no coordinate-descent pass.
+ * are one Cholesky of the active set, with no coordinate-descent pass. That active-set solve
+ * (Cholesky of W_AA, the two triangular solves, wb = W₁₁β and the optimality test) runs in a
+ * WebAssembly SIMD kernel (glasso-support-kernel.ts), bit for bit the JavaScript it replaced; S, W
+ * and β are kept in the kernel's memory during a call and W and β copied back to the state.
  *
  * References: Friedman, Hastie & Tibshirani 2008, "Sparse inverse covariance estimation with the
  * graphical lasso" (Biostatistics 9:432-441); Friedman, Hastie, Höfling & Tibshirani 2007,
@@ -371,7 +374,7 @@ interface ColumnWorkspace {
  *
  * Coordinate descent passes (Friedman, Hastie, Höfling & Tibshirani 2007) find the support and
  * signs; once a pass leaves the support unchanged, the optimum on that face is solved exactly:
- * β_A = W_AA⁻¹ (s_A − ρ sign(β_A)) by Cholesky. It is taken when its signs agree (then it lowers
+ * β_A = W_AA⁻¹ (s_A − ρ sign(β_A)) by Cholesky (`solveOnSupportKernel`). It is taken when its signs agree (then it lowers
  * the objective, being the minimum over the face), and it is the lasso's solution when every
  * coordinate off the support meets |s_k − (W₁₁β)_k| ≤ ρ, the same test that keeps a coordinate
  * at zero in a pass. Otherwise passes go on, stopping as before when no coordinate moves by more
