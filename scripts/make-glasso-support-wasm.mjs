@@ -97,6 +97,7 @@ const op = {
   block: [0x02, 0x40],
   loop: [0x03, 0x40],
   if: [0x04, 0x40],
+  else: [0x05],
   end: [0x0b],
   br: (depth) => [0x0c, ...unsigned(depth)],
   brIf: (depth) => [0x0d, ...unsigned(depth)],
@@ -107,11 +108,13 @@ const op = {
   i32Store: [0x36, 2, 0],
   f64Store: [0x39, 3, 0],
   i32Eqz: [0x45],
+  i32Eq: [0x46],
   i32Ne: [0x47],
   i32LtS: [0x48],
   i32GeS: [0x4e],
   f64Eq: [0x61],
   f64Ne: [0x62],
+  i32Or: [0x72],
   f64Gt: [0x64],
   i32Add: [0x6a],
   i32Sub: [0x6b],
@@ -337,19 +340,97 @@ function supportBody() {
   return [...unsigned(locals.length + code.length), ...locals, ...code];
 }
 
+// $pass: parameters 0-9 (2 is f64), then i32 locals 10-19, f64 20-26, v128 27.
+const PJ = 0, PP = 1, PPENALTY = 2, PSIZE = 3, PMEMBERS = 4, PS = 5, PW = 6, PBETA = 7, PWB = 8, PFLAG = 9;
+const PROW = 10, PT = 11, PK = 12, PWK = 13, PU = 14, PL = 15, PFIRST = 16, PCONTIGUOUS = 17, PWROW = 18, PWBROW = 19;
+const PWKK = 20, POLD = 21, PPARTIAL = 22, PEXCESS = 23, PUPDATED = 24, PDELTA = 25, PLARGEST = 26;
+const PVD = 27;
+
 /**
- * The module: imports `env.memory`, exports `support`.
+ * The body of $pass: one coordinate-descent pass of column j's lasso (`lassoPass` of
+ * graphical-lasso.ts, operation for operation). For each member k ≠ j in order:
+ * partial = (s_kj − wb_k) + w_kk β_jk, excess = |partial| − ρ, the new β_jk = (±1 · excess) / w_kk
+ * when excess > 0 (the sign of partial) and 0 otherwise; when it differs from the old one, the
+ * flag at `flag` is set to 1 if a coordinate entered or left the support (it is 0 otherwise), β
+ * is written, wb_l += w_kl · Δ for every member l (two l per f64x2 when the block is a run of
+ * consecutive items, else one at a time: each wb_l its own running sum either way), and
+ * |Δ| w_kk is compared with the largest so far, which is returned.
+ */
+function passBody() {
+  const row = (index) => flat(op.get(index), op.i32(3), op.i32Shl);
+  const code = flat(
+    op.get(PJ), op.get(PP), op.i32Mul, op.i32(3), op.i32Shl, op.get(PBETA), op.i32Add, op.set(PROW),
+    op.get(PFLAG), op.i32(0), op.i32Store,
+    // first member, and whether the members are first, first + 1, …
+    op.get(PMEMBERS), op.i32Load, op.set(PFIRST),
+    address(PMEMBERS, flat(op.get(PSIZE), op.i32(1), op.i32Sub), 2), op.i32Load, op.get(PFIRST), op.i32Sub,
+    op.get(PSIZE), op.i32(1), op.i32Sub, op.i32Eq, op.set(PCONTIGUOUS),
+    forLoop(PT, op.i32(0), op.get(PSIZE), 1, flat(
+      address(PMEMBERS, op.get(PT), 2), op.i32Load, op.tee(PK), op.get(PJ), op.i32Ne, op.if,
+      address(PW, flat(op.get(PK), op.get(PP), op.i32Mul)), op.set(PWK),
+      address(PWK, op.get(PK)), op.f64Load, op.set(PWKK),
+      address(PROW, op.get(PK)), op.f64Load, op.set(POLD),
+      address(PS, flat(op.get(PK), op.get(PP), op.i32Mul, op.get(PJ), op.i32Add)), op.f64Load,
+      address(PWB, op.get(PK)), op.f64Load, op.f64Sub,
+      op.get(PWKK), op.get(POLD), op.f64Mul, op.f64Add, op.tee(PPARTIAL),
+      op.f64Abs, op.get(PPENALTY), op.f64Sub, op.set(PEXCESS),
+      // updated = excess > 0 ? ((partial > 0 ? 1 : −1) · excess) / w_kk : 0
+      op.f64(1), op.f64(-1), op.get(PPARTIAL), op.f64(0), op.f64Gt, op.select,
+      op.get(PEXCESS), op.f64Mul, op.get(PWKK), op.f64Div,
+      op.f64(0), op.get(PEXCESS), op.f64(0), op.f64Gt, op.select, op.tee(PUPDATED),
+      op.get(POLD), op.f64Ne, op.if,
+      op.get(PUPDATED), op.f64(0), op.f64Eq, op.get(POLD), op.f64(0), op.f64Eq, op.i32Or, op.if,
+      op.get(PFLAG), op.i32(1), op.i32Store,
+      op.end,
+      op.get(PUPDATED), op.get(POLD), op.f64Sub, op.set(PDELTA),
+      address(PROW, op.get(PK)), op.get(PUPDATED), op.f64Store,
+      op.get(PCONTIGUOUS), op.if,
+      op.get(PWK), row(PFIRST), op.i32Add, op.set(PWROW),
+      op.get(PWB), row(PFIRST), op.i32Add, op.set(PWBROW),
+      op.get(PDELTA), op.f64x2Splat, op.set(PVD),
+      forLoop(PU, op.i32(0), flat(op.get(PSIZE), op.i32(1), op.i32Sub), 2, flat(
+        address(PWBROW, op.get(PU)), op.tee(PL), op.get(PL), op.v128Load,
+        address(PWROW, op.get(PU)), op.v128Load, op.get(PVD), op.f64x2Mul, op.f64x2Add, op.v128Store,
+      )),
+      op.get(PU), op.get(PSIZE), op.i32LtS, op.if,
+      address(PWBROW, op.get(PU)), op.tee(PL), op.get(PL), op.f64Load,
+      address(PWROW, op.get(PU)), op.f64Load, op.get(PDELTA), op.f64Mul, op.f64Add, op.f64Store,
+      op.end,
+      op.else,
+      forLoop(PU, op.i32(0), op.get(PSIZE), 1, flat(
+        address(PMEMBERS, op.get(PU), 2), op.i32Load, op.i32(3), op.i32Shl, op.set(PL),
+        op.get(PWB), op.get(PL), op.i32Add, op.tee(PWBROW), op.get(PWBROW), op.f64Load,
+        op.get(PWK), op.get(PL), op.i32Add, op.f64Load, op.get(PDELTA), op.f64Mul, op.f64Add, op.f64Store,
+      )),
+      op.end,
+      // step = |Δ| w_kk; largest = max
+      op.get(PDELTA), op.f64Abs, op.get(PWKK), op.f64Mul, op.tee(PDELTA), op.get(PLARGEST), op.f64Gt, op.if,
+      op.get(PDELTA), op.set(PLARGEST),
+      op.end,
+      op.end,
+      op.end,
+    )),
+    op.get(PLARGEST),
+    op.end,
+  );
+  const locals = [3, 10, 0x7f, 7, 0x7c, 1, 0x7b];
+  return [...unsigned(locals.length + code.length), ...locals, ...code];
+}
+
+/**
+ * The module: imports `env.memory`, exports `support` and `pass`.
  * @returns {Uint8Array} The WebAssembly binary.
  */
 export function glassoSupportWasmBytes() {
   const i32 = 0x7f;
   const f64 = 0x7c;
   const params = [i32, i32, f64, i32, i32, i32, i32, i32, i32, i32, i32, i32, i32, i32];
-  const type = section(1, [1, 0x60, params.length, ...params, 1, i32]);
+  const passParams = [i32, i32, f64, i32, i32, i32, i32, i32, i32, i32];
+  const type = section(1, [2, 0x60, params.length, ...params, 1, i32, 0x60, passParams.length, ...passParams, 1, f64]);
   const imports = section(2, [1, ...name('env'), ...name('memory'), 0x02, 0x00, 1]);
-  const functions = section(3, [1, 0]);
-  const exports = section(7, [1, ...name('support'), 0x00, 0]);
-  const code = section(10, [1, ...supportBody()]);
+  const functions = section(3, [2, 0, 1]);
+  const exports = section(7, [2, ...name('support'), 0x00, 0, ...name('pass'), 0x00, 1]);
+  const code = section(10, [2, ...supportBody(), ...passBody()]);
   return Uint8Array.from([0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00, ...type, ...imports, ...functions, ...exports, ...code]);
 }
 

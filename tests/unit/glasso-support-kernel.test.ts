@@ -1,6 +1,6 @@
 import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { glassoSupportMemory, solveOnSupportKernel } from '../../src/lib/stats/glasso-support-kernel';
+import { glassoSupportMemory, lassoPassKernel, solveOnSupportKernel } from '../../src/lib/stats/glasso-support-kernel';
 import { createSeededRandom, type SeededRandomGenerator } from '../../src/lib/stats/seeded-random';
 import { glassoSupportWasmBytes } from '../../scripts/make-glasso-support-wasm.mjs';
 
@@ -72,6 +72,45 @@ function referenceSolveOnSupport(
     }
   }
   return optimal ? 2 : 1;
+}
+
+/** The JavaScript `lassoPass` that the kernel replaced, verbatim but for returning the support flag. */
+function referenceLassoPass(
+  j: number,
+  p: number,
+  penalty: number,
+  s: Float64Array,
+  w: Float64Array,
+  beta: Float64Array,
+  wb: Float64Array,
+  blockMembers: Int32Array,
+): { largestStep: number; supportChanged: boolean } {
+  const row = j * p;
+  const size = blockMembers.length;
+  let supportChanged = false;
+  let largestStep = 0;
+  for (let index = 0; index < size; index++) {
+    const k = blockMembers[index];
+    if (k === j) continue;
+    const wk = k * p;
+    const wkk = w[wk + k];
+    const old = beta[row + k];
+    const partial = s[wk + j] - wb[k] + wkk * old;
+    const excess = Math.abs(partial) - penalty;
+    const updated = excess > 0 ? ((partial > 0 ? 1 : -1) * excess) / wkk : 0;
+    if (updated !== old) {
+      if (updated === 0 || old === 0) supportChanged = true;
+      const delta = updated - old;
+      beta[row + k] = updated;
+      for (let t = 0; t < size; t++) {
+        const l = blockMembers[t];
+        wb[l] += w[wk + l] * delta;
+      }
+      const step = Math.abs(delta) * wkk;
+      if (step > largestStep) largestStep = step;
+    }
+  }
+  return { largestStep, supportChanged };
 }
 
 interface Problem {
@@ -195,5 +234,41 @@ describe('solveOnSupportKernel', () => {
     expect(solveOnSupportKernel(memory, problem.j, problem.penalty, memory.members.subarray(first))).toBe(expected);
     expect(differing(memory.beta, beta)).toEqual([]);
     expect(differing(memory.wb, wb)).toEqual([]);
+  });
+
+  it('runs coordinate-descent passes bit for bit as the former JavaScript, on runs of items and on scattered blocks', () => {
+    const random = createSeededRandom(314159);
+    let changedPasses = 0;
+    let quietPasses = 0;
+    for (let trial = 0; trial < 300; trial++) {
+      const p = 2 + random.nextInt(45);
+      const problem = makeProblem(random, trial % 3 === 2 ? 'random' : 'face', p, [0.1, 0.4, 0.8][trial % 3]);
+      // A run of consecutive items (the usual single block) in two of three trials.
+      const first = random.nextInt(p - 1);
+      const run = Int32Array.from({ length: 2 + random.nextInt(p - 1 - first) }, (_, index) => first + index);
+      const members = trial % 3 === 0 ? problem.members : run;
+      const j = members[random.nextInt(members.length)];
+      const beta = Float64Array.from(problem.beta);
+      const wb = Float64Array.from(problem.wb);
+      const memory = glassoSupportMemory(p);
+      memory.s.set(problem.s);
+      memory.w.set(problem.w);
+      memory.beta.set(problem.beta);
+      memory.wb.set(problem.wb);
+      memory.members.fill(-1).set(members);
+      const block = memory.members.subarray(0, members.length);
+      for (let pass = 0; pass < 4; pass++) {
+        const expected = referenceLassoPass(j, p, problem.penalty, problem.s, problem.w, beta, wb, members);
+        memory.supportChanged[0] = 7;
+        const largest = lassoPassKernel(memory, j, problem.penalty, block);
+        expect(Object.is(largest, expected.largestStep), `trial ${trial} pass ${pass}`).toBe(true);
+        expect(memory.supportChanged[0], `trial ${trial} pass ${pass}`).toBe(expected.supportChanged ? 1 : 0);
+        expect(differing(memory.beta, beta), `trial ${trial} pass ${pass}`).toEqual([]);
+        expect(differing(memory.wb, wb), `trial ${trial} pass ${pass}`).toEqual([]);
+        if (expected.supportChanged) changedPasses++;
+        else quietPasses++;
+      }
+    }
+    expect(Math.min(changedPasses, quietPasses)).toBeGreaterThan(100);
   });
 });

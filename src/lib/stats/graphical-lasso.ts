@@ -33,8 +33,9 @@
  * the same). Along a path the support of most columns is already right, so most column solves
  * are one Cholesky of the active set, with no coordinate-descent pass. That active-set solve
  * (Cholesky of W_AA, the two triangular solves, wb = W₁₁β and the optimality test) runs in a
- * WebAssembly SIMD kernel (glasso-support-kernel.ts), bit for bit the JavaScript it replaced; S, W
- * and β are kept in the kernel's memory during a call and W and β copied back to the state.
+ * WebAssembly SIMD kernel (glasso-support-kernel.ts), and so do the coordinate-descent passes,
+ * bit for bit the JavaScript they replaced; S, W and β are kept in the kernel's memory during a
+ * call and W and β copied back to the state.
  *
  * References: Friedman, Hastie & Tibshirani 2008, "Sparse inverse covariance estimation with the
  * graphical lasso" (Biostatistics 9:432-441); Friedman, Hastie, Höfling & Tibshirani 2007,
@@ -46,7 +47,7 @@
  * for the screening. Checked against R glasso::glasso (glasso 1.11).
  */
 import { checkCovarianceMatrix } from './covariance-input';
-import { glassoSupportMemory, solveOnSupportKernel, type GlassoSupportMemory } from './glasso-support-kernel';
+import { glassoSupportMemory, lassoPassKernel, solveOnSupportKernel, type GlassoSupportMemory } from './glasso-support-kernel';
 import {
   GRAPHICAL_LASSO_EXTRAPOLATION_RATIOS,
   GRAPHICAL_LASSO_MAX_INNER_PASSES,
@@ -201,7 +202,6 @@ export function graphicalLassoWarm(
   const workspace: ColumnWorkspace = {
     memory,
     previous: new Float64Array(p * p),
-    supportChanged: false,
   };
   let sweeps = 0;
   let converged = true;
@@ -252,7 +252,7 @@ function fitBlock(
   active: Int32Array,
   workspace: ColumnWorkspace,
 ): number {
-  const { s, w, beta, wb } = workspace.memory;
+  const { w, beta, wb } = workspace.memory;
   const previous = workspace.previous;
   const size = blockMembers.length;
   const pairs = size * (size - 1);
@@ -269,7 +269,7 @@ function fitBlock(
     for (let index = 0; index < size; index++) {
       const j = blockMembers[index];
       const row = j * p;
-      solveColumnLasso(j, p, penalty, threshold, s, w, beta, wb, active, blockMembers, workspace);
+      solveColumnLasso(j, p, penalty, threshold, w, beta, wb, active, blockMembers, workspace);
       for (let t = 0; t < size; t++) {
         const k = blockMembers[t];
         if (k === j) continue;
@@ -364,18 +364,16 @@ interface ColumnWorkspace {
   readonly memory: GlassoSupportMemory;
   /** W before the current sweep (the block's entries), for the extrapolation. */
   readonly previous: Float64Array;
-  /** Set by `lassoPass` when a coordinate entered or left the support. */
-  supportChanged: boolean;
 }
 
 /**
  * Column j's lasso  min_β ½ βᵀW₁₁β − βᵀs₁₂ + ρ‖β‖₁  over the other members of its block, from
  * the β in `beta` (row j), leaving the solution there and wb = W₁₁β in `wb`.
  *
- * Coordinate descent passes (Friedman, Hastie, Höfling & Tibshirani 2007) find the support and
- * signs; once a pass leaves the support unchanged, the optimum on that face is solved exactly:
- * β_A = W_AA⁻¹ (s_A − ρ sign(β_A)) by Cholesky (`solveOnSupportKernel`). It is taken when its signs agree (then it lowers
- * the objective, being the minimum over the face), and it is the lasso's solution when every
+ * Coordinate descent passes (Friedman, Hastie, Höfling & Tibshirani 2007; `lassoPassKernel`)
+ * find the support and signs; once a pass leaves the support unchanged, the optimum on that face is solved exactly:
+ * β_A = W_AA⁻¹ (s_A − ρ sign(β_A)) by Cholesky (`solveOnSupportKernel`). It is taken when its
+ * signs agree (then it lowers the objective, being the minimum over the face), and it is the lasso's solution when every
  * coordinate off the support meets |s_k − (W₁₁β)_k| ≤ ρ, the same test that keeps a coordinate
  * at zero in a pass. Otherwise passes go on, stopping as before when no coordinate moves by more
  * than the threshold (largest |Δβ_k| w_kk).
@@ -385,7 +383,6 @@ function solveColumnLasso(
   p: number,
   penalty: number,
   threshold: number,
-  s: Float64Array,
   w: Float64Array,
   beta: Float64Array,
   wb: Float64Array,
@@ -420,54 +417,10 @@ function solveColumnLasso(
   let passes = 0;
   while (passes < GRAPHICAL_LASSO_MAX_INNER_PASSES) {
     passes++;
-    workspace.supportChanged = false;
-    if (lassoPass(j, p, penalty, s, w, beta, wb, blockMembers, workspace) <= threshold) return;
-    if (!workspace.supportChanged && solveOnSupportKernel(workspace.memory, j, penalty, blockMembers) === FACE_OPTIMAL) return;
+    const largestStep = lassoPassKernel(workspace.memory, j, penalty, blockMembers);
+    if (largestStep <= threshold) return;
+    if (workspace.memory.supportChanged[0] === 0 && solveOnSupportKernel(workspace.memory, j, penalty, blockMembers) === FACE_OPTIMAL) return;
   }
-}
-
-/**
- * One coordinate-descent pass of column j's lasso over the members of its block, updating β and
- * wb = W₁₁β. Returns the largest |Δβ_k| w_kk of the pass.
- */
-function lassoPass(
-  j: number,
-  p: number,
-  penalty: number,
-  s: Float64Array,
-  w: Float64Array,
-  beta: Float64Array,
-  wb: Float64Array,
-  blockMembers: Int32Array,
-  workspace: ColumnWorkspace,
-): number {
-  const row = j * p;
-  const size = blockMembers.length;
-  let largestStep = 0;
-  for (let index = 0; index < size; index++) {
-    const k = blockMembers[index];
-    if (k === j) continue;
-    const wk = k * p;
-    const wkk = w[wk + k];
-    const old = beta[row + k];
-    const partial = s[wk + j] - wb[k] + wkk * old;
-    // Soft threshold, written with the same operations for either sign (bit for bit
-    // (partial ∓ ρ) / w_kk), so that the optimised code meets no branch it has not seen.
-    const excess = Math.abs(partial) - penalty;
-    const updated = excess > 0 ? ((partial > 0 ? 1 : -1) * excess) / wkk : 0;
-    if (updated !== old) {
-      if (updated === 0 || old === 0) workspace.supportChanged = true;
-      const delta = updated - old;
-      beta[row + k] = updated;
-      for (let t = 0; t < size; t++) {
-        const l = blockMembers[t];
-        wb[l] += w[wk + l] * delta;
-      }
-      const step = Math.abs(delta) * wkk;
-      if (step > largestStep) largestStep = step;
-    }
-  }
-  return largestStep;
 }
 
 /**
