@@ -1,10 +1,11 @@
 /**
- * Assembles the WebAssembly kernel of the graphical lasso's active-set solve
- * (src/lib/stats/glasso-support-kernel.ts) from the readable listing below, and prints the bytes
+ * Assembles the WebAssembly kernel of the graphical lasso's active-set solve and coordinate-descent
+ * pass (src/lib/stats/glasso-support-kernel.ts) from the readable listing below, and prints the bytes
  * to paste into that file. A unit test (tests/unit/glasso-support-kernel.test.ts) checks that
  * the bytes in the kernel are the ones this listing gives.
  *
- * The function, in WebAssembly text (WAT) terms:
+ * The pass, `$pass(j, p, penalty: f64, size, members, s, w, beta, wb, flag) → f64`, is described
+ * at `passBody` below. The active-set solve, in WebAssembly text (WAT) terms:
  *   (func $support (param $j i32) (param $p i32) (param $penalty f64) (param $size i32)
  *     (param $members i32) (param $s i32) (param $w i32) (param $beta i32) (param $wb i32)
  *     (param $active i32) (param $factor i32) (param $solution i32) (param $signs i32)

@@ -1,6 +1,7 @@
 /**
- * The numeric core of the graphical lasso's active-set solve (`solveOnSupport` in
- * graphical-lasso.ts) in WebAssembly SIMD, and the memory it works in.
+ * The numeric core of the graphical lasso's column solves in WebAssembly SIMD: the active-set
+ * solve (formerly `solveOnSupport` in graphical-lasso.ts), the coordinate-descent pass (formerly
+ * `lassoPass`), and the memory they work in.
  *
  * For column j with support A (the members k ≠ j of its block with β_jk ≠ 0), the kernel
  * factors W_AA = L Lᵀ (Cholesky), solves W_AA β_A = s_A − ρ sign(β_A) by two triangular solves,
@@ -16,9 +17,12 @@
  * lanes (and two pivots per step, each element subtracting c's product and then c + 1's); the
  * forward solve is column-oriented with the same per-element order; the back solve and every
  * wb_k keep their sums in the same order (wb runs four outputs k at a time, one per lane, never
- * splitting a sum). scripts/make-glasso-support-wasm.mjs assembles the bytes from a
- * readable listing that says this step by step; tests/unit/glasso-support-kernel.test.ts checks
- * the bytes and compares the kernel with the former JavaScript on random problems.
+ * splitting a sum). The pass updates β_jk by the soft threshold one k at a time as before and
+ * wb_l += w_kl Δ for every member l, two l per f64x2 when the block is a run of consecutive items
+ * (each wb_l its own running sum, in the same order). scripts/make-glasso-support-wasm.mjs
+ * assembles the bytes from a readable listing that says this step by step;
+ * tests/unit/glasso-support-kernel.test.ts checks the bytes and compares both functions with the
+ * former JavaScript on random problems.
  *
  * S, W and β live in the kernel's memory for the length of a `graphicalLassoWarm` call
  * (copied in at its start and out at its end), so the kernel reads W in place: no W_AA is
