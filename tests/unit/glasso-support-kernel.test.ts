@@ -183,6 +183,8 @@ describe('solveOnSupportKernel', () => {
     const embedded = (literal?.[1] ?? '').split(',').map((text) => text.trim()).filter((text) => text !== '').map(Number);
     expect(embedded).toEqual(Array.from(glassoSupportWasmBytes()));
     expect(WebAssembly.validate(Uint8Array.from(embedded))).toBe(true);
+    // Small enough for a synchronous compile on a browser page's main thread (4 KB).
+    expect(embedded.length).toBeLessThan(4096);
   });
 
   it('gives bit for bit the outcome, β and wb of the former JavaScript on random problems', () => {

@@ -26,9 +26,10 @@
  *
  * S, W and β live in the kernel's memory for the length of a `graphicalLassoWarm` call
  * (copied in at its start and out at its end), so the kernel reads W in place: no W_AA is
- * gathered by JavaScript. One instance per thread, made on first use; its memory grows to the
- * largest order met and `glassoSupportMemory` hands out fresh views each time (growing detaches
- * the views handed out before).
+ * gathered by JavaScript. One instance per thread, made on first use (compiled synchronously:
+ * the module stays under the 4 KB that browsers compile synchronously on a page's main thread);
+ * its memory grows to the largest order met and `glassoSupportMemory` hands out fresh views each
+ * time (growing detaches the views handed out before).
  * References: Friedman, Hastie & Tibshirani 2008, "Sparse inverse covariance estimation with the
  * graphical lasso" (Biostatistics 9:432-441); Golub & Van Loan 2013, "Matrix Computations", 4th
  * ed., §4.2 (Cholesky orderings); WebAssembly Core Specification 2.0 (2022) (f64x2 arithmetic is
