@@ -9,7 +9,7 @@
  *   (func $support (param $j i32) (param $p i32) (param $penalty f64) (param $size i32)
  *     (param $members i32) (param $s i32) (param $w i32) (param $beta i32) (param $wb i32)
  *     (param $active i32) (param $factor i32) (param $solution i32) (param $signs i32)
- *     (param $others i32) (result i32))
+ *     (param $others i32) (param $symmetric i32) (result i32))
  * Every pointer is a byte offset into the imported memory: `s`, `w` and `beta` are row-major
  * p × p f64 arrays (S, W and the coefficients, row j holding column j's β), `members` the
  * `size` items of j's block (i32, ascending), `wb` a length-p f64 vector, and `active`,
@@ -29,7 +29,8 @@
  *      order, two rows at a time), and the back solve Lᵀ x = y one scalar dot product at a time
  *      (c ascending from a + 1, as in the JavaScript);
  *   4. 0 returned unless every x_a · sign_a > 0; else β written, wb_k = Σ_a w_{k, A_a} x_a for
- *      every member k ≠ j (a sum from 0, a ascending; four outputs k at a time in two f64x2),
+ *      every member k ≠ j (a sum from 0, a ascending; four outputs k at a time in two f64x2, or,
+ *      when `symmetric` is 1 (W exactly symmetric) and the block a run of items, along rows of W),
  *      and 2 returned when |s_kj − wb_k| ≤ ρ for every k off the support, 1 otherwise.
  * Every operation is one IEEE-754 double multiply, add, subtract, divide or square root (no
  * fused multiply-add; f64x2 lanes are IEEE-754 doubles), so every value is bit for bit the
@@ -78,14 +79,14 @@ function section(id, content) {
   return [id, ...unsigned(content.length), ...content];
 }
 
-// Parameters 0-13 (2 is f64, the rest i32), then i32 locals 14-29, f64 30-32, v128 33-36.
-const J = 0, P = 1, PENALTY = 2, SIZE = 3, MEMBERS = 4, S = 5, W = 6, BETA = 7, WB = 8, ACTIVE = 9, FACTOR = 10, SOLUTION = 11, SIGNS = 12, OTHERS = 13;
-const ROW = 14, N = 15, M = 16, T = 17, K = 18, A = 19, B = 20, C = 21, COLC = 22, COLB = 23, ADDR = 24, OPTIMAL = 25;
-const ROWS = [26, 27, 28, 29]; // rows of W of up to four outputs wb_k
-const COLD = 30;
-const X = 31, Y = 32, SUM = 33, SIGN = 34;
-const VX = 35, VY = 36, ACC = [37, 38];
-const I32_LOCALS = 17, F64_LOCALS = 4, V128_LOCALS = 4;
+// Parameters 0-14 (2 is f64, the rest i32), then i32 locals 15-32, f64 33-36, v128 37-40.
+const J = 0, P = 1, PENALTY = 2, SIZE = 3, MEMBERS = 4, S = 5, W = 6, BETA = 7, WB = 8, ACTIVE = 9, FACTOR = 10, SOLUTION = 11, SIGNS = 12, OTHERS = 13, SYMMETRIC = 14;
+const ROW = 15, N = 16, M = 17, T = 18, K = 19, A = 20, B = 21, C = 22, COLC = 23, COLB = 24, ADDR = 25, OPTIMAL = 26;
+const ROWS = [27, 28, 29, 30]; // rows of W of up to four outputs wb_k
+const COLD = 31, FIRST = 32;
+const X = 33, Y = 34, SUM = 35, SIGN = 36;
+const VX = 37, VY = 38, ACC = [39, 40];
+const I32_LOCALS = 18, F64_LOCALS = 4, V128_LOCALS = 4;
 
 const f64Bytes = (value) => [...new Uint8Array(Float64Array.of(value).buffer)];
 
@@ -115,6 +116,7 @@ const op = {
   i32GeS: [0x4e],
   f64Eq: [0x61],
   f64Ne: [0x62],
+  i32And: [0x71],
   i32Or: [0x72],
   f64Gt: [0x64],
   i32Add: [0x6a],
@@ -313,8 +315,35 @@ function supportBody() {
     forLoop(A, op.i32(0), op.get(N), 1, flat(
       address(ROW, flat(address(ACTIVE, op.get(A), 2), op.i32Load)), address(SOLUTION, op.get(A)), op.f64Load, op.f64Store,
     )),
-    // wb_k = Σ_a w[k p + active[a]] x_a for the other members: four at a time (two f64x2
-    // sums, one output per lane), then two, then one.
+    // wb_k = Σ_a w[k p + active[a]] x_a for the other members. When W is symmetric (the caller
+    // says so: then w[k p + l] = w[l p + k] exactly) and the block is a run of items first,
+    // first + 1, …, the same sums are formed along rows of W: every member's sum starts at 0 in
+    // the signs' scratch (free by now) and gains w[active[a] p + k] x_a for a = 0, 1, … in turn,
+    // two members per f64x2; the other members' sums are then copied to wb.
+    op.get(MEMBERS), op.i32Load, op.set(FIRST),
+    op.get(SYMMETRIC),
+    address(MEMBERS, flat(op.get(SIZE), op.i32(1), op.i32Sub), 2), op.i32Load, op.get(FIRST), op.i32Sub,
+    op.get(SIZE), op.i32(1), op.i32Sub, op.i32Eq, op.i32And, op.if,
+    forLoop(T, op.i32(0), op.get(SIZE), 1, flat(address(SIGNS, op.get(T)), op.f64(0), op.f64Store)),
+    forLoop(A, op.i32(0), op.get(N), 1, flat(
+      address(SOLUTION, op.get(A)), op.f64Load, op.tee(X), op.f64x2Splat, op.set(VX),
+      address(W, flat(address(ACTIVE, op.get(A), 2), op.i32Load, op.get(P), op.i32Mul, op.get(FIRST), op.i32Add)), op.set(ROWS[0]),
+      forLoop(T, op.i32(0), flat(op.get(SIZE), op.i32(1), op.i32Sub), 2, flat(
+        address(SIGNS, op.get(T)), op.tee(ADDR), op.get(ADDR), op.v128Load,
+        address(ROWS[0], op.get(T)), op.v128Load, op.get(VX), op.f64x2Mul, op.f64x2Add, op.v128Store,
+      )),
+      op.get(T), op.get(SIZE), op.i32LtS, op.if,
+      address(SIGNS, op.get(T)), op.tee(ADDR), op.get(ADDR), op.f64Load,
+      address(ROWS[0], op.get(T)), op.f64Load, op.get(X), op.f64Mul, op.f64Add, op.f64Store,
+      op.end,
+    )),
+    forLoop(T, op.i32(0), op.get(M), 1, flat(
+      address(OTHERS, op.get(T), 2), op.i32Load, op.set(K),
+      address(WB, op.get(K)), address(SIGNS, flat(op.get(K), op.get(FIRST), op.i32Sub)), op.f64Load, op.f64Store,
+    )),
+    op.else,
+    // Otherwise by gathers: four members at a time (two f64x2 sums, one member per lane), then
+    // two, then one.
     forLoop(T, op.i32(0), flat(op.get(M), op.i32(3), op.i32Sub), 4, outputs(4)),
     op.get(T), flat(op.get(M), op.i32(1), op.i32Sub), op.i32LtS, op.if, outputs(2), op.get(T), op.i32(2), op.i32Add, op.set(T), op.end,
     op.get(T), op.get(M), op.i32LtS, op.if,
@@ -324,6 +353,7 @@ function supportBody() {
       op.get(SUM), address(ROWS[0], flat(address(ACTIVE, op.get(A), 2), op.i32Load)), op.f64Load, address(SOLUTION, op.get(A)), op.f64Load, op.f64Mul, op.f64Add, op.set(SUM),
     )),
     address(WB, flat(address(OTHERS, op.get(T), 2), op.i32Load)), op.get(SUM), op.f64Store,
+    op.end,
     op.end,
     // Optimal unless a coordinate off the support has |s_kj − wb_k| > ρ.
     op.i32(2), op.set(OPTIMAL),
@@ -425,7 +455,7 @@ function passBody() {
 export function glassoSupportWasmBytes() {
   const i32 = 0x7f;
   const f64 = 0x7c;
-  const params = [i32, i32, f64, i32, i32, i32, i32, i32, i32, i32, i32, i32, i32, i32];
+  const params = [i32, i32, f64, i32, i32, i32, i32, i32, i32, i32, i32, i32, i32, i32, i32];
   const passParams = [i32, i32, f64, i32, i32, i32, i32, i32, i32, i32];
   const type = section(1, [2, 0x60, params.length, ...params, 1, i32, 0x60, passParams.length, ...passParams, 1, f64]);
   const imports = section(2, [1, ...name('env'), ...name('memory'), 0x02, 0x00, 1]);

@@ -169,6 +169,17 @@ function makeProblem(random: SeededRandomGenerator, kind: 'face' | 'random' | 'i
   return { p, j, penalty, members: block, s, w, beta, wb };
 }
 
+/** The problem with W's lower triangle set to its upper one, and its block a run of items containing j. */
+function symmetricRun(problem: Problem, random: SeededRandomGenerator): Problem {
+  const { p, j } = problem;
+  const w = Float64Array.from(problem.w);
+  for (let a = 0; a < p; a++) for (let b = 0; b < a; b++) w[a * p + b] = w[b * p + a];
+  const first = random.nextInt(j + 1);
+  const last = j + random.nextInt(p - j);
+  const members = Int32Array.from({ length: last - first + 1 }, (_, index) => first + index);
+  return { ...problem, w, members: members.length >= 2 ? members : Int32Array.of(0, 1) };
+}
+
 function differing(actual: Float64Array, expected: Float64Array): number[] {
   const indices: number[] = [];
   for (let index = 0; index < expected.length; index++) if (!Object.is(actual[index], expected[index])) indices.push(index);
@@ -195,7 +206,11 @@ describe('solveOnSupportKernel', () => {
       const kind = kinds[trial % kinds.length];
       // Orders 2-41 (odd and even active sets, the odd row of each two-row step), a few large.
       const p = trial % 50 === 7 ? 100 + random.nextInt(30) : 2 + random.nextInt(40);
-      const problem = makeProblem(random, kind, p, [0.2, 0.5, 0.9, 1][trial % 4]);
+      const made = makeProblem(random, kind, p, [0.2, 0.5, 0.9, 1][trial % 4]);
+      // Every third trial: W made exactly symmetric and the block a run of items, where the
+      // kernel may sum wb along rows of W.
+      const symmetric = trial % 3 === 1;
+      const problem = symmetric ? symmetricRun(made, random) : made;
       const beta = Float64Array.from(problem.beta);
       const wb = Float64Array.from(problem.wb);
       const expected = referenceSolveOnSupport(problem.j, p, problem.penalty, problem.s, problem.w, beta, wb, problem.members);
@@ -206,7 +221,7 @@ describe('solveOnSupportKernel', () => {
       memory.beta.set(problem.beta);
       memory.wb.set(problem.wb);
       memory.members.fill(-1).set(problem.members);
-      const outcome = solveOnSupportKernel(memory, problem.j, problem.penalty, memory.members.subarray(0, problem.members.length));
+      const outcome = solveOnSupportKernel(memory, problem.j, problem.penalty, memory.members.subarray(0, problem.members.length), symmetric);
       expect(outcome, `trial ${trial}`).toBe(expected);
       expect(differing(memory.beta, beta), `trial ${trial}`).toEqual([]);
       expect(differing(memory.wb, wb), `trial ${trial}`).toEqual([]);
@@ -233,7 +248,7 @@ describe('solveOnSupportKernel', () => {
     memory.wb.set(problem.wb);
     const first = p - problem.members.length;
     memory.members.fill(-1).set(problem.members, first);
-    expect(solveOnSupportKernel(memory, problem.j, problem.penalty, memory.members.subarray(first))).toBe(expected);
+    expect(solveOnSupportKernel(memory, problem.j, problem.penalty, memory.members.subarray(first), false)).toBe(expected);
     expect(differing(memory.beta, beta)).toEqual([]);
     expect(differing(memory.wb, wb)).toEqual([]);
   });
@@ -272,5 +287,26 @@ describe('solveOnSupportKernel', () => {
       }
     }
     expect(Math.min(changedPasses, quietPasses)).toBeGreaterThan(100);
+  });
+
+  it('takes the row-wise sums only when told that W is symmetric (on a W that is not, they differ)', () => {
+    const random = createSeededRandom(99);
+    let differ = 0;
+    for (let trial = 0; trial < 40; trial++) {
+      const problem = makeProblem(random, 'face', 10 + random.nextInt(20), 0.5);
+      const run = Int32Array.from({ length: problem.p }, (_, index) => index);
+      const memory = glassoSupportMemory(problem.p);
+      const results = [false, true].map((symmetric) => {
+        memory.s.set(problem.s);
+        memory.w.set(problem.w);
+        memory.beta.set(problem.beta);
+        memory.wb.set(problem.wb);
+        memory.members.set(run);
+        const outcome = solveOnSupportKernel(memory, problem.j, problem.penalty, memory.members.subarray(0, problem.p), symmetric);
+        return { outcome, wb: Float64Array.from(memory.wb) };
+      });
+      if (results[0].outcome > 0 && differing(results[1].wb, results[0].wb).length > 0) differ++;
+    }
+    expect(differ).toBeGreaterThan(10);
   });
 });

@@ -202,6 +202,9 @@ export function graphicalLassoWarm(
   const workspace: ColumnWorkspace = {
     memory,
     previous: new Float64Array(p * p),
+    // W starts as S (or a state fitted to S) and every update writes w_kj and w_jk alike, so W stays
+    // exactly symmetric when both are; the kernel then reads wb's sums along rows (same bits).
+    symmetric: isExactlySymmetric(covariance.data, p) && isExactlySymmetric(state.covariance, p),
   };
   let sweeps = 0;
   let converged = true;
@@ -364,6 +367,14 @@ interface ColumnWorkspace {
   readonly memory: GlassoSupportMemory;
   /** W before the current sweep (the block's entries), for the extrapolation. */
   readonly previous: Float64Array;
+  /** W is exactly symmetric (S and the starting state are). */
+  readonly symmetric: boolean;
+}
+
+/** Whether a row-major p × p array equals its transpose bit for bit. */
+function isExactlySymmetric(a: Float64Array, p: number): boolean {
+  for (let i = 0; i < p; i++) for (let k = i + 1; k < p; k++) if (!Object.is(a[i * p + k], a[k * p + i])) return false;
+  return true;
 }
 
 /**
@@ -393,7 +404,7 @@ function solveColumnLasso(
   const row = j * p;
   const size = blockMembers.length;
   // Along a penalty path and late in the sweeps the support rarely changes: try its face first.
-  const first = solveOnSupportKernel(workspace.memory, j, penalty, blockMembers);
+  const first = solveOnSupportKernel(workspace.memory, j, penalty, blockMembers, workspace.symmetric);
   if (first === FACE_OPTIMAL) return;
   if (first === FACE_NOT_TAKEN) {
     // wb = W₁₁β for the current β, summed over the non-zero β only.
@@ -419,7 +430,7 @@ function solveColumnLasso(
     passes++;
     const largestStep = lassoPassKernel(workspace.memory, j, penalty, blockMembers);
     if (largestStep <= threshold) return;
-    if (workspace.memory.supportChanged[0] === 0 && solveOnSupportKernel(workspace.memory, j, penalty, blockMembers) === FACE_OPTIMAL) return;
+    if (workspace.memory.supportChanged[0] === 0 && solveOnSupportKernel(workspace.memory, j, penalty, blockMembers, workspace.symmetric) === FACE_OPTIMAL) return;
   }
 }
 
