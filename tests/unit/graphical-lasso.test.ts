@@ -139,6 +139,30 @@ describe('graphicalLasso screening and warm starts', () => {
   });
 });
 
+describe('graphicalLasso state and the kernel memory', () => {
+  it('continues a warm state bit for bit when a larger fit grows the kernel memory in between', () => {
+    const input = squareMatrixFromRows(networkFixture.glasso.find((c) => c.name === 'bfi-correlation-rho-0.1')!.input);
+    const p = 150;
+    const random = createSeededRandom(11);
+    const loadings = Array.from({ length: p }, () => random.next());
+    const large = new Float64Array(p * p);
+    for (let a = 0; a < p; a++) for (let b = 0; b < p; b++) large[a * p + b] = a === b ? 1 : 0.5 * loadings[a] * loadings[b];
+    const fits = [false, true].map((interleave) => {
+      const state = createGraphicalLassoState(input, 0.3, false);
+      graphicalLassoWarm(input, 0.3, state);
+      if (interleave) expect(graphicalLasso({ order: p, data: large }, 0.05).converged).toBe(true);
+      const fit = graphicalLassoWarm(input, 0.1, state);
+      // The state holds the fit's W (copied back from the kernel's memory).
+      expect(Array.from(state.covariance)).toEqual(Array.from(fit.covariance.data));
+      return fit;
+    });
+    for (const key of ['precision', 'covariance'] as const) {
+      const [plain, interleaved] = fits.map((fit) => fit[key].data);
+      for (let index = 0; index < plain.length; index++) expect(Object.is(plain[index], interleaved[index])).toBe(true);
+    }
+  });
+});
+
 describe('graphicalLasso on seeded random covariance matrices', () => {
   it('meets the optimality conditions from cold and warm starts, with and without a penalised diagonal', () => {
     // Identities (Friedman, Hastie & Tibshirani 2008, eq. 2): W Θ = I; w_ii = s_ii (+ ρ); w_ij − s_ij = ρ sign(θ_ij)

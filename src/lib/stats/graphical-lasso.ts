@@ -31,7 +31,11 @@
  * sweeps; `graphicalLassoWarm` continues from a previous solution, which is how a penalty path
  * is walked cheaply (qgraph's EBICglasso walks the path through glasso::glassopath, which does
  * the same). Along a path the support of most columns is already right, so most column solves
- * are one Cholesky of the active set, with no coordinate-descent pass.
+ * are one Cholesky of the active set, with no coordinate-descent pass. That active-set solve
+ * (Cholesky of W_AA, the two triangular solves, wb = W₁₁β and the optimality test) runs in a
+ * WebAssembly SIMD kernel (glasso-support-kernel.ts), and so do the coordinate-descent passes,
+ * bit for bit the JavaScript they replaced; S, W and β are kept in the kernel's memory during a
+ * call and W and β copied back to the state.
  *
  * References: Friedman, Hastie & Tibshirani 2008, "Sparse inverse covariance estimation with the
  * graphical lasso" (Biostatistics 9:432-441); Friedman, Hastie, Höfling & Tibshirani 2007,
@@ -43,6 +47,7 @@
  * for the screening. Checked against R glasso::glasso (glasso 1.11).
  */
 import { checkCovarianceMatrix } from './covariance-input';
+import { glassoSupportMemory, lassoPassKernel, solveOnSupportKernel, type GlassoSupportMemory } from './glasso-support-kernel';
 import {
   GRAPHICAL_LASSO_EXTRAPOLATION_RATIOS,
   GRAPHICAL_LASSO_MAX_INNER_PASSES,
@@ -92,13 +97,10 @@ export interface GraphicalLassoState {
   readonly order: number;
   readonly covariance: Float64Array;
   readonly coefficients: Float64Array;
-  /** Scratch vector W₁₁β of one column. */
-  readonly product: Float64Array;
   /** Scratch list of the active (non-zero) coordinates of one column. */
   readonly active: Int32Array;
-  /** Scratch of the screening: each item's block, the items block by block, and where each block starts. */
+  /** Scratch of the screening: each item's block and where each block starts (the items block by block are in the kernel's memory). */
   readonly blockOf: Int32Array;
-  readonly members: Int32Array;
   readonly blockStart: Int32Array;
 }
 
@@ -142,10 +144,8 @@ export function createGraphicalLassoState(covariance: SquareMatrix, penalty: num
     order: p,
     covariance: w,
     coefficients: new Float64Array(p * p),
-    product: new Float64Array(p),
     active: new Int32Array(p),
     blockOf: new Int32Array(p),
-    members: new Int32Array(p),
     blockStart: new Int32Array(p + 1),
   };
 }
@@ -175,9 +175,13 @@ export function graphicalLassoWarm(
   const penalizeDiagonal = options.penalizeDiagonal ?? false;
   const tolerance = options.tolerance ?? GRAPHICAL_LASSO_TOLERANCE;
   const maxSweeps = options.maxSweeps ?? GRAPHICAL_LASSO_MAX_SWEEPS;
-  const s = covariance.data;
-  const w = state.covariance;
-  const beta = state.coefficients;
+  // S, W and β are worked on in the WebAssembly kernel's memory (glasso-support-kernel.ts) and W
+  // and β copied back to the state at the end.
+  const memory = glassoSupportMemory(p);
+  memory.s.set(covariance.data);
+  memory.w.set(state.covariance);
+  memory.beta.set(state.coefficients);
+  const { s, w, beta } = memory;
 
   let meanAbsoluteOffDiagonal = 0;
   for (let i = 0; i < p; i++) {
@@ -192,15 +196,15 @@ export function graphicalLassoWarm(
   // connected components of the graph {|s_ij| > ρ} are exactly the blocks of the solution, so
   // each block is fitted on its own and every pair across blocks is zero in Θ and in W. A warm
   // state from another penalty may hold values across the new blocks: they are cleared.
-  const blocks = screeningBlocks(s, p, penalty, state.blockOf, state.members, state.blockStart);
+  const blocks = screeningBlocks(s, p, penalty, state.blockOf, memory.members, state.blockStart);
   clearAcrossBlocks(state.blockOf, w, beta, p);
 
   const workspace: ColumnWorkspace = {
-    factor: new Float64Array(p * p),
-    solution: new Float64Array(p),
-    activeSigns: new Float64Array(p),
+    memory,
     previous: new Float64Array(p * p),
-    supportChanged: false,
+    // W starts as S (or a state fitted to S) and every update writes w_kj and w_jk alike, so W stays
+    // exactly symmetric when both are; the kernel then reads wb's sums along rows (same bits).
+    symmetric: isExactlySymmetric(covariance.data, p) && isExactlySymmetric(state.covariance, p),
   };
   let sweeps = 0;
   let converged = true;
@@ -208,11 +212,13 @@ export function graphicalLassoWarm(
     const first = state.blockStart[block];
     const size = state.blockStart[block + 1] - first;
     if (size < 2) continue; // a lone item: θ_ii = 1 / w_ii, nothing to fit
-    const blockSweeps = fitBlock(state.members.subarray(first, first + size), p, penalty, threshold, maxSweeps, s, state, workspace);
+    const blockSweeps = fitBlock(memory.members.subarray(first, first + size), p, penalty, threshold, maxSweeps, state.active, workspace);
     if (Math.abs(blockSweeps) > sweeps) sweeps = Math.abs(blockSweeps);
     if (blockSweeps < 0) converged = false;
   }
 
+  state.covariance.set(w);
+  state.coefficients.set(beta);
   const precision = precisionFromState(w, beta, p);
   const edges = symmetrizeAndCountEdges(precision, p);
   const notices: NumericalNotice[] = [];
@@ -246,12 +252,10 @@ function fitBlock(
   penalty: number,
   threshold: number,
   maxSweeps: number,
-  s: Float64Array,
-  state: GraphicalLassoState,
+  active: Int32Array,
   workspace: ColumnWorkspace,
 ): number {
-  const w = state.covariance;
-  const wb = state.product;
+  const { w, beta, wb } = workspace.memory;
   const previous = workspace.previous;
   const size = blockMembers.length;
   const pairs = size * (size - 1);
@@ -268,7 +272,7 @@ function fitBlock(
     for (let index = 0; index < size; index++) {
       const j = blockMembers[index];
       const row = j * p;
-      solveColumnLasso(j, p, penalty, threshold, s, w, state.coefficients, wb, state.active, blockMembers, workspace);
+      solveColumnLasso(j, p, penalty, threshold, w, beta, wb, active, blockMembers, workspace);
       for (let t = 0; t < size; t++) {
         const k = blockMembers[t];
         if (k === j) continue;
@@ -348,31 +352,39 @@ function precisionFromState(w: Float64Array, beta: Float64Array, p: number): Flo
   return precision;
 }
 
+/**
+ * What the active-set solve (`solveOnSupportKernel`) returns: FACE_NOT_TAKEN (β and wb
+ * unchanged: an empty support, a sign that flips, or W_AA not numerically positive definite),
+ * 1 when the face's minimum was taken but a coordinate off the support wants to enter, or
+ * FACE_OPTIMAL when it is the lasso's solution (|s_k − (W₁₁β)_k| ≤ ρ off the support).
+ */
 const FACE_NOT_TAKEN = 0;
-const FACE_TAKEN = 1;
 const FACE_OPTIMAL = 2;
-/** What `solveOnSupport` did: FACE_NOT_TAKEN, FACE_TAKEN or FACE_OPTIMAL. */
-type FaceOutcome = typeof FACE_NOT_TAKEN | typeof FACE_TAKEN | typeof FACE_OPTIMAL;
 
-/** Scratch of one column's lasso: the Cholesky factor and solution of the active-set system. */
+/** Scratch of the columns' lassos. */
 interface ColumnWorkspace {
-  readonly factor: Float64Array;
-  readonly solution: Float64Array;
-  readonly activeSigns: Float64Array;
+  /** S, W, β, wb and the active-set solve's scratch, in the WebAssembly kernel's memory. */
+  readonly memory: GlassoSupportMemory;
   /** W before the current sweep (the block's entries), for the extrapolation. */
   readonly previous: Float64Array;
-  /** Set by `lassoPass` when a coordinate entered or left the support. */
-  supportChanged: boolean;
+  /** W is exactly symmetric (S and the starting state are). */
+  readonly symmetric: boolean;
+}
+
+/** Whether a row-major p × p array equals its transpose bit for bit. */
+function isExactlySymmetric(a: Float64Array, p: number): boolean {
+  for (let i = 0; i < p; i++) for (let k = i + 1; k < p; k++) if (!Object.is(a[i * p + k], a[k * p + i])) return false;
+  return true;
 }
 
 /**
  * Column j's lasso  min_β ½ βᵀW₁₁β − βᵀs₁₂ + ρ‖β‖₁  over the other members of its block, from
  * the β in `beta` (row j), leaving the solution there and wb = W₁₁β in `wb`.
  *
- * Coordinate descent passes (Friedman, Hastie, Höfling & Tibshirani 2007) find the support and
- * signs; once a pass leaves the support unchanged, the optimum on that face is solved exactly:
- * β_A = W_AA⁻¹ (s_A − ρ sign(β_A)) by Cholesky. It is taken when its signs agree (then it lowers
- * the objective, being the minimum over the face), and it is the lasso's solution when every
+ * Coordinate descent passes (Friedman, Hastie, Höfling & Tibshirani 2007; `lassoPassKernel`)
+ * find the support and signs; once a pass leaves the support unchanged, the optimum on that face is solved exactly:
+ * β_A = W_AA⁻¹ (s_A − ρ sign(β_A)) by Cholesky (`solveOnSupportKernel`). It is taken when its
+ * signs agree (then it lowers the objective, being the minimum over the face), and it is the lasso's solution when every
  * coordinate off the support meets |s_k − (W₁₁β)_k| ≤ ρ, the same test that keeps a coordinate
  * at zero in a pass. Otherwise passes go on, stopping as before when no coordinate moves by more
  * than the threshold (largest |Δβ_k| w_kk).
@@ -382,7 +394,6 @@ function solveColumnLasso(
   p: number,
   penalty: number,
   threshold: number,
-  s: Float64Array,
   w: Float64Array,
   beta: Float64Array,
   wb: Float64Array,
@@ -393,7 +404,7 @@ function solveColumnLasso(
   const row = j * p;
   const size = blockMembers.length;
   // Along a penalty path and late in the sweeps the support rarely changes: try its face first.
-  const first = solveOnSupport(j, p, penalty, s, w, beta, wb, active, blockMembers, workspace);
+  const first = solveOnSupportKernel(workspace.memory, j, penalty, blockMembers, workspace.symmetric);
   if (first === FACE_OPTIMAL) return;
   if (first === FACE_NOT_TAKEN) {
     // wb = W₁₁β for the current β, summed over the non-zero β only.
@@ -417,128 +428,10 @@ function solveColumnLasso(
   let passes = 0;
   while (passes < GRAPHICAL_LASSO_MAX_INNER_PASSES) {
     passes++;
-    workspace.supportChanged = false;
-    if (lassoPass(j, p, penalty, s, w, beta, wb, blockMembers, workspace) <= threshold) return;
-    if (!workspace.supportChanged && solveOnSupport(j, p, penalty, s, w, beta, wb, active, blockMembers, workspace) === FACE_OPTIMAL) return;
+    const largestStep = lassoPassKernel(workspace.memory, j, penalty, blockMembers);
+    if (largestStep <= threshold) return;
+    if (workspace.memory.supportChanged[0] === 0 && solveOnSupportKernel(workspace.memory, j, penalty, blockMembers, workspace.symmetric) === FACE_OPTIMAL) return;
   }
-}
-
-/**
- * One coordinate-descent pass of column j's lasso over the members of its block, updating β and
- * wb = W₁₁β. Returns the largest |Δβ_k| w_kk of the pass.
- */
-function lassoPass(
-  j: number,
-  p: number,
-  penalty: number,
-  s: Float64Array,
-  w: Float64Array,
-  beta: Float64Array,
-  wb: Float64Array,
-  blockMembers: Int32Array,
-  workspace: ColumnWorkspace,
-): number {
-  const row = j * p;
-  const size = blockMembers.length;
-  let largestStep = 0;
-  for (let index = 0; index < size; index++) {
-    const k = blockMembers[index];
-    if (k === j) continue;
-    const wk = k * p;
-    const wkk = w[wk + k];
-    const old = beta[row + k];
-    const partial = s[wk + j] - wb[k] + wkk * old;
-    // Soft threshold, written with the same operations for either sign (bit for bit
-    // (partial ∓ ρ) / w_kk), so that the optimised code meets no branch it has not seen.
-    const excess = Math.abs(partial) - penalty;
-    const updated = excess > 0 ? ((partial > 0 ? 1 : -1) * excess) / wkk : 0;
-    if (updated !== old) {
-      if (updated === 0 || old === 0) workspace.supportChanged = true;
-      const delta = updated - old;
-      beta[row + k] = updated;
-      for (let t = 0; t < size; t++) {
-        const l = blockMembers[t];
-        wb[l] += w[wk + l] * delta;
-      }
-      const step = Math.abs(delta) * wkk;
-      if (step > largestStep) largestStep = step;
-    }
-  }
-  return largestStep;
-}
-
-/**
- * The exact minimum of column j's lasso on the face of its current support and signs:
- * W_AA β_A = s_A − ρ sign(β_A), by Cholesky. Taken (β and wb updated) only when every sign
- * agrees, and then wb = W₁₁β is updated too. Returns FACE_OPTIMAL when the result is the lasso's
- * solution (every coordinate off the support satisfies |s_k − (W₁₁β)_k| ≤ ρ), FACE_TAKEN when
- * it was taken but a coordinate off the support wants to enter, FACE_NOT_TAKEN when β and wb are
- * unchanged (an empty support, a sign that flips, or W_AA not numerically positive definite).
- */
-function solveOnSupport(
-  j: number,
-  p: number,
-  penalty: number,
-  s: Float64Array,
-  w: Float64Array,
-  beta: Float64Array,
-  wb: Float64Array,
-  active: Int32Array,
-  blockMembers: Int32Array,
-  workspace: ColumnWorkspace,
-): FaceOutcome {
-  const row = j * p;
-  const size = blockMembers.length;
-  const { factor, solution, activeSigns } = workspace;
-  let count = 0;
-  for (let t = 0; t < size; t++) {
-    const k = blockMembers[t];
-    if (k !== j && beta[row + k] !== 0) active[count++] = k;
-  }
-  if (count === 0) return FACE_NOT_TAKEN;
-  // Cholesky of W_AA (lower triangle, row-major with stride count) and the right-hand side.
-  for (let a = 0; a < count; a++) {
-    const ka = active[a] * p;
-    for (let b = 0; b <= a; b++) {
-      let sum = w[ka + active[b]];
-      for (let c = 0; c < b; c++) sum -= factor[a * count + c] * factor[b * count + c];
-      if (a === b) {
-        if (!(sum > 0)) return FACE_NOT_TAKEN;
-        factor[a * count + a] = Math.sqrt(sum);
-      } else {
-        factor[a * count + b] = sum / factor[b * count + b];
-      }
-    }
-    const sign = beta[row + active[a]] > 0 ? 1 : -1;
-    activeSigns[a] = sign;
-    solution[a] = s[ka + j] - penalty * sign;
-  }
-  for (let a = 0; a < count; a++) {
-    let sum = solution[a];
-    for (let c = 0; c < a; c++) sum -= factor[a * count + c] * solution[c];
-    solution[a] = sum / factor[a * count + a];
-  }
-  for (let a = count - 1; a >= 0; a--) {
-    let sum = solution[a];
-    for (let c = a + 1; c < count; c++) sum -= factor[c * count + a] * solution[c];
-    solution[a] = sum / factor[a * count + a];
-  }
-  for (let a = 0; a < count; a++) if (!(solution[a] * activeSigns[a] > 0)) return FACE_NOT_TAKEN;
-  for (let a = 0; a < count; a++) beta[row + active[a]] = solution[a];
-  let optimal = true;
-  for (let t = 0; t < size; t++) {
-    const k = blockMembers[t];
-    if (k === j) continue;
-    const wk = k * p;
-    let sum = 0;
-    for (let a = 0; a < count; a++) sum += w[wk + active[a]] * solution[a];
-    wb[k] = sum;
-    if (beta[row + k] === 0) {
-      const partial = s[wk + j] - sum;
-      if (Math.abs(partial) > penalty) optimal = false;
-    }
-  }
-  return optimal ? FACE_OPTIMAL : FACE_TAKEN;
 }
 
 /**
