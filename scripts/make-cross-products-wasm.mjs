@@ -19,40 +19,7 @@
  * and the fixed-width SIMD proposal's opcode table (v128 loads, f64x2.add 0xF0, f64x2.mul 0xF2).
  */
 
-/** Unsigned LEB128. */
-function unsigned(value) {
-  const bytes = [];
-  do {
-    let byte = value & 0x7f;
-    value >>>= 7;
-    if (value !== 0) byte |= 0x80;
-    bytes.push(byte);
-  } while (value !== 0);
-  return bytes;
-}
-
-/** Signed LEB128 (small constants only). */
-function signed(value) {
-  const bytes = [];
-  for (;;) {
-    const byte = value & 0x7f;
-    value >>= 7;
-    if ((value === 0 && (byte & 0x40) === 0) || (value === -1 && (byte & 0x40) !== 0)) {
-      bytes.push(byte);
-      return bytes;
-    }
-    bytes.push(byte | 0x80);
-  }
-}
-
-function name(text) {
-  const bytes = [...Buffer.from(text, 'utf8')];
-  return [...unsigned(bytes.length), ...bytes];
-}
-
-function section(id, content) {
-  return [id, ...unsigned(content.length), ...content];
-}
+import { unsigned, signed, name, section, WASM_PREAMBLE, printWasmBytes } from './wasm-binary.mjs';
 
 // Locals: parameters 0-3, then i32 4-10, then v128 11-21.
 const BLOCK = 0, LENGTH = 1, PADDED = 2, TILES = 3;
@@ -138,12 +105,7 @@ export function crossProductsWasmBytes() {
   const functions = section(3, [1, 0]);
   const exports = section(7, [1, ...name('tile'), 0x00, 0]);
   const code = section(10, [1, ...tileBody()]);
-  return Uint8Array.from([0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00, ...type, ...imports, ...functions, ...exports, ...code]);
+  return Uint8Array.from([...WASM_PREAMBLE, ...type, ...imports, ...functions, ...exports, ...code]);
 }
 
-if (import.meta.url === `file://${process.argv[1]}`) {
-  const bytes = crossProductsWasmBytes();
-  const lines = [];
-  for (let start = 0; start < bytes.length; start += 32) lines.push(`      ${Array.from(bytes.subarray(start, start + 32)).join(', ')},`);
-  console.log(`// ${bytes.length} bytes from scripts/make-cross-products-wasm.mjs\n${lines.join('\n')}`);
-}
+if (import.meta.url === `file://${process.argv[1]}`) printWasmBytes(crossProductsWasmBytes(), 'scripts/make-cross-products-wasm.mjs', '      ');

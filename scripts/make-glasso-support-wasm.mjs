@@ -44,40 +44,7 @@
  * Cholesky and its equivalence to the other orderings).
  */
 
-/** Unsigned LEB128. */
-function unsigned(value) {
-  const bytes = [];
-  do {
-    let byte = value & 0x7f;
-    value >>>= 7;
-    if (value !== 0) byte |= 0x80;
-    bytes.push(byte);
-  } while (value !== 0);
-  return bytes;
-}
-
-/** Signed LEB128 (small constants only). */
-function signed(value) {
-  const bytes = [];
-  for (;;) {
-    const byte = value & 0x7f;
-    value >>= 7;
-    if ((value === 0 && (byte & 0x40) === 0) || (value === -1 && (byte & 0x40) !== 0)) {
-      bytes.push(byte);
-      return bytes;
-    }
-    bytes.push(byte | 0x80);
-  }
-}
-
-function name(text) {
-  const bytes = [...Buffer.from(text, 'utf8')];
-  return [...unsigned(bytes.length), ...bytes];
-}
-
-function section(id, content) {
-  return [id, ...unsigned(content.length), ...content];
-}
+import { unsigned, signed, name, section, WASM_PREAMBLE, printWasmBytes } from './wasm-binary.mjs';
 
 // Parameters 0-14 (2 is f64, the rest i32), then i32 locals 15-32, f64 33-36, v128 37-40.
 const J = 0, P = 1, PENALTY = 2, SIZE = 3, MEMBERS = 4, S = 5, W = 6, BETA = 7, WB = 8, ACTIVE = 9, FACTOR = 10, SOLUTION = 11, SIGNS = 12, OTHERS = 13, SYMMETRIC = 14;
@@ -462,12 +429,7 @@ export function glassoSupportWasmBytes() {
   const functions = section(3, [2, 0, 1]);
   const exports = section(7, [2, ...name('support'), 0x00, 0, ...name('pass'), 0x00, 1]);
   const code = section(10, [2, ...supportBody(), ...passBody()]);
-  return Uint8Array.from([0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00, ...type, ...imports, ...functions, ...exports, ...code]);
+  return Uint8Array.from([...WASM_PREAMBLE, ...type, ...imports, ...functions, ...exports, ...code]);
 }
 
-if (import.meta.url === `file://${process.argv[1]}`) {
-  const bytes = glassoSupportWasmBytes();
-  const lines = [];
-  for (let start = 0; start < bytes.length; start += 32) lines.push(`    ${Array.from(bytes.subarray(start, start + 32)).join(', ')},`);
-  console.log(`// ${bytes.length} bytes from scripts/make-glasso-support-wasm.mjs\n${lines.join('\n')}`);
-}
+if (import.meta.url === `file://${process.argv[1]}`) printWasmBytes(glassoSupportWasmBytes(), 'scripts/make-glasso-support-wasm.mjs', '    ');

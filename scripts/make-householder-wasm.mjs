@@ -38,40 +38,7 @@
  * f64x2.sub 0xf1, f64x2.mul 0xf2).
  */
 
-/** Unsigned LEB128. */
-function unsigned(value) {
-  const bytes = [];
-  do {
-    let byte = value & 0x7f;
-    value >>>= 7;
-    if (value !== 0) byte |= 0x80;
-    bytes.push(byte);
-  } while (value !== 0);
-  return bytes;
-}
-
-/** Signed LEB128 (small constants only). */
-function signed(value) {
-  const bytes = [];
-  for (;;) {
-    const byte = value & 0x7f;
-    value >>= 7;
-    if ((value === 0 && (byte & 0x40) === 0) || (value === -1 && (byte & 0x40) !== 0)) {
-      bytes.push(byte);
-      return bytes;
-    }
-    bytes.push(byte | 0x80);
-  }
-}
-
-function name(text) {
-  const bytes = [...Buffer.from(text, 'utf8')];
-  return [...unsigned(bytes.length), ...bytes];
-}
-
-function section(id, content) {
-  return [id, ...unsigned(content.length), ...content];
-}
+import { unsigned, signed, name, section, WASM_PREAMBLE, printWasmBytes } from './wasm-binary.mjs';
 
 /** Byte indices of i8x16.shuffle: lane 0 of both operands, or lane 1 of both. */
 const LOW_LANES = [0, 1, 2, 3, 4, 5, 6, 7, 16, 17, 18, 19, 20, 21, 22, 23];
@@ -300,12 +267,7 @@ export function householderWasmBytes() {
   const functions = section(3, [2, 0, 0]);
   const exports = section(7, [2, ...name('multiply'), 0x00, 0, ...name('update'), 0x00, 1]);
   const code = section(10, [2, ...multiplyBody(), ...updateBody()]);
-  return Uint8Array.from([0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00, ...type, ...imports, ...functions, ...exports, ...code]);
+  return Uint8Array.from([...WASM_PREAMBLE, ...type, ...imports, ...functions, ...exports, ...code]);
 }
 
-if (import.meta.url === `file://${process.argv[1]}`) {
-  const bytes = householderWasmBytes();
-  const lines = [];
-  for (let start = 0; start < bytes.length; start += 32) lines.push(`  ${Array.from(bytes.subarray(start, start + 32)).join(', ')},`);
-  console.log(`// ${bytes.length} bytes from scripts/make-householder-wasm.mjs\n${lines.join('\n')}`);
-}
+if (import.meta.url === `file://${process.argv[1]}`) printWasmBytes(householderWasmBytes(), 'scripts/make-householder-wasm.mjs', '  ');

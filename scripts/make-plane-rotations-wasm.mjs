@@ -30,40 +30,7 @@
  * Wilkinson 1968, "The QR and QL algorithms for symmetric matrices" (tql2).
  */
 
-/** Unsigned LEB128. */
-function unsigned(value) {
-  const bytes = [];
-  do {
-    let byte = value & 0x7f;
-    value >>>= 7;
-    if (value !== 0) byte |= 0x80;
-    bytes.push(byte);
-  } while (value !== 0);
-  return bytes;
-}
-
-/** Signed LEB128 (small constants only). */
-function signed(value) {
-  const bytes = [];
-  for (;;) {
-    const byte = value & 0x7f;
-    value >>= 7;
-    if ((value === 0 && (byte & 0x40) === 0) || (value === -1 && (byte & 0x40) !== 0)) {
-      bytes.push(byte);
-      return bytes;
-    }
-    bytes.push(byte | 0x80);
-  }
-}
-
-function name(text) {
-  const bytes = [...Buffer.from(text, 'utf8')];
-  return [...unsigned(bytes.length), ...bytes];
-}
-
-function section(id, content) {
-  return [id, ...unsigned(content.length), ...content];
-}
+import { unsigned, signed, name, section, WASM_PREAMBLE, printWasmBytes } from './wasm-binary.mjs';
 
 /** Columns (doubles) taken at a time: the row stride must be a multiple of this. */
 export const PLANE_ROTATION_COLUMNS = 8;
@@ -156,12 +123,7 @@ export function planeRotationsWasmBytes() {
   const functions = section(3, [1, 0]);
   const exports = section(7, [1, ...name('rotate'), 0x00, 0]);
   const code = section(10, [1, ...rotateBody()]);
-  return Uint8Array.from([0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00, ...type, ...imports, ...functions, ...exports, ...code]);
+  return Uint8Array.from([...WASM_PREAMBLE, ...type, ...imports, ...functions, ...exports, ...code]);
 }
 
-if (import.meta.url === `file://${process.argv[1]}`) {
-  const bytes = planeRotationsWasmBytes();
-  const lines = [];
-  for (let start = 0; start < bytes.length; start += 32) lines.push(`  ${Array.from(bytes.subarray(start, start + 32)).join(', ')},`);
-  console.log(`// ${bytes.length} bytes from scripts/make-plane-rotations-wasm.mjs\n${lines.join('\n')}`);
-}
+if (import.meta.url === `file://${process.argv[1]}`) printWasmBytes(planeRotationsWasmBytes(), 'scripts/make-plane-rotations-wasm.mjs', '  ');

@@ -54,44 +54,7 @@
  * 4th ed., §4.2 (Cholesky) and §3.1 (triangular systems).
  */
 
-/** Unsigned LEB128. */
-function unsigned(value) {
-  const bytes = [];
-  do {
-    let byte = value & 0x7f;
-    value >>>= 7;
-    if (value !== 0) byte |= 0x80;
-    bytes.push(byte);
-  } while (value !== 0);
-  return bytes;
-}
-
-/** Signed LEB128 (small constants only). */
-function signed(value) {
-  const bytes = [];
-  for (;;) {
-    const byte = value & 0x7f;
-    value >>= 7;
-    if ((value === 0 && (byte & 0x40) === 0) || (value === -1 && (byte & 0x40) !== 0)) {
-      bytes.push(byte);
-      return bytes;
-    }
-    bytes.push(byte | 0x80);
-  }
-}
-
-function name(text) {
-  const bytes = [...Buffer.from(text, 'utf8')];
-  return [...unsigned(bytes.length), ...bytes];
-}
-
-function section(id, content) {
-  return [id, ...unsigned(content.length), ...content];
-}
-
-function vector(items) {
-  return [...unsigned(items.length), ...items.flat()];
-}
+import { unsigned, signed, name, section, vector, WASM_PREAMBLE, printWasmBytes } from './wasm-binary.mjs';
 
 const I32 = 0x7f;
 const F64 = 0x7c;
@@ -402,12 +365,7 @@ export function positiveDefiniteWasmBytes() {
   ];
   const exports = section(7, vector(exported.map(([exportName, position]) => [...name(exportName), 0x00, ...unsigned(position)])));
   const code = section(10, vector(functions.map(([f]) => f.body())));
-  return Uint8Array.from([0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00, ...type, ...imports, ...declared, ...exports, ...code]);
+  return Uint8Array.from([...WASM_PREAMBLE, ...type, ...imports, ...declared, ...exports, ...code]);
 }
 
-if (import.meta.url === `file://${process.argv[1]}`) {
-  const bytes = positiveDefiniteWasmBytes();
-  const lines = [];
-  for (let start = 0; start < bytes.length; start += 32) lines.push(`  ${Array.from(bytes.subarray(start, start + 32)).join(', ')},`);
-  console.log(`// ${bytes.length} bytes from scripts/make-positive-definite-wasm.mjs\n${lines.join('\n')}`);
-}
+if (import.meta.url === `file://${process.argv[1]}`) printWasmBytes(positiveDefiniteWasmBytes(), 'scripts/make-positive-definite-wasm.mjs', '  ');

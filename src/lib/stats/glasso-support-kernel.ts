@@ -37,6 +37,7 @@
  * ed., §4.2 (Cholesky orderings); WebAssembly Core Specification 2.0 (2022) (f64x2 arithmetic is
  * IEEE-754 per lane).
  */
+import { wasmKernelInstance } from './wasm-kernel-instance';
 
 /** Views of one graphical-lasso fit of order p in the kernel's memory. */
 export interface GlassoSupportMemory {
@@ -186,11 +187,11 @@ const WASM = Uint8Array.of(
     33, 11, 12, 0, 11, 11, 32, 26, 11,
 );
 
-const PAGE_BYTES = 65536;
 /** 2 GiB: every byte offset stays a non-negative i32. */
-const MAX_PAGES = 32768;
+const MAX_BYTES = 2 ** 31;
 
-let kernel: { memory: WebAssembly.Memory; support: SupportFunction; pass: PassFunction } | undefined;
+/** This thread's kernel functions, set by `glassoSupportMemory`. */
+let kernel: { support: SupportFunction; pass: PassFunction } | undefined;
 
 /**
  * Views for a fit of order p in this thread's kernel memory (grown when needed). The views
@@ -216,16 +217,10 @@ export function glassoSupportMemory(p: number): GlassoSupportMemory {
     others: 4 * square + 3 * vector + p * 8,
     flag: 4 * square + 3 * vector + p * 12,
   };
-  const pages = Math.ceil((offsets.flag + 4) / PAGE_BYTES);
-  if (pages > MAX_PAGES) throw new RangeError(`glassoSupportMemory: a graphical lasso of order ${p} needs more than 2 GiB of kernel memory`);
-  if (kernel === undefined) {
-    const memory = new WebAssembly.Memory({ initial: Math.max(pages, 1) });
-    const instance = new WebAssembly.Instance(new WebAssembly.Module(WASM), { env: { memory } });
-    kernel = { memory, support: instance.exports.support as SupportFunction, pass: instance.exports.pass as PassFunction };
-  } else if (kernel.memory.buffer.byteLength < pages * PAGE_BYTES) {
-    kernel.memory.grow(pages - kernel.memory.buffer.byteLength / PAGE_BYTES);
-  }
-  const buffer = kernel.memory.buffer;
+  if (offsets.flag + 4 > MAX_BYTES) throw new RangeError(`glassoSupportMemory: a graphical lasso of order ${p} needs more than 2 GiB of kernel memory`);
+  const { memory, exports } = wasmKernelInstance(WASM, offsets.flag + 4);
+  kernel = { support: exports.support as SupportFunction, pass: exports.pass as PassFunction };
+  const buffer = memory.buffer;
   return {
     order: p,
     s: new Float64Array(buffer, offsets.s, p * p),

@@ -23,6 +23,7 @@
  * matrix" (Numer. Math. 11:181-195); WebAssembly Core Specification 2.0 (2022) (f64x2
  * arithmetic is IEEE-754 per lane).
  */
+import { WASM_MAX_BYTES, wasmKernelInstance } from './wasm-kernel-instance';
 
 /**
  * From this order up `householderReduction` runs here; below it the JavaScript loop is as fast or
@@ -113,19 +114,10 @@ interface Kernel {
   readonly update: Pass;
 }
 
-let kernel: Kernel | null = null;
-
 /** The thread's instance, its memory grown to hold `bytes`. */
 function kernelWithMemory(bytes: number): Kernel {
-  if (kernel === null) {
-    const memory = new WebAssembly.Memory({ initial: 1 });
-    const instance = new WebAssembly.Instance(new WebAssembly.Module(HOUSEHOLDER_WASM_BYTES), { env: { memory } });
-    kernel = { memory, multiply: instance.exports.multiply as Pass, update: instance.exports.update as Pass };
-  }
-  const pages = Math.ceil(bytes / 65536);
-  const current = kernel.memory.buffer.byteLength / 65536;
-  if (pages > current) kernel.memory.grow(pages - current);
-  return kernel;
+  const { memory, exports } = wasmKernelInstance(HOUSEHOLDER_WASM_BYTES, bytes);
+  return { memory, multiply: exports.multiply as Pass, update: exports.update as Pass };
 }
 
 /**
@@ -142,7 +134,7 @@ function kernelWithMemory(bytes: number): Kernel {
  */
 export function householderReductionWasm(w: Float64Array, n: number, d: Float64Array, e: Float64Array): void {
   const bytes = 8 * (n * n + 2 * n);
-  if (bytes > 65536 * 65536) {
+  if (bytes > WASM_MAX_BYTES) {
     throw new RangeError(`householderReductionWasm: an order of ${n} needs more than the 4 GiB of a WebAssembly memory`);
   }
   const { memory, multiply, update } = kernelWithMemory(bytes);

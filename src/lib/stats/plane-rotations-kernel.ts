@@ -24,6 +24,7 @@
  * matrices" (Numer. Math. 11:293-306, tql2); WebAssembly Core Specification 2.0 (2022) (f64x2
  * arithmetic is IEEE-754 per lane).
  */
+import { WASM_MAX_BYTES, wasmKernelInstance } from './wasm-kernel-instance';
 
 /** The rotate function of scripts/make-plane-rotations-wasm.mjs, importing env.memory. */
 export const PLANE_ROTATIONS_WASM = Uint8Array.of(
@@ -47,27 +48,9 @@ export const PLANE_ROTATIONS_WASM = Uint8Array.of(
 const COLUMNS_PER_PASS = 8;
 /** Rotations the buffer holds before it is applied (at least one sweep, order − 1, always fits). */
 const MINIMUM_ROTATION_CAPACITY = 4096;
-const PAGE_BYTES = 65536;
-const MAXIMUM_PAGES = 65536;
 
 type Rotate = (rows: number, stride: number, sweeps: number, sweepsEnd: number, rotations: number) => void;
 
-interface Kernel {
-  readonly memory: WebAssembly.Memory;
-  readonly rotate: Rotate;
-}
-
-/** This thread's instance, made on first use. */
-let kernel: Kernel | null = null;
-
-function planeRotationsKernel(): Kernel {
-  if (kernel === null) {
-    const memory = new WebAssembly.Memory({ initial: 1 });
-    const instance = new WebAssembly.Instance(new WebAssembly.Module(PLANE_ROTATIONS_WASM), { env: { memory } });
-    kernel = { memory, rotate: instance.exports.rotate as Rotate };
-  }
-  return kernel;
-}
 
 /**
  * The rotations of one QL run over the rows of a square matrix, recorded and applied in
@@ -105,13 +88,11 @@ export class PlaneRotationBatch {
     const capacity = Math.max(MINIMUM_ROTATION_CAPACITY, order);
     const rowBytes = order * padded * 8;
     const totalBytes = rowBytes + capacity * 16 + capacity * 8;
-    const pages = Math.ceil(totalBytes / PAGE_BYTES);
-    if (pages > MAXIMUM_PAGES) {
+    if (totalBytes > WASM_MAX_BYTES) {
       throw new RangeError(`PlaneRotationBatch: an order of ${order} needs more than the 4 GiB of a WebAssembly memory`);
     }
-    const { memory, rotate } = planeRotationsKernel();
-    const current = memory.buffer.byteLength / PAGE_BYTES;
-    if (pages > current) memory.grow(pages - current);
+    const { memory, exports } = wasmKernelInstance(PLANE_ROTATIONS_WASM, totalBytes);
+    const rotate = exports.rotate as Rotate;
     this.rows = rows;
     this.order = order;
     this.padded = padded;

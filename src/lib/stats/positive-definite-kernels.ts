@@ -35,6 +35,7 @@
  * (triangular systems); WebAssembly Core Specification 2.0 (2022), §4.3 (f64 and f64x2
  * arithmetic is IEEE-754).
  */
+import { WASM_MAX_BYTES, wasmKernelInstance } from './wasm-kernel-instance';
 
 // The module of scripts/make-positive-definite-wasm.mjs: cholesky(a, n) → i32, invert(r, out, n, lowerOnly),
 // solve(r, b, x, n), scaledSquares(source, target, n, scale), byte offsets into the imported
@@ -126,27 +127,19 @@ interface PositiveDefiniteInstance {
   readonly scaledSquares: (source: number, target: number, n: number, scale: number) => void;
 }
 
-/** The thread's instance (module state: each worker thread has its own). */
-let instance: PositiveDefiniteInstance | null = null;
 /** Counts the workspaces handed out; only the latest one may be used. */
 let generation = 0;
 
-const PAGE_BYTES = 65_536;
-const MAXIMUM_PAGES = 65_536;
-
-function instantiate(): PositiveDefiniteInstance {
-  if (instance === null) {
-    const memory = new WebAssembly.Memory({ initial: 1 });
-    const exports = new WebAssembly.Instance(new WebAssembly.Module(POSITIVE_DEFINITE_WASM), { env: { memory } }).exports;
-    instance = {
-      memory,
-      cholesky: exports.cholesky as PositiveDefiniteInstance['cholesky'],
-      invert: exports.invert as PositiveDefiniteInstance['invert'],
-      solve: exports.solve as PositiveDefiniteInstance['solve'],
-      scaledSquares: exports.scaledSquares as PositiveDefiniteInstance['scaledSquares'],
-    };
-  }
-  return instance;
+/** The thread's kernels, their memory grown to hold `bytes`. */
+function instantiate(bytes: number): PositiveDefiniteInstance {
+  const { memory, exports } = wasmKernelInstance(POSITIVE_DEFINITE_WASM, bytes);
+  return {
+    memory,
+    cholesky: exports.cholesky as PositiveDefiniteInstance['cholesky'],
+    invert: exports.invert as PositiveDefiniteInstance['invert'],
+    solve: exports.solve as PositiveDefiniteInstance['solve'],
+    scaledSquares: exports.scaledSquares as PositiveDefiniteInstance['scaledSquares'],
+  };
 }
 
 /**
@@ -243,14 +236,11 @@ export function positiveDefiniteWorkspace(order: number, matrixCount: number, ve
   const matrixBytes = order * order * 8;
   const vectorBytes = order * 8;
   const bytes = matrixCount * matrixBytes + vectorCount * vectorBytes;
-  const pages = Math.max(1, Math.ceil(bytes / PAGE_BYTES));
-  if (pages > MAXIMUM_PAGES) {
+  if (bytes > WASM_MAX_BYTES) {
     throw new RangeError(`positiveDefiniteWorkspace: ${matrixCount} matrices and ${vectorCount} vectors of order ${order} need more than the 4 GiB of a WebAssembly memory`);
   }
-  const kernels = instantiate();
+  const kernels = instantiate(bytes);
   const { memory } = kernels;
-  const present = memory.buffer.byteLength / PAGE_BYTES;
-  if (pages > present) memory.grow(pages - present);
   const buffer = memory.buffer;
   new Uint8Array(buffer, 0, bytes).fill(0);
   const matrices: Float64Array[] = [];
