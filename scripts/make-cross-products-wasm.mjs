@@ -19,7 +19,7 @@
  * and the fixed-width SIMD proposal's opcode table (v128 loads, f64x2.add 0xF0, f64x2.mul 0xF2).
  */
 
-import { unsigned, signed, name, section, WASM_PREAMBLE, printWasmBytes } from './wasm-binary.mjs';
+import { unsigned, name, section, WASM_PREAMBLE, printWasmBytes, CONTROL_OPS } from './wasm-binary.mjs';
 
 // Locals: parameters 0-3, then i32 4-10, then v128 11-21.
 const BLOCK = 0, LENGTH = 1, PADDED = 2, TILES = 3;
@@ -28,17 +28,11 @@ const ACC = 11; // 11..18: acc[2 * r + h] is items (j + r) × (k + 2h, k + 2h + 
 const Y01 = 19, Y23 = 20, X = 21;
 
 const op = {
-  get: (index) => [0x20, ...unsigned(index)],
-  set: (index) => [0x21, ...unsigned(index)],
-  tee: (index) => [0x22, ...unsigned(index)],
-  const: (value) => [0x41, ...signed(value)],
+  ...CONTROL_OPS,
   add: [0x6a],
   mul: [0x6c],
   shl: [0x74],
   ltU: [0x49],
-  loop: [0x03, 0x40],
-  brIf: (depth) => [0x0d, ...unsigned(depth)],
-  end: [0x0b],
   // SIMD (prefix 0xFD); memarg = alignment exponent, offset.
   load: (offset) => [0xfd, ...unsigned(0x00), 3, ...unsigned(offset)],
   splat: (offset) => [0xfd, ...unsigned(0x0a), 3, ...unsigned(offset)],

@@ -44,7 +44,7 @@
  * Cholesky and its equivalence to the other orderings).
  */
 
-import { unsigned, signed, name, section, WASM_PREAMBLE, printWasmBytes } from './wasm-binary.mjs';
+import { unsigned, signed, name, section, WASM_PREAMBLE, printWasmBytes, CONTROL_OPS } from './wasm-binary.mjs';
 
 // Parameters 0-14 (2 is f64, the rest i32), then i32 locals 15-32, f64 33-36, v128 37-40.
 const J = 0, P = 1, PENALTY = 2, SIZE = 3, MEMBERS = 4, S = 5, W = 6, BETA = 7, WB = 8, ACTIVE = 9, FACTOR = 10, SOLUTION = 11, SIGNS = 12, OTHERS = 13, SYMMETRIC = 14;
@@ -58,18 +58,9 @@ const I32_LOCALS = 18, F64_LOCALS = 4, V128_LOCALS = 4;
 const f64Bytes = (value) => [...new Uint8Array(Float64Array.of(value).buffer)];
 
 const op = {
-  get: (index) => [0x20, ...unsigned(index)],
-  set: (index) => [0x21, ...unsigned(index)],
-  tee: (index) => [0x22, ...unsigned(index)],
+  ...CONTROL_OPS,
   i32: (value) => [0x41, ...signed(value)],
   f64: (value) => [0x44, ...f64Bytes(value)],
-  block: [0x02, 0x40],
-  loop: [0x03, 0x40],
-  if: [0x04, 0x40],
-  else: [0x05],
-  end: [0x0b],
-  br: (depth) => [0x0c, ...unsigned(depth)],
-  brIf: (depth) => [0x0d, ...unsigned(depth)],
   return: [0x0f],
   select: [0x1b],
   i32Load: [0x28, 2, 0],

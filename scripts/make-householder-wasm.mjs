@@ -38,17 +38,14 @@
  * f64x2.sub 0xf1, f64x2.mul 0xf2).
  */
 
-import { unsigned, signed, name, section, WASM_PREAMBLE, printWasmBytes } from './wasm-binary.mjs';
+import { unsigned, name, section, WASM_PREAMBLE, printWasmBytes, CONTROL_OPS } from './wasm-binary.mjs';
 
 /** Byte indices of i8x16.shuffle: lane 0 of both operands, or lane 1 of both. */
 const LOW_LANES = [0, 1, 2, 3, 4, 5, 6, 7, 16, 17, 18, 19, 20, 21, 22, 23];
 const HIGH_LANES = [8, 9, 10, 11, 12, 13, 14, 15, 24, 25, 26, 27, 28, 29, 30, 31];
 
 const op = {
-  get: (index) => [0x20, ...unsigned(index)],
-  set: (index) => [0x21, ...unsigned(index)],
-  tee: (index) => [0x22, ...unsigned(index)],
-  const: (value) => [0x41, ...signed(value)],
+  ...CONTROL_OPS,
   add: [0x6a],
   sub: [0x6b],
   mul: [0x6c],
@@ -56,12 +53,6 @@ const op = {
   eq: [0x46],
   gtU: [0x4b],
   geU: [0x4f],
-  block: [0x02, 0x40],
-  loop: [0x03, 0x40],
-  if: [0x04, 0x40],
-  br: (depth) => [0x0c, ...unsigned(depth)],
-  brIf: (depth) => [0x0d, ...unsigned(depth)],
-  end: [0x0b],
   // Scalar doubles; memarg = alignment exponent, offset.
   f64Load: (offset) => [0x2b, 3, ...unsigned(offset)],
   f64Store: (offset) => [0x39, 3, ...unsigned(offset)],

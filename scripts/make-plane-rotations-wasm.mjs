@@ -30,7 +30,7 @@
  * Wilkinson 1968, "The QR and QL algorithms for symmetric matrices" (tql2).
  */
 
-import { unsigned, signed, name, section, WASM_PREAMBLE, printWasmBytes } from './wasm-binary.mjs';
+import { unsigned, name, section, WASM_PREAMBLE, printWasmBytes, CONTROL_OPS } from './wasm-binary.mjs';
 
 /** Columns (doubles) taken at a time: the row stride must be a multiple of this. */
 export const PLANE_ROTATION_COLUMNS = 8;
@@ -43,10 +43,7 @@ const CARRIED = 10; // 10..13: row i + 1's eight values (then row i's new ones),
 const C = 14, S = 15, X = 16;
 
 const op = {
-  get: (index) => [0x20, ...unsigned(index)],
-  set: (index) => [0x21, ...unsigned(index)],
-  tee: (index) => [0x22, ...unsigned(index)],
-  const: (value) => [0x41, ...signed(value)],
+  ...CONTROL_OPS,
   // i32.load: memarg = alignment exponent 2, offset.
   loadI32: (offset) => [0x28, 2, ...unsigned(offset)],
   add: [0x6a],
@@ -54,9 +51,6 @@ const op = {
   mul: [0x6c],
   shl: [0x74],
   ltU: [0x49],
-  loop: [0x03, 0x40],
-  brIf: (depth) => [0x0d, ...unsigned(depth)],
-  end: [0x0b],
   // SIMD (prefix 0xFD); memarg = alignment exponent, offset.
   load: (offset) => [0xfd, ...unsigned(0x00), 4, ...unsigned(offset)],
   splat: (offset) => [0xfd, ...unsigned(0x0a), 3, ...unsigned(offset)],

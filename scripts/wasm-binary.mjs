@@ -49,6 +49,24 @@ export function vector(items) {
   return [...unsigned(items.length), ...items.flat()];
 }
 
+/**
+ * The instructions on locals and blocks every listing uses: local.get / set / tee, i32.const,
+ * block / loop / if (no result), else, end, br and br_if.
+ */
+export const CONTROL_OPS = {
+  get: (index) => [0x20, ...unsigned(index)],
+  set: (index) => [0x21, ...unsigned(index)],
+  tee: (index) => [0x22, ...unsigned(index)],
+  const: (value) => [0x41, ...signed(value)],
+  block: [0x02, 0x40],
+  loop: [0x03, 0x40],
+  if: [0x04, 0x40],
+  else: [0x05],
+  end: [0x0b],
+  br: (depth) => [0x0c, ...unsigned(depth)],
+  brIf: (depth) => [0x0d, ...unsigned(depth)],
+};
+
 /** The module preamble: the magic `\0asm` and version 1. */
 export const WASM_PREAMBLE = [0x00, 0x61, 0x73, 0x6d, 0x01, 0x00, 0x00, 0x00];
 
