@@ -9,7 +9,7 @@ import { correlationMatrix } from '../../src/lib/stats/correlation-matrix';
 import { createSeededRandom, type SeededRandom } from '../../src/lib/stats/seeded-random';
 import type { SquareMatrix } from '../../src/lib/stats/types';
 import { largestDifference, smoothFixture } from './local-dependence-fixtures';
-import { minimumTraceCommunalitiesPlain, smoothCorrelationMatrixPlain } from './smooth-correlation-reference';
+import { minimumTraceCommunalitiesPlain } from './smooth-correlation-reference';
 
 function largestVif(matrix: ReturnType<typeof squareMatrixFromRows>): number {
   return Math.max(...varianceInflation(matrix).items.map((item) => item.vif ?? Number.POSITIVE_INFINITY));
@@ -182,14 +182,8 @@ describe('the smoothing on the WebAssembly positive-definite kernels', () => {
       expect(Object.is(fast.trace, plain.trace), label).toBe(true);
       expect(fast.newtonSteps, label).toBe(plain.newtonSteps);
       expect(fast.converged, label).toBe(plain.converged);
-      const smoothed = smoothCorrelationMatrix(matrix);
-      const smoothedPlain = smoothCorrelationMatrixPlain(matrix);
-      expectSameBits(smoothed.matrix.data, smoothedPlain.matrix.data, label);
-      expect(smoothed.scaledItems, label).toEqual(smoothedPlain.scaledItems);
-      expect(Object.is(smoothed.guaranteedFloor, smoothedPlain.guaranteedFloor), label).toBe(true);
-      expect(Object.is(smoothed.largestChange, smoothedPlain.largestChange), label).toBe(true);
-      expect(Object.is(smoothed.smallestEigenvalueAfter, smoothedPlain.smallestEigenvalueAfter), label).toBe(true);
-      expect(smoothed.notices, label).toEqual(smoothedPlain.notices);
+      // The scaling around the MTFA is unchanged code: the same communalities give the same matrix.
+      expectSameBits(smoothCorrelationMatrix(matrix).communalities as Float64Array, plain.communalities, label);
     },
   );
 });

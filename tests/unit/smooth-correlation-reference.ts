@@ -1,141 +1,19 @@
 /**
  * The reference for the tests of smooth-correlation-matrix.ts (not a module under test): the
- * smoothing as it was before its linear algebra moved to the WebAssembly positive-definite
- * kernels (commit 11149ab), plain JavaScript loops throughout, renamed `...Plain`. The module must
- * give bit for bit these results (communalities, trace, Newton steps, smoothed matrix).
+ * minimum-trace factor analysis as it was before its linear algebra moved to the WebAssembly
+ * positive-definite kernels (commit 11149ab), plain JavaScript loops throughout, renamed
+ * `...Plain`. The module must give bit for bit these results (communalities, trace, Newton
+ * steps); the scaling around them is unchanged code.
  */
 import { checkCorrelationMatrix } from '../../src/lib/stats/correlation-input';
-import { summarizeSpectrum } from '../../src/lib/stats/spectral-inverse';
 import { symmetricEigenvalues } from '../../src/lib/stats/symmetric-eigen';
 import {
-  BENTLER_YUAN_SCALING_CONSTANT,
   MTFA_COMMUNALITY_UPPER_BOUND,
   MTFA_GAP_TOLERANCE,
   MTFA_MAX_NEWTON_STEPS,
   MTFA_NEWTON_DECREMENT_TOLERANCE,
 } from '../../src/lib/stats/tolerances';
-import type { NumericalNotice, SquareMatrix } from '../../src/lib/stats/types';
-
-/** Options of `smoothCorrelationMatrix`. */
-interface SmoothCorrelationOptions {
-  /** Bentler & Yuan's k in (0, 1) (default BENTLER_YUAN_SCALING_CONSTANT = .98). */
-  readonly scalingConstant?: number;
-}
-
-/** The result of `smoothCorrelationMatrix`. */
-interface SmoothCorrelationResult {
-  /** The smoothed matrix, or a copy of the input when it needed no smoothing. */
-  readonly matrix: SquareMatrix;
-  /** True when the input was indefinite and has been smoothed. */
-  readonly smoothed: boolean;
-  /** `bentler-yuan` when smoothed, else null. */
-  readonly method: 'bentler-yuan' | null;
-  /** MTFA communalities of the input (null when nothing was smoothed). */
-  readonly communalities: Float64Array | null;
-  /** Items whose rows were scaled (communality ≥ 1), 0-based. */
-  readonly scaledItems: readonly number[];
-  /** The k used. */
-  readonly scalingConstant: number;
-  /** Smallest eigenvalue of the input. */
-  readonly smallestEigenvalueBefore: number;
-  /** Smallest eigenvalue of the returned matrix. */
-  readonly smallestEigenvalueAfter: number;
-  /** Lower bound on the smoothed matrix's smallest eigenvalue that the construction guarantees (null when not smoothed). */
-  readonly guaranteedFloor: number | null;
-  /** Largest absolute change of any correlation. */
-  readonly largestChange: number;
-  /** `matrix-smoothed`; `smoothing-not-converged` if the MTFA iterations hit their limit. */
-  readonly notices: readonly NumericalNotice[];
-}
-
-/**
- * Smooths an indefinite correlation matrix by Bentler & Yuan's MTFA off-diagonal scaling.
- * @param correlation Square, symmetric, unit-diagonal matrix (pairwise or polychoric); not modified.
- * @param options Bentler & Yuan's k.
- * @throws {RangeError} when the matrix is not a correlation matrix in shape, or k is not in (0, 1).
- * @throws {RangeError} when the matrix is so far from positive semidefinite (smallest eigenvalue
- *   at or below 1 − MTFA_COMMUNALITY_UPPER_BOUND) that no communality within the bound makes it so.
- * @returns The matrix to use (smoothed, or an unchanged copy), the communalities, the scaled
- *   items, the eigenvalue before and after, the guaranteed floor and notices.
- * References: Bentler & Yuan 2011, Psychometrika 76:119-123; Debelak & Tran 2016, PLOS ONE
- * 11(2):e0148143.
- */
-export function smoothCorrelationMatrixPlain(correlation: SquareMatrix, options: SmoothCorrelationOptions = {}): SmoothCorrelationResult {
-  checkCorrelationMatrix(correlation, 'smoothCorrelationMatrix');
-  const k = options.scalingConstant ?? BENTLER_YUAN_SCALING_CONSTANT;
-  if (!(k > 0 && k < 1)) throw new RangeError(`smoothCorrelationMatrix: scalingConstant must lie in (0, 1), got ${k}`);
-  const p = correlation.order;
-  const eigenvaluesBefore = symmetricEigenvalues(correlation);
-  const before = summarizeSpectrum(eigenvaluesBefore);
-  if (!before.indefinite) {
-    return {
-      matrix: { order: p, data: Float64Array.from(correlation.data) },
-      smoothed: false,
-      method: null,
-      communalities: null,
-      scaledItems: [],
-      scalingConstant: k,
-      smallestEigenvalueBefore: before.smallest,
-      smallestEigenvalueAfter: before.smallest,
-      guaranteedFloor: null,
-      largestChange: 0,
-      notices: [],
-    };
-  }
-  const mtfa = minimumTraceCommunalitiesPlain(correlation, before.smallest);
-  const h = mtfa.communalities;
-  const scale = new Float64Array(p).fill(1);
-  const scaledItems: number[] = [];
-  let floor = 1 - k;
-  for (let i = 0; i < p; i++) {
-    if (h[i] >= 1) {
-      scale[i] = Math.sqrt(k / h[i]);
-      scaledItems.push(i);
-    } else {
-      floor = Math.min(floor, 1 - h[i]);
-    }
-  }
-  const data = new Float64Array(p * p);
-  let largestChange = 0;
-  for (let i = 0; i < p; i++) {
-    data[i * p + i] = 1;
-    for (let j = i + 1; j < p; j++) {
-      const value = correlation.data[i * p + j] * scale[i] * scale[j];
-      data[i * p + j] = value;
-      data[j * p + i] = value;
-      largestChange = Math.max(largestChange, Math.abs(value - correlation.data[i * p + j]));
-    }
-  }
-  const matrix: SquareMatrix = { order: p, data };
-  const after = symmetricEigenvalues(matrix);
-  const notices: NumericalNotice[] = [
-    {
-      code: 'matrix-smoothed',
-      items: scaledItems,
-      message: `The correlation matrix was not positive semi-definite (smallest eigenvalue ${before.smallest.toPrecision(3)}); the correlations of ${scaledItems.length} item(s) were scaled down by Bentler and Yuan's minimum-trace smoothing (largest change ${largestChange.toPrecision(3)}; smallest eigenvalue now ${after[p - 1].toPrecision(3)}).`,
-    },
-  ];
-  if (!mtfa.converged) {
-    notices.push({
-      code: 'smoothing-not-converged',
-      items: [],
-      message: 'The minimum-trace factor analysis behind the smoothing stopped at its step limit; the smoothed matrix is positive definite but its communalities may not be the minimal ones.',
-    });
-  }
-  return {
-    matrix,
-    smoothed: true,
-    method: 'bentler-yuan',
-    communalities: h,
-    scaledItems,
-    scalingConstant: k,
-    smallestEigenvalueBefore: before.smallest,
-    smallestEigenvalueAfter: after[p - 1],
-    guaranteedFloor: floor,
-    largestChange,
-    notices,
-  };
-}
+import type { SquareMatrix } from '../../src/lib/stats/types';
 
 /** Result of the MTFA solve. */
 interface MinimumTraceResult {
