@@ -2,26 +2,11 @@ import { describe, expect, it } from 'vitest';
 import { positiveDefiniteWorkspace } from '../../src/lib/stats/positive-definite-kernels';
 import { createSeededRandom, type SeededRandom } from '../../src/lib/stats/seeded-random';
 import { positiveDefiniteWasmBytes } from '../../scripts/make-positive-definite-wasm.mjs';
+import { choleskyInPlace, solveWithLowerFactor } from './smooth-correlation-reference';
 
 // The plain loops the kernels must reproduce bit for bit: the lower Cholesky factor, the inverse
 // and the solve of smooth-correlation-matrix.ts before they moved to WebAssembly (row-major,
-// lower triangle read).
-
-function choleskyInPlace(a: Float64Array, p: number): boolean {
-  for (let j = 0; j < p; j++) {
-    let diagonal = a[j * p + j];
-    for (let k = 0; k < j; k++) diagonal -= a[j * p + k] * a[j * p + k];
-    if (!(diagonal > 0)) return false;
-    const root = Math.sqrt(diagonal);
-    a[j * p + j] = root;
-    for (let i = j + 1; i < p; i++) {
-      let sum = a[i * p + j];
-      for (let k = 0; k < j; k++) sum -= a[i * p + k] * a[j * p + k];
-      a[i * p + j] = sum / root;
-    }
-  }
-  return true;
-}
+// lower triangle read; the factor and the solve from the smoothing's reference).
 
 /** The column-by-column substitutions: L y = e_c, then Lᵀ x = y, for each column c. */
 function inverseFromLowerFactor(factor: Float64Array, p: number): Float64Array {
@@ -43,18 +28,9 @@ function inverseFromLowerFactor(factor: Float64Array, p: number): Float64Array {
   return out;
 }
 
-function solveWithLowerFactor(factor: Float64Array, b: Float64Array, p: number): Float64Array {
+function solveWithFactor(factor: Float64Array, b: Float64Array, p: number): Float64Array {
   const x = new Float64Array(p);
-  for (let i = 0; i < p; i++) {
-    let sum = b[i];
-    for (let k = 0; k < i; k++) sum -= factor[i * p + k] * x[k];
-    x[i] = sum / factor[i * p + i];
-  }
-  for (let i = p - 1; i >= 0; i--) {
-    let sum = x[i];
-    for (let k = i + 1; k < p; k++) sum -= factor[k * p + i] * x[k];
-    x[i] = sum / factor[i * p + i];
-  }
+  solveWithLowerFactor(factor, b, p, x);
   return x;
 }
 
@@ -156,7 +132,7 @@ describe('positive-definite kernels', () => {
         for (let i = 0; i < order; i++) rightHandSide[i] = random.nextNormal() * 10 ** (random.nextInt(5) - 2);
         const b = Float64Array.from(rightHandSide);
         workspace.solveFromFactor(factor, rightHandSide, solution);
-        expect(differing(solution, solveWithLowerFactor(lower, b, order)), label).toEqual([]);
+        expect(differing(solution, solveWithFactor(lower, b, order)), label).toEqual([]);
         expect(differing(rightHandSide, b), label).toEqual([]);
         // In place: the solution over the right-hand side
         workspace.solveFromFactor(factor, rightHandSide, rightHandSide);

@@ -131,7 +131,7 @@ function buildM(r: Float64Array, h: Float64Array, p: number, out: Float64Array):
 }
 
 /** In-place lower Cholesky factor of a (row-major, full) matrix; false when not positive definite. */
-function choleskyInPlace(a: Float64Array, p: number): boolean {
+export function choleskyInPlace(a: Float64Array, p: number): boolean {
   for (let j = 0; j < p; j++) {
     let diagonal = a[j * p + j];
     for (let k = 0; k < j; k++) diagonal -= a[j * p + k] * a[j * p + k];
@@ -159,17 +159,22 @@ function choleskyLogDet(a: Float64Array, p: number): number {
 function solvePositiveDefinite(a: Float64Array, b: Float64Array, p: number, x: Float64Array, work: Float64Array): boolean {
   work.set(a.subarray(0, p * p));
   if (!choleskyInPlace(work, p)) return false;
+  solveWithLowerFactor(work, b, p, x);
+  return true;
+}
+
+/** Solves L Lᵀ x = b from the lower factor L (row-major, lower triangle read): forward, then backward. */
+export function solveWithLowerFactor(factor: Float64Array, b: Float64Array, p: number, x: Float64Array): void {
   for (let i = 0; i < p; i++) {
     let sum = b[i];
-    for (let k = 0; k < i; k++) sum -= work[i * p + k] * x[k];
-    x[i] = sum / work[i * p + i];
+    for (let k = 0; k < i; k++) sum -= factor[i * p + k] * x[k];
+    x[i] = sum / factor[i * p + i];
   }
   for (let i = p - 1; i >= 0; i--) {
     let sum = x[i];
-    for (let k = i + 1; k < p; k++) sum -= work[k * p + i] * x[k];
-    x[i] = sum / work[i * p + i];
+    for (let k = i + 1; k < p; k++) sum -= factor[k * p + i] * x[k];
+    x[i] = sum / factor[i * p + i];
   }
-  return true;
 }
 
 /**
