@@ -548,23 +548,23 @@ interface SettledCorrelation {
  * indefinite), Higham's nearest correlation matrix is taken, with the options and notices
  * `correlationMatrix` would have used. The result is the one of repairing first and smoothing
  * after, without the repair's projections when the smoothing replaces them.
- * @param correlation A `correlationMatrix` or `weightedPearson` result computed with `repair: 'none'`.
+ * @param correlation A `correlationMatrix` or `weightedPearson` result computed with `repair: 'none'`
+ *   (so never repaired: its matrix is the raw one, with a `matrix-indefinite` notice when indefinite).
  * @param data The respondents × items the correlations were computed from.
  * @returns The matrix, whether it was changed, and the notices to report.
  * References: Bentler & Yuan 2011 (smoothing); Higham 2002 (nearest correlation matrix).
  */
 function settleIndefinite(correlation: CorrelationMatrixResult, data: ItemMatrix): SettledCorrelation {
-  if (!correlation.indefinite) return { matrix: correlation.matrix, repaired: correlation.repaired, notices: correlation.notices, smoothed: null };
-  const raw = correlation.unrepaired ?? correlation.matrix;
+  if (!correlation.indefinite) return { matrix: correlation.matrix, repaired: false, notices: correlation.notices, smoothed: null };
+  const raw = correlation.matrix;
   const copyOf = exactCopies(data);
   const kept = copyOf.map((source, k) => (source < 0 ? k : -1)).filter((k) => k >= 0);
   const smoothed = smoothCorrelationMatrix(kept.length === raw.order ? raw : principalSubmatrix(raw, kept));
-  const others = correlation.notices.filter((notice) => notice.code !== 'matrix-indefinite' && notice.code !== 'matrix-repaired');
+  const others = correlation.notices.filter((notice) => notice.code !== 'matrix-indefinite');
   if (smoothed.smoothed) {
     const matrix = kept.length === raw.order ? smoothed.matrix : withCopies(smoothed.matrix, kept, copyOf);
     return { matrix, repaired: true, notices: others, smoothed: { notices: smoothed.notices, kept } };
   }
-  if (correlation.repaired) return { matrix: correlation.matrix, repaired: true, notices: correlation.notices, smoothed: null };
   const repair = repairCorrelationMatrix(raw, { method: 'higham' });
   return { matrix: repair.matrix, repaired: repair.repaired, notices: [...others, ...repair.notices], smoothed: null };
 }

@@ -407,7 +407,6 @@ export function finishCorrelationMatrix(prepared: PreparedCorrelationMatrix, pol
   };
 }
 
-
 function allPairs(order: number): Int32Array {
   const pairs = new Int32Array(order * (order - 1));
   let at = 0;

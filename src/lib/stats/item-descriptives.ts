@@ -9,7 +9,7 @@
  * health status questionnaires" (J. Clin. Epidemiol. 60:34-42); Chan, Golub & LeVeque 1983,
  * "Algorithms for computing the sample variance: analysis and recommendations".
  */
-import { checkItemMatrix } from './item-matrix-input';
+import { checkItemMatrix, refuseInfiniteAnswer } from './item-matrix-input';
 import { FLOOR_CEILING_SHARE } from './tolerances';
 import type { ItemMatrix } from './types';
 
@@ -94,10 +94,7 @@ export function itemDescriptives(matrix: ItemMatrix, options: ItemDescriptivesOp
     }
     // An infinite answer makes the sum infinite or NaN: only then is the item searched for it (a
     // test per answer in the loop above costs more than the loop).
-    if (sum - sum !== 0) {
-      const at = values.findIndex((value) => value === Infinity || value === -Infinity);
-      if (at >= 0) throw new RangeError(`${caller}: item ${j} has an infinite value at respondent ${at}; use NaN for a missing answer`);
-    }
+    if (sum - sum !== 0) refuseInfiniteAnswer(values, j, caller);
     const range = ranges?.[j] ?? null;
     const missing = rows - n;
     const missingRate = rows === 0 ? 0 : missing / rows;

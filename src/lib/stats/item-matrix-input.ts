@@ -28,15 +28,29 @@ export function checkItemMatrix(matrix: ItemMatrix, caller: string, infinities =
   for (let j = 0; j < columns; j++) {
     const offset = j * rows;
     // A finite column sum rules out NaN and infinity at once (the common, complete case); only
-    // otherwise is each value looked at: x − x is NaN exactly for an infinite x (a NaN is skipped).
+    // otherwise is each value looked at.
     let sum = 0;
     for (let i = 0; i < rows; i++) sum += data[offset + i];
-    if (sum - sum === 0) continue;
-    for (let i = 0; i < rows; i++) {
-      const value = data[offset + i];
-      if (value === value && value - value !== 0) {
-        throw new RangeError(`${caller}: item ${j} has an infinite value at respondent ${i}; use NaN for a missing answer`);
-      }
+    if (sum - sum !== 0) refuseInfiniteAnswer(data.subarray(offset, offset + rows), j, caller);
+  }
+}
+
+/**
+ * Refuses an item whose answers hold an infinite value, naming the first (a caller that has
+ * summed the column looks only when the sum is not finite).
+ * @param column The item's answers (NaN for missing).
+ * @param item The item's index, for the message.
+ * @param caller Name of the public function, for the message.
+ * @returns Nothing; returns only when no answer is infinite.
+ * @throws {RangeError} naming `caller`, the item and the respondent of the first infinite answer.
+ * References: none (input validation).
+ */
+export function refuseInfiniteAnswer(column: Float64Array, item: number, caller: string): void {
+  for (let i = 0; i < column.length; i++) {
+    const value = column[i];
+    // x − x is NaN exactly for an infinite x (a NaN, a missing answer, is skipped).
+    if (value === value && value - value !== 0) {
+      throw new RangeError(`${caller}: item ${item} has an infinite value at respondent ${i}; use NaN for a missing answer`);
     }
   }
 }
