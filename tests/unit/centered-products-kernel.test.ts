@@ -63,7 +63,9 @@ function differingEntries(actual: Float64Array, expected: Float64Array): number[
 
 describe('accumulateCenteredProducts', () => {
   // Orders that are and are not multiples of the 4 × 4 register tile, rows that are and are not
-  // multiples of the row tile, sub-ranges of respondents, and tiles of one respondent.
+  // multiples of the row tile, sub-ranges of respondents, and tiles of one respondent. They run
+  // one after another on this thread, so each call after the first finds the kernel's memory
+  // holding an earlier, differently shaped call's values (the instance is kept per thread).
   const cases = [
     { rows: 1031, columns: 7, rowStart: 0, rowEnd: 1031, blockRows: 512 },
     { rows: 2000, columns: 13, rowStart: 0, rowEnd: 2000, blockRows: 64 },

@@ -6,7 +6,9 @@
  * SELF-CONTAINED ON PURPOSE: this function must not refer to anything outside its own body
  * (no imports, no module constants, no helper functions). The benchmark's worker thread is
  * started from its source text (`accumulateCenteredProducts.toString()`); the WebAssembly
- * bytes below are therefore a literal inside the function.
+ * bytes below are therefore a literal inside the function, and the instance is compiled once
+ * per thread and kept on the thread's global object (a registered symbol), not per call: the
+ * residual bootstrap calls this for every draw of every scale.
  *
  * Speed comes from two kinds of blocking:
  * - row tiling: `blockRows` respondents at a time are copied, centred, into a small scratch
@@ -81,12 +83,25 @@ export function accumulateCenteredProducts(
   if (pages > 65536) {
     throw new RangeError(`accumulateCenteredProducts: ${columns} items and ${blockRows} respondents per tile need more than the 4 GiB of a WebAssembly memory`);
   }
-  const memory = new WebAssembly.Memory({ initial: pages });
-  const instance = new WebAssembly.Instance(new WebAssembly.Module(wasm), { env: { memory } });
-  const tile = instance.exports.tile as (block: number, respondents: number, padded: number, tiles: number) => void;
-  // Fresh memory is zeroed: the padding columns stay 0 and the tile sums start at 0.
-  const block = new Float64Array(memory.buffer, 0, padded * blockRows);
-  const tiles = new Float64Array(memory.buffer, blockBytes, padded * padded);
+  // One instance per thread, kept on the thread's global object under a registered symbol (the
+  // function may refer to nothing outside itself), its memory grown when a call needs more.
+  const holder = globalThis as unknown as Record<symbol, { memory: WebAssembly.Memory; tile: (block: number, respondents: number, padded: number, tiles: number) => void } | undefined>;
+  const key = Symbol.for('paredown.centeredProductsKernel');
+  let kernel = holder[key];
+  if (kernel === undefined) {
+    const memory = new WebAssembly.Memory({ initial: pages });
+    const instance = new WebAssembly.Instance(new WebAssembly.Module(wasm), { env: { memory } });
+    kernel = { memory, tile: instance.exports.tile as (block: number, respondents: number, padded: number, tiles: number) => void };
+    holder[key] = kernel;
+  }
+  const present = kernel.memory.buffer.byteLength / 65536;
+  if (pages > present) kernel.memory.grow(pages - present);
+  const tile = kernel.tile;
+  const block = new Float64Array(kernel.memory.buffer, 0, padded * blockRows);
+  const tiles = new Float64Array(kernel.memory.buffer, blockBytes, padded * padded);
+  // An earlier call may have left values behind: the padding columns must be 0 and the tile sums start at 0.
+  block.fill(0);
+  tiles.fill(0);
   for (let first = rowStart; first < rowEnd; first += blockRows) {
     const length = Math.min(blockRows, rowEnd - first);
     for (let j = 0; j < columns; j++) {

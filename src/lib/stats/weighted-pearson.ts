@@ -221,7 +221,10 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
   const totalWeight = new Float64Array(order);
   const totalX = new Float64Array(order);
   const totalXX = new Float64Array(order);
-  const missesInRow = new Int32Array(distinct);
+  // The rows each item misses, item after item (item a's from missingStart[a] to missingStart[a + 1]).
+  const missingStart = new Int32Array(order + 1);
+  let missingRows = new Int32Array(hasMissing ? 64 : 0);
+  let missingCount = 0;
   for (let a = 0; a < order; a++) {
     const column = values[a];
     const offset = a * distinct;
@@ -233,7 +236,12 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
     for (let t = 0; t < distinct; t++) {
       const x = column[t];
       if (x !== x) {
-        missesInRow[t]++;
+        if (missingCount === missingRows.length) {
+          const grown = new Int32Array(2 * missingRows.length);
+          grown.set(missingRows);
+          missingRows = grown;
+        }
+        missingRows[missingCount++] = t;
         continue;
       }
       wx[offset + t] = w[t] * x;
@@ -245,47 +253,39 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
     totalWeight[a] = sw;
     totalX[a] = sx;
     totalXX[a] = sxx;
+    missingStart[a + 1] = missingCount;
   }
   // Σ w·x·y over every distinct row (0 where either is missing): (w∘X₀)ᵀX₀ by the blocked kernel.
   const products = new Float64Array(order * order);
   weightedIntegerProducts(wx, packed, order, distinct, lanes, products);
   // What item a holds in the rows where item b is missing, stored by b (row-major [b · order + a]):
-  // weight where a is answered, weight × answer, weight × square. Each row that misses some item
-  // is laid out once across the items (0 where unanswered) and added, whole, to the sums of every
-  // item it misses: contiguous runs of exact integer sums (adding 0 changes none).
+  // weight where a is answered, weight × answer, weight × square. Item a's answers are read at the
+  // rows each item misses (a gather along a's own column): exact integer sums, in any order.
   const lessWeight = new Float64Array(order * order);
   const lessX = new Float64Array(order * order);
   const lessXX = new Float64Array(order * order);
   if (hasMissing) {
-    const rowWeight = new Float64Array(order);
-    const rowX = new Float64Array(order);
-    const rowXX = new Float64Array(order);
-    const missed = new Int32Array(order);
-    for (let t = 0; t < distinct; t++) {
-      if (missesInRow[t] === 0) continue;
-      const weight = w[t];
-      let count = 0;
-      for (let a = 0; a < order; a++) {
-        const x = values[a][t];
-        if (x !== x) {
-          missed[count++] = a;
-          rowWeight[a] = 0;
-          rowX[a] = 0;
-          rowXX[a] = 0;
-        } else {
-          const weightX = weight * x;
-          rowWeight[a] = weight;
-          rowX[a] = weightX;
-          rowXX[a] = weightX * x;
+    for (let a = 0; a < order; a++) {
+      const column = values[a];
+      const weighted = a * distinct;
+      for (let b = 0; b < order; b++) {
+        const last = missingStart[b + 1];
+        if (missingStart[b] === last) continue;
+        let sw = 0;
+        let sx = 0;
+        let sxx = 0;
+        for (let m = missingStart[b]; m < last; m++) {
+          const t = missingRows[m];
+          const x = column[t];
+          if (x !== x) continue;
+          const weightX = wx[weighted + t];
+          sw += w[t];
+          sx += weightX;
+          sxx += weightX * x;
         }
-      }
-      for (let k = 0; k < count; k++) {
-        const offset = missed[k] * order;
-        for (let a = 0; a < order; a++) {
-          lessWeight[offset + a] += rowWeight[a];
-          lessX[offset + a] += rowX[a];
-          lessXX[offset + a] += rowXX[a];
-        }
+        lessWeight[b * order + a] = sw;
+        lessX[b * order + a] = sx;
+        lessXX[b * order + a] = sxx;
       }
     }
   }
