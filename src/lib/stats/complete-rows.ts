@@ -3,6 +3,7 @@
  * listwise deletion, the Belsley-Kuh-Welsch data matrix and the respondents counted for
  * pairwise statistics. One place, so every statistic counts rows the same way.
  */
+import { columnSumIsFinite } from './item-matrix-input';
 import type { ItemMatrix } from './types';
 
 /**
@@ -22,9 +23,7 @@ export function completeRows(matrix: ItemMatrix, caller?: string): number[] {
   const missing = new Uint8Array(rows);
   for (let j = 0; j < columns; j++) {
     const offset = j * rows;
-    let sum = 0;
-    for (let i = 0; i < rows; i++) sum += data[offset + i];
-    if (Number.isFinite(sum)) continue;
+    if (columnSumIsFinite(data, offset, rows)) continue;
     for (let i = 0; i < rows; i++) {
       const value = data[offset + i];
       if (value !== value) missing[i] = 1;
