@@ -28,7 +28,8 @@ export function longStringIndex(answers: ItemMatrix): number[] {
       for (let b = 0; b < length; b++) {
         const value = data[offset + b];
         if (Number.isNaN(value)) continue;
-        const current = value === previous[b] ? run[b] + 1 : 1;
+        // run + 1 after the same answer, else 1, without a branch (random answers mispredict it).
+        const current = (((value === previous[b]) as unknown as number) | 0) * run[b] + 1;
         run[b] = current;
         previous[b] = value;
         if (current > longest[b]) longest[b] = current;
