@@ -211,24 +211,6 @@ describe('usableItems', () => {
     ]);
     expect(matrix.data).toEqual(before);
   });
-
-  it('gives a resample read through weights the verdicts of the resample itself', () => {
-    const matrix = itemMatrixFromColumns([
-      [1, 2, 3, 4],
-      [2, 2, NaN, 5],
-      [NaN, 7, NaN, NaN],
-      [4, 3, 4, 3],
-    ]);
-    // Rows 1 and 2 drawn twice each: item 1 is then constant (2, 2), item 2 has 7 twice (constant, not a single answer).
-    const drawn = [1, 1, 2, 2];
-    const weights = Float64Array.of(0, 2, 2, 0);
-    const direct = usableItems(selectRespondents(matrix, drawn));
-    const weighted = usableItems(matrix, weights);
-    expect(weighted).toEqual(direct);
-    expect(weighted.refused).toEqual([1, 2]);
-    expect(weighted.notices.map((notice) => notice.code)).toEqual(['constant-item', 'constant-item']);
-    expect(() => usableItems(matrix, Float64Array.of(1, 1))).toThrow(/2 weights for 4 rows/);
-  });
 });
 
 describe('correlationMatrix with cross-products from the caller', () => {

@@ -1,7 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { itemDescriptives } from '../../src/lib/stats/item-descriptives';
-import { createSeededRandom } from '../../src/lib/stats/seeded-random';
-import { itemMatrixFromColumns, selectRespondents } from '../../src/lib/stats/types';
+import { itemMatrixFromColumns } from '../../src/lib/stats/types';
 import { correlationDatasets, datasetMatrix } from './correlation-fixtures';
 
 describe('itemDescriptives', () => {
@@ -56,33 +55,6 @@ describe('itemDescriptives', () => {
     expect(none).toMatchObject({ n: 0, missing: 3, missingRate: 1, mean: null, standardDeviation: null, floorShare: null, floorEffect: false });
     expect(one).toMatchObject({ n: 1, mean: 4, standardDeviation: null, floorShare: 1, ceilingShare: 1 });
     expect(one.missingRate).toBeCloseTo(2 / 3, 15);
-  });
-
-  it('reads a bootstrap resample from weights on the original rows as it reads the resample itself', () => {
-    // Rating answers with gaps; a resample draws rows with replacement. Counts, shares, extremes
-    // and the mean of integer answers are exact either way (Object.is); the spread agrees to rounding.
-    const random = createSeededRandom(41);
-    const rows = 300;
-    const columns = Array.from({ length: 6 }, (_, j) => Array.from({ length: rows }, () => (random.next() < 0.08 ? NaN : 1 + Math.floor(random.next() * (j === 5 ? 1 : 5)))));
-    const matrix = itemMatrixFromColumns(columns);
-    const ranges = columns.map((_, j) => (j === 0 ? null : { min: 1, max: 5 }));
-    for (let resample = 0; resample < 5; resample++) {
-      const drawn = Array.from({ length: rows }, () => random.nextInt(rows));
-      const weights = new Float64Array(rows);
-      for (const i of drawn) weights[i]++;
-      const direct = itemDescriptives(selectRespondents(matrix, drawn), { ranges });
-      const weighted = itemDescriptives(matrix, { ranges, weights });
-      direct.forEach((expected, j) => {
-        const { standardDeviation, ...exact } = weighted[j];
-        const { standardDeviation: expectedSd, ...expectedExact } = expected;
-        for (const key of Object.keys(expectedExact) as (keyof typeof expectedExact)[]) {
-          expect(Object.is(exact[key], expectedExact[key]), `resample ${resample}, item ${j}, ${key}`).toBe(true);
-        }
-        if (expectedSd === null) expect(standardDeviation).toBeNull();
-        else expect(Math.abs((standardDeviation as number) - expectedSd)).toBeLessThan(1e-13);
-      });
-    }
-    expect(() => itemDescriptives(matrix, { weights: new Float64Array(rows - 1) })).toThrow(/weights must have one entry per row/);
   });
 
   it('checks its inputs', () => {

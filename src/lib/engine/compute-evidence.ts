@@ -65,8 +65,7 @@ export interface ComputeEvidenceOptions {
   /**
    * The matrix is a bootstrap resample of `resampleOf.matrix`, drawing row i `weights[i]` times:
    * Pearson correlations and covariances then come from the weighted original rows in one pass
-   * (weighted-pearson.ts) instead of two passes over the resample, and the item verdicts and
-   * descriptives from the weighted rows too (item-descriptives.ts).
+   * (weighted-pearson.ts) instead of two passes over the resample.
    */
   readonly resampleOf?: { readonly matrix: ItemMatrix; readonly weights: Float64Array };
 }
@@ -245,16 +244,12 @@ export function computeEvidence(
   checkEngineItems(matrix, items, 'computeEvidence');
   const detail = options.detail ?? 'full';
   const warnings: EngineWarning[] = [];
-  // A resample's item verdicts and descriptives are read from the original rows with the
-  // resample's weights (the same counts and shares; the spread to rounding, which no decision reads).
-  const resampleOf = options.resampleOf;
-  const usableResult = resampleOf === undefined ? usableItems(matrix) : usableItems(resampleOf.matrix, resampleOf.weights);
+  const usableResult = usableItems(matrix);
   warnings.push(...warningsFromNotices(usableResult.notices, items, items.map((_, j) => j)));
   const usable = [...usableResult.usable];
 
-  const descriptives: ItemDescriptives[] = itemDescriptives(resampleOf?.matrix ?? matrix, {
+  const descriptives: ItemDescriptives[] = itemDescriptives(matrix, {
     ranges: items.map((item) => (item.min === null || item.max === null ? null : { min: item.min, max: item.max })),
-    ...(resampleOf === undefined ? {} : { weights: resampleOf.weights }),
   }).map((entry) => ({
     n: entry.n,
     mean: entry.mean,
@@ -277,6 +272,7 @@ export function computeEvidence(
   }
 
   let data = usable.length === items.length ? matrix : selectItems(matrix, usable);
+  const resampleOf = options.resampleOf;
   const weightedMoments = (columns: readonly number[]) =>
     resampleOf === undefined || settings.method !== 'pearson' ? null : weightedPearson(resampleOf.matrix, resampleOf.weights, columns, settings.missing, 'none');
   let moments = weightedMoments(usable);

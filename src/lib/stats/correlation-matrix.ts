@@ -121,17 +121,13 @@ export interface UsableItems {
  * are not all equal. Refused items are reported, one notice each; the caller drops them
  * (`selectItems`) before correlating.
  * @param matrix Respondents × items, NaN for missing.
- * @param weights How often each row counts (a bootstrap resample as weights on the rows, read
- *   without building it; the verdicts are those of the resampled matrix); default once each.
- * @throws {RangeError} when the matrix shape is inconsistent, a value is ±Infinity, or the
- *   weights do not have one entry per row.
+ * @throws {RangeError} when the matrix shape is inconsistent or a value is ±Infinity.
  * @returns The usable and refused item indices with the notices.
  * References: methods.md §1 (constant items cannot enter a correlation matrix).
  */
-export function usableItems(matrix: ItemMatrix, weights?: Float64Array): UsableItems {
+export function usableItems(matrix: ItemMatrix): UsableItems {
   checkItemMatrix(matrix, 'usableItems');
   const { rows, columns, data } = matrix;
-  if (weights !== undefined && weights.length !== rows) throw new RangeError(`usableItems: ${weights.length} weights for ${rows} rows`);
   const usable: number[] = [];
   const refused: number[] = [];
   const notices: NumericalNotice[] = [];
@@ -142,10 +138,10 @@ export function usableItems(matrix: ItemMatrix, weights?: Float64Array): UsableI
     const offset = j * rows;
     for (let i = 0; i < rows; i++) {
       const value = data[offset + i];
-      if (value !== value || (weights !== undefined && weights[i] === 0)) continue;
+      if (value !== value) continue;
       if (observed === 0) first = value;
       else if (value !== first) varies = true;
-      observed += weights === undefined ? 1 : weights[i];
+      observed++;
       // Two answers that differ settle it: the rest of the column cannot change the verdict.
       if (varies) break;
     }

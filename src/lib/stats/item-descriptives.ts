@@ -51,23 +51,14 @@ export interface ItemDescriptive {
 export interface ItemDescriptivesOptions {
   /** One valid range per item (null: use the observed extremes). */
   readonly ranges?: readonly (ItemRange | null)[];
-  /**
-   * How often each row counts (non-negative integers, one per row): a bootstrap resample as
-   * weights on the original rows, read without building it. Counts, shares, extremes and the
-   * mean of integer answers are those of the resampled matrix exactly; the standard deviation
-   * agrees to rounding (each row's square is weighted, not repeated).
-   */
-  readonly weights?: Float64Array;
 }
 
 /**
  * Per-item descriptives of a response matrix.
  * @param matrix Respondents × items, column-major, NaN for missing.
- * @param options `ranges`: a valid range per item, or null for an item without one; `weights`:
- *   how often each row counts (a bootstrap resample), else once.
+ * @param options `ranges`: a valid range per item, or null for an item without one.
  * @throws {RangeError} when the shape is inconsistent, a value is ±Infinity, `ranges` does not
- *   have one entry per item, a range is not finite with min < max, or `weights` does not have
- *   one entry per row.
+ *   have one entry per item, or a range is not finite with min < max.
  * @returns One entry per item, in item order. Never NaN.
  * References: Terwee et al. 2007, "Quality criteria were proposed for measurement properties of
  * health status questionnaires".
@@ -86,23 +77,6 @@ export function itemDescriptives(matrix: ItemMatrix, options: ItemDescriptivesOp
       throw new RangeError(`${caller}: the range of item ${j} must be finite with min < max, got ${range.min} to ${range.max}`);
     }
   });
-  const weights = options.weights;
-  if (weights !== undefined && weights.length !== rows) throw new RangeError(`${caller}: weights must have one entry per row (${rows}), got ${weights.length}`);
-  // With weights, the resample's size (Σ weights: as many draws as rows) and the drawn rows.
-  let respondents = rows;
-  let drawn: Int32Array | null = null;
-  if (weights !== undefined) {
-    respondents = 0;
-    let count = 0;
-    for (let i = 0; i < rows; i++) if (weights[i] > 0) count++;
-    drawn = new Int32Array(count);
-    for (let i = 0, t = 0; i < rows; i++) {
-      if (weights[i] > 0) {
-        drawn[t++] = i;
-        respondents += weights[i];
-      }
-    }
-  }
   const result: ItemDescriptive[] = [];
   for (let j = 0; j < columns; j++) {
     const values = data.subarray(j * rows, (j + 1) * rows);
@@ -110,33 +84,20 @@ export function itemDescriptives(matrix: ItemMatrix, options: ItemDescriptivesOp
     let sum = 0;
     let minimum = Infinity;
     let maximum = -Infinity;
-    if (drawn === null) {
-      for (let i = 0; i < rows; i++) {
-        const value = values[i];
-        if (value !== value) continue;
-        n++;
-        sum += value;
-        if (value < minimum) minimum = value;
-        if (value > maximum) maximum = value;
-      }
-    } else {
-      for (let t = 0; t < drawn.length; t++) {
-        const i = drawn[t];
-        const value = values[i];
-        if (value !== value) continue;
-        const weight = (weights as Float64Array)[i];
-        n += weight;
-        sum += weight * value;
-        if (value < minimum) minimum = value;
-        if (value > maximum) maximum = value;
-      }
+    for (let i = 0; i < rows; i++) {
+      const value = values[i];
+      if (value !== value) continue;
+      n++;
+      sum += value;
+      if (value < minimum) minimum = value;
+      if (value > maximum) maximum = value;
     }
     // An infinite answer makes the sum infinite or NaN: only then is the item searched for it (a
     // test per answer in the loop above costs more than the loop).
     if (sum - sum !== 0) refuseInfiniteAnswer(values, j, caller);
     const range = ranges?.[j] ?? null;
-    const missing = respondents - n;
-    const missingRate = respondents === 0 ? 0 : missing / respondents;
+    const missing = rows - n;
+    const missingRate = rows === 0 ? 0 : missing / rows;
     if (n === 0) {
       result.push({
         n, missing, missingRate, mean: null, standardDeviation: null, minimum: null, maximum: null,
@@ -155,27 +116,14 @@ export function itemDescriptives(matrix: ItemMatrix, options: ItemDescriptivesOp
     // Without a range nothing is out of it: the bounds that no answer passes.
     const low = range === null ? -Infinity : range.min;
     const high = range === null ? Infinity : range.max;
-    if (drawn === null) {
-      for (let i = 0; i < rows; i++) {
-        const value = values[i];
-        if (value !== value) continue;
-        squares += (value - mean) * (value - mean);
-        // Counted without branches: on rating answers a branch per category mispredicts often.
-        atFloor += ((value === floorValue) as unknown as number) | 0;
-        atCeiling += ((value === ceilingValue) as unknown as number) | 0;
-        outOfRange += (((value < low) as unknown as number) | ((value > high) as unknown as number)) | 0;
-      }
-    } else {
-      for (let t = 0; t < drawn.length; t++) {
-        const i = drawn[t];
-        const value = values[i];
-        if (value !== value) continue;
-        const weight = (weights as Float64Array)[i];
-        squares += weight * ((value - mean) * (value - mean));
-        if (value === floorValue) atFloor += weight;
-        if (value === ceilingValue) atCeiling += weight;
-        if (value < low || value > high) outOfRange += weight;
-      }
+    for (let i = 0; i < rows; i++) {
+      const value = values[i];
+      if (value !== value) continue;
+      squares += (value - mean) * (value - mean);
+      // Counted without branches: on rating answers a branch per category mispredicts often.
+      atFloor += ((value === floorValue) as unknown as number) | 0;
+      atCeiling += ((value === ceilingValue) as unknown as number) | 0;
+      outOfRange += (((value < low) as unknown as number) | ((value > high) as unknown as number)) | 0;
     }
     const floorShare = atFloor / n;
     const ceilingShare = atCeiling / n;
