@@ -60,64 +60,35 @@ export function weightedPearson(
       w[t++] = weights[i];
     }
   }
-  // The drawn rows of each item, which of them answer any item, and whether every answer is an
-  // integer (and any negative) with the largest |answer|.
-  const answersAny = new Uint8Array(distinct);
-  let hasMissing = false;
-  let integral = true;
-  let negative = false;
-  let largest = 0;
-  const values: Float64Array[] = columns.map((j) => {
-    const column = new Float64Array(distinct);
-    const source = j * rows;
-    for (let t = 0; t < distinct; t++) {
-      const x = matrix.data[source + drawn[t]];
-      column[t] = x;
-      if (x === x) {
-        answersAny[t] = 1;
-        if (integral && !Number.isInteger(x)) integral = false;
-        const magnitude = x < 0 ? -x : x;
-        if (magnitude > largest) largest = magnitude;
-        if (x < 0) negative = true;
-      } else {
-        hasMissing = true;
-      }
-    }
-    return column;
-  });
   let total = 0;
-  let withAnswer = 0;
-  for (let t = 0; t < distinct; t++) {
-    total += w[t];
-    if (answersAny[t] === 1) withAnswer += w[t];
-  }
-  if (missing === 'listwise' && hasMissing) return null;
-
-  const r = new Float64Array(order * order);
-  const rN = new Float64Array(order * order);
-  const cov = new Float64Array(order * order);
-  const covN = new Float64Array(order * order);
-  const undefinedR: ItemPair[] = [];
-  const undefinedCov: [number, number][] = [];
-  if (integral && total * Math.max(1, largest) < EXACT_INTEGER_SCALE) {
-    integerPairs(values, w, hasMissing, total, negative ? -1 : largest, {
-      r,
-      rN,
-      cov,
-      covN,
-      undefinedR,
-      undefinedCov,
-    });
+  for (let t = 0; t < distinct; t++) total += w[t];
+  const out: PairTargets = {
+    r: new Float64Array(order * order),
+    rN: new Float64Array(order * order),
+    cov: new Float64Array(order * order),
+    covN: new Float64Array(order * order),
+    undefinedR: [],
+    undefinedCov: [],
+  };
+  // Whether every answer is an integer (any negative, the largest |answer|): read from the whole
+  // matrix, found once per matrix, when that already allows the integer path (a resample's
+  // answers are some of the matrix's); otherwise from the drawn rows of the listed items.
+  const whole = answerTraits(matrix);
+  const traits = whole.integral && total * Math.max(1, whole.largest) < EXACT_INTEGER_SCALE ? whole : drawnAnswerTraits(matrix, columns, drawn);
+  let hasMissing: boolean;
+  let withAnswer: number;
+  if (traits.integral && total * Math.max(1, traits.largest) < EXACT_INTEGER_SCALE) {
+    const filled = fillIntegerColumns(matrix, columns, drawn, w, traits.negative ? 1 : packedLanes(total * traits.largest * traits.largest));
+    if (missing === 'listwise' && filled.hasMissing) return null;
+    ({ hasMissing, withAnswer } = filled);
+    integerPairs(filled, total, out);
   } else {
-    twoPassPairs(values, w, hasMissing, total, {
-      r,
-      rN,
-      cov,
-      covN,
-      undefinedR,
-      undefinedCov,
-    });
+    const drawnValues = drawnColumns(matrix, columns, drawn, w);
+    if (missing === 'listwise' && drawnValues.hasMissing) return null;
+    ({ hasMissing, withAnswer } = drawnValues);
+    twoPassPairs(drawnValues.values, w, hasMissing, total, out);
   }
+  const { r, rN, cov, covN, undefinedR, undefinedCov } = out;
   const rowsUsed = missing === 'listwise' ? total : withAnswer;
   const correlation = finishCorrelationMatrix(
     {
@@ -193,40 +164,127 @@ function recordPairCount(out: PairTargets, order: number, a: number, b: number, 
   return false;
 }
 
+/** Whether answers are all integers, any is negative, and the largest |answer| (0 without answers). */
+interface AnswerTraits {
+  readonly integral: boolean;
+  readonly negative: boolean;
+  readonly largest: number;
+}
+
+/** answerTraits of each matrix seen, by its data (a bootstrap's resamples share one matrix). */
+const wholeMatrixTraits = new WeakMap<Float64Array, AnswerTraits>();
+
+/** The traits of every observed answer of the matrix, found once per matrix. */
+function answerTraits(matrix: ItemMatrix): AnswerTraits {
+  const known = wholeMatrixTraits.get(matrix.data);
+  if (known !== undefined) return known;
+  const traits = traitsOf(matrix.data, 0, matrix.data.length, null);
+  wholeMatrixTraits.set(matrix.data, traits);
+  return traits;
+}
+
+/** The traits of the drawn rows of the listed items. */
+function drawnAnswerTraits(matrix: ItemMatrix, columns: readonly number[], drawn: Int32Array): AnswerTraits {
+  let integral = true;
+  let negative = false;
+  let largest = 0;
+  for (const j of columns) {
+    const traits = traitsOf(matrix.data, j * matrix.rows, drawn.length, drawn);
+    integral &&= traits.integral;
+    negative ||= traits.negative;
+    largest = Math.max(largest, traits.largest);
+  }
+  return { integral, negative, largest };
+}
+
+/** Traits of `count` values from `offset` on: consecutive, or at `offset + rows[t]` when rows are given. */
+function traitsOf(data: Float64Array, offset: number, count: number, rows: Int32Array | null): AnswerTraits {
+  let integral = true;
+  let negative = false;
+  let largest = 0;
+  for (let t = 0; t < count; t++) {
+    const x = data[offset + (rows === null ? t : rows[t])];
+    if (x !== x) continue;
+    if (integral && !Number.isInteger(x)) integral = false;
+    const magnitude = x < 0 ? -x : x;
+    if (magnitude > largest) largest = magnitude;
+    if (x < 0) negative = true;
+  }
+  return { integral, negative, largest };
+}
+
+/** The drawn rows of each listed item (NaN where missing), whether any is missing, and the weight of the rows that answer any. */
+function drawnColumns(matrix: ItemMatrix, columns: readonly number[], drawn: Int32Array, w: Float64Array): { values: Float64Array[]; hasMissing: boolean; withAnswer: number } {
+  const distinct = drawn.length;
+  const answersAny = new Uint8Array(distinct);
+  let hasMissing = false;
+  const values = columns.map((j) => {
+    const column = new Float64Array(distinct);
+    const source = j * matrix.rows;
+    for (let t = 0; t < distinct; t++) {
+      const x = matrix.data[source + drawn[t]];
+      column[t] = x;
+      if (x === x) answersAny[t] = 1;
+      else hasMissing = true;
+    }
+    return column;
+  });
+  return { values, hasMissing, withAnswer: weightWithAnswer(answersAny, w) };
+}
+
+/** Σ w over the rows marked as answering some item. */
+function weightWithAnswer(answersAny: Uint8Array, w: Float64Array): number {
+  let withAnswer = 0;
+  for (let t = 0; t < answersAny.length; t++) if (answersAny[t] === 1) withAnswer += w[t];
+  return withAnswer;
+}
+
+/** The integer path's per-item blocks and totals (see `fillIntegerColumns`). */
+interface IntegerColumns {
+  readonly data: Float64Array;
+  /** Where each listed item starts in `data`. */
+  readonly sources: Int32Array;
+  readonly drawn: Int32Array;
+  readonly w: Float64Array;
+  readonly lanes: 1 | 2 | 3;
+  /** Weight × answer per item block (0 where missing), blocks padded to tiles of three items. */
+  readonly wx: Float64Array;
+  /** The answers packed `lanes` to a double. */
+  readonly packed: Float64Array;
+  /** Each item's totals where answered: weight, weight × answer, weight × square. */
+  readonly totalWeight: Float64Array;
+  readonly totalX: Float64Array;
+  readonly totalXX: Float64Array;
+  /** The drawn rows (positions t) each item misses, item a's from missingStart[a] to missingStart[a + 1]. */
+  readonly missingStart: Int32Array;
+  readonly missingRows: Int32Array;
+  readonly hasMissing: boolean;
+  readonly withAnswer: number;
+}
+
 /**
- * Integer answers (rating scales): the six sums of a pair are exact integers, so they may be
- * taken in any grouping, and n·Σxy − ΣxΣy (exact) gives the centred products to one rounding.
- * With the mask M (1 where answered), X₀ (answers, 0 where missing) and the weights w, the pair
- * sums over the rows where both answered are masked cross-products: Σ w·x·y = (w∘X₀)ᵀX₀, and the
- * weight, Σ w·x and Σ w·x² of an item where its partner answered are its totals less
- * (w∘M)ᵀ(1 − M), (w∘X₀)ᵀ(1 − M) and (w∘X₀∘X₀)ᵀ(1 − M), the complement of the mask being sparse
- * (as in masked-cross-products.ts), taken row by row over the rows that miss an answer. Exact sums
- * make this bit for bit the one-pass pair loop.
+ * One pass over the drawn rows of each listed item, straight from the matrix: weight × answer,
+ * the packed answers, the item's totals, the rows it misses, and which rows answer any item.
+ * @param lanes Items per double in `packed` (1 when an answer may be negative).
  */
-function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissing: boolean, total: number, largest: number, out: PairTargets): void {
-  const order = values.length;
-  const distinct = w.length;
-  const { r, cov, undefinedR } = out;
-  // Non-negative answers may share a double in the products (packedLanes); `largest` is -1 with a negative answer.
-  const negative = largest < 0;
-  const lanes = negative ? 1 : packedLanes(total * largest * largest);
-  // Per item, one block each: weight × answer (0 where missing; blocks padded with zero items to
-  // the kernel's tiles of three), the answers packed `lanes` to a double, and the item's totals
-  // where answered of the weight, weight × answer and weight × square; how many items each row misses.
+function fillIntegerColumns(matrix: ItemMatrix, columns: readonly number[], drawn: Int32Array, w: Float64Array, lanes: 1 | 2 | 3): IntegerColumns {
+  const order = columns.length;
+  const distinct = drawn.length;
+  const data = matrix.data;
+  const sources = Int32Array.from(columns, (j) => j * matrix.rows);
   const rowsPadded = Math.ceil(order / 3) * 3;
   const groups = Math.ceil(order / lanes);
-  const groupsPadded = groups + 3;
   const wx = new Float64Array(rowsPadded * distinct);
-  const packed = new Float64Array(groupsPadded * distinct);
+  const packed = new Float64Array((groups + 3) * distinct);
   const totalWeight = new Float64Array(order);
   const totalX = new Float64Array(order);
   const totalXX = new Float64Array(order);
-  // The rows each item misses, item after item (item a's from missingStart[a] to missingStart[a + 1]).
+  const answersAny = new Uint8Array(distinct);
   const missingStart = new Int32Array(order + 1);
-  let missingRows = new Int32Array(hasMissing ? 64 : 0);
+  let missingRows = new Int32Array(64);
   let missingCount = 0;
   for (let a = 0; a < order; a++) {
-    const column = values[a];
+    const source = sources[a];
     const offset = a * distinct;
     const lane = (Math.floor(a / lanes) * distinct) | 0;
     const shift = 2 ** ((lanes === 2 ? PACKED_PAIR_BITS : PACKED_LANE_BITS) * (a % lanes));
@@ -234,7 +292,7 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
     let sx = 0;
     let sxx = 0;
     for (let t = 0; t < distinct; t++) {
-      const x = column[t];
+      const x = data[source + drawn[t]];
       if (x !== x) {
         if (missingCount === missingRows.length) {
           const grown = new Int32Array(2 * missingRows.length);
@@ -244,6 +302,7 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
         missingRows[missingCount++] = t;
         continue;
       }
+      answersAny[t] = 1;
       wx[offset + t] = w[t] * x;
       packed[lane + t] += x * shift;
       sw += w[t];
@@ -255,6 +314,28 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
     totalXX[a] = sxx;
     missingStart[a + 1] = missingCount;
   }
+  return {
+    data, sources, drawn, w, lanes, wx, packed, totalWeight, totalX, totalXX, missingStart, missingRows,
+    hasMissing: missingCount > 0,
+    withAnswer: weightWithAnswer(answersAny, w),
+  };
+}
+
+/**
+ * Integer answers (rating scales): the six sums of a pair are exact integers, so they may be
+ * taken in any grouping, and n·Σxy − ΣxΣy (exact) gives the centred products to one rounding.
+ * With the mask M (1 where answered), X₀ (answers, 0 where missing) and the weights w, the pair
+ * sums over the rows where both answered are masked cross-products: Σ w·x·y = (w∘X₀)ᵀX₀, and the
+ * weight, Σ w·x and Σ w·x² of an item where its partner answered are its totals less
+ * (w∘M)ᵀ(1 − M), (w∘X₀)ᵀ(1 − M) and (w∘X₀∘X₀)ᵀ(1 − M), the complement of the mask being sparse
+ * (as in masked-cross-products.ts), taken over the rows each item misses. Exact sums make this
+ * bit for bit the one-pass pair loop, whatever the number of lanes.
+ */
+function integerPairs(columns: IntegerColumns, total: number, out: PairTargets): void {
+  const { data, sources, drawn, w, lanes, wx, packed, totalWeight, totalX, totalXX, missingStart, missingRows, hasMissing } = columns;
+  const order = totalWeight.length;
+  const distinct = w.length;
+  const { r, cov, undefinedR } = out;
   // Σ w·x·y over every distinct row (0 where either is missing): (w∘X₀)ᵀX₀ by the blocked kernel.
   const products = new Float64Array(order * order);
   weightedIntegerProducts(wx, packed, order, distinct, lanes, products);
@@ -266,7 +347,7 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
   const lessXX = new Float64Array(order * order);
   if (hasMissing) {
     for (let a = 0; a < order; a++) {
-      const column = values[a];
+      const source = sources[a];
       const weighted = a * distinct;
       for (let b = 0; b < order; b++) {
         const last = missingStart[b + 1];
@@ -276,7 +357,7 @@ function integerPairs(values: readonly Float64Array[], w: Float64Array, hasMissi
         let sxx = 0;
         for (let m = missingStart[b]; m < last; m++) {
           const t = missingRows[m];
-          const x = column[t];
+          const x = data[source + drawn[t]];
           if (x !== x) continue;
           const weightX = wx[weighted + t];
           sw += w[t];
