@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { checkItemMatrix, columnSumIsFinite } from '../../src/lib/stats/item-matrix-input';
+import { answeredSumIsFinite, checkItemMatrix, columnSumIsFinite } from '../../src/lib/stats/item-matrix-input';
 
 const matrix = (columns: number[][]) => ({ rows: columns[0].length, columns: columns.length, data: Float64Array.from(columns.flat()) });
 
@@ -40,5 +40,21 @@ describe('columnSumIsFinite', () => {
       }
     }
     expect(columnSumIsFinite(new Float64Array(0), 0, 0)).toBe(true);
+  });
+});
+
+describe('answeredSumIsFinite', () => {
+  it('passes missing answers and finds an infinite one wherever it sits', () => {
+    const rows = 11;
+    const withGaps = Float64Array.from({ length: rows }, (_, i) => (i % 3 === 0 ? Number.NaN : i));
+    expect(answeredSumIsFinite(withGaps, 0, rows)).toBe(true);
+    for (let at = 0; at < rows; at++) {
+      for (const bad of [Number.POSITIVE_INFINITY, Number.NEGATIVE_INFINITY]) {
+        const data = Float64Array.from(withGaps);
+        data[at] = bad;
+        expect(answeredSumIsFinite(data, 0, rows), `value ${bad} at ${at}`).toBe(false);
+      }
+    }
+    expect(answeredSumIsFinite(Float64Array.of(Number.NaN, Number.NaN), 0, 2)).toBe(true);
   });
 });
