@@ -187,6 +187,24 @@ describe('schurVifAfterRemoval', () => {
   });
 });
 
+describe('eigenVifAfterRemoval', () => {
+  it('answers a removed set asked again (in any order) with the values a fresh oracle gives', () => {
+    const testCase = generated(8);
+    const evidence = computeEvidence(testCase.matrix, testCase.items, testCase.settings, { detail: 'decision', localDependence: false });
+    const oracle = eigenVifAfterRemoval(evidence);
+    const removed = evidence.usable.slice(0, 3);
+    const of = evidence.usable.slice(3, 9);
+    const first = oracle(removed, of);
+    const again = oracle([...removed].reverse(), [...of].reverse());
+    expect(again).toEqual([...first].reverse());
+    expect(oracle(removed, of)).toEqual(eigenVifAfterRemoval(evidence)(removed, of));
+    // Another set is another decomposition, not the one kept.
+    const other = oracle(removed.slice(1), of);
+    expect(other).not.toEqual(first);
+    expect(other).toEqual(eigenVifAfterRemoval(evidence)(removed.slice(1), of));
+  });
+});
+
 describe('bootstrapStability', () => {
   it('gives the shares of the reference resamples, on the calling thread and through a runner', async () => {
     const testCase = generated(8);

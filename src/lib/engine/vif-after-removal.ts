@@ -32,25 +32,35 @@ function positionsOf(evidence: EngineEvidence): number[] {
 }
 
 /**
- * VIF after removal through one eigen-decomposition of the reduced matrix per call.
+ * VIF after removal through one eigen-decomposition of the reduced matrix per removed set (kept
+ * for the oracle's life: a cluster's keeper score and its recommendation's `vifAfter` often ask
+ * about the same set).
  * @param evidence The engine's evidence (its correlation matrix over `usable`).
  * @returns The oracle.
  * References: Marquardt 1970 (VIF as the diagonal of R⁻¹).
  */
 export function eigenVifAfterRemoval(evidence: EngineEvidence): VifAfterRemoval {
   const position = positionsOf(evidence);
+  const known = new Map<string, { kept: number[]; vif: (number | null)[] }>();
   return (removed, of) => {
-    const gone = new Set(removed);
-    const kept = evidence.usable.filter((item) => !gone.has(item));
-    const result = varianceInflation(
-      principalSubmatrix(
-        evidence.correlation,
-        kept.map((item) => position[item]),
-      ),
-    ).items;
+    const key = [...new Set(removed)].sort((a, b) => a - b).join(',');
+    let entry = known.get(key);
+    if (entry === undefined) {
+      const gone = new Set(removed);
+      const kept = evidence.usable.filter((item) => !gone.has(item));
+      const items = varianceInflation(
+        principalSubmatrix(
+          evidence.correlation,
+          kept.map((item) => position[item]),
+        ),
+      ).items;
+      entry = { kept, vif: items.map((item) => item.vif) };
+      known.set(key, entry);
+    }
+    const { kept, vif } = entry;
     return of.map((item) => {
       const k = kept.indexOf(item);
-      return k < 0 ? null : result[k].vif;
+      return k < 0 ? null : vif[k];
     });
   };
 }
