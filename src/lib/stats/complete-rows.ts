@@ -3,7 +3,6 @@
  * listwise deletion, the Belsley-Kuh-Welsch data matrix and the respondents counted for
  * pairwise statistics. One place, so every statistic counts rows the same way.
  */
-import { columnSumIsFinite } from './item-matrix-input';
 import type { ItemMatrix } from './types';
 
 /**
@@ -23,7 +22,9 @@ export function completeRows(matrix: ItemMatrix, caller?: string): number[] {
   const missing = new Uint8Array(rows);
   for (let j = 0; j < columns; j++) {
     const offset = j * rows;
-    if (columnSumIsFinite(data, offset, rows)) continue;
+    let sum = 0;
+    for (let i = 0; i < rows; i++) sum += data[offset + i];
+    if (Number.isFinite(sum)) continue;
     for (let i = 0; i < rows; i++) {
       const value = data[offset + i];
       if (value !== value) missing[i] = 1;

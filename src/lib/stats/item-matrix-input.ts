@@ -27,71 +27,12 @@ export function checkItemMatrix(matrix: ItemMatrix, caller: string, infinities =
   if (!infinities) return;
   for (let j = 0; j < columns; j++) {
     const offset = j * rows;
-    // A finite sum of the answers (missing ones counted as 0) rules out an infinite answer; only
+    // A finite column sum rules out NaN and infinity at once (the common, complete case); only
     // otherwise is each value looked at.
-    if (!answeredSumIsFinite(data, offset, rows)) refuseInfiniteAnswer(data.subarray(offset, offset + rows), j, caller);
+    let sum = 0;
+    for (let i = 0; i < rows; i++) sum += data[offset + i];
+    if (sum - sum !== 0) refuseInfiniteAnswer(data.subarray(offset, offset + rows), j, caller);
   }
-}
-
-/**
- * Whether a column's values sum to a finite number: true rules out NaN and infinity at once (a
- * quick test before looking at each value; an overflowing sum of finite values answers false).
- * Four running sums instead of one, since only finiteness is read: the additions do not wait on
- * each other.
- * @param data Column-major values.
- * @param offset Index of the column's first value.
- * @param rows Values in the column.
- * @returns True when the sum is finite.
- * References: none (a screening test).
- */
-export function columnSumIsFinite(data: Float64Array, offset: number, rows: number): boolean {
-  const end = offset + rows;
-  let first = 0;
-  let second = 0;
-  let third = 0;
-  let fourth = 0;
-  let i = offset;
-  for (; i + 3 < end; i += 4) {
-    first += data[i];
-    second += data[i + 1];
-    third += data[i + 2];
-    fourth += data[i + 3];
-  }
-  for (; i < end; i++) first += data[i];
-  const sum = first + second + third + fourth;
-  return sum - sum === 0;
-}
-
-/**
- * Whether a column's answers sum to a finite number, a missing answer (NaN) counting as 0: true
- * rules out an infinite answer (an overflowing sum of finite answers answers false). Four
- * running sums, as in `columnSumIsFinite`.
- * @param data Column-major values.
- * @param offset Index of the column's first value.
- * @param rows Values in the column.
- * @returns True when the sum is finite.
- * References: none (a screening test).
- */
-export function answeredSumIsFinite(data: Float64Array, offset: number, rows: number): boolean {
-  const end = offset + rows;
-  let first = 0;
-  let second = 0;
-  let third = 0;
-  let fourth = 0;
-  let i = offset;
-  for (; i + 3 < end; i += 4) {
-    const a = data[i];
-    const b = data[i + 1];
-    const c = data[i + 2];
-    const d = data[i + 3];
-    first += a === a ? a : 0;
-    second += b === b ? b : 0;
-    third += c === c ? c : 0;
-    fourth += d === d ? d : 0;
-  }
-  for (; i < end; i++) if (data[i] === data[i]) first += data[i];
-  const sum = first + second + third + fourth;
-  return sum - sum === 0;
 }
 
 /**
