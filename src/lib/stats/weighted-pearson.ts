@@ -24,7 +24,9 @@ export interface WeightedPearsonResult {
 
 /**
  * Pearson correlation and covariance matrices of the weighted rows over the listed items.
- * @param matrix The original respondents × items (column-major, NaN for missing); not modified.
+ * @param matrix The original respondents × items (column-major, NaN for missing); not modified,
+ *   and not to be modified between calls either: whether its answers are all integers is found
+ *   once per matrix (by its data array) and kept (a bootstrap's resamples share one matrix).
  * @param weights How often each respondent is drawn (non-negative integers), one per row.
  * @param columns The items to correlate (0-based, ascending or not), at least one.
  * @param missing The missing-data policy.
