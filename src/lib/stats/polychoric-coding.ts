@@ -3,9 +3,8 @@
  * coded to category indices with its thresholds τ_k = Φ⁻¹(share at or below category k) from
  * all of its observed answers, and the contingency table of two coded items.
  *
- * WORKER NOTE: `countPolychoricTable` also runs inside the polychoric worker thread from its
- * source text (parallel/polychoric-worker.ts). Keep it a top-level function declaration that
- * refers only to its locals and typed arrays.
+ * bench/parallel/polychoric-worker.ts (a benchmark's kernel; the audit starts no such thread)
+ * runs `countPolychoricTable` in a worker thread from its source text.
  *
  * References: Olsson 1979, "Maximum likelihood estimation of the polychoric correlation
  * coefficient" (Psychometrika 44:443-460); Pearson & Pearson 1922, "On polychoric

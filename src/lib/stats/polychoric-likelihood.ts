@@ -4,17 +4,29 @@
  * thresholds, its analytic first and second derivatives, and the safeguarded Newton search for
  * the maximising ρ, with the scratch arrays they share.
  *
- * WORKER NOTE: `createPolychoricWorkspace`, `polychoricLikelihood` and `fitPolychoricTable`
- * also run inside the polychoric worker thread from their source text
- * (parallel/polychoric-worker.ts). Keep them top-level function declarations that refer only to
- * their locals, `Math`, typed arrays, each other and the bivariate normal functions.
+ * The workspace holds everything a likelihood evaluation writes (the grid's arrays, where it
+ * writes them, and the bivariate normal rule of the current ρ), so the many evaluations of a
+ * matrix allocate nothing. bench/parallel/polychoric-worker.ts (a benchmark's kernel, not the
+ * audit) also runs these functions in a worker thread from their source text.
  *
  * References: Olsson 1979, "Maximum likelihood estimation of the polychoric correlation
  * coefficient" (Psychometrika 44:443-460); Plackett 1954, "A reduction formula for normal
  * multivariate integrals" (Biometrika 41:351-360); Press et al. 2007, "Numerical Recipes",
  * 3rd ed., §9.4.
  */
-import { bivariateNormalGrid, type BivariateGridMargin } from './bivariate-normal-cdf';
+import { bivariateNormalGrid, createBivariateNormalRule, type BivariateGridMargin, type BivariateNormalRuleBuffer } from './bivariate-normal-cdf';
+
+/** Where a likelihood evaluation has `bivariateNormalGrid` write: the workspace's arrays, laid out per pair. */
+export interface PolychoricGridOutput {
+  readonly cdf: Float64Array;
+  readonly density: Float64Array;
+  readonly slope: Float64Array;
+  /** Set for each pair: the first interior corner and the row stride. */
+  offset: number;
+  stride: number;
+  /** The bivariate normal rule, prepared again only when ρ changes. */
+  readonly rule: BivariateNormalRuleBuffer;
+}
 
 /** Scratch arrays for one pair, reused across pairs (sized for the largest item). */
 export interface PolychoricWorkspace {
@@ -30,6 +42,8 @@ export interface PolychoricWorkspace {
   readonly slope: Float64Array;
   /** ℓ, ℓ′, ℓ″ and a validity flag (1 when every observed cell has positive probability). */
   readonly derivatives: Float64Array;
+  /** cdf, density and slope with their layout and the quadrature rule, handed to `bivariateNormalGrid`. */
+  readonly grid: PolychoricGridOutput;
 }
 
 /**
@@ -45,14 +59,18 @@ export function createPolychoricWorkspace(maxCategories: number): PolychoricWork
     throw new RangeError(`createPolychoricWorkspace: maxCategories must be an integer from 2 to 254, got ${maxCategories}`);
   }
   const side = maxCategories + 1;
+  const cdf = new Float64Array(side * side);
+  const density = new Float64Array(side * side);
+  const slope = new Float64Array(side * side);
   return {
     maxCategories,
     table: new Float64Array(side * side),
     corrected: new Float64Array(side * side),
-    cdf: new Float64Array(side * side),
-    density: new Float64Array(side * side),
-    slope: new Float64Array(side * side),
+    cdf,
+    density,
+    slope,
     derivatives: new Float64Array(4),
+    grid: { cdf, density, slope, offset: 0, stride: 0, rule: createBivariateNormalRule() },
   };
 }
 
@@ -82,7 +100,10 @@ export function polychoricLikelihood(
   const density = work.density;
   const slope = work.slope;
   // Interior corners from the quadrature; borders (±∞ limits) from the margins.
-  bivariateNormalGrid(rows, columns, rho, { cdf, density, slope, offset: stride + 1, stride });
+  const grid = work.grid;
+  grid.offset = stride + 1;
+  grid.stride = stride;
+  bivariateNormalGrid(rows, columns, rho, grid);
   for (let j = 0; j <= columnCategories; j++) {
     cdf[j] = 0;
     density[j] = 0;
