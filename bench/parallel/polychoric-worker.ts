@@ -25,7 +25,7 @@ import {
 import { normalCdf } from '../../src/lib/stats/normal-distribution';
 import { countPolychoricTable } from '../../src/lib/stats/polychoric-coding';
 import { estimatePolychoricFromTable } from '../../src/lib/stats/polychoric-correlation';
-import { createPolychoricWorkspace, fitPolychoricTable, polychoricLikelihood } from '../../src/lib/stats/polychoric-likelihood';
+import { createPolychoricWorkspace, fitPolychoricTable, polychoricLikelihood, polychoricLogLikelihoodOfGrid } from '../../src/lib/stats/polychoric-likelihood';
 import { estimatePolychoricPairs } from '../../src/lib/stats/polychoric-pairs';
 
 /** Every function the worker needs, callees included. */
@@ -38,6 +38,7 @@ const WORKER_FUNCTIONS: readonly ((...args: never[]) => unknown)[] = [
   createPolychoricWorkspace,
   countPolychoricTable,
   polychoricLikelihood,
+  polychoricLogLikelihoodOfGrid,
   fitPolychoricTable,
   estimatePolychoricFromTable,
   estimatePolychoricPairs,

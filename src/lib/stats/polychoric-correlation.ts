@@ -268,7 +268,7 @@ export function polychoricCorrelation(x: ArrayLike<number>, y: ArrayLike<number>
     thresholdsY: Array.from(itemY.thresholds.limits),
   };
   const work = createPolychoricWorkspace(Math.max(2, categoriesX, categoriesY));
-  const n = countPolychoricTable(itemX.codes, categoriesX, itemY.codes, categoriesY, x.length, work.table);
+  const n = countPolychoricTable(itemX.codes, categoriesX, itemY.codes, categoriesY, x.length, work.table, work.tally);
   if (categoriesX < 2 || categoriesY < 2) {
     const reason = n < MIN_ROWS_FOR_CORRELATION ? 'too-few-rows' : 'no-variation';
     return { rho: null, standardError: null, n, status: 'undefined', undefinedReason: reason, iterations: 0, ...base };

@@ -34,6 +34,8 @@ export interface PolychoricWorkspace {
   readonly maxCategories: number;
   /** Contingency table, row stride maxCategories + 1 (the extra column counts missing answers). */
   readonly table: Float64Array;
+  /** Integer scratch for counting a table: four tables of its size (countPolychoricTable). */
+  readonly tally: Int32Array;
   /** Corrected copy of the table (same layout). */
   readonly corrected: Float64Array;
   /** Φ2, φ2 and ∂φ2/∂ρ on the threshold grid including the ±∞ borders, stride maxCategories + 1. */
@@ -65,6 +67,7 @@ export function createPolychoricWorkspace(maxCategories: number): PolychoricWork
   return {
     maxCategories,
     table: new Float64Array(side * side),
+    tally: new Int32Array(4 * side * side),
     corrected: new Float64Array(side * side),
     cdf,
     density,
@@ -78,11 +81,15 @@ export function createPolychoricWorkspace(maxCategories: number): PolychoricWork
  * ℓ(ρ), ℓ′(ρ) and ℓ″(ρ) of a contingency table under the bivariate normal model with fixed
  * thresholds, written into `work.derivatives` as [ℓ, ℓ′, ℓ″, valid]; valid is 0 when a
  * non-empty cell has zero probability at this ρ (ρ too close to ±1), and then ℓ′, ℓ″ are 0.
+ * The probabilities stay in the workspace until the next evaluation, so ℓ can be had later
+ * from them (`polychoricLogLikelihoodOfGrid`) when a Newton step needs only ℓ′ and ℓ″.
  * @param rho Correlation strictly inside (−1, 1).
  * @param table Cell counts, row stride `columns.count + 2`.
  * @param rows Thresholds of the row item (count = row categories − 1).
  * @param columns Thresholds of the column item.
  * @param work Workspace from `createPolychoricWorkspace`.
+ * @param withLogLikelihood False to leave ℓ out (its logarithms): `work.derivatives[0]` is then
+ *   NaN. True by default.
  * References: Olsson 1979, "Maximum likelihood estimation of the polychoric correlation
  * coefficient"; Plackett 1954, "A reduction formula for normal multivariate integrals".
  */
@@ -92,6 +99,7 @@ export function polychoricLikelihood(
   rows: BivariateGridMargin,
   columns: BivariateGridMargin,
   work: PolychoricWorkspace,
+  withLogLikelihood: boolean = true,
 ): void {
   const rowCategories = rows.count + 1;
   const columnCategories = columns.count + 1;
@@ -140,16 +148,48 @@ export function polychoricLikelihood(
       const change = density[bottom + j + 1] - density[top + j + 1] - density[bottom + j] + density[top + j];
       const curvature = slope[bottom + j + 1] - slope[top + j + 1] - slope[bottom + j] + slope[top + j];
       const ratio = change / probability;
-      logLikelihood += count * Math.log(probability);
+      if (withLogLikelihood) logLikelihood += count * Math.log(probability);
       first += count * ratio;
       second += count * (curvature / probability - ratio * ratio);
     }
   }
   const out = work.derivatives;
-  out[0] = valid === 1 ? logLikelihood : -Infinity;
+  out[0] = !withLogLikelihood ? NaN : valid === 1 ? logLikelihood : -Infinity;
   out[1] = valid === 1 ? first : 0;
   out[2] = valid === 1 ? second : 0;
   out[3] = valid;
+}
+
+/**
+ * ℓ of the table at the ρ of the workspace's last `polychoricLikelihood` evaluation, from the
+ * probabilities that evaluation left in `work.cdf`: the same sum, cell by cell in the same order,
+ * so the very value that evaluation would have written as ℓ.
+ * @param table The cell counts of that evaluation.
+ * @param rows Thresholds of the row item (as in that evaluation).
+ * @param columns Thresholds of the column item (as in that evaluation).
+ * @param work The workspace of that evaluation, not used since.
+ * @returns ℓ, or −Infinity when a non-empty cell has no probability.
+ * References: Olsson 1979, "Maximum likelihood estimation of the polychoric correlation
+ * coefficient".
+ */
+export function polychoricLogLikelihoodOfGrid(table: Float64Array, rows: BivariateGridMargin, columns: BivariateGridMargin, work: PolychoricWorkspace): number {
+  const rowCategories = rows.count + 1;
+  const columnCategories = columns.count + 1;
+  const stride = columnCategories + 1;
+  const cdf = work.cdf;
+  let logLikelihood = 0;
+  for (let i = 0; i < rowCategories; i++) {
+    const top = i * stride;
+    const bottom = top + stride;
+    for (let j = 0; j < columnCategories; j++) {
+      const count = table[top + j];
+      if (count === 0) continue;
+      const probability = cdf[bottom + j + 1] - cdf[top + j + 1] - cdf[bottom + j] + cdf[top + j];
+      if (!(probability > 0)) return -Infinity;
+      logLikelihood += count * Math.log(probability);
+    }
+  }
+  return logLikelihood;
 }
 
 /** Outcome of the ρ search on one table. */
@@ -206,7 +246,8 @@ export function fitPolychoricTable(
   let iteration = 0;
   while (iteration < maxIterations) {
     iteration++;
-    polychoricLikelihood(rho, table, rows, columns, work);
+    // ℓ itself is wanted only where the search stops: taken then from the grid this evaluation leaves.
+    polychoricLikelihood(rho, table, rows, columns, work, false);
     let next: number;
     if (derivatives[3] === 0) {
       // A non-empty cell has no probability left: ρ is beyond the region the data allow.
@@ -222,7 +263,7 @@ export function fitPolychoricTable(
       if (gradient === 0 && !flat) {
         estimate = rho;
         curvatureAtEstimate = curvature;
-        logLikelihoodAtEstimate = derivatives[0];
+        logLikelihoodAtEstimate = polychoricLogLikelihoodOfGrid(table, rows, columns, work);
         break;
       }
       const rising = gradient > 0 || (flat && rho > 0);
@@ -239,7 +280,7 @@ export function fitPolychoricTable(
       if (Math.abs(next - rho) < tolerance) {
         estimate = next;
         curvatureAtEstimate = curvature;
-        logLikelihoodAtEstimate = derivatives[0];
+        logLikelihoodAtEstimate = polychoricLogLikelihoodOfGrid(table, rows, columns, work);
         break;
       }
       if (!(next > low && next < high)) {
@@ -251,7 +292,7 @@ export function fitPolychoricTable(
     if (high - low < tolerance) {
       estimate = next;
       curvatureAtEstimate = derivatives[2];
-      logLikelihoodAtEstimate = derivatives[0];
+      logLikelihoodAtEstimate = polychoricLogLikelihoodOfGrid(table, rows, columns, work);
       break;
     }
     rho = next;

@@ -116,7 +116,7 @@ export function estimatePolychoricPairs(job: PolychoricPairsJob): Float64Array {
   for (let p = 0; p < pairCount; p++) {
     const a = job.pairs[2 * p];
     const b = job.pairs[2 * p + 1];
-    const n = countPolychoricTable(codeRuns[a], categories[a], codeRuns[b], categories[b], respondents, work.table);
+    const n = countPolychoricTable(codeRuns[a], categories[a], codeRuns[b], categories[b], respondents, work.table, work.tally);
     const at = p * 5;
     if (categories[a] < 2 || categories[b] < 2) {
       out[at] = NaN;
