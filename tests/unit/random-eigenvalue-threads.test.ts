@@ -106,14 +106,14 @@ describe('randomPolychoricEigenvaluesOnThreads', () => {
 
 describe('polychoricParallelAnalysisThreadCount', () => {
   it('keeps few pair fits on the calling thread and spreads many over the cores', () => {
-    // 20 data sets of 10 items: 900 pair fits; of 40 items (case A): 15,600.
-    expect(polychoricParallelAnalysisThreadCount(10, 20, 2)).toBe(0);
-    expect(polychoricParallelAnalysisThreadCount(40, 20, 2)).toBe(2);
-    expect(polychoricParallelAnalysisThreadCount(40, 20, 1)).toBe(1);
-    expect(polychoricParallelAnalysisThreadCount(40, 20, 64)).toBe(PARALLEL_ANALYSIS_MAX_THREADS);
-    expect(polychoricParallelAnalysisThreadCount(120, 1, 2)).toBe(1); // 7,140 fits in one data set: one thread
-    // At the threshold exactly (25 items: 300 pairs per data set): threads.
-    expect(polychoricParallelAnalysisThreadCount(25, POLYCHORIC_PARALLEL_THREAD_MIN_PAIRS / 300, 2)).toBe(2);
-    expect(polychoricParallelAnalysisThreadCount(25, POLYCHORIC_PARALLEL_THREAD_MIN_PAIRS / 300 - 1, 2)).toBe(0);
+    // 20 data sets of 40 items (case A): 15,600 pair fits; of 150 items: 223,500.
+    expect(polychoricParallelAnalysisThreadCount(40, 20, 2)).toBe(0);
+    expect(polychoricParallelAnalysisThreadCount(150, 20, 2)).toBe(2);
+    expect(polychoricParallelAnalysisThreadCount(150, 20, 1)).toBe(1);
+    expect(polychoricParallelAnalysisThreadCount(150, 20, 64)).toBe(PARALLEL_ANALYSIS_MAX_THREADS);
+    expect(polychoricParallelAnalysisThreadCount(700, 1, 2)).toBe(1); // 244,650 fits in one data set: one thread
+    // At the threshold exactly (5 items: 10 pairs per data set): threads.
+    expect(polychoricParallelAnalysisThreadCount(5, POLYCHORIC_PARALLEL_THREAD_MIN_PAIRS / 10, 2)).toBe(2);
+    expect(polychoricParallelAnalysisThreadCount(5, POLYCHORIC_PARALLEL_THREAD_MIN_PAIRS / 10 - 1, 2)).toBe(0);
   });
 });

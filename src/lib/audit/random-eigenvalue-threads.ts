@@ -54,10 +54,14 @@ const THREAD_HEAP_MB = 256;
 
 /**
  * Polychoric pair fits (data sets × items × (items − 1) / 2) from which the polychoric draws go to
- * worker threads: one fit costs about 70 µs here (1,000 respondents, five categories), so 3,000
- * of them are about 0.2 s on one thread, well above a thread's start-up.
+ * worker threads. A thread starts cold: its first data sets of 1,000 × 40 took 160, 114, 54 and
+ * 55 ms against 23 ms once compiled (about 0.35 s more per thread), while the calling thread has
+ * just compiled the same code for the observed matrix. Case A (15,600 fits, about 0.5 s) and the
+ * web demo (16,400) were slower on two threads than on the calling thread here (2 shared cores);
+ * from 200,000 fits (about 6 s on one thread, some 140 items) the warm-up is under a tenth of
+ * each thread's share. docs/decisions/020-speed-whole-audit.md.
  */
-export const POLYCHORIC_PARALLEL_THREAD_MIN_PAIRS = 3000;
+export const POLYCHORIC_PARALLEL_THREAD_MIN_PAIRS = 200_000;
 
 /** One thread's job (its `workerData`) of Pearson draws. */
 export interface RandomEigenvalueJob {
