@@ -57,9 +57,11 @@ const THREAD_HEAP_MB = 256;
  * worker threads. A thread starts cold: its first data sets of 1,000 × 40 took 160, 114, 54 and
  * 55 ms against 23 ms once compiled (about 0.35 s more per thread), while the calling thread has
  * just compiled the same code for the observed matrix. Case A (15,600 fits, about 0.5 s) and the
- * web demo (16,400) were slower on two threads than on the calling thread here (2 shared cores);
- * from 200,000 fits (about 6 s on one thread, some 140 items) the warm-up is under a tenth of
- * each thread's share. docs/decisions/020-speed-whole-audit.md.
+ * web demo (16,400) were slower on two threads than on the calling thread here. From 200,000 fits
+ * (about 6 s on one thread, some 140 items) the warm-up is under a tenth of each thread's share,
+ * so threads pay wherever a core is free; on the shared 2-core machine of 2026-12-03 none was
+ * (150 items: 6.6-6.9 s on two threads against 5.5-6.0 s on one, wall time equal to CPU time),
+ * so this threshold rests on that arithmetic, not on a measured gain. docs/decisions/020-speed-whole-audit.md.
  */
 export const POLYCHORIC_PARALLEL_THREAD_MIN_PAIRS = 200_000;
 
