@@ -15,22 +15,30 @@
  * on a known value (Φ2(0, 0; ½) = 1/3) and reports failure instead of results; the caller then
  * computes on its own thread and says so.
  */
-import { bivariateNormalCdfFromRule, bivariateNormalGrid, prepareBivariateNormalRule } from '../../src/lib/stats/bivariate-normal-cdf';
+import {
+  BIVARIATE_NORMAL_RULE_CONSTANTS,
+  bivariateNormalCdfFromRule,
+  bivariateNormalGrid,
+  createBivariateNormalRule,
+  prepareBivariateNormalRule,
+} from '../../src/lib/stats/bivariate-normal-cdf';
 import { normalCdf } from '../../src/lib/stats/normal-distribution';
 import { countPolychoricTable } from '../../src/lib/stats/polychoric-coding';
 import { estimatePolychoricFromTable } from '../../src/lib/stats/polychoric-correlation';
-import { createPolychoricWorkspace, fitPolychoricTable, polychoricLikelihood } from '../../src/lib/stats/polychoric-likelihood';
+import { createPolychoricWorkspace, fitPolychoricTable, polychoricLikelihood, polychoricLogLikelihoodOfGrid } from '../../src/lib/stats/polychoric-likelihood';
 import { estimatePolychoricPairs } from '../../src/lib/stats/polychoric-pairs';
 
 /** Every function the worker needs, callees included. */
 const WORKER_FUNCTIONS: readonly ((...args: never[]) => unknown)[] = [
   normalCdf,
+  createBivariateNormalRule,
   prepareBivariateNormalRule,
   bivariateNormalCdfFromRule,
   bivariateNormalGrid,
   createPolychoricWorkspace,
   countPolychoricTable,
   polychoricLikelihood,
+  polychoricLogLikelihoodOfGrid,
   fitPolychoricTable,
   estimatePolychoricFromTable,
   estimatePolychoricPairs,
@@ -94,6 +102,8 @@ export function polychoricWorkerSource(): string {
   return [
     '"use strict";',
     'const __name = (target) => target;',
+    // Module constants the functions read (the Gauss-Legendre tables), under the names their text uses.
+    ...Object.entries(BIVARIATE_NORMAL_RULE_CONSTANTS).map(([name, value]) => `const ${name} = ${JSON.stringify(value)};`),
     ...WORKER_FUNCTIONS.map((fn) => bareImportReferences(fn.toString())),
     // `require` stays inside this string: a bundler rewrites a require() call in function
     // text (esbuild's ESM output turns it into an undefined __require).

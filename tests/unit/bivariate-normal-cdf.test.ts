@@ -5,6 +5,7 @@ import {
   bivariateNormalDensity,
   bivariateNormalDensitySlope,
   bivariateNormalGrid,
+  createBivariateNormalRule,
   prepareBivariateNormalRule,
 } from '../../src/lib/stats/bivariate-normal-cdf';
 import { normalCdf } from '../../src/lib/stats/normal-distribution';
@@ -125,5 +126,56 @@ describe('bivariateNormalGrid', () => {
     const value = bivariateNormalCdfFromRule(-3, 2.9, normalCdf(-3), normalCdf(3), normalCdf(2.9), normalCdf(-2.9), rule);
     expect(value).toBeGreaterThanOrEqual(0);
     expect(value).toBeLessThanOrEqual(normalCdf(-3));
+  });
+});
+
+describe('a rule prepared into a caller-owned buffer', () => {
+  // ρ chosen to cross every branch and rule size, in an order that shrinks the rule after a large one.
+  const rhos = [0.95, 0.1, -0.999, 0.6, 0, -0.4, 0.8, -1, 1, 0.25, -0.93, -0];
+
+  it('holds, for every ρ, the rule a fresh preparation gives, bit for bit', () => {
+    const buffer = createBivariateNormalRule();
+    for (const rho of rhos) {
+      const fresh = prepareBivariateNormalRule(rho);
+      const prepared = prepareBivariateNormalRule(rho, buffer);
+      expect(prepared).toBe(buffer);
+      expect(Object.is(prepared.rho, fresh.rho) && prepared.branch === fresh.branch && prepared.count === fresh.count && Object.is(prepared.scale, fresh.scale), `rho ${rho}`).toBe(true);
+      for (let i = 0; i < fresh.count; i++) {
+        expect(Object.is(prepared.weights[i], fresh.weights[i]) && Object.is(prepared.first[i], fresh.first[i]) && Object.is(prepared.second[i], fresh.second[i]), `rho ${rho}, point ${i}`).toBe(true);
+      }
+      // The same ρ again is answered from the buffer.
+      expect(prepareBivariateNormalRule(rho, buffer)).toBe(buffer);
+    }
+    // The fresh rule's arrays are as long as its Gauss-Legendre rule: 6, 12 or 20 points as |ρ| grows.
+    expect([0.1, 0.6, 0.8].map((rho) => prepareBivariateNormalRule(rho).weights.length)).toEqual([6, 12, 20]);
+    expect(() => prepareBivariateNormalRule(1.5, buffer)).toThrow(RangeError);
+  });
+
+  it('gives the grid the same values as a rule of its own, and the values of the grid loop written out in full', () => {
+    const rowLimits = Float64Array.of(-1.7, -0.3, 0.45, 1.2);
+    const columnLimits = Float64Array.of(-0.9, 0.2, 1.6);
+    const margin = (limits: Float64Array) => ({ limits, lower: limits.map((x) => normalCdf(x)), upper: limits.map((x) => normalCdf(-x)), count: limits.length });
+    const buffer = createBivariateNormalRule();
+    for (const rho of rhos.filter((value) => Math.abs(value) < 1)) {
+      const size = 30;
+      const own = { cdf: new Float64Array(size), density: new Float64Array(size), slope: new Float64Array(size), offset: 6, stride: 5 };
+      const shared = { ...own, cdf: new Float64Array(size), density: new Float64Array(size), slope: new Float64Array(size), rule: buffer };
+      bivariateNormalGrid(margin(rowLimits), margin(columnLimits), rho, own);
+      bivariateNormalGrid(margin(rowLimits), margin(columnLimits), rho, shared);
+      // The density and its slope as the grid first wrote them, every factor inside the loop.
+      const complement = (1 - rho) * (1 + rho);
+      const densityScale = 1 / (2 * Math.PI * Math.sqrt(complement));
+      const slopeScale = 1 / (complement * complement);
+      rowLimits.forEach((h, i) =>
+        columnLimits.forEach((k, j) => {
+          const at = 6 + i * 5 + j;
+          const quadratic = h * h - 2 * rho * h * k + k * k;
+          const value = Math.exp(-quadratic / (2 * complement)) * densityScale;
+          const slopeValue = value * (rho * complement + h * k * complement - rho * quadratic) * slopeScale;
+          expect(Object.is(own.density[at], value) && Object.is(own.slope[at], slopeValue), `rho ${rho}, corner ${i}, ${j}`).toBe(true);
+          expect(Object.is(shared.cdf[at], own.cdf[at]) && Object.is(shared.density[at], value) && Object.is(shared.slope[at], slopeValue), `rho ${rho}, corner ${i}, ${j}, shared rule`).toBe(true);
+        }),
+      );
+    }
   });
 });

@@ -9,7 +9,18 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { correlationMatrix, itemMatrixFromRows, parallelAnalysis, polychoricParallelAnalysis, symmetricEigenvalues } from '../../src/lib/stats';
+import {
+  correlationMatrix,
+  createSeededRandom,
+  forgetRandomPolychoricEigenvalues,
+  itemMatrixFromRows,
+  parallelAnalysis,
+  polychoricCodeEigenvalues,
+  polychoricParallelAnalysis,
+  randomOrdinalCodes,
+  randomPolychoricEigenvalues,
+  symmetricEigenvalues,
+} from '../../src/lib/stats';
 
 interface PaSet { data: string; items: string[]; rows: number[][]; observed: number[]; simulatedMean: number[]; resampledMean: number[]; ncomp: number; iterations: number; call: string }
 const fixture = JSON.parse(readFileSync(join(import.meta.dirname, '..', '..', 'fixtures', 'reference', 'real-parallel-poly.json'), 'utf8')) as { sets: PaSet[] };
@@ -57,5 +68,53 @@ describe('polychoricParallelAnalysis against psych::fa.parallel(cor = "poly")', 
     polychoricParallelAnalysis(observed, 81, thresholds, { seed: 31, iterations: 6 });
     expect(polychoricParallelAnalysis(observed, 80, thresholds, { seed: 31, iterations: 6 })).toEqual(again);
     expect(polychoricParallelAnalysis(observed, 80, [[-0.4, 1.2], [0.1], [-1, 0, 1]], { seed: 31, iterations: 6 }).random95).not.toEqual(again.random95);
+  });
+
+  it('draws the codes of every data set first and estimates them after, as one loop drawing and estimating each set in turn', () => {
+    // The reference is the plain loop the draws were first written as: one generator, data set
+    // after data set, item after item, respondent after respondent; cut, estimate, eigenvalues.
+    const thresholds = [[-0.7, 0.3], [0.4], [-1, -0.2, 0.6, 1.4], [-0.3, 0.8], [0.1, 1]];
+    const [rows, iterations, seed] = [90, 4, 77];
+    const random = createSeededRandom(seed);
+    const data = new Float64Array(rows * thresholds.length);
+    const expected = new Float64Array(thresholds.length * iterations);
+    for (let t = 0; t < iterations; t++) {
+      thresholds.forEach((limits, j) => {
+        for (let i = 0; i < rows; i++) {
+          const z = random.nextNormal();
+          let code = 0;
+          while (code < limits.length && z > limits[code]) code++;
+          data[j * rows + i] = code;
+        }
+      });
+      const values = symmetricEigenvalues(correlationMatrix({ rows, columns: thresholds.length, data }, { method: 'polychoric', missing: 'listwise', repair: 'none' }).matrix);
+      values.forEach((value, k) => (expected[k * iterations + t] = value));
+    }
+    forgetRandomPolychoricEigenvalues();
+    const values = randomPolychoricEigenvalues(rows, thresholds, iterations, seed);
+    expect(values.length).toBe(expected.length);
+    expected.forEach((value, at) => expect(Object.is(values[at], value), `value ${at}`).toBe(true));
+    // The codes split anywhere between data sets give the same draw-major eigenvalues.
+    const codes = randomOrdinalCodes(rows, thresholds, iterations, seed);
+    expect(Math.max(...codes)).toBe(4);
+    const size = rows * thresholds.length;
+    const split = [...polychoricCodeEigenvalues(codes.subarray(0, size), rows, thresholds.length), ...polychoricCodeEigenvalues(codes.subarray(size), rows, thresholds.length)];
+    for (let t = 0; t < iterations; t++) thresholds.forEach((_, k) => expect(Object.is(split[t * thresholds.length + k], expected[k * iterations + t])).toBe(true));
+    expect(() => polychoricCodeEigenvalues(codes.subarray(1), rows, thresholds.length)).toThrow(/not a whole number/);
+  });
+
+  it('summarises given random eigenvalues exactly as its own draws, without changing them', () => {
+    const thresholds = [[-0.4, 0.6], [0.1], [-1, 0, 1]];
+    const observed = [1.7, 0.8, 0.5];
+    forgetRandomPolychoricEigenvalues();
+    const drawn = polychoricParallelAnalysis(observed, 60, thresholds, { seed: 8, iterations: 5 });
+    const given = randomPolychoricEigenvalues(60, thresholds, 5, 8);
+    const copy = given.slice();
+    const summarised = polychoricParallelAnalysis(observed, 60, thresholds, { seed: 8, iterations: 5, randomEigenvalues: given });
+    drawn.random95.forEach((value, k) => expect(Object.is(summarised.random95[k], value)).toBe(true));
+    drawn.randomMean.forEach((value, k) => expect(Object.is(summarised.randomMean[k], value)).toBe(true));
+    expect(summarised.suggested).toBe(drawn.suggested);
+    expect(given).toEqual(copy);
+    expect(() => polychoricParallelAnalysis(observed, 60, thresholds, { seed: 8, iterations: 5, randomEigenvalues: given.subarray(1) })).toThrow(/randomEigenvalues holds 14 values/);
   });
 });

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { codeOrdinalItem, countPolychoricTable } from '../../src/lib/stats/polychoric-coding';
 import { polychoricCorrelation, POLYCHORIC_LIMITS } from '../../src/lib/stats/polychoric-correlation';
-import { createPolychoricWorkspace, fitPolychoricTable, polychoricLikelihood } from '../../src/lib/stats/polychoric-likelihood';
+import { createPolychoricWorkspace, fitPolychoricTable, polychoricLikelihood, polychoricLogLikelihoodOfGrid } from '../../src/lib/stats/polychoric-likelihood';
 import { correlationDataset, datasetColumn, readCorrelationFixture, type Provenance } from './correlation-fixtures';
 
 interface EdgeFixture {
@@ -120,6 +120,48 @@ describe('polychoricCorrelation', () => {
     const [, gradient, curvature] = at(result.rho as number);
     expect(Math.abs(gradient)).toBeLessThan(1e-6);
     expect(result.standardError).toBeCloseTo(1 / Math.sqrt(-curvature), 12);
+  });
+
+  it('counts the same table with and without the integer tallies, for any number of respondents', () => {
+    const dataset = correlationDataset('ordinal7');
+    const itemX = codeOrdinalItem(datasetColumn(dataset, 1));
+    const itemY = codeOrdinalItem(datasetColumn(dataset, 4).map((value, i) => (i % 11 === 3 ? NaN : value)));
+    const categoriesX = itemX.categories.length;
+    const categoriesY = itemY.categories.length;
+    const work = createPolychoricWorkspace(7);
+    const direct = new Float64Array(work.table.length);
+    // Every remainder of four, and fewer respondents than four.
+    for (const respondents of [dataset.rows, dataset.rows - 1, dataset.rows - 2, dataset.rows - 3, 3, 0]) {
+      const n = countPolychoricTable(itemX.codes, categoriesX, itemY.codes, categoriesY, respondents, work.table, work.tally);
+      const directN = countPolychoricTable(itemX.codes, categoriesX, itemY.codes, categoriesY, respondents, direct);
+      expect(n).toBe(directN);
+      expect(Array.from(work.table.subarray(0, (categoriesX + 1) * (categoriesY + 1)))).toEqual(Array.from(direct.subarray(0, (categoriesX + 1) * (categoriesY + 1))));
+    }
+    // Counted by hand: the pair-complete respondents.
+    let complete = 0;
+    for (let i = 0; i < dataset.rows; i++) if (itemX.codes[i] < categoriesX && itemY.codes[i] < categoriesY) complete++;
+    expect(countPolychoricTable(itemX.codes, categoriesX, itemY.codes, categoriesY, dataset.rows, work.table, work.tally)).toBe(complete);
+    expect(complete).toBeLessThan(dataset.rows);
+    // A tally too small for the table is not used.
+    expect(countPolychoricTable(itemX.codes, categoriesX, itemY.codes, categoriesY, dataset.rows, work.table, new Int32Array(3))).toBe(complete);
+  });
+
+  it('gives, from the grid an evaluation leaves, the very ℓ that evaluation writes', () => {
+    const dataset = correlationDataset('ordinal5');
+    const itemX = codeOrdinalItem(datasetColumn(dataset, 0));
+    const itemY = codeOrdinalItem(datasetColumn(dataset, 3));
+    const work = createPolychoricWorkspace(5);
+    countPolychoricTable(itemX.codes, itemX.categories.length, itemY.codes, itemY.categories.length, dataset.rows, work.table, work.tally);
+    for (const rho of [-0.7, -0.05, 0.3, 0.81, 0.97, 0.999999]) {
+      polychoricLikelihood(rho, work.table, itemX.thresholds, itemY.thresholds, work);
+      const written = Array.from(work.derivatives);
+      expect(Object.is(polychoricLogLikelihoodOfGrid(work.table, itemX.thresholds, itemY.thresholds, work), written[0]), `rho ${rho}`).toBe(true);
+      // Without ℓ the derivatives are the same and ℓ is NaN.
+      polychoricLikelihood(rho, work.table, itemX.thresholds, itemY.thresholds, work, false);
+      expect(Number.isNaN(work.derivatives[0])).toBe(true);
+      expect(Array.from(work.derivatives.subarray(1))).toEqual(written.slice(1));
+      expect(Object.is(polychoricLogLikelihoodOfGrid(work.table, itemX.thresholds, itemY.thresholds, work), written[0])).toBe(true);
+    }
   });
 
   it('checks its inputs', () => {

@@ -7,10 +7,26 @@ import { describe, expect, it } from 'vitest';
 import {
   PARALLEL_ANALYSIS_MAX_THREADS,
   PARALLEL_ANALYSIS_THREAD_MIN_WORK,
+  POLYCHORIC_PARALLEL_THREAD_MIN_PAIRS,
   parallelAnalysisThreadCount,
+  polychoricParallelAnalysisThreadCount,
   randomCorrelationEigenvaluesOnThreads,
+  randomPolychoricEigenvaluesOnThreads,
 } from '../../src/lib/audit/random-eigenvalue-threads';
 import { cachedRandomCorrelationEigenvalues, forgetRandomCorrelationEigenvalues, randomCorrelationEigenvalues } from '../../src/lib/stats/parallel-analysis';
+import {
+  cachedRandomPolychoricEigenvalues,
+  forgetRandomPolychoricEigenvalues,
+  randomPolychoricEigenvalues,
+} from '../../src/lib/stats/parallel-analysis-polychoric';
+
+/** The positions where two arrays differ by Object.is (so −0 and 0 differ, NaN equals NaN), or a length mismatch. */
+function bitDifferences(actual: ArrayLike<number>, expected: ArrayLike<number>): string[] {
+  if (actual.length !== expected.length) return [`length ${actual.length} instead of ${expected.length}`];
+  const differences: string[] = [];
+  for (let at = 0; at < expected.length; at++) if (!Object.is(actual[at], expected[at])) differences.push(`${at}: ${actual[at]} instead of ${expected[at]}`);
+  return differences;
+}
 
 describe('randomCorrelationEigenvaluesOnThreads', () => {
   it('gives the same values to the last bit on 0, 1, 2 and 3 threads, and as the core one pass', async () => {
@@ -52,5 +68,52 @@ describe('parallelAnalysisThreadCount', () => {
     // At the threshold exactly: threads.
     expect(parallelAnalysisThreadCount(100, PARALLEL_ANALYSIS_THREAD_MIN_WORK / 1e6, 2)).toBe(2);
     expect(parallelAnalysisThreadCount(100, PARALLEL_ANALYSIS_THREAD_MIN_WORK / 1e6 - 1, 2)).toBe(0);
+  });
+});
+
+describe('randomPolychoricEigenvaluesOnThreads', () => {
+  // Seven items with two to five categories (thresholds as a polychoric fit finds them).
+  const thresholds = [[-0.8, 0.1, 0.9], [0.2], [-1.2, -0.3, 0.4, 1.1], [-0.5, 0.5], [0.9], [-0.1, 0.7], [-1.5, -0.6, 0.2, 1.3]];
+
+  it('gives the core one-thread values to the last bit on 0, 1, 2 and 3 threads, and keeps them in its cache', async () => {
+    // 5 data sets over 3 threads: ranges 0, 1-2, 3-4 of the codes drawn on the calling thread.
+    const [rows, iterations, seed] = [120, 5, 2031];
+    forgetRandomPolychoricEigenvalues();
+    const onePass = randomPolychoricEigenvalues(rows, thresholds, iterations, seed);
+    expect(onePass).toHaveLength(thresholds.length * iterations);
+    for (const threads of [0, 1, 2, 3]) {
+      forgetRandomPolychoricEigenvalues();
+      const values = await randomPolychoricEigenvaluesOnThreads(rows, thresholds, iterations, seed, threads);
+      expect(bitDifferences(values, onePass), `${threads} thread(s)`).toEqual([]);
+      // The answer is kept in the calling thread's cache, under the core's key.
+      expect(bitDifferences(cachedRandomPolychoricEigenvalues(rows, thresholds, iterations, seed) ?? [], onePass), `${threads} thread(s), cached`).toEqual([]);
+    }
+    // Another seed gives other values (the comparison above can fail).
+    expect(bitDifferences(await randomPolychoricEigenvaluesOnThreads(rows, thresholds, iterations, seed + 1, 2), onePass)).not.toEqual([]);
+  }, 60_000);
+
+  it('answers from the cache without a thread, and refuses a bad thread count or size at once', async () => {
+    forgetRandomPolychoricEigenvalues();
+    const values = randomPolychoricEigenvalues(40, thresholds, 2, 5);
+    // A cached answer is handed out as a copy; a thread count that would fail is never used.
+    const again = await randomPolychoricEigenvaluesOnThreads(40, thresholds, 2, 5, 2);
+    expect(bitDifferences(again, values)).toEqual([]);
+    expect(again).not.toBe(values);
+    expect(() => randomPolychoricEigenvaluesOnThreads(40, thresholds, 2, 5, 1.5)).toThrow(/threads must be a non-negative integer/);
+    expect(() => randomPolychoricEigenvaluesOnThreads(0, thresholds, 2, 6, 2)).toThrow(/rows must be a positive integer/);
+  }, 60_000);
+});
+
+describe('polychoricParallelAnalysisThreadCount', () => {
+  it('keeps few pair fits on the calling thread and spreads many over the cores', () => {
+    // 20 data sets of 40 items (case A): 15,600 pair fits; of 150 items: 223,500.
+    expect(polychoricParallelAnalysisThreadCount(40, 20, 2)).toBe(0);
+    expect(polychoricParallelAnalysisThreadCount(150, 20, 2)).toBe(2);
+    expect(polychoricParallelAnalysisThreadCount(150, 20, 1)).toBe(1);
+    expect(polychoricParallelAnalysisThreadCount(150, 20, 64)).toBe(PARALLEL_ANALYSIS_MAX_THREADS);
+    expect(polychoricParallelAnalysisThreadCount(700, 1, 2)).toBe(1); // 244,650 fits in one data set: one thread
+    // At the threshold exactly (5 items: 10 pairs per data set): threads.
+    expect(polychoricParallelAnalysisThreadCount(5, POLYCHORIC_PARALLEL_THREAD_MIN_PAIRS / 10, 2)).toBe(2);
+    expect(polychoricParallelAnalysisThreadCount(5, POLYCHORIC_PARALLEL_THREAD_MIN_PAIRS / 10 - 1, 2)).toBe(0);
   });
 });

@@ -12,6 +12,14 @@
  * Below PARALLEL_ANALYSIS_THREAD_MIN_WORK (draws × items³) the draws are made on the calling thread
  * at once: a thread costs about 60 ms to start (more from source, where it is bundled once per
  * process), more than small draws take. docs/decisions/020-speed-whole-audit.md.
+ *
+ * The polychoric variant (`randomPolychoricEigenvaluesOnThreads`) cannot replay cheaply (a data
+ * set's codes are rows × items generator values, its matrix far dearer): the calling thread draws
+ * every data set's codes in order from the one generator (`randomOrdinalCodes`, a small share of
+ * the work), hands each thread a contiguous range of data sets (moved, not copied), and the
+ * threads estimate their polychoric matrices and eigenvalues; the answers are placed by data set,
+ * so they are the core's `randomPolychoricEigenvalues` to the last bit, kept in the core's cache
+ * under its key. Below POLYCHORIC_PARALLEL_THREAD_MIN_PAIRS it all happens on the calling thread.
  */
 import { availableParallelism } from 'node:os';
 import {
@@ -20,6 +28,12 @@ import {
   randomCorrelationEigenvalues,
   rememberRandomCorrelationEigenvalues,
 } from '../stats/parallel-analysis';
+import {
+  cachedRandomPolychoricEigenvalues,
+  randomOrdinalCodes,
+  randomPolychoricEigenvalues,
+  rememberRandomPolychoricEigenvalues,
+} from '../stats/parallel-analysis-polychoric';
 import { runWorkerOnce } from '../workers/start-worker';
 import { RANDOM_EIGENVALUE_WORKER } from '../workers/worker-entries';
 
@@ -38,7 +52,20 @@ const THREAD_TIME_LIMIT_MS = 30 * 60 * 1000;
 /** A thread's old-generation heap limit in MB: a draw holds a few items × items arrays. */
 const THREAD_HEAP_MB = 256;
 
-/** One thread's job (its `workerData`). */
+/**
+ * Polychoric pair fits (data sets × items × (items − 1) / 2) from which the polychoric draws go to
+ * worker threads. A thread starts cold: its first data sets of 1,000 × 40 took 160, 114, 54 and
+ * 55 ms against 23 ms once compiled (about 0.35 s more per thread), while the calling thread has
+ * just compiled the same code for the observed matrix. Case A (15,600 fits, about 0.5 s) and the
+ * web demo (16,400) were slower on two threads than on the calling thread here. From 200,000 fits
+ * (about 6 s on one thread, some 140 items) the warm-up is under a tenth of each thread's share,
+ * so threads pay wherever a core is free; on the shared 2-core machine of 2026-12-03 none was
+ * (150 items: 6.6-6.9 s on two threads against 5.5-6.0 s on one, wall time equal to CPU time),
+ * so this threshold rests on that arithmetic, not on a measured gain. docs/decisions/020-speed-whole-audit.md.
+ */
+export const POLYCHORIC_PARALLEL_THREAD_MIN_PAIRS = 200_000;
+
+/** One thread's job (its `workerData`) of Pearson draws. */
 export interface RandomEigenvalueJob {
   readonly rows: number;
   readonly items: number;
@@ -47,6 +74,15 @@ export interface RandomEigenvalueJob {
   readonly firstDraw: number;
   /** Draw after the last one computed (exclusive). */
   readonly endDraw: number;
+}
+
+/** One thread's job (its `workerData`) of polychoric data sets. */
+export interface RandomPolychoricEigenvalueJob {
+  readonly kind: 'polychoric';
+  readonly rows: number;
+  readonly items: number;
+  /** The codes of the thread's data sets, laid out as `randomOrdinalCodes` gives them. */
+  readonly codes: Uint8Array;
 }
 
 /**
@@ -123,6 +159,83 @@ export function randomCorrelationEigenvaluesOnThreads(
     });
     const values = drawMajorToPositionMajor(drawMajor, items, iterations);
     rememberRandomCorrelationEigenvalues(rows, items, iterations, seed, values);
+    return values;
+  });
+}
+
+/**
+ * How many worker threads the polychoric parallel analysis of this size gets: none below
+ * POLYCHORIC_PARALLEL_THREAD_MIN_PAIRS pair fits, otherwise one per core the machine reports, at
+ * most PARALLEL_ANALYSIS_MAX_THREADS and at most one per data set.
+ * @param items Items (the order of the random matrices).
+ * @param iterations Data sets.
+ * @param cores Cores to use (the machine's `availableParallelism()` by default).
+ * @returns 0 (estimate on the calling thread) or the number of threads.
+ */
+export function polychoricParallelAnalysisThreadCount(items: number, iterations: number, cores: number = availableParallelism()): number {
+  if ((iterations * items * (items - 1)) / 2 < POLYCHORIC_PARALLEL_THREAD_MIN_PAIRS) return 0;
+  return Math.max(1, Math.min(cores, PARALLEL_ANALYSIS_MAX_THREADS, iterations));
+}
+
+/**
+ * The random eigenvalues of polychoric parallel analysis (`randomPolychoricEigenvalues` of the
+ * core, same layout and the same values to the last bit): the codes are drawn here, the matrices
+ * estimated on `threads` worker threads that run while the caller goes on; with 0 threads, all on
+ * the calling thread before this returns.
+ * @param rows Respondents per data set (a positive integer).
+ * @param thresholds Each item's thresholds, ascending (as the observed polychoric matrix found them).
+ * @param iterations Data sets (a positive integer).
+ * @param seed Seed of the generator.
+ * @param threads Worker threads (0: none); `polychoricParallelAnalysisThreadCount` by default.
+ * @throws {RangeError} when `threads` is not a non-negative integer, or a size is out of range
+ *   (synchronously).
+ * @returns A promise of a fresh array, `values[k * iterations + t]`: eigenvalue k (descending) of
+ *   data set t. It rejects with the worker mechanism's WorkerRunFailure when a thread fails.
+ * References: Garrido, Abad & Ponsoda 2013, "A new look at Horn's parallel analysis with ordinal
+ * variables"; Horn 1965, "A rationale and test for the number of factors in factor analysis".
+ */
+export function randomPolychoricEigenvaluesOnThreads(
+  rows: number,
+  thresholds: readonly (readonly number[])[],
+  iterations: number,
+  seed: number,
+  threads: number = polychoricParallelAnalysisThreadCount(thresholds.length, iterations),
+): Promise<Float64Array> {
+  if (!Number.isInteger(threads) || threads < 0) {
+    throw new RangeError(`randomPolychoricEigenvaluesOnThreads: threads must be a non-negative integer, got ${threads}`);
+  }
+  const cached = cachedRandomPolychoricEigenvalues(rows, thresholds, iterations, seed);
+  if (cached !== null) return Promise.resolve(cached);
+  if (threads === 0) return Promise.resolve(randomPolychoricEigenvalues(rows, thresholds, iterations, seed));
+  const items = thresholds.length;
+  const codes = randomOrdinalCodes(rows, thresholds, iterations, seed);
+  const used = Math.min(threads, iterations);
+  const ranges: { firstDraw: number; endDraw: number }[] = [];
+  for (let thread = 0; thread < used; thread++) {
+    ranges.push({ firstDraw: Math.floor((thread * iterations) / used), endDraw: Math.floor(((thread + 1) * iterations) / used) });
+  }
+  const size = rows * items;
+  const answers = ranges.map(({ firstDraw, endDraw }) => {
+    const job: RandomPolychoricEigenvalueJob = { kind: 'polychoric', rows, items, codes: codes.slice(firstDraw * size, endDraw * size) };
+    return runWorkerOnce<Float64Array>(RANDOM_EIGENVALUE_WORKER, {
+      name: RANDOM_EIGENVALUE_WORKER.name,
+      workerData: job,
+      transferList: [job.codes.buffer as ArrayBuffer],
+      timeLimitMs: THREAD_TIME_LIMIT_MS,
+      resourceLimits: { maxOldGenerationSizeMb: THREAD_HEAP_MB },
+    });
+  });
+  return Promise.all(answers).then((parts) => {
+    const drawMajor = new Float64Array(items * iterations);
+    parts.forEach((part, index) => {
+      const { firstDraw, endDraw } = ranges[index];
+      if (part.length !== items * (endDraw - firstDraw)) {
+        throw new Error(`randomPolychoricEigenvaluesOnThreads: a thread answered ${part.length} values for data sets ${firstDraw}-${endDraw - 1}, expected ${items * (endDraw - firstDraw)}`);
+      }
+      drawMajor.set(part, firstDraw * items);
+    });
+    const values = drawMajorToPositionMajor(drawMajor, items, iterations);
+    rememberRandomPolychoricEigenvalues(rows, thresholds, iterations, seed, values);
     return values;
   });
 }

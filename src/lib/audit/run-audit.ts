@@ -43,7 +43,7 @@ import {
   type AuditWarningJson,
 } from './audit-json';
 import { exploratoryStructure } from './exploratory-structure';
-import { parallelAnalysisThreadCount, randomCorrelationEigenvaluesOnThreads } from './random-eigenvalue-threads';
+import { parallelAnalysisThreadCount, randomCorrelationEigenvaluesOnThreads, randomPolychoricEigenvaluesOnThreads } from './random-eigenvalue-threads';
 import { deferredResidualCriticals, residualBootstrapThreadCount, residualCriticalsOnThreads, withResidualCriticals } from './residual-bootstrap-threads';
 import { engineSettingsOf, resolveAuditSettings, type AuditSettingsRequest } from './settings-table';
 import { cautionSentence, reasonSentence } from '../words';
@@ -195,7 +195,16 @@ export async function runAudit(
       : randomCorrelationEigenvaluesOnThreads(respondentsForTests, evidence.eigenvalues.length, parallelIterations, engineSettings.seed);
   // Collected below; this only keeps a thread's failure from counting as unhandled before then.
   pearsonDraws?.catch(() => undefined);
-  const structure = structureStatistics(evidence, respondentsForTests, engineSettings.seed, parallelIterations, ids);
+  // The polychoric variant's draws need the observed thresholds, known only now: its data sets'
+  // matrices are estimated on worker threads when they are many (the codes are drawn here first),
+  // the rest of the audit running meanwhile; collected when the JSON is written.
+  const polychoricThresholds = polychoricParallelAnalysisThresholds(evidence, respondentsForTests);
+  const polychoricDrawCount = Math.min(parallelIterations, POLYCHORIC_PARALLEL_DEFAULT_ITERATIONS);
+  const polychoricDraws =
+    polychoricThresholds === null ? null : randomPolychoricEigenvaluesOnThreads(respondentsForTests, polychoricThresholds, polychoricDrawCount, engineSettings.seed);
+  // Collected below; this only keeps a thread's failure from counting as unhandled before then.
+  polychoricDraws?.catch(() => undefined);
+  const structure = structureStatistics(evidence, respondentsForTests, ids);
   warnings.push(...structure.warnings);
   report('structure', 1);
 
@@ -258,9 +267,14 @@ export async function runAudit(
 
   const collinearity = evidence.collinearity;
   const parallel =
-    pearsonDraws === null
-      ? structure.parallel
-      : pearsonParallelJson(parallelAnalysis(evidence.eigenvalues, respondentsForTests, { seed: engineSettings.seed, iterations: parallelIterations, randomEigenvalues: await pearsonDraws }));
+    pearsonDraws !== null
+      ? pearsonParallelJson(parallelAnalysis(evidence.eigenvalues, respondentsForTests, { seed: engineSettings.seed, iterations: parallelIterations, randomEigenvalues: await pearsonDraws }))
+      : polychoricDraws !== null && polychoricThresholds !== null
+        ? polychoricParallelJson(
+            polychoricParallelAnalysis(evidence.eigenvalues, respondentsForTests, polychoricThresholds, { seed: engineSettings.seed, iterations: polychoricDrawCount, randomEigenvalues: await polychoricDraws }),
+            parallelIterations,
+          )
+        : null;
   return {
     schema: AUDIT_SCHEMA,
     settings: { ...resolved },
@@ -451,6 +465,26 @@ function pearsonParallelAnalysisApplies(evidence: EngineEvidence, respondents: n
   return !(evidence.method === 'polychoric' && thresholds !== null && thresholds.every((limits) => limits.length > 0));
 }
 
+/**
+ * The observed thresholds when the audit runs the polychoric parallel analysis (random ordinal data
+ * at those thresholds): two or more items, three or more respondents, the polychoric method and
+ * every item with a threshold; null otherwise. structureStatistics leaves exactly these cases to runAudit.
+ */
+function polychoricParallelAnalysisThresholds(evidence: EngineEvidence, respondents: number): readonly (readonly number[])[] | null {
+  if (evidence.correlation.order < 2 || respondents < 3 || evidence.method !== 'polychoric') return null;
+  const thresholds = evidence.thresholds ?? null;
+  return thresholds !== null && thresholds.every((limits) => limits.length > 0) ? thresholds : null;
+}
+
+/** The JSON of a polychoric parallel analysis; `iterations` is the draws asked for (more than it makes, said in the note). */
+function polychoricParallelJson(result: ReturnType<typeof polychoricParallelAnalysis>, iterations: number): AuditJson['parallelAnalysis'] {
+  return {
+    observed: [...result.observed], random95: [...result.random95], suggested: result.suggested, iterations: result.iterations, seed: result.seed,
+    correlation: 'polychoric',
+    note: `Random data were ordinal items cut at each item's observed thresholds, correlated by polychoric r like the observed matrix (Garrido, Abad & Ponsoda 2013); ${result.iterations} draws${result.iterations < iterations ? ` instead of ${iterations}, as each draw costs a full polychoric matrix` : ''}.`,
+  };
+}
+
 /** The JSON of a Pearson parallel analysis. */
 function pearsonParallelJson(result: ReturnType<typeof parallelAnalysis>): AuditJson['parallelAnalysis'] {
   return {
@@ -503,28 +537,22 @@ interface StructureStatistics {
   readonly kmoLabel: string | null;
   readonly msa: (number | null)[];
   readonly bartlett: AuditJson['bartlett'];
-  readonly parallel: AuditJson['parallelAnalysis'];
   readonly warnings: AuditWarningJson[];
 }
 
 /**
- * KMO, Bartlett's test and parallel analysis. They need an invertible matrix, so the last item of
- * each exactly dependent group (e.g. a duplicated column) is set aside for them, with a warning;
- * the eigenvalues and parallel analysis use the full matrix.
+ * KMO and Bartlett's test, and whether parallel analysis can run (runAudit runs it, from draws it
+ * starts early). KMO and Bartlett need an invertible matrix, so the last item of each exactly
+ * dependent group (e.g. a duplicated column) is set aside for them, with a warning; the
+ * eigenvalues and parallel analysis use the full matrix.
  */
-function structureStatistics(
-  evidence: EngineEvidence,
-  respondents: number,
-  seed: number,
-  iterations: number,
-  ids: readonly string[],
-): StructureStatistics {
+function structureStatistics(evidence: EngineEvidence, respondents: number, ids: readonly string[]): StructureStatistics {
   const warnings: AuditWarningJson[] = [];
   const order = evidence.correlation.order;
   const usableIds = evidence.usable.map((j) => ids[j]);
   if (order < 2) {
     warnings.push({ code: 'too-few-items', items: usableIds, message: "Fewer than two items vary, so KMO, Bartlett's test and parallel analysis were skipped." });
-    return { kmo: null, kmoLabel: null, msa: new Array(order).fill(null), bartlett: null, parallel: null, warnings };
+    return { kmo: null, kmoLabel: null, msa: new Array(order).fill(null), bartlett: null, warnings };
   }
   const setAside = new Set(evidence.exactDependencies.map((group) => Math.max(...group)));
   const kept = evidence.usable.map((j, local) => ({ j, local })).filter(({ j }) => !setAside.has(j));
@@ -551,20 +579,9 @@ function structureStatistics(
     bartlett = bartlettSphericity(reduced, respondents);
     warnings.push(...noticeWarnings(bartlett.notices, keptIds));
   }
-  let parallel: AuditJson['parallelAnalysis'] = null;
-  const thresholds = evidence.thresholds ?? null;
-  if (respondents >= 3 && evidence.method === 'polychoric' && thresholds !== null && thresholds.every((limits) => limits.length > 0)) {
-    // The random reference is of the same correlation type (Garrido, Abad & Ponsoda 2013): ordinal
-    // data at the observed thresholds, polychoric eigenvalues; fewer draws, each costs a matrix of fits.
-    const draws = Math.min(iterations, POLYCHORIC_PARALLEL_DEFAULT_ITERATIONS);
-    const result = polychoricParallelAnalysis(evidence.eigenvalues, respondents, thresholds, { seed, iterations: draws });
-    parallel = {
-      observed: [...result.observed], random95: [...result.random95], suggested: result.suggested, iterations: result.iterations, seed: result.seed,
-      correlation: 'polychoric',
-      note: `Random data were ordinal items cut at each item's observed thresholds, correlated by polychoric r like the observed matrix (Garrido, Abad & Ponsoda 2013); ${result.iterations} draws${draws < iterations ? ` instead of ${iterations}, as each draw costs a full polychoric matrix` : ''}.`,
-    };
-  } else if (respondents >= 3) {
-    // Pearson: left null here; runAudit fills it from the draws it started (pearsonParallelAnalysisApplies).
+  if (respondents >= 3) {
+    // Parallel analysis: left null here; runAudit fills it from the draws it started, polychoric
+    // (polychoricParallelAnalysisThresholds) or Pearson (pearsonParallelAnalysisApplies).
   } else {
     warnings.push({ code: 'parallel-analysis-skipped', items: [], message: 'Parallel analysis needs at least three respondents with answers; it was skipped.' });
   }
@@ -573,7 +590,6 @@ function structureStatistics(
     kmoLabel: kmo?.label ?? null,
     msa,
     bartlett: bartlett === null ? null : { chi2: bartlett.chiSquare, df: bartlett.degreesOfFreedom, p: bartlett.pValue, respondents: bartlett.respondents, items: keptIds.length },
-    parallel,
     warnings,
   };
 }

@@ -10,12 +10,12 @@
  *
  * The work that depends only on ρ (quadrature nodes mapped to the arcsine scale) is done once
  * by `prepareBivariateNormalRule`, so that a grid of limits at one ρ (the polychoric
- * likelihood) costs only a few exponentials per point.
+ * likelihood) costs only a few exponentials per point; into a caller's buffer
+ * (`createBivariateNormalRule`), the likelihood's many evaluations allocate nothing.
  *
- * WORKER NOTE: `prepareBivariateNormalRule`, `bivariateNormalCdfFromRule` and
- * `bivariateNormalGrid` also run inside the polychoric worker thread from their source text
- * (see parallel/polychoric-worker.ts). They must stay top-level function declarations
- * that refer only to their own locals, `Math`, typed arrays, each other and `normalCdf`.
+ * bench/parallel/polychoric-worker.ts (a benchmark's kernel, not the audit) runs these functions
+ * in a worker thread from their source text, with the Gauss-Legendre tables of this module it
+ * defines beside them; it checks itself on a known value before it answers.
  *
  * References: Genz 2004, "Numerical computation of rectangular bivariate and trivariate normal
  * and t probabilities" (Statistics and Computing 14:251-260); Drezner & Wesolowsky 1990, "On
@@ -44,43 +44,113 @@ export interface BivariateNormalRule {
 }
 
 /**
+ * Genz's Gauss-Legendre rules (BVND): the lower half of the symmetric 6-, 12- and 20-point rules,
+ * points in (−1, 0) and their weights. Module constants, so preparing a rule allocates nothing.
+ */
+const GAUSS_LEGENDRE_WEIGHTS_6 = [0.1713244923791705, 0.3607615730481384, 0.4679139345726904];
+const GAUSS_LEGENDRE_POINTS_6 = [-0.9324695142031522, -0.6612093864662647, -0.238619186083197];
+const GAUSS_LEGENDRE_WEIGHTS_12 = [0.04717533638651177, 0.1069393259953183, 0.1600783285433464, 0.2031674267230659, 0.2334925365383547, 0.2491470458134029];
+const GAUSS_LEGENDRE_POINTS_12 = [-0.9815606342467191, -0.904117256370475, -0.769902674194305, -0.5873179542866171, -0.3678314989981802, -0.1252334085114692];
+const GAUSS_LEGENDRE_WEIGHTS_20 = [
+  0.01761400713915212, 0.04060142980038694, 0.06267204833410906, 0.08327674157670475, 0.1019301198172404, 0.1181945319615184,
+  0.1316886384491766, 0.1420961093183821, 0.1491729864726037, 0.1527533871307259,
+];
+const GAUSS_LEGENDRE_POINTS_20 = [
+  -0.9931285991850949, -0.9639719272779138, -0.9122344282513259, -0.8391169718222188, -0.7463319064601508, -0.636053680726515,
+  -0.5108670019508271, -0.3737060887154196, -0.2277858511416451, -0.07652652113349733,
+];
+
+/** The most quadrature points a rule uses (the 20-point rule). */
+const MAX_RULE_POINTS = 20;
+
+/**
+ * The module constants `prepareBivariateNormalRule` and `createBivariateNormalRule` read, by the
+ * names their text uses: for code that runs those functions from their source text (a worker
+ * thread started from text must define these names beside them).
+ */
+export const BIVARIATE_NORMAL_RULE_CONSTANTS: Readonly<Record<string, number | readonly number[]>> = Object.freeze({
+  GAUSS_LEGENDRE_WEIGHTS_6,
+  GAUSS_LEGENDRE_POINTS_6,
+  GAUSS_LEGENDRE_WEIGHTS_12,
+  GAUSS_LEGENDRE_POINTS_12,
+  GAUSS_LEGENDRE_WEIGHTS_20,
+  GAUSS_LEGENDRE_POINTS_20,
+  MAX_RULE_POINTS,
+});
+
+/**
+ * A rule owned by its caller and prepared again for each ρ (`prepareBivariateNormalRule(rho, into)`),
+ * so that evaluating a grid at many ρ allocates nothing. Its arrays hold room for the largest rule;
+ * only the first `count` entries are the rule's.
+ */
+export interface BivariateNormalRuleBuffer extends BivariateNormalRule {
+  rho: number;
+  branch: 0 | 1 | 2;
+  count: number;
+  scale: number;
+}
+
+/**
+ * An empty rule buffer to prepare rules into (no ρ prepared yet: `rho` is NaN).
+ * @returns A buffer with room for the largest Gauss-Legendre rule.
+ * References: Genz 2004, "Numerical computation of rectangular bivariate and trivariate normal
+ * and t probabilities".
+ */
+export function createBivariateNormalRule(): BivariateNormalRuleBuffer {
+  return {
+    rho: NaN,
+    branch: 2,
+    count: 0,
+    weights: new Float64Array(MAX_RULE_POINTS),
+    first: new Float64Array(MAX_RULE_POINTS),
+    second: new Float64Array(MAX_RULE_POINTS),
+    scale: 0,
+  };
+}
+
+/**
  * Prepares the quadrature for Φ2 at one correlation (Gauss-Legendre points and weights of
  * Genz's BVND routine, mapped for this ρ).
  * @param rho Correlation in [−1, 1].
+ * @param into A buffer from `createBivariateNormalRule` to prepare the rule in (and return); when
+ *   it already holds this ρ (the same value, Object.is) it is returned as it is. Without it a new
+ *   rule is allocated, its arrays as long as the rule chosen for |ρ| (6, 12 or 20 points).
  * @throws {RangeError} when rho is NaN or outside [−1, 1].
  * @returns The prepared rule, to pass to `bivariateNormalCdfFromRule` or `bivariateNormalGrid`.
  * References: Genz 2004, "Numerical computation of rectangular bivariate and trivariate normal
  * and t probabilities".
  */
-export function prepareBivariateNormalRule(rho: number): BivariateNormalRule {
+export function prepareBivariateNormalRule(rho: number, into?: BivariateNormalRuleBuffer): BivariateNormalRule {
   if (!(rho >= -1 && rho <= 1)) throw new RangeError(`prepareBivariateNormalRule: rho must be in [-1, 1], got ${rho}`);
+  if (into !== undefined && Object.is(into.rho, rho)) return into;
   const magnitude = Math.abs(rho);
-  let halfWeights: number[];
-  let halfPoints: number[];
+  let halfWeights: readonly number[];
+  let halfPoints: readonly number[];
   if (magnitude < 0.3) {
-    halfWeights = [0.1713244923791705, 0.3607615730481384, 0.4679139345726904];
-    halfPoints = [-0.9324695142031522, -0.6612093864662647, -0.238619186083197];
+    halfWeights = GAUSS_LEGENDRE_WEIGHTS_6;
+    halfPoints = GAUSS_LEGENDRE_POINTS_6;
   } else if (magnitude < 0.75) {
-    halfWeights = [0.04717533638651177, 0.1069393259953183, 0.1600783285433464, 0.2031674267230659, 0.2334925365383547, 0.2491470458134029];
-    halfPoints = [-0.9815606342467191, -0.904117256370475, -0.769902674194305, -0.5873179542866171, -0.3678314989981802, -0.1252334085114692];
+    halfWeights = GAUSS_LEGENDRE_WEIGHTS_12;
+    halfPoints = GAUSS_LEGENDRE_POINTS_12;
   } else {
-    halfWeights = [
-      0.01761400713915212, 0.04060142980038694, 0.06267204833410906, 0.08327674157670475, 0.1019301198172404, 0.1181945319615184,
-      0.1316886384491766, 0.1420961093183821, 0.1491729864726037, 0.1527533871307259,
-    ];
-    halfPoints = [
-      -0.9931285991850949, -0.9639719272779138, -0.9122344282513259, -0.8391169718222188, -0.7463319064601508, -0.636053680726515,
-      -0.5108670019508271, -0.3737060887154196, -0.2277858511416451, -0.07652652113349733,
-    ];
+    halfWeights = GAUSS_LEGENDRE_WEIGHTS_20;
+    halfPoints = GAUSS_LEGENDRE_POINTS_20;
   }
   const half = halfPoints.length;
   const count = 2 * half;
-  const weights = new Float64Array(count);
-  const first = new Float64Array(count);
-  const second = new Float64Array(count);
+  const rule: BivariateNormalRuleBuffer =
+    into ?? { rho, branch: 2, count, weights: new Float64Array(count), first: new Float64Array(count), second: new Float64Array(count), scale: 0 };
+  const weights = rule.weights;
+  const first = rule.first;
+  const second = rule.second;
+  rule.rho = rho;
   if (rho === 0 || magnitude === 1) {
-    return { rho, branch: 2, count: 0, weights, first, second, scale: 0 };
+    rule.branch = 2;
+    rule.count = 0;
+    rule.scale = 0;
+    return rule;
   }
+  rule.count = count;
   if (magnitude < 0.925) {
     const arcsine = Math.asin(rho);
     for (let i = 0; i < half; i++) {
@@ -93,7 +163,9 @@ export function prepareBivariateNormalRule(rho: number): BivariateNormalRule {
         second[index] = inverse;
       }
     }
-    return { rho, branch: 0, count, weights, first, second, scale: arcsine / (4 * Math.PI) };
+    rule.branch = 0;
+    rule.scale = arcsine / (4 * Math.PI);
+    return rule;
   }
   const squareRootComplement = Math.sqrt((1 - rho) * (1 + rho));
   const a = squareRootComplement / 2;
@@ -106,7 +178,9 @@ export function prepareBivariateNormalRule(rho: number): BivariateNormalRule {
       second[index] = Math.sqrt(1 - xs);
     }
   }
-  return { rho, branch: 1, count, weights, first, second, scale: squareRootComplement };
+  rule.branch = 1;
+  rule.scale = squareRootComplement;
+  return rule;
 }
 
 /**
@@ -274,6 +348,8 @@ export interface BivariateGridOutput {
   readonly slope: Float64Array;
   readonly offset: number;
   readonly stride: number;
+  /** Scratch to prepare ρ's quadrature in (`createBivariateNormalRule`); without it each call allocates a rule. */
+  readonly rule?: BivariateNormalRuleBuffer;
 }
 
 /**
@@ -291,10 +367,15 @@ export interface BivariateGridOutput {
  */
 export function bivariateNormalGrid(rows: BivariateGridMargin, columns: BivariateGridMargin, rho: number, out: BivariateGridOutput): void {
   if (!(rho > -1 && rho < 1)) throw new RangeError(`bivariateNormalGrid: rho must be strictly between -1 and 1, got ${rho}`);
-  const rule = prepareBivariateNormalRule(rho);
+  const rule = prepareBivariateNormalRule(rho, out.rule);
   const complement = (1 - rho) * (1 + rho);
   const densityScale = 1 / (2 * Math.PI * Math.sqrt(complement));
   const slopeScale = 1 / (complement * complement);
+  // Factors that do not change along the grid, computed once: each is the very operation (same
+  // operands, same order) the expressions below would otherwise repeat at every corner.
+  const twiceComplement = 2 * complement;
+  const twiceRho = 2 * rho;
+  const rhoComplement = rho * complement;
   const { cdf, density, slope, offset, stride } = out;
   const columnLimits = columns.limits;
   const columnLower = columns.lower;
@@ -304,14 +385,18 @@ export function bivariateNormalGrid(rows: BivariateGridMargin, columns: Bivariat
     const h = rows.limits[i];
     const lowerH = rows.lower[i];
     const upperH = rows.upper[i];
+    const hSquared = h * h;
+    const twiceRhoH = twiceRho * h;
+    const rowStart = offset + i * stride;
     for (let j = 0; j < columnCount; j++) {
       const k = columnLimits[j];
-      const at = offset + i * stride + j;
+      const at = rowStart + j;
       cdf[at] = bivariateNormalCdfFromRule(h, k, lowerH, upperH, columnLower[j], columnUpper[j], rule);
-      const quadratic = h * h - 2 * rho * h * k + k * k;
-      const value = Math.exp(-quadratic / (2 * complement)) * densityScale;
+      // h² − 2ρhk + k², evaluated as ((h·h) − ((2·ρ)·h)·k) + k·k, as written out in full.
+      const quadratic = hSquared - twiceRhoH * k + k * k;
+      const value = Math.exp(-quadratic / twiceComplement) * densityScale;
       density[at] = value;
-      slope[at] = value * (rho * complement + h * k * complement - rho * quadratic) * slopeScale;
+      slope[at] = value * (rhoComplement + h * k * complement - rho * quadratic) * slopeScale;
     }
   }
 }

@@ -6,9 +6,8 @@
  * both tails down to the smallest normal double; the quantile is Wichura's AS 241 (PPND16),
  * accurate to about 1 part in 10^16.
  *
- * WORKER NOTE: `normalCdf` is also run inside the polychoric worker thread from its source
- * text (see parallel/polychoric-worker.ts). It must stay a top-level function
- * declaration that refers to nothing but its own locals and `Math`.
+ * bench/parallel/polychoric-worker.ts (a benchmark's kernel; the audit starts no such thread)
+ * runs `normalCdf` in a worker thread from its source text.
  *
  * References: Cody 1969, "Rational Chebyshev approximations for the error function"
  * (Mathematics of Computation 23:631-637); Cody 1993, "Algorithm 715: SPECFUN, a portable

@@ -3,9 +3,8 @@
  * coded to category indices with its thresholds τ_k = Φ⁻¹(share at or below category k) from
  * all of its observed answers, and the contingency table of two coded items.
  *
- * WORKER NOTE: `countPolychoricTable` also runs inside the polychoric worker thread from its
- * source text (parallel/polychoric-worker.ts). Keep it a top-level function declaration that
- * refers only to its locals and typed arrays.
+ * bench/parallel/polychoric-worker.ts (a benchmark's kernel; the audit starts no such thread)
+ * runs `countPolychoricTable` in a worker thread from its source text.
  *
  * References: Olsson 1979, "Maximum likelihood estimation of the polychoric correlation
  * coefficient" (Psychometrika 44:443-460); Pearson & Pearson 1922, "On polychoric
@@ -133,12 +132,17 @@ export function codeOrdinalItem(values: ArrayLike<number>, maxCategories: number
  * Counts the contingency table of two coded items in one pass over the respondents. The
  * table has row stride `columnCategories + 1`; row `rowCategories` and column
  * `columnCategories` collect respondents missing on one item and are ignored afterwards.
+ * With a `tally` of room, consecutive respondents are counted into four separate integer
+ * tables in turn, added up at the end: the counts are the same integers (sums of
+ * integers are exact), without each count waiting for the one before it in the same cell.
  * @param rowCodes Codes of the first item (missing = its category count).
  * @param rowCategories Categories of the first item.
  * @param columnCodes Codes of the second item.
  * @param columnCategories Categories of the second item.
  * @param respondents Respondents to count (the length of the code arrays).
  * @param table Output, at least (rowCategories + 1) × (columnCategories + 1) long; overwritten.
+ * @param tally Scratch (a workspace's `tally`), used when it holds four tables of that size;
+ *   overwritten. Without it (or when smaller) the table is counted directly.
  * @returns The number of pair-complete respondents.
  * References: Pearson & Pearson 1922, "On polychoric coefficients of correlation" (the
  * contingency table of two ordinal items).
@@ -150,10 +154,28 @@ export function countPolychoricTable(
   columnCategories: number,
   respondents: number,
   table: Float64Array,
+  tally?: Int32Array,
 ): number {
   const stride = columnCategories + 1;
-  table.fill(0, 0, (rowCategories + 1) * stride);
-  for (let r = 0; r < respondents; r++) table[rowCodes[r] * stride + columnCodes[r]]++;
+  const cells = (rowCategories + 1) * stride;
+  if (tally !== undefined && tally.length >= 4 * cells) {
+    tally.fill(0, 0, 4 * cells);
+    const second = cells;
+    const third = 2 * cells;
+    const fourth = 3 * cells;
+    let r = 0;
+    for (; r + 3 < respondents; r += 4) {
+      tally[rowCodes[r] * stride + columnCodes[r]]++;
+      tally[second + rowCodes[r + 1] * stride + columnCodes[r + 1]]++;
+      tally[third + rowCodes[r + 2] * stride + columnCodes[r + 2]]++;
+      tally[fourth + rowCodes[r + 3] * stride + columnCodes[r + 3]]++;
+    }
+    for (; r < respondents; r++) tally[rowCodes[r] * stride + columnCodes[r]]++;
+    for (let at = 0; at < cells; at++) table[at] = tally[at] + tally[second + at] + tally[third + at] + tally[fourth + at];
+  } else {
+    table.fill(0, 0, cells);
+    for (let r = 0; r < respondents; r++) table[rowCodes[r] * stride + columnCodes[r]]++;
+  }
   let n = 0;
   for (let i = 0; i < rowCategories; i++) {
     for (let j = 0; j < columnCategories; j++) n += table[i * stride + j];

@@ -39,10 +39,9 @@
  *   the public two-item function `polychoricCorrelation`;
  * - polychoric-pairs.ts: many pairs packed into one job, as the worker threads run it.
  *
- * WORKER NOTE: `estimatePolychoricFromTable` also runs inside the polychoric worker thread from
- * its source text (parallel/polychoric-worker.ts), with the worker functions of the three other
- * files. Keep it a top-level function declaration that refers only to its locals, `Math`, typed
- * arrays, those functions and the tolerance values passed in `limits`.
+ * bench/parallel/polychoric-worker.ts (a benchmark's kernel; the audit starts no such thread)
+ * runs `estimatePolychoricFromTable` in a worker thread from its source text, with the functions
+ * it calls; the tolerance values travel in `limits`.
  *
  * References: Olsson 1979, "Maximum likelihood estimation of the polychoric correlation
  * coefficient" (Psychometrika 44:443-460); Pearson & Pearson 1922, "On polychoric
@@ -269,7 +268,7 @@ export function polychoricCorrelation(x: ArrayLike<number>, y: ArrayLike<number>
     thresholdsY: Array.from(itemY.thresholds.limits),
   };
   const work = createPolychoricWorkspace(Math.max(2, categoriesX, categoriesY));
-  const n = countPolychoricTable(itemX.codes, categoriesX, itemY.codes, categoriesY, x.length, work.table);
+  const n = countPolychoricTable(itemX.codes, categoriesX, itemY.codes, categoriesY, x.length, work.table, work.tally);
   if (categoriesX < 2 || categoriesY < 2) {
     const reason = n < MIN_ROWS_FOR_CORRELATION ? 'too-few-rows' : 'no-variation';
     return { rho: null, standardError: null, n, status: 'undefined', undefinedReason: reason, iterations: 0, ...base };

@@ -4,17 +4,29 @@
  * thresholds, its analytic first and second derivatives, and the safeguarded Newton search for
  * the maximising ρ, with the scratch arrays they share.
  *
- * WORKER NOTE: `createPolychoricWorkspace`, `polychoricLikelihood` and `fitPolychoricTable`
- * also run inside the polychoric worker thread from their source text
- * (parallel/polychoric-worker.ts). Keep them top-level function declarations that refer only to
- * their locals, `Math`, typed arrays, each other and the bivariate normal functions.
+ * The workspace holds everything a likelihood evaluation writes (the grid's arrays, where it
+ * writes them, and the bivariate normal rule of the current ρ), so the many evaluations of a
+ * matrix allocate nothing. bench/parallel/polychoric-worker.ts (a benchmark's kernel, not the
+ * audit) also runs these functions in a worker thread from their source text.
  *
  * References: Olsson 1979, "Maximum likelihood estimation of the polychoric correlation
  * coefficient" (Psychometrika 44:443-460); Plackett 1954, "A reduction formula for normal
  * multivariate integrals" (Biometrika 41:351-360); Press et al. 2007, "Numerical Recipes",
  * 3rd ed., §9.4.
  */
-import { bivariateNormalGrid, type BivariateGridMargin } from './bivariate-normal-cdf';
+import { bivariateNormalGrid, createBivariateNormalRule, type BivariateGridMargin, type BivariateNormalRuleBuffer } from './bivariate-normal-cdf';
+
+/** Where a likelihood evaluation has `bivariateNormalGrid` write: the workspace's arrays, laid out per pair. */
+export interface PolychoricGridOutput {
+  readonly cdf: Float64Array;
+  readonly density: Float64Array;
+  readonly slope: Float64Array;
+  /** Set for each pair: the first interior corner and the row stride. */
+  offset: number;
+  stride: number;
+  /** The bivariate normal rule, prepared again only when ρ changes. */
+  readonly rule: BivariateNormalRuleBuffer;
+}
 
 /** Scratch arrays for one pair, reused across pairs (sized for the largest item). */
 export interface PolychoricWorkspace {
@@ -22,6 +34,8 @@ export interface PolychoricWorkspace {
   readonly maxCategories: number;
   /** Contingency table, row stride maxCategories + 1 (the extra column counts missing answers). */
   readonly table: Float64Array;
+  /** Integer scratch for counting a table: four tables of its size (countPolychoricTable). */
+  readonly tally: Int32Array;
   /** Corrected copy of the table (same layout). */
   readonly corrected: Float64Array;
   /** Φ2, φ2 and ∂φ2/∂ρ on the threshold grid including the ±∞ borders, stride maxCategories + 1. */
@@ -30,6 +44,8 @@ export interface PolychoricWorkspace {
   readonly slope: Float64Array;
   /** ℓ, ℓ′, ℓ″ and a validity flag (1 when every observed cell has positive probability). */
   readonly derivatives: Float64Array;
+  /** cdf, density and slope with their layout and the quadrature rule, handed to `bivariateNormalGrid`. */
+  readonly grid: PolychoricGridOutput;
 }
 
 /**
@@ -45,14 +61,19 @@ export function createPolychoricWorkspace(maxCategories: number): PolychoricWork
     throw new RangeError(`createPolychoricWorkspace: maxCategories must be an integer from 2 to 254, got ${maxCategories}`);
   }
   const side = maxCategories + 1;
+  const cdf = new Float64Array(side * side);
+  const density = new Float64Array(side * side);
+  const slope = new Float64Array(side * side);
   return {
     maxCategories,
     table: new Float64Array(side * side),
+    tally: new Int32Array(4 * side * side),
     corrected: new Float64Array(side * side),
-    cdf: new Float64Array(side * side),
-    density: new Float64Array(side * side),
-    slope: new Float64Array(side * side),
+    cdf,
+    density,
+    slope,
     derivatives: new Float64Array(4),
+    grid: { cdf, density, slope, offset: 0, stride: 0, rule: createBivariateNormalRule() },
   };
 }
 
@@ -60,11 +81,15 @@ export function createPolychoricWorkspace(maxCategories: number): PolychoricWork
  * ℓ(ρ), ℓ′(ρ) and ℓ″(ρ) of a contingency table under the bivariate normal model with fixed
  * thresholds, written into `work.derivatives` as [ℓ, ℓ′, ℓ″, valid]; valid is 0 when a
  * non-empty cell has zero probability at this ρ (ρ too close to ±1), and then ℓ′, ℓ″ are 0.
+ * The probabilities stay in the workspace until the next evaluation, so ℓ can be had later
+ * from them (`polychoricLogLikelihoodOfGrid`) when a Newton step needs only ℓ′ and ℓ″.
  * @param rho Correlation strictly inside (−1, 1).
  * @param table Cell counts, row stride `columns.count + 2`.
  * @param rows Thresholds of the row item (count = row categories − 1).
  * @param columns Thresholds of the column item.
  * @param work Workspace from `createPolychoricWorkspace`.
+ * @param withLogLikelihood False to leave ℓ out (its logarithms): `work.derivatives[0]` is then
+ *   NaN. True by default.
  * References: Olsson 1979, "Maximum likelihood estimation of the polychoric correlation
  * coefficient"; Plackett 1954, "A reduction formula for normal multivariate integrals".
  */
@@ -74,6 +99,7 @@ export function polychoricLikelihood(
   rows: BivariateGridMargin,
   columns: BivariateGridMargin,
   work: PolychoricWorkspace,
+  withLogLikelihood: boolean = true,
 ): void {
   const rowCategories = rows.count + 1;
   const columnCategories = columns.count + 1;
@@ -82,7 +108,10 @@ export function polychoricLikelihood(
   const density = work.density;
   const slope = work.slope;
   // Interior corners from the quadrature; borders (±∞ limits) from the margins.
-  bivariateNormalGrid(rows, columns, rho, { cdf, density, slope, offset: stride + 1, stride });
+  const grid = work.grid;
+  grid.offset = stride + 1;
+  grid.stride = stride;
+  bivariateNormalGrid(rows, columns, rho, grid);
   for (let j = 0; j <= columnCategories; j++) {
     cdf[j] = 0;
     density[j] = 0;
@@ -119,16 +148,48 @@ export function polychoricLikelihood(
       const change = density[bottom + j + 1] - density[top + j + 1] - density[bottom + j] + density[top + j];
       const curvature = slope[bottom + j + 1] - slope[top + j + 1] - slope[bottom + j] + slope[top + j];
       const ratio = change / probability;
-      logLikelihood += count * Math.log(probability);
+      if (withLogLikelihood) logLikelihood += count * Math.log(probability);
       first += count * ratio;
       second += count * (curvature / probability - ratio * ratio);
     }
   }
   const out = work.derivatives;
-  out[0] = valid === 1 ? logLikelihood : -Infinity;
+  out[0] = !withLogLikelihood ? NaN : valid === 1 ? logLikelihood : -Infinity;
   out[1] = valid === 1 ? first : 0;
   out[2] = valid === 1 ? second : 0;
   out[3] = valid;
+}
+
+/**
+ * ℓ of the table at the ρ of the workspace's last `polychoricLikelihood` evaluation, from the
+ * probabilities that evaluation left in `work.cdf`: the same sum, cell by cell in the same order,
+ * so the very value that evaluation would have written as ℓ.
+ * @param table The cell counts of that evaluation.
+ * @param rows Thresholds of the row item (as in that evaluation).
+ * @param columns Thresholds of the column item (as in that evaluation).
+ * @param work The workspace of that evaluation, not used since.
+ * @returns ℓ, or −Infinity when a non-empty cell has no probability.
+ * References: Olsson 1979, "Maximum likelihood estimation of the polychoric correlation
+ * coefficient".
+ */
+export function polychoricLogLikelihoodOfGrid(table: Float64Array, rows: BivariateGridMargin, columns: BivariateGridMargin, work: PolychoricWorkspace): number {
+  const rowCategories = rows.count + 1;
+  const columnCategories = columns.count + 1;
+  const stride = columnCategories + 1;
+  const cdf = work.cdf;
+  let logLikelihood = 0;
+  for (let i = 0; i < rowCategories; i++) {
+    const top = i * stride;
+    const bottom = top + stride;
+    for (let j = 0; j < columnCategories; j++) {
+      const count = table[top + j];
+      if (count === 0) continue;
+      const probability = cdf[bottom + j + 1] - cdf[top + j + 1] - cdf[bottom + j] + cdf[top + j];
+      if (!(probability > 0)) return -Infinity;
+      logLikelihood += count * Math.log(probability);
+    }
+  }
+  return logLikelihood;
 }
 
 /** Outcome of the ρ search on one table. */
@@ -185,7 +246,8 @@ export function fitPolychoricTable(
   let iteration = 0;
   while (iteration < maxIterations) {
     iteration++;
-    polychoricLikelihood(rho, table, rows, columns, work);
+    // ℓ itself is wanted only where the search stops: taken then from the grid this evaluation leaves.
+    polychoricLikelihood(rho, table, rows, columns, work, false);
     let next: number;
     if (derivatives[3] === 0) {
       // A non-empty cell has no probability left: ρ is beyond the region the data allow.
@@ -201,7 +263,7 @@ export function fitPolychoricTable(
       if (gradient === 0 && !flat) {
         estimate = rho;
         curvatureAtEstimate = curvature;
-        logLikelihoodAtEstimate = derivatives[0];
+        logLikelihoodAtEstimate = polychoricLogLikelihoodOfGrid(table, rows, columns, work);
         break;
       }
       const rising = gradient > 0 || (flat && rho > 0);
@@ -218,7 +280,7 @@ export function fitPolychoricTable(
       if (Math.abs(next - rho) < tolerance) {
         estimate = next;
         curvatureAtEstimate = curvature;
-        logLikelihoodAtEstimate = derivatives[0];
+        logLikelihoodAtEstimate = polychoricLogLikelihoodOfGrid(table, rows, columns, work);
         break;
       }
       if (!(next > low && next < high)) {
@@ -230,7 +292,7 @@ export function fitPolychoricTable(
     if (high - low < tolerance) {
       estimate = next;
       curvatureAtEstimate = derivatives[2];
-      logLikelihoodAtEstimate = derivatives[0];
+      logLikelihoodAtEstimate = polychoricLogLikelihoodOfGrid(table, rows, columns, work);
       break;
     }
     rho = next;

@@ -3,10 +3,9 @@
  * job that can be posted to a worker thread unchanged), and the loop that estimates them with
  * the same per-table estimator as `polychoricCorrelation`.
  *
- * WORKER NOTE: `estimatePolychoricPairs` also runs inside the polychoric worker thread from its
- * source text (parallel/polychoric-worker.ts). Keep it a top-level function declaration that
- * refers only to its locals, `Math`, typed arrays and the other worker functions (no imported
- * constants: the tuning values travel in `job.tuning`).
+ * bench/parallel/polychoric-worker.ts (a benchmark's kernel; the audit starts no such thread)
+ * runs `estimatePolychoricPairs` in a worker thread from its source text, with the functions it
+ * calls; the tuning values travel in `job.tuning`.
  *
  * References: Olsson 1979, "Maximum likelihood estimation of the polychoric correlation
  * coefficient" (Psychometrika 44:443-460).
@@ -117,7 +116,7 @@ export function estimatePolychoricPairs(job: PolychoricPairsJob): Float64Array {
   for (let p = 0; p < pairCount; p++) {
     const a = job.pairs[2 * p];
     const b = job.pairs[2 * p + 1];
-    const n = countPolychoricTable(codeRuns[a], categories[a], codeRuns[b], categories[b], respondents, work.table);
+    const n = countPolychoricTable(codeRuns[a], categories[a], codeRuns[b], categories[b], respondents, work.table, work.tally);
     const at = p * 5;
     if (categories[a] < 2 || categories[b] < 2) {
       out[at] = NaN;
