@@ -131,33 +131,10 @@ export function randomCorrelationEigenvaluesOnThreads(
   if (!Number.isInteger(iterations) || iterations < 1) {
     throw new RangeError(`randomCorrelationEigenvaluesOnThreads: iterations must be a positive integer, got ${iterations}`);
   }
-  const used = Math.min(threads, iterations);
-  const ranges: RandomEigenvalueJob[] = [];
-  for (let thread = 0; thread < used; thread++) {
-    ranges.push({
-      rows, items, seed,
-      firstDraw: Math.floor((thread * iterations) / used),
-      endDraw: Math.floor(((thread + 1) * iterations) / used),
-    });
-  }
-  const answers = ranges.map((job) =>
-    runWorkerOnce<Float64Array>(RANDOM_EIGENVALUE_WORKER, {
-      name: RANDOM_EIGENVALUE_WORKER.name,
-      workerData: job,
-      timeLimitMs: THREAD_TIME_LIMIT_MS,
-      resourceLimits: { maxOldGenerationSizeMb: THREAD_HEAP_MB },
-    }),
-  );
-  return Promise.all(answers).then((parts) => {
-    const drawMajor = new Float64Array(items * iterations);
-    parts.forEach((part, index) => {
-      const { firstDraw, endDraw } = ranges[index];
-      if (part.length !== items * (endDraw - firstDraw)) {
-        throw new Error(`randomCorrelationEigenvaluesOnThreads: a thread answered ${part.length} values for draws ${firstDraw}-${endDraw - 1}, expected ${items * (endDraw - firstDraw)}`);
-      }
-      drawMajor.set(part, firstDraw * items);
-    });
-    const values = drawMajorToPositionMajor(drawMajor, items, iterations);
+  return eigenvaluesOnThreads('randomCorrelationEigenvaluesOnThreads', items, iterations, threads, (firstDraw, endDraw) => ({
+    job: { rows, items, seed, firstDraw, endDraw },
+    transfer: [],
+  })).then((values) => {
     rememberRandomCorrelationEigenvalues(rows, items, iterations, seed, values);
     return values;
   });
@@ -209,18 +186,43 @@ export function randomPolychoricEigenvaluesOnThreads(
   if (threads === 0) return Promise.resolve(randomPolychoricEigenvalues(rows, thresholds, iterations, seed));
   const items = thresholds.length;
   const codes = randomOrdinalCodes(rows, thresholds, iterations, seed);
+  const size = rows * items;
+  return eigenvaluesOnThreads('randomPolychoricEigenvaluesOnThreads', items, iterations, threads, (firstDraw, endDraw) => {
+    const job: RandomPolychoricEigenvalueJob = { kind: 'polychoric', rows, items, codes: codes.slice(firstDraw * size, endDraw * size) };
+    return { job, transfer: [job.codes.buffer as ArrayBuffer] };
+  }).then((values) => {
+    rememberRandomPolychoricEigenvalues(rows, thresholds, iterations, seed, values);
+    return values;
+  });
+}
+
+/**
+ * Splits `iterations` draws into one range per thread (at most one thread per draw), runs each
+ * range's job on the random-eigenvalue worker, and puts the answers together in draw order.
+ * @param caller Name of the public function, for the error message.
+ * @param items Eigenvalues per draw.
+ * @param jobOf The job of draws firstDraw to endDraw − 1, and the buffers to move with it.
+ * @returns A promise of `values[k * iterations + t]`: eigenvalue k of draw t.
+ * References: none (splitting work over threads).
+ */
+function eigenvaluesOnThreads(
+  caller: string,
+  items: number,
+  iterations: number,
+  threads: number,
+  jobOf: (firstDraw: number, endDraw: number) => { job: RandomEigenvalueJob | RandomPolychoricEigenvalueJob; transfer: ArrayBuffer[] },
+): Promise<Float64Array> {
   const used = Math.min(threads, iterations);
   const ranges: { firstDraw: number; endDraw: number }[] = [];
   for (let thread = 0; thread < used; thread++) {
     ranges.push({ firstDraw: Math.floor((thread * iterations) / used), endDraw: Math.floor(((thread + 1) * iterations) / used) });
   }
-  const size = rows * items;
   const answers = ranges.map(({ firstDraw, endDraw }) => {
-    const job: RandomPolychoricEigenvalueJob = { kind: 'polychoric', rows, items, codes: codes.slice(firstDraw * size, endDraw * size) };
+    const { job, transfer } = jobOf(firstDraw, endDraw);
     return runWorkerOnce<Float64Array>(RANDOM_EIGENVALUE_WORKER, {
       name: RANDOM_EIGENVALUE_WORKER.name,
       workerData: job,
-      transferList: [job.codes.buffer as ArrayBuffer],
+      ...(transfer.length > 0 ? { transferList: transfer } : {}),
       timeLimitMs: THREAD_TIME_LIMIT_MS,
       resourceLimits: { maxOldGenerationSizeMb: THREAD_HEAP_MB },
     });
@@ -230,12 +232,10 @@ export function randomPolychoricEigenvaluesOnThreads(
     parts.forEach((part, index) => {
       const { firstDraw, endDraw } = ranges[index];
       if (part.length !== items * (endDraw - firstDraw)) {
-        throw new Error(`randomPolychoricEigenvaluesOnThreads: a thread answered ${part.length} values for data sets ${firstDraw}-${endDraw - 1}, expected ${items * (endDraw - firstDraw)}`);
+        throw new Error(`${caller}: a thread answered ${part.length} values for draws ${firstDraw}-${endDraw - 1}, expected ${items * (endDraw - firstDraw)}`);
       }
       drawMajor.set(part, firstDraw * items);
     });
-    const values = drawMajorToPositionMajor(drawMajor, items, iterations);
-    rememberRandomPolychoricEigenvalues(rows, thresholds, iterations, seed, values);
-    return values;
+    return drawMajorToPositionMajor(drawMajor, items, iterations);
   });
 }
