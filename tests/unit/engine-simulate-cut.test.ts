@@ -1,4 +1,7 @@
+import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
+import { auditInputFromWave } from '../../src/lib/audit/audit-input';
+import { acceptProposal, readWave } from '../../src/lib/ingest';
 import { computeEvidence } from '../../src/lib/engine/compute-evidence';
 import { largestVif, simulateCut } from '../../src/lib/engine/simulate-cut';
 import { engineInputFromSyntheticWave } from '../../src/lib/evaluation/synthetic-wave-input';
@@ -54,6 +57,33 @@ describe('simulateCut', () => {
         expect(found.alpha).toBeCloseTo(scale.alpha!, 12);
         expect(found.omegaTotal ?? -1).toBeCloseTo(scale.omegaTotal ?? -1, 9);
       }
+    }
+  });
+
+  it('treats an indefinite matrix of the remaining items as a fresh audit does: smoothed, not projected (the demo wave, polychoric)', async () => {
+    const read = await readWave({
+      fileName: 'library-pilot-1.csv',
+      bytes: new Uint8Array(readFileSync(new URL('../../fixtures/demo/library-pilot-1.csv', import.meta.url))),
+      codebookName: 'library-codebook.csv',
+      codebookBytes: new Uint8Array(readFileSync(new URL('../../fixtures/demo/library-codebook.csv', import.meta.url))),
+      sheet: null,
+    });
+    const { matrix, items } = auditInputFromWave(acceptProposal(read, { outcome: null, keepAll: false }).wave, { outcome: null, locked: [] });
+    const settings = { method: 'polychoric', missing: 'pairwise' } as const;
+    const evidence = computeEvidence(matrix, items, settings);
+    expect(evidence.repaired).toBe(true);
+    // One item away from the near-copies: what is left is still indefinite before smoothing.
+    const removedIds = [items[items.length - 1].id];
+    const kept = items.map((_, j) => j).filter((j) => !removedIds.includes(items[j].id));
+    const fresh = computeEvidence(selectItems(matrix, kept), kept.map((j) => items[j]), settings);
+    expect(fresh.warnings.some((warning) => warning.code === 'matrix-smoothed')).toBe(true);
+    const after = simulateCut(evidence, matrix, removedIds, { secondsPerItem: 8 });
+    expect(after.maxVif! / largestVif(fresh.vif, fresh.usable)!).toBeCloseTo(1, 9);
+    expect(after.conditionNumber! / fresh.conditionNumber!).toBeCloseTo(1, 9);
+    for (const scale of fresh.scales) {
+      const found = after.scales.find((candidate) => candidate.id === scale.id)!;
+      expect(found.alpha).toBeCloseTo(scale.alpha!, 12);
+      expect(found.omegaTotal ?? -1).toBeCloseTo(scale.omegaTotal ?? -1, 9);
     }
   });
 

@@ -9,7 +9,8 @@
  * or no missing answer at all) and the matrix needed no repair, the remaining items' matrices are
  * read from the evidence (principal submatrices), which is exactly what a fresh audit computes;
  * otherwise (listwise deletion with missing answers, or a repaired matrix) they are recomputed
- * from the data of the remaining items.
+ * from the data of the remaining items, an indefinite one smoothed as the audit smooths it
+ * (settle-indefinite.ts).
  */
 import { correlationMatrix } from '../stats/correlation-matrix';
 import { covarianceMatrix } from '../stats/covariance-matrix';
@@ -19,6 +20,7 @@ import { inflationAndSpectrum, scaleReliability, warningsFromNotices } from './c
 import type { EngineSettings } from './engine-settings';
 import { facetWarnings } from './facet-coverage';
 import { principalSubmatrix } from './principal-submatrix';
+import { settleIndefinite } from './settle-indefinite';
 import type { EngineEvidence, EngineWarning } from './types';
 
 /** One scale before and after the cut (audit-json `afterCut.scales[]`, with keys added). */
@@ -118,10 +120,14 @@ export function simulateCut(
     correlation = principalSubmatrix(evidence.correlation, local);
     covariance = principalSubmatrix(evidence.covariance, local);
   } else {
+    // As a fresh audit of these items: unrepaired correlations, then the engine's treatment of an
+    // indefinite matrix (smoothing, Higham's projection only when the smoothing declines).
     const data = selectItems(matrix, kept);
-    const fresh = correlationMatrix(data, { method: evidence.method, missing: evidence.missing });
-    warnings.push(...warningsFromNotices(fresh.notices, items, kept));
-    correlation = fresh.matrix;
+    const fresh = correlationMatrix(data, { method: evidence.method, missing: evidence.missing, repair: 'none' });
+    const settled = settleIndefinite(fresh, data);
+    warnings.push(...warningsFromNotices(settled.notices, items, kept));
+    if (settled.smoothed !== null) warnings.push(...warningsFromNotices(settled.smoothed.notices, items, settled.smoothed.kept.map((k) => kept[k])));
+    correlation = settled.matrix;
     covariance = covarianceMatrix(data, { missing: evidence.missing }).matrix;
   }
 
