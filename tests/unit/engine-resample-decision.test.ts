@@ -6,9 +6,7 @@
  * the stability shares of `bootstrapStability` equal to the ones the reference resamples give,
  * whatever runner decides them.
  */
-import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { auditInputFromWave } from '../../src/lib/audit/audit-input';
 import { bootstrapStability, type ResampleRunner } from '../../src/lib/engine/bootstrap-stability';
 import { computeEvidence } from '../../src/lib/engine/compute-evidence';
 import { resolveEngineSettings, type EngineSettings } from '../../src/lib/engine/engine-settings';
@@ -20,11 +18,11 @@ import type { EngineItem } from '../../src/lib/engine/types';
 import { eigenVifAfterRemoval, schurVifAfterRemoval } from '../../src/lib/engine/vif-after-removal';
 import { wordingSimilarity } from '../../src/lib/engine/wording-similarity';
 import { engineInputFromSyntheticWave } from '../../src/lib/evaluation/synthetic-wave-input';
-import { acceptProposal, readWave } from '../../src/lib/ingest';
 import { generateWave } from '../../src/lib/synth/generate-wave';
 import { randomWaveSpec } from '../../src/lib/synth/random-wave-spec';
 import { selectRespondents, type ItemMatrix } from '../../src/lib/stats/types';
 import { referenceResampleDecision, referenceResampleRows } from './bootstrap-reference';
+import { demoWaveInput } from './demo-wave-input';
 
 interface Case {
   readonly matrix: ItemMatrix;
@@ -52,15 +50,7 @@ function generated(seed: number, settings: Partial<EngineSettings> = {}): Case {
 }
 
 async function demoCase(settings: Partial<EngineSettings>): Promise<Case> {
-  const read = await readWave({
-    fileName: 'library-pilot-1.csv',
-    bytes: new Uint8Array(readFileSync(new URL('../../fixtures/demo/library-pilot-1.csv', import.meta.url))),
-    codebookName: 'library-codebook.csv',
-    codebookBytes: new Uint8Array(readFileSync(new URL('../../fixtures/demo/library-codebook.csv', import.meta.url))),
-    sheet: null,
-  });
-  const { wave } = acceptProposal(read, { outcome: null, keepAll: false });
-  const input = auditInputFromWave(wave, { outcome: null, locked: [] });
+  const input = await demoWaveInput();
   return {
     matrix: input.matrix,
     items: input.items,

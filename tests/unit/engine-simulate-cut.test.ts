@@ -1,7 +1,4 @@
-import { readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { auditInputFromWave } from '../../src/lib/audit/audit-input';
-import { acceptProposal, readWave } from '../../src/lib/ingest';
 import { computeEvidence } from '../../src/lib/engine/compute-evidence';
 import { largestVif, simulateCut } from '../../src/lib/engine/simulate-cut';
 import { engineInputFromSyntheticWave } from '../../src/lib/evaluation/synthetic-wave-input';
@@ -9,6 +6,7 @@ import { selectItems } from '../../src/lib/stats/types';
 import { generateWave } from '../../src/lib/synth/generate-wave';
 import { randomWaveSpec } from '../../src/lib/synth/random-wave-spec';
 import type { CorrelationMethod, MissingPolicy } from '../../src/lib/stats/types';
+import { demoWaveInput } from './demo-wave-input';
 import { engineReference as ref, referenceInput } from './engine-fixture';
 
 describe('simulateCut', () => {
@@ -61,14 +59,7 @@ describe('simulateCut', () => {
   });
 
   it('treats an indefinite matrix of the remaining items as a fresh audit does: smoothed, not projected (the demo wave, polychoric)', async () => {
-    const read = await readWave({
-      fileName: 'library-pilot-1.csv',
-      bytes: new Uint8Array(readFileSync(new URL('../../fixtures/demo/library-pilot-1.csv', import.meta.url))),
-      codebookName: 'library-codebook.csv',
-      codebookBytes: new Uint8Array(readFileSync(new URL('../../fixtures/demo/library-codebook.csv', import.meta.url))),
-      sheet: null,
-    });
-    const { matrix, items } = auditInputFromWave(acceptProposal(read, { outcome: null, keepAll: false }).wave, { outcome: null, locked: [] });
+    const { matrix, items } = await demoWaveInput();
     const settings = { method: 'polychoric', missing: 'pairwise' } as const;
     const evidence = computeEvidence(matrix, items, settings);
     expect(evidence.repaired).toBe(true);
