@@ -56,14 +56,14 @@ export function weightedPearson(
   for (let i = 0; i < rows; i++) if (weights[i] > 0) distinct++;
   const drawn = new Int32Array(distinct);
   const w = new Float64Array(distinct);
+  let total = 0;
   for (let i = 0, t = 0; i < rows; i++) {
     if (weights[i] > 0) {
       drawn[t] = i;
       w[t++] = weights[i];
+      total += weights[i];
     }
   }
-  let total = 0;
-  for (let t = 0; t < distinct; t++) total += w[t];
   const out: PairTargets = {
     r: new Float64Array(order * order),
     rN: new Float64Array(order * order),
@@ -75,11 +75,12 @@ export function weightedPearson(
   // Whether every answer is an integer (any negative, the largest |answer|): read from the whole
   // matrix, found once per matrix, when that already allows the integer path (a resample's
   // answers are some of the matrix's); otherwise from the drawn rows of the listed items.
+  const exact = (answers: AnswerTraits): boolean => answers.integral && total * Math.max(1, answers.largest) < EXACT_INTEGER_SCALE;
   const whole = answerTraits(matrix);
-  const traits = whole.integral && total * Math.max(1, whole.largest) < EXACT_INTEGER_SCALE ? whole : drawnAnswerTraits(matrix, columns, drawn);
+  const traits = exact(whole) ? whole : drawnAnswerTraits(matrix, columns, drawn);
   let hasMissing: boolean;
   let withAnswer: number;
-  if (traits.integral && total * Math.max(1, traits.largest) < EXACT_INTEGER_SCALE) {
+  if (exact(traits)) {
     const filled = fillIntegerColumns(matrix, columns, drawn, w, traits.negative ? 1 : packedLanes(total * traits.largest * traits.largest));
     if (missing === 'listwise' && filled.hasMissing) return null;
     ({ hasMissing, withAnswer } = filled);
