@@ -96,6 +96,28 @@ describe('runAudit on the demo wave', async () => {
     expect(JSON.stringify(again)).toBe(JSON.stringify(audit));
   });
 
+  it('hands out the early cut list once, before the bootstrap: the same lines, stability still null', async () => {
+    const early: { resamples: number; recommendations: typeof audit.recommendations }[] = [];
+    const stages: string[] = [];
+    const again = await runAudit(input, { bootstrap: 20, seed: 7, outcome: 'overall_sat' }, (stage) => stages.push(stage), undefined, undefined, (cutList) => {
+      early.push(cutList);
+      stages.push('cut-list');
+    });
+    expect(JSON.stringify(again)).toBe(JSON.stringify(audit));
+    expect(early).toHaveLength(1);
+    expect(early[0].resamples).toBe(20);
+    // Handed out while the engine stage runs, before the outcome stage.
+    expect(stages.indexOf('cut-list')).toBeGreaterThan(stages.indexOf('engine'));
+    expect(stages.indexOf('cut-list')).toBeLessThan(stages.indexOf('outcome'));
+    const lines = (list: typeof audit.recommendations) => list.map(({ cluster, keep, actions, reason }) => ({ cluster, keep, actions, reason }));
+    expect(lines(early[0].recommendations)).toEqual(lines(audit.recommendations));
+    expect(early[0].recommendations.every((line) => line.stability === null)).toBe(true);
+    // Without a bootstrap there is nothing to wait for, and no early list.
+    let called = false;
+    await runAudit(input, { bootstrap: 0, seed: 7, outcome: 'overall_sat' }, undefined, undefined, undefined, () => (called = true));
+    expect(called).toBe(false);
+  });
+
   it('never proposes a locked item for a cut', async () => {
     const lockedIds = audit.recommendations.flatMap((r) => r.actions.filter((a) => a.action !== 'keep').map((a) => a.item));
     expect(lockedIds.length).toBeGreaterThan(0);

@@ -77,6 +77,17 @@ export interface AuditRecommendationJson {
   [extra: string]: unknown;
 }
 
+/**
+ * The early cut list: an audit's recommendations as soon as they are made, before the bootstrap
+ * has checked how often resamples repeat them (each `stability` is still null). A running audit's
+ * summary carries it (GET /api/audits/{id}) until the audit ends; the finished JSON replaces it.
+ */
+export interface EarlyCutListJson {
+  /** The resamples the bootstrap is running to check them. */
+  resamples: number;
+  recommendations: AuditRecommendationJson[];
+}
+
 export interface AuditAfterCutJson {
   maxVif: number | null;
   conditionNumber: number | null;

@@ -41,6 +41,7 @@ import {
   type AuditOutcomeModelJson,
   type AuditRecommendationJson,
   type AuditWarningJson,
+  type EarlyCutListJson,
 } from './audit-json';
 import { exploratoryStructure } from './exploratory-structure';
 import { parallelAnalysisThreadCount, randomCorrelationEigenvaluesOnThreads, randomPolychoricEigenvaluesOnThreads } from './random-eigenvalue-threads';
@@ -102,6 +103,8 @@ const STAGE_SPAN = Object.freeze({ evidence: [0, 0.2], structure: [0.2, 0.3], en
  * @param signal Aborts between bootstrap resamples.
  * @param resampleRunner Decides the bootstrap's resamples (the command line's worker threads,
  *   resample-threads.ts); default: on the calling thread. The figures are the same either way.
+ * @param onCutList Called once, before the bootstrap, with the early cut list: the recommendations
+ *   as the JSON will carry them, stability still null (not called without a bootstrap to wait for).
  * @throws {RangeError} when the items do not match the matrix, a setting is out of range, or the
  *   settings name an outcome that was not supplied.
  * @returns The audit JSON; statistics that do not exist are null with a warning.
@@ -113,6 +116,7 @@ export async function runAudit(
   onProgress?: AuditProgress,
   signal?: AbortSignal,
   resampleRunner?: ResampleRunner,
+  onCutList?: (cutList: EarlyCutListJson) => void,
 ): Promise<AuditJson> {
   const lockedItems = input.items.filter((item) => item.locked).map((item) => item.id);
   // The stored shape (settings-table.ts), echoed unchanged as the JSON's `settings`. testFault is
@@ -216,6 +220,7 @@ export async function runAudit(
     (stage, fraction) => report('engine', stage === 'bootstrap' ? 0.1 + 0.9 * fraction : 0.1 * fraction),
     signal,
     resampleRunner,
+    onCutList === undefined ? undefined : (recommendations) => onCutList({ resamples: engineSettings.bootstrap, recommendations: recommendations.map(recommendationJson) }),
   );
   warnings.push(...engine.warnings.map(plainWarning));
 

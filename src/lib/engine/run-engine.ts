@@ -55,6 +55,8 @@ export interface EngineResult {
  * @param signal Aborts the bootstrap between resamples.
  * @param runner Decides the bootstrap's resamples (e.g. on worker threads); default: on the calling
  *   thread. The stability figures are the same either way.
+ * @param onCutList Called once with the recommendations (stability still null) when a bootstrap is
+ *   about to check them, so that a caller can show the cut list while the resamples run.
  * @throws {RangeError} when a setting is out of range, the items or matrix do not match the
  *   evidence, or the evidence was computed with another method or missing-data policy.
  * @throws the signal's reason when aborted.
@@ -70,6 +72,7 @@ export async function runEngine(
   onProgress?: EngineProgress,
   signal?: AbortSignal,
   runner?: ResampleRunner,
+  onCutList?: (recommendations: readonly Recommendation[]) => void,
 ): Promise<EngineResult> {
   const resolved = resolveEngineSettings(settings);
   if (resolved.method !== evidence.method || resolved.missing !== evidence.missing) {
@@ -115,6 +118,7 @@ export async function runEngine(
 
   let recommendations: Recommendation[] = [...cuts.recommendations];
   if (resolved.bootstrap > 0 && recommendations.length > 0) {
+    onCutList?.(recommendations);
     const reuse = evidence.localDependence === null ? null : localDependenceReuse(evidence.localDependence);
     const stability = await bootstrapStability(matrix, items, resolved, wording, recommendations, { onProgress, signal, reuse, ...(runner === undefined ? {} : { runner }) });
     recommendations = recommendations.map((recommendation, k) => {
