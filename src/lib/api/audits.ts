@@ -7,7 +7,7 @@
  * (src/lib/audit/settings-table.ts, docs/decisions/006): this file re-exports their types and
  * ./schemas/audits.ts the schema, so routes, islands and tests name one place.
  */
-import type { AuditJson } from '../audit/audit-json';
+import type { AuditJson, EarlyCutListJson } from '../audit/audit-json';
 import type { EngineSettings } from '../engine/engine-settings';
 import { callApi, segment, type ApiResult } from './client';
 import type { WaveSummary } from './waves';
@@ -39,6 +39,11 @@ export interface AuditSummary {
   settings: ResolvedAuditSettings;
   /** Milliseconds per stage, once it ended. */
   timings: Record<string, number> | null;
+  /**
+   * While it runs its bootstrap: the recommendations already made, stability still null
+   * (`EarlyCutListJson`). Absent otherwise.
+   */
+  earlyCutList?: EarlyCutListJson;
   createdAt: string;
   startedAt: string | null;
   finishedAt: string | null;

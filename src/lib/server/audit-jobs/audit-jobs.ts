@@ -21,7 +21,7 @@ import { fail, HttpError } from '../errors';
 import { nothingToCompute } from '../../audit/audit-input';
 import { storedWaveForJob } from './stored-job-wave';
 import { doneAuditResult } from './done-audit-results';
-import type { AuditJson } from '../../audit/audit-json';
+import type { AuditJson, EarlyCutListJson } from '../../audit/audit-json';
 export { storedWaveForJob } from './stored-job-wave';
 import { decodeMatrix } from '../../ingest/matrix-blob';
 import type { StudyRow } from '../guard';
@@ -83,9 +83,11 @@ type SummaryRow = {
   finishedAt: Date | null;
 };
 
-function summaryOf(row: SummaryRow): AuditSummary {
+function summaryOf(row: SummaryRow, earlyCutList?: EarlyCutListJson): AuditSummary {
   const iso = (date: Date | null) => (date ? date.toISOString() : null);
   return {
+    // Only while the bootstrap runs: once the audit ends its JSON (or its failure) says the rest.
+    ...(row.status === 'running' && earlyCutList !== undefined ? { earlyCutList } : {}),
     id: row.id,
     waveId: row.waveId,
     studyId: row.studyId,
@@ -128,6 +130,8 @@ export interface StartedAudit {
 export class AuditJobs {
   private readonly db: Db;
   private readonly pool: AuditWorkerPool;
+  /** The early cut lists of running audits (held in memory: they mean nothing once the audit ends). */
+  private readonly earlyCutLists = new Map<string, EarlyCutListJson>();
 
   /**
    * @param db the database.
@@ -248,7 +252,7 @@ export class AuditJobs {
    */
   summary(auditId: string): AuditSummary | null {
     const row = this.summaryQuery().where(eq(audits.id, auditId)).get();
-    return row ? summaryOf(row as SummaryRow) : null;
+    return row ? summaryOf(row as SummaryRow, this.earlyCutLists.get(auditId)) : null;
   }
 
   /**
@@ -299,7 +303,7 @@ export class AuditJobs {
       .where(condition)
       .orderBy(desc(audits.createdAt))
       .all()
-      .map((row) => summaryOf(row as SummaryRow));
+      .map((row) => summaryOf(row as SummaryRow, this.earlyCutLists.get(row.id)));
   }
 
   /**
@@ -366,7 +370,11 @@ export class AuditJobs {
           lastWrite = now;
           db.update(audits).set({ stage, progress: percent }).where(whileRunning).run();
         },
+        onCutList: (cutList) => {
+          this.earlyCutLists.set(auditId, cutList);
+        },
       })
+      .finally(() => this.earlyCutLists.delete(auditId))
       .then((result) => {
         if (result === null) return;
         const finished = Date.now();

@@ -1,7 +1,8 @@
 /**
  * The audit worker thread. It waits for jobs from the pool (one at a time), runs each with
  * `executeAuditJob` and posts progress (at most every PROGRESS_INTERVAL_MS, and at every change
- * of stage), then the result text or the reason it failed. A failure of one job never ends the
+ * of stage), the early cut list when a bootstrap starts, then the result text or the reason it
+ * failed. A failure of one job never ends the
  * thread; only `settings.testFault = "crash"` (test servers) ends it on purpose, to prove that
  * the pool records a worker that dies.
  *
@@ -39,7 +40,7 @@ async function run(job: AuditWorkerJob): Promise<void> {
       lastStage = stage;
       lastPosted = now;
       post({ type: 'progress', jobId: job.jobId, stage, fraction });
-    });
+    }, undefined, (cutList) => post({ type: 'cut-list', jobId: job.jobId, cutList }));
     post({ type: 'done', jobId: job.jobId, resultText: result.resultText, timings: result.timings });
   } catch (error) {
     const message = error instanceof Error ? error.message : String(error);

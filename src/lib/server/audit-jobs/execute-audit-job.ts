@@ -4,7 +4,7 @@
  * worker thread (audit-worker.ts) and, in tests, on the calling thread; it touches no database,
  * so the main thread alone writes the audits table.
  */
-import type { AuditJson } from '../../audit/audit-json';
+import type { AuditJson, EarlyCutListJson } from '../../audit/audit-json';
 import { createResampleThreadRunner } from '../../audit/resample-threads';
 import { runAudit } from '../../audit/run-audit';
 import { auditInputFromJobWave } from './job-input';
@@ -25,6 +25,9 @@ export interface AuditJobResult {
 
 /** Called with a stage name and the overall share done (0 to 1). */
 export type JobProgress = (stage: string, fraction: number) => void;
+
+/** Called once with the early cut list, when a bootstrap is about to check it. */
+export type JobCutList = (cutList: EarlyCutListJson) => void;
 
 /**
  * Paths of numbers that JSON cannot hold (NaN, ±Infinity) inside a value.
@@ -71,12 +74,14 @@ export function serialiseAudit(audit: AuditJson): string {
  * @param job the stored wave and the resolved settings.
  * @param onProgress stage and overall share done.
  * @param signal aborts between bootstrap resamples.
+ * @param onCutList hears the early cut list; the time it came (from the job's start) is kept as
+ *   the `cutListAtMs` timing.
  * @throws {Error} whatever the audit throws (a bad setting, an outcome or locked item the wave
  *   does not have, an injected test fault): the caller stores it as the failure's reason.
  * @returns the audit JSON text and the time spent per stage.
  * References: ../shared/docs/audit-json.md (the result), src/lib/audit/run-audit.ts.
  */
-export async function executeAuditJob(job: AuditWorkerJob, onProgress: JobProgress, signal?: AbortSignal): Promise<AuditJobResult> {
+export async function executeAuditJob(job: AuditWorkerJob, onProgress: JobProgress, signal?: AbortSignal, onCutList?: JobCutList): Promise<AuditJobResult> {
   const timings: StageTimings = {};
   const started = performance.now();
   let stage = 'loading';
@@ -108,6 +113,12 @@ export async function executeAuditJob(job: AuditWorkerJob, onProgress: JobProgre
     signal,
     // Threads only when there are resamples to decide; each audit gets its own, ended with it.
     (job.resampleThreads ?? 0) > 0 && settings.bootstrap > 0 ? createResampleThreadRunner(job.resampleThreads as number) : undefined,
+    onCutList === undefined
+      ? undefined
+      : (cutList) => {
+          timings.cutListAtMs = Math.round(performance.now() - started);
+          onCutList(cutList);
+        },
   );
 
   enter('saving');

@@ -17,6 +17,7 @@
  */
 import type { Worker } from 'node:worker_threads';
 import type { AuditJobResult } from './execute-audit-job';
+import type { EarlyCutListJson } from '../../audit/audit-json';
 import type { AuditWorkerJob, AuditWorkerMessage } from './worker-protocol';
 
 /** One queued audit: how to make its job when a thread is free, and what to tell on the way. */
@@ -30,6 +31,8 @@ export interface PoolTask<Job extends { readonly jobId: string } = AuditWorkerJo
   readonly onStart?: () => void;
   /** Called with the worker's progress. */
   readonly onProgress?: (stage: string, fraction: number) => void;
+  /** Called with the early cut list, when the worker sends one (before a bootstrap). */
+  readonly onCutList?: (cutList: EarlyCutListJson) => void;
   /** Whose job it is, for fair scheduling (the audits service gives the team); one shared group when absent. */
   readonly group?: string;
   /** The name to cancel it by (the audits service gives the audit id). */
@@ -291,6 +294,7 @@ export class AuditWorkerPool<Job extends { readonly jobId: string } = AuditWorke
     const onMessage = (message: AuditWorkerMessage) => {
       if (message.jobId !== jobId) return;
       if (message.type === 'progress') pending.task.onProgress?.(message.stage, message.fraction);
+      else if (message.type === 'cut-list') pending.task.onCutList?.(message.cutList);
       else if (message.type === 'done') finish({ result: { resultText: message.resultText, timings: message.timings } }, false);
       else finish({ error: new AuditJobFailure(message.message) }, false);
     };

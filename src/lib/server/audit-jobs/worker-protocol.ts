@@ -1,10 +1,11 @@
 /**
  * The messages between the server's main thread and an audit worker thread. The worker gets
  * one job at a time: the wave as stored (matrix blob, items, exclusions, the one outcome the
- * settings name) and the resolved settings; it answers with progress, then either the audit JSON
- * as text or the reason it failed. Plain data only (structured clone).
+ * settings name) and the resolved settings; it answers with progress (and, before a bootstrap,
+ * the early cut list), then either the audit JSON as text or the reason it failed. Plain data only (structured clone).
  */
 import type { AuditSetup } from '../../audit/audit-input';
+import type { EarlyCutListJson } from '../../audit/audit-json';
 import type { ResolvedAuditSettings } from './audit-settings';
 
 /** An item of the stored wave, as the audit reads it. */
@@ -52,5 +53,6 @@ export type StageTimings = Record<string, number>;
 /** What a worker posts back. */
 export type AuditWorkerMessage =
   | { readonly type: 'progress'; readonly jobId: string; readonly stage: string; readonly fraction: number }
+  | { readonly type: 'cut-list'; readonly jobId: string; readonly cutList: EarlyCutListJson }
   | { readonly type: 'done'; readonly jobId: string; readonly resultText: string; readonly timings: StageTimings }
   | { readonly type: 'failed'; readonly jobId: string; readonly message: string };
