@@ -105,6 +105,13 @@ describe('audits in Chromium', () => {
       const cancel = watcher.locator('[data-testid=cancel-audit]');
       await cancel.waitFor({ state: 'visible', timeout: 10_000 });
       await expect(cancel.textContent()).resolves.toBe('Cancel audit'); // src/lib/words/labels.ts, cancelAuditWords
+      // While the bootstrap runs, the proposed cuts made so far show under the progress bar
+      // (docs/decisions/026-early-cut-list.md); the demo's exact copy events_3b is among them.
+      const early = watcher.locator('[data-testid=early-cut-list]');
+      await early.waitFor({ state: 'visible', timeout: 30_000 });
+      expect(await early.locator('[data-testid=early-cut]').count()).toBeGreaterThan(0);
+      await expect(early.textContent()).resolves.toContain('events_3b');
+      await expect(early.locator('h3').textContent()).resolves.toBe('Proposed cuts so far'); // src/lib/words/labels.ts, earlyCutListWords
       await screenshot(page, 'audit-page-running');
       // The page reloads once the audit has ended, with its status in the heading.
       await Promise.all([page.waitForEvent('load', { timeout: 15_000 }), cancel.click()]);

@@ -2,12 +2,13 @@ import { useEffect, useState } from 'react';
 import { auditsApi } from '../../lib/api/audits';
 import { formatRecentTime } from '../date-words';
 import AuditProgressBar from './AuditProgressBar';
+import EarlyCutList from './EarlyCutList';
 import { cancelAuditWords, constraintsLine, formatDuration, settingsLine, statusWords } from '../../lib/words';
 import { useAuditStatus, type AuditState } from './use-audit-status';
 
 /**
  * One audit as a live row: its settings, then a progress bar while it waits or runs (with a cancel
- * button for those who may run audits), a link to its page once done, or why it failed or who
+ * button for those who may run audits, and the proposed cuts so far while the bootstrap checks them), a link to its page once done, or why it failed or who
  * cancelled it (with a retry button for those who may run audits). `onStatus` hears every change
  * of status.
  */
@@ -55,6 +56,7 @@ export default function AuditStatusRow({ initial, canRun, onStatus }: { initial:
       {(audit.status === 'queued' || audit.status === 'running') && (
         <div className="grid gap-1">
           <AuditProgressBar status={audit.status} stage={audit.stage} percent={audit.percent} />
+          {audit.status === 'running' && audit.earlyCutList && <EarlyCutList cutList={audit.earlyCutList} />}
           {canRun && (
             <div>
               <button type="button" className="button button-quiet text-sm" data-testid="cancel-audit" onClick={cancel} disabled={cancelling}>

@@ -67,6 +67,25 @@ export const constraintWords: Record<string, string> = {
 /** Actions as shown. */
 export const actionWords: Record<string, string> = { drop: 'Drop', merge: 'Merge', reword: 'Reword', keep: 'Keep', undecided: 'Undecided' };
 
+/**
+ * A recommendation in one line: what to keep, then what to do with each other item, e.g.
+ * "Keep dig_4 · drop dig_1 · merge dig_7 into dig_4".
+ * @param keep the item kept.
+ * @param actions every item's action (`keep` actions are left out).
+ * @returns the line.
+ */
+export function proposedCutLine(keep: string, actions: readonly { item: string; action: string; into: string | null }[]): string {
+  const changed = actions.filter((action) => action.action !== 'keep');
+  return [`Keep ${keep}`, ...changed.map((action) => (action.action === 'merge' ? `merge ${action.item} into ${action.into ?? keep}` : `${actionWords[action.action]?.toLowerCase() ?? action.action} ${action.item}`))].join(' · ');
+}
+
+/** The early cut list shown while an audit's bootstrap runs (EarlyCutList.tsx). */
+export const earlyCutListWords = {
+  heading: 'Proposed cuts so far',
+  note: (resamples: number) =>
+    `Made before the bootstrap: how often ${formatNumber(resamples, 0)} resamples repeat each line is still being checked, and a line that flips is marked unstable in the finished audit. Read these, but decide once the audit is done.`,
+};
+
 /** The settings line of an audit, e.g. "Pearson, pairwise deletion · 200 resamples (seed 1)". */
 export function settingsLine(settings: { method: string; missing: string; bootstrap: number; seed: number; outcome?: string | null }): string {
   const parts = [`${methodWords[settings.method] ?? settings.method}, ${missingWords[settings.missing] ?? settings.missing}`];

@@ -1,0 +1,26 @@
+import type { EarlyCutListJson } from '../../lib/audit/audit-json';
+import { earlyCutListWords, proposedCutLine } from '../../lib/words';
+
+/**
+ * The recommendations of a running audit, shown while its bootstrap checks them: one line each
+ * (what to keep, what to do with the rest) with its reason, under a note that their stability is
+ * not known yet. The finished audit's page replaces it.
+ */
+export default function EarlyCutList({ cutList }: { cutList: EarlyCutListJson }) {
+  return (
+    <section className="rounded border border-rule bg-spruce-50/40 px-3 py-2" data-testid="early-cut-list" aria-labelledby="early-cut-list-heading">
+      <h3 id="early-cut-list-heading" className="text-sm font-semibold">
+        {earlyCutListWords.heading}
+      </h3>
+      <p className="text-xs text-ink-soft">{earlyCutListWords.note(cutList.resamples)}</p>
+      <ol className="mt-1.5 grid list-decimal gap-1 pl-5 text-sm">
+        {cutList.recommendations.map((recommendation, index) => (
+          <li key={index} data-testid="early-cut">
+            <span className="font-semibold">{proposedCutLine(recommendation.keep, recommendation.actions)}</span>
+            <span className="block text-xs text-ink-soft">{recommendation.reason}</span>
+          </li>
+        ))}
+      </ol>
+    </section>
+  );
+}
