@@ -40,6 +40,16 @@ describe('ebicGlasso', () => {
     expect(best).toEqual([1, 2]);
   });
 
+  it('reports each penalty of its path as it is fitted, and the same network with or without a listener', () => {
+    const reference = networkFixture.ebic.find((c) => c.name === 'simulated-12-doublet')!;
+    const heard: [number, number][] = [];
+    const listened = ebicGlasso(squareMatrixFromRows(reference.input), reference.n, { penaltyCount: 30, onPenalty: (done, total) => heard.push([done, total]) });
+    expect(heard).toEqual(Array.from({ length: 30 }, (_, k) => [k + 1, 30]));
+    const quiet = ebicGlasso(squareMatrixFromRows(reference.input), reference.n, { penaltyCount: 30 });
+    expect(listened.partialCorrelations.data).toEqual(quiet.partialCorrelations.data);
+    expect(listened.ebic).toEqual(quiet.ebic);
+  });
+
   it('scales a covariance matrix to correlations first (cov2cor), as qgraph does', () => {
     const reference = networkFixture.ebic.find((c) => c.name === 'simulated-12-doublet')!;
     const sd = reference.input.map((_, i) => 1 + i / 4);

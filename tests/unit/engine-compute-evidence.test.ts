@@ -95,6 +95,17 @@ describe('computeEvidence', () => {
     light.collinearity!.conditionIndices.forEach((value, k) => expect(value).toBeCloseTo(full.collinearity!.conditionIndices[k] as number, 6)); // same diagnostics by the Gram path
   });
 
+  it('reports its steps in order up to 1, and the same evidence with or without a listener', () => {
+    const { matrix, items } = referenceInput();
+    const heard: number[] = [];
+    const listened = computeEvidence(matrix, items, { method: 'pearson', missing: 'pairwise' }, { onProgress: (fraction) => heard.push(fraction) });
+    expect(heard.length).toBeGreaterThanOrEqual(5);
+    heard.forEach((fraction, k) => expect(fraction).toBeGreaterThan(k === 0 ? 0 : heard[k - 1]));
+    expect(heard.at(-1)).toBe(1);
+    const quiet = computeEvidence(matrix, items, { method: 'pearson', missing: 'pairwise' });
+    expect(JSON.stringify(listened)).toBe(JSON.stringify(quiet));
+  });
+
   it('refuses items that do not match the matrix', () => {
     const { matrix, items } = referenceInput();
     expect(() => computeEvidence(matrix, items.slice(1), { method: 'pearson', missing: 'pairwise' })).toThrow(/computeEvidence: items must list one entry per matrix column/);

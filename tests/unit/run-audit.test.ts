@@ -118,6 +118,17 @@ describe('runAudit on the demo wave', async () => {
     expect(called).toBe(false);
   });
 
+  it("moves the evidence stage's bar through its steps and the network's whole EBIC path, never back", async () => {
+    const evidence: number[] = [];
+    await runAudit(input, { bootstrap: 0, seed: 7, outcome: 'overall_sat' }, (stage, fraction) => {
+      if (stage === 'evidence') evidence.push(fraction);
+    });
+    // Its own steps, then one call per penalty of the path (100 by default: engine-settings.ts).
+    expect(evidence.length).toBeGreaterThan(100);
+    evidence.forEach((fraction, k) => expect(fraction).toBeGreaterThanOrEqual(k === 0 ? 0 : evidence[k - 1]));
+    expect(evidence.at(-1)).toBeCloseTo(0.2, 12); // the end of the stage's span (run-audit.ts, STAGE_SPAN)
+  });
+
   it('never proposes a locked item for a cut', async () => {
     const lockedIds = audit.recommendations.flatMap((r) => r.actions.filter((a) => a.action !== 'keep').map((a) => a.item));
     expect(lockedIds.length).toBeGreaterThan(0);

@@ -91,6 +91,9 @@ export type AuditSettings = Readonly<AuditSettingsRequest>;
 /** Progress of an audit: a stage name and the overall share done, 0 to 1. */
 export type AuditProgress = (stage: string, fraction: number) => void;
 
+/** Share of the evidence stage's bar before the network's EBIC path (which can take most of it on a wave with scales). */
+const EVIDENCE_BEFORE_NETWORK = 0.4;
+
 /** Share of the overall progress bar each stage takes (the bootstrap dominates). */
 const STAGE_SPAN = Object.freeze({ evidence: [0, 0.2], structure: [0.2, 0.3], engine: [0.3, 0.95], outcome: [0.95, 1] });
 
@@ -159,14 +162,18 @@ export async function runAudit(
   // critical values are put in after (residual-bootstrap-threads.ts; the same numbers).
   const bootstrapThreads = residualBootstrapThreadCount(input.items.map((item) => item.scale), input.matrix.rows, engineSettings.residualBootstrapDraws);
   const deferred = bootstrapThreads > 0 ? deferredResidualCriticals() : null;
-  const withoutNetwork = computeEvidence(input.matrix, input.items, engineSettings, { localDependence: { network: false, ...(deferred ? { detectors: deferred.detectors } : {}) } });
+  // The stage's bar: the evidence's own steps to EVIDENCE_BEFORE_NETWORK, then the network's EBIC path.
+  const withoutNetwork = computeEvidence(input.matrix, input.items, engineSettings, {
+    localDependence: { network: false, ...(deferred ? { detectors: deferred.detectors } : {}) },
+    onProgress: (fraction) => report('evidence', EVIDENCE_BEFORE_NETWORK * fraction),
+  });
   const criticals = deferred === null ? null : residualCriticalsOnThreads(deferred.jobs, bootstrapThreads);
   // Collected below; this only keeps a thread's failure from counting as unhandled before then.
   criticals?.catch(() => undefined);
   // networkCanCount reads no critical value while they are pending: with scales it answers true
   // before it looks at the pair rules (and without scales there is no critical value to wait for).
   const withNetwork = networkCanCount(withoutNetwork, wordingSimilarity(input.items.map((item) => item.text)), engineSettings)
-    ? attachNetwork(withoutNetwork, engineSettings, null)
+    ? attachNetwork(withoutNetwork, engineSettings, null, (fraction) => report('evidence', EVIDENCE_BEFORE_NETWORK + (1 - EVIDENCE_BEFORE_NETWORK) * fraction))
     : withoutNetwork;
   const evidence = criticals === null ? withNetwork : withResidualCriticals(withNetwork, await criticals);
   report('evidence', 1);

@@ -68,7 +68,16 @@ export interface ComputeEvidenceOptions {
    * (weighted-pearson.ts) instead of two passes over the resample.
    */
   readonly resampleOf?: { readonly matrix: ItemMatrix; readonly weights: Float64Array };
+  /**
+   * Hears the share done (0 to 1) after each step: descriptives, correlations, covariances, VIF,
+   * the Belsley-Kuh-Welsch diagnostics, reliability and local dependence. The shares are rough
+   * (EVIDENCE_STEP_SHARES); they are there so that a progress bar moves during a long step.
+   */
+  readonly onProgress?: (fraction: number) => void;
 }
+
+/** Where `computeEvidence` reports itself after each step (rough shares of its time on a large wave). */
+const EVIDENCE_STEP_SHARES = Object.freeze({ descriptives: 0.1, correlation: 0.4, covariance: 0.5, inflation: 0.6, collinearity: 0.8, reliability: 0.85, localDependence: 1 });
 
 /**
  * Largest condition number (λmax / λmin) at which `inverse` is returned: the Schur-complement
@@ -258,6 +267,8 @@ export function computeEvidence(
     floor: entry.floorShare,
     ceiling: entry.ceilingShare,
   }));
+  const progress = options.onProgress;
+  progress?.(EVIDENCE_STEP_SHARES.descriptives);
 
   const empty: SquareMatrix = { order: 0, data: new Float64Array(0) };
   const nothing = new Array<null>(items.length).fill(null);
@@ -321,6 +332,7 @@ export function computeEvidence(
   // every VIF, KMO and condition number explode. A matrix with an exact dependency only is left
   // as it is, so exact copies keep their infinite VIF. The correlations come unrepaired
   // (`repair: 'none'`): Higham's projection runs only when the smoothing declines.
+  progress?.(EVIDENCE_STEP_SHARES.correlation);
   const settled = settleIndefinite(correlation, data);
   warnings.push(...warningsFromNotices(settled.notices, items, usable));
   if (settings.method === 'polychoric') warnings.push(...polychoricSampleWarnings(correlation, items, usable));
@@ -329,16 +341,20 @@ export function computeEvidence(
   if (settled.smoothed !== null) warnings.push(...warningsFromNotices(settled.smoothed.notices, items, settled.smoothed.kept.map((k) => usable[k])));
   const covariance = moments?.covariance ?? covarianceMatrix(data, { missing: settings.missing, ...(crossProducts ? { crossProducts } : {}) });
   warnings.push(...warningsFromNotices(covariance.notices, items, usable));
+  progress?.(EVIDENCE_STEP_SHARES.covariance);
 
   const overlap =
     options.inverse === true
       ? inflationWithInverse(matrixR, items, usable, matrixR === correlation.matrix ? correlation.eigenvalues : undefined)
       : inflationAndSpectrum(matrixR, items, usable);
   warnings.push(...overlap.warnings);
+  progress?.(EVIDENCE_STEP_SHARES.inflation);
 
   const collinearity = collinearityEvidence(data, items, usable, warnings, detail, crossProducts, complete);
+  progress?.(EVIDENCE_STEP_SHARES.collinearity);
   const reliability = scaleReliability({ items, usable, covariance: covariance.matrix, correlation: matrixR, detail });
   warnings.push(...reliability.warnings);
+  progress?.(EVIDENCE_STEP_SHARES.reliability);
 
   let localDependence: EngineEvidence['localDependence'] = null;
   if (options.localDependence !== false) {
@@ -346,6 +362,7 @@ export function computeEvidence(
     localDependence = local.evidence;
     warnings.push(...local.warnings);
   }
+  progress?.(EVIDENCE_STEP_SHARES.localDependence);
 
   return {
     items,

@@ -54,7 +54,11 @@ export const coreDetectors: LocalDependenceDetectors = Object.freeze({
     const low = Math.floor(h);
     return sorted[low] + (h - low) * ((sorted[Math.min(low + 1, sorted.length - 1)] ?? sorted[low]) - sorted[low]);
   },
-  network(correlation: SquareMatrix, sampleSize: number, options: { gamma: number; penaltyCount: number; penalty: number | null }): NetworkResult | null {
+  network(
+    correlation: SquareMatrix,
+    sampleSize: number,
+    options: { gamma: number; penaltyCount: number; penalty: number | null; onProgress?: (fraction: number) => void },
+  ): NetworkResult | null {
     if (options.penalty !== null) {
       if (options.penalty <= 0) return null;
       const fit = graphicalLasso(correlation, options.penalty);
@@ -62,7 +66,12 @@ export const coreDetectors: LocalDependenceDetectors = Object.freeze({
       const absolute: SquareMatrix = { order: partial.order, data: partial.data.map(Math.abs) };
       return { partial, wto: weightedTopologicalOverlap(absolute), penalty: options.penalty };
     }
-    const result = ebicGlasso(correlation, Math.round(sampleSize), { gamma: options.gamma, penaltyCount: options.penaltyCount });
+    const onProgress = options.onProgress;
+    const result = ebicGlasso(correlation, Math.round(sampleSize), {
+      gamma: options.gamma,
+      penaltyCount: options.penaltyCount,
+      ...(onProgress ? { onPenalty: (done: number, total: number) => onProgress(done / total) } : {}),
+    });
     return { partial: result.partialCorrelations, wto: weightedTopologicalOverlap(result.absoluteNetwork), penalty: result.penalty };
   },
   modificationIndices(correlation: SquareMatrix, sampleSize: number): ModificationIndexResult | null {

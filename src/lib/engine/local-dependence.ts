@@ -51,9 +51,13 @@ export interface LocalDependenceDetectors {
   ): number | null;
   /**
    * EBIC-glasso network and its wTO. With `penalty` set, the network is fitted at that penalty
-   * only (no EBIC path).
+   * only (no EBIC path). `onProgress`, when given, hears the share of the EBIC path fitted.
    */
-  network(correlation: SquareMatrix, sampleSize: number, options: { gamma: number; penaltyCount: number; penalty: number | null }): NetworkResult | null;
+  network(
+    correlation: SquareMatrix,
+    sampleSize: number,
+    options: { gamma: number; penaltyCount: number; penalty: number | null; onProgress?: (fraction: number) => void },
+  ): NetworkResult | null;
   /**
    * Modification indices and standardized expected parameter changes of the residual covariances
    * of the one-factor ML model of a scale's correlation block (four or more items); null when the
@@ -198,6 +202,7 @@ export function localDependenceEvidence(
  * @param detectors The numerical detectors.
  * @param reuse When given, the network is fitted at its penalty only.
  * @param exactDependencies Exactly dependent groups (indices into items[]); their later members stay out.
+ * @param onProgress Hears the share of the EBIC path fitted (a long path takes seconds).
  * @returns The network (null when skipped or not estimable) and the warnings saying why.
  * References: Friedman, Hastie & Tibshirani 2008; Foygel & Drton 2010; Nowick et al. 2009.
  */
@@ -209,6 +214,7 @@ export function localDependenceNetwork(
   detectors: LocalDependenceDetectors,
   reuse: LocalDependenceReuse | null,
   exactDependencies: readonly (readonly number[])[],
+  onProgress?: (fraction: number) => void,
 ): { network: NetworkResult | null; warnings: EngineWarning[] } {
   const warnings: EngineWarning[] = [];
   const position = new Map(usable.map((item, k) => [item, k]));
@@ -231,6 +237,7 @@ export function localDependenceNetwork(
         gamma: settings.ebicGamma,
         penaltyCount: settings.ebicPenaltyCount,
         penalty: reuse?.penalty ?? null,
+        ...(onProgress ? { onProgress } : {}),
       });
       network = fitted === null || dropped.size === 0 ? fitted : { ...fitted, partial: expand(fitted.partial, kept, usable.length), wto: expand(fitted.wto, kept, usable.length) };
     } catch (error) {

@@ -22,13 +22,19 @@ import type { EngineEvidence } from './types';
  * @param evidence Evidence from `computeEvidence` with `localDependence: { network: false }`.
  * @param settings EBIC gamma and penalty count.
  * @param reuse The full sample's penalty (bootstrap resamples), or null for the EBIC path.
+ * @param onProgress Hears the share of the EBIC path fitted.
  * @returns The evidence with its network (unchanged when it has no local-dependence evidence).
  * References: Friedman, Hastie & Tibshirani 2008; Foygel & Drton 2010; Nowick et al. 2009.
  */
-export function attachNetwork(evidence: EngineEvidence, settings: Pick<EngineSettings, 'ebicGamma' | 'ebicPenaltyCount'>, reuse: LocalDependenceReuse | null): EngineEvidence {
+export function attachNetwork(
+  evidence: EngineEvidence,
+  settings: Pick<EngineSettings, 'ebicGamma' | 'ebicPenaltyCount'>,
+  reuse: LocalDependenceReuse | null,
+  onProgress?: (fraction: number) => void,
+): EngineEvidence {
   const local = evidence.localDependence;
   if (local === null) return evidence;
-  const { network, warnings } = localDependenceNetwork(evidence.correlation, evidence.usable, evidence.correlationRows, settings, coreDetectors, reuse, evidence.exactDependencies);
+  const { network, warnings } = localDependenceNetwork(evidence.correlation, evidence.usable, evidence.correlationRows, settings, coreDetectors, reuse, evidence.exactDependencies, onProgress);
   return {
     ...evidence,
     localDependence: { ...local, partial: network?.partial ?? null, wto: network?.wto ?? null, penalty: network?.penalty ?? null },

@@ -49,6 +49,8 @@ export interface EbicGlassoOptions {
   readonly pathTolerance?: number;
   /** Graphical-lasso tolerance of the final refit at the selected penalty (default GRAPHICAL_LASSO_TOLERANCE), > 0. */
   readonly tolerance?: number;
+  /** Called after each penalty of the path with the penalties fitted and their count (for a progress bar). */
+  readonly onPenalty?: (done: number, total: number) => void;
 }
 
 /** The result of `ebicGlasso`. */
@@ -166,6 +168,7 @@ export function ebicGlasso(matrix: SquareMatrix, sampleSize: number, options: Eb
       best.covariance.set(state.covariance);
       best.coefficients.set(state.coefficients);
     }
+    options.onPenalty?.(count - k, count);
   }
   // The selected penalty refitted to the tight tolerance, from its own fit on the path.
   const refit = graphicalLassoWarm(correlation, penalties[bestIndex], best, { tolerance });
