@@ -99,6 +99,16 @@ describe('audits in Chromium', () => {
         });
         return (await response.json()).audit.id as string;
       }, 'wave-riverbend-pilot-1');
+      // The study's list of audits (a narrow column) shows the proposed cuts so far without their
+      // reasons, and links to the audit's page for them.
+      await page.goto(`${baseUrl()}/studies/${demo.study}`);
+      await hydrated(page);
+      const listed = page.locator(`[data-testid=audit-list] [data-testid=early-cut-list]`);
+      await listed.first().waitFor({ state: 'visible', timeout: 30_000 });
+      expect(await listed.first().locator('[data-testid=early-cut]').count()).toBeGreaterThan(0);
+      await expect(listed.first().locator('a').getAttribute('href')).resolves.toBe(`/audits/${id}`);
+      await expect(listed.first().textContent()).resolves.not.toContain('correlate strongly');
+      await listed.first().screenshot({ path: join(screenshots, 'audit-list-early-cut-list.png') });
       await page.goto(`${baseUrl()}/audits/${id}`);
       await hydrated(page);
       const watcher = page.locator('[data-testid=audit-watcher]');

@@ -31,7 +31,7 @@ export default function AuditList({ audits, canRun }: { audits: AuditSummary[]; 
     <div>
       <ul className="divide-y divide-rule" data-testid="audit-list">
         {shown.map((audit) => (
-          <AuditStatusRow key={`${audit.id}:${audit.createdAt}`} initial={audit} canRun={canRun} />
+          <AuditStatusRow key={`${audit.id}:${audit.createdAt}`} initial={audit} canRun={canRun} compact />
         ))}
       </ul>
       {list.length > shown.length && (

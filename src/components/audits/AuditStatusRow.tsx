@@ -12,7 +12,18 @@ import { useAuditStatus, type AuditState } from './use-audit-status';
  * cancelled it (with a retry button for those who may run audits). `onStatus` hears every change
  * of status.
  */
-export default function AuditStatusRow({ initial, canRun, onStatus }: { initial: AuditState; canRun: boolean; onStatus?: (status: AuditState['status']) => void }) {
+export default function AuditStatusRow({
+  initial,
+  canRun,
+  onStatus,
+  compact = false,
+}: {
+  initial: AuditState;
+  canRun: boolean;
+  onStatus?: (status: AuditState['status']) => void;
+  /** In a narrow list: the early cut list without its reasons, with a link to the audit's page. */
+  compact?: boolean;
+}) {
   const [current, setCurrent] = useState(initial);
   const { audit, problem } = useAuditStatus(current);
   useEffect(() => {
@@ -56,7 +67,7 @@ export default function AuditStatusRow({ initial, canRun, onStatus }: { initial:
       {(audit.status === 'queued' || audit.status === 'running') && (
         <div className="grid gap-1">
           <AuditProgressBar status={audit.status} stage={audit.stage} percent={audit.percent} />
-          {audit.status === 'running' && audit.earlyCutList && <EarlyCutList cutList={audit.earlyCutList} />}
+          {audit.status === 'running' && audit.earlyCutList && <EarlyCutList cutList={audit.earlyCutList} compact={compact} auditId={audit.id} />}
           {canRun && (
             <div>
               <button type="button" className="button button-quiet text-sm" data-testid="cancel-audit" onClick={cancel} disabled={cancelling}>

@@ -1,15 +1,19 @@
+import { useId } from 'react';
 import type { EarlyCutListJson } from '../../lib/audit/audit-json';
 import { earlyCutListWords, proposedCutLine } from '../../lib/words';
 
 /**
  * The recommendations of a running audit, shown while its bootstrap checks them: one line each
  * (what to keep, what to do with the rest) with its reason, under a note that their stability is
- * not known yet. The finished audit's page replaces it.
+ * not known yet. The finished audit's page replaces it. Compact (a narrow list): the lines
+ * without their reasons, and a link to the audit's page, which shows them.
  */
-export default function EarlyCutList({ cutList }: { cutList: EarlyCutListJson }) {
+export default function EarlyCutList({ cutList, compact = false, auditId }: { cutList: EarlyCutListJson; compact?: boolean; auditId: string }) {
+  // A page can show the same audit twice (the form's row and the study's list): ids of their own.
+  const headingId = useId();
   return (
-    <section className="rounded border border-rule bg-spruce-50/40 px-3 py-2" data-testid="early-cut-list" aria-labelledby="early-cut-list-heading">
-      <h3 id="early-cut-list-heading" className="text-sm font-semibold">
+    <section className="rounded border border-rule bg-spruce-50/40 px-3 py-2" data-testid="early-cut-list" aria-labelledby={headingId}>
+      <h3 id={headingId} className="text-sm font-semibold">
         {earlyCutListWords.heading}
       </h3>
       <p className="text-xs text-ink-soft">{earlyCutListWords.note(cutList.resamples)}</p>
@@ -17,10 +21,15 @@ export default function EarlyCutList({ cutList }: { cutList: EarlyCutListJson })
         {cutList.recommendations.map((recommendation, index) => (
           <li key={index} data-testid="early-cut">
             <span className="font-semibold">{proposedCutLine(recommendation.keep, recommendation.actions)}</span>
-            <span className="block text-xs text-ink-soft">{recommendation.reason}</span>
+            {!compact && <span className="block text-xs text-ink-soft">{recommendation.reason}</span>}
           </li>
         ))}
       </ol>
+      {compact && (
+        <p className="mt-1 text-xs">
+          <a href={`/audits/${encodeURIComponent(auditId)}`}>{earlyCutListWords.reasonsLink}</a>
+        </p>
+      )}
     </section>
   );
 }

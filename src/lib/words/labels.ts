@@ -82,6 +82,7 @@ export function proposedCutLine(keep: string, actions: readonly { item: string; 
 /** The early cut list shown while an audit's bootstrap runs (EarlyCutList.tsx). */
 export const earlyCutListWords = {
   heading: 'Proposed cuts so far',
+  reasonsLink: 'Their reasons, on the audit’s page',
   note: (resamples: number) =>
     `Made before the bootstrap: how often ${formatNumber(resamples, 0)} resamples repeat each line is still being checked, and a line that flips is marked unstable in the finished audit. Read these, but decide once the audit is done.`,
 };
