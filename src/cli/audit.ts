@@ -22,6 +22,7 @@ import { runAudit, type AuditInput } from '../lib/audit/run-audit';
 import { auditSettingsSchema } from '../lib/audit/settings-schema';
 import { AUDIT_SETTINGS, AuditSettingsError, auditSettingsProblems, requestFromFlags, resolveAuditSettings } from '../lib/audit/settings-table';
 import { acceptProposal, isWaveRefusal, readWave, type ReadLimits } from '../lib/ingest';
+import { earlyCutListWords, proposedCutLine } from '../lib/words';
 
 /**
  * The command line reads the user's own files on the user's own machine, so it allows larger
@@ -171,7 +172,11 @@ async function main(argv: string[]): Promise<number> {
       lastPercent = percent;
       process.stderr.write(`  ${String(percent).padStart(3)}%  ${stage}\n`);
     }
-  }, undefined, createResampleThreadRunner(Math.min(MAX_RESAMPLE_THREADS, availableParallelism())));
+  }, undefined, createResampleThreadRunner(Math.min(MAX_RESAMPLE_THREADS, availableParallelism())), (cutList) => {
+    // The proposed cuts, while the bootstrap checks them (docs/decisions/026): one line each.
+    process.stderr.write(`${earlyCutListWords.heading} (stability still being checked on ${cutList.resamples} resamples):\n`);
+    for (const line of cutList.recommendations) process.stderr.write(`    ${proposedCutLine(line.keep, line.actions)}\n`);
+  });
   const json = `${JSON.stringify(audit, null, 2)}\n`;
   if (values.out) {
     await writeFile(values.out, json);

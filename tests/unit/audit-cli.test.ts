@@ -8,6 +8,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { resolveAuditSettings } from '../../src/lib/audit/settings-table';
+import { proposedCutLine } from '../../src/lib/words';
 
 /** What `npm run audit -- ...` runs: scripts/audit.mjs, which runs the prebuilt bundle. */
 function audit(...args: string[]) {
@@ -90,6 +91,13 @@ describe('npm run audit', () => {
     expect(json.schema).toBe('paredown.audit/1');
     expect(json.settings.method).toBe('spearman');
     expect(json.recommendations.length).toBeGreaterThan(0);
+    // The proposed cuts were said on standard error while the bootstrap ran, one line each, as
+    // the JSON then makes them (src/lib/words/labels.ts, proposedCutLine).
+    const said = result.stderr.split('\n');
+    const heading = said.findIndex((line) => line.startsWith('Proposed cuts so far (stability still being checked on 10 resamples):'));
+    expect(heading).toBeGreaterThanOrEqual(0);
+    const lines = said.slice(heading + 1, heading + 1 + json.recommendations.length).map((line) => line.trim());
+    expect(lines).toEqual(json.recommendations.map((r: { keep: string; actions: { item: string; action: string; into: string | null }[] }) => proposedCutLine(r.keep, r.actions)));
   });
 
   it.each([
