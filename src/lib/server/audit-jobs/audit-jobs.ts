@@ -86,8 +86,6 @@ type SummaryRow = {
 function summaryOf(row: SummaryRow, earlyCutList?: EarlyCutListJson): AuditSummary {
   const iso = (date: Date | null) => (date ? date.toISOString() : null);
   return {
-    // Only while the bootstrap runs: once the audit ends its JSON (or its failure) says the rest.
-    ...(row.status === 'running' && earlyCutList !== undefined ? { earlyCutList } : {}),
     id: row.id,
     waveId: row.waveId,
     studyId: row.studyId,
@@ -101,6 +99,8 @@ function summaryOf(row: SummaryRow, earlyCutList?: EarlyCutListJson): AuditSumma
     createdAt: row.createdAt.toISOString(),
     startedAt: iso(row.startedAt),
     finishedAt: iso(row.finishedAt),
+    // Only while the bootstrap runs: once the audit ends its JSON (or its failure) says the rest.
+    ...(row.status === 'running' && earlyCutList !== undefined ? { earlyCutList } : {}),
   };
 }
 
