@@ -7,15 +7,17 @@
  *
  * The function, in WebAssembly text (WAT) terms:
  *   (func $sums (param $weights i32) (param $first i32) (param $second i32) (param $nodeBytes i32)
- *               (param $products i32) (param $halves i32) (param $sums i32) (param $cellBytes i32)
- *               (result i32))
+ *               (param $products i32) (param $halves i32) (param $sums i32) (param $exponents i32)
+ *               (param $exponentials i32) (param $cellBytes i32) (result i32))
  * `weights`, `first` and `second` hold the rule's nodes (f64, `nodeBytes` = 8 × count, count ≥ 1);
- * `products` and `halves` hold, per corner, h·k and (h·h + k·k)/2 (f64, `cellBytes` a multiple of
- * 16: corners two at a time, one per f64x2 lane). For each corner it computes, in this order,
+ * `products`, `halves` and `exponents` hold, per corner, h·k, (h·h + k·k)/2 and the density's
+ * exponent −(h² − 2ρhk + k²)/(2(1 − ρ²)) (f64, `cellBytes` a multiple of 16: corners two at a
+ * time, one per f64x2 lane). For each corner it computes, in this order,
  *   sum = 0;  for i = 0, 1, ..., count − 1:  sum = sum + weights[i] · exp(first[i]·product − second[i]·half)
  * which is the JavaScript loop `sum += weights[i] * Math.exp(first[i] * product - second[i] *
- * halfSumOfSquares)`, and stores sum in `sums`. Lanes are corners, never nodes, so each corner's
- * terms are added one after the other in node order, as in JavaScript.
+ * halfSumOfSquares)`, and stores sum in `sums`, and exp(exponent) in `exponentials`. Lanes are
+ * corners, never nodes, so each corner's terms are added one after the other in node order, as in
+ * JavaScript.
  *
  * exp is fdlibm's __ieee754_exp (e_exp.c, Sun Microsystems 1993) in the form V8 runs for Math.exp
  * (base::ieee754::exp, after FreeBSD's msun: the result scaled by multiplying with 2^k), written
@@ -61,10 +63,10 @@ const LARGE_FROM = 707;
 /** 2^52 + 1023: added to an integer t of at most 1020 in magnitude, its low bits are t + 1023. */
 const EXPONENT_MAGIC = 2 ** 52 + 1023;
 
-// Locals: parameters 0-7, then i32 8-9, then v128 10-22.
-const WEIGHTS = 0, FIRST = 1, SECOND = 2, NODE_BYTES = 3, PRODUCTS = 4, HALVES = 5, SUMS = 6, CELL_BYTES = 7;
-const CELL = 8, NODE = 9;
-const P = 10, Q = 11, SUM = 12, X = 13, AX = 14, T = 15, HI = 16, LO = 17, R = 18, S = 19, C = 20, Y = 21, LARGE = 22;
+// Locals: parameters 0-9, then i32 10-11, then v128 12-24.
+const WEIGHTS = 0, FIRST = 1, SECOND = 2, NODE_BYTES = 3, PRODUCTS = 4, HALVES = 5, SUMS = 6, EXPONENTS = 7, EXPONENTIALS = 8, CELL_BYTES = 9;
+const CELL = 10, NODE = 11;
+const P = 12, Q = 13, SUM = 14, X = 15, AX = 16, T = 17, HI = 18, LO = 19, R = 20, S = 21, C = 22, Y = 23, LARGE = 24;
 
 /** Both lanes of a v128.const: one f64, or one 64-bit pattern (a bigint). */
 function constant(value) {
@@ -107,6 +109,38 @@ const op = {
   f64x2Div: simd(0xf3),
 };
 
+/**
+ * Emits exp of local X into local Y (fdlibm's steps, per lane), and marks in LARGE the lanes
+ * whose |x| is 707 or more, or NaN.
+ */
+function emitExp(emit) {
+  const { get, set } = op;
+  emit(get(X), op.abs, set(AX));
+  // large |= !(|x| < 707)   (NaN too)
+  emit(get(LARGE), get(AX), op.constant(LARGE_FROM), op.lt, op.not, op.or, set(LARGE));
+  // t = trunc(invln2 · x + (±0.5 by the sign of x)), or 0 where |x| ≤ 0.5 ln2
+  emit(op.constant(INVLN2), get(X), op.f64x2Mul);
+  emit(get(X), op.constant(0x8000000000000000n), op.and, op.constant(0.5), op.or, op.f64x2Add, op.trunc);
+  emit(get(AX), op.constant(REDUCE_FROM), op.ge, op.and, set(T));
+  // hi = x − t · ln2HI;  lo = t · ln2LO;  r = hi − lo;  s = r · r
+  emit(get(X), get(T), op.constant(LN2HI), op.f64x2Mul, op.f64x2Sub, set(HI));
+  emit(get(T), op.constant(LN2LO), op.f64x2Mul, set(LO));
+  emit(get(HI), get(LO), op.f64x2Sub, set(R));
+  emit(get(R), get(R), op.f64x2Mul, set(S));
+  // c = r − s · (P1 + s · (P2 + s · (P3 + s · (P4 + s · P5))))
+  emit(get(R), get(S));
+  emit(op.constant(P1), get(S), op.constant(P2), get(S), op.constant(P3), get(S), op.constant(P4), get(S), op.constant(P5));
+  emit(op.f64x2Mul, op.f64x2Add, op.f64x2Mul, op.f64x2Add, op.f64x2Mul, op.f64x2Add, op.f64x2Mul, op.f64x2Add, op.f64x2Mul);
+  emit(op.f64x2Sub, set(C));
+  // y = 1 − ((lo − (r · c) / (2 − c)) − hi), times 2^t (the bits of t + 1023 shifted into the exponent)
+  emit(op.constant(1), get(LO), get(R), get(C), op.f64x2Mul, op.constant(2), get(C), op.f64x2Sub, op.f64x2Div, op.f64x2Sub);
+  emit(get(HI), op.f64x2Sub, op.f64x2Sub);
+  emit(get(T), op.constant(EXPONENT_MAGIC), op.f64x2Add, op.const(52), op.shl, op.f64x2Mul, set(Y));
+  // |x| < 2^−28: 1 + x;  x = 1: E
+  emit(op.constant(1), get(X), op.f64x2Add, get(Y), get(AX), op.constant(TINY_BELOW), op.lt, op.bitselect, set(Y));
+  emit(op.constant(E), get(Y), get(X), op.constant(1), op.eq, op.bitselect, set(Y));
+}
+
 /** The body of $sums. */
 function sumsBody() {
   const code = [];
@@ -128,35 +162,16 @@ function sumsBody() {
   //     x = first[i] · product − second[i] · half
   emit(get(FIRST), get(NODE), op.add, op.splat, get(P), op.f64x2Mul);
   emit(get(SECOND), get(NODE), op.add, op.splat, get(Q), op.f64x2Mul, op.f64x2Sub, set(X));
-  emit(get(X), op.abs, set(AX));
-  //     large |= !(|x| < 707)   (NaN too)
-  emit(get(LARGE), get(AX), op.constant(LARGE_FROM), op.lt, op.not, op.or, set(LARGE));
-  //     t = trunc(invln2 · x + (±0.5 by the sign of x)), or 0 where |x| ≤ 0.5 ln2
-  emit(op.constant(INVLN2), get(X), op.f64x2Mul);
-  emit(get(X), op.constant(0x8000000000000000n), op.and, op.constant(0.5), op.or, op.f64x2Add, op.trunc);
-  emit(get(AX), op.constant(REDUCE_FROM), op.ge, op.and, set(T));
-  //     hi = x − t · ln2HI;  lo = t · ln2LO;  r = hi − lo;  s = r · r
-  emit(get(X), get(T), op.constant(LN2HI), op.f64x2Mul, op.f64x2Sub, set(HI));
-  emit(get(T), op.constant(LN2LO), op.f64x2Mul, set(LO));
-  emit(get(HI), get(LO), op.f64x2Sub, set(R));
-  emit(get(R), get(R), op.f64x2Mul, set(S));
-  //     c = r − s · (P1 + s · (P2 + s · (P3 + s · (P4 + s · P5))))
-  emit(get(R), get(S));
-  emit(op.constant(P1), get(S), op.constant(P2), get(S), op.constant(P3), get(S), op.constant(P4), get(S), op.constant(P5));
-  emit(op.f64x2Mul, op.f64x2Add, op.f64x2Mul, op.f64x2Add, op.f64x2Mul, op.f64x2Add, op.f64x2Mul, op.f64x2Add, op.f64x2Mul);
-  emit(op.f64x2Sub, set(C));
-  //     y = 1 − ((lo − (r · c) / (2 − c)) − hi), times 2^t (the bits of t + 1023 shifted into the exponent)
-  emit(op.constant(1), get(LO), get(R), get(C), op.f64x2Mul, op.constant(2), get(C), op.f64x2Sub, op.f64x2Div, op.f64x2Sub);
-  emit(get(HI), op.f64x2Sub, op.f64x2Sub);
-  emit(get(T), op.constant(EXPONENT_MAGIC), op.f64x2Add, op.const(52), op.shl, op.f64x2Mul, set(Y));
-  //     |x| < 2^−28: 1 + x;  x = 1: E
-  emit(op.constant(1), get(X), op.f64x2Add, get(Y), get(AX), op.constant(TINY_BELOW), op.lt, op.bitselect, set(Y));
-  emit(op.constant(E), get(Y), get(X), op.constant(1), op.eq, op.bitselect, set(Y));
+  emitExp(emit);
   //     sum = sum + weights[i] · exp(x)
   emit(get(SUM), get(WEIGHTS), get(NODE), op.add, op.splat, get(Y), op.f64x2Mul, op.f64x2Add, set(SUM));
   emit(get(NODE), op.const(8), op.add, op.tee(NODE), get(NODE_BYTES), op.ltU, op.brIf(0));
   emit(op.end);
   emit(get(SUMS), get(CELL), op.add, get(SUM), op.store);
+  //   the density's exponential: exponentials = exp(exponents)
+  emit(get(EXPONENTS), get(CELL), op.add, op.load, set(X));
+  emitExp(emit);
+  emit(get(EXPONENTIALS), get(CELL), op.add, get(Y), op.store);
   emit(get(CELL), op.const(16), op.add, set(CELL), op.br(0));
   emit(op.end, op.end);
   emit(get(LARGE), op.anyTrue);
@@ -172,7 +187,7 @@ function sumsBody() {
  */
 export function bivariateQuadratureWasmBytes() {
   const i32 = 0x7f;
-  const type = section(1, [1, 0x60, 8, i32, i32, i32, i32, i32, i32, i32, i32, 1, i32]);
+  const type = section(1, [1, 0x60, 10, i32, i32, i32, i32, i32, i32, i32, i32, i32, i32, 1, i32]);
   const imports = section(2, [1, ...name('env'), ...name('memory'), 0x02, 0x00, 1]);
   const functions = section(3, [1, 0]);
   const exports = section(7, [1, ...name('sums'), 0x00, 0]);

@@ -8,7 +8,7 @@ import {
   type BivariateGridMargin,
   type BivariateNormalRule,
 } from '../../src/lib/stats/bivariate-normal-cdf';
-import { BIVARIATE_QUADRATURE_WASM, bivariateQuadratureSums } from '../../src/lib/stats/bivariate-quadrature-kernel';
+import { BIVARIATE_QUADRATURE_WASM, bivariateQuadratureGrid } from '../../src/lib/stats/bivariate-quadrature-kernel';
 import { normalCdf } from '../../src/lib/stats/normal-distribution';
 import { createSeededRandom } from '../../src/lib/stats/seeded-random';
 import { bivariateQuadratureWasmBytes } from '../../scripts/make-bivariate-quadrature-wasm.mjs';
@@ -35,11 +35,26 @@ const EXP_RULE: BivariateNormalRule = {
 };
 const ONE = margin([1]);
 
-/** The kernel's exp at each x (|x| < 1e150), or null when it leaves them to JavaScript (the kernel reads the limits only). */
+/**
+ * The kernel's exp at each x (|x| < 1e150), or null when it leaves them to JavaScript (the kernel
+ * reads the limits only). With 2(1 − ρ²) taken as +∞ the density's exponents are −0, in range.
+ */
 function kernelExp(xs: readonly number[]): Float64Array | null {
   const limits = { limits: Float64Array.from(xs), lower: new Float64Array(xs.length), upper: new Float64Array(xs.length), count: xs.length };
-  const sums = bivariateQuadratureSums(limits, ONE, EXP_RULE);
-  return sums === null ? null : sums.slice(0, xs.length);
+  const grid = bivariateQuadratureGrid(limits, ONE, EXP_RULE, 1, Infinity);
+  return grid === null ? null : grid.sums.slice(0, xs.length);
+}
+
+/** φ2 as bivariateNormalGrid computes it in JavaScript, verbatim. */
+function densityInJavaScript(h: number, k: number, rho: number): number {
+  const complement = (1 - rho) * (1 + rho);
+  const densityScale = 1 / (2 * Math.PI * Math.sqrt(complement));
+  const twiceComplement = 2 * complement;
+  const twiceRho = 2 * rho;
+  const hSquared = h * h;
+  const twiceRhoH = twiceRho * h;
+  const quadratic = hSquared - twiceRhoH * k + k * k;
+  return Math.exp(-quadratic / twiceComplement) * densityScale;
 }
 
 /** The double after x (towards +∞), for finite x. */
@@ -113,7 +128,7 @@ describe('bivariate quadrature kernel', () => {
     expect(kernelExp([0.5, nextUp(-707), -1])).not.toBeNull();
   });
 
-  it('gives bivariateNormalGrid the very values of bivariateNormalCdfFromRule in branch 0', () => {
+  it('gives bivariateNormalGrid the very values of bivariateNormalCdfFromRule and of its JavaScript density in branch 0', () => {
     const random = createSeededRandom(7);
     const rule = createBivariateNormalRule();
     let grids = 0;
@@ -128,7 +143,7 @@ describe('bivariate quadrature kernel', () => {
       const rho = (random.next() < 0.5 ? -1 : 1) * 0.924 * random.next();
       const prepared = prepareBivariateNormalRule(rho, rule);
       expect(prepared.branch).toBe(0);
-      expect(bivariateQuadratureSums(rows, columns, prepared)).not.toBeNull();
+      expect(bivariateQuadratureGrid(rows, columns, prepared, 2 * rho, 2 * ((1 - rho) * (1 + rho)))).not.toBeNull();
       grids++;
       const stride = columnCount + 3;
       const size = 2 + rowCount * stride;
@@ -141,6 +156,7 @@ describe('bivariate quadrature kernel', () => {
           const at = 2 + i * stride + j;
           const expected = bivariateNormalCdfFromRule(h, k, rows.lower[i], rows.upper[i], columns.lower[j], columns.upper[j], prepareBivariateNormalRule(rho));
           expect(Object.is(out.cdf[at], expected), `Φ2(${h}, ${k}; ${rho}): grid ${out.cdf[at]}, from rule ${expected}`).toBe(true);
+          expect(Object.is(out.density[at], densityInJavaScript(h, k, rho)), `φ2(${h}, ${k}; ${rho})`).toBe(true);
           expect(Math.abs(out.density[at] - bivariateNormalDensity(h, k, rho))).toBeLessThan(1e-15);
         }
       }
@@ -153,13 +169,14 @@ describe('bivariate quadrature kernel', () => {
     const columns = margin([-35, 1.2, 2]);
     const rho = 0.6;
     const prepared = prepareBivariateNormalRule(rho);
-    expect(bivariateQuadratureSums(rows, columns, prepared)).toBeNull();
+    expect(bivariateQuadratureGrid(rows, columns, prepared, 2 * rho, 2 * ((1 - rho) * (1 + rho)))).toBeNull();
     const out = { cdf: new Float64Array(6), density: new Float64Array(6), slope: new Float64Array(6), offset: 0, stride: 3 };
     bivariateNormalGrid(rows, columns, rho, out);
     for (let i = 0; i < 2; i++) {
       for (let j = 0; j < 3; j++) {
         const expected = bivariateNormalCdfFromRule(rows.limits[i], columns.limits[j], rows.lower[i], rows.upper[i], columns.lower[j], columns.upper[j], prepared);
         expect(Object.is(out.cdf[i * 3 + j], expected)).toBe(true);
+        expect(Object.is(out.density[i * 3 + j], densityInJavaScript(rows.limits[i], columns.limits[j], rho))).toBe(true);
       }
     }
   });

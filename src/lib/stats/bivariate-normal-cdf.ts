@@ -24,7 +24,7 @@
  * the computation of the bivariate normal integral" (J. Statist. Comput. Simul. 35:101-107);
  * Plackett 1954, "A reduction formula for normal multivariate integrals" (Biometrika 41:351-360).
  */
-import { bivariateQuadratureSums } from './bivariate-quadrature-kernel';
+import { bivariateQuadratureGrid } from './bivariate-quadrature-kernel';
 import { normalCdf } from './normal-distribution';
 
 /**
@@ -384,11 +384,15 @@ export function bivariateNormalGrid(rows: BivariateGridMargin, columns: Bivariat
   const columnLower = columns.lower;
   const columnUpper = columns.upper;
   const columnCount = columns.count;
-  // Branch 0's quadrature sums of the whole grid from the WebAssembly kernel, bit for bit the
-  // sums of bivariateNormalCdfFromRule (bivariate-quadrature-kernel.ts); null when the kernel
-  // leaves the grid to JavaScript. The typeof test is for bench/parallel/polychoric-worker.ts,
-  // which runs this function from its text, where the kernel is not defined.
-  const sums = rule.branch === 0 && typeof bivariateQuadratureSums === 'function' ? bivariateQuadratureSums(rows, columns, rule) : null;
+  // Branch 0's quadrature sums and the density's exponentials of the whole grid from the
+  // WebAssembly kernel, bit for bit the sums of bivariateNormalCdfFromRule and the exponentials
+  // below (bivariate-quadrature-kernel.ts); null when the kernel leaves the grid to JavaScript.
+  // The typeof test is for bench/parallel/polychoric-worker.ts, which runs this function from its
+  // text, where the kernel is not defined.
+  const kernel =
+    rule.branch === 0 && typeof bivariateQuadratureGrid === 'function' ? bivariateQuadratureGrid(rows, columns, rule, twiceRho, twiceComplement) : null;
+  const sums = kernel === null ? null : kernel.sums;
+  const exponentials = kernel === null ? null : kernel.exponentials;
   const scale = rule.scale;
   for (let i = 0; i < rows.count; i++) {
     const h = rows.limits[i];
@@ -417,7 +421,7 @@ export function bivariateNormalGrid(rows: BivariateGridMargin, columns: Bivariat
       }
       // h² − 2ρhk + k², evaluated as ((h·h) − ((2·ρ)·h)·k) + k·k, as written out in full.
       const quadratic = hSquared - twiceRhoH * k + k * k;
-      const value = Math.exp(-quadratic / twiceComplement) * densityScale;
+      const value = (exponentials === null ? Math.exp(-quadratic / twiceComplement) : exponentials[sumsStart + j]) * densityScale;
       density[at] = value;
       slope[at] = value * (rhoComplement + h * k * complement - rho * quadratic) * slopeScale;
     }
