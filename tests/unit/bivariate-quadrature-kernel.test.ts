@@ -8,7 +8,7 @@ import {
   type BivariateGridMargin,
   type BivariateNormalRule,
 } from '../../src/lib/stats/bivariate-normal-cdf';
-import { BIVARIATE_QUADRATURE_WASM, bivariateQuadratureGrid } from '../../src/lib/stats/bivariate-quadrature-kernel';
+import { BIVARIATE_QUADRATURE_WASM, bivariateQuadratureGrid, quadratureKernelMatches } from '../../src/lib/stats/bivariate-quadrature-kernel';
 import { normalCdf } from '../../src/lib/stats/normal-distribution';
 import { createSeededRandom } from '../../src/lib/stats/seeded-random';
 import { bivariateQuadratureWasmBytes } from '../../scripts/make-bivariate-quadrature-wasm.mjs';
@@ -121,6 +121,14 @@ describe('bivariate quadrature kernel', () => {
     // Multiples of ln2 / 2, where the reduction's integer k changes.
     for (let m = -2038; m <= 2038; m++) around.push((m * Math.LN2) / 2, nextUp((m * Math.LN2) / 2), -nextUp(-(m * Math.LN2) / 2));
     expectSameAsMathExp([...edges, ...around].filter((x) => Math.abs(x) < 707));
+  });
+
+  it('checks itself against Math.exp, and sees an exp one unit in the last place off', () => {
+    expect(quadratureKernelMatches()).toBe(true);
+    expect(quadratureKernelMatches((x) => Math.exp(x) * (1 + Number.EPSILON))).toBe(false);
+    // One argument in 64 rounded the other way, as a different exp would.
+    let calls = 0;
+    expect(quadratureKernelMatches((x) => (calls++ % 64 === 63 ? Math.exp(x) * (1 + Number.EPSILON) : Math.exp(x)))).toBe(false);
   });
 
   it('leaves arguments of 707 and beyond, and NaN, to JavaScript', () => {

@@ -26,7 +26,9 @@
  * the grid's values with those of the JavaScript expressions, by `Object.is`. The equality rests
  * on `Math.exp` being fdlibm's: checked on 18 million random, edge and bit-pattern inputs with
  * Node 20.20 on x86-64 (where glibc's exp differs from it on about one argument in ten); the test
- * fails if a Node version or platform computes it otherwise.
+ * fails if a Node version or platform computes it otherwise, and each thread compares the kernel
+ * with `Math.exp` on 1,024 arguments before its first grid and keeps to JavaScript if they differ
+ * (`quadratureKernelMatches`).
  *
  * The function is assembled from a readable listing by scripts/make-bivariate-quadrature-wasm.mjs
  * (the test checks that the bytes here are its output). The module is instantiated once per
@@ -123,6 +125,11 @@ interface QuadratureState {
 }
 
 let state: QuadratureState | null = null;
+/** Whether this thread's kernel computes exp as `Math.exp` does (null: not checked yet). */
+let matchesMathExp: boolean | null = null;
+
+/** Arguments of the check that the kernel's exp is the platform's `Math.exp` (per pair of corners, two). */
+const PROBE_COUNT = 512;
 
 /** This thread's kernel with room for `corners` corners (even). */
 function quadratureState(corners: number): QuadratureState {
@@ -156,6 +163,39 @@ export interface BivariateQuadratureGrid {
 }
 
 /**
+ * Whether the kernel's exp gives `reference`'s values bit for bit, on 2 × 512 arguments spread
+ * over [−41, 1] (the quadrature's range) and fdlibm's branch points (±0.5 ln2, ±1.5 ln2, 1,
+ * 2^−28). `bivariateQuadratureGrid` checks `Math.exp` once per thread and uses the kernel only when
+ * it agrees, so that a platform whose `Math.exp` is not fdlibm's (glibc's differs on about one
+ * argument in ten) keeps the JavaScript values.
+ * @param reference The exp to compare with; `Math.exp` by default.
+ * @returns True when every value is the same (`Object.is`).
+ * References: Sun Microsystems 1993, fdlibm e_exp.c.
+ */
+export function quadratureKernelMatches(reference: (x: number) => number = Math.exp): boolean {
+  const { sums, nodes, products, halves, exponents, out, exponentials, capacity } = quadratureState(PROBE_COUNT);
+  // One node: weight 1, first 1, second 0, so each corner's sum is exp(product − 0 · half).
+  nodes[0] = 1;
+  nodes[NODE_ROOM] = 1;
+  nodes[2 * NODE_ROOM] = 0;
+  const edges = [0.5 * Math.LN2, 1.5 * Math.LN2, 1, 2 ** -28];
+  for (let i = 0; i < PROBE_COUNT; i++) {
+    const spread = -41 + 42 * ((i * 0.6180339887498949) % 1);
+    const edge = edges[i % 4] * (1 + (((i >> 2) % 16) - 8) * Number.EPSILON) * (i % 8 < 4 ? 1 : -1);
+    products[i] = spread;
+    halves[i] = 0;
+    exponents[i] = i < 128 ? edge : spread / 3;
+  }
+  const start = CORNERS_START;
+  const outside = sums(0, 8 * NODE_ROOM, 16 * NODE_ROOM, 8, start, start + 8 * capacity, start + 16 * capacity, start + 24 * capacity, start + 32 * capacity, 8 * PROBE_COUNT);
+  if (outside !== 0) return false;
+  for (let i = 0; i < PROBE_COUNT; i++) {
+    if (!Object.is(out[i], reference(products[i])) || !Object.is(exponentials[i], reference(exponents[i]))) return false;
+  }
+  return true;
+}
+
+/**
  * The branch-0 quadrature sums of Φ2, and the density's exponentials, at every corner (h_i, k_j)
  * of a grid at the ρ of `rule`: bit for bit the `sum` of `bivariateNormalCdfFromRule` and the
  * `Math.exp(−quadratic / twiceComplement)` of `bivariateNormalGrid`.
@@ -182,6 +222,8 @@ export function bivariateQuadratureGrid(
   const corners = rowCount * columnCount;
   const count = rule.count;
   if (rule.branch !== 0 || corners === 0 || !(count >= 1 && count <= NODE_ROOM)) return null;
+  if (matchesMathExp === null) matchesMathExp = quadratureKernelMatches();
+  if (!matchesMathExp) return null;
   const even = corners + (corners & 1);
   const current = quadratureState(even);
   const { nodes, products, halves, exponents, capacity } = current;
