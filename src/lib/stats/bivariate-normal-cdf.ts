@@ -12,8 +12,8 @@
  * by `prepareBivariateNormalRule`, so that a grid of limits at one ρ (the polychoric
  * likelihood) costs only a few exponentials per point; into a caller's buffer
  * (`createBivariateNormalRule`), the likelihood's many evaluations allocate nothing. In a grid,
- * branch 0's quadrature sums come from a WebAssembly kernel (bivariate-quadrature-kernel.ts),
- * bit for bit the sums `bivariateNormalCdfFromRule` computes.
+ * branch 0's quadrature sums and density exponentials come from a WebAssembly kernel
+ * (bivariate-quadrature-kernel.ts), bit for bit the values of the JavaScript expressions.
  *
  * bench/parallel/polychoric-worker.ts (a benchmark's kernel, not the audit) runs these functions
  * in a worker thread from their source text, with the Gauss-Legendre tables of this module it
