@@ -11,7 +11,9 @@
  * The work that depends only on ρ (quadrature nodes mapped to the arcsine scale) is done once
  * by `prepareBivariateNormalRule`, so that a grid of limits at one ρ (the polychoric
  * likelihood) costs only a few exponentials per point; into a caller's buffer
- * (`createBivariateNormalRule`), the likelihood's many evaluations allocate nothing.
+ * (`createBivariateNormalRule`), the likelihood's many evaluations allocate nothing. In a grid,
+ * branch 0's quadrature sums and density exponentials come from a WebAssembly kernel
+ * (bivariate-quadrature-kernel.ts), bit for bit the values of the JavaScript expressions.
  *
  * bench/parallel/polychoric-worker.ts (a benchmark's kernel, not the audit) runs these functions
  * in a worker thread from their source text, with the Gauss-Legendre tables of this module it
@@ -22,6 +24,7 @@
  * the computation of the bivariate normal integral" (J. Statist. Comput. Simul. 35:101-107);
  * Plackett 1954, "A reduction formula for normal multivariate integrals" (Biometrika 41:351-360).
  */
+import { bivariateQuadratureGrid } from './bivariate-quadrature-kernel';
 import { normalCdf } from './normal-distribution';
 
 /**
@@ -381,6 +384,16 @@ export function bivariateNormalGrid(rows: BivariateGridMargin, columns: Bivariat
   const columnLower = columns.lower;
   const columnUpper = columns.upper;
   const columnCount = columns.count;
+  // Branch 0's quadrature sums and the density's exponentials of the whole grid from the
+  // WebAssembly kernel, bit for bit the sums of bivariateNormalCdfFromRule and the exponentials
+  // below (bivariate-quadrature-kernel.ts); null when the kernel leaves the grid to JavaScript.
+  // The typeof test is for bench/parallel/polychoric-worker.ts, which runs this function from its
+  // text, where the kernel is not defined.
+  const kernel =
+    rule.branch === 0 && typeof bivariateQuadratureGrid === 'function' ? bivariateQuadratureGrid(rows, columns, rule, twiceRho, twiceComplement) : null;
+  const sums = kernel === null ? null : kernel.sums;
+  const exponentials = kernel === null ? null : kernel.exponentials;
+  const scale = rule.scale;
   for (let i = 0; i < rows.count; i++) {
     const h = rows.limits[i];
     const lowerH = rows.lower[i];
@@ -388,13 +401,27 @@ export function bivariateNormalGrid(rows: BivariateGridMargin, columns: Bivariat
     const hSquared = h * h;
     const twiceRhoH = twiceRho * h;
     const rowStart = offset + i * stride;
+    const sumsStart = i * columnCount;
     for (let j = 0; j < columnCount; j++) {
       const k = columnLimits[j];
       const at = rowStart + j;
-      cdf[at] = bivariateNormalCdfFromRule(h, k, lowerH, upperH, columnLower[j], columnUpper[j], rule);
+      if (sums === null) {
+        cdf[at] = bivariateNormalCdfFromRule(h, k, lowerH, upperH, columnLower[j], columnUpper[j], rule);
+      } else {
+        // The rest of bivariateNormalCdfFromRule's branch 0, the same operations in the same order.
+        const lowerK = columnLower[j];
+        let value = sums[sumsStart + j] * scale;
+        value += lowerH * lowerK;
+        const upperBound = lowerH < lowerK ? lowerH : lowerK;
+        const lowerBound = lowerH + lowerK - 1;
+        if (value > upperBound) value = upperBound;
+        if (value < lowerBound) value = lowerBound;
+        if (value <= 0) value = 0; // also turns −0 into 0
+        cdf[at] = value;
+      }
       // h² − 2ρhk + k², evaluated as ((h·h) − ((2·ρ)·h)·k) + k·k, as written out in full.
       const quadratic = hSquared - twiceRhoH * k + k * k;
-      const value = Math.exp(-quadratic / twiceComplement) * densityScale;
+      const value = (exponentials === null ? Math.exp(-quadratic / twiceComplement) : exponentials[sumsStart + j]) * densityScale;
       density[at] = value;
       slope[at] = value * (rhoComplement + h * k * complement - rho * quadratic) * slopeScale;
     }
