@@ -21,6 +21,7 @@ import {
   bivariateNormalGrid,
   createBivariateNormalRule,
   prepareBivariateNormalRule,
+  withinFrechetBounds,
 } from '../../src/lib/stats/bivariate-normal-cdf';
 import { normalCdf } from '../../src/lib/stats/normal-distribution';
 import { countPolychoricTable } from '../../src/lib/stats/polychoric-coding';
@@ -33,6 +34,7 @@ const WORKER_FUNCTIONS: readonly ((...args: never[]) => unknown)[] = [
   normalCdf,
   createBivariateNormalRule,
   prepareBivariateNormalRule,
+  withinFrechetBounds,
   bivariateNormalCdfFromRule,
   bivariateNormalGrid,
   createPolychoricWorkspace,

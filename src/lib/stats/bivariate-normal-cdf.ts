@@ -264,6 +264,20 @@ export function bivariateNormalCdfFromRule(
       if (bigK > bigH) value += bigH < 0 ? lowerK - upperH : lowerH - upperK;
     }
   }
+  return withinFrechetBounds(value, lowerH, lowerK);
+}
+
+/**
+ * Φ2 kept within the bounds its margins allow: max(0, Φ(h) + Φ(k) − 1) ≤ Φ2 ≤ min(Φ(h), Φ(k)),
+ * which rounding in the quadrature can overstep; −0 becomes 0.
+ * @param value The computed Φ2.
+ * @param lowerH Φ(h).
+ * @param lowerK Φ(k).
+ * @returns The value, clamped.
+ * References: Fréchet 1951, "Sur les tableaux de corrélation dont les marges sont données"
+ * (Annales de l'Université de Lyon 14:53-77) (the bounds; from memory).
+ */
+export function withinFrechetBounds(value: number, lowerH: number, lowerK: number): number {
   const upperBound = lowerH < lowerK ? lowerH : lowerK;
   const lowerBound = lowerH + lowerK - 1;
   if (value > upperBound) value = upperBound;
@@ -412,12 +426,7 @@ export function bivariateNormalGrid(rows: BivariateGridMargin, columns: Bivariat
         const lowerK = columnLower[j];
         let value = sums[sumsStart + j] * scale;
         value += lowerH * lowerK;
-        const upperBound = lowerH < lowerK ? lowerH : lowerK;
-        const lowerBound = lowerH + lowerK - 1;
-        if (value > upperBound) value = upperBound;
-        if (value < lowerBound) value = lowerBound;
-        if (value <= 0) value = 0; // also turns −0 into 0
-        cdf[at] = value;
+        cdf[at] = withinFrechetBounds(value, lowerH, lowerK);
       }
       // h² − 2ρhk + k², evaluated as ((h·h) − ((2·ρ)·h)·k) + k·k, as written out in full.
       const quadratic = hSquared - twiceRhoH * k + k * k;
