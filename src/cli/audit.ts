@@ -174,7 +174,7 @@ async function main(argv: string[]): Promise<number> {
     }
   }, undefined, createResampleThreadRunner(Math.min(MAX_RESAMPLE_THREADS, availableParallelism())), (cutList) => {
     // The proposed cuts, while the bootstrap checks them (docs/decisions/026): one line each.
-    process.stderr.write(`${earlyCutListWords.heading} (stability still being checked on ${cutList.resamples} resamples):\n`);
+    process.stderr.write(`${earlyCutListWords.commandLineHeading(cutList.resamples)}\n`);
     for (const line of cutList.recommendations) process.stderr.write(`    ${proposedCutLine(line.keep, line.actions)}\n`);
   });
   const json = `${JSON.stringify(audit, null, 2)}\n`;

@@ -8,9 +8,9 @@ import { useAuditStatus, type AuditState } from './use-audit-status';
 
 /**
  * One audit as a live row: its settings, then a progress bar while it waits or runs (with a cancel
- * button for those who may run audits, and the proposed cuts so far while the bootstrap checks them), a link to its page once done, or why it failed or who
- * cancelled it (with a retry button for those who may run audits). `onStatus` hears every change
- * of status.
+ * button for those who may run audits, and the proposed cuts so far while the bootstrap checks
+ * them), a link to its page once done, or why it failed or who cancelled it (with a retry button
+ * for those who may run audits). `onStatus` hears every change of status.
  */
 export default function AuditStatusRow({
   initial,

@@ -79,10 +79,14 @@ export function proposedCutLine(keep: string, actions: readonly { item: string; 
   return [`Keep ${keep}`, ...changed.map((action) => (action.action === 'merge' ? `merge ${action.item} into ${action.into ?? keep}` : `${actionWords[action.action]?.toLowerCase() ?? action.action} ${action.item}`))].join(' · ');
 }
 
-/** The early cut list shown while an audit's bootstrap runs (EarlyCutList.tsx). */
+const EARLY_CUT_LIST_HEADING = 'Proposed cuts so far';
+
+/** The early cut list shown while an audit's bootstrap runs (EarlyCutList.tsx, and the command line). */
 export const earlyCutListWords = {
-  heading: 'Proposed cuts so far',
+  heading: EARLY_CUT_LIST_HEADING,
   reasonsLink: 'Their reasons, on the audit’s page',
+  /** The command line's heading above the lines, on standard error. */
+  commandLineHeading: (resamples: number) => `${EARLY_CUT_LIST_HEADING} (stability still being checked on ${resamples} resamples):`,
   note: (resamples: number) =>
     `Made before the bootstrap: how often ${formatNumber(resamples, 0)} resamples repeat each line is still being checked, and a line that flips is marked unstable in the finished audit. Read these, but decide once the audit is done.`,
 };
