@@ -79,6 +79,18 @@ describe('the generated request schema', () => {
     expect(() => resolveEngineSettings({ seed: 2 ** 31 })).toThrow('seed must be a whole number from -2147483648 to 2147483647, got 2147483648');
   });
 
+  it("refuses up front the values the engine's own preconditions refuse, so no accepted audit fails on them", () => {
+    // nearDependencies (src/lib/engine/overlap-clusters.ts) needs a variance proportion in (0, 1]:
+    // 0 was accepted by the API and the audit then failed in its worker.
+    expect(refusal({ varianceProportionThreshold: 0 })).toBe('varianceProportionThreshold must be a number above 0 and at most 1, got 0.');
+    expect(auditSettingsSchema.parse({ varianceProportionThreshold: 1e-9 })).toEqual({ varianceProportionThreshold: 1e-9 });
+    // residualBootstrap (src/lib/stats/residual-correlations.ts) needs at least 20 draws; 0 turns it off.
+    for (const draws of [1, 19]) expect(refusal({ residualBootstrapDraws: draws })).toBe(`residualBootstrapDraws must be 0 (off) or a whole number from 20 to 10000, got ${draws}.`);
+    for (const draws of [0, 20, 10_000]) expect(auditSettingsSchema.parse({ residualBootstrapDraws: draws })).toEqual({ residualBootstrapDraws: draws });
+    expect(refusal({ residualBootstrapDraws: 10_001 })).toMatch(/^residualBootstrapDraws must be 0 \(off\) or/);
+    expect(() => resolveEngineSettings({ residualBootstrapDraws: 5 })).toThrow('residualBootstrapDraws must be 0 (off) or a whole number from 20 to 10000, got 5');
+  });
+
   it('fills an absent settings object with nothing, so the defaults apply', () => {
     expect(auditRequestSchema.parse({})).toEqual({ settings: {} });
   });

@@ -20,7 +20,7 @@ function inputBounds(field: FormField): { min?: number; max?: number } {
   if (field.domain.kind !== 'number') return {};
   const scale = field.form.percent ? 100 : 1;
   const step = Number(field.form.step ?? '1');
-  const min = field.domain.min * scale + (field.domain.minOpen ? step : 0);
+  const min = field.domain.off !== undefined ? Math.min(field.domain.off, field.domain.min) * scale : field.domain.min * scale + (field.domain.minOpen ? step : 0);
   const max = field.domain.max * scale - (field.domain.maxOpen ? step : 0);
   return { min: Math.round(min * 1e6) / 1e6, max: Math.round(max * 1e6) / 1e6 };
 }

@@ -106,7 +106,8 @@ export interface EngineSettings {
 
 /**
  * The range of values one setting takes: a choice among words, or a number between bounds
- * (each bound closed unless marked open), whole when `integer`.
+ * (each bound closed unless marked open), whole when `integer`; `off`, when given, is one value
+ * outside the bounds that is also accepted and turns the computation off (e.g. 0 draws).
  */
 export type SettingDomain =
   | { readonly kind: 'choice'; readonly choices: readonly string[] }
@@ -117,6 +118,7 @@ export type SettingDomain =
       readonly minOpen?: boolean;
       readonly maxOpen?: boolean;
       readonly integer?: boolean;
+      readonly off?: number;
     };
 
 /** The domain, default and source of one engine setting. */
@@ -145,7 +147,7 @@ export const ENGINE_SETTING_RULES: { readonly [Key in keyof EngineSettings]: Eng
   missing: { domain: { kind: 'choice', choices: ['pairwise', 'listwise'] }, default: 'pairwise', source: 'common practice (methods.md §1)' },
   strongPairThreshold: share(0.8, 'house figure', true),
   conditionIndexThreshold: { domain: { kind: 'number', min: 1, max: 1e6 }, default: 30, source: 'Belsley, Kuh & Welsch 1980, "Regression Diagnostics"' },
-  varianceProportionThreshold: share(0.5, 'Belsley, Kuh & Welsch 1980, "Regression Diagnostics"'),
+  varianceProportionThreshold: share(0.5, 'Belsley, Kuh & Welsch 1980, "Regression Diagnostics"', true),
   dependencyVifThreshold: { domain: { kind: 'number', min: 1, max: 1e6 }, default: 5, source: 'methods.md §3 (VIF 5, "worth a look")' },
   mergeCorrelation: share(0.95, 'house figure'),
   mergeWordingSimilarity: share(0.8, 'house figure'),
@@ -161,7 +163,8 @@ export const ENGINE_SETTING_RULES: { readonly [Key in keyof EngineSettings]: Eng
   confidenceLevel: { domain: { kind: 'number', min: 0, max: 1, minOpen: true, maxOpen: true }, default: 0.95, source: 'common practice (Fisher 1921, interval of r)' },
   residualRelativeThreshold: share(0.2, 'Chen & Thissen 1997; Christensen, Makransky & Horton 2017 (relative residual rule)'),
   residualStatistic: { domain: { kind: 'choice', choices: ['residual', 'q3'] }, default: 'residual', source: 'house figure (docs/decisions/010: fewer false alarms than q3 on generated waves)' },
-  residualBootstrapDraws: { domain: { kind: 'number', min: 0, max: 10_000, integer: true }, default: 200, source: 'house figure (the core residualBootstrap default)' },
+  // 0 turns the bootstrap off (the fixed relative rule); fewer than 20 draws give no usable quantile (residualBootstrap).
+  residualBootstrapDraws: { domain: { kind: 'number', min: 20, max: 10_000, integer: true, off: 0 }, default: 200, source: 'house figure (the core residualBootstrap default)' },
   residualCriticalQuantile: { domain: { kind: 'number', min: 0, max: 1, minOpen: true, maxOpen: true }, default: 0.99, source: 'Christensen, Makransky & Horton 2017 (95th and 99th percentiles tabulated)' },
   residualAboutZeroShare: share(0.5, 'house figure'),
   modificationIndexAlpha: { domain: { kind: 'number', min: 0, max: 1, minOpen: true, maxOpen: true }, default: 0.001, source: 'Sörbom 1989 (χ²(1) score test), Bonferroni over the scale\'s pairs; level a house figure (docs/decisions/022)' },
@@ -206,19 +209,21 @@ export const DEFAULT_ENGINE_SETTINGS: EngineSettings = Object.freeze(
 export function domainWords(domain: SettingDomain): string {
   if (domain.kind === 'choice') return `${domain.choices.slice(0, -1).join(', ')} or ${domain.choices[domain.choices.length - 1]}`;
   const what = domain.integer ? 'a whole number' : 'a number';
-  if (!domain.minOpen && !domain.maxOpen) return `${what} from ${domain.min} to ${domain.max}`;
-  return `${what} ${domain.minOpen ? 'above' : 'at least'} ${domain.min} and ${domain.maxOpen ? 'below' : 'at most'} ${domain.max}`;
+  const off = domain.off === undefined ? '' : `${domain.off} (off) or `;
+  if (!domain.minOpen && !domain.maxOpen) return `${off}${what} from ${domain.min} to ${domain.max}`;
+  return `${off}${what} ${domain.minOpen ? 'above' : 'at least'} ${domain.min} and ${domain.maxOpen ? 'below' : 'at most'} ${domain.max}`;
 }
 
 /**
  * Whether a value lies in a domain.
  * @param domain the setting's domain.
  * @param value any value.
- * @returns true when the value is one of the choices, or a finite number (whole when required) within the bounds.
+ * @returns true when the value is one of the choices, or a finite number (whole when required) within the bounds or equal to its `off` value.
  */
 export function inDomain(domain: SettingDomain, value: unknown): boolean {
   if (domain.kind === 'choice') return typeof value === 'string' && domain.choices.includes(value);
   if (typeof value !== 'number' || !Number.isFinite(value)) return false;
+  if (domain.off !== undefined && value === domain.off) return true;
   if (domain.integer && !Number.isInteger(value)) return false;
   if (domain.minOpen ? !(value > domain.min) : !(value >= domain.min)) return false;
   return domain.maxOpen ? value < domain.max : value <= domain.max;
