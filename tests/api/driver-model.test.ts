@@ -63,6 +63,19 @@ describe('the driver model slice', () => {
     expect(own.driverModel.afterDecisions.coefficients.find((c: { term: string }) => c.term === 'coll_2').seRatio).toBeLessThan(0.5);
   });
 
+  it('refuses predictors that are not items of the wave when the audit is started, not when it runs', async () => {
+    // Found by the API sweep: these were accepted (202) and the audit then failed in its worker.
+    for (const predictors of [['overall_sat'], ['coll_1', 'no_such_item'], ['respondent_id']]) {
+      const response = await designer.post(`/api/waves/${demoWave}/audits`, { settings: { bootstrap: 0, seed: 41_003, outcome: 'overall_sat', predictors } });
+      expect(response.status).toBe(400);
+      const { error } = await body(response);
+      expect(error.code).toBe('unknown-predictor');
+      expect(error.message).toMatch(/^settings\.predictors: .* of this wave; name the driver model's predictors by their item ids/);
+    }
+    const known = await designer.post(`/api/waves/${demoWave}/audits`, { settings: { bootstrap: 0, seed: 41_003, outcome: 'overall_sat', predictors: ['coll_1', 'coll_2'] } });
+    expect(known.status).toBe(202);
+  });
+
   it('says why there is no model when the audit has no outcome', async () => {
     const id = await doneAudit({ bootstrap: 0, seed: 41_002 });
     const { model, note } = await body(await reviewer.get(`/api/audits/${id}/driver-model`));

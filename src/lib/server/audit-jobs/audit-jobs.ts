@@ -155,7 +155,7 @@ export class AuditJobs {
    * @param request the request's settings (validated by the route's schema).
    * @param options `allowTestFaults` (test servers).
    * @throws {HttpError} 409 `wave-not-confirmed` when the wave's setup is not confirmed (or it has
-   *   no stored responses); 400 `invalid-settings`, `unknown-locked-item`, `unknown-outcome`;
+   *   no stored responses); 400 `invalid-settings`, `unknown-locked-item`, `unknown-predictor`, `unknown-outcome`;
    *   422 `nothing-to-compute` when fewer than two respondents or two varying items are left.
    * @returns the audit and whether it was reused.
    */
@@ -307,9 +307,11 @@ export class AuditJobs {
   }
 
   /**
-   * Checks the locked items and the outcome against the wave. Locked items the request names must
-   * be items of the wave; the study's own locked items may name items of other waves and are
-   * kept only where this wave has them. The outcome may be named by id or column header.
+   * Checks the locked items, the driver model's predictors and the outcome against the wave.
+   * Locked items the request names must be items of the wave; the study's own locked items may
+   * name items of other waves and are kept only where this wave has them. Predictors must be items
+   * of the wave (refused here, not when the audit runs). The outcome may be named by id or column
+   * header.
    */
   private checkedAgainstWave(settings: ResolvedAuditSettings, wave: WaveRow, lockedFromRequest: boolean): ResolvedAuditSettings {
     const itemIds = new Set(this.db.select({ id: waveItems.itemId }).from(waveItems).where(eq(waveItems.waveId, wave.id)).all().map((row) => row.id));
@@ -323,6 +325,14 @@ export class AuditJobs {
         );
       }
       locked = locked.filter((id) => itemIds.has(id));
+    }
+    const unknownPredictors = settings.predictors.filter((id) => !itemIds.has(id));
+    if (unknownPredictors.length > 0) {
+      const shown = unknownPredictors.length > 10 ? `${unknownPredictors.slice(0, 10).join(', ')} and ${unknownPredictors.length - 10} more` : unknownPredictors.join(', ');
+      throw fail.badRequest(
+        `settings.predictors: ${shown} ${unknownPredictors.length > 1 ? 'are not items' : 'is not an item'} of this wave; name the driver model's predictors by their item ids as listed in the column setup.`,
+        'unknown-predictor',
+      );
     }
     let outcome = settings.outcome;
     if (outcome !== null) {
