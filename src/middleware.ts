@@ -12,6 +12,8 @@
  *    through the capped reader (413), the sign-in rate limit on the credentials callback, and
  *    sign-out ending the session on the server too;
  * 5. first run (/setup while no user exists) and sign-in for pages.
+ * A method an API route does not export is answered 405 with the route's methods (Allow), in
+ * the API's error shape, instead of Astro's HTML not-found page.
  * Methods no route answers (anything but GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS) get 405
  * before any of this; TRACE, TRACK and CONNECT never reach here (src/lib/server/node-adapter-hardening.ts).
  */
@@ -68,6 +70,37 @@ const securityHeaders = defineMiddleware(async (context, next) => {
 const knownMethods = defineMiddleware((context, next) => {
   if (answeredMethods.has(context.request.method.toUpperCase())) return next();
   return errorResponse(405, 'method-not-allowed', `This server does not answer ${context.request.method.slice(0, 20)} requests.`, { Allow: 'GET, HEAD, POST, PUT, PATCH, DELETE' });
+});
+
+/** The API's route modules by file, loaded only to name the methods a route answers (the 405's Allow). */
+const apiRouteModules = import.meta.glob<Record<string, unknown>>('./pages/api/**/*.ts');
+const endpointMethods = ['GET', 'POST', 'PUT', 'PATCH', 'DELETE'];
+
+/**
+ * The methods the route file of a pattern exports (HEAD with GET), e.g. `/api/studies/[id]` → GET,
+ * HEAD, PATCH, DELETE; empty when no file has that pattern.
+ */
+async function methodsOfRoute(routePattern: string): Promise<string[]> {
+  // Astro gives the pattern in lower case (`/api/teams/[id]/members/[userid]`).
+  const wanted = routePattern.toLowerCase();
+  const file = Object.keys(apiRouteModules).find((path) => path.replace(/^\.\/pages/, '').replace(/\.ts$/, '').replace(/\/index$/, '').toLowerCase() === wanted);
+  if (!file) return [];
+  const exported = Object.keys(await apiRouteModules[file]());
+  const methods = endpointMethods.filter((method) => exported.includes(method));
+  return methods.includes('GET') ? ['GET', 'HEAD', ...methods.slice(1)] : methods;
+}
+
+/**
+ * A method an API route does not export: Astro answers an empty 404 and then renders the HTML
+ * not-found page; the API answers 405 in its error shape, with the methods the route takes.
+ */
+const apiMethodNotAllowed = defineMiddleware(async (context, next) => {
+  const response = await next();
+  const { pathname } = context.url;
+  if (response.status !== 404 || !pathname.startsWith('/api/') || pathname.startsWith('/api/auth/') || response.headers.has('content-type')) return response;
+  const allowed = await methodsOfRoute(context.routePattern);
+  if (allowed.length === 0 || allowed.includes(context.request.method.toUpperCase())) return response;
+  return errorResponse(405, 'method-not-allowed', `${pathname.slice(0, 200)} does not answer ${context.request.method} requests; it answers ${allowed.join(', ')}.`, { Allow: allowed.join(', ') });
 });
 
 let startedUp = false;
@@ -225,4 +258,4 @@ const gatePages = defineMiddleware((context, next) => {
   return next();
 });
 
-export const onRequest = sequence(takeTurns, securityHeaders, knownMethods, startUp, originCheck, identify, authFront, gatePages);
+export const onRequest = sequence(takeTurns, securityHeaders, knownMethods, apiMethodNotAllowed, startUp, originCheck, identify, authFront, gatePages);

@@ -288,6 +288,31 @@ describe('no 500 a client can cause (finding 9)', () => {
     }
   });
 
+  it("answers a method an API route does not export with 405 in the API's error shape, naming the route's methods", async () => {
+    // Found by the API sweep: Astro answered these with its HTML not-found page.
+    const owner = await signedIn(demoEmails.owner);
+    const cases: [string, string, string][] = [
+      ['POST', '/api/health', 'GET, HEAD'],
+      ['DELETE', '/api/me', 'GET, HEAD'],
+      ['GET', '/api/me/password', 'PUT'],
+      ['PUT', `/api/studies/${demo.study}`, 'GET, HEAD, PATCH, DELETE'],
+      ['OPTIONS', `/api/audits/no-such-audit/what-if`, 'POST'],
+      ['GET', `/api/teams/${demo.team}/members/no-such-user`, 'PUT, DELETE'],
+      ['POST', `/api/studies/${demo.study}/cut-list/coll_1`, 'PUT'],
+    ];
+    for (const [method, path, allow] of cases) {
+      const response = await owner.call(method, path, { json: method === 'GET' || method === 'OPTIONS' ? undefined : {} });
+      expect(response.status, `${method} ${path}`).toBe(405);
+      expect(response.headers.get('allow')).toBe(allow);
+      const { error } = await body(response);
+      expect(error.code).toBe('method-not-allowed');
+      expect(error.message).toBe(`${path} does not answer ${method} requests; it answers ${allow}.`);
+    }
+    // An unknown path is still a 404, and a page path still the HTML page.
+    expect((await owner.call('POST', '/api/no/such/route', { json: {} })).status).toBe(404);
+    expect((await owner.get('/no-such-page')).headers.get('content-type')).toMatch(/text\/html/);
+  });
+
   it('answers an unknown Auth.js action with 404 and other methods with 405', async () => {
     const client = new Client();
     for (const path of ['/api/auth/nosuch', '/api/auth/csrf/extra', '/api/auth/callback/credentials/x', '/api/auth']) {
