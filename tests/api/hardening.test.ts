@@ -288,6 +288,29 @@ describe('no 500 a client can cause (finding 9)', () => {
     }
   });
 
+  it("answers an address with a malformed percent-encoding with 400 in the API's error shape", async () => {
+    // Found by the API sweep: the adapter's own check answered a plain-text "Bad request.".
+    for (const path of ['/api/studies/%ZZ', '/api/me?x=%', '/api/audits/%E0%A4%A/what-if']) {
+      const answer = await new Promise<{ status: number; text: string; type: string | undefined; nosniff: string | undefined }>((resolve, reject) => {
+        const request = httpRequest(new URL(inject('baseUrl')), { method: 'GET', path }, (response) => {
+          let text = '';
+          response.on('data', (part) => (text += part));
+          response.on('end', () =>
+            resolve({ status: response.statusCode ?? 0, text, type: response.headers['content-type'], nosniff: response.headers['x-content-type-options'] as string | undefined }),
+          );
+        });
+        request.on('error', reject);
+        request.end();
+      });
+      expect(answer.status, path).toBe(400);
+      expect(answer.type).toMatch(/^application\/json/);
+      expect(answer.nosniff).toBe('nosniff');
+      const { error } = JSON.parse(answer.text);
+      expect(error.code).toBe('malformed-address');
+      expect(error.message).toContain('%25');
+    }
+  });
+
   it("answers a method an API route does not export with 405 in the API's error shape, naming the route's methods", async () => {
     // Found by the API sweep: Astro answered these with its HTML not-found page.
     const owner = await signedIn(demoEmails.owner);

@@ -15,7 +15,9 @@
  * 4. The content-security-policy hashes of the page head's inline script and style. Astro hashed
  *    the same few build-time texts with WebCrypto on every page (a thread-pool job each); the
  *    hash of a text is kept by the text (docs/decisions/025-reader-latency.md).
- * 5. React islands rendered in one go (`experimentalDisableStreaming` in astro.config.mjs) keep
+ * 5. A malformed percent-encoding in the address (`/api/x%ZZ`): the standalone handler answered a
+ *    plain-text "Bad request."; it gets the API's JSON error shape and headers (400).
+ * 6. React islands rendered in one go (`experimentalDisableStreaming` in astro.config.mjs) keep
  *    the island's id prefix, as the streaming renderer did and as the browser hydrates with
  *    (`useId` answers the same on both sides).
  *
@@ -34,19 +36,26 @@ interface Edit {
   replace: string;
 }
 
-const refusedMethodAnswer = `
-      const refusedMethod = /^(TRACE|TRACK|CONNECT)$/i.test(String(req.method ?? ""));
-      res.statusCode = refusedMethod ? 405 : 400;
-      if (refusedMethod) res.setHeader("Allow", "GET, HEAD, POST, PUT, PATCH, DELETE");
+/** The API's security headers and JSON content type on a raw Node response, as the adapter's own answers lack them. */
+const jsonErrorHeaders = `
       res.setHeader("Content-Type", "application/json; charset=utf-8");
       res.setHeader("Cache-Control", "no-store");
       res.setHeader("X-Content-Type-Options", "nosniff");
       res.setHeader("X-Frame-Options", "DENY");
       res.setHeader("Referrer-Policy", "same-origin");
-      res.setHeader("Content-Security-Policy", "default-src 'none'; frame-ancestors 'none'");
+      res.setHeader("Content-Security-Policy", "default-src 'none'; frame-ancestors 'none'");`;
+
+const refusedMethodAnswer = `
+      const refusedMethod = /^(TRACE|TRACK|CONNECT)$/i.test(String(req.method ?? ""));
+      res.statusCode = refusedMethod ? 405 : 400;
+      if (refusedMethod) res.setHeader("Allow", "GET, HEAD, POST, PUT, PATCH, DELETE");${jsonErrorHeaders}
       res.end(JSON.stringify({ error: refusedMethod
         ? { code: "method-not-allowed", message: "This server does not answer " + String(req.method) + " requests." }
         : { code: "bad-request", message: "The request could not be read." } }));`;
+
+const malformedAddressAnswer = `
+      res.statusCode = 400;${jsonErrorHeaders}
+      res.end(JSON.stringify({ error: { code: "malformed-address", message: "The address could not be read: a % in it is not followed by two hexadecimal digits of a valid UTF-8 sequence. Write a literal % as %25." } }));`;
 
 export const nodeAdapterEdits: readonly Edit[] = [
   {
@@ -62,6 +71,12 @@ export const nodeAdapterEdits: readonly Edit[] = [
       res.statusCode = 500;
       res.end("Internal Server Error");`,
     replace: refusedMethodAnswer,
+  },
+  {
+    file: '/@astrojs/node/dist/standalone.js',
+    find: `      res.writeHead(400);
+      res.end("Bad request.");`,
+    replace: malformedAddressAnswer,
   },
   {
     file: '/@astrojs/react/dist/server.js',
