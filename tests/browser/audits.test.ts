@@ -36,6 +36,19 @@ describe('audits in Chromium', () => {
       await form.locator('#audit-seed').fill('50000');
       await form.locator('summary:has-text("Locked items")').click();
       await form.locator('label:has-text("hours_1") input[type=checkbox]').check();
+      // A value the server would refuse (1-19 draws: no percentile) is said in the form's words,
+      // the field's label and range (settings-table.ts, formFieldProblem), and nothing is sent.
+      const posted: string[] = [];
+      page.on('request', (request) => {
+        if (request.method() === 'POST' && request.url().includes('/audits')) posted.push(request.url());
+      });
+      await form.locator('#audit-residualBootstrapDraws').fill('5');
+      await form.locator('button[type=submit]').click();
+      await expect(form.locator('[data-testid=audit-form-error]').textContent()).resolves.toBe(
+        'Residual bootstrap draws: enter 0 (off) or a whole number from 20 to 10000 (you entered 5).',
+      );
+      expect(posted).toEqual([]);
+      await form.locator('#audit-residualBootstrapDraws').fill('200');
       await form.locator('button[type=submit]').click();
 
       const progress = form.locator('[data-testid=audit-progress] progress');

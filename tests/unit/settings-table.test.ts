@@ -14,6 +14,7 @@ import {
   DEFAULT_AUDIT_SETTINGS,
   auditSettingsProblems,
   engineSettingsOf,
+  formFieldProblem,
   requestFromFlags,
   resolveAuditSettings,
   settingDescriptor,
@@ -129,5 +130,31 @@ describe('requestFromFlags', () => {
       '--bootstrap must be a whole number from 0 to 10000, got "lots".',
       '--seed must be a whole number from -2147483648 to 2147483647, got 1.5.',
     ]);
+  });
+});
+
+describe('formFieldProblem', () => {
+  const field = (name: string) => settingDescriptor(name)!;
+
+  it('names the field by its label and its range in the units the form shows', () => {
+    expect(formFieldProblem(field('residualBootstrapDraws'), '5')).toBe(
+      'Residual bootstrap draws: enter 0 (off) or a whole number from 20 to 10000 (you entered 5).',
+    );
+    // A percentage field: typed 150 is the share 1.5, said back in per cent.
+    expect(formFieldProblem(field('stabilityThreshold'), '150')).toBe(
+      `${field('stabilityThreshold').label}: enter a number from 0 to 100 per cent (you entered 150).`,
+    );
+    // An open bound is said as such (the near-dependency share must be above 0).
+    expect(formFieldProblem(field('varianceProportionThreshold'), '0')).toMatch(/: enter a number above 0 and at most 1 \(you entered 0\)\.$/);
+  });
+
+  it('accepts what the server accepts, and says nothing of an empty field', () => {
+    expect(formFieldProblem(field('residualBootstrapDraws'), '0')).toBeNull();
+    expect(formFieldProblem(field('residualBootstrapDraws'), '20')).toBeNull();
+    expect(formFieldProblem(field('stabilityThreshold'), '70')).toBeNull();
+    expect(formFieldProblem(field('bootstrap'), ' ')).toBeNull();
+    // The same values through the server's check (the API's key), for the percentage field as a share.
+    expect(auditSettingsProblems({ residualBootstrapDraws: 20, stabilityThreshold: 0.7 })).toEqual([]);
+    expect(auditSettingsProblems({ residualBootstrapDraws: 5 })).toHaveLength(1);
   });
 });

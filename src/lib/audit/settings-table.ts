@@ -19,6 +19,7 @@ import {
   ENGINE_SETTING_RULES,
   closestName,
   domainWords,
+  inDomain,
   settingProblem,
   shownValue,
   type EngineSettings,
@@ -238,7 +239,7 @@ const ENGINE_SETTING_WORDS: { readonly [Key in keyof EngineSettings]: Omit<Setti
   residualBootstrapDraws: {
     label: 'Residual bootstrap draws',
     unit: null,
-    help: 'Simulated data sets behind each scale\'s critical value for the relative residual; 0 uses the fixed rule.',
+    help: 'Simulated data sets behind each scale\'s critical value for the relative residual: 0 uses the fixed rule; otherwise at least 20, which a percentile needs.',
     flag: 'residual-bootstrap-draws',
     form: { group: 'more', step: '1' },
   },
@@ -406,6 +407,31 @@ function valueProblem(name: string, domain: AuditSettingDomain, value: unknown):
         value.length <= domain.maxItems &&
         value.every((entry) => typeof entry === 'string' && entry.length >= 1 && entry.length <= domain.maxLength);
   return fits ? null : `${name} must be ${rangeWords(domain)}, got ${shownValue(value)}`;
+}
+
+/**
+ * What is wrong with a number typed into the audit form, in the form's own words: the field's
+ * label and its range in the units the field shows (per cent for a percentage field), so that the
+ * form can say so before anything is sent (the server's refusal names the API's key instead).
+ * @param descriptor the field's setting (a number setting with a form placement).
+ * @param typed the text as typed.
+ * @returns one sentence, or null when the value is in the setting's range (or the field is empty).
+ */
+export function formFieldProblem(descriptor: SettingDescriptor, typed: string): string | null {
+  const domain = descriptor.domain;
+  const text = typed.trim();
+  if (domain.kind !== 'number' || text === '') return null;
+  const percent = descriptor.form?.percent === true;
+  const value = Number(text);
+  if (inDomain(domain, percent ? Math.round(value * 10) / 1000 : value)) return null;
+  const scale = percent ? 100 : 1;
+  const shownDomain: SettingDomain = {
+    ...domain,
+    min: domain.min * scale,
+    max: domain.max * scale,
+    ...(domain.off === undefined ? {} : { off: domain.off * scale }),
+  };
+  return `${descriptor.label}: enter ${domainWords(shownDomain)}${percent ? ' per cent' : ''} (you entered ${text}).`;
 }
 
 /** How a refusal names a setting: by its JSON key (API, `--settings`) or by its flag. */
