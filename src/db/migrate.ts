@@ -5,11 +5,24 @@
  */
 import { migrate } from 'drizzle-orm/better-sqlite3/migrator';
 import type { BetterSQLite3Database } from 'drizzle-orm/better-sqlite3';
-import { resolve } from 'node:path';
+import { existsSync } from 'node:fs';
+import { join, resolve } from 'node:path';
 
-/** The folder holding the generated migrations. */
+/**
+ * The folder holding the generated migrations.
+ * @throws Error naming the folder looked in and how to point at it, when it holds no migration
+ *   journal (a server started from another working directory would otherwise fail every request
+ *   with Drizzle's "Can't find meta/_journal.json").
+ */
 export function migrationsFolder(): string {
-  return resolve(process.env.MIGRATIONS_DIR ?? 'drizzle');
+  const folder = resolve(process.env.MIGRATIONS_DIR ?? 'drizzle');
+  if (!existsSync(join(folder, 'meta', '_journal.json'))) {
+    throw new Error(
+      `No database migrations at ${folder} (meta/_journal.json is missing). Start the server from the repository root ` +
+        '(`npm run serve` and `npm start` do), or set MIGRATIONS_DIR to the folder holding the drizzle/ migrations.',
+    );
+  }
+  return folder;
 }
 
 /**

@@ -46,3 +46,21 @@ describe('the database schema', () => {
     expect(await generateSQLiteMigration(previous, current)).toEqual(['DROP TABLE `email_outbox`;']);
   });
 });
+
+describe('the migrations folder', () => {
+  it('is found from the working directory or MIGRATIONS_DIR, and its absence is said with the way out', async () => {
+    const { migrationsFolder } = await import('../../src/db/migrate');
+    const before = process.env.MIGRATIONS_DIR;
+    try {
+      process.env.MIGRATIONS_DIR = join(root, 'drizzle');
+      expect(migrationsFolder()).toBe(join(root, 'drizzle'));
+      // A server started elsewhere used to fail each request with Drizzle's bare "Can't find meta/_journal.json".
+      process.env.MIGRATIONS_DIR = join(root, 'src');
+      expect(() => migrationsFolder()).toThrow(`No database migrations at ${join(root, 'src')} (meta/_journal.json is missing)`);
+      expect(() => migrationsFolder()).toThrow(/set MIGRATIONS_DIR/);
+    } finally {
+      if (before === undefined) delete process.env.MIGRATIONS_DIR;
+      else process.env.MIGRATIONS_DIR = before;
+    }
+  });
+});
