@@ -5,7 +5,7 @@
 import { describe, expect, it } from 'vitest';
 import { coreDetectors } from '../../src/lib/engine/core-detectors';
 import { resolveEngineSettings } from '../../src/lib/engine/engine-settings';
-import { localDependenceEvidence, modificationIndexCritical } from '../../src/lib/engine/local-dependence';
+import { localDependenceEvidence, localDependenceReuse, modificationIndexCritical, type LocalDependenceDetectors } from '../../src/lib/engine/local-dependence';
 import { pairRules, type PairLocalFigures } from '../../src/lib/engine/overlap-clusters';
 import type { EngineItem } from '../../src/lib/engine/types';
 import { localDependenceSettings } from '../../src/lib/engine/wave-local-dependence';
@@ -55,6 +55,44 @@ describe('the sequential modification-index test', () => {
     const { evidence } = localDependenceEvidence(matrix, items(5), [0, 1, 2, 3, 4], 100_000, settings, coreDetectors);
     expect(evidence.scales[0].modificationIndices?.[2][3]).toBeGreaterThan(modificationIndexCritical(5, settings.modificationIndexAlpha));
     expect(evidence.scales[0].miFlagged).toEqual([]);
+  });
+});
+
+describe('the sequential test in a bootstrap resample (warm-started fits)', () => {
+  it('starts the first fit from the full sample\'s uniquenesses and each refit from the fit before it, with the same flags and indices', () => {
+    const matrix = population([0.6, 0.6, 0.6, 0.55, 0.5], [[0, 1, 0.3]]);
+    const n = 2000;
+    const full = localDependenceEvidence(matrix, items(5), [0, 1, 2, 3, 4], n, settings, coreDetectors).evidence;
+    const reuse = localDependenceReuse(full);
+    const first = full.scales[0].miUniquenesses as number[];
+    expect(first).toHaveLength(5);
+    expect([...reuse.uniquenesses.entries()]).toEqual(first.map((psi, k) => [k, psi]));
+    const starts: ((number | null)[] | null)[] = [];
+    const spy: LocalDependenceDetectors = {
+      ...coreDetectors,
+      modificationIndices(correlation, sampleSize, start) {
+        starts.push(start === undefined || start === null ? null : [...start]);
+        return coreDetectors.modificationIndices(correlation, sampleSize, start);
+      },
+    };
+    const resample = localDependenceEvidence(matrix, items(5), [0, 1, 2, 3, 4], n, settings, spy, reuse).evidence.scales[0];
+    // Two fits: all five items, then q2 (the later member of the flagged pair) set aside.
+    expect(starts).toHaveLength(2);
+    expect(starts[0]).toEqual(first);
+    expect(starts[1]).toHaveLength(4);
+    // The refit starts from the first resample fit's uniquenesses of the items it keeps.
+    starts[1]?.forEach((psi, x) => expect(psi).toBeCloseTo(first[[0, 2, 3, 4][x]], 6));
+    expect(resample.miFlagged.map((flag) => [flag.a, flag.b])).toEqual(full.scales[0].miFlagged.map((flag) => [flag.a, flag.b]));
+    expect(resample.miStrictCount).toBe(full.scales[0].miStrictCount);
+    // Same optimum to the fit's tolerance: the indices agree to 1e-6 relative.
+    for (let a = 0; a < 5; a++) {
+      for (let b = 0; b < 5; b++) {
+        const cold = full.scales[0].modificationIndices?.[a][b] ?? null;
+        const warm = resample.modificationIndices?.[a][b] ?? null;
+        if (cold === null) expect(warm).toBeNull();
+        else expect(Math.abs((warm as number) - cold)).toBeLessThan(1e-6 * Math.max(1, cold));
+      }
+    }
   });
 });
 

@@ -6,6 +6,7 @@
  */
 import { ebicGlasso } from '../stats/ebic-glasso';
 import { graphicalLasso } from '../stats/graphical-lasso';
+import { oneFactorMl } from '../stats/one-factor-ml';
 import { oneFactorResiduals, residualBootstrap } from '../stats/residual-correlations';
 import { residualModificationIndices } from '../stats/residual-modification-indices';
 import type { SquareMatrix } from '../stats/types';
@@ -74,11 +75,12 @@ export const coreDetectors: LocalDependenceDetectors = Object.freeze({
     });
     return { partial: result.partialCorrelations, wto: weightedTopologicalOverlap(result.absoluteNetwork), penalty: result.penalty };
   },
-  modificationIndices(correlation: SquareMatrix, sampleSize: number): ModificationIndexResult | null {
+  modificationIndices(correlation: SquareMatrix, sampleSize: number, start?: readonly (number | null)[] | null): ModificationIndexResult | null {
     try {
-      const result = residualModificationIndices(correlation, sampleSize);
+      const fit = oneFactorMl(correlation, sampleSize, start === undefined || start === null ? {} : { start });
+      const result = residualModificationIndices(correlation, sampleSize, fit);
       // A Heywood case (a uniqueness at the floor) leaves no usable score test for that item's pairs.
-      return result.fit.converged ? { mi: result.mi, sepc: result.sepc } : null;
+      return result.fit.converged ? { mi: result.mi, sepc: result.sepc, uniquenesses: result.fit.uniquenesses } : null;
     } catch (error) {
       if (error instanceof RangeError) return null;
       throw error;

@@ -168,6 +168,12 @@ export interface ScaleResidualEvidence {
    */
   readonly miFlagged: readonly { readonly a: number; readonly b: number; readonly mi: number }[];
   readonly miStrictCount: number;
+  /**
+   * Uniquenesses of the first one-factor ML model of the sequential test (same order as `items`;
+   * null for a member set aside from it), or null when the model could not be fitted. A bootstrap
+   * resample starts its ML fits of the scale from them (`LocalDependenceReuse`).
+   */
+  readonly miUniquenesses: readonly (number | null)[] | null;
 }
 
 /** Local-dependence evidence of a wave (methods.md §3b). */
