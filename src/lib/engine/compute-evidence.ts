@@ -14,8 +14,8 @@ import { alphaIfItemDeleted } from '../stats/alpha-if-item-deleted';
 import { choleskyInverse } from '../stats/cholesky-inverse';
 import { belsleyCollinearity, belsleyCollinearityFromMoments } from '../stats/belsley-collinearity';
 import { conditionNumber } from '../stats/condition-number';
-import { correlationMatrix, usableItems } from '../stats/correlation-matrix';
-import { completeRows } from '../stats/complete-rows';
+import { correlationMatrix, usableItems, usableItemsFromDescriptives } from '../stats/correlation-matrix';
+import { completeDraws, completeRows } from '../stats/complete-rows';
 import { covarianceMatrix } from '../stats/covariance-matrix';
 import { centeredCrossProducts, crossProductsOfItems, type CenteredCrossProducts } from '../stats/cross-products';
 import { cronbachAlpha } from '../stats/cronbach-alpha';
@@ -27,9 +27,10 @@ import { omegaTotal } from '../stats/omega-total';
 import { spectralInverse, summarizeSpectrum } from '../stats/spectral-inverse';
 import { symmetricEigen, symmetricEigenvalues, type SymmetricEigenDecomposition } from '../stats/symmetric-eigen';
 import { POLYCHORIC_MINIMUM_N, REPAIR_EIGENVALUE_FLOOR, TETRACHORIC_MINIMUM_N } from '../stats/tolerances';
-import { selectItems, selectRespondents, type ItemMatrix, type NumericalNotice, type SquareMatrix } from '../stats/types';
+import { deferredSelection, selectItems, selectRespondents, type ItemMatrix, type NumericalNotice, type SquareMatrix } from '../stats/types';
 import { undefinedPairCover } from '../stats/undefined-pair-cover';
 import { varianceInflation, varianceInflationFromInverse, type VarianceInflationResult } from '../stats/variance-inflation';
+import { weightedItemDescriptives } from '../stats/weighted-item-descriptives';
 import { weightedPearson } from '../stats/weighted-pearson';
 import { MAX_EM_ITEMS, type EngineSettings } from './engine-settings';
 import type { LocalDependenceDetectors, LocalDependenceReuse, LocalDependenceSettings } from './local-dependence';
@@ -63,11 +64,18 @@ export interface ComputeEvidenceOptions {
   /** Also return R⁻¹ as `inverse` when R is well conditioned (bootstrap resamples: VIF after removal by Schur complement). */
   readonly inverse?: boolean;
   /**
-   * The matrix is a bootstrap resample of `resampleOf.matrix`, drawing row i `weights[i]` times:
-   * Pearson correlations and covariances then come from the weighted original rows in one pass
-   * (weighted-pearson.ts) instead of two passes over the resample.
+   * The matrix is a bootstrap resample of `resampleOf.matrix`, its rows `resampleOf.rows` (row
+   * indices into it, one per draw, repeats allowed), drawing row i `weights[i]` times. Figures
+   * then come from the weighted original rows instead of passes over the resample: Pearson
+   * correlations and covariances in one pass (weighted-pearson.ts); the descriptives, and from
+   * them the usable items (weighted-item-descriptives.ts: counts and shares exact, mean and
+   * standard deviation up to rounding); the complete rows (`completeDraws`), whose copy alone
+   * feeds the Belsley-Kuh-Welsch diagnostics. The matrix itself (`deferredSelection(matrix,
+   * rows)` builds it only when read) is read only where a figure still needs it: listwise deletion
+   * with a drawn row missing an answer, Spearman and polychoric correlations, an indefinite matrix
+   * to settle, the EM moments.
    */
-  readonly resampleOf?: { readonly matrix: ItemMatrix; readonly weights: Float64Array };
+  readonly resampleOf?: { readonly matrix: ItemMatrix; readonly rows: ArrayLike<number> };
   /**
    * Hears the share done (0 to 1) after each step: descriptives, correlations, covariances, VIF,
    * the Belsley-Kuh-Welsch diagnostics, reliability and local dependence. The shares are rough
@@ -253,13 +261,19 @@ export function computeEvidence(
   checkEngineItems(matrix, items, 'computeEvidence');
   const detail = options.detail ?? 'full';
   const warnings: EngineWarning[] = [];
-  const usableResult = usableItems(matrix);
+  const resampleOf = options.resampleOf;
+  if (resampleOf !== undefined && (resampleOf.rows.length !== matrix.rows || resampleOf.matrix.columns !== matrix.columns)) {
+    throw new RangeError(`computeEvidence: a resample of ${matrix.rows} × ${matrix.columns} drawn as ${resampleOf.rows.length} rows of a matrix of ${resampleOf.matrix.columns} items`);
+  }
+  const weights = resampleOf === undefined ? null : drawWeights(resampleOf.matrix.rows, resampleOf.rows);
+  const ranges = items.map((item) => (item.min === null || item.max === null ? null : { min: item.min, max: item.max }));
+  // A resample's descriptives come from the weighted original rows, and its usable items from them.
+  const described = resampleOf === undefined || weights === null ? null : weightedItemDescriptives(resampleOf.matrix, weights, { ranges });
+  const usableResult = described === null ? usableItems(matrix) : usableItemsFromDescriptives(described);
   warnings.push(...warningsFromNotices(usableResult.notices, items, items.map((_, j) => j)));
   const usable = [...usableResult.usable];
 
-  const descriptives: ItemDescriptives[] = itemDescriptives(matrix, {
-    ranges: items.map((item) => (item.min === null || item.max === null ? null : { min: item.min, max: item.max })),
-  }).map((entry) => ({
+  const descriptives: ItemDescriptives[] = (described ?? itemDescriptives(matrix, { ranges })).map((entry) => ({
     n: entry.n,
     mean: entry.mean,
     sd: entry.standardDeviation,
@@ -282,10 +296,12 @@ export function computeEvidence(
     };
   }
 
-  let data = usable.length === items.length ? matrix : selectItems(matrix, usable);
-  const resampleOf = options.resampleOf;
+  // The usable items' columns (a resample's copied only when read).
+  const columnsOf = (kept: readonly number[]): ItemMatrix =>
+    kept.length === items.length ? matrix : resampleOf === undefined ? selectItems(matrix, kept) : deferredSelection(resampleOf.matrix, resampleOf.rows, kept);
+  let data = columnsOf(usable);
   const weightedMoments = (columns: readonly number[]) =>
-    resampleOf === undefined || settings.method !== 'pearson' ? null : weightedPearson(resampleOf.matrix, resampleOf.weights, columns, settings.missing, 'none');
+    resampleOf === undefined || weights === null || settings.method !== 'pearson' ? null : weightedPearson(resampleOf.matrix, weights, columns, settings.missing, 'none');
   let moments = weightedMoments(usable);
   // Pearson over complete rows (complete data, or listwise deletion): the centred cross-products
   // XᵀX of the complete rows are taken once and serve the correlation matrix, the covariance
@@ -313,7 +329,7 @@ export function computeEvidence(
     const keptPositions = usable.map((_, k) => k).filter((k) => !gone.has(k));
     const kept = keptPositions.map((k) => usable[k]);
     usable.splice(0, usable.length, ...kept);
-    data = selectItems(matrix, usable);
+    data = columnsOf(usable);
     moments = weightedMoments(usable);
     // Under listwise deletion fewer items can leave more complete rows: the cross-products are
     // taken again then; otherwise the kept items' rows and columns are theirs.
@@ -323,8 +339,12 @@ export function computeEvidence(
     correlation = moments?.correlation ?? correlationMatrix(data, { method: settings.method, missing: settings.missing, repair: 'none', ...(crossProducts ? { crossProducts } : {}) });
   }
   // The complete rows, found once for the completeness flag and the Belsley-Kuh-Welsch diagnostics
-  // (infinite values refused as the diagnostics refuse them).
-  const complete = crossProducts !== undefined ? undefined : completeRows(data, 'belsleyCollinearity');
+  // (infinite values refused as the diagnostics refuse them; a resample's were refused with its
+  // descriptives). A resample's are found from the original rows, and only their copy is built.
+  const complete =
+    crossProducts !== undefined ? undefined : resampleOf === undefined ? completeRows(data, 'belsleyCollinearity') : completeDraws(resampleOf.matrix, resampleOf.rows, usable);
+  const completeTaken =
+    resampleOf === undefined || complete === undefined ? undefined : deferredSelection(resampleOf.matrix, complete.map((k) => resampleOf.rows[k]), usable);
   const completeData = complete === undefined ? (crossProducts as CenteredCrossProducts).rows === data.rows : complete.length === data.rows;
   // An indefinite matrix (pairwise or polychoric) is smoothed by Bentler & Yuan's (2011) scaling
   // with minimum-trace communalities (Debelak & Tran 2016), which leaves a floor under the
@@ -350,7 +370,7 @@ export function computeEvidence(
   warnings.push(...overlap.warnings);
   progress?.(EVIDENCE_STEP_SHARES.inflation);
 
-  const collinearity = collinearityEvidence(data, items, usable, warnings, detail, crossProducts, complete);
+  const collinearity = collinearityEvidence(data, items, usable, warnings, detail, crossProducts, complete, completeTaken);
   progress?.(EVIDENCE_STEP_SHARES.collinearity);
   const reliability = scaleReliability({ items, usable, covariance: covariance.matrix, correlation: matrixR, detail });
   warnings.push(...reliability.warnings);
@@ -558,6 +578,23 @@ function sharedCrossProducts(data: ItemMatrix, settings: Pick<EngineSettings, 'm
 }
 
 /**
+ * How often a resample draws each row of the original matrix.
+ * @param rows The original matrix's respondents.
+ * @param draws Row indices, one per draw.
+ * @throws {RangeError} when a draw is outside 0..rows − 1.
+ * @returns One count per original row.
+ */
+function drawWeights(rows: number, draws: ArrayLike<number>): Float64Array {
+  const weights = new Float64Array(rows);
+  for (let k = 0; k < draws.length; k++) {
+    const row = draws[k];
+    if (!(Number.isInteger(row) && row >= 0 && row < rows)) throw new RangeError(`computeEvidence: draw ${k} is row ${row}, outside 0..${rows - 1}`);
+    weights[row]++;
+  }
+  return weights;
+}
+
+/**
  * Below this share of complete rows the Belsley-Kuh-Welsch diagnostics come from the EM moments of
  * all rows instead of the complete rows. House figure: half.
  */
@@ -572,10 +609,17 @@ function collinearityEvidence(
   detail: 'full' | 'decision',
   crossProducts: CenteredCrossProducts | undefined,
   complete: readonly number[] | undefined,
+  completeTaken: ItemMatrix | undefined,
 ): CollinearityEvidence | null {
   // Bootstrap resamples take the Gram-matrix path (one cross-product pass and a small
   // eigen-decomposition): its relative error, about ε·η², is harmless below η = 1e4.
-  let result = belsleyCollinearity(data, { path: detail === 'decision' ? 'gram' : 'auto', ...(crossProducts ? { crossProducts } : {}), ...(complete ? { completeRows: complete } : {}) });
+  const path = detail === 'decision' ? 'gram' : 'auto';
+  // The complete rows already taken (a resample's) are the very rows the diagnostics would take
+  // from `data`, in the same order: the same figures.
+  let result =
+    completeTaken !== undefined
+      ? belsleyCollinearity(completeTaken, { path, completeRows: Array.from({ length: completeTaken.rows }, (_, k) => k) })
+      : belsleyCollinearity(data, { path, ...(crossProducts ? { crossProducts } : {}), ...(complete ? { completeRows: complete } : {}) });
   const width = usable.length + 1;
   let fromEm = false;
   // With scattered missing answers the complete rows can be too few (a 54-item wave with 3%

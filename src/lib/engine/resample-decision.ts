@@ -7,6 +7,10 @@
  *   residual bootstrap whose critical values are reused from the full sample), with R⁻¹ kept from
  *   the one eigen-decomposition the VIFs need, and Pearson correlations and covariances in one
  *   weighted pass over the distinct respondents drawn (weighted-pearson.ts);
+ * - the descriptives, the usable items and the complete rows from the weighted original rows as
+ *   well (weighted-item-descriptives.ts, `completeDraws`): the resample's own copy is built only
+ *   where a figure still needs it (`deferredSelection`), and on a Pearson wave with pairwise
+ *   deletion only the complete rows' copy, for the Belsley-Kuh-Welsch Gram matrix;
  * - each member's "VIF without partners" (keeper score) and `vifAfter` from that inverse by Schur
  *   complement (vif-after-removal.ts) instead of a decomposition per member;
  * - the graphical-lasso network only when its wTO can change whether some pair is linked: wTO
@@ -25,7 +29,7 @@ import { findOverlapClusters, pairLocalFigures, pairRules } from './overlap-clus
 import { recommendCuts, type Recommendation } from './recommend-cuts';
 import type { EngineEvidence, EngineItem } from './types';
 import { schurVifAfterRemoval } from './vif-after-removal';
-import { selectRespondents, type ItemMatrix } from '../stats/types';
+import { deferredSelection, type ItemMatrix } from '../stats/types';
 
 /** What every resample of one bootstrap shares. */
 export interface ResampleContext {
@@ -104,14 +108,13 @@ export function networkCanDecide(evidence: EngineEvidence, settings: EngineSetti
  */
 export function resampleDecision(matrix: ItemMatrix, rows: ArrayLike<number>, context: ResampleContext): ResampleOutcome {
   const { items, settings, wording, reuse } = context;
-  const sample = selectRespondents(matrix, rows);
-  const weights = new Float64Array(matrix.rows);
-  for (let i = 0; i < rows.length; i++) weights[rows[i]]++;
+  // The resample is copied only if a figure still needs its rows (see `resampleOf`).
+  const sample = deferredSelection(matrix, rows);
   try {
     let evidence = computeEvidence(sample, items, settings, {
       detail: 'decision',
       inverse: true,
-      resampleOf: { matrix, weights },
+      resampleOf: { matrix, rows },
       localDependence: reuse === null ? false : { reuse, network: false },
     });
     if (reuse !== null && evidence.localDependence !== null && networkCanDecide(evidence, settings)) evidence = attachNetwork(evidence, settings, reuse);

@@ -55,3 +55,56 @@ export function rowsWithAnyAnswer(matrix: ItemMatrix): number {
   for (let i = 0; i < rows; i++) count += any[i];
   return count;
 }
+
+/** Each item's missing rows, of each matrix seen, by its data (a bootstrap's resamples share one matrix). */
+const missingRowsByMatrix = new WeakMap<Float64Array, readonly Int32Array[]>();
+
+/** The rows each item misses (ascending), found once per matrix. */
+function missingRowsOfItems(matrix: ItemMatrix): readonly Int32Array[] {
+  const known = missingRowsByMatrix.get(matrix.data);
+  if (known !== undefined) return known;
+  const { rows, columns, data } = matrix;
+  const lists: Int32Array[] = [];
+  for (let j = 0; j < columns; j++) {
+    const offset = j * rows;
+    let count = 0;
+    for (let i = 0; i < rows; i++) if (data[offset + i] !== data[offset + i]) count++;
+    const list = new Int32Array(count);
+    for (let i = 0, m = 0; i < rows; i++) if (data[offset + i] !== data[offset + i]) list[m++] = i;
+    lists.push(list);
+  }
+  missingRowsByMatrix.set(matrix.data, lists);
+  return lists;
+}
+
+/**
+ * The complete respondents of a resample without building it: the positions k (ascending) in
+ * `draws` whose row `draws[k]` of `matrix` has every listed item observed, which is
+ * `completeRows(selectItems(selectRespondents(matrix, draws), items))`. The rows each item
+ * misses are found once per matrix (a bootstrap's resamples share one), so a resample costs a
+ * pass over its draws and the missing answers of the listed items.
+ * @param matrix The original respondents × items, NaN for missing; not modified, and not to be
+ *   modified between calls either (its missing rows are kept by its data array).
+ * @param draws The resample: row indices into `matrix`, one per draw (repeats allowed).
+ * @param items The items that must be observed (0-based).
+ * @throws {RangeError} when a draw or an item is out of range.
+ * @returns 0-based positions in `draws` of the complete respondents, ascending. Infinities count
+ *   as observed, as in `completeRows` without a caller.
+ * References: none (listwise deletion, e.g. Little & Rubin 2002, ch. 3).
+ */
+export function completeDraws(matrix: ItemMatrix, draws: ArrayLike<number>, items: readonly number[]): number[] {
+  for (const j of items) if (!Number.isInteger(j) || j < 0 || j >= matrix.columns) throw new RangeError(`completeDraws: item ${j} is outside 0..${matrix.columns - 1}`);
+  const missingRows = missingRowsOfItems(matrix);
+  const missing = new Uint8Array(matrix.rows);
+  for (const j of items) {
+    const list = missingRows[j];
+    for (let m = 0; m < list.length; m++) missing[list[m]] = 1;
+  }
+  const kept: number[] = [];
+  for (let k = 0; k < draws.length; k++) {
+    const row = draws[k];
+    if (!(Number.isInteger(row) && row >= 0 && row < matrix.rows)) throw new RangeError(`completeDraws: draw ${k} is row ${row}, outside 0..${matrix.rows - 1}`);
+    if (missing[row] === 0) kept.push(k);
+  }
+  return kept;
+}

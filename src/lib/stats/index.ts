@@ -63,6 +63,7 @@ export * from './tolerances';
 export * from './types';
 export * from './undefined-pair-cover';
 export * from './variance-inflation';
+export * from './weighted-item-descriptives';
 export * from './weighted-topological-overlap';
 export * from './wald-correlation-interval';
 export * from './wishart-correlation';

@@ -98,6 +98,46 @@ export function selectRespondents(matrix: ItemMatrix, indices: ArrayLike<number>
   return { rows, columns: matrix.columns, data };
 }
 
+/**
+ * The listed respondents (by 0-based index, repeats allowed, in the order given) and items of a
+ * matrix, the values of `selectItems(selectRespondents(matrix, respondents), items)`, copied only
+ * when `data` is first read (then kept): a bootstrap resample whose figures come from the
+ * original rows with weights reads its own copy only where a figure still needs one.
+ * @param matrix The original matrix; not to be modified while the selection is in use.
+ * @param respondents Row indices into `matrix`, each in range.
+ * @param items Column indices into `matrix` (default every column).
+ * @throws {RangeError} when a respondent or an item is out of range.
+ * @returns A matrix of respondents.length × items.length whose `data` is built on first read.
+ * References: none (a copy, deferred).
+ */
+export function deferredSelection(matrix: ItemMatrix, respondents: ArrayLike<number>, items?: readonly number[]): ItemMatrix {
+  const columns = items ?? Array.from({ length: matrix.columns }, (_, j) => j);
+  for (const j of columns) if (!Number.isInteger(j) || j < 0 || j >= matrix.columns) throw new RangeError(`deferredSelection: item ${j} is outside 0..${matrix.columns - 1}`);
+  for (let i = 0; i < respondents.length; i++) {
+    const row = respondents[i];
+    if (!(Number.isInteger(row) && row >= 0 && row < matrix.rows)) throw new RangeError(`deferredSelection: respondent ${i} is row ${row}, outside 0..${matrix.rows - 1}`);
+  }
+  let data: Float64Array | null = null;
+  const build = (): Float64Array => {
+    const rows = respondents.length;
+    const copy = new Float64Array(rows * columns.length);
+    columns.forEach((j, k) => {
+      const source = j * matrix.rows;
+      const target = k * rows;
+      for (let i = 0; i < rows; i++) copy[target + i] = matrix.data[source + respondents[i]];
+    });
+    return copy;
+  };
+  return {
+    rows: respondents.length,
+    columns: columns.length,
+    get data(): Float64Array {
+      data ??= build();
+      return data;
+    },
+  };
+}
+
 /** A square matrix from nested arrays (checks it is square). */
 export function squareMatrixFromRows(values: readonly (readonly number[])[]): SquareMatrix {
   const order = values.length;
