@@ -278,7 +278,10 @@ function combineDraw(normals: Float64Array, weight: Float64Array, unique: Float6
 
 /**
  * As combineDraw, each value cut into its category as it is made: the number of item j's cuts
- * (`cuts[cutStart[j]]` to `cuts[cutStart[j + 1] - 1]`, ascending) below it.
+ * (`cuts[cutStart[j]]` to `cuts[cutStart[j + 1] - 1]`, ascending) below it. An item of up to four
+ * or up to eight cuts (five- and nine-point scales and shorter) is cut against its cuts held in
+ * locals, the missing ones +∞ (no finite value lies above it, so the count is the same): about
+ * half the time of a loop over the cuts per value, measured on 2,000 × 10 values.
  */
 function combineAndCutDraw(
   normals: Float64Array,
@@ -290,22 +293,96 @@ function combineAndCutDraw(
   n: number,
   k: number,
 ): void {
-  const stride = k + 1;
   for (let j = 0; j < k; j++) {
-    const loading = weight[j];
-    const uniqueness = unique[j];
-    const offset = j * n;
-    const first = cutStart[j];
-    const last = cutStart[j + 1];
-    for (let i = 0, at = 0; i < n; i++, at += stride) {
-      const value = loading * normals[at] + uniqueness * normals[at + 1 + j];
-      // Counted without a branch per cut (the cuts ascend, so this is the index of the first cut
-      // at or above the value): a data-dependent exit mispredicts on random values.
-      let category = 0;
-      for (let cut = first; cut < last; cut++) category += ((value > cuts[cut]) as unknown as number) | 0;
-      data[offset + i] = category;
-    }
+    const count = cutStart[j + 1] - cutStart[j];
+    if (count <= 4) combineAndCutItemFour(normals, weight[j], unique[j], cuts, cutStart[j], count, data, n, k, j);
+    else if (count <= 8) combineAndCutItemEight(normals, weight[j], unique[j], cuts, cutStart[j], count, data, n, k, j);
+    else combineAndCutItem(normals, weight[j], unique[j], cuts, cutStart[j], count, data, n, k, j);
   }
+}
+
+/** Item j of combineAndCutDraw, with at most four cuts (from `first`, `count` of them). */
+function combineAndCutItemFour(
+  normals: Float64Array,
+  loading: number,
+  uniqueness: number,
+  cuts: Float64Array,
+  first: number,
+  count: number,
+  data: Float64Array,
+  n: number,
+  k: number,
+  j: number,
+): void {
+  const stride = k + 1;
+  const offset = j * n;
+  const c0 = count > 0 ? cuts[first] : Infinity;
+  const c1 = count > 1 ? cuts[first + 1] : Infinity;
+  const c2 = count > 2 ? cuts[first + 2] : Infinity;
+  const c3 = count > 3 ? cuts[first + 3] : Infinity;
+  for (let i = 0, at = 0; i < n; i++, at += stride) {
+    const value = loading * normals[at] + uniqueness * normals[at + 1 + j];
+    // Counted without a branch per cut: a data-dependent exit mispredicts on random values.
+    data[offset + i] = (above(value, c0) + above(value, c1)) + (above(value, c2) + above(value, c3));
+  }
+}
+
+/** Item j of combineAndCutDraw, with five to eight cuts (from `first`, `count` of them). */
+function combineAndCutItemEight(
+  normals: Float64Array,
+  loading: number,
+  uniqueness: number,
+  cuts: Float64Array,
+  first: number,
+  count: number,
+  data: Float64Array,
+  n: number,
+  k: number,
+  j: number,
+): void {
+  const stride = k + 1;
+  const offset = j * n;
+  const c0 = cuts[first];
+  const c1 = cuts[first + 1];
+  const c2 = cuts[first + 2];
+  const c3 = cuts[first + 3];
+  const c4 = cuts[first + 4];
+  const c5 = count > 5 ? cuts[first + 5] : Infinity;
+  const c6 = count > 6 ? cuts[first + 6] : Infinity;
+  const c7 = count > 7 ? cuts[first + 7] : Infinity;
+  for (let i = 0, at = 0; i < n; i++, at += stride) {
+    const value = loading * normals[at] + uniqueness * normals[at + 1 + j];
+    data[offset + i] = (above(value, c0) + above(value, c1)) + (above(value, c2) + above(value, c3)) + ((above(value, c4) + above(value, c5)) + (above(value, c6) + above(value, c7)));
+  }
+}
+
+/** Item j of combineAndCutDraw, any number of cuts (from `first`, `count` of them). */
+function combineAndCutItem(
+  normals: Float64Array,
+  loading: number,
+  uniqueness: number,
+  cuts: Float64Array,
+  first: number,
+  count: number,
+  data: Float64Array,
+  n: number,
+  k: number,
+  j: number,
+): void {
+  const stride = k + 1;
+  const offset = j * n;
+  const last = first + count;
+  for (let i = 0, at = 0; i < n; i++, at += stride) {
+    const value = loading * normals[at] + uniqueness * normals[at + 1 + j];
+    let category = 0;
+    for (let cut = first; cut < last; cut++) category += above(value, cuts[cut]);
+    data[offset + i] = category;
+  }
+}
+
+/** 1 when value > cut, else 0, without a branch. */
+function above(value: number, cut: number): number {
+  return ((value > cut) as unknown as number) | 0;
 }
 
 /** The correlation matrix of one draw, or null when an item came out constant. */

@@ -136,8 +136,13 @@ export class SeededRandomGenerator implements SeededRandom {
   /**
    * Writes `count` standard normal variates into `target` from `offset` on: the values of as many
    * `nextNormal` calls, in order, with the generator left as they would leave it. The state is
-   * kept in locals for the loop, nextUint32's step written out four times per polar pair: about
-   * twice as fast as a loop of `nextNormal` calls, measured on 2.2 million values.
+   * kept in locals for the loop, nextUint32's step written out four times per polar candidate.
+   * The work runs in blocks of at most FILL_BLOCK candidate pairs and never more candidates than
+   * pairs still wanted (each candidate gives at most one pair, so the generator never runs ahead
+   * of `nextNormal`): a first loop draws the candidates and keeps the accepted ones without a
+   * branch, a second takes the logarithm, square root and division of each kept pair. The
+   * rejection test's mispredicted branch leaves the loop that draws, and the second loop's
+   * floating-point work overlaps: about 0.22 against 0.30 ms per 22,000 values, measured.
    * @param target Where the values go.
    * @param offset First index written.
    * @param count How many values.
@@ -154,17 +159,22 @@ export class SeededRandomGenerator implements SeededRandom {
       this.hasSpare = false;
       target[index++] = this.spareValue[0];
     }
+    const keptU = fillKeptU;
+    const keptV = fillKeptV;
+    const keptS = fillKeptS;
     let a = this.state[0];
     let b = this.state[1];
     let c = this.state[2];
     let d = this.state[3];
     while (index < end) {
-      let u = 0;
-      let v = 0;
-      let s = 0;
-      do {
+      // Pairs still wanted (the last may give only its first value): candidates drawn now.
+      let candidates = (end - index + 1) >> 1;
+      if (candidates > FILL_BLOCK) candidates = FILL_BLOCK;
+      let kept = 0;
+      for (let m = 0; m < candidates; m++) {
         // Four outputs of xoshiro128** (two doubles of 53 bits), as nextUint32 and next make them;
         // the words stay signed 32-bit integers here (the same bits; `>>>` reads them unsigned).
+        // 2 · (m · 2⁻⁵³) − 1 and m · 2⁻⁵² − 1 are the same double: scaling by a power of two is exact.
         let x = Math.imul(b, 5);
         let result = Math.imul((x << 7) | (x >>> 25), 9);
         let t = b << 9;
@@ -175,7 +185,7 @@ export class SeededRandomGenerator implements SeededRandom {
         t = b << 9;
         c ^= a; d ^= b; b ^= c; a ^= d; c ^= t; d = (d << 11) | (d >>> 21);
         let low = result >>> 6;
-        u = 2 * ((high * 67108864 + low) * UNIT_53) - 1;
+        const u = (high * 67108864 + low) * UNIT_52 - 1;
         x = Math.imul(b, 5);
         result = Math.imul((x << 7) | (x >>> 25), 9);
         t = b << 9;
@@ -186,15 +196,23 @@ export class SeededRandomGenerator implements SeededRandom {
         t = b << 9;
         c ^= a; d ^= b; b ^= c; a ^= d; c ^= t; d = (d << 11) | (d >>> 21);
         low = result >>> 6;
-        v = 2 * ((high * 67108864 + low) * UNIT_53) - 1;
-        s = u * u + v * v;
-      } while (s >= 1 || s === 0);
-      const factor = Math.sqrt((-2 * Math.log(s)) / s);
-      target[index++] = u * factor;
-      if (index < end) target[index++] = v * factor;
-      else {
-        this.spareValue[0] = v * factor;
-        this.hasSpare = true;
+        const v = (high * 67108864 + low) * UNIT_52 - 1;
+        const s = u * u + v * v;
+        // Written always, kept (the slot moves on) only inside the unit circle and off its centre.
+        keptU[kept] = u;
+        keptV[kept] = v;
+        keptS[kept] = s;
+        kept += ((s < 1) as unknown as number) & ((s !== 0) as unknown as number);
+      }
+      for (let m = 0; m < kept; m++) {
+        const s = keptS[m];
+        const factor = Math.sqrt((-2 * Math.log(s)) / s);
+        target[index++] = keptU[m] * factor;
+        if (index < end) target[index++] = keptV[m] * factor;
+        else {
+          this.spareValue[0] = keptV[m] * factor;
+          this.hasSpare = true;
+        }
       }
     }
     this.state[0] = a;
@@ -204,8 +222,15 @@ export class SeededRandomGenerator implements SeededRandom {
   }
 }
 
-/** 2^−53: dividing by 2^53 and multiplying by this give the same double (a power of two). */
-const UNIT_53 = 1 / 9007199254740992;
+/** Candidate pairs drawn per block by `fillNormal` (block size barely matters from 256 to 16,384). */
+const FILL_BLOCK = 1024;
+/** fillNormal's kept candidates (u, v, s = u² + v²), shared: a call does not re-enter itself. */
+const fillKeptU = new Float64Array(FILL_BLOCK);
+const fillKeptV = new Float64Array(FILL_BLOCK);
+const fillKeptS = new Float64Array(FILL_BLOCK);
+
+/** 2^−52: multiplying by it and dividing by 2^52 give the same double (a power of two). */
+const UNIT_52 = 1 / 4503599627370496;
 
 function rotl(x: number, k: number): number {
   return ((x << k) | (x >>> (32 - k))) >>> 0;
