@@ -176,6 +176,28 @@ describe('weightedPearson', () => {
     }
   });
 
+  it('gives the same bits when calls on two matrices and different item lists alternate (the thread scratch and the per-matrix rows are reused)', () => {
+    const first = integerMatrix(257, 9, 5, 'scattered', { low: 1, high: 5 });
+    const second = integerMatrix(180, 6, 6, 'blocks', { low: 0, high: 40 });
+    const lists: [ItemMatrix, number[]][] = [
+      [first, [0, 1, 2, 3, 4, 5, 6, 7, 8]],
+      [second, [5, 0, 3]],
+      [first, [8, 2, 2, 6]],
+      [second, [0, 1, 2, 3, 4, 5]],
+      [first, [4]],
+    ];
+    for (const seed of [11, 12]) {
+      for (const [matrix, used] of lists) {
+        const { weights } = resample(matrix.rows, seed);
+        const expected = weightedPearsonReference(matrix, weights, used, 'pairwise')!;
+        const actual = weightedPearson(matrix, weights, used, 'pairwise')!;
+        expectSameBits(actual.correlation.matrix.data, expected.correlation.matrix.data);
+        expectSameBits(actual.covariance.matrix.data, expected.covariance.matrix.data);
+        expectSameBits(actual.covariance.n.data, expected.covariance.n.data);
+      }
+    }
+  });
+
   it('declines listwise deletion when a drawn row misses an answer (the resample is computed as is then)', () => {
     const matrix = randomMatrix(100, 5, 0.1, 3);
     const { weights } = resample(100, 1);

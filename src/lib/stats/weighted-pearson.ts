@@ -244,9 +244,8 @@ function weightWithAnswer(answersAny: Uint8Array, w: Float64Array): number {
 
 /** The integer path's per-item blocks and totals (see `fillIntegerColumns`). */
 interface IntegerColumns {
-  readonly data: Float64Array;
-  /** Where each listed item starts in `data`. */
-  readonly sources: Int32Array;
+  readonly matrix: ItemMatrix;
+  readonly columns: readonly number[];
   readonly drawn: Int32Array;
   readonly w: Float64Array;
   readonly lanes: 1 | 2 | 3;
@@ -258,56 +257,53 @@ interface IntegerColumns {
   readonly totalWeight: Float64Array;
   readonly totalX: Float64Array;
   readonly totalXX: Float64Array;
-  /** The drawn rows (positions t) each item misses, item a's from missingStart[a] to missingStart[a + 1]. */
-  readonly missingStart: Int32Array;
-  readonly missingRows: Int32Array;
   readonly hasMissing: boolean;
   readonly withAnswer: number;
 }
 
 /**
  * One pass over the drawn rows of each listed item, straight from the matrix: weight × answer,
- * the packed answers, the item's totals, the rows it misses, and which rows answer any item.
+ * the packed answers, the item's totals, whether any answer is missing, and which rows answer any
+ * item. `wx` and `packed` are the thread's scratch (see `scratchView`), every element written.
  * @param lanes Items per double in `packed` (1 when an answer may be negative).
  */
 function fillIntegerColumns(matrix: ItemMatrix, columns: readonly number[], drawn: Int32Array, w: Float64Array, lanes: 1 | 2 | 3): IntegerColumns {
   const order = columns.length;
   const distinct = drawn.length;
   const data = matrix.data;
-  const sources = Int32Array.from(columns, (j) => j * matrix.rows);
   const rowsPadded = Math.ceil(order / 3) * 3;
   const groups = Math.ceil(order / lanes);
-  const wx = new Float64Array(rowsPadded * distinct);
-  const packed = new Float64Array((groups + 3) * distinct);
+  const wx = scratchView(SCRATCH_WX, rowsPadded * distinct);
+  const packed = scratchView(SCRATCH_PACKED, (groups + 3) * distinct);
+  wx.fill(0, order * distinct);
+  packed.fill(0, groups * distinct);
   const totalWeight = new Float64Array(order);
   const totalX = new Float64Array(order);
   const totalXX = new Float64Array(order);
   const answersAny = new Uint8Array(distinct);
-  const missingStart = new Int32Array(order + 1);
-  let missingRows = new Int32Array(64);
-  let missingCount = 0;
+  let hasMissing = false;
   for (let a = 0; a < order; a++) {
-    const source = sources[a];
+    const source = columns[a] * matrix.rows;
     const offset = a * distinct;
     const lane = (Math.floor(a / lanes) * distinct) | 0;
     const shift = 2 ** ((lanes === 2 ? PACKED_PAIR_BITS : PACKED_LANE_BITS) * (a % lanes));
     let sw = 0;
     let sx = 0;
     let sxx = 0;
+    // The first item of a double sets it (to 0 where missing), the others add to it.
+    const first = a % lanes === 0;
     for (let t = 0; t < distinct; t++) {
       const x = data[source + drawn[t]];
       if (x !== x) {
-        if (missingCount === missingRows.length) {
-          const grown = new Int32Array(2 * missingRows.length);
-          grown.set(missingRows);
-          missingRows = grown;
-        }
-        missingRows[missingCount++] = t;
+        hasMissing = true;
+        wx[offset + t] = 0;
+        if (first) packed[lane + t] = 0;
         continue;
       }
       answersAny[t] = 1;
       wx[offset + t] = w[t] * x;
-      packed[lane + t] += x * shift;
+      if (first) packed[lane + t] = x * shift;
+      else packed[lane + t] += x * shift;
       sw += w[t];
       sx += w[t] * x;
       sxx += w[t] * x * x;
@@ -315,11 +311,9 @@ function fillIntegerColumns(matrix: ItemMatrix, columns: readonly number[], draw
     totalWeight[a] = sw;
     totalX[a] = sx;
     totalXX[a] = sxx;
-    missingStart[a + 1] = missingCount;
   }
   return {
-    data, sources, drawn, w, lanes, wx, packed, totalWeight, totalX, totalXX, missingStart, missingRows,
-    hasMissing: missingCount > 0,
+    matrix, columns, drawn, w, lanes, wx, packed, totalWeight, totalX, totalXX, hasMissing,
     withAnswer: weightWithAnswer(answersAny, w),
   };
 }
@@ -331,45 +325,80 @@ function fillIntegerColumns(matrix: ItemMatrix, columns: readonly number[], draw
  * sums over the rows where both answered are masked cross-products: Σ w·x·y = (w∘X₀)ᵀX₀, and the
  * weight, Σ w·x and Σ w·x² of an item where its partner answered are its totals less
  * (w∘M)ᵀ(1 − M), (w∘X₀)ᵀ(1 − M) and (w∘X₀∘X₀)ᵀ(1 − M), the complement of the mask being sparse
- * (as in masked-cross-products.ts), taken over the rows each item misses. Exact sums make this
- * bit for bit the one-pass pair loop, whatever the number of lanes.
+ * (as in masked-cross-products.ts), taken over the drawn rows that miss an answer, each read
+ * whole from `incompleteRows`. Exact sums make this bit for bit the one-pass pair loop, whatever
+ * the number of lanes and the order of the terms.
  */
 function integerPairs(columns: IntegerColumns, total: number, out: PairTargets): void {
-  const { data, sources, drawn, w, lanes, wx, packed, totalWeight, totalX, totalXX, missingStart, missingRows, hasMissing } = columns;
+  const { matrix, drawn, w, lanes, wx, packed, totalWeight, totalX, totalXX, hasMissing } = columns;
+  const listed = columns.columns;
   const order = totalWeight.length;
   const distinct = w.length;
   const { r, cov, undefinedR } = out;
   // Σ w·x·y over every distinct row (0 where either is missing): (w∘X₀)ᵀX₀ by the blocked kernel.
-  const products = new Float64Array(order * order);
+  const products = scratchView(SCRATCH_PRODUCTS, order * order);
   weightedIntegerProducts(wx, packed, order, distinct, lanes, products);
   // What item a holds in the rows where item b is missing, stored by b (row-major [b · order + a]):
-  // weight where a is answered, weight × answer, weight × square. Item a's answers are read at the
-  // rows each item misses (a gather along a's own column): exact integer sums, in any order.
-  const lessWeight = new Float64Array(order * order);
-  const lessX = new Float64Array(order * order);
-  const lessXX = new Float64Array(order * order);
-  if (hasMissing) {
-    for (let a = 0; a < order; a++) {
-      const source = sources[a];
-      const weighted = a * distinct;
+  // weight where a is answered, weight × answer, weight × square. For each drawn row that misses
+  // an answer, its listed answers are read from the row's copy, and added to the sums of each item
+  // it misses: exact integer sums, in any order.
+  const lessWeight = scratchView(SCRATCH_LESS_WEIGHT, order * order).fill(0);
+  const lessX = scratchView(SCRATCH_LESS_X, order * order).fill(0);
+  const lessXX = scratchView(SCRATCH_LESS_XX, order * order).fill(0);
+  if (hasMissing && lanes === 3) {
+    // Three lanes fit (non-negative answers, total · max² < 2^17): the three sums share one double,
+    // w·(1 + 2^17·x + 2^34·x²) per answer (PACKED_LANE_BITS), one addition per item and missing
+    // answer, each lane read back exactly at the end.
+    const incomplete = incompleteRows(matrix);
+    const row = scratchView(SCRATCH_ROW, order);
+    const packedLess = scratchView(SCRATCH_PACKED_LESS, order * order).fill(0);
+    const missingItems = new Int32Array(order);
+    for (let t = 0; t < distinct; t++) {
+      const slot = incomplete.slot[drawn[t]];
+      if (slot < 0) continue;
+      const base = slot * matrix.columns;
+      const weight = w[t];
+      let missingCount = 0;
+      for (let a = 0; a < order; a++) {
+        const lanesOfAnswer = incomplete.packed[base + listed[a]];
+        if (lanesOfAnswer === 0) missingItems[missingCount++] = a;
+        row[a] = weight * lanesOfAnswer;
+      }
+      for (let m = 0; m < missingCount; m++) {
+        const target = missingItems[m] * order;
+        for (let a = 0; a < order; a++) packedLess[target + a] += row[a];
+      }
+    }
+    const laneScale = 2 ** PACKED_LANE_BITS;
+    for (let index = 0; index < order * order; index++) {
+      let rest = packedLess[index];
+      const squares = Math.floor(rest / (laneScale * laneScale));
+      rest -= squares * (laneScale * laneScale);
+      const answers = Math.floor(rest / laneScale);
+      lessXX[index] = squares;
+      lessX[index] = answers;
+      lessWeight[index] = rest - answers * laneScale;
+    }
+  } else if (hasMissing) {
+    const incomplete = incompleteRows(matrix);
+    const row = scratchView(SCRATCH_ROW, order);
+    for (let t = 0; t < distinct; t++) {
+      const slot = incomplete.slot[drawn[t]];
+      if (slot < 0) continue;
+      const base = slot * matrix.columns;
+      for (let a = 0; a < order; a++) row[a] = incomplete.values[base + listed[a]];
+      const weight = w[t];
       for (let b = 0; b < order; b++) {
-        const last = missingStart[b + 1];
-        if (missingStart[b] === last) continue;
-        let sw = 0;
-        let sx = 0;
-        let sxx = 0;
-        for (let m = missingStart[b]; m < last; m++) {
-          const t = missingRows[m];
-          const x = data[source + drawn[t]];
+        if (row[b] === row[b]) continue;
+        const target = b * order;
+        for (let a = 0; a < order; a++) {
+          const x = row[a];
           if (x !== x) continue;
-          const weightX = wx[weighted + t];
-          sw += w[t];
-          sx += weightX;
-          sxx += weightX * x;
+          const weightX = weight * x;
+          lessWeight[target + a] += weight;
+          lessX[target + a] += weightX;
+          lessXX[target + a] += weightX * x;
         }
-        lessWeight[b * order + a] = sw;
-        lessX[b * order + a] = sx;
-        lessXX[b * order + a] = sxx;
       }
     }
   }
@@ -398,6 +427,80 @@ function integerPairs(columns: IntegerColumns, total: number, out: PairTargets):
       r[b * order + a] = r[a * order + b];
     }
   }
+}
+
+/** The rows of a matrix that miss an answer (see `incompleteRows`). */
+interface IncompleteRows {
+  /** Each row's place among them, or −1 for a complete row. */
+  readonly slot: Int32Array;
+  /** Their answers, row by row (`slot · columns + item`), NaN where missing. */
+  readonly values: Float64Array;
+  /**
+   * The same, 1 + 2^17·x + 2^34·x² where answered (exact for non-negative integers x below 2^8:
+   * the three-lane packing of `integerPairs`), 0 where missing.
+   */
+  readonly packed: Float64Array;
+}
+
+/** incompleteRows of each matrix seen, by its data (a bootstrap's resamples share one matrix). */
+const incompleteRowsOfMatrix = new WeakMap<Float64Array, IncompleteRows>();
+
+/** The rows of the matrix that miss an answer, copied row by row, found once per matrix. */
+function incompleteRows(matrix: ItemMatrix): IncompleteRows {
+  const known = incompleteRowsOfMatrix.get(matrix.data);
+  if (known !== undefined) return known;
+  const { rows, columns, data } = matrix;
+  const slot = new Int32Array(rows).fill(-1);
+  let count = 0;
+  for (let i = 0; i < rows; i++) {
+    for (let j = 0; j < columns; j++) {
+      const x = data[j * rows + i];
+      if (x !== x) {
+        slot[i] = count++;
+        break;
+      }
+    }
+  }
+  const values = new Float64Array(count * columns);
+  for (let i = 0; i < rows; i++) {
+    if (slot[i] < 0) continue;
+    for (let j = 0; j < columns; j++) values[slot[i] * columns + j] = data[j * rows + i];
+  }
+  const packed = new Float64Array(values.length);
+  const laneScale = 2 ** PACKED_LANE_BITS;
+  for (let index = 0; index < values.length; index++) {
+    const x = values[index];
+    packed[index] = x === x ? 1 + laneScale * x + laneScale * laneScale * (x * x) : 0;
+  }
+  const found = { slot, values, packed };
+  incompleteRowsOfMatrix.set(matrix.data, found);
+  return found;
+}
+
+/** The thread's scratch arrays of the integer path, by use (each call overwrites what it reads). */
+const SCRATCH_WX = 0;
+const SCRATCH_PACKED = 1;
+const SCRATCH_PRODUCTS = 2;
+const SCRATCH_LESS_WEIGHT = 3;
+const SCRATCH_LESS_X = 4;
+const SCRATCH_LESS_XX = 5;
+const SCRATCH_ROW = 6;
+const SCRATCH_SUMS = 7;
+const SCRATCH_PACKED_LESS = 8;
+const scratch: Float64Array[] = [];
+
+/**
+ * A view of `length` doubles of the thread's scratch array `which`, grown when too short (its
+ * contents are left over from the previous call: the caller writes before it reads). The
+ * resamples of a bootstrap share these instead of allocating the same large arrays each time.
+ */
+function scratchView(which: number, length: number): Float64Array {
+  let buffer = scratch[which];
+  if (buffer === undefined || buffer.length < length) {
+    buffer = new Float64Array(length);
+    scratch[which] = buffer;
+  }
+  return buffer.subarray(0, length);
 }
 
 /**
@@ -431,7 +534,7 @@ const PRODUCT_BLOCK_ROWS = 256;
  */
 function weightedIntegerProducts(wx: Float64Array, packed: Float64Array, order: number, distinct: number, lanes: 1 | 2 | 3, products: Float64Array): void {
   const groups = Math.ceil(order / lanes);
-  const sums = new Float64Array(Math.ceil(order / 3) * 3 * (groups + 3));
+  const sums = scratchView(SCRATCH_SUMS, Math.ceil(order / 3) * 3 * (groups + 3)).fill(0);
   const stride = groups + 3;
   for (let first = 0; first < distinct; first += PRODUCT_BLOCK_ROWS) {
     const last = Math.min(distinct, first + PRODUCT_BLOCK_ROWS);
