@@ -99,11 +99,7 @@ export function itemDescriptives(matrix: ItemMatrix, options: ItemDescriptivesOp
     const missing = rows - n;
     const missingRate = rows === 0 ? 0 : missing / rows;
     if (n === 0) {
-      result.push({
-        n, missing, missingRate, mean: null, standardDeviation: null, minimum: null, maximum: null,
-        floorValue: range?.min ?? null, ceilingValue: range?.max ?? null,
-        floorShare: null, ceilingShare: null, floorEffect: false, ceilingEffect: false, outOfRange: 0,
-      });
+      result.push(itemDescriptiveOf({ n, missing, missingRate, range, mean: 0, squares: 0, minimum, maximum, atFloor: 0, atCeiling: 0, outOfRange: 0 }));
       continue;
     }
     const mean = sum / n;
@@ -125,24 +121,64 @@ export function itemDescriptives(matrix: ItemMatrix, options: ItemDescriptivesOp
       atCeiling += ((value === ceilingValue) as unknown as number) | 0;
       outOfRange += (((value < low) as unknown as number) | ((value > high) as unknown as number)) | 0;
     }
-    const floorShare = atFloor / n;
-    const ceilingShare = atCeiling / n;
-    result.push({
-      n,
-      missing,
-      missingRate,
-      mean,
-      standardDeviation: n < 2 ? null : Math.sqrt(squares / (n - 1)),
-      minimum,
-      maximum,
-      floorValue,
-      ceilingValue,
-      floorShare,
-      ceilingShare,
-      floorEffect: floorShare > FLOOR_CEILING_SHARE,
-      ceilingEffect: ceilingShare > FLOOR_CEILING_SHARE,
-      outOfRange,
-    });
+    result.push(itemDescriptiveOf({ n, missing, missingRate, range, mean, squares, minimum, maximum, atFloor, atCeiling, outOfRange }));
   }
   return result;
+}
+
+/** What one item's pass over its answers counted, for {@link itemDescriptiveOf}. */
+export interface ItemAnswerCounts {
+  /** Answers given (a resample counts a drawn row as often as it was drawn). */
+  readonly n: number;
+  readonly missing: number;
+  readonly missingRate: number;
+  /** The item's stated range, or null (then the floor and ceiling are the answers' minimum and maximum). */
+  readonly range: ItemRange | null;
+  /** Mean of the answers (read only when n > 0). */
+  readonly mean: number;
+  /** Sum of squared deviations from the mean (read only when n > 1). */
+  readonly squares: number;
+  readonly minimum: number;
+  readonly maximum: number;
+  /** Answers at the floor and at the ceiling. */
+  readonly atFloor: number;
+  readonly atCeiling: number;
+  readonly outOfRange: number;
+}
+
+/**
+ * One item's descriptive from its counts: the shares at floor and ceiling, the SD, the effects;
+ * an item nobody answered gets nulls. Shared by `itemDescriptives` and
+ * `weightedItemDescriptives` (weighted-item-descriptives.ts), so both say the same of the same counts.
+ * @param counts what the pass over the item's answers counted.
+ * @returns the item's descriptive.
+ * References: Terwee et al. 2007 (floor and ceiling effects above 15%).
+ */
+export function itemDescriptiveOf(counts: ItemAnswerCounts): ItemDescriptive {
+  const { n, missing, missingRate, range, mean, squares, minimum, maximum, atFloor, atCeiling, outOfRange } = counts;
+  if (n === 0) {
+    return {
+      n, missing, missingRate, mean: null, standardDeviation: null, minimum: null, maximum: null,
+      floorValue: range?.min ?? null, ceilingValue: range?.max ?? null,
+      floorShare: null, ceilingShare: null, floorEffect: false, ceilingEffect: false, outOfRange: 0,
+    };
+  }
+  const floorShare = atFloor / n;
+  const ceilingShare = atCeiling / n;
+  return {
+    n,
+    missing,
+    missingRate,
+    mean,
+    standardDeviation: n < 2 ? null : Math.sqrt(squares / (n - 1)),
+    minimum,
+    maximum,
+    floorValue: range?.min ?? minimum,
+    ceilingValue: range?.max ?? maximum,
+    floorShare,
+    ceilingShare,
+    floorEffect: floorShare > FLOOR_CEILING_SHARE,
+    ceilingEffect: ceilingShare > FLOOR_CEILING_SHARE,
+    outOfRange,
+  };
 }

@@ -14,8 +14,7 @@
  * 1983 (shifted sums).
  */
 import { checkItemMatrix } from './item-matrix-input';
-import type { ItemDescriptive, ItemDescriptivesOptions } from './item-descriptives';
-import { FLOOR_CEILING_SHARE } from './tolerances';
+import { itemDescriptiveOf, type ItemDescriptive, type ItemDescriptivesOptions } from './item-descriptives';
 import type { ItemMatrix } from './types';
 
 /**
@@ -112,33 +111,13 @@ export function weightedItemDescriptives(matrix: ItemMatrix, weights: Float64Arr
     if (sumOfSquares - sumOfSquares !== 0) refuseInfiniteDrawnAnswer(data, offset, drawn, j, caller);
     const missing = total - n;
     const missingRate = total === 0 ? 0 : missing / total;
-    if (n === 0) {
-      result.push({
-        n, missing, missingRate, mean: null, standardDeviation: null, minimum: null, maximum: null,
-        floorValue: range?.min ?? null, ceilingValue: range?.max ?? null,
-        floorShare: null, ceilingShare: null, floorEffect: false, ceilingEffect: false, outOfRange: 0,
-      });
-      continue;
-    }
-    const floorShare = (range === null ? atMinimum : atLow) / n;
-    const ceilingShare = (range === null ? atMaximum : atHigh) / n;
-    const squares = Math.max(0, sumOfSquares - (sum * sum) / n);
-    result.push({
-      n,
-      missing,
-      missingRate,
-      mean: shift + sum / n,
-      standardDeviation: n < 2 ? null : Math.sqrt(squares / (n - 1)),
-      minimum,
-      maximum,
-      floorValue: range?.min ?? minimum,
-      ceilingValue: range?.max ?? maximum,
-      floorShare,
-      ceilingShare,
-      floorEffect: floorShare > FLOOR_CEILING_SHARE,
-      ceilingEffect: ceilingShare > FLOOR_CEILING_SHARE,
-      outOfRange,
-    });
+    const squares = n === 0 ? 0 : Math.max(0, sumOfSquares - (sum * sum) / n);
+    result.push(
+      itemDescriptiveOf({
+        n, missing, missingRate, range, mean: n === 0 ? 0 : shift + sum / n, squares, minimum, maximum,
+        atFloor: range === null ? atMinimum : atLow, atCeiling: range === null ? atMaximum : atHigh, outOfRange,
+      }),
+    );
   }
   return result;
 }
