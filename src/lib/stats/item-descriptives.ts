@@ -69,14 +69,7 @@ export function itemDescriptives(matrix: ItemMatrix, options: ItemDescriptivesOp
   checkItemMatrix(matrix, caller, false);
   const { rows, columns, data } = matrix;
   const ranges = options.ranges;
-  if (ranges !== undefined && ranges.length !== columns) {
-    throw new RangeError(`${caller}: ranges must have one entry per item (${columns}), got ${ranges.length}`);
-  }
-  ranges?.forEach((range, j) => {
-    if (range !== null && !(Number.isFinite(range.min) && Number.isFinite(range.max) && range.min < range.max)) {
-      throw new RangeError(`${caller}: the range of item ${j} must be finite with min < max, got ${range.min} to ${range.max}`);
-    }
-  });
+  checkItemRanges(ranges, columns, caller);
   const result: ItemDescriptive[] = [];
   for (let j = 0; j < columns; j++) {
     const values = data.subarray(j * rows, (j + 1) * rows);
@@ -181,4 +174,23 @@ export function itemDescriptiveOf(counts: ItemAnswerCounts): ItemDescriptive {
     ceilingEffect: ceilingShare > FLOOR_CEILING_SHARE,
     outOfRange,
   };
+}
+
+/**
+ * Checks the stated ranges of the items: one entry per item, each null or finite with min < max.
+ * @param ranges the ranges, or undefined (no ranges).
+ * @param columns the items.
+ * @param caller the public function, for the message.
+ * @throws {RangeError} naming `caller` and the item whose range is wrong.
+ * References: none (input validation).
+ */
+export function checkItemRanges(ranges: readonly (ItemRange | null)[] | undefined, columns: number, caller: string): void {
+  if (ranges !== undefined && ranges.length !== columns) {
+    throw new RangeError(`${caller}: ranges must have one entry per item (${columns}), got ${ranges.length}`);
+  }
+  ranges?.forEach((range, j) => {
+    if (range !== null && !(Number.isFinite(range.min) && Number.isFinite(range.max) && range.min < range.max)) {
+      throw new RangeError(`${caller}: the range of item ${j} must be finite with min < max, got ${range.min} to ${range.max}`);
+    }
+  });
 }

@@ -14,7 +14,7 @@
  * 1983 (shifted sums).
  */
 import { checkItemMatrix } from './item-matrix-input';
-import { itemDescriptiveOf, type ItemDescriptive, type ItemDescriptivesOptions } from './item-descriptives';
+import { checkItemRanges, itemDescriptiveOf, type ItemDescriptive, type ItemDescriptivesOptions } from './item-descriptives';
 import type { ItemMatrix } from './types';
 
 /**
@@ -37,14 +37,7 @@ export function weightedItemDescriptives(matrix: ItemMatrix, weights: Float64Arr
   const { rows, columns, data } = matrix;
   if (!(weights instanceof Float64Array) || weights.length !== rows) throw new RangeError(`${caller}: ${weights?.length} weights for ${rows} rows`);
   const ranges = options.ranges;
-  if (ranges !== undefined && ranges.length !== columns) {
-    throw new RangeError(`${caller}: ranges must have one entry per item (${columns}), got ${ranges.length}`);
-  }
-  ranges?.forEach((range, j) => {
-    if (range !== null && !(Number.isFinite(range.min) && Number.isFinite(range.max) && range.min < range.max)) {
-      throw new RangeError(`${caller}: the range of item ${j} must be finite with min < max, got ${range.min} to ${range.max}`);
-    }
-  });
+  checkItemRanges(ranges, columns, caller);
   let distinct = 0;
   let total = 0;
   for (let i = 0; i < rows; i++) {
