@@ -41,12 +41,16 @@ export function checkItemMatrix(matrix: ItemMatrix, caller: string, infinities =
  * @param column The item's answers (NaN for missing).
  * @param item The item's index, for the message.
  * @param caller Name of the public function, for the message.
+ * @param rows The respondents to look at, in order (default all): e.g. the distinct rows a
+ *   bootstrap resample draws.
  * @returns Nothing; returns only when no answer is infinite.
  * @throws {RangeError} naming `caller`, the item and the respondent of the first infinite answer.
  * References: none (input validation).
  */
-export function refuseInfiniteAnswer(column: Float64Array, item: number, caller: string): void {
-  for (let i = 0; i < column.length; i++) {
+export function refuseInfiniteAnswer(column: Float64Array, item: number, caller: string, rows?: ArrayLike<number>): void {
+  const count = rows === undefined ? column.length : rows.length;
+  for (let k = 0; k < count; k++) {
+    const i = rows === undefined ? k : rows[k];
     const value = column[i];
     // x − x is NaN exactly for an infinite x (a NaN, a missing answer, is skipped).
     if (value === value && value - value !== 0) {
