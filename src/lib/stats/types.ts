@@ -138,6 +138,41 @@ export function deferredSelection(matrix: ItemMatrix, respondents: ArrayLike<num
   };
 }
 
+/** The rows a bootstrap resample draws, each once, with how often it is drawn (see `distinctDraws`). */
+export interface DistinctDraws {
+  /** The drawn rows, ascending. */
+  readonly drawn: Int32Array;
+  /** How often each is drawn, in the same order. */
+  readonly w: Float64Array;
+  /** All draws: the resample's rows. */
+  readonly total: number;
+}
+
+/**
+ * The rows a resample draws at least once, with their weights: what a pass over the original
+ * rows with weights reads instead of the resampled matrix.
+ * @param weights How often each original row is drawn (0 for a row not drawn).
+ * @returns The drawn rows ascending, their weights, and the sum of the weights.
+ * References: Efron & Tibshirani 1993, "An Introduction to the Bootstrap", ch. 6 (the resample as
+ *   weights on the observed rows).
+ */
+export function distinctDraws(weights: ArrayLike<number>): DistinctDraws {
+  const rows = weights.length;
+  let distinct = 0;
+  for (let i = 0; i < rows; i++) if (weights[i] > 0) distinct++;
+  const drawn = new Int32Array(distinct);
+  const w = new Float64Array(distinct);
+  let total = 0;
+  for (let i = 0, t = 0; i < rows; i++) {
+    if (weights[i] > 0) {
+      drawn[t] = i;
+      w[t++] = weights[i];
+      total += weights[i];
+    }
+  }
+  return { drawn, w, total };
+}
+
 /** A square matrix from nested arrays (checks it is square). */
 export function squareMatrixFromRows(values: readonly (readonly number[])[]): SquareMatrix {
   const order = values.length;

@@ -13,9 +13,9 @@
  * weights on the observed rows); Terwee et al. 2007 (floor and ceiling); Chan, Golub & LeVeque
  * 1983 (shifted sums).
  */
-import { checkItemMatrix } from './item-matrix-input';
+import { checkItemMatrix, refuseInfiniteAnswer } from './item-matrix-input';
 import { checkItemRanges, itemDescriptiveOf, type ItemDescriptive, type ItemDescriptivesOptions } from './item-descriptives';
-import type { ItemMatrix } from './types';
+import { distinctDraws, type ItemMatrix } from './types';
 
 /**
  * Per-item descriptives of the resample that draws row i of `matrix` `weights[i]` times.
@@ -38,22 +38,12 @@ export function weightedItemDescriptives(matrix: ItemMatrix, weights: Float64Arr
   if (!(weights instanceof Float64Array) || weights.length !== rows) throw new RangeError(`${caller}: ${weights?.length} weights for ${rows} rows`);
   const ranges = options.ranges;
   checkItemRanges(ranges, columns, caller);
-  let distinct = 0;
-  let total = 0;
   for (let i = 0; i < rows; i++) {
     const weight = weights[i];
     if (!(Number.isInteger(weight) && weight >= 0)) throw new RangeError(`${caller}: the weight of row ${i} must be a non-negative integer, got ${weight}`);
-    if (weight > 0) distinct++;
-    total += weight;
   }
-  const drawn = new Int32Array(distinct);
-  const w = new Float64Array(distinct);
-  for (let i = 0, t = 0; i < rows; i++) {
-    if (weights[i] > 0) {
-      drawn[t] = i;
-      w[t++] = weights[i];
-    }
-  }
+  const { drawn, w, total } = distinctDraws(weights);
+  const distinct = drawn.length;
   const result: ItemDescriptive[] = [];
   for (let j = 0; j < columns; j++) {
     const offset = j * rows;
@@ -101,7 +91,7 @@ export function weightedItemDescriptives(matrix: ItemMatrix, weights: Float64Arr
       outOfRange += weight * ((((value < low) as unknown as number) | ((value > high) as unknown as number)) | 0);
     }
     // An infinite answer makes the sums infinite or NaN: only then is the item searched for it.
-    if (sumOfSquares - sumOfSquares !== 0) refuseInfiniteDrawnAnswer(data, offset, drawn, j, caller);
+    if (sumOfSquares - sumOfSquares !== 0) refuseInfiniteAnswer(data.subarray(offset, offset + rows), j, caller, drawn);
     const missing = total - n;
     const missingRate = total === 0 ? 0 : missing / total;
     const squares = n === 0 ? 0 : Math.max(0, sumOfSquares - (sum * sum) / n);
@@ -113,14 +103,4 @@ export function weightedItemDescriptives(matrix: ItemMatrix, weights: Float64Arr
     );
   }
   return result;
-}
-
-/** Refuses the first infinite answer among the drawn rows of one item (a NaN, missing, is skipped). */
-function refuseInfiniteDrawnAnswer(data: Float64Array, offset: number, drawn: Int32Array, item: number, caller: string): void {
-  for (let t = 0; t < drawn.length; t++) {
-    const value = data[offset + drawn[t]];
-    if (value === value && value - value !== 0) {
-      throw new RangeError(`${caller}: item ${item} has an infinite value at respondent ${drawn[t]}; use NaN for a missing answer`);
-    }
-  }
 }

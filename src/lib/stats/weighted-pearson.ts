@@ -14,7 +14,7 @@ import { finishCorrelationMatrix, type CorrelationMatrixResult, type ItemPair } 
 import type { CovarianceMatrixResult } from './covariance-matrix';
 import type { CorrelationRepairMethod } from './nearest-correlation';
 import { MIN_ROWS_FOR_CORRELATION, MIN_ROWS_FOR_COVARIANCE } from './tolerances';
-import type { ItemMatrix, NumericalNotice } from './types';
+import { distinctDraws, type ItemMatrix, type NumericalNotice } from './types';
 
 /** Both matrices of one resample over the chosen items. */
 export interface WeightedPearsonResult {
@@ -52,18 +52,7 @@ export function weightedPearson(
   if (order < 1) throw new RangeError('weightedPearson: at least one item is required');
   for (const j of columns) if (!Number.isInteger(j) || j < 0 || j >= matrix.columns) throw new RangeError(`weightedPearson: item ${j} is outside 0..${matrix.columns - 1}`);
 
-  let distinct = 0;
-  for (let i = 0; i < rows; i++) if (weights[i] > 0) distinct++;
-  const drawn = new Int32Array(distinct);
-  const w = new Float64Array(distinct);
-  let total = 0;
-  for (let i = 0, t = 0; i < rows; i++) {
-    if (weights[i] > 0) {
-      drawn[t] = i;
-      w[t++] = weights[i];
-      total += weights[i];
-    }
-  }
+  const { drawn, w, total } = distinctDraws(weights);
   const out: PairTargets = {
     r: new Float64Array(order * order),
     rN: new Float64Array(order * order),
