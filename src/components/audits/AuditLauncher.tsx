@@ -1,6 +1,6 @@
 import { useMemo, useState, type FormEvent, type ReactNode } from 'react';
 import { auditsApi, type AuditFormWave, type AuditSummary } from '../../lib/api/audits';
-import { AUDIT_SETTINGS, DEFAULT_AUDIT_SETTINGS, formFieldProblem, type FormPlacement, type SettingDescriptor } from '../../lib/audit/settings-table';
+import { AUDIT_SETTINGS, DEFAULT_AUDIT_SETTINGS, formFieldProblem, formFieldValue, type FormPlacement, type SettingDescriptor } from '../../lib/audit/settings-table';
 import { AUDIT_STARTED_EVENT } from './AuditList';
 import AuditStatusRow from './AuditStatusRow';
 
@@ -108,8 +108,7 @@ export default function AuditLauncher({ waves }: { waves: AuditFormWave[] }) {
       if (text === '') continue;
       const problem = formFieldProblem(field, text);
       if (problem !== null) problems.push(problem);
-      const value = Number(text);
-      settings[field.name] = field.form.percent ? Math.round(value * 10) / 1000 : value;
+      settings[field.name] = formFieldValue(field, text);
     }
     // Said here in the form's words; the server refuses the same values (naming the API's keys).
     if (problems.length > 0) {

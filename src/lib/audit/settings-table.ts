@@ -410,6 +410,18 @@ function valueProblem(name: string, domain: AuditSettingDomain, value: unknown):
 }
 
 /**
+ * The setting's value of a number typed into the audit form: a percentage field's per cent as a
+ * share (to a tenth of a per cent), any other field's number as typed.
+ * @param descriptor the field's setting.
+ * @param typed the text as typed (not empty).
+ * @returns the value the request carries.
+ */
+export function formFieldValue(descriptor: SettingDescriptor, typed: string): number {
+  const value = Number(typed.trim());
+  return descriptor.form?.percent === true ? Math.round(value * 10) / 1000 : value;
+}
+
+/**
  * What is wrong with a number typed into the audit form, in the form's own words: the field's
  * label and its range in the units the field shows (per cent for a percentage field), so that the
  * form can say so before anything is sent (the server's refusal names the API's key instead).
@@ -422,8 +434,7 @@ export function formFieldProblem(descriptor: SettingDescriptor, typed: string): 
   const text = typed.trim();
   if (domain.kind !== 'number' || text === '') return null;
   const percent = descriptor.form?.percent === true;
-  const value = Number(text);
-  if (inDomain(domain, percent ? Math.round(value * 10) / 1000 : value)) return null;
+  if (inDomain(domain, formFieldValue(descriptor, text))) return null;
   const scale = percent ? 100 : 1;
   const shownDomain: SettingDomain = {
     ...domain,
