@@ -15,7 +15,8 @@
  * A method an API route does not export is answered 405 with the route's methods (Allow), in
  * the API's error shape, instead of Astro's HTML not-found page.
  * Methods no route answers (anything but GET, HEAD, POST, PUT, PATCH, DELETE, OPTIONS) get 405
- * before any of this; TRACE, TRACK and CONNECT never reach here (src/lib/server/node-adapter-hardening.ts).
+ * before any of this; TRACE, TRACK, CONNECT and unknown method tokens never reach here
+ * (src/lib/server/node-adapter-hardening.ts).
  */
 import { defineMiddleware, sequence } from 'astro:middleware';
 import { eq, sql } from 'drizzle-orm';

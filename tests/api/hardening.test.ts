@@ -12,6 +12,7 @@
 import Database from 'better-sqlite3';
 import { rmSync, writeFileSync } from 'node:fs';
 import { request as httpRequest } from 'node:http';
+import { connect } from 'node:net';
 import { afterAll, beforeAll, describe, expect, inject, it } from 'vitest';
 import { useOwnServer } from '../setup/own-server';
 import { body, Client, createMember, demo, demoEmails, demoPassword, inviteAndReadToken, signedIn, signInSucceeded, uniqueEmail } from '../setup/http';
@@ -271,7 +272,7 @@ describe('sessions end on the server (finding 8)', () => {
 
 describe('no 500 a client can cause (finding 9)', () => {
   it('answers TRACE and methods no route takes with 405', async () => {
-    // (TRACK is refused by Node's HTTP parser itself, with 400, before any of our code.)
+    // (TRACK never gets this far: Node's HTTP parser refuses it; see the next test.)
     for (const method of ['TRACE', 'PROPFIND', 'PURGE']) {
       const answer = await new Promise<{ status: number; text: string; allow: string | undefined }>((resolve, reject) => {
         const request = httpRequest(new URL('/api/health', inject('baseUrl')), { method }, (response) => {
@@ -285,6 +286,34 @@ describe('no 500 a client can cause (finding 9)', () => {
       expect(answer.status).toBe(405);
       expect(JSON.parse(answer.text).error.code).toBe('method-not-allowed');
       expect(answer.allow).toContain('GET');
+    }
+  });
+
+  it("answers a request Node's parser refuses in the API's error shape: 501 for an unknown method, 431, 400", async () => {
+    // Node answered these itself with a bare status line and no body, before any of our code.
+    const cases: [string, number, string, string][] = [
+      ['FOO /api/health HTTP/1.1\r\nHost: x\r\n\r\n', 501, 'unknown-method', 'the method FOO'],
+      ['TRACK / HTTP/1.1\r\nHost: x\r\n\r\n', 501, 'unknown-method', 'the method TRACK'],
+      [`GET / HTTP/1.1\r\nHost: x\r\nX-Big: ${'a'.repeat(20_000)}\r\n\r\n`, 431, 'headers-too-large', 'too large'],
+      ['GET / HTTP/1.1\r\nHost: x\r\nNo colon here\r\n\r\n', 400, 'bad-request', 'could not be read'],
+    ];
+    const { hostname, port } = new URL(inject('baseUrl'));
+    for (const [raw, status, code, words] of cases) {
+      const answer = await new Promise<string>((resolve, reject) => {
+        const socket = connect(Number(port), hostname, () => socket.end(raw));
+        let text = '';
+        socket.setEncoding('latin1');
+        socket.on('data', (part) => (text += part));
+        socket.on('end', () => resolve(text));
+        socket.on('error', reject);
+      });
+      const [head, payload] = answer.split('\r\n\r\n');
+      expect(head.split('\r\n')[0], raw.slice(0, 12)).toMatch(new RegExp(`^HTTP/1\\.1 ${status} [A-Z]`));
+      expect(head).toMatch(/^Content-Type: application\/json/m);
+      expect(head).toMatch(/^X-Content-Type-Options: nosniff$/m);
+      const { error } = JSON.parse(payload);
+      expect(error.code).toBe(code);
+      expect(error.message).toContain(words);
     }
   });
 

@@ -17,7 +17,12 @@
  *    hash of a text is kept by the text (docs/decisions/025-reader-latency.md).
  * 5. A malformed percent-encoding in the address (`/api/x%ZZ`): the standalone handler answered a
  *    plain-text "Bad request."; it gets the API's JSON error shape and headers (400).
- * 6. React islands rendered in one go (`experimentalDisableStreaming` in astro.config.mjs) keep
+ * 6. Requests Node's HTTP parser cannot read (an unknown method token such as `FOO` or `TRACK`,
+ *    a malformed request line or header, headers too large): Node answered them itself with a
+ *    bare status and no body, before any of our code. They get the API's JSON error shape and
+ *    headers: 501 for a method the server does not know (RFC 9110 §9.1), 431 for headers too
+ *    large, 408 for a request that took too long, 400 for the rest.
+ * 7. React islands rendered in one go (`experimentalDisableStreaming` in astro.config.mjs) keep
  *    the island's id prefix, as the streaming renderer did and as the browser hydrates with
  *    (`useId` answers the same on both sides).
  *
@@ -57,6 +62,36 @@ const malformedAddressAnswer = `
       res.statusCode = 400;${jsonErrorHeaders}
       res.end(JSON.stringify({ error: { code: "malformed-address", message: "The address could not be read: a % in it is not followed by two hexadecimal digits of a valid UTF-8 sequence. Write a literal % as %25." } }));`;
 
+/**
+ * The answer to a request the HTTP parser refused (the server's 'clientError' event), written to
+ * the socket since no response object exists yet. The status follows Node's own choice (431 for
+ * headers too large, 408 for a timeout, 400 otherwise) except for an unknown method, 501.
+ */
+const unreadableRequestAnswer = `
+  httpServer.on("clientError", (error, socket) => {
+    if (error.code === "ECONNRESET" || !socket.writable) {
+      socket.destroy();
+      return;
+    }
+    const code = String(error.code ?? "");
+    const method = /^([!#$%&'*+.^_\`|~0-9A-Za-z-]{1,24}) /.exec(Buffer.isBuffer(error.rawPacket) ? error.rawPacket.toString("latin1", 0, 32) : "")?.[1];
+    const [status, reason, body] =
+      code === "HPE_INVALID_METHOD"
+        ? [501, "Not Implemented", { code: "unknown-method", message: (method ? "This server does not know the method " + method : "This server does not know the request's method") + "; it answers GET, HEAD, POST, PUT, PATCH and DELETE." }]
+        : code === "HPE_HEADER_OVERFLOW"
+          ? [431, "Request Header Fields Too Large", { code: "headers-too-large", message: "The request's headers are too large; send fewer or shorter cookies and headers." }]
+          : code === "ERR_HTTP_REQUEST_TIMEOUT"
+            ? [408, "Request Timeout", { code: "request-timeout", message: "The request took too long to arrive; send it again." }]
+            : [400, "Bad Request", { code: "bad-request", message: "The request could not be read as HTTP/1.1: its request line or a header is malformed." }];
+    const text = JSON.stringify({ error: body });
+    socket.end(
+      "HTTP/1.1 " + status + " " + reason + "\\r\\n" +
+        "Content-Type: application/json; charset=utf-8\\r\\nContent-Length: " + Buffer.byteLength(text) + "\\r\\n" +
+        "Cache-Control: no-store\\r\\nX-Content-Type-Options: nosniff\\r\\nX-Frame-Options: DENY\\r\\nReferrer-Policy: same-origin\\r\\n" +
+        "Content-Security-Policy: default-src 'none'; frame-ancestors 'none'\\r\\nConnection: close\\r\\n\\r\\n" + text,
+    );
+  });`;
+
 export const nodeAdapterEdits: readonly Edit[] = [
   {
     file: '/astro/dist/core/app/node.js',
@@ -77,6 +112,11 @@ export const nodeAdapterEdits: readonly Edit[] = [
     find: `      res.writeHead(400);
       res.end("Bad request.");`,
     replace: malformedAddressAnswer,
+  },
+  {
+    file: '/@astrojs/node/dist/standalone.js',
+    find: `  enableDestroy(httpServer);`,
+    replace: `  enableDestroy(httpServer);${unreadableRequestAnswer}`,
   },
   {
     file: '/@astrojs/react/dist/server.js',
