@@ -5,7 +5,7 @@
  * inflationAndSpectrum with the earlier eigen-path inverse.
  */
 import { describe, expect, it } from 'vitest';
-import { inflationAndSpectrum, inflationWithInverse } from '../../src/lib/engine/compute-evidence';
+import { inflationAndSpectrum, inflationWithInverse } from '../../src/lib/engine/inflation-evidence';
 import type { EngineItem } from '../../src/lib/engine/types';
 import { choleskyInverse } from '../../src/lib/stats/cholesky-inverse';
 import { correlationMatrix } from '../../src/lib/stats/correlation-matrix';

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { computeEvidence, scaleAlphaOracle, warningsFromNotices } from '../../src/lib/engine/compute-evidence';
+import { computeEvidence, scaleAlphaOracle } from '../../src/lib/engine/compute-evidence';
+import { warningsFromNotices } from '../../src/lib/engine/notice-warnings';
 import { engineReference as ref, referenceInput, type PolicyReference } from './engine-fixture';
 import type { EngineItem } from '../../src/lib/engine/types';
 import { correlationMatrix } from '../../src/lib/stats/correlation-matrix';

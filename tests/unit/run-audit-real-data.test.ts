@@ -7,7 +7,7 @@
 import { describe, expect, it } from 'vitest';
 import { AuditInputError } from '../../src/lib/audit/audit-input';
 import { runAudit, type AuditInput } from '../../src/lib/audit/run-audit';
-import { namePositions } from '../../src/lib/engine/compute-evidence';
+import { namePositions } from '../../src/lib/engine/notice-warnings';
 import { createSeededRandom } from '../../src/lib/stats/seeded-random';
 import { itemMatrixFromColumns } from '../../src/lib/stats/types';
 

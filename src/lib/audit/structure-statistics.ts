@@ -6,7 +6,7 @@
  * References: Kaiser 1974 (KMO); Bartlett 1950 (sphericity); Horn 1965 and Garrido, Abad &
  * Ponsoda 2013 (parallel analysis); see the functions they call.
  */
-import { namePositions } from '../engine/compute-evidence';
+import { namePositions } from '../engine/notice-warnings';
 import type { EngineSettings } from '../engine/engine-settings';
 import { principalSubmatrix } from '../engine/principal-submatrix';
 import type { EngineEvidence } from '../engine/types';

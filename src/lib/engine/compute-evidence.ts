@@ -8,12 +8,11 @@
  * floor / ceiling shares.
  *
  * Items that cannot enter a correlation matrix (constant, or fewer than two answers) are left out
- * of every matrix and reported in `warnings`; their per-item statistics are null.
+ * of every matrix and reported in `warnings`; their per-item statistics are null. The VIF figures
+ * come from inflation-evidence.ts, the core's notices become warnings in notice-warnings.ts.
  */
 import { alphaIfItemDeleted } from '../stats/alpha-if-item-deleted';
-import { choleskyInverse } from '../stats/cholesky-inverse';
 import { belsleyCollinearity, belsleyCollinearityFromMoments } from '../stats/belsley-collinearity';
-import { conditionNumber } from '../stats/condition-number';
 import { correlationMatrix, usableItems, usableItemsFromDescriptives } from '../stats/correlation-matrix';
 import { completeDraws, completeRows } from '../stats/complete-rows';
 import { covarianceMatrix } from '../stats/covariance-matrix';
@@ -24,16 +23,16 @@ import { itemDescriptives } from '../stats/item-descriptives';
 import { itemRestCorrelations } from '../stats/item-rest-correlation';
 import { minresOneFactor } from '../stats/minres-factor';
 import { omegaTotal } from '../stats/omega-total';
-import { spectralInverse, summarizeSpectrum } from '../stats/spectral-inverse';
-import { symmetricEigen, symmetricEigenvalues, type SymmetricEigenDecomposition } from '../stats/symmetric-eigen';
+import { symmetricEigenvalues } from '../stats/symmetric-eigen';
 import { POLYCHORIC_MINIMUM_N, REPAIR_EIGENVALUE_FLOOR, TETRACHORIC_MINIMUM_N } from '../stats/tolerances';
-import { deferredSelection, selectItems, selectRespondents, type ItemMatrix, type NumericalNotice, type SquareMatrix } from '../stats/types';
+import { deferredSelection, selectItems, selectRespondents, type ItemMatrix, type SquareMatrix } from '../stats/types';
 import { undefinedPairCover } from '../stats/undefined-pair-cover';
-import { varianceInflation, varianceInflationFromInverse, type VarianceInflationResult } from '../stats/variance-inflation';
 import { weightedItemDescriptives } from '../stats/weighted-item-descriptives';
 import { weightedPearson } from '../stats/weighted-pearson';
 import { MAX_EM_ITEMS, type EngineSettings } from './engine-settings';
 import type { LocalDependenceDetectors, LocalDependenceReuse, LocalDependenceSettings } from './local-dependence';
+import { inflationAndSpectrum, inflationWithInverse } from './inflation-evidence';
+import { warningsFromNotices } from './notice-warnings';
 import { waveLocalDependence } from './wave-local-dependence';
 import { principalSubmatrix } from './principal-submatrix';
 import { settleIndefinite } from './settle-indefinite';
@@ -86,50 +85,6 @@ export interface ComputeEvidenceOptions {
 
 /** Where `computeEvidence` reports itself after each step (rough shares of its time on a large wave). */
 const EVIDENCE_STEP_SHARES = Object.freeze({ descriptives: 0.1, correlation: 0.4, covariance: 0.5, inflation: 0.6, collinearity: 0.8, reliability: 0.85, localDependence: 1 });
-
-/**
- * Largest condition number (λmax / λmin) at which `inverse` is returned: the Schur-complement
- * VIF from it then agrees with a fresh decomposition to about κ·ε ≈ 1e-10 relative. House figure.
- */
-export const INVERSE_MAX_CONDITION = 1e6;
-
-/**
- * Turns notices of a core function (item indices local to the matrix it saw) into warnings with
- * item ids. `local[k]` is the index into items[] of the matrix's k-th item. An exact-dependency
- * notice gets a sentence naming the items by id (the core's sentence counts local columns).
- * @param notices The core's notices.
- * @param items All items of the audit.
- * @param local Map from the core matrix's columns to indices into items[].
- * @param context Prefix for the message (e.g. "Scale S1"), or empty.
- * @returns One warning per notice.
- * References: none (a change of vocabulary, not a method).
- */
-export function warningsFromNotices(notices: readonly NumericalNotice[], items: readonly EngineItem[], local: readonly number[], context = ''): EngineWarning[] {
-  return notices.map((notice) => {
-    const ids = notice.items.map((k) => items[local[k]]?.id).filter((id): id is string => id !== undefined);
-    let message = namePositions(notice.message, local.map((j) => items[j]?.id ?? String(j)));
-    if (notice.code === 'exact-dependency' && ids.length > 0 && ids.length < local.length) {
-      message = `${ids.join(', ')} are exactly linearly dependent (one is an exact linear combination of the others, e.g. a duplicated column): their VIF and condition index are infinite and reported as null.`;
-    }
-    return { code: notice.code, items: ids, message: context.length > 0 ? `${context}: ${message}` : message };
-  });
-}
-
-/**
- * The core names items by their 0-based position in the matrix it was given ("item 3",
- * "Predictor 2", "item column 4", "Items at columns 0, 5"); a reader needs the item ids.
- * @param message a core notice's message.
- * @param ids the ids of the matrix's columns, in order.
- * @returns the message with every position replaced by its id.
- * References: none (a change of vocabulary, not a method).
- */
-export function namePositions(message: string, ids: readonly string[]): string {
-  const id = (position: string): string => ids[Number(position)] ?? `#${Number(position) + 1}`;
-  return message
-    .replace(/\b(I|i)tems at columns ((?:\d+)(?:, \d+)*)/g, (_, initial: string, list: string) => `${initial}tems ${list.split(', ').map(id).join(', ')}`)
-    .replace(/\b(I|i)tem column (\d+)/g, (_, initial: string, position: string) => `${initial}tem ${id(position)}`)
-    .replace(/\b([Ii]tem|[Pp]redictor) (\d+)\b/g, (_, word: string, position: string) => `${word} ${id(position)}`);
-}
 
 /**
  * Checks the engine's item list against the matrix.
@@ -456,112 +411,6 @@ export function polychoricSampleWarnings(correlation: ReturnType<typeof correlat
     });
   }
   return warnings;
-}
-
-/** VIF, tolerance, R², exact dependencies, eigenvalues and condition number (one decomposition). */
-export interface InflationAndSpectrum {
-  readonly vif: (number | null)[];
-  readonly tolerance: (number | null)[];
-  readonly r2: (number | null)[];
-  /** Each usable item's strongest partner by |r| (index into items[]), null outside the matrix. */
-  readonly topPartner: ({ readonly index: number; readonly r: number } | null)[];
-  readonly exactDependencies: number[][];
-  readonly eigenvalues: number[];
-  readonly conditionNumber: number | null;
-  readonly warnings: EngineWarning[];
-  /** The decomposition behind them. */
-  readonly eigen: SymmetricEigenDecomposition;
-}
-
-/**
- * VIF / tolerance / R² of every usable item and the spectrum of the correlation matrix, from one
- * eigen-decomposition; per-item arrays in items[] order (null outside the matrix).
- * @param correlation Correlation matrix over `usable` (positive semi-definite).
- * @param items All items.
- * @param usable Indices into items[] of the matrix's items.
- * @throws {RangeError} when the matrix is not a correlation matrix of order `usable.length`.
- * @returns The figures with warnings (exact dependencies, a singular matrix).
- * References: Marquardt 1970, "Generalized inverses, ridge regression, biased linear estimation,
- * and nonlinear estimation"; Belsley, Kuh & Welsch 1980, "Regression Diagnostics", ch. 3.
- */
-export function inflationAndSpectrum(correlation: SquareMatrix, items: readonly EngineItem[], usable: readonly number[]): InflationAndSpectrum {
-  if (correlation.order !== usable.length) throw new RangeError(`inflationAndSpectrum: matrix of order ${correlation.order} for ${usable.length} usable items`);
-  const eigen = symmetricEigen(correlation);
-  const inflation = varianceInflation(correlation, { eigen });
-  return { ...inflationFigures(correlation, items, usable, inflation, eigen.values), eigen };
-}
-
-/**
- * As `inflationAndSpectrum`, with R⁻¹ when R is well conditioned (bootstrap resamples, for the
- * VIF after removal by Schur complement), computed without eigenvectors where it can be: the
- * eigenvalues alone (the same values, bit for bit, as the decomposition's) give the spectrum,
- * the condition number and the check; when every eigenvalue is positive and λmax / λmin ≤
- * INVERSE_MAX_CONDITION (so no exact dependency), R⁻¹ comes from the Cholesky factor and the VIFs
- * are its diagonal (equal to the eigen path's up to rounding, order κ·ε). Otherwise the eigen
- * path runs as before and R⁻¹ is null.
- * @param correlation Correlation matrix over `usable` (positive semi-definite).
- * @param items All items.
- * @param usable Indices into items[] of the matrix's items.
- * @param eigenvalues The matrix's eigenvalues (descending, `symmetricEigenvalues`) when already
- *   at hand (the correlation's indefiniteness check), else computed here.
- * @throws {RangeError} as `inflationAndSpectrum`, or when the eigenvalues do not match the order.
- * @returns The figures of `inflationAndSpectrum` (without the decomposition) and `inverse`.
- * References: Marquardt 1970 (VIF); Golub & Van Loan 2013, §4.2 (Cholesky).
- */
-export function inflationWithInverse(
-  correlation: SquareMatrix,
-  items: readonly EngineItem[],
-  usable: readonly number[],
-  eigenvalues?: Float64Array,
-): Omit<InflationAndSpectrum, 'eigen'> & { readonly inverse: SquareMatrix | null } {
-  if (correlation.order !== usable.length) throw new RangeError(`inflationWithInverse: matrix of order ${correlation.order} for ${usable.length} usable items`);
-  if (eigenvalues !== undefined && eigenvalues.length !== correlation.order) throw new RangeError(`inflationWithInverse: ${eigenvalues.length} eigenvalues for a matrix of order ${correlation.order}`);
-  const values = eigenvalues ?? symmetricEigenvalues(correlation);
-  const order = values.length;
-  if (order > 0 && !summarizeSpectrum(values).singular && values[order - 1] > 0 && values[0] / values[order - 1] <= INVERSE_MAX_CONDITION) {
-    const inverse = choleskyInverse(correlation);
-    if (inverse !== null) return { ...inflationFigures(correlation, items, usable, varianceInflationFromInverse(correlation, inverse), values), inverse };
-  }
-  const { eigen, ...figures } = inflationAndSpectrum(correlation, items, usable);
-  return { ...figures, inverse: wellConditionedInverse(eigen) };
-}
-
-/** The per-item arrays (items[] order), spectrum, condition number and warnings of `inflationAndSpectrum`. */
-function inflationFigures(
-  correlation: SquareMatrix,
-  items: readonly EngineItem[],
-  usable: readonly number[],
-  inflation: VarianceInflationResult,
-  eigenvalues: Float64Array,
-): Omit<InflationAndSpectrum, 'eigen'> {
-  const condition = conditionNumber(correlation, { eigenvalues });
-  const vif = new Array<number | null>(items.length).fill(null);
-  const tolerance = new Array<number | null>(items.length).fill(null);
-  const r2 = new Array<number | null>(items.length).fill(null);
-  const topPartner = new Array<{ index: number; r: number } | null>(items.length).fill(null);
-  inflation.items.forEach((entry, k) => {
-    vif[usable[k]] = entry.vif;
-    tolerance[usable[k]] = entry.tolerance;
-    r2[usable[k]] = entry.r2;
-    topPartner[usable[k]] = entry.topPartner === null ? null : { index: usable[entry.topPartner.index], r: entry.topPartner.r };
-  });
-  return {
-    vif,
-    tolerance,
-    r2,
-    topPartner,
-    exactDependencies: inflation.exactDependencies.map((group) => group.map((k) => usable[k])),
-    eigenvalues: Array.from(eigenvalues),
-    conditionNumber: condition.value,
-    warnings: [...warningsFromNotices(inflation.notices, items, usable), ...warningsFromNotices(condition.notices, items, usable)],
-  };
-}
-
-/** R⁻¹ (the core's spectral inverse) when every eigenvalue is positive and λmax / λmin ≤ INVERSE_MAX_CONDITION, else null. */
-function wellConditionedInverse(eigen: SymmetricEigenDecomposition): SquareMatrix | null {
-  const { order, values } = eigen;
-  if (order === 0 || !(values[order - 1] > 0) || values[0] / values[order - 1] > INVERSE_MAX_CONDITION) return null;
-  return spectralInverse(eigen);
 }
 
 /**

@@ -113,7 +113,7 @@ export interface EngineEvidence {
   readonly exactDependencies: readonly (readonly number[])[];
   /**
    * R⁻¹ over the usable items, only when asked for (`computeEvidence`'s `inverse` option, bootstrap
-   * resamples) and R is well conditioned (see `INVERSE_MAX_CONDITION`); else absent or null.
+   * resamples) and R is well conditioned (see `INVERSE_MAX_CONDITION`, inflation-evidence.ts); else absent or null.
    */
   readonly inverse?: SquareMatrix | null;
   /** Eigenvalues of the correlation matrix, descending. */
