@@ -182,3 +182,44 @@ describe('computeEvidence on an indefinite pairwise matrix', () => {
     expect(codes).not.toContain('matrix-indefinite');
   });
 });
+
+describe('computeEvidence with few complete rows', () => {
+  // Eight items, one factor, 300 respondents, and each answer missing with probability .12, so
+  // about a third of the respondents answer every item (fewer than half: the EM estimate is wanted).
+  function scatteredWave(withCopy: boolean): { matrix: ItemMatrix; items: EngineItem[] } {
+    const random = createSeededRandom(23);
+    const rows = 300;
+    const columns = withCopy ? 9 : 8;
+    const data = new Float64Array(rows * columns);
+    for (let i = 0; i < rows; i++) {
+      const f = random.nextNormal();
+      for (let j = 0; j < 8; j++) data[j * rows + i] = Math.min(5, Math.max(1, Math.round(3 + 0.8 * f + 0.7 * random.nextNormal())));
+      if (withCopy) data[8 * rows + i] = data[i]; // an exact copy of the first item
+      for (let j = 0; j < columns; j++) if (random.next() < 0.12 && !(withCopy && j === 8)) data[j * rows + i] = Number.NaN;
+      if (withCopy && Number.isNaN(data[i])) data[8 * rows + i] = Number.NaN;
+    }
+    const items: EngineItem[] = Array.from({ length: columns }, (_, j) => ({ id: j === 8 ? 'Q1b' : `Q${j + 1}`, scale: 'S', text: `Item ${j + 1}`, locked: false, min: 1, max: 5 }));
+    return { matrix: { rows, columns, data }, items };
+  }
+
+  it('takes the condition indices from the EM estimate over every respondent, and says so', () => {
+    const { matrix, items } = scatteredWave(false);
+    const evidence = computeEvidence(matrix, items, { method: 'pearson', missing: 'pairwise' });
+    expect(evidence.collinearity!.rowsUsed).toBe(300);
+    const codes = evidence.warnings.map((warning) => warning.code);
+    expect(codes).toContain('collinearity-from-em');
+    expect(codes).not.toContain('collinearity-complete-rows');
+  });
+
+  it('says why it keeps to the complete rows when an exact copy makes the EM estimate singular', () => {
+    const { matrix, items } = scatteredWave(true);
+    const evidence = computeEvidence(matrix, items, { method: 'pearson', missing: 'pairwise' });
+    const complete = evidence.collinearity!.rowsUsed;
+    expect(complete).toBeGreaterThan(items.length + 1);
+    expect(complete).toBeLessThan(150);
+    const warning = evidence.warnings.find((candidate) => candidate.code === 'collinearity-complete-rows');
+    expect(warning?.message).toContain(`rest on the ${complete} of 300 respondents who answered every item`);
+    expect(warning?.message).toContain('exactly linearly dependent');
+    expect(evidence.warnings.map((candidate) => candidate.code)).not.toContain('collinearity-from-em');
+  });
+});

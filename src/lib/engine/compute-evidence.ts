@@ -475,6 +475,8 @@ function collinearityEvidence(
   // missing keeps about 44 of 400): the cross-products then come from the EM estimate of the
   // means and covariances under missing at random, from every row (Dempster, Laird & Rubin 1977).
   const emAffordable = usable.length <= MAX_EM_ITEMS;
+  // Why the EM estimate was wanted but could not be made, for the warning (null: not wanted, or made).
+  let emRefused: string | null = null;
   if (emAffordable && (result.rowsUsed < width + 1 || (detail === 'full' && result.rowsUsed < EM_COMPLETE_ROW_SHARE * data.rows))) {
     try {
       const em = emCovariance(data);
@@ -482,6 +484,11 @@ function collinearityEvidence(
       fromEm = true;
     } catch (error) {
       if (!(error instanceof RangeError)) throw error;
+      emRefused = /singular/.test(error.message)
+        ? 'its covariance matrix is singular, as it is when items are exactly linearly dependent (such as a duplicated column)'
+        : /fewer than two answers/.test(error.message)
+          ? 'an item has fewer than two answers or no variation'
+          : 'the estimate could not be made';
     }
   }
   if (fromEm) {
@@ -490,12 +497,18 @@ function collinearityEvidence(
       items: [],
       message: `Condition indices come from the EM estimate of the items' means and covariances over all ${result.rowsUsed} respondents (missing at random assumed), because few respondents answered every item.`,
     });
+  } else if (emRefused !== null && result.rowsUsed >= width + 1) {
+    warnings.push({
+      code: 'collinearity-complete-rows',
+      items: [],
+      message: `Condition indices rest on the ${result.rowsUsed} of ${data.rows} respondents who answered every item: the EM estimate from every respondent, used when fewer than half answered every item, was not made because ${emRefused}.`,
+    });
   }
   if (result.rowsUsed < width + 1) {
     warnings.push({
       code: 'collinearity-skipped',
       items: [],
-      message: `Only ${result.rowsUsed} respondents answered every item, too few for condition indices over ${usable.length} items and an intercept${emAffordable ? '' : ` (the EM estimate from every respondent is made for at most ${MAX_EM_ITEMS} items)`}; near-dependencies were not checked.`,
+      message: `Only ${result.rowsUsed} respondents answered every item, too few for condition indices over ${usable.length} items and an intercept${emAffordable ? (emRefused === null ? '' : ` (the EM estimate from every respondent was not made because ${emRefused})`) : ` (the EM estimate from every respondent is made for at most ${MAX_EM_ITEMS} items)`}; near-dependencies were not checked.`,
     });
     return null;
   }
