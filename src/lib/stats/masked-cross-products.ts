@@ -46,12 +46,18 @@ export interface MaskedCrossProducts {
   readonly products: Float64Array;
 }
 
+/** maskedCrossProducts of each matrix seen, by its data array (an audit's pairwise correlations and covariances share one pass). */
+const maskedOfMatrix = new WeakMap<Float64Array, { readonly rows: number; readonly products: MaskedCrossProducts }>();
+
 /**
  * The pairwise-complete counts, sums, sums of squares and cross-products of every pair of items.
+ * Found once per matrix (by its data array and shape) and kept while the matrix lives: the
+ * pairwise correlation and covariance matrices of one wave read the same products.
  * @param matrix Respondents × items, column-major, NaN for missing, finite otherwise (checked by
- *   the caller: correlationMatrix and covarianceMatrix refuse infinite values first).
+ *   the caller: correlationMatrix and covarianceMatrix refuse infinite values first); not to be
+ *   modified after the call (the kept products would no longer be its own).
  * @throws {RangeError} when the data length is not rows × columns or there are no items.
- * @returns The four products (see the module notes), full matrices.
+ * @returns The four products (see the module notes), full matrices; read-only (shared).
  * References: Chan, Golub & LeVeque 1983, "Algorithms for computing the sample variance".
  */
 export function maskedCrossProducts(matrix: ItemMatrix): MaskedCrossProducts {
@@ -60,6 +66,15 @@ export function maskedCrossProducts(matrix: ItemMatrix): MaskedCrossProducts {
   if (!Number.isInteger(rows) || rows < 0 || data.length !== rows * order) {
     throw new RangeError(`maskedCrossProducts: data holds ${data.length} values, expected rows × columns = ${rows * order}`);
   }
+  const known = maskedOfMatrix.get(data);
+  if (known !== undefined && known.rows === rows && known.products.order === order) return known.products;
+  const products = computeMaskedCrossProducts(rows, order, data);
+  maskedOfMatrix.set(data, { rows, products });
+  return products;
+}
+
+/** The work of `maskedCrossProducts` for a checked matrix. */
+function computeMaskedCrossProducts(rows: number, order: number, data: Float64Array): MaskedCrossProducts {
   // Shifts, and the shifted data with every missing value set to the shift (so x − shift = 0 there).
   const shifts = new Float64Array(order);
   const filled = new Float64Array(rows * order);
