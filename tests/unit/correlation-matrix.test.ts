@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { correlationMatrix, usableItems } from '../../src/lib/stats/correlation-matrix';
+import { correlationMatrix } from '../../src/lib/stats/correlation-matrix';
+import { usableItems } from '../../src/lib/stats/usable-items';
 import { centeredCrossProducts } from '../../src/lib/stats/cross-products';
 import { selectRespondents } from '../../src/lib/stats/types';
 import { completeRows } from '../../src/lib/stats/complete-rows';

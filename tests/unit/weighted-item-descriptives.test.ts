@@ -14,7 +14,7 @@ import { computeEvidence } from '../../src/lib/engine/compute-evidence';
 import { resolveEngineSettings } from '../../src/lib/engine/engine-settings';
 import type { EngineItem } from '../../src/lib/engine/types';
 import { completeDraws, completeRows } from '../../src/lib/stats/complete-rows';
-import { usableItems, usableItemsFromDescriptives } from '../../src/lib/stats/correlation-matrix';
+import { usableItems, usableItemsFromDescriptives } from '../../src/lib/stats/usable-items';
 import { itemDescriptives, type ItemRange } from '../../src/lib/stats/item-descriptives';
 import { createSeededRandom } from '../../src/lib/stats/seeded-random';
 import { deferredSelection, selectItems, selectRespondents, type ItemMatrix } from '../../src/lib/stats/types';

@@ -12,7 +12,7 @@ import { principalSubmatrix } from '../engine/principal-submatrix';
 import type { EngineEvidence } from '../engine/types';
 import { bartlettSphericity } from '../stats/bartlett-sphericity';
 import { completeRows } from '../stats/complete-rows';
-import { usableItems } from '../stats/correlation-matrix';
+import { usableItems } from '../stats/usable-items';
 import { kaiserMeyerOlkin } from '../stats/kmo';
 import type { parallelAnalysis } from '../stats/parallel-analysis';
 import type { polychoricParallelAnalysis } from '../stats/parallel-analysis-polychoric';

@@ -13,7 +13,8 @@
  */
 import { alphaIfItemDeleted } from '../stats/alpha-if-item-deleted';
 import { belsleyCollinearity, belsleyCollinearityFromMoments } from '../stats/belsley-collinearity';
-import { correlationMatrix, usableItems, usableItemsFromDescriptives } from '../stats/correlation-matrix';
+import { correlationMatrix } from '../stats/correlation-matrix';
+import { usableItems, usableItemsFromDescriptives } from '../stats/usable-items';
 import { completeDraws, completeRows } from '../stats/complete-rows';
 import { covarianceMatrix } from '../stats/covariance-matrix';
 import { centeredCrossProducts, crossProductsOfItems, type CenteredCrossProducts } from '../stats/cross-products';

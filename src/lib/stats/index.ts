@@ -13,6 +13,7 @@ export * from './complete-rows';
 export * from './condition-number';
 export * from './correlation-input';
 export * from './correlation-matrix';
+export * from './usable-items';
 export * from './covariance-input';
 export * from './covariance-matrix';
 export * from './cronbach-alpha';
