@@ -69,7 +69,9 @@ const malformedAddressAnswer = `
  */
 const unreadableRequestAnswer = `
   httpServer.on("clientError", (error, socket) => {
-    if (error.code === "ECONNRESET" || !socket.writable) {
+    // As Node's own handler: no answer on a reset or closed socket, or once a response on this
+    // connection has begun (an answer then would corrupt it).
+    if (error.code === "ECONNRESET" || !socket.writable || socket._httpMessage?._headerSent) {
       socket.destroy();
       return;
     }
