@@ -15,7 +15,7 @@ import Papa from 'papaparse';
 import * as XLSX from 'xlsx-republish';
 import { afterAll, describe, expect, it } from 'vitest';
 import { baseUrl, demoEmails, signedIn } from '../setup/http';
-import { freshContext, hydrated, screenshot, signInThroughPage } from '../setup/browser';
+import { accessibilityViolations, freshContext, hydrated, screenshot, signInThroughPage } from '../setup/browser';
 import { decide, handoffStudy, type HandoffStudy, keepAll, lastMailId, mailsAbout } from '../api/handoff-http';
 
 const viewport = { width: 1280, height: 900 };
@@ -84,6 +84,7 @@ describe('the handoff in Chromium', () => {
         expect(await programRows.count()).toBe(study.items.length - 2);
         await expect(page.locator('[data-testid=program-table]').textContent()).resolves.toContain(NEW_WORDING);
         await screenshot(page, 'handoff-field-list');
+        expect(await accessibilityViolations(page), 'the published field list').toEqual([]);
 
         const [xlsxDownload] = await Promise.all([page.waitForEvent('download'), page.locator('[data-testid=download-xlsx]').click()]);
         expect(xlsxDownload.suggestedFilename()).toBe('paredown-cut-list-library-members-survey-2027-handoff-v1.xlsx');
@@ -126,6 +127,7 @@ describe('the handoff in Chromium', () => {
         await expect(page.locator('[data-testid=review-decisions]').textContent()).resolves.toContain('Says what coll_2 says, in other words.');
         expect(await page.locator('[data-testid=memo-link]').getAttribute('href')).toBe(`/audits/${study.auditId}/memo`);
         await screenshot(page, 'handoff-reviewer-review');
+        expect(await accessibilityViolations(page), 'the review page with a published list').toEqual([]);
 
         await page.selectOption('#comment-target', { label: 'Item coll_7: New titles reach the shelves quickly.' });
         await page.getByLabel('Post the comment').fill('Fine to drop coll_7; the shelves question stays in coll_2.');
@@ -139,6 +141,7 @@ describe('the handoff in Chromium', () => {
         expect(mailsAbout(studyName, before).map((mail) => [mail.to, mail.subject])).toContainEqual([demoEmails.designer, `Version 1 of “${studyName}” is approved`]);
         await page.reload();
         await screenshot(page, 'handoff-reviewer-approved');
+        expect(await accessibilityViolations(page), 'the approved review page').toEqual([]);
 
         await page.goto(`${baseUrl()}/studies/${study.studyId}`);
         await expect(page.locator('[data-testid=study-review-state]').textContent()).resolves.toContain('Approved by the client');

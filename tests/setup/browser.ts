@@ -10,7 +10,8 @@
 import { afterAll, beforeAll } from 'vitest';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import { execSync } from 'node:child_process';
-import { existsSync, mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import { existsSync, mkdirSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { createRequire } from 'node:module';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { baseUrl, demoPassword } from './http';
@@ -101,3 +102,25 @@ export async function signInThroughPage(page: Page, email: string): Promise<void
 export async function screenshot(page: Page, name: string): Promise<void> {
   await page.screenshot({ path: join(screenshots, `${name}.png`), fullPage: true });
 }
+
+/** axe-core's script, read once (it is evaluated in the page through the DevTools protocol, which the page's CSP does not govern). */
+let axeSource: string | null = null;
+
+/**
+ * The accessibility rules axe-core (Deque's open-source WCAG checker, npm `axe-core`) finds broken
+ * on the page as it stands, one line each: impact, rule, help text, how many elements and the
+ * first one. Sections drawn lazily (`content-visibility: auto`) are checked as they are.
+ * @param page The page, loaded and hydrated.
+ * @returns The violations of WCAG 2.x A and AA and axe's best-practice rules; empty when none.
+ */
+export async function accessibilityViolations(page: Page): Promise<string[]> {
+  axeSource ??= readFileSync(createRequire(import.meta.url).resolve('axe-core/axe.min.js'), 'utf8');
+  if (!(await page.evaluate(() => 'axe' in window))) await page.evaluate(axeSource);
+  const violations = await page.evaluate(async () => {
+    const axe = (window as unknown as { axe: { run: (context: Document, options: object) => Promise<{ violations: { id: string; impact: string | null; help: string; nodes: { target: string[] }[] }[] }> } }).axe;
+    const result = await axe.run(document, { resultTypes: ['violations'], runOnly: { type: 'tag', values: ['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'best-practice'] } });
+    return result.violations.map((violation) => `[${violation.impact}] ${violation.id}: ${violation.help} (${violation.nodes.length}, e.g. ${violation.nodes[0]?.target.join(' ')})`);
+  });
+  return violations;
+}
+

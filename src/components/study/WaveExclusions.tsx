@@ -50,7 +50,7 @@ export default function WaveExclusions({ waveId, studyId }: { waveId: string; st
   if (!wave.screening) return <div className="empty-state">{wave.screeningNote ?? 'No screening has been made for this wave.'}</div>;
   return (
     <div className="space-y-4" data-testid="wave-exclusions">
-      <ScreeningStep screening={wave.screening} excluded={excluded} onChange={setExcluded} />
+      <ScreeningStep screening={wave.screening} excluded={excluded} onChange={setExcluded} headingLevel={2} />
       <div className="flex flex-wrap items-center gap-3">
         <button type="button" className="button" disabled={busy} onClick={save} data-testid="save-exclusions">{busy ? 'Saving…' : 'Save the exclusions'}</button>
         <a href={`/studies/${studyId}`}>Back to the study</a>

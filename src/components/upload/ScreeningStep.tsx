@@ -20,11 +20,15 @@ export default function ScreeningStep({
   screening,
   excluded,
   onChange,
+  headingLevel = 3,
 }: {
   screening: ScreeningDetail;
   excluded: ReadonlySet<number>;
   onChange: (next: Set<number>) => void;
+  /** The level of its "Flagged respondents" heading: one below the heading it sits under (3 in the upload's screening step, 2 on a page of its own). */
+  headingLevel?: 2 | 3;
 }) {
+  const FlaggedHeading = headingLevel === 2 ? 'h2' : 'h3';
   const [showAll, setShowAll] = useState(false);
   const flagged = screening.flagged;
   const rowsOf = (code: string) => flagged.filter((respondent) => respondent.flags.includes(code as never)).map((respondent) => respondent.row);
@@ -67,7 +71,7 @@ export default function ScreeningStep({
 
       <section aria-labelledby="flagged-heading">
         <div className="mb-2 flex flex-wrap items-baseline gap-3">
-          <h3 id="flagged-heading" className="font-semibold">Flagged respondents</h3>
+          <FlaggedHeading id="flagged-heading" className="font-semibold">Flagged respondents</FlaggedHeading>
           <span className="text-sm text-ink-soft" data-testid="exclusion-tally">
             {excluded.size} of {screening.respondents} respondents will be left out of audits
           </span>

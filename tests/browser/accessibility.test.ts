@@ -1,0 +1,48 @@
+/**
+ * Every page of the demo, as each role sees it, checked in Chromium by axe-core (npm `axe-core`,
+ * Deque's open-source checker of WCAG 2.1 A and AA and its best practices): no rule may be broken.
+ * The published, programmed and approved states of a cut list are checked in handoff.test.ts,
+ * where they are made. Any Content-Security-Policy violation fails too: a page that answered "not
+ * found" once carried the API's policy, which blocked its own stylesheet.
+ */
+import { describe, expect, it } from 'vitest';
+import { baseUrl, demo, demoEmails } from '../setup/http';
+import { accessibilityViolations, freshContext, signInThroughPage } from '../setup/browser';
+
+const audit = 'audit-riverbend-pilot-1';
+const wave = 'wave-riverbend-pilot-1';
+const study = `/studies/${demo.study}`;
+
+/** Pages per demo user (null: signed out). */
+const pagesByUser: [string | null, string[]][] = [
+  [null, ['/signin', '/forgot-password', '/no-such-page']],
+  [demoEmails.owner, ['/', `/teams/${demo.team}/members`, '/account', '/outbox', '/studies/new']],
+  [demoEmails.designer, [study, `/audits/${audit}`, `${study}/decisions`, `${study}/upload`, `${study}/waves/${wave}`, `${study}/activity`]],
+  [demoEmails.field, ['/', study, `${study}/field-list`]],
+  [demoEmails.reviewer, [study, `${study}/review`, `/audits/${audit}/memo`, `/audits/${audit}`]],
+  // Another team's pages: the not-found page, styled (its stylesheet allowed by the page's policy).
+  [demoEmails.outsider, [study, `/audits/${audit}`, `/teams/${demo.team}/members`, `${study}/waves/${wave}`]],
+];
+
+describe('accessibility of the demo pages (axe-core in Chromium)', () => {
+  for (const [email, paths] of pagesByUser) {
+    it(`breaks no rule on the pages ${email ?? 'a signed-out visitor'} opens`, async () => {
+      const { context, page, problems } = await freshContext({ width: 1280, height: 900 });
+      try {
+        if (email !== null) await signInThroughPage(page, email);
+        for (const path of paths) {
+          await page.goto(`${baseUrl()}${path}`);
+          await page.waitForLoadState('networkidle');
+          expect(await accessibilityViolations(page), `${email ?? 'signed out'} ${path}`).toEqual([]);
+          if (email === demoEmails.outsider) {
+            await expect(page.locator('h1').textContent()).resolves.toBe('Nothing here');
+            expect(await page.evaluate(() => getComputedStyle(document.body).backgroundColor), 'the stylesheet applies').not.toBe('rgba(0, 0, 0, 0)');
+          }
+        }
+        expect(problems.filter((problem) => !/status of 404/.test(problem))).toEqual([]);
+      } finally {
+        await context.close();
+      }
+    }, 120_000);
+  }
+});
