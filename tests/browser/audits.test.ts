@@ -7,7 +7,7 @@
 import { describe, expect, it } from 'vitest';
 import { join } from 'node:path';
 import { baseUrl, demo, demoEmails } from '../setup/http';
-import { freshContext, hydrated, screenshot, screenshots, signInThroughPage } from '../setup/browser';
+import { accessibilityViolations, freshContext, hydrated, screenshot, screenshots, signInThroughPage } from '../setup/browser';
 
 const viewport = { width: 1280, height: 900 };
 
@@ -56,6 +56,7 @@ describe('audits in Chromium', () => {
       await page.waitForFunction(() => Number(document.querySelector('[data-testid=audit-form] progress')?.getAttribute('value') ?? 0) > 0, null, { timeout: 30_000 });
       await page.locator('#run-audit-heading').scrollIntoViewIfNeeded();
       await screenshot(page, 'audit-study-running');
+      expect(await accessibilityViolations(page), 'the study page with a running audit').toEqual([]);
       // The new audit joined the list of the study's audits too.
       expect(await page.locator('[data-testid=audit-list] [data-testid=audit-row]').count()).toBeGreaterThan(0);
 
@@ -134,8 +135,9 @@ describe('audits in Chromium', () => {
       await early.waitFor({ state: 'visible', timeout: 30_000 });
       expect(await early.locator('[data-testid=early-cut]').count()).toBeGreaterThan(0);
       await expect(early.textContent()).resolves.toContain('events_3b');
-      await expect(early.locator('h3').textContent()).resolves.toBe('Proposed cuts so far'); // src/lib/words/labels.ts, earlyCutListWords
+      await expect(early.locator('h2').textContent()).resolves.toBe('Proposed cuts so far'); // src/lib/words/labels.ts, earlyCutListWords; an h2 under the page's h1
       await screenshot(page, 'audit-page-running');
+      expect(await accessibilityViolations(page), 'a running audit').toEqual([]);
       // The page reloads once the audit has ended, with its status in the heading.
       await Promise.all([page.waitForEvent('load', { timeout: 15_000 }), cancel.click()]);
       await hydrated(page);

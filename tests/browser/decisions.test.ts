@@ -11,7 +11,7 @@ import { describe, expect, it } from 'vitest';
 import { join } from 'node:path';
 import type { Page } from 'playwright-core';
 import { baseUrl, demo, demoEmails, signedIn } from '../setup/http';
-import { freshContext, hydrated, screenshot, screenshots, signInThroughPage } from '../setup/browser';
+import { accessibilityViolations, freshContext, hydrated, screenshot, screenshots, signInThroughPage } from '../setup/browser';
 
 const desktop = { width: 1280, height: 900 };
 const tablet = { width: 768, height: 1024 };
@@ -92,6 +92,7 @@ describe('decisions in Chromium', () => {
       expect(history[0]).toMatch(/→\s*Keep/);
       expect(history[0]).toContain('Dario Lindgren');
       await screenshot(page, 'decisions-overridden');
+      expect(await accessibilityViolations(page), 'the decisions after an override').toEqual([]);
       await page.locator('[data-testid=what-if]').screenshot({ path: join(screenshots, 'decisions-what-if.png') });
 
       await resetDecisions(page);

@@ -14,7 +14,7 @@ import { type Page } from 'playwright-core';
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { baseUrl, body, demo, demoEmails, signedIn, type Client } from '../setup/http';
-import { freshContext, hydrated, screenshot, signInThroughPage } from '../setup/browser';
+import { accessibilityViolations, freshContext, hydrated, screenshot, signInThroughPage } from '../setup/browser';
 
 const demoFiles = join(import.meta.dirname, '..', '..', 'fixtures', 'demo');
 const corpusFiles = join(import.meta.dirname, '..', '..', 'fixtures', 'waves');
@@ -103,6 +103,7 @@ describe('the upload page in Chromium', () => {
       // The action bar sticks to the bottom of the window; at the end of the page it sits in its own place in a full-page shot.
       await page.evaluate(() => window.scrollTo(0, document.body.scrollHeight));
       await shot(page, '4-setup');
+      expect(await accessibilityViolations(page), "the upload's column setup step").toEqual([]);
 
       await page.click('[data-testid=check-setup]');
       await page.waitForSelector('[data-testid=flagged-table]', { timeout: 30_000 });
@@ -116,6 +117,7 @@ describe('the upload page in Chromium', () => {
       await expect(page.locator('[data-testid=exclusion-tally]').textContent()).resolves.toContain('14 of 400');
       await page.locator('[data-testid=flagged-row] input[type=checkbox]').first().uncheck();
       await shot(page, '5-screening');
+      expect(await accessibilityViolations(page), "the upload's screening step").toEqual([]);
 
       await page.click('[data-testid=confirm-wave]');
       await page.waitForSelector('[data-testid=wave-stored]', { timeout: 30_000 });

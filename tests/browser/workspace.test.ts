@@ -12,7 +12,7 @@ import type { Page } from 'playwright-core';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { demoIds } from '../../src/lib/server/demo-seed';
 import { baseUrl, body, demo, demoEmails, signedIn, type Client } from '../setup/http';
-import { freshContext, hydrated, screenshot, screenshots, signInThroughPage } from '../setup/browser';
+import { accessibilityViolations, freshContext, hydrated, screenshot, screenshots, signInThroughPage } from '../setup/browser';
 import { auditDone, startAuditOf300Items } from '../setup/workspace-waves';
 
 const viewport = { width: 1280, height: 900 };
@@ -181,6 +181,7 @@ describe('the workspace in Chromium', () => {
       expect((await detail.locator('[data-testid=pair-recommendations]').textContent()) ?? '').toContain('Proposal');
       expect(await detail.locator('[data-testid=crosstab-table] tbody tr').count()).toBeGreaterThan(1);
       await detail.screenshot({ path: join(screenshots, 'workspace-04-pair.png') });
+      expect(await accessibilityViolations(page), 'the workspace with a pair open').toEqual([]);
 
       // Re-order: questionnaire order, then by scale, then back.
       await reorder(page, 'questionnaire');

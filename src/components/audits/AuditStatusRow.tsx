@@ -17,12 +17,15 @@ export default function AuditStatusRow({
   canRun,
   onStatus,
   compact = false,
+  headingLevel = 3,
 }: {
   initial: AuditState;
   canRun: boolean;
   onStatus?: (status: AuditState['status']) => void;
   /** In a narrow list: the early cut list without its reasons, with a link to the audit's page. */
   compact?: boolean;
+  /** The level of the early cut list's heading: one below the heading the row sits under. */
+  headingLevel?: 2 | 3;
 }) {
   const [current, setCurrent] = useState(initial);
   const { audit, problem } = useAuditStatus(current);
@@ -67,7 +70,7 @@ export default function AuditStatusRow({
       {(audit.status === 'queued' || audit.status === 'running') && (
         <div className="grid gap-1">
           <AuditProgressBar status={audit.status} stage={audit.stage} percent={audit.percent} />
-          {audit.status === 'running' && audit.earlyCutList && <EarlyCutList cutList={audit.earlyCutList} compact={compact} auditId={audit.id} />}
+          {audit.status === 'running' && audit.earlyCutList && <EarlyCutList cutList={audit.earlyCutList} compact={compact} auditId={audit.id} headingLevel={headingLevel} />}
           {canRun && (
             <div>
               <button type="button" className="button button-quiet text-sm" data-testid="cancel-audit" onClick={cancel} disabled={cancelling}>

@@ -13,6 +13,7 @@ export default function AuditWatcher({ initial, canRun }: { initial: AuditState;
       <AuditStatusRow
         initial={initial}
         canRun={canRun}
+        headingLevel={2}
         onStatus={(status) => {
           const ended = status === 'done' || status === 'failed' || status === 'cancelled';
           if (ended && status !== initial.status) location.reload();

@@ -8,14 +8,27 @@ import { earlyCutListWords, proposedCutLine } from '../../lib/words';
  * not known yet. The finished audit's page replaces it. Compact (a narrow list): the lines
  * without their reasons, and a link to the audit's page, which shows them.
  */
-export default function EarlyCutList({ cutList, compact = false, auditId }: { cutList: EarlyCutListJson; compact?: boolean; auditId: string }) {
+export default function EarlyCutList({
+  cutList,
+  compact = false,
+  auditId,
+  headingLevel = 3,
+}: {
+  cutList: EarlyCutListJson;
+  compact?: boolean;
+  auditId: string;
+  /** 3 in the study page's lists (under their h2), 2 on the running audit's own page (under its h1). */
+  headingLevel?: 2 | 3;
+}) {
   // A page can show the same audit twice (the form's row and the study's list): ids of their own.
   const headingId = useId();
+  const Heading = headingLevel === 2 ? 'h2' : 'h3';
   return (
-    <section className="rounded border border-rule bg-spruce-50/40 px-3 py-2" data-testid="early-cut-list" aria-labelledby={headingId}>
-      <h3 id={headingId} className="text-sm font-semibold">
+    // A group, not a region landmark: the study page can list the same running audit twice.
+    <div role="group" className="rounded border border-rule bg-spruce-50/40 px-3 py-2" data-testid="early-cut-list" aria-labelledby={headingId}>
+      <Heading id={headingId} className="text-sm font-semibold">
         {earlyCutListWords.heading}
-      </h3>
+      </Heading>
       <p className="text-xs text-ink-soft">{earlyCutListWords.note(cutList.resamples)}</p>
       <ol className="mt-1.5 grid list-decimal gap-1 pl-5 text-sm">
         {cutList.recommendations.map((recommendation, index) => (
@@ -30,6 +43,6 @@ export default function EarlyCutList({ cutList, compact = false, auditId }: { cu
           <a href={`/audits/${encodeURIComponent(auditId)}`}>{earlyCutListWords.reasonsLink}</a>
         </p>
       )}
-    </section>
+    </div>
   );
 }

@@ -210,10 +210,10 @@ export default function WaveUpload({
 
       {step === 'upload' && (
         <form onSubmit={upload} className="space-y-4" aria-label="Upload a pilot wave">
-          <aside className="notice max-w-3xl" data-testid="personal-data-caution">
+          <div className="notice max-w-3xl" role="note" data-testid="personal-data-caution">
             Uploads may hold personal data. The original file is kept inside your team only, never published. Columns that look like
             e-mail addresses, names, phone numbers or free text are proposed as <strong>ignore</strong> and are never stored as items.
-          </aside>
+          </div>
           <div className="grid gap-4 lg:grid-cols-[2fr_1fr]">
             <DropZone
               inputId="wave-file"
@@ -318,10 +318,10 @@ export default function WaveUpload({
           ) : (
             <div className="empty-state">{checked.screeningNote ?? 'No screening could be made.'}</div>
           )}
-          <aside className="notice mt-5 max-w-3xl">
+          <div className="notice mt-5 max-w-3xl" role="note">
             Excluded respondents stay in the stored wave and are only left out of audits, so the choice can be changed later. Once stored,
             the wave's column setup no longer changes: audits refer to it.
-          </aside>
+          </div>
           {errorBox}
           <div className="mt-4 flex flex-wrap gap-2">
             <button type="button" className="button" onClick={confirm} disabled={busy} data-testid="confirm-wave">
