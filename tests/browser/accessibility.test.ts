@@ -3,7 +3,8 @@
  * Deque's open-source checker of WCAG 2.1 A and AA and its best practices): no rule may be broken.
  * The published, programmed and approved states of a cut list are checked in handoff.test.ts,
  * where they are made. Any Content-Security-Policy violation fails too: a page that answered "not
- * found" once carried the API's policy, which blocked its own stylesheet.
+ * found" once carried the API's policy, which blocked its own stylesheet. On a phone's width
+ * (390 CSS pixels) no page scrolls sideways: wide tables scroll inside their panel.
  */
 import { describe, expect, it } from 'vitest';
 import { baseUrl, demo, demoEmails } from '../setup/http';
@@ -45,4 +46,22 @@ describe('accessibility of the demo pages (axe-core in Chromium)', () => {
       }
     }, 120_000);
   }
+
+  it("fits every page into a phone's width (390 px), where it breaks no rule either: only wide tables scroll, inside their panel", async () => {
+    for (const [email, paths] of pagesByUser) {
+      const { context, page } = await freshContext({ width: 390, height: 800 });
+      try {
+        if (email !== null) await signInThroughPage(page, email);
+        for (const path of paths) {
+          await page.goto(`${baseUrl()}${path}`);
+          await page.waitForLoadState('networkidle');
+          const { scrollWidth, clientWidth } = await page.evaluate(() => ({ scrollWidth: document.documentElement.scrollWidth, clientWidth: document.documentElement.clientWidth }));
+          expect(scrollWidth, `${email ?? 'signed out'} ${path}`).toBeLessThanOrEqual(clientWidth);
+          expect(await accessibilityViolations(page), `${email ?? 'signed out'} ${path} at 390 px`).toEqual([]);
+        }
+      } finally {
+        await context.close();
+      }
+    }
+  }, 180_000);
 });

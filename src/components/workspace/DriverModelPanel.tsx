@@ -54,7 +54,7 @@ export default function DriverModelPanel({ auditId }: { auditId: string }) {
         </ul>
       )}
       <StandardErrorBars items={items} after={after} hasCut={model.afterCut !== null} />
-      <div className="overflow-x-auto">
+      <div className="overflow-x-auto" role="region" aria-label="Driver model coefficients" tabIndex={0}>
         <table className="dense-table text-sm" data-testid="driver-model-table">
           <thead>
             <tr>

@@ -90,7 +90,7 @@ function CrosstabTable({ crosstab }: { crosstab: Crosstab }) {
   const largest = Math.max(1, ...crosstab.counts.flat().map((count) => count ?? 0));
   return (
     <div className="grid gap-1">
-      <div className="overflow-x-auto">
+      <div className="overflow-x-auto" role="region" aria-label="Crosstab of the pair" tabIndex={0}>
         <table className="dense-table w-auto" data-testid="crosstab-table">
           <caption className="pb-1 text-left text-xs text-ink-soft">
             Rows: {rows.id}{rows.reverse ? ' (reverse-keyed, flipped)' : ''}; columns: {columns.id}{columns.reverse ? ' (reverse-keyed, flipped)' : ''}. Respondents who answered both.

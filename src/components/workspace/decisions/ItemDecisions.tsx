@@ -117,7 +117,7 @@ export default function ItemDecisions({ cutList, busy, onDecide }: Props) {
       {cutList.items.length === 0 ? (
         <div className="empty-state">No confirmed wave yet: items appear here once a wave's column setup is confirmed.</div>
       ) : (
-        <div className="overflow-x-auto">
+        <div className="overflow-x-auto" role="region" aria-label="Decisions item by item" tabIndex={0}>
           <table className="dense-table">
             <thead>
               <tr>
