@@ -26,7 +26,7 @@ export default function InviteForm({ teamId, outbox }: { teamId: string; outbox:
   }
 
   return (
-    <form onSubmit={submit} className="grid gap-3 sm:grid-cols-[2fr_1fr_auto] sm:items-end">
+    <form onSubmit={submit} className="grid grid-cols-[minmax(0,1fr)] gap-3 sm:grid-cols-[2fr_1fr_auto] sm:items-end">
       <div>
         <label className="label" htmlFor="invite-email">E-mail address</label>
         <input className="field" id="invite-email" name="email" type="email" required maxLength={320} placeholder="name@example.org" />

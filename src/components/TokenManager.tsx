@@ -54,30 +54,32 @@ export default function TokenManager({ initialTokens }: { initialTokens: ApiToke
       {tokens.length === 0 ? (
         <p className="empty-state">No tokens. Scripts that call the API need one.</p>
       ) : (
-        <table className="dense-table">
-          <thead>
-            <tr>
-              <th scope="col">Name</th>
-              <th scope="col">Starts with</th>
-              <th scope="col" className="num">Created</th>
-              <th scope="col" className="num">Last used</th>
-              <th scope="col"><span className="sr-only">Revoke</span></th>
-            </tr>
-          </thead>
-          <tbody>
-            {tokens.map((token) => (
-              <tr key={token.id}>
-                <td className="font-semibold">{token.name}</td>
-                <td><code className="font-mono text-sm">{token.prefix}…</code></td>
-                <td className="num">{formatDay(token.createdAt)}</td>
-                <td className="num text-ink-soft">{token.lastUsedAt ? formatDay(token.lastUsedAt) : 'never'}</td>
-                <td className="text-right">
-                  <button type="button" className="text-sm font-semibold text-brick-700 hover:underline" onClick={() => void revoke(token)}>Revoke</button>
-                </td>
+        <div className="relative overflow-x-auto">
+          <table className="dense-table">
+            <thead>
+              <tr>
+                <th scope="col">Name</th>
+                <th scope="col">Starts with</th>
+                <th scope="col" className="num">Created</th>
+                <th scope="col" className="num">Last used</th>
+                <th scope="col"><span className="sr-only">Revoke</span></th>
               </tr>
-            ))}
-          </tbody>
-        </table>
+            </thead>
+            <tbody>
+              {tokens.map((token) => (
+                <tr key={token.id}>
+                  <td className="font-semibold">{token.name}</td>
+                  <td><code className="font-mono text-sm">{token.prefix}…</code></td>
+                  <td className="num">{formatDay(token.createdAt)}</td>
+                  <td className="num text-ink-soft">{token.lastUsedAt ? formatDay(token.lastUsedAt) : 'never'}</td>
+                  <td className="text-right">
+                    <button type="button" className="text-sm font-semibold text-brick-700 hover:underline" onClick={() => void revoke(token)}>Revoke</button>
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </div>
       )}
     </div>
   );

@@ -138,7 +138,7 @@ export default function AuditLauncher({ waves }: { waves: AuditFormWave[] }) {
 
   return (
     <form onSubmit={submit} className="grid gap-5" data-testid="audit-form" key={wave.id}>
-      <div className="grid gap-5 md:grid-cols-3">
+      <div className="grid grid-cols-[minmax(0,1fr)] gap-5 md:grid-cols-3">
         <fieldset className="grid content-start gap-3">
           <legend className="mb-2 text-xs font-semibold uppercase tracking-wide text-ink-faint">Data</legend>
           {waves.length > 1 && (

@@ -64,7 +64,7 @@ export default function StudySettingsForm(props: Props) {
   };
   return (
     <form onSubmit={save} className="panel mt-3 space-y-4 p-4" data-testid="study-settings-form">
-      <div className="grid gap-4 md:grid-cols-2">
+      <div className="grid grid-cols-[minmax(0,1fr)] gap-4 md:grid-cols-2">
         <div>
           <label className="label" htmlFor="study-name">Name</label>
           <input id="study-name" className="field" value={name} required maxLength={200} onChange={(e) => setName(e.target.value)} />

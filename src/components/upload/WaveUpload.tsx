@@ -214,7 +214,7 @@ export default function WaveUpload({
             Uploads may hold personal data. The original file is kept inside your team only, never published. Columns that look like
             e-mail addresses, names, phone numbers or free text are proposed as <strong>ignore</strong> and are never stored as items.
           </div>
-          <div className="grid gap-4 lg:grid-cols-[2fr_1fr]">
+          <div className="grid grid-cols-[minmax(0,1fr)] gap-4 lg:grid-cols-[2fr_1fr]">
             <DropZone
               inputId="wave-file"
               testId="wave-drop"

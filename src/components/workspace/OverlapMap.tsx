@@ -394,7 +394,7 @@ export default function OverlapMap({ auditId }: { auditId: string }) {
         </div>
       </div>
 
-      <div className="grid gap-4 lg:grid-cols-[minmax(0,1fr)_18rem]">
+      <div className="grid grid-cols-[minmax(0,1fr)] gap-4 lg:grid-cols-[minmax(0,1fr)_18rem]">
         <div ref={wrapper} className="min-w-0">
           <div
             className="relative focus:outline-none focus-visible:ring-2 focus-visible:ring-spruce-600"

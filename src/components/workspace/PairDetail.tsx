@@ -45,7 +45,7 @@ export default function PairDetail({ auditId, data, a, b, evidence, onClose }: {
           Close the pair
         </button>
       </div>
-      <div className="grid gap-4 md:grid-cols-2">
+      <div className="grid grid-cols-[minmax(0,1fr)] gap-4 md:grid-cols-2">
         <HoverCard data={data} i={a} j={b} evidence={evidence} cluster={cluster >= 0 ? cluster : null} />
         <div className="grid content-start gap-2 text-sm" data-testid="pair-recommendations">
           <h4 className="font-semibold">What the audit proposes</h4>

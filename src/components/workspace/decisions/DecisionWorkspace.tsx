@@ -136,7 +136,7 @@ export default function DecisionWorkspace({ studyId }: { studyId: string }) {
         </p>
       )}
 
-      <div className="grid gap-5 lg:grid-cols-3">
+      <div className="grid grid-cols-[minmax(0,1fr)] gap-5 lg:grid-cols-3">
         <div className="min-w-0 space-y-5 lg:col-span-2">
           <RecommendationList cutList={cutList} busy={busy} onAccept={accept} />
           <ItemDecisions cutList={cutList} busy={busy} onDecide={decide} />
