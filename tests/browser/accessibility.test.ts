@@ -7,7 +7,7 @@
  * (390 CSS pixels) no page scrolls sideways: wide tables scroll inside their panel.
  */
 import { beforeAll, describe, expect, it } from 'vitest';
-import { baseUrl, demo, demoEmails, signedIn } from '../setup/http';
+import { baseUrl, demo, demoEmails, inviteAndReadToken, signedIn, uniqueEmail } from '../setup/http';
 import { accessibilityViolations, freshContext, signInThroughPage } from '../setup/browser';
 
 const audit = 'audit-riverbend-pilot-1';
@@ -26,10 +26,12 @@ const pagesByUser: [string | null, string[]][] = [
 ];
 
 describe('accessibility of the demo pages (axe-core in Chromium)', () => {
-  // The owner's account page lists an API token, so its table is checked too (wide on a phone).
+  // The owner's account page lists an API token and the outbox an invitation with its long link,
+  // so both are checked as they look with content (wide on a phone).
   beforeAll(async () => {
     const owner = await signedIn(demoEmails.owner);
     expect((await owner.post('/api/tokens', { name: 'accessibility check, a long token name for a narrow screen' })).status).toBe(201);
+    await inviteAndReadToken(owner, demo.team, uniqueEmail('a-rather-long-address-for-a-narrow-screen'), 'client_reviewer');
   });
 
   for (const [email, paths] of pagesByUser) {
