@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { belsleyCollinearity, belsleyCollinearityFromMoments } from '../../src/lib/stats/belsley-collinearity';
 import { centeredCrossProducts } from '../../src/lib/stats/cross-products';
-import { emCovariance } from '../../src/lib/stats/em-covariance';
+import { emCovariance, EmEstimateRefusal } from '../../src/lib/stats/em-covariance';
 import { itemMatrixFromRows } from '../../src/lib/stats/types';
 import { emFixture, largestDifference } from './local-dependence-fixtures';
 
@@ -59,6 +59,17 @@ describe('emCovariance', () => {
       [2, 2, 3],
     ]);
     expect(() => emCovariance(copies)).toThrow(/singular/);
+    // The reason, for callers that say why they fell back to complete rows (compute-evidence.ts).
+    const reasonOf = (matrix: Parameters<typeof emCovariance>[0]): string | null => {
+      try {
+        emCovariance(matrix);
+        return null;
+      } catch (error) {
+        return error instanceof EmEstimateRefusal ? error.reason : 'another error';
+      }
+    };
+    expect(reasonOf(copies)).toBe('singular');
+    expect(reasonOf(itemMatrixFromRows([[1, 2], [1, 3], [1, 4]]))).toBe('items-without-variance');
   });
 });
 

@@ -19,7 +19,7 @@ import { completeDraws, completeRows } from '../stats/complete-rows';
 import { covarianceMatrix } from '../stats/covariance-matrix';
 import { centeredCrossProducts, crossProductsOfItems, type CenteredCrossProducts } from '../stats/cross-products';
 import { cronbachAlpha } from '../stats/cronbach-alpha';
-import { emCovariance } from '../stats/em-covariance';
+import { emCovariance, EmEstimateRefusal } from '../stats/em-covariance';
 import { itemDescriptives } from '../stats/item-descriptives';
 import { itemRestCorrelations } from '../stats/item-rest-correlation';
 import { minresOneFactor } from '../stats/minres-factor';
@@ -485,11 +485,13 @@ function collinearityEvidence(
       fromEm = true;
     } catch (error) {
       if (!(error instanceof RangeError)) throw error;
-      emRefused = /singular/.test(error.message)
-        ? 'its covariance matrix is singular, as it is when items are exactly linearly dependent (such as a duplicated column)'
-        : /fewer than two answers/.test(error.message)
-          ? 'an item has fewer than two answers or no variation'
-          : 'the estimate could not be made';
+      const reason = error instanceof EmEstimateRefusal ? error.reason : null;
+      emRefused =
+        reason === 'singular'
+          ? 'its covariance matrix is singular, as it is when items are exactly linearly dependent (such as a duplicated column)'
+          : reason === 'items-without-variance'
+            ? 'an item has fewer than two answers or no variation'
+            : 'the estimate could not be made';
     }
   }
   if (fromEm) {

@@ -25,6 +25,21 @@ import { EM_MAX_ITERATIONS, EM_TOLERANCE, ZERO_VARIANCE_RELATIVE_TOLERANCE } fro
 import type { ItemMatrix, NumericalNotice, SquareMatrix } from './types';
 
 /** Options of `emCovariance`. */
+/**
+ * Why the EM estimate cannot be made, for callers that fall back to complete rows and say why:
+ * `items-without-variance` (an item with fewer than two answers or no variation) or `singular`
+ * (the covariance estimate has an exact dependency). A RangeError, as every refusal of the core.
+ */
+export class EmEstimateRefusal extends RangeError {
+  readonly reason: 'items-without-variance' | 'singular';
+
+  constructor(reason: EmEstimateRefusal['reason'], message: string) {
+    super(message);
+    this.name = 'EmEstimateRefusal';
+    this.reason = reason;
+  }
+}
+
 export interface EmCovarianceOptions {
   /** Convergence tolerance (default EM_TOLERANCE), > 0. */
   readonly tolerance?: number;
@@ -59,9 +74,9 @@ export interface EmCovarianceResult {
  * @param matrix Respondents × items, column-major, NaN for a missing answer.
  * @param options Tolerance and iteration limit.
  * @throws {RangeError} when the shape is wrong or a value is ±Infinity.
- * @throws {RangeError} naming every item with fewer than two answers or no variation among its
- *   answers (exclude constant items first).
- * @throws {RangeError} when the covariance estimate becomes singular (an exact linear dependency
+ * @throws {EmEstimateRefusal} (`items-without-variance`) naming every item with fewer than two
+ *   answers or no variation among its answers (exclude constant items first).
+ * @throws {EmEstimateRefusal} (`singular`) when the covariance estimate becomes singular (an exact linear dependency
  *   among the items, or more items than respondents): the EM needs Σ invertible; use complete
  *   rows and report the dependency instead.
  * @returns Means, covariance (divisor n), rows used, iterations and convergence.
@@ -125,7 +140,7 @@ export function emCovariance(matrix: ItemMatrix, options: EmCovarianceOptions = 
     sigma[j * p + j] = variance;
   }
   if (badItems.length > 0) {
-    throw new RangeError(`emCovariance: item(s) ${badItems.join(', ')} have fewer than two answers or no variation; exclude them first`);
+    throw new EmEstimateRefusal('items-without-variance', `emCovariance: item(s) ${badItems.join(', ')} have fewer than two answers or no variation; exclude them first`);
   }
 
   // Sums over complete rows, fixed across iterations.
@@ -156,7 +171,8 @@ export function emCovariance(matrix: ItemMatrix, options: EmCovarianceOptions = 
   while (iterations < maxIterations) {
     iterations++;
     if (!invertPositiveDefiniteInto(sigma, p, precision, work)) {
-      throw new RangeError(
+      throw new EmEstimateRefusal(
+        'singular',
         'emCovariance: the covariance estimate is singular (an exact linear dependency among the items, or too few respondents); use complete rows and report the dependency',
       );
     }
@@ -182,7 +198,7 @@ export function emCovariance(matrix: ItemMatrix, options: EmCovarianceOptions = 
         for (let c = 0; c < m; c++) small[a * m + c] = precision[offset + missing[c]];
       }
       if (!invertPositiveDefiniteInto(small, m, smallInverse, work)) {
-        throw new RangeError('emCovariance: a conditional covariance is singular; the covariance estimate has an exact dependency');
+        throw new EmEstimateRefusal('singular', 'emCovariance: a conditional covariance is singular; the covariance estimate has an exact dependency');
       }
       // x̂_M = μ_M − (Θ_MM)⁻¹ b
       for (let a = 0; a < m; a++) {
