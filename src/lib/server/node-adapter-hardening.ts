@@ -41,14 +41,21 @@ interface Edit {
   replace: string;
 }
 
-/** The API's security headers and JSON content type on a raw Node response, as the adapter's own answers lack them. */
-const jsonErrorHeaders = `
-      res.setHeader("Content-Type", "application/json; charset=utf-8");
-      res.setHeader("Cache-Control", "no-store");
-      res.setHeader("X-Content-Type-Options", "nosniff");
-      res.setHeader("X-Frame-Options", "DENY");
-      res.setHeader("Referrer-Policy", "same-origin");
-      res.setHeader("Content-Security-Policy", "default-src 'none'; frame-ancestors 'none'");`;
+/** The API's security headers and JSON content type, which the adapter's own answers lack. */
+const apiErrorHeaders: readonly (readonly [string, string])[] = [
+  ['Content-Type', 'application/json; charset=utf-8'],
+  ['Cache-Control', 'no-store'],
+  ['X-Content-Type-Options', 'nosniff'],
+  ['X-Frame-Options', 'DENY'],
+  ['Referrer-Policy', 'same-origin'],
+  ['Content-Security-Policy', "default-src 'none'; frame-ancestors 'none'"],
+];
+
+/** {@link apiErrorHeaders} set on a raw Node response (code inserted into the adapter). */
+const jsonErrorHeaders = apiErrorHeaders.map(([name, value]) => `\n      res.setHeader(${JSON.stringify(name)}, ${JSON.stringify(value)});`).join('');
+
+/** {@link apiErrorHeaders} as the header lines (each ending in CR LF) of a response written straight to a socket. */
+const rawErrorHeaderLines = apiErrorHeaders.map(([name, value]) => `${name}: ${value}\r\n`).join('');
 
 const refusedMethodAnswer = `
       const refusedMethod = /^(TRACE|TRACK|CONNECT)$/i.test(String(req.method ?? ""));
@@ -88,9 +95,8 @@ const unreadableRequestAnswer = `
     const text = JSON.stringify({ error: body });
     socket.end(
       "HTTP/1.1 " + status + " " + reason + "\\r\\n" +
-        "Content-Type: application/json; charset=utf-8\\r\\nContent-Length: " + Buffer.byteLength(text) + "\\r\\n" +
-        "Cache-Control: no-store\\r\\nX-Content-Type-Options: nosniff\\r\\nX-Frame-Options: DENY\\r\\nReferrer-Policy: same-origin\\r\\n" +
-        "Content-Security-Policy: default-src 'none'; frame-ancestors 'none'\\r\\nConnection: close\\r\\n\\r\\n" + text,
+        ${JSON.stringify(rawErrorHeaderLines)} +
+        "Content-Length: " + Buffer.byteLength(text) + "\\r\\nConnection: close\\r\\n\\r\\n" + text,
     );
   });`;
 
