@@ -8,6 +8,7 @@
  */
 import { beforeAll, describe, expect, it } from 'vitest';
 import { baseUrl, demo, demoEmails, inviteAndReadToken, signedIn, uniqueEmail } from '../setup/http';
+import type { Page } from 'playwright-core';
 import { accessibilityViolations, freshContext, signInThroughPage } from '../setup/browser';
 
 const audit = 'audit-riverbend-pilot-1';
@@ -36,40 +37,49 @@ describe('accessibility of the demo pages (axe-core in Chromium)', () => {
 
   for (const [email, paths] of pagesByUser) {
     it(`breaks no rule on the pages ${email ?? 'a signed-out visitor'} opens`, async () => {
-      const { context, page, problems } = await freshContext({ width: 1280, height: 900 });
-      try {
-        if (email !== null) await signInThroughPage(page, email);
-        for (const path of paths) {
-          await page.goto(`${baseUrl()}${path}`);
-          await page.waitForLoadState('networkidle');
-          expect(await accessibilityViolations(page), `${email ?? 'signed out'} ${path}`).toEqual([]);
-          if (email === demoEmails.outsider) {
-            await expect(page.locator('h1').textContent()).resolves.toBe('Nothing here');
-            expect(await page.evaluate(() => getComputedStyle(document.body).backgroundColor), 'the stylesheet applies').not.toBe('rgba(0, 0, 0, 0)');
-          }
+      const problems = await visitEach(email, paths, { width: 1280, height: 900 }, async (page, label) => {
+        expect(await accessibilityViolations(page), label).toEqual([]);
+        if (email === demoEmails.outsider) {
+          await expect(page.locator('h1').textContent()).resolves.toBe('Nothing here');
+          expect(await page.evaluate(() => getComputedStyle(document.body).backgroundColor), 'the stylesheet applies').not.toBe('rgba(0, 0, 0, 0)');
         }
-        expect(problems.filter((problem) => !/status of 404/.test(problem))).toEqual([]);
-      } finally {
-        await context.close();
-      }
+      });
+      expect(problems.filter((problem) => !/status of 404/.test(problem))).toEqual([]);
     }, 120_000);
   }
 
   it("fits every page into a phone's width (390 px), where it breaks no rule either: only wide tables scroll, inside their panel", async () => {
     for (const [email, paths] of pagesByUser) {
-      const { context, page } = await freshContext({ width: 390, height: 800 });
-      try {
-        if (email !== null) await signInThroughPage(page, email);
-        for (const path of paths) {
-          await page.goto(`${baseUrl()}${path}`);
-          await page.waitForLoadState('networkidle');
-          const { scrollWidth, clientWidth } = await page.evaluate(() => ({ scrollWidth: document.documentElement.scrollWidth, clientWidth: document.documentElement.clientWidth }));
-          expect(scrollWidth, `${email ?? 'signed out'} ${path}`).toBeLessThanOrEqual(clientWidth);
-          expect(await accessibilityViolations(page), `${email ?? 'signed out'} ${path} at 390 px`).toEqual([]);
-        }
-      } finally {
-        await context.close();
-      }
+      await visitEach(email, paths, { width: 390, height: 800 }, async (page, label) => {
+        const { scrollWidth, clientWidth } = await page.evaluate(() => ({ scrollWidth: document.documentElement.scrollWidth, clientWidth: document.documentElement.clientWidth }));
+        expect(scrollWidth, label).toBeLessThanOrEqual(clientWidth);
+        expect(await accessibilityViolations(page), `${label} at 390 px`).toEqual([]);
+      });
     }
   }, 180_000);
 });
+
+/**
+ * Opens each path in a fresh Chromium of the given size, signed in as `email` (null: signed out),
+ * and runs `check` on the loaded page with a label naming the user and path.
+ * @returns The page's problems (console errors, page errors, CSP violations) over all paths.
+ */
+async function visitEach(
+  email: string | null,
+  paths: readonly string[],
+  viewport: { width: number; height: number },
+  check: (page: Page, label: string) => Promise<void>,
+): Promise<string[]> {
+  const { context, page, problems } = await freshContext(viewport);
+  try {
+    if (email !== null) await signInThroughPage(page, email);
+    for (const path of paths) {
+      await page.goto(`${baseUrl()}${path}`);
+      await page.waitForLoadState('networkidle');
+      await check(page, `${email ?? 'signed out'} ${path}`);
+    }
+    return [...problems];
+  } finally {
+    await context.close();
+  }
+}
