@@ -10,9 +10,7 @@
  * The sum over u runs over every node; with a zero diagonal the terms u = i and u = j vanish.
  * Signed weights are taken in absolute value (the unsigned wTO of Unique Variable Analysis).
  *
- * References: Nowick, Gernat, Almaas & Stubbs 2009, "Differences in human and chimpanzee gene
- * expression patterns define an evolving network of transcription factors in brain" (PNAS
- * 106:22358-22363), for the weighted form; Zhang & Horvath 2005, "A general framework for
+ * References: Nowick, Gernat, Almaas & Stubbs 2009 (PNAS 106:22358-22363), for the weighted form; Zhang & Horvath 2005, "A general framework for
  * weighted gene co-expression network analysis" (Statistical Applications in Genetics and
  * Molecular Biology 4:17), for topological overlap; Christensen, Garrido & Golino 2023, "Unique
  * Variable Analysis: A network psychometrics method to detect local dependence" (Multivariate
