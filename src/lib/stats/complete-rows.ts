@@ -3,7 +3,7 @@
  * listwise deletion, the Belsley-Kuh-Welsch data matrix and the respondents counted for
  * pairwise statistics. One place, so every statistic counts rows the same way.
  */
-import type { ItemMatrix } from './types';
+import { keptPerMatrix, type ItemMatrix } from './types';
 
 /**
  * The respondents with every item observed (no NaN), in order.
@@ -56,14 +56,8 @@ export function rowsWithAnyAnswer(matrix: ItemMatrix): number {
   return count;
 }
 
-/** Each item's missing rows, of each matrix seen, by its data (a bootstrap's resamples share one matrix). */
-const missingRowsByMatrix = new WeakMap<Float64Array, readonly Int32Array[]>();
-
-/** The rows each item misses (ascending), found once per matrix. */
-function missingRowsOfItems(matrix: ItemMatrix): readonly Int32Array[] {
-  const known = missingRowsByMatrix.get(matrix.data);
-  if (known !== undefined) return known;
-  const { rows, columns, data } = matrix;
+/** The rows each item misses (ascending), found once per matrix (a bootstrap's resamples share one). */
+const missingRowsOfItems = keptPerMatrix(({ rows, columns, data }): readonly Int32Array[] => {
   const lists: Int32Array[] = [];
   for (let j = 0; j < columns; j++) {
     const offset = j * rows;
@@ -73,9 +67,8 @@ function missingRowsOfItems(matrix: ItemMatrix): readonly Int32Array[] {
     for (let i = 0, m = 0; i < rows; i++) if (data[offset + i] !== data[offset + i]) list[m++] = i;
     lists.push(list);
   }
-  missingRowsByMatrix.set(matrix.data, lists);
   return lists;
-}
+});
 
 /**
  * The complete respondents of a resample without building it: the positions k (ascending) in

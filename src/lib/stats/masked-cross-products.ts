@@ -29,7 +29,7 @@
 import { accumulateCenteredProducts } from './centered-products-kernel';
 import { CROSS_PRODUCT_BLOCK_ROWS, mirrorUpperTriangle } from './cross-products';
 import { MASKED_PRODUCTS_CANCELLATION_LIMIT } from './tolerances';
-import type { ItemMatrix } from './types';
+import { keptPerMatrix, type ItemMatrix } from './types';
 
 /** The four pairwise-complete products of `maskedCrossProducts`, each row-major `order × order`. */
 export interface MaskedCrossProducts {
@@ -45,9 +45,6 @@ export interface MaskedCrossProducts {
   /** P_jk: Σ of the products of j's and k's shifted values over the respondents who answered both. Symmetric. */
   readonly products: Float64Array;
 }
-
-/** maskedCrossProducts of each matrix seen, by its data array (an audit's pairwise correlations and covariances share one pass). */
-const maskedOfMatrix = new WeakMap<Float64Array, { readonly rows: number; readonly products: MaskedCrossProducts }>();
 
 /**
  * The pairwise-complete counts, sums, sums of squares and cross-products of every pair of items.
@@ -66,15 +63,11 @@ export function maskedCrossProducts(matrix: ItemMatrix): MaskedCrossProducts {
   if (!Number.isInteger(rows) || rows < 0 || data.length !== rows * order) {
     throw new RangeError(`maskedCrossProducts: data holds ${data.length} values, expected rows × columns = ${rows * order}`);
   }
-  const known = maskedOfMatrix.get(data);
-  if (known !== undefined && known.rows === rows && known.products.order === order) return known.products;
-  const products = computeMaskedCrossProducts(rows, order, data);
-  maskedOfMatrix.set(data, { rows, products });
-  return products;
+  return maskedOfMatrix(matrix);
 }
 
-/** The work of `maskedCrossProducts` for a checked matrix. */
-function computeMaskedCrossProducts(rows: number, order: number, data: Float64Array): MaskedCrossProducts {
+/** The work of `maskedCrossProducts` for a checked matrix, once per matrix (an audit's pairwise correlations and covariances share one pass). */
+const maskedOfMatrix = keptPerMatrix(({ rows, columns: order, data }): MaskedCrossProducts => {
   // Shifts, and the shifted data with every missing value set to the shift (so x − shift = 0 there).
   const shifts = new Float64Array(order);
   const filled = new Float64Array(rows * order);
@@ -163,7 +156,7 @@ function computeMaskedCrossProducts(rows: number, order: number, data: Float64Ar
     }
   }
   return { order, shifts, counts, sums, squares, products };
-}
+});
 
 /** The pair-complete centred sums of items j and k (see `pairCentredSums`). */
 export interface PairCentredSums {

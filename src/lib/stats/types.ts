@@ -138,6 +138,26 @@ export function deferredSelection(matrix: ItemMatrix, respondents: ArrayLike<num
   };
 }
 
+/**
+ * A function of a matrix whose result is found once per matrix and kept while the matrix lives,
+ * by its data array and shape (a bootstrap's resamples, or the correlations and covariances of
+ * one wave, read the same original matrix). The matrix is not to be modified once seen: the kept
+ * result would no longer be its own.
+ * @param compute The function, of the matrix alone.
+ * @returns The same function, computing once per matrix.
+ * References: none (memoisation).
+ */
+export function keptPerMatrix<T>(compute: (matrix: ItemMatrix) => T): (matrix: ItemMatrix) => T {
+  const kept = new WeakMap<Float64Array, { readonly rows: number; readonly columns: number; readonly value: T }>();
+  return (matrix) => {
+    const known = kept.get(matrix.data);
+    if (known !== undefined && known.rows === matrix.rows && known.columns === matrix.columns) return known.value;
+    const value = compute(matrix);
+    kept.set(matrix.data, { rows: matrix.rows, columns: matrix.columns, value });
+    return value;
+  };
+}
+
 /** The rows a bootstrap resample draws, each once, with how often it is drawn (see `distinctDraws`). */
 export interface DistinctDraws {
   /** The drawn rows, ascending. */

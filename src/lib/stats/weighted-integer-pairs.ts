@@ -11,7 +11,7 @@
  */
 import type { ItemPair } from './correlation-matrix';
 import { MIN_ROWS_FOR_CORRELATION, MIN_ROWS_FOR_COVARIANCE } from './tolerances';
-import type { ItemMatrix } from './types';
+import { keptPerMatrix, type ItemMatrix } from './types';
 
 /** Where the pair loops write. */
 export interface PairTargets {
@@ -251,14 +251,8 @@ interface IncompleteRows {
   readonly packed: Float64Array;
 }
 
-/** incompleteRows of each matrix seen, by its data (a bootstrap's resamples share one matrix). */
-const incompleteRowsOfMatrix = new WeakMap<Float64Array, IncompleteRows>();
-
-/** The rows of the matrix that miss an answer, copied row by row, found once per matrix. */
-function incompleteRows(matrix: ItemMatrix): IncompleteRows {
-  const known = incompleteRowsOfMatrix.get(matrix.data);
-  if (known !== undefined) return known;
-  const { rows, columns, data } = matrix;
+/** The rows of the matrix that miss an answer, copied row by row, found once per matrix (a bootstrap's resamples share one). */
+const incompleteRows = keptPerMatrix(({ rows, columns, data }): IncompleteRows => {
   const slot = new Int32Array(rows).fill(-1);
   let count = 0;
   for (let i = 0; i < rows; i++) {
@@ -281,10 +275,8 @@ function incompleteRows(matrix: ItemMatrix): IncompleteRows {
     const x = values[index];
     packed[index] = x === x ? 1 + laneScale * x + laneScale * laneScale * (x * x) : 0;
   }
-  const found = { slot, values, packed };
-  incompleteRowsOfMatrix.set(matrix.data, found);
-  return found;
-}
+  return { slot, values, packed };
+});
 
 /** The thread's scratch arrays of the integer path, by use (each call overwrites what it reads). */
 const SCRATCH_WX = 0;

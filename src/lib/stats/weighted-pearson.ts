@@ -15,7 +15,7 @@ import { finishCorrelationMatrix, type CorrelationMatrixResult } from './correla
 import type { CovarianceMatrixResult } from './covariance-matrix';
 import type { CorrelationRepairMethod } from './nearest-correlation';
 import { MIN_ROWS_FOR_CORRELATION, MIN_ROWS_FOR_COVARIANCE } from './tolerances';
-import { distinctDraws, type ItemMatrix, type NumericalNotice } from './types';
+import { distinctDraws, keptPerMatrix, type ItemMatrix, type NumericalNotice } from './types';
 import { fillIntegerColumns, integerPairs, packedLanes, recordPairCount, weightWithAnswer, type PairTargets } from './weighted-integer-pairs';
 
 /** Both matrices of one resample over the chosen items. */
@@ -134,17 +134,8 @@ interface AnswerTraits {
   readonly largest: number;
 }
 
-/** answerTraits of each matrix seen, by its data (a bootstrap's resamples share one matrix). */
-const wholeMatrixTraits = new WeakMap<Float64Array, AnswerTraits>();
-
-/** The traits of every observed answer of the matrix, found once per matrix. */
-function answerTraits(matrix: ItemMatrix): AnswerTraits {
-  const known = wholeMatrixTraits.get(matrix.data);
-  if (known !== undefined) return known;
-  const traits = traitsOf(matrix.data, 0, matrix.data.length, null);
-  wholeMatrixTraits.set(matrix.data, traits);
-  return traits;
-}
+/** The traits of every observed answer of the matrix, found once per matrix (a bootstrap's resamples share one). */
+const answerTraits = keptPerMatrix((matrix): AnswerTraits => traitsOf(matrix.data, 0, matrix.data.length, null));
 
 /** The traits of the drawn rows of the listed items. */
 function drawnAnswerTraits(matrix: ItemMatrix, columns: readonly number[], drawn: Int32Array): AnswerTraits {
