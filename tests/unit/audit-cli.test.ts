@@ -3,10 +3,10 @@
  * sentence for input it refuses (no stack trace), the same reader as an upload.
  */
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { beforeAll, describe, expect, it } from 'vitest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { resolveAuditSettings } from '../../src/lib/audit/settings-table';
 import { proposedCutLine } from '../../src/lib/words';
 
@@ -53,9 +53,22 @@ describe('the command-line bundle', () => {
   }, 240_000);
 });
 
+/** The temporary folders this file made, removed when it ends. */
+const folders: string[] = [];
+afterAll(() => {
+  for (const folder of folders) rmSync(folder, { recursive: true, force: true });
+});
+
+/** A new temporary folder, removed when the file's tests end. */
+function temporaryFolder(prefix: string): string {
+  const folder = mkdtempSync(join(tmpdir(), prefix));
+  folders.push(folder);
+  return folder;
+}
+
 /** A settings file in a temporary folder. */
 function settingsFile(content: unknown): string {
-  const path = join(mkdtempSync(join(tmpdir(), 'paredown-cli-settings-')), 'settings.json');
+  const path = join(temporaryFolder('paredown-cli-settings-'), 'settings.json');
   writeFileSync(path, JSON.stringify(content));
   return path;
 }
@@ -83,7 +96,7 @@ describe('npm run audit', () => {
   }, 240_000);
 
   it('audits the demo file end to end and writes the JSON', () => {
-    const out = join(mkdtempSync(join(tmpdir(), 'paredown-cli-')), 'audit.json');
+    const out = join(temporaryFolder('paredown-cli-'), 'audit.json');
     const result = audit('fixtures/demo/library-pilot-1.xlsx', '--bootstrap', '10', '--method', 'spearman', '--out', out);
     expect(result.stderr).toMatch(/Read 400 respondents/);
     expect(result.code).toBe(0);
@@ -124,7 +137,7 @@ describe('npm run audit', () => {
   });
 
   it('echoes the settings of flags and --settings in the one stored shape, flags over the file', () => {
-    const out = join(mkdtempSync(join(tmpdir(), 'paredown-cli-')), 'audit.json');
+    const out = join(temporaryFolder('paredown-cli-'), 'audit.json');
     const file = settingsFile({ method: 'spearman', strongPairThreshold: 0.85, seed: 5 });
     const result = audit('fixtures/demo/library-pilot-1.csv', '--settings', file, '--seed=-7', '--locked', 'coll_2,events_3', '--bootstrap', '0', '--out', out);
     expect(result.code, result.stderr).toBe(0);

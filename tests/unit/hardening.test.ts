@@ -5,7 +5,7 @@
  * the size unit and Strict-Transport-Security. The HTTP side is tests/api/hardening.test.ts.
  */
 import { spawnSync } from 'node:child_process';
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -147,6 +147,7 @@ describe('nothingToCompute', () => {
     const file = join(folder, 'constant.csv');
     writeFileSync(file, ['respondent_id,Q1,Q2,Q3', ...Array.from({ length: 12 }, (_, i) => `r${i},3,4,2`)].join('\n') + '\n');
     const result = spawnSync(process.execPath, ['--import', 'tsx', 'src/cli/audit.ts', file, '--bootstrap', '0'], { encoding: 'utf8', timeout: 120_000 });
+    rmSync(folder, { recursive: true, force: true });
     expect(result.status).toBe(2);
     expect(result.stdout).toBe('');
     expect(result.stderr.trim().split('\n').at(-1)).toBe('paredown audit: No item has two different answers among the 12 respondents in the audit, so there is nothing to compare; check the column setup and the exclusions.');
