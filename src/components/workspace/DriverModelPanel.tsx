@@ -1,6 +1,7 @@
 import { useEffect, useState } from 'react';
 import { driverModelApi, type DriverCoefficientView, type DriverModelResponse } from '../../lib/api/driver-model';
 import { driverModelRowsNote, overlapSentences } from '../../lib/words/outcome';
+import { ScrollRegion } from '../ScrollRegion';
 
 /**
  * The driver model's panel: the coefficient table before and after the proposed cut, and each
@@ -54,7 +55,7 @@ export default function DriverModelPanel({ auditId }: { auditId: string }) {
         </ul>
       )}
       <StandardErrorBars items={items} after={after} hasCut={model.afterCut !== null} />
-      <div className="overflow-x-auto" role="region" aria-label="Driver model coefficients" tabIndex={0}>
+      <ScrollRegion label="Driver model coefficients">
         <table className="dense-table text-sm" data-testid="driver-model-table">
           <thead>
             <tr>
@@ -86,7 +87,7 @@ export default function DriverModelPanel({ auditId }: { auditId: string }) {
             })}
           </tbody>
         </table>
-      </div>
+      </ScrollRegion>
     </div>
   );
 }

@@ -8,6 +8,7 @@ import { useEffect, useRef, useState } from 'react';
 import { callApi } from '../../lib/api/client';
 import type { Crosstab, OverlapMap, OverlapMapPair } from '../../lib/api/overlap-map';
 import { HoverCard } from './PairFigures';
+import { ScrollRegion } from '../ScrollRegion';
 
 const actionWords: Record<string, string> = { drop: 'drop', merge: 'merge into', reword: 'reword', keep: 'keep' };
 
@@ -90,7 +91,7 @@ function CrosstabTable({ crosstab }: { crosstab: Crosstab }) {
   const largest = Math.max(1, ...crosstab.counts.flat().map((count) => count ?? 0));
   return (
     <div className="grid gap-1">
-      <div className="overflow-x-auto" role="region" aria-label="Crosstab of the pair" tabIndex={0}>
+      <ScrollRegion label="Crosstab of the pair">
         <table className="dense-table w-auto" data-testid="crosstab-table">
           <caption className="pb-1 text-left text-xs text-ink-soft">
             Rows: {rows.id}{rows.reverse ? ' (reverse-keyed, flipped)' : ''}; columns: {columns.id}{columns.reverse ? ' (reverse-keyed, flipped)' : ''}. Respondents who answered both.
@@ -135,7 +136,7 @@ function CrosstabTable({ crosstab }: { crosstab: Crosstab }) {
             )}
           </tbody>
         </table>
-      </div>
+      </ScrollRegion>
       <p className="text-xs text-ink-faint" data-testid="crosstab-note">
         {crosstab.answeredBoth} of the {crosstab.respondents} respondents the audit used answered both; {crosstab.missingEither} missed one or both.
         {crosstab.suppressedCells > 0 && ` ${crosstab.suppressedCells} small ${crosstab.suppressedCells === 1 ? 'cell is' : 'cells are'} withheld (fewer than ${crosstab.suppressedBelow} respondents, or needed to keep one from being worked out), and the totals with them: your role sees aggregates only.`}

@@ -3,6 +3,7 @@ import { decisionKinds, decisionLabels, type CutListItem, type CutListResponse, 
 import { formatNumber, lockedCaution } from '../../../lib/words';
 import { formatDayAndTime } from '../../date-words';
 import { decisionPhrase, mergeTargets, stabilityPhrase } from './decision-words';
+import { ScrollRegion } from '../../ScrollRegion';
 
 type Change = { decision: DecisionKind; into: string | null; wording: string | null; reason: string };
 
@@ -117,7 +118,7 @@ export default function ItemDecisions({ cutList, busy, onDecide }: Props) {
       {cutList.items.length === 0 ? (
         <div className="empty-state">No confirmed wave yet: items appear here once a wave's column setup is confirmed.</div>
       ) : (
-        <div className="overflow-x-auto" role="region" aria-label="Decisions item by item" tabIndex={0}>
+        <ScrollRegion label="Decisions item by item">
           <table className="dense-table">
             <thead>
               <tr>
@@ -186,7 +187,7 @@ export default function ItemDecisions({ cutList, busy, onDecide }: Props) {
               ))}
             </tbody>
           </table>
-        </div>
+        </ScrollRegion>
       )}
     </section>
   );
