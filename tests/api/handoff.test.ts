@@ -43,6 +43,12 @@ afterAll(async () => {
   for (const id of made) await owner.delete(`/api/studies/${id}`);
 });
 
+/** The study's handoff as the caller's studies list (GET /api/studies) shows it. */
+async function listedHandoff(client: Client): Promise<{ latestVersion: { number: number; publishedAt: string; programmedAt: string | null } | null; review: string }> {
+  const { studies } = await body(await client.get('/api/studies'));
+  return studies.find((entry: { id: string }) => entry.id === study.studyId).handoff;
+}
+
 describe('publishing', () => {
   it('refuses with 409 naming the undecided items, and writes nothing', async () => {
     const before = lastMailId();
@@ -79,9 +85,12 @@ describe('publishing', () => {
       hours_2: { decision: 'merge', into: 'hours_1', reason: FORMULA_REASON },
       coll_1: { decision: 'reword', wording: MARKUP_WORDING, reason: 'Clearer.' },
     });
+    expect(await listedHandoff(field)).toEqual({ latestVersion: null, review: 'none-published' });
     const before = lastMailId();
     const response = await designer.post(`/api/studies/${study.studyId}/cut-list/publish`, { note: 'Ready for programming.' });
     expect(response.status).toBe(201);
+    // The studies list tells the field manager and the reviewer at once.
+    expect(await listedHandoff(field)).toEqual({ latestVersion: { number: 1, publishedAt: expect.any(String), programmedAt: null }, review: 'awaiting' });
     const { version, notified } = await body(response);
     expect(version.number).toBe(1);
     expect(version.publishedBy.name).toBeTruthy();
@@ -214,6 +223,7 @@ describe('programmed', () => {
     const { version, notified } = await body(response);
     expect(version).toMatchObject({ number: 2, programmedBy: { name: expect.any(String) } });
     expect(version.programmedAt).toEqual(expect.any(String));
+    expect((await listedHandoff(reviewer)).latestVersion).toEqual({ number: 2, publishedAt: expect.any(String), programmedAt: version.programmedAt });
     // The owner published version 2: the designers and its publisher are told.
     expect(demoOnly(notified)).toEqual([demoEmails.designer, demoEmails.owner]);
     expect(mailsAbout(studyName, before).filter((mail) => demoOnly([mail.to]).length > 0).map((mail) => [mail.to, mail.subject])).toEqual([
@@ -292,6 +302,7 @@ describe('review', () => {
     const changes = await reviewer.post(`/api/studies/${study.studyId}/review`, { verdict: 'changes_requested', comment: 'Keep coll_3, please.' });
     expect(changes.status).toBe(201);
     expect(await body(changes)).toMatchObject({ state: 'changes_requested', latestVersion: 2, current: { verdict: 'changes_requested', comment: 'Keep coll_3, please.', version: 2 } });
+    expect((await listedHandoff(designer)).review).toBe('changes_requested');
     expect(mailsAbout(studyName, before).filter((mail) => demoOnly([mail.to]).length > 0).map((m) => [m.to, m.subject])).toEqual([
       [demoEmails.designer, `Changes asked for on version 2 of “${studyName}”`],
       [demoEmails.owner, `Changes asked for on version 2 of “${studyName}”`],
@@ -301,6 +312,7 @@ describe('review', () => {
     const approved = await reviewer.post(`/api/studies/${study.studyId}/review`, { verdict: 'approved' });
     const state = await body(approved);
     expect(state).toMatchObject({ state: 'approved', latestVersion: 2 });
+    expect((await listedHandoff(designer)).review).toBe('approved');
     expect(demoOnly(state.notified)).toEqual([demoEmails.designer, demoEmails.owner]);
     expect(state.history.map((r: any) => r.verdict)).toEqual(['approved', 'changes_requested']);
     expect(mailsAbout(studyName, before).filter((mail) => demoOnly([mail.to]).length > 0).map((m) => m.subject)).toEqual([`Version 2 of “${studyName}” is approved`, `Version 2 of “${studyName}” is approved`]);

@@ -74,6 +74,12 @@ describe('the handoff in Chromium', () => {
       const { context, page, problems } = await freshContext(viewport);
       try {
         await signInThroughPage(page, demoEmails.field);
+        // The studies list says what waits on the field manager, with a link to it.
+        const row = page.locator('[data-testid=study-row]', { hasText: studyName });
+        await expect(row.locator('[data-testid=study-handoff]').textContent()).resolves.toBe('Cut list: Version 1 · not yet programmed · awaiting the client’s review');
+        await expect(row.locator('[data-testid=study-next-step]').getAttribute('href')).resolves.toBe(`/studies/${study.studyId}/field-list`);
+        await expect(row.locator('[data-testid=study-next-step]').textContent()).resolves.toBe('Version 1 to program');
+        await screenshot(page, 'handoff-field-dashboard');
         await page.getByRole('link', { name: studyName }).first().click();
         await page.waitForURL(new RegExp(`/studies/${study.studyId}$`));
         await page.locator('[data-testid=field-list-link]').click();
@@ -118,6 +124,8 @@ describe('the handoff in Chromium', () => {
       const { context, page, problems } = await freshContext(viewport);
       try {
         await signInThroughPage(page, demoEmails.reviewer);
+        const row = page.locator('[data-testid=study-row]', { hasText: studyName });
+        await expect(row.locator('[data-testid=study-next-step]').textContent()).resolves.toBe('Version 1 to review');
         await page.goto(`${baseUrl()}/studies/${study.studyId}`);
         await expect(page.locator('[data-testid=study-review-state]').textContent()).resolves.toContain('Awaiting the client’s review');
         await page.locator('[data-testid=review-link]').click();

@@ -7,7 +7,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import type { CutReason } from '../../src/lib/engine/recommend-cuts';
-import { cautionSentence, constraintWords, formatDuration, formatNumber, formatShare, listOf, pageCautions, reasonSentence, settingsLine, statusWords } from '../../src/lib/words';
+import { cautionSentence, constraintWords, formatDuration, formatNumber, formatShare, handoffLine, handoffNextStep, listOf, pageCautions, reasonSentence, settingsLine, statusWords } from '../../src/lib/words';
 
 const pair = { items: ['A1', 'A5'] as const, r: 0.9312, n: 211, lower: 0.9104, upper: 0.9473, wording: 0.4 };
 const base: CutReason = {
@@ -135,5 +135,28 @@ describe('labels and formats', () => {
     expect(formatNumber(1234.5678, 1)).toBe('1,234.6');
     expect(formatNumber(-0.004, 2)).toBe('\u22120.00');
     expect(settingsLine({ method: 'spearman', missing: 'listwise', bootstrap: 0, seed: 1, outcome: 'overall' })).toBe('Spearman, listwise deletion · no bootstrap · outcome overall');
+  });
+});
+
+describe('the handoff on the studies list', () => {
+  const published = { latestVersion: { number: 2, programmedAt: null }, review: 'awaiting' };
+  const programmed = { latestVersion: { number: 2, programmedAt: '2026-12-04T10:00:00.000Z' }, review: 'changes_requested' };
+
+  it('says where the handoff stands in one line', () => {
+    expect(handoffLine({ latestVersion: null, review: 'none-published' })).toBe('Nothing published yet');
+    expect(handoffLine(published)).toBe('Version 2 · not yet programmed · awaiting the client’s review');
+    expect(handoffLine(programmed)).toBe('Version 2 · programmed · changes requested by the client');
+    expect(handoffLine({ ...programmed, review: 'approved' })).toBe('Version 2 · programmed · approved by the client');
+  });
+
+  it('points each role only at its own next step', () => {
+    expect(handoffNextStep(published, 'field_manager', 's 1')).toEqual({ label: 'Version 2 to program', href: '/studies/s%201/field-list' });
+    expect(handoffNextStep(published, 'client_reviewer', 's1')).toEqual({ label: 'Version 2 to review', href: '/studies/s1/review' });
+    expect(handoffNextStep(published, 'designer', 's1')).toBeNull();
+    expect(handoffNextStep(programmed, 'field_manager', 's1')).toBeNull();
+    expect(handoffNextStep(programmed, 'client_reviewer', 's1')).toBeNull();
+    expect(handoffNextStep(programmed, 'designer', 's1')).toEqual({ label: 'Changes requested', href: '/studies/s1/review' });
+    expect(handoffNextStep(programmed, 'owner', 's1')).toEqual({ label: 'Changes requested', href: '/studies/s1/review' });
+    expect(handoffNextStep({ latestVersion: null, review: 'none-published' }, 'field_manager', 's1')).toBeNull();
   });
 });

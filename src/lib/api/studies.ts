@@ -3,6 +3,7 @@ import type { z } from 'zod';
 import type { createStudyRequest } from './schemas/studies';
 import type { Role } from '../permissions';
 import { callApi, segment, type ApiResult } from './client';
+import type { ReviewState } from './handoff';
 
 /** A study as lists show it. */
 export interface StudySummary {
@@ -14,6 +15,11 @@ export interface StudySummary {
   waves: number;
   audits: number;
   createdAt: string;
+  /** Where the handoff stands: the latest published version of the cut list and the client's verdict on it. */
+  handoff: {
+    latestVersion: { number: number; publishedAt: string; programmedAt: string | null } | null;
+    review: ReviewState;
+  };
 }
 
 /**

@@ -2,7 +2,7 @@
 import { and, count, desc, eq, inArray, sql } from 'drizzle-orm';
 import { preparedQuery } from '../../db/prepared-query';
 import type { z } from 'zod';
-import { audits, cutListVersions, decisions, studies, teams, waveItems, waves, type StudySettings } from '../../db/schema';
+import { audits, cutListVersions, decisions, reviews, studies, teams, waveItems, waves, type StudySettings } from '../../db/schema';
 import type { studySettingsRequestSchema } from '../api/cut-list';
 import { cutListCounts } from './cut-list';
 import { fail } from './errors';
@@ -48,6 +48,7 @@ export function listStudies(user: CurrentUser): StudySummary[] {
       .map((r) => [r.studyId, r.n]),
   );
   const roleByTeam = new Map(readable.map((m) => [m.teamId, m.role]));
+  const handoff = handoffOfStudies(ids);
   return rows.map((r) => ({
     id: r.id,
     name: r.name,
@@ -57,7 +58,46 @@ export function listStudies(user: CurrentUser): StudySummary[] {
     waves: waveCounts.get(r.id) ?? 0,
     audits: auditCounts.get(r.id) ?? 0,
     createdAt: r.createdAt.toISOString(),
+    handoff: handoff.get(r.id) ?? { latestVersion: null, review: 'none-published' },
   }));
+}
+
+/**
+ * Where each study's handoff stands, in two reads for the whole list: its latest published version
+ * (number, when published and programmed) and the newest verdict on that version (none: awaiting
+ * the client), as `reviewState` tells it for one study.
+ * @param ids the studies.
+ * @returns by study id; a study with no version is left out.
+ */
+function handoffOfStudies(ids: readonly string[]): Map<string, StudySummary['handoff']> {
+  const db = getDb();
+  const latest = new Map<string, { id: string; number: number; publishedAt: Date; programmedAt: Date | null }>();
+  const versionRows = db
+    .select({ id: cutListVersions.id, studyId: cutListVersions.studyId, number: cutListVersions.number, publishedAt: cutListVersions.publishedAt, programmedAt: cutListVersions.programmedAt })
+    .from(cutListVersions)
+    .where(inArray(cutListVersions.studyId, [...ids]))
+    .orderBy(desc(cutListVersions.number))
+    .all();
+  for (const row of versionRows) if (!latest.has(row.studyId)) latest.set(row.studyId, row);
+  const verdicts = new Map<string, 'approved' | 'changes_requested'>();
+  const versionIds = [...latest.values()].map((version) => version.id);
+  if (versionIds.length > 0) {
+    const reviewRows = db
+      .select({ versionId: reviews.cutListVersionId, verdict: reviews.verdict })
+      .from(reviews)
+      .where(inArray(reviews.cutListVersionId, versionIds))
+      .orderBy(desc(reviews.createdAt), desc(reviews.id))
+      .all();
+    for (const row of reviewRows) if (row.versionId !== null && !verdicts.has(row.versionId)) verdicts.set(row.versionId, row.verdict);
+  }
+  const result = new Map<string, StudySummary['handoff']>();
+  for (const [studyId, version] of latest) {
+    result.set(studyId, {
+      latestVersion: { number: version.number, publishedAt: version.publishedAt.toISOString(), programmedAt: version.programmedAt ? version.programmedAt.toISOString() : null },
+      review: verdicts.get(version.id) ?? 'awaiting',
+    });
+  }
+  return result;
 }
 
 // The study page's reads, built once (src/db/prepared-query.ts).

@@ -76,6 +76,45 @@ export const reviewStateWords: Record<string, string> = {
   changes_requested: 'Changes requested by the client',
 };
 
+/** The handoff of a study as the studies list shows it (StudySummary['handoff']). */
+interface HandoffAtAGlance {
+  latestVersion: { number: number; programmedAt: string | null } | null;
+  review: string;
+}
+
+/**
+ * Where a study's handoff stands, in one line for the studies list: "Nothing published yet", or
+ * the latest version, whether it is programmed, and the client's verdict on it.
+ * @param handoff the latest version and the review state.
+ * @returns the line.
+ */
+export function handoffLine(handoff: HandoffAtAGlance): string {
+  const version = handoff.latestVersion;
+  if (version === null) return 'Nothing published yet';
+  const review = (reviewStateWords[handoff.review] ?? handoff.review).replace(/^\p{Lu}/u, (first) => first.toLowerCase());
+  return `Version ${version.number} · ${version.programmedAt ? 'programmed' : 'not yet programmed'} · ${review}`;
+}
+
+/**
+ * The handoff's next step when it is the signed-in role's to take, as a link: the field manager
+ * programs a published version, the client reviewer reviews one that awaits a verdict, and the
+ * designers (and the owner) answer a request for changes. Other roles may do some of these too
+ * (an owner may mark a version programmed), but the list points each role only at its own part.
+ * @param handoff the latest version and the review state.
+ * @param role the signed-in member's role in the study's team.
+ * @param studyId the study, for the link.
+ * @returns the step's words and page, or null when nothing waits on this role.
+ */
+export function handoffNextStep(handoff: HandoffAtAGlance, role: string, studyId: string): { label: string; href: string } | null {
+  const version = handoff.latestVersion;
+  if (version === null) return null;
+  const study = `/studies/${encodeURIComponent(studyId)}`;
+  if (role === 'field_manager' && version.programmedAt === null) return { label: `Version ${version.number} to program`, href: `${study}/field-list` };
+  if (role === 'client_reviewer' && handoff.review === 'awaiting') return { label: `Version ${version.number} to review`, href: `${study}/review` };
+  if ((role === 'designer' || role === 'owner') && handoff.review === 'changes_requested') return { label: 'Changes requested', href: `${study}/review` };
+  return null;
+}
+
 /** The diff's change kinds as shown. */
 export const diffChangeWords: Record<string, string> = { added: 'New in this version', removed: 'No longer listed', changed: 'Changed' };
 
