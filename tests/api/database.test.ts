@@ -66,11 +66,16 @@ describe('migrations', () => {
     const db = openDatabase(join(folder, 'cascade.sqlite'));
     await seedDemo(db, { enabled: true, uploadDir: join(folder, 'cascade-uploads'), fixturesDir: 'fixtures/demo' });
     const count = (table: string) => (db.$client.prepare(`select count(*) as n from ${table}`).get() as { n: number }).n;
-    expect(count('waves')).toBe(1);
-    expect(count('wave_items')).toBeGreaterThan(30);
+    const itemsOf = (wave: string) => (db.$client.prepare('select count(*) as n from wave_items where wave_id = ?').get(wave) as { n: number }).n;
+    // Two demo studies with a wave each: the member survey's goes with its study, the other stays.
+    expect(count('waves')).toBe(2);
+    expect(itemsOf('wave-riverbend-pilot-1')).toBeGreaterThan(30);
+    const otherItems = itemsOf('wave-riverbend-home-service-pilot');
+    expect(otherItems).toBeGreaterThan(10);
     db.$client.prepare("delete from studies where id = 'study-riverbend-members-2027'").run();
-    expect(count('waves')).toBe(0);
-    expect(count('wave_items')).toBe(0);
+    expect(count('waves')).toBe(1);
+    expect(itemsOf('wave-riverbend-pilot-1')).toBe(0);
+    expect(count('wave_items')).toBe(otherItems);
     db.$client.close();
   });
 });
@@ -84,7 +89,7 @@ describe('demo seed', () => {
     expect(users.map((u) => u.email)).toEqual([
       'designer@paredown.test', 'field@paredown.test', 'outsider@paredown.test', 'owner@paredown.test', 'reviewer@paredown.test',
     ]);
-    const wave = db.$client.prepare('select * from waves').get() as { row_count: number; item_count: number; file_hash: string; matrix: Buffer; status: string; respondent_ids: string };
+    const wave = db.$client.prepare("select * from waves where id = 'wave-riverbend-pilot-1'").get() as { row_count: number; item_count: number; file_hash: string; matrix: Buffer; status: string; respondent_ids: string };
     expect(wave.row_count).toBe(400); // fixtures/demo/README.md: 400 members answered
     expect(wave.item_count).toBe(41); // fixtures/demo/README.md: 41 item columns in six scales
     expect(wave.status).toBe('confirmed');
@@ -95,6 +100,20 @@ describe('demo seed', () => {
     expect(reversed.map((r) => r.item_id)).toEqual(['staff_6']); // fixtures/demo/library-codebook.csv: the one reverse-keyed item
     const stored = db.$client.prepare('select storage_path from stored_files where hash = ?').get(wave.file_hash) as { storage_path: string };
     expect(readFileSync(join(folder, 'uploads', stored.storage_path))).toEqual(readFileSync('fixtures/demo/library-pilot-1.csv'));
+    // The home-service study: its wave audited, every item decided, version 1 published (not yet
+    // programmed or reviewed), and the publication's e-mails to the field manager and the reviewer.
+    const home = db.$client.prepare("select item_count, row_count from waves where id = 'wave-riverbend-home-service-pilot'").get() as { item_count: number; row_count: number };
+    expect(home.item_count).toBe(14); // src/lib/synth/demo.ts, HOME_SERVICE_SPEC: 14 items in three scales
+    const versions = db.$client.prepare("select number, programmed_at, items from cut_list_versions where study_id = 'study-riverbend-home-service-2026'").all() as { number: number; programmed_at: number | null; items: string }[];
+    expect(versions.map((v) => [v.number, v.programmed_at])).toEqual([[1, null]]);
+    const frozen = JSON.parse(versions[0].items) as { decision: string }[];
+    expect(frozen).toHaveLength(home.item_count);
+    expect(frozen.filter((item) => item.decision === 'undecided')).toEqual([]);
+    expect(frozen.filter((item) => item.decision !== 'keep').length).toBeGreaterThan(0);
+    expect((db.$client.prepare("select count(*) as n from reviews where study_id = 'study-riverbend-home-service-2026'").get() as { n: number }).n).toBe(0);
+    const mails = db.$client.prepare('select "to", subject from email_outbox order by id').all() as { to: string; subject: string }[];
+    expect(mails.map((mail) => mail.to).sort()).toEqual(['field@paredown.test', 'reviewer@paredown.test']);
+    for (const mail of mails) expect(mail.subject).toBe('Cut list version 1 of “Riverbend home library service survey 2026” is published');
     db.$client.close();
   });
 

@@ -43,7 +43,7 @@ afterAll(async () => {
 
 describe('the orphan sweep at start', () => {
   it('has removed orphans of any age once the started server answered /api/health, and kept the rest', async () => {
-    expect(seeded).toHaveLength(2); // the demo's responses and codebook (src/lib/server/demo-seed.ts)
+    expect(seeded).toHaveLength(4); // the responses and codebooks of the demo's two waves (src/lib/server/demo-seed.ts)
     expect(existsSync(join(database.uploadDir, at(oldOrphan)))).toBe(true);
     // startServerOn waits until GET /api/health answers: the only requests the server has seen.
     server = await startServerOn(database, { logName: 'file-sweep-on-start.log' });

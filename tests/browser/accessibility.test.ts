@@ -14,14 +14,16 @@ import { accessibilityViolations, freshContext, signInThroughPage } from '../set
 const audit = 'audit-riverbend-pilot-1';
 const wave = 'wave-riverbend-pilot-1';
 const study = `/studies/${demo.study}`;
+/** The study whose seeded cut list is published: the field list and the review page have a version to show. */
+const home = `/studies/${demo.homeStudy}`;
 
 /** Pages per demo user (null: signed out). */
 const pagesByUser: [string | null, string[]][] = [
   [null, ['/signin', '/forgot-password', '/no-such-page']],
   [demoEmails.owner, ['/', `/teams/${demo.team}/members`, '/account', '/outbox', '/studies/new']],
   [demoEmails.designer, [study, `/audits/${audit}`, `${study}/decisions`, `${study}/upload`, `${study}/waves/${wave}`, `${study}/activity`]],
-  [demoEmails.field, ['/', study, `${study}/field-list`]],
-  [demoEmails.reviewer, [study, `${study}/review`, `/audits/${audit}/memo`, `/audits/${audit}`]],
+  [demoEmails.field, ['/', study, `${study}/field-list`, home, `${home}/field-list`]],
+  [demoEmails.reviewer, ['/', study, `${study}/review`, `/audits/${audit}/memo`, `/audits/${audit}`, `${home}/review`]],
   // Another team's pages: the not-found page, styled (its stylesheet allowed by the page's policy).
   [demoEmails.outsider, [study, `/audits/${audit}`, `/teams/${demo.team}/members`, `${study}/waves/${wave}`]],
 ];

@@ -32,6 +32,11 @@ describe('dashboards in Chromium', () => {
           expect(studyList).toContain('Riverbend City Libraries member survey 2027');
           expect(studyList).not.toContain('Northgate resident panel');
         }
+        // The seeded home-service study's version 1 waits on the field manager and the reviewer (demo-handoff.ts).
+        const nextSteps = await page.locator('[data-testid=study-next-step]').allTextContents();
+        if (role === 'field_manager') expect(nextSteps).toContain('Version 1 to program');
+        else if (role === 'client_reviewer') expect(nextSteps).toContain('Version 1 to review');
+        else expect(nextSteps.filter((step) => step.startsWith('Version'))).toEqual([]);
         const canCreate = role === 'owner' || role === 'designer' || role === 'outsider';
         expect(await page.locator('button:has-text("New study")').count()).toBe(canCreate ? 1 : 0);
         await screenshot(page, role);

@@ -13,6 +13,8 @@ export const demo = {
   team: 'team-riverbend',
   outsideTeam: 'team-northgate',
   study: 'study-riverbend-members-2027',
+  /** The home-service study, seeded with version 1 of its cut list published (src/lib/server/demo-handoff.ts). */
+  homeStudy: 'study-riverbend-home-service-2026',
   outsideStudy: 'study-northgate-transport',
 } as const;
 

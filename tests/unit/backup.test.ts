@@ -109,8 +109,8 @@ describe('backup and restore', () => {
     expect(Object.keys(manifest.database.tables)).toEqual(Object.keys(before));
     expect(integrityCheck(copy)).toBe('ok');
     expect(manifest.database.sha256).toBe(sha256(copy));
-    // The demo stores two files (its pilot wave and codebook); the migration level is the journal's length.
-    expect(manifest.files).toHaveLength(2);
+    // The demo stores four files (each of its two waves and codebooks); the migration level is the journal's length.
+    expect(manifest.files).toHaveLength(4);
     expect(manifest.problems).toEqual([]);
     const journal = JSON.parse(readFileSync(join(root, 'drizzle', 'meta', '_journal.json'), 'utf8')) as { entries: { tag: string }[] };
     expect(manifest.database.migrations.applied).toBe(journal.entries.length);
@@ -119,15 +119,15 @@ describe('backup and restore', () => {
     const target = { databasePath: join(folder, 'restored', 'db', 'paredown.sqlite'), uploadDir: join(folder, 'restored', 'uploads') };
     const restored = restoreBackup({ from: join(folder, 'bk-1'), ...target });
     expect(restored.previousDatabase).toBeNull();
-    expect(restored.filesWritten).toBe(2);
+    expect(restored.filesWritten).toBe(4);
     expect(countRows(target.databasePath)).toEqual(manifest.database.tables);
     expect(integrityCheck(target.databasePath)).toBe('ok');
-    // Files: the live store's two files, byte for byte, at the same paths.
+    // Files: the live store's four files, byte for byte, at the same paths.
     expect(hashesUnder(target.uploadDir)).toEqual(hashesUnder(live.uploadDir));
     for (const [path, hash] of Object.entries(hashesUnder(target.uploadDir))) expect(path.endsWith(hash)).toBe(true);
     // The server opens it (migrations already applied: nothing to do) and reads the demo.
     const db = openDatabase(target.databasePath);
-    expect(db.$client.prepare('select name from studies order by name').all()).toHaveLength(2);
+    expect(db.$client.prepare('select name from studies order by name').all()).toHaveLength(3);
     db.$client.close();
   });
 
@@ -230,7 +230,7 @@ describe('backup and restore', () => {
     const tsx = join(root, 'node_modules', '.bin', 'tsx');
     const env = { ...process.env, DATABASE_PATH: live.databasePath, UPLOAD_DIR: live.uploadDir };
     const out = execFileSync(tsx, ['src/cli/backup.ts', '--out', join(folder, 'bk-cli')], { cwd: root, env, encoding: 'utf8' });
-    expect(out).toMatch(/^Backup written to .*bk-cli: the database \(\d+ rows, \d+ migrations\) and 2 uploaded files\.\n$/);
+    expect(out).toMatch(/^Backup written to .*bk-cli: the database \(\d+ rows, \d+ migrations\) and 4 uploaded files\.\n$/);
     const refused = spawnSync(tsx, ['src/cli/restore.ts', join(folder, 'bk-cli')], { cwd: root, env, encoding: 'utf8' });
     expect(refused.status).toBe(2);
     expect(refused.stderr.trim().split('\n')).toHaveLength(1);

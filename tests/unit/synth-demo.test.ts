@@ -6,7 +6,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import * as XLSX from 'xlsx-republish';
-import { DEMO_SPEC, demoWave } from '../../src/lib/synth/demo';
+import { DEMO_SPEC, demoWave, HOME_SERVICE_SPEC, homeServiceWave } from '../../src/lib/synth/demo';
 import { codebookToCsv, toCsv } from '../../src/lib/synth/wave-csv';
 import { pairsOf, pairwisePearson, preparedColumn, rawColumn } from './synth-helpers';
 
@@ -111,10 +111,36 @@ describe('demoWave', () => {
   });
 });
 
+describe('homeServiceWave (the demo\'s second study)', () => {
+  const home = homeServiceWave();
+
+  it('is the same on every call and has the stated shape: 300 respondents, 14 items in three scales, an outcome', () => {
+    expect(homeServiceWave()).toEqual(home);
+    expect(home.columns[0].values).toHaveLength(300);
+    expect(home.truth.scales.map((scale) => scale.items.length)).toEqual([5, 5, 4]);
+    expect(home.codebook.map((row) => row.item)).toEqual([...HOME_SERVICE_SPEC.scales.flatMap((scale) => scale.items.map((item) => item.name)), 'overall_sat']);
+  });
+
+  it('has its two planted pairs at r >= 0.8 and every other pair within a scale at r <= 0.75', () => {
+    const planted = new Set(home.truth.plantedPairs.map((pair) => pair.join('|')));
+    expect([...planted].sort()).toEqual(['choice_1|choice_4', 'visit_2|visit_5']);
+    for (const scale of home.truth.scales) {
+      for (const [a, b] of pairsOf(scale.items)) {
+        const r = pairwisePearson(preparedColumn(home, a, { reverse: true }), preparedColumn(home, b, { reverse: true }));
+        if (planted.has(`${a}|${b}`)) expect(r, `${a}-${b}`).toBeGreaterThanOrEqual(0.8);
+        else expect(r, `${a}-${b}`).toBeLessThanOrEqual(0.75);
+      }
+    }
+  });
+});
+
 describe('fixtures/demo (written by scripts/make-demo.ts)', () => {
   it('match the generator: regenerate with `npx tsx scripts/make-demo.ts` when this fails', () => {
     expect(readFileSync(join(FIXTURES, 'library-pilot-1.csv'), 'utf8')).toBe(toCsv(wave));
     expect(readFileSync(join(FIXTURES, 'library-codebook.csv'), 'utf8')).toBe(codebookToCsv(wave.codebook));
+    const home = homeServiceWave();
+    expect(readFileSync(join(FIXTURES, 'home-service-pilot.csv'), 'utf8')).toBe(toCsv(home));
+    expect(readFileSync(join(FIXTURES, 'home-service-codebook.csv'), 'utf8')).toBe(codebookToCsv(home.codebook));
   });
 
   it('workbook has the sheets responses and codebook with the same cells', () => {

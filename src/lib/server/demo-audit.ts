@@ -26,11 +26,13 @@ export const DEMO_AUDIT_ID = 'audit-riverbend-pilot-1';
 /**
  * Runs and stores the demo audit of a seeded wave.
  * @param db the database with the demo seeded.
- * @param ids the demo study and wave, and the user recorded as having started it.
+ * @param ids the demo study and wave, the user recorded as having started it, and the audit's id
+ *   (DEMO_AUDIT_ID by default).
  * @throws {Error} when the wave is missing or the audit fails (the seed then reports it).
  * @returns the audit id and how long it ran, in milliseconds.
  */
-export async function seedDemoAudit(db: Db, ids: { study: string; wave: string; startedBy: string }): Promise<{ id: string; runMs: number }> {
+export async function seedDemoAudit(db: Db, ids: { study: string; wave: string; startedBy: string; id?: string }): Promise<{ id: string; runMs: number }> {
+  const auditId = ids.id ?? DEMO_AUDIT_ID;
   const study = db.select().from(studies).where(eq(studies.id, ids.study)).get();
   const wave = db.select().from(waves).where(eq(waves.id, ids.wave)).get();
   if (!study || !wave?.matrix) throw new Error(`seedDemoAudit: the demo study ${ids.study} or its wave ${ids.wave} with stored responses is missing`);
@@ -38,7 +40,7 @@ export async function seedDemoAudit(db: Db, ids: { study: string; wave: string; 
   const startedAt = new Date();
   const result = await executeAuditJob(
     {
-      jobId: DEMO_AUDIT_ID,
+      jobId: auditId,
       wave: storedWaveForJob(db, wave, wave.matrix, null),
       settings,
       // The seed runs before the server reads its configuration: as many threads as the server's default.
@@ -51,7 +53,7 @@ export async function seedDemoAudit(db: Db, ids: { study: string; wave: string; 
   db.transaction((tx) => {
     tx.insert(audits)
       .values({
-        id: DEMO_AUDIT_ID,
+        id: auditId,
         waveId: wave.id,
         settings,
         settingsHash: auditSettingsHash(settings, wave.exclusions),
@@ -65,7 +67,7 @@ export async function seedDemoAudit(db: Db, ids: { study: string; wave: string; 
         finishedAt,
       })
       .run();
-    logActivity(tx, { teamId: study.teamId, studyId: study.id, userId: startedBy, action: 'audit.started', detail: { audit: DEMO_AUDIT_ID, wave: wave.id, method: settings.method, bootstrap: settings.bootstrap, seeded: true } });
+    logActivity(tx, { teamId: study.teamId, studyId: study.id, userId: startedBy, action: 'audit.started', detail: { audit: auditId, wave: wave.id, method: settings.method, bootstrap: settings.bootstrap, seeded: true } });
   });
-  return { id: DEMO_AUDIT_ID, runMs: finishedAt.getTime() - startedAt.getTime() };
+  return { id: auditId, runMs: finishedAt.getTime() - startedAt.getTime() };
 }

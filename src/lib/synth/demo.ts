@@ -168,3 +168,84 @@ export function demoWave(): SyntheticWave {
   }
   return { ...wave, columns: [...wave.columns, { name: 'comments', values: comments }, { name: 'email', values: emails }] };
 }
+
+/** Seed of the demo's second, smaller wave (the home library service survey). */
+export const HOME_SERVICE_SEED = 20260912;
+
+/** Invented name of the demo's second study, whose cut list the seed takes as far as publishing. */
+export const HOME_SERVICE_STUDY_NAME = 'Riverbend home library service survey 2026';
+
+/**
+ * The demo's second questionnaire: a short survey of the members whose books a home library
+ * service brings to their door, three scales of five-point items. Planted: the near-duplicate
+ * pairs visit_2/visit_5 and choice_1/choice_4; one missing code, a few blanks, straightliners and
+ * speeders.
+ */
+export const HOME_SERVICE_SPEC: WaveSpec = Object.freeze({
+  respondents: 300,
+  scales: [
+    {
+      name: 'visits',
+      points: 5,
+      items: [
+        { name: 'visit_1', text: 'The delivery arrives on the day I was told.' },
+        { name: 'visit_2', text: 'The volunteer who visits has time for a chat.' },
+        { name: 'visit_3', text: 'Changing the day of my delivery is easy.' },
+        { name: 'visit_4', text: 'I know whom to call when a delivery is late.' },
+        { name: 'visit_5', text: 'The volunteer who comes has time to talk with me.', twinOf: 'visit_2' },
+      ],
+    },
+    {
+      name: 'choice',
+      points: 5,
+      items: [
+        { name: 'choice_1', text: 'The books chosen for me suit my taste.' },
+        { name: 'choice_2', text: 'I can ask for particular titles.' },
+        { name: 'choice_3', text: 'Large-print books are available when I want them.' },
+        { name: 'choice_4', text: 'The books picked for me match what I like.', twinOf: 'choice_1' },
+        { name: 'choice_5', text: 'Audiobooks are offered to me.' },
+      ],
+    },
+    {
+      name: 'contact',
+      points: 5,
+      items: [
+        { name: 'contact_1', text: 'The service keeps me in touch with what happens at the library.' },
+        { name: 'contact_2', text: 'I feel the library has not forgotten me.' },
+        { name: 'contact_3', text: 'I would tell someone in my position to join the service.' },
+        { name: 'contact_4', text: 'Telephone calls from the library are friendly.' },
+      ],
+    },
+  ],
+  factorCorrelation: 0.3,
+  loadingRange: [0.55, 0.75],
+  twinNoise: 0.1,
+  skew: 0.6,
+  missingCodes: [{ code: 9, label: 'prefer not to say', rate: 0.01 }],
+  blankRate: 0.01,
+  constantItems: [],
+  duplicateColumns: [],
+  straightliners: 3,
+  speeders: 3,
+  medianDurationSeconds: 300,
+  idColumn: 'respondent_id',
+  durationColumn: 'duration_sec',
+  firstRespondentId: 260001,
+  outcome: {
+    name: 'overall_sat',
+    text: 'Overall, how satisfied are you with the home library service? (0 = not at all satisfied, 10 = completely satisfied)',
+    weights: [1, 0.8, 0.9],
+    noiseShare: 0.35,
+  },
+} satisfies WaveSpec);
+
+/**
+ * The demo's second wave: the invented home library service survey (300 respondents, 14 items in
+ * three scales, an overall-satisfaction outcome 0-10), generated from `HOME_SERVICE_SPEC` and
+ * `HOME_SERVICE_SEED`. The same call always returns the same wave. The data are invented.
+ * @returns The wave with its codebook and ground truth.
+ * References: Thurstone 1947, "Multiple-factor analysis" (common-factor model of the items).
+ */
+export function homeServiceWave(): SyntheticWave {
+  return generateWave(HOME_SERVICE_SPEC, HOME_SERVICE_SEED);
+}
