@@ -44,7 +44,7 @@ afterAll(async () => {
 });
 
 /** The study's handoff as the caller's studies list (GET /api/studies) shows it. */
-async function listedHandoff(client: Client): Promise<{ latestVersion: { number: number; publishedAt: string; programmedAt: string | null } | null; review: string }> {
+async function listedHandoff(client: Client): Promise<{ latestVersion: { number: number; publishedAt: string; programmedAt: string | null } | null; review: string; undecided: number | null }> {
   const { studies } = await body(await client.get('/api/studies'));
   return studies.find((entry: { id: string }) => entry.id === study.studyId).handoff;
 }
@@ -58,8 +58,10 @@ describe('publishing', () => {
     expect(refusal.code).toBe('items-undecided');
     expect(refusal.message).toContain(`${study.items.length} items are undecided`);
     expect(refusal.message).toContain(study.items[0]);
+    expect((await listedHandoff(designer)).undecided).toBe(study.items.length);
 
     await decide(study.studyId, demoEmails.designer, keepAll(study.items.filter((id) => id !== 'coll_3' && id !== 'dig_5')));
+    expect((await listedHandoff(designer)).undecided).toBe(2);
     const two = await designer.post(`/api/studies/${study.studyId}/cut-list/publish`, {});
     expect(two.status).toBe(409);
     expect((await body(two)).error.message).toMatch(/^The cut list cannot be published while 2 items are undecided: coll_3 and dig_5\./);
@@ -70,6 +72,9 @@ describe('publishing', () => {
   it('refuses a study without a confirmed wave, and a bad body', async () => {
     const empty = await createStudy(designer, demo.team, 'Handoff API test without a wave');
     made.push(empty);
+    // Nothing to decide before a wave is confirmed.
+    const { studies } = await body(await designer.get('/api/studies'));
+    expect(studies.find((entry: { id: string }) => entry.id === empty).handoff).toEqual({ latestVersion: null, review: 'none-published', undecided: null });
     const response = await designer.post(`/api/studies/${empty}/cut-list/publish`, {});
     expect(response.status).toBe(409);
     expect((await body(response)).error.code).toBe('no-confirmed-wave');
@@ -85,12 +90,12 @@ describe('publishing', () => {
       hours_2: { decision: 'merge', into: 'hours_1', reason: FORMULA_REASON },
       coll_1: { decision: 'reword', wording: MARKUP_WORDING, reason: 'Clearer.' },
     });
-    expect(await listedHandoff(field)).toEqual({ latestVersion: null, review: 'none-published' });
+    expect(await listedHandoff(field)).toEqual({ latestVersion: null, review: 'none-published', undecided: 0 });
     const before = lastMailId();
     const response = await designer.post(`/api/studies/${study.studyId}/cut-list/publish`, { note: 'Ready for programming.' });
     expect(response.status).toBe(201);
     // The studies list tells the field manager and the reviewer at once.
-    expect(await listedHandoff(field)).toEqual({ latestVersion: { number: 1, publishedAt: expect.any(String), programmedAt: null }, review: 'awaiting' });
+    expect(await listedHandoff(field)).toEqual({ latestVersion: { number: 1, publishedAt: expect.any(String), programmedAt: null }, review: 'awaiting', undecided: 0 });
     const { version, notified } = await body(response);
     expect(version.number).toBe(1);
     expect(version.publishedBy.name).toBeTruthy();

@@ -37,6 +37,11 @@ describe('dashboards in Chromium', () => {
         if (role === 'field_manager') expect(nextSteps).toContain('Version 1 to program');
         else if (role === 'client_reviewer') expect(nextSteps).toContain('Version 1 to review');
         else expect(nextSteps.filter((step) => step.startsWith('Version'))).toEqual([]);
+        // The member survey is audited and unpublished: its designers are pointed at deciding (or publishing).
+        const member = page.locator('[data-testid=study-row]', { hasText: 'Riverbend City Libraries member survey 2027' });
+        const memberStep = member.locator('[data-testid=study-next-step]');
+        if (role === 'owner' || role === 'designer') await expect(memberStep.textContent()).resolves.toMatch(/^(\d+ items? to decide|Ready to publish)$/);
+        else expect(await memberStep.count()).toBe(0);
         const canCreate = role === 'owner' || role === 'designer' || role === 'outsider';
         expect(await page.locator('button:has-text("New study")').count()).toBe(canCreate ? 1 : 0);
         await screenshot(page, role);

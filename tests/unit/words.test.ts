@@ -139,11 +139,12 @@ describe('labels and formats', () => {
 });
 
 describe('the handoff on the studies list', () => {
-  const published = { latestVersion: { number: 2, programmedAt: null }, review: 'awaiting' };
-  const programmed = { latestVersion: { number: 2, programmedAt: '2026-12-04T10:00:00.000Z' }, review: 'changes_requested' };
+  const published = { latestVersion: { number: 2, programmedAt: null }, review: 'awaiting', undecided: 0 };
+  const programmed = { latestVersion: { number: 2, programmedAt: '2026-12-04T10:00:00.000Z' }, review: 'changes_requested', undecided: 0 };
+  const unpublished = (undecided: number | null) => ({ latestVersion: null, review: 'none-published', undecided });
 
   it('says where the handoff stands in one line', () => {
-    expect(handoffLine({ latestVersion: null, review: 'none-published' })).toBe('Nothing published yet');
+    expect(handoffLine(unpublished(3))).toBe('Nothing published yet');
     expect(handoffLine(published)).toBe('Version 2 · not yet programmed · awaiting the client’s review');
     expect(handoffLine(programmed)).toBe('Version 2 · programmed · changes requested by the client');
     expect(handoffLine({ ...programmed, review: 'approved' })).toBe('Version 2 · programmed · approved by the client');
@@ -157,6 +158,12 @@ describe('the handoff on the studies list', () => {
     expect(handoffNextStep(programmed, 'client_reviewer', 's1')).toBeNull();
     expect(handoffNextStep(programmed, 'designer', 's1')).toEqual({ label: 'Changes requested', href: '/studies/s1/review' });
     expect(handoffNextStep(programmed, 'owner', 's1')).toEqual({ label: 'Changes requested', href: '/studies/s1/review' });
-    expect(handoffNextStep({ latestVersion: null, review: 'none-published' }, 'field_manager', 's1')).toBeNull();
+    expect(handoffNextStep(unpublished(3), 'field_manager', 's1')).toBeNull();
+    expect(handoffNextStep(unpublished(3), 'client_reviewer', 's1')).toBeNull();
+    // Before the first version, the designers' part: decide, then publish.
+    expect(handoffNextStep(unpublished(3), 'designer', 's1')).toEqual({ label: '3 items to decide', href: '/studies/s1/decisions' });
+    expect(handoffNextStep(unpublished(1), 'owner', 's1')).toEqual({ label: '1 item to decide', href: '/studies/s1/decisions' });
+    expect(handoffNextStep(unpublished(0), 'designer', 's1')).toEqual({ label: 'Ready to publish', href: '/studies/s1' });
+    expect(handoffNextStep(unpublished(null), 'designer', 's1')).toBeNull();
   });
 });

@@ -15,10 +15,15 @@ export interface StudySummary {
   waves: number;
   audits: number;
   createdAt: string;
-  /** Where the handoff stands: the latest published version of the cut list and the client's verdict on it. */
+  /**
+   * Where the handoff stands: the latest published version of the cut list, the client's verdict
+   * on it, and how many items of the study's cut list have no decision yet (null before any wave is
+   * confirmed).
+   */
   handoff: {
     latestVersion: { number: number; publishedAt: string; programmedAt: string | null } | null;
     review: ReviewState;
+    undecided: number | null;
   };
 }
 

@@ -111,7 +111,7 @@ function baseItems(db: Db, studyId: string, reference: ReferenceAudit | null): B
 }
 
 /** Locks and constraints: the study's, with the reference audit's locks added. */
-function constraintsOf(study: StudyRow, reference: ReferenceAudit | null): CutListConstraints {
+function constraintsOf(study: Pick<StudyRow, 'settings'>, reference: ReferenceAudit | null): CutListConstraints {
   const auditSettings = reference?.settings ?? {};
   const number = (value: unknown) => (typeof value === 'number' && Number.isFinite(value) ? value : null);
   const auditLocked = Array.isArray(auditSettings.locked) ? (auditSettings.locked as unknown[]).filter((id): id is string => typeof id === 'string') : [];
@@ -154,7 +154,7 @@ interface DecidedItems {
  * @param study the study (access checked by the guard).
  * @returns the reference audit, constraints, items, counts and the reference audit's recommendations.
  */
-function decidedItems(db: Db, study: StudyRow): DecidedItems {
+function decidedItems(db: Db, study: Pick<StudyRow, 'id' | 'settings'>): DecidedItems {
   const reference = referenceAudit(db, study.id);
   const base = baseItems(db, study.id, reference);
   const constraints = constraintsOf(study, reference);
@@ -259,7 +259,7 @@ export function cutList(study: StudyRow, role: Role | null): CutListResponse {
  * @param study the study.
  * @returns counts per decision.
  */
-export function cutListCounts(study: StudyRow): Record<DecisionKind, number> {
+export function cutListCounts(study: Pick<StudyRow, 'id' | 'settings'>): Record<DecisionKind, number> {
   return decidedItems(getDb(), study).counts;
 }
 

@@ -26,7 +26,7 @@ export function listStudies(user: CurrentUser): StudySummary[] {
   if (readable.length === 0) return [];
   const db = getDb();
   const rows = db
-    .select({ id: studies.id, name: studies.name, description: studies.description, teamId: studies.teamId, teamName: teams.name, createdAt: studies.createdAt })
+    .select({ id: studies.id, name: studies.name, description: studies.description, settings: studies.settings, teamId: studies.teamId, teamName: teams.name, createdAt: studies.createdAt })
     .from(studies)
     .innerJoin(teams, eq(teams.id, studies.teamId))
     .where(inArray(studies.teamId, readable.map((m) => m.teamId)))
@@ -58,7 +58,11 @@ export function listStudies(user: CurrentUser): StudySummary[] {
     waves: waveCounts.get(r.id) ?? 0,
     audits: auditCounts.get(r.id) ?? 0,
     createdAt: r.createdAt.toISOString(),
-    handoff: handoff.get(r.id) ?? { latestVersion: null, review: 'none-published' },
+    handoff: {
+      ...(handoff.get(r.id) ?? { latestVersion: null, review: 'none-published' }),
+      // The items of the reference audit (else of the latest confirmed wave) without a decision.
+      undecided: (waveCounts.get(r.id) ?? 0) === 0 ? null : cutListCounts(r).undecided,
+    },
   }));
 }
 
@@ -69,7 +73,7 @@ export function listStudies(user: CurrentUser): StudySummary[] {
  * @param ids the studies.
  * @returns by study id; a study with no version is left out.
  */
-function handoffOfStudies(ids: readonly string[]): Map<string, StudySummary['handoff']> {
+function handoffOfStudies(ids: readonly string[]): Map<string, Omit<StudySummary['handoff'], 'undecided'>> {
   const db = getDb();
   const latest = new Map<string, { id: string; number: number; publishedAt: Date; programmedAt: Date | null }>();
   const versionRows = db
@@ -90,7 +94,7 @@ function handoffOfStudies(ids: readonly string[]): Map<string, StudySummary['han
       .all();
     for (const row of reviewRows) if (row.versionId !== null && !verdicts.has(row.versionId)) verdicts.set(row.versionId, row.verdict);
   }
-  const result = new Map<string, StudySummary['handoff']>();
+  const result = new Map<string, Omit<StudySummary['handoff'], 'undecided'>>();
   for (const [studyId, version] of latest) {
     result.set(studyId, {
       latestVersion: { number: version.number, publishedAt: version.publishedAt.toISOString(), programmedAt: version.programmedAt ? version.programmedAt.toISOString() : null },

@@ -80,6 +80,8 @@ export const reviewStateWords: Record<string, string> = {
 interface HandoffAtAGlance {
   latestVersion: { number: number; programmedAt: string | null } | null;
   review: string;
+  /** Items without a decision; null before any wave is confirmed. */
+  undecided: number | null;
 }
 
 /**
@@ -96,10 +98,11 @@ export function handoffLine(handoff: HandoffAtAGlance): string {
 }
 
 /**
- * The handoff's next step when it is the signed-in role's to take, as a link: the field manager
- * programs a published version, the client reviewer reviews one that awaits a verdict, and the
- * designers (and the owner) answer a request for changes. Other roles may do some of these too
- * (an owner may mark a version programmed), but the list points each role only at its own part.
+ * The handoff's next step when it is the signed-in role's to take, as a link: before the first
+ * version, the designers (and the owner) decide the items still undecided, then publish; the field
+ * manager programs a published version, the client reviewer reviews one that awaits a verdict, and
+ * the designers answer a request for changes. Other roles may do some of these too (an owner may
+ * mark a version programmed), but the list points each role only at its own part.
  * @param handoff the latest version and the review state.
  * @param role the signed-in member's role in the study's team.
  * @param studyId the study, for the link.
@@ -107,11 +110,16 @@ export function handoffLine(handoff: HandoffAtAGlance): string {
  */
 export function handoffNextStep(handoff: HandoffAtAGlance, role: string, studyId: string): { label: string; href: string } | null {
   const version = handoff.latestVersion;
-  if (version === null) return null;
   const study = `/studies/${encodeURIComponent(studyId)}`;
+  const designs = role === 'designer' || role === 'owner';
+  if (version === null) {
+    if (!designs || handoff.undecided === null) return null;
+    if (handoff.undecided > 0) return { label: `${handoff.undecided} ${handoff.undecided === 1 ? 'item' : 'items'} to decide`, href: `${study}/decisions` };
+    return { label: 'Ready to publish', href: study };
+  }
   if (role === 'field_manager' && version.programmedAt === null) return { label: `Version ${version.number} to program`, href: `${study}/field-list` };
   if (role === 'client_reviewer' && handoff.review === 'awaiting') return { label: `Version ${version.number} to review`, href: `${study}/review` };
-  if ((role === 'designer' || role === 'owner') && handoff.review === 'changes_requested') return { label: 'Changes requested', href: `${study}/review` };
+  if (designs && handoff.review === 'changes_requested') return { label: 'Changes requested', href: `${study}/review` };
   return null;
 }
 
