@@ -49,6 +49,19 @@ async function listedHandoff(client: Client): Promise<{ latestVersion: { number:
   return studies.find((entry: { id: string }) => entry.id === study.studyId).handoff;
 }
 
+describe('the studies list', () => {
+  it('counts the undecided items as the study page does, for an unpublished and a published study', async () => {
+    const { studies } = await body(await designer.get('/api/studies'));
+    for (const id of [demo.study, demo.homeStudy, study.studyId]) {
+      const detail = (await body(await designer.get(`/api/studies/${id}`))).study;
+      expect(studies.find((entry: { id: string }) => entry.id === id).handoff.undecided, id).toBe(detail.cutList.counts.undecided);
+    }
+    // The seeded home-service study has every item decided; the new one none.
+    expect(studies.find((entry: { id: string }) => entry.id === demo.homeStudy).handoff.undecided).toBe(0);
+    expect(studies.find((entry: { id: string }) => entry.id === study.studyId).handoff.undecided).toBe(study.items.length);
+  });
+});
+
 describe('publishing', () => {
   it('refuses with 409 naming the undecided items, and writes nothing', async () => {
     const before = lastMailId();

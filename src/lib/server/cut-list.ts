@@ -263,6 +263,37 @@ export function cutListCounts(study: Pick<StudyRow, 'id' | 'settings'>): Record<
   return decidedItems(getDb(), study).counts;
 }
 
+/** The item ids of a done audit's JSON, read by SQLite's JSON functions (nothing parsed in JavaScript). */
+const auditItemIds = preparedQuery((db) =>
+  db
+    .select({ id: sql<string>`json_extract(items.value, '$.id')` })
+    .from(sql`${audits}, json_each(${audits.result}, '$.items') as items`)
+    .where(eq(audits.id, sql.placeholder('auditId')))
+    .prepare(),
+);
+
+/**
+ * How many items of the study's cut list have no decision, as `cutListCounts` counts them, for the
+ * studies list: the reference audit's item ids are read by SQLite's JSON functions, so listing many
+ * studies neither parses their audits' JSON nor pushes the study pages' parsed results out of the
+ * per-process cache (docs/decisions/023-page-cost.md).
+ * @param db the database.
+ * @param studyId the study.
+ * @returns the number of undecided items (0 when the study has no items yet).
+ */
+export function undecidedCount(db: Db, studyId: string): number {
+  const reference = latestDoneAudit(db).get({ studyId });
+  const ids = reference ? auditItemIds(db).all({ auditId: reference.id }).map((row) => row.id) : baseItems(db, studyId, null).map((item) => item.id);
+  const rows = decisionsOfStudy(db).all({ studyId });
+  const decisionOf = new Map(rows.map((row) => [row.itemId, row.decision]));
+  const listed = new Set(ids);
+  let undecided = 0;
+  for (const id of ids) if ((decisionOf.get(id) ?? 'undecided') === 'undecided') undecided += 1;
+  // Decisions on items the reference audit does not have are listed too (decidedItems).
+  for (const row of rows) if (!listed.has(row.itemId) && row.decision === 'undecided') undecided += 1;
+  return undecided;
+}
+
 /**
  * The cut list's items and its counts from one pass (the study page shows both).
  * @param study the study (access checked by the guard).

@@ -4,7 +4,7 @@ import { preparedQuery } from '../../db/prepared-query';
 import type { z } from 'zod';
 import { audits, cutListVersions, decisions, reviews, studies, teams, waveItems, waves, type StudySettings } from '../../db/schema';
 import type { studySettingsRequestSchema } from '../api/cut-list';
-import { cutListCounts } from './cut-list';
+import { cutListCounts, undecidedCount } from './cut-list';
 import { fail } from './errors';
 import { can, type Role } from '../permissions';
 import { logActivity } from './activity';
@@ -26,7 +26,7 @@ export function listStudies(user: CurrentUser): StudySummary[] {
   if (readable.length === 0) return [];
   const db = getDb();
   const rows = db
-    .select({ id: studies.id, name: studies.name, description: studies.description, settings: studies.settings, teamId: studies.teamId, teamName: teams.name, createdAt: studies.createdAt })
+    .select({ id: studies.id, name: studies.name, description: studies.description, teamId: studies.teamId, teamName: teams.name, createdAt: studies.createdAt })
     .from(studies)
     .innerJoin(teams, eq(teams.id, studies.teamId))
     .where(inArray(studies.teamId, readable.map((m) => m.teamId)))
@@ -61,7 +61,7 @@ export function listStudies(user: CurrentUser): StudySummary[] {
     handoff: {
       ...(handoff.get(r.id) ?? { latestVersion: null, review: 'none-published' }),
       // The items of the reference audit (else of the latest confirmed wave) without a decision.
-      undecided: (waveCounts.get(r.id) ?? 0) === 0 ? null : cutListCounts(r).undecided,
+      undecided: (waveCounts.get(r.id) ?? 0) === 0 ? null : undecidedCount(db, r.id),
     },
   }));
 }
