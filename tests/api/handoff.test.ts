@@ -8,7 +8,7 @@ import Papa from 'papaparse';
 import * as XLSX from 'xlsx-republish';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { body, type Client, demo, demoEmails, signedIn } from '../setup/http';
-import { createStudy } from './waves-http';
+import { createStudy, demoDirectory, fixture, postWave } from './waves-http';
 import { decide, handoffStudy, type HandoffStudy, keepAll, lastMailId, mailsAbout } from './handoff-http';
 
 let owner: Client;
@@ -85,9 +85,12 @@ describe('publishing', () => {
   it('refuses a study without a confirmed wave, and a bad body', async () => {
     const empty = await createStudy(designer, demo.team, 'Handoff API test without a wave');
     made.push(empty);
-    // Nothing to decide before a wave is confirmed.
-    const { studies } = await body(await designer.get('/api/studies'));
-    expect(studies.find((entry: { id: string }) => entry.id === empty).handoff).toEqual({ latestVersion: null, review: 'none-published', undecided: null });
+    // Nothing to decide (nor to publish) before a wave is confirmed, even with one uploaded.
+    const listed = async () => (await body(await designer.get('/api/studies'))).studies.find((entry: { id: string }) => entry.id === empty).handoff;
+    expect(await listed()).toEqual({ latestVersion: null, review: 'none-published', undecided: null });
+    const uploaded = await postWave(designer, empty, fixture(demoDirectory, 'home-service-pilot.csv'), { codebook: fixture(demoDirectory, 'home-service-codebook.csv') });
+    expect(uploaded.status).toBe(201);
+    expect(await listed()).toEqual({ latestVersion: null, review: 'none-published', undecided: null });
     const response = await designer.post(`/api/studies/${empty}/cut-list/publish`, {});
     expect(response.status).toBe(409);
     expect((await body(response)).error.code).toBe('no-confirmed-wave');

@@ -279,12 +279,14 @@ const auditItemIds = preparedQuery((db) =>
  * per-process cache (docs/decisions/023-page-cost.md).
  * @param db the database.
  * @param studyId the study.
- * @returns the number of undecided items (0 when the study has no items yet).
+ * @returns the number of undecided items, or null when the cut list has no items yet (no finished
+ *   audit and no confirmed wave): then there is nothing to decide, and nothing to publish either.
  */
-export function undecidedCount(db: Db, studyId: string): number {
+export function undecidedCount(db: Db, studyId: string): number | null {
   const reference = latestDoneAudit(db).get({ studyId });
   const ids = reference ? auditItemIds(db).all({ auditId: reference.id }).map((row) => row.id) : baseItems(db, studyId, null).map((item) => item.id);
   const rows = decisionsOfStudy(db).all({ studyId });
+  if (ids.length === 0 && rows.length === 0) return null;
   const decisionOf = new Map(rows.map((row) => [row.itemId, row.decision]));
   const listed = new Set(ids);
   let undecided = 0;

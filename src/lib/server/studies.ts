@@ -61,7 +61,7 @@ export function listStudies(user: CurrentUser): StudySummary[] {
     handoff: {
       ...(handoff.get(r.id) ?? { latestVersion: null, review: 'none-published' }),
       // The items of the reference audit (else of the latest confirmed wave) without a decision.
-      undecided: (waveCounts.get(r.id) ?? 0) === 0 ? null : undecidedCount(db, r.id),
+      undecided: undecidedCount(db, r.id),
     },
   }));
 }
